@@ -1,0 +1,65 @@
+/**
+ * Gaussian change-in-mean-and-variance cost.
+ */
+import type { SegmentCost } from './segmentCost';
+
+/** Variance floor of {@link meanVarCost}, relative to the variance of the whole series. */
+export const MEANVAR_FLOOR = 1e-8;
+
+/**
+ * Builds the change-in-mean-and-variance cost
+ *
+ *   C(s, t) = W (log s2 + v / s2),  v = weighted variance of the segment about its mean,
+ *   s2 = max(v, floor),  W = sum of weights,
+ *
+ * which is twice the Gaussian negative log-likelihood minimised over the mean
+ * and over variances >= floor, up to a constant (the form of Killick et al. 2012
+ * with an explicit floor). The floor guards segments of (near-)equal values,
+ * whose variance 0 would give cost -infinity: floor = {@link MEANVAR_FLOOR} times
+ * the variance of the whole series, after the data are standardised. Because the
+ * floored cost is still a minimum over parameters, PELT's pruning stays exact.
+ * Weights are case weights. Unchecked: y finite, w > 0, scale > 0.
+ *
+ * @param y - values
+ * @param w - case weights
+ * @param centre - subtracted before the sums (e.g. the mean)
+ * @param scale - divided out before the sums (e.g. the standard deviation), so floor is relative
+ * @returns the cost and `floored(s, t)`, true when a segment's variance was raised to the floor
+ * @example
+ * ```ts
+ * const c = meanVarCost(y, w, mean, sd);
+ * c.cost(0, y.length);
+ * ```
+ */
+export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, scale: number): SegmentCost & { floored(s: number, t: number): boolean; variance(s: number, t: number): number } {
+  const n = y.length;
+  const sw = new Float64Array(n + 1);
+  const s1 = new Float64Array(n + 1);
+  const s2 = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) {
+    const z = (y[i] - centre) / scale;
+    sw[i + 1] = sw[i] + w[i];
+    s1[i + 1] = s1[i] + w[i] * z;
+    s2[i + 1] = s2[i] + w[i] * z * z;
+  }
+  const floor = MEANVAR_FLOOR;
+  const variance = (s: number, t: number): number => {
+    const W = sw[t] - sw[s];
+    const a = s1[t] - s1[s];
+    const v = (s2[t] - s2[s] - (a * a) / W) / W;
+    return v > 0 ? v : 0;
+  };
+  return {
+    n,
+    cost(s: number, t: number): number {
+      const W = sw[t] - sw[s];
+      const a = s1[t] - s1[s];
+      let v = (s2[t] - s2[s] - (a * a) / W) / W;
+      if (!(v > 0)) v = 0;
+      const s2f = v > floor ? v : floor;
+      return W * (Math.log(s2f) + v / s2f);
+    },
+    floored(s: number, t: number): boolean { return variance(s, t) <= floor; },
+    variance,
+  };
+}

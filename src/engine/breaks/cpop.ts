@@ -1,0 +1,278 @@
+/**
+ * CPOP: exact L0-penalised continuous piecewise-linear fit (changes in slope).
+ */
+
+/** Result of {@link cpop}. */
+export interface SlopeSegmentation {
+  /** Point indices of the kinks, increasing, excluding the two end points. */
+  changes: number[];
+  /** Fitted values at the knots: [first point, ...kinks, last point]. */
+  knotValues: number[];
+  /** Minimised residual cost sum w (y - f)^2 (in the units of the y given). */
+  cost: number;
+  /** cost + penalty * changes.length. */
+  penalisedCost: number;
+  /** Quadratic pieces evaluated over all steps. */
+  evaluations: number;
+  /** Most candidate pieces held at one step. */
+  maxCandidates: number;
+  /** Mean candidate pieces per step. */
+  meanCandidates: number;
+}
+
+/** Growable store of quadratics a phi^2 + b phi + c with back-pointers. */
+class QuadStore {
+  a: Float64Array = new Float64Array(1024);
+  b: Float64Array = new Float64Array(1024);
+  c: Float64Array = new Float64Array(1024);
+  parent: Int32Array = new Int32Array(1024);
+  /** Back-map of the value at the parent's point: phi_parent = alpha + gamma * phi. */
+  alpha: Float64Array = new Float64Array(1024);
+  gamma: Float64Array = new Float64Array(1024);
+  time: Int32Array = new Int32Array(1024);
+  die: Float64Array = new Float64Array(1024);
+  size = 0;
+  push(a: number, b: number, c: number, parent: number, alpha: number, gamma: number, time: number): number {
+    if (this.size === this.a.length) this.grow();
+    const i = this.size++;
+    this.a[i] = a; this.b[i] = b; this.c[i] = c; this.parent[i] = parent;
+    this.alpha[i] = alpha; this.gamma[i] = gamma; this.time[i] = time; this.die[i] = Infinity;
+    return i;
+  }
+  private grow(): void {
+    const n = this.a.length * 2;
+    const f = (o: Float64Array): Float64Array => { const r = new Float64Array(n); r.set(o); return r; };
+    const g = (o: Int32Array): Int32Array => { const r = new Int32Array(n); r.set(o); return r; };
+    this.a = f(this.a); this.b = f(this.b); this.c = f(this.c); this.parent = g(this.parent);
+    this.alpha = f(this.alpha); this.gamma = f(this.gamma); this.time = g(this.time); this.die = f(this.die);
+  }
+}
+
+/**
+ * Smallest phi > from at which quadratic o (coefficients a2, a1, a0 of o - cur) becomes
+ * lower than cur; Infinity when it never does. Unchecked.
+ */
+function crossing(d2: number, d1: number, d0: number, from: number): number {
+  const scale = Math.abs(d2) + Math.abs(d1) + Math.abs(d0);
+  if (scale === 0) return Infinity;
+  if (Math.abs(d2) <= 1e-14 * scale) {
+    if (d1 >= 0) return Infinity;
+    const r = -d0 / d1;
+    return r > from ? r : Infinity;
+  }
+  const disc = d1 * d1 - 4 * d2 * d0;
+  if (disc <= 0) return Infinity;
+  const sq = Math.sqrt(disc);
+  const qq = -0.5 * (d1 + (d1 >= 0 ? sq : -sq));
+  let r1 = qq / d2;
+  let r2 = qq !== 0 ? d0 / qq : r1;
+  if (r1 > r2) { const t = r1; r1 = r2; r2 = t; }
+  // d2 > 0: o - cur < 0 on (r1, r2), entered at r1; d2 < 0: negative beyond r2
+  const r = d2 > 0 ? r1 : r2;
+  return r > from ? r : Infinity;
+}
+
+/**
+ * Exact minimiser of the L0-penalised change-in-slope criterion
+ *
+ *   sum_i w_i (y_i - f(x_i))^2 + beta * (number of kinks),
+ *
+ * over continuous piecewise-linear f with kinks at data points, by CPOP (Fearnhead,
+ * Maidstone & Letchford 2019, "Detecting changes in slope with an L0 penalty", JCGS
+ * 28:265-275). The state is the fitted value phi at the latest kink: f_t(phi) is the
+ * best penalised cost of points 0..t with a knot at t of value phi, a minimum of
+ * quadratics in phi, one per kink history:
+ *
+ *   f_0(phi) = w_0 (y_0 - phi)^2 - beta,
+ *   f_t(phi) = min_{s < t} min_{phi'} [ f_s(phi') + C(s, t, phi', phi) ] + beta,
+ *
+ * where C is the residual sum of squares of the points in (s, t] about the line from
+ * (x_s, phi') to (x_t, phi): a quadratic in (phi', phi) from running sums. Minimising a
+ * quadratic piece over phi' gives a quadratic in phi (coefficient of phi^2 stays > 0).
+ * Functional pruning: only the pieces on the lower envelope of f_s (those optimal for
+ * some phi) are extended. Inequality pruning: a piece from s is dropped at t when
+ * q(phi) >= f_t(phi) + beta for every phi, because a kink at t through the same value
+ * is then at least as good for every future point (takes effect after `minSegment`
+ * steps). Both rules keep the search exact.
+ *
+ * x must be strictly increasing (merge tied x first, carrying sum w y^2 in `wyy`).
+ * Running sums are kept per candidate relative to its own x, so no cancellation
+ * grows with the position in the series.
+ *
+ * Stopping rule: none needed; one pass over the points (lower envelopes are built by a
+ * sweep that ends after at most 2K - 1 pieces for K quadratics).
+ *
+ * @param x - strictly increasing positions (scaled to order 1 for accuracy)
+ * @param y - weighted mean of y at each position
+ * @param w - total weight at each position
+ * @param wyy - sum of w y^2 at each position (w y^2 when not merged)
+ * @param penalty - beta >= 0 on the scale of sum w (y - f)^2
+ * @param minSegment - fewest positions strictly after a knot up to and including the next (>= 1)
+ * @example
+ * ```ts
+ * const r = cpop(x, y, w, wyy, 2 * Math.log(n), 1);
+ * r.changes; // kink indices
+ * ```
+ */
+export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number): SlopeSegmentation {
+  const n = x.length;
+  const beta = penalty;
+  const Q = new QuadStore();
+  // per start point s: running sums over (s, t] with d = x_i - x_s
+  const S0 = new Float64Array(n), S1 = new Float64Array(n), S2 = new Float64Array(n);
+  const T0 = new Float64Array(n), T1 = new Float64Array(n), U = new Float64Array(n);
+  const qStart = new Int32Array(n), qCount = new Int32Array(n);
+  let active: Int32Array = new Int32Array(64);
+  let na = 0;
+  // root: f_0
+  qStart[0] = Q.push(w[0], -2 * w[0] * y[0], wyy[0] - beta, -1, 0, 0, 0);
+  qCount[0] = 1;
+  active[na++] = 0;
+  // temporary candidates at one step
+  let ta: Float64Array = new Float64Array(256), tb: Float64Array = new Float64Array(256), tc: Float64Array = new Float64Array(256);
+  let tpar: Int32Array = new Int32Array(256), tal: Float64Array = new Float64Array(256), tga: Float64Array = new Float64Array(256);
+  let onEnv: Uint8Array = new Uint8Array(256);
+  const envIdx: number[] = [];
+  const envLo: number[] = [];
+  const envHi: number[] = [];
+  let evaluations = 0;
+  let maxCandidates = 1;
+  let sumCandidates = 0;
+  let finalBest = -1;
+  let finalValue = Infinity;
+  for (let t = 1; t < n; t++) {
+    const xt = x[t], wt = w[t], wyt = w[t] * y[t], uyt = wyy[t];
+    let K = 0;
+    let keep = 0;
+    for (let ai = 0; ai < na; ai++) {
+      const s = active[ai];
+      // drop dead pieces of s; drop s when none is left
+      let alive = 0;
+      const q0 = qStart[s], qn = qCount[s];
+      for (let j = q0; j < q0 + qn; j++) if (Q.die[j] > t) alive++;
+      if (alive === 0) continue;
+      active[keep++] = s;
+      const d = xt - x[s];
+      S0[s] += wt; S1[s] += wt * d; S2[s] += wt * d * d;
+      T0[s] += wyt; T1[s] += wyt * d; U[s] += uyt;
+      if (t - s < minSegment) continue;
+      const L = d;
+      const B = S2[s] / (L * L);
+      const Dm = S1[s] / L - B;
+      const A = S0[s] - 2 * (S1[s] / L) + B;
+      const Fy = T1[s] / L;
+      const Ey = T0[s] - Fy;
+      const G = U[s];
+      for (let j = q0; j < q0 + qn; j++) {
+        if (Q.die[j] <= t) continue;
+        // Q(a, b) = M a^2 + 2 D a b + B b^2 + P a - 2 F b + Kc, minimised over a
+        const M = Q.a[j] + A;
+        const P = Q.b[j] - 2 * Ey;
+        const Kc = Q.c[j] + G;
+        if (K === ta.length) {
+          const g = (o: Float64Array): Float64Array => { const r = new Float64Array(K * 2); r.set(o); return r; };
+          ta = g(ta); tb = g(tb); tc = g(tc); tal = g(tal); tga = g(tga);
+          const p2 = new Int32Array(K * 2); p2.set(tpar); tpar = p2;
+          onEnv = new Uint8Array(K * 2);
+        }
+        ta[K] = B - (Dm * Dm) / M;
+        tb[K] = -2 * Fy - (Dm * P) / M;
+        tc[K] = Kc - (P * P) / (4 * M) + beta;
+        tal[K] = -P / (2 * M);
+        tga[K] = -Dm / M;
+        tpar[K] = j;
+        K++;
+      }
+    }
+    na = keep;
+    evaluations += K;
+    sumCandidates += K;
+    if (K > maxCandidates) maxCandidates = K;
+    if (K === 0) { qCount[t] = 0; continue; }
+    if (t === n - 1) {
+      for (let k = 0; k < K; k++) {
+        const v = tc[k] - (tb[k] * tb[k]) / (4 * ta[k]);
+        if (v < finalValue) { finalValue = v; finalBest = k; }
+      }
+      break;
+    }
+    // lower envelope by a left-to-right sweep
+    envIdx.length = 0; envLo.length = 0; envHi.length = 0;
+    let cur = 0;
+    for (let k = 1; k < K; k++) {
+      if (ta[k] < ta[cur] || (ta[k] === ta[cur] && (tb[k] > tb[cur] || (tb[k] === tb[cur] && tc[k] < tc[cur])))) cur = k;
+    }
+    let pos = -Infinity;
+    for (let step = 0; step < 2 * K + 1; step++) {
+      let best = Infinity;
+      let arg = -1;
+      const a0 = ta[cur], b0 = tb[cur], c0 = tc[cur];
+      for (let k = 0; k < K; k++) {
+        if (k === cur) continue;
+        const r = crossing(ta[k] - a0, tb[k] - b0, tc[k] - c0, pos);
+        if (r < best) { best = r; arg = k; }
+      }
+      envIdx.push(cur); envLo.push(pos);
+      if (arg < 0) { envHi.push(Infinity); break; }
+      envHi.push(best);
+      pos = best;
+      cur = arg;
+    }
+    if (envHi.length < envIdx.length) envHi.push(Infinity);
+    // store the envelope's pieces as f_t
+    for (let k = 0; k < K; k++) onEnv[k] = 0;
+    for (const k of envIdx) onEnv[k] = 1;
+    qStart[t] = Q.size;
+    let cnt = 0;
+    for (let k = 0; k < K; k++) {
+      if (onEnv[k]) { Q.push(ta[k], tb[k], tc[k], tpar[k], tal[k], tga[k], t); cnt++; }
+    }
+    qCount[t] = cnt;
+    // inequality pruning: q - f_t >= beta on every envelope piece
+    const P = envIdx.length;
+    for (let k = 0; k < K; k++) {
+      const j = tpar[k];
+      if (Q.die[j] !== Infinity) continue;
+      let prune = true;
+      for (let p = 0; p < P && prune; p++) {
+        const e = envIdx[p];
+        const d2 = ta[k] - ta[e], d1 = tb[k] - tb[e], d0 = tc[k] - tc[e] - beta;
+        const lo = envLo[p], hi = envHi[p];
+        if (d2 < 0) { if (lo === -Infinity || hi === Infinity) { prune = false; break; } }
+        else if (d2 === 0) {
+          if ((lo === -Infinity && d1 > 0) || (hi === Infinity && d1 < 0)) { prune = false; break; }
+        }
+        if (d2 > 0) {
+          const v = -d1 / (2 * d2);
+          if (v > lo && v < hi && d0 - (d1 * d1) / (4 * d2) < 0) { prune = false; break; }
+        }
+        if (lo !== -Infinity && (d2 * lo + d1) * lo + d0 < 0) { prune = false; break; }
+        if (hi !== Infinity && (d2 * hi + d1) * hi + d0 < 0) { prune = false; break; }
+      }
+      if (prune) Q.die[j] = t + minSegment;
+    }
+    if (na === active.length) { const a2 = new Int32Array(na * 2); a2.set(active); active = a2; }
+    if (cnt > 0) active[na++] = t;
+  }
+  if (n === 1) {
+    return { changes: [], knotValues: [y[0]], cost: wyy[0] - w[0] * y[0] * y[0], penalisedCost: wyy[0] - w[0] * y[0] * y[0], evaluations: 0, maxCandidates: 1, meanCandidates: 1 };
+  }
+  // backtrack from the best final piece
+  const k = finalBest;
+  let phi = -tb[k] / (2 * ta[k]);
+  const knots: number[] = [n - 1];
+  const values: number[] = [phi];
+  let j = tpar[k];
+  phi = tal[k] + tga[k] * phi;
+  while (j >= 0) {
+    knots.push(Q.time[j]);
+    values.push(phi);
+    const pj = Q.parent[j];
+    phi = Q.alpha[j] + Q.gamma[j] * phi;
+    j = pj;
+  }
+  knots.reverse(); values.reverse();
+  const changes = knots.slice(1, -1);
+  const cost = finalValue - beta * changes.length;
+  return { changes, knotValues: values, cost, penalisedCost: finalValue, evaluations, maxCandidates, meanCandidates: sumCandidates / Math.max(1, n - 1) };
+}

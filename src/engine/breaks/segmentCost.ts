@@ -1,0 +1,44 @@
+/**
+ * The segment-cost contract shared by the exact segmentation searches
+ * ({@link pelt}, {@link optimalPartitioning}, {@link crops}).
+ */
+
+/**
+ * A cost of fitting one segment of points [s, t) (s inclusive, t exclusive),
+ * computed in O(1) (or O(K)) from cumulative sums.
+ *
+ * Every cost here is a minimum over the segment's parameters of a sum of
+ * per-point losses (twice a negative log-likelihood up to a constant), so
+ * C(a, b) + C(b, c) <= C(a, c): the PELT pruning condition holds with K = 0
+ * (Killick, Fearnhead & Eckley 2012, JASA 107:1590, section 3).
+ */
+export interface SegmentCost {
+  /** Number of points. */
+  readonly n: number;
+  /** Cost of points s..t-1. Unchecked: 0 <= s < t <= n. */
+  cost(s: number, t: number): number;
+}
+
+/** Result of one penalised search. */
+export interface Segmentation {
+  /** Indices of the first point of each new segment, increasing (empty: no change). */
+  changes: number[];
+  /** Unpenalised cost: the sum of segment costs. */
+  cost: number;
+  /** cost + penalty * changes.length. */
+  penalisedCost: number;
+  /** Segment costs computed. */
+  evaluations: number;
+  /** Most candidates held at one step. */
+  maxCandidates: number;
+  /** Mean candidates per step. */
+  meanCandidates: number;
+}
+
+/** Sum of segment costs of a segmentation given by its change indices. Unchecked. */
+export function totalCost(cost: SegmentCost, changes: readonly number[]): number {
+  let total = 0;
+  let s = 0;
+  for (const c of changes) { total += cost.cost(s, c); s = c; }
+  return total + cost.cost(s, cost.n);
+}

@@ -1,0 +1,138 @@
+/**
+ * The continuous piecewise-linear model ('slope') by CPOP.
+ */
+import { KnotwiseError, showNumber } from '../errors';
+import type { Series } from '../series';
+import { warning, type Warning } from '../warnings';
+import { cpop, type SlopeSegmentation } from './cpop';
+import { crops } from './crops';
+import { parametersPerChange, penaltyValue } from './penaltyValue';
+import { differenceSd, differenceSigma, median } from './robustSigma';
+import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation } from './summariseSegment';
+import type { Break, BreaksResult, CropsRow, SegmentSummary } from './types';
+import type { ResolvedBreaksOptions } from './validateBreaksOptions';
+
+const NO_INTERVAL = { given: false as const, note: 'CPOP returns the optimal kink location only; no confidence interval is computed.' };
+
+/** Points with equal x merged into one weighted position (exact for a fitted curve in x). Unchecked. */
+export interface MergedPositions {
+  /** Distinct x (original units). */
+  x: Float64Array;
+  /** Total weight, weighted mean of y, and sum of w y^2 at each position. */
+  w: Float64Array;
+  y: Float64Array;
+  wyy: Float64Array;
+  /** First and last clean point of each position. */
+  first: Int32Array;
+  last: Int32Array;
+}
+
+/** Merges tied x of a series, with y mapped through z = (y - centre) / scale. Unchecked. */
+export function mergePositions(series: Series, centre: number, scale: number): MergedPositions {
+  const n = series.n;
+  const xs: number[] = [], ws: number[] = [], ys: number[] = [], yy: number[] = [], f: number[] = [], l: number[] = [];
+  for (let i = 0; i < n; i++) {
+    const z = (series.y[i] - centre) / scale;
+    const wi = series.w[i];
+    const k = xs.length - 1;
+    if (k >= 0 && xs[k] === series.x[i]) {
+      ws[k] += wi; ys[k] += wi * z; yy[k] += wi * z * z; l[k] = i;
+    } else {
+      xs.push(series.x[i]); ws.push(wi); ys.push(wi * z); yy.push(wi * z * z); f.push(i); l.push(i);
+    }
+  }
+  for (let k = 0; k < xs.length; k++) ys[k] /= ws[k];
+  return { x: Float64Array.from(xs), w: Float64Array.from(ws), y: Float64Array.from(ys), wyy: Float64Array.from(yy), first: Int32Array.from(f), last: Int32Array.from(l) };
+}
+
+/**
+ * Fits the L0-penalised continuous piecewise-linear model to a clean series by
+ * {@link cpop} and summarises it (see {@link findBreaks} for the public contract).
+ * Unchecked options (validated by the caller).
+ */
+export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResult {
+  const n = series.n;
+  const notes: Warning[] = [];
+  const centre = median(series.y);
+  const raw = mergePositions(series, 0, 1);
+  const m = raw.x.length;
+  if (m < 2) throw new KnotwiseError('too-few-points', `model 'slope' needs at least 2 distinct x values; got ${m}.`);
+  if (m - 1 < o.minSegment) throw new KnotwiseError('too-few-points', `model 'slope' with minSegment ${o.minSegment} needs at least ${o.minSegment + 1} distinct x values; got ${m}.`);
+  let sigma = o.sigma;
+  let source: 'given' | 'estimated' = 'given';
+  if (sigma === undefined) {
+    source = 'estimated';
+    sigma = differenceSigma(raw.y, 2);
+    if (!(sigma > 0)) {
+      sigma = differenceSd(raw.y, 2);
+      if (sigma > 0) notes.push(warning('note', `most second differences are equal, so the robust noise estimate (MAD of second differences) is 0; their standard deviation / sqrt(6) = ${showNumber(sigma)} was used instead. Give sigma to control the scale.`));
+      else { sigma = 1; notes.push(warning('note', 'the series lies on one straight line; sigma = 1 was used and no kink can be found.')); }
+    }
+  }
+  const P = mergePositions(series, centre, sigma);
+  const x0 = P.x[0], span = P.x[m - 1] - P.x[0];
+  const u = new Float64Array(m);
+  for (let k = 0; k < m; k++) u[k] = (P.x[k] - x0) / span;
+  const p = parametersPerChange('slope');
+  const beta = penaltyValue(o.penalty, n, p);
+  const solve = (b: number): SlopeSegmentation => cpop(u, P.y, P.w, P.wyy, b, o.minSegment);
+  const seg = solve(beta);
+  let runs = 1, evaluations = seg.evaluations, maxCandidates = seg.maxCandidates;
+  const warnings: Warning[] = [...series.warnings, ...notes];
+  let table: CropsRow[] | undefined;
+  if (o.crops) {
+    const out = crops((b) => { const r = solve(b); evaluations += r.evaluations; maxCandidates = Math.max(maxCandidates, r.maxCandidates); return r; }, o.crops[0], o.crops[1], o.maxRuns);
+    runs += out.runs;
+    table = out.rows.map((r) => ({ ...r, breaks: r.breaks.map((g) => P.first[g]) }));
+    if (!out.complete) warnings.push(warning('not-converged', `CROPS stopped after ${out.runs} searches (maxRuns); the table may miss some segmentations between penalties ${showNumber(o.crops[0])} and ${showNumber(o.crops[1])}.`));
+  }
+  // broken line through the knots, back in y units
+  const knots = [0, ...seg.changes, m - 1];
+  const kx = knots.map((g) => P.x[g]);
+  const kv = seg.knotValues.map((v) => centre + sigma! * v);
+  const fitted = new Float64Array(n);
+  let seg_k = 0;
+  for (let i = 0; i < n; i++) {
+    const xi = series.x[i];
+    while (seg_k < knots.length - 2 && xi > kx[seg_k + 1]) seg_k++;
+    const t = (xi - kx[seg_k]) / (kx[seg_k + 1] - kx[seg_k]);
+    fitted[i] = kv[seg_k] + t * (kv[seg_k + 1] - kv[seg_k]);
+  }
+  const segments: SegmentSummary[] = [];
+  for (let k = 0; k + 1 < knots.length; k++) {
+    const start = P.first[knots[k]], end = P.last[knots[k + 1]];
+    const slope = (kv[k + 1] - kv[k]) / (kx[k + 1] - kx[k]);
+    const intercept = kv[k] - slope * kx[k];
+    let W = 0, S = 0, R = 0;
+    for (let i = start; i <= end; i++) {
+      const wi = series.w[i];
+      W += wi; S += wi * series.y[i];
+      const r = series.y[i] - fitted[i];
+      R += wi * r * r;
+    }
+    segments.push({
+      start, end, xStart: series.x[start], xEnd: series.x[end], rowStart: series.firstRow[start], rowEnd: series.firstRow[end],
+      n: end - start + 1, mean: S / W, sd: Math.sqrt(R / W), rate: NaN, median: NaN, slope, intercept,
+    });
+  }
+  const breaks: Break[] = seg.changes.map((g, k) => {
+    const idx = P.first[g];
+    return { index: idx, row: series.firstRow[idx], x: series.x[idx], before: segments[k], after: segments[k + 1], change: segments[k + 1].slope - segments[k].slope, uncertainty: NO_INTERVAL };
+  });
+  const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted));
+  if (aw) warnings.push(aw);
+  warnings.push(breakCauseWarning(breaks.length));
+  return {
+    model: 'slope',
+    penalty: { rule: typeof o.penalty === 'number' ? 'manual' : o.penalty, value: beta, parametersPerChange: p },
+    sigma: { value: sigma, source },
+    breaks, segments, fitted,
+    cost: seg.cost, penalisedCost: seg.penalisedCost,
+    ...(table ? { crops: table } : {}),
+    warnings,
+    solver: {
+      algorithm: 'cpop', converged: true, iterations: m, evaluations, maxCandidates, meanCandidates: seg.meanCandidates, runs,
+      stoppingRule: 'exact dynamic programme over the fitted value at the latest kink (piecewise-quadratic cost functions): one pass over the points with functional and inequality pruning (no tolerance).',
+    },
+  };
+}

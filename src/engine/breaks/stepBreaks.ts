@@ -1,0 +1,138 @@
+/**
+ * Piecewise-constant models ('mean', 'meanvar', 'poisson', 'distribution') by PELT.
+ */
+import { KnotwiseError, showNumber } from '../errors';
+import type { Series } from '../series';
+import { warning, listRows, type Warning } from '../warnings';
+import { meanCost } from './costMean';
+import { meanVarCost, MEANVAR_FLOOR } from './costMeanVar';
+import { poissonCost } from './costPoisson';
+import { distributionCost } from './costDistribution';
+import { crops } from './crops';
+import { pelt } from './pelt';
+import { parametersPerChange, penaltyValue } from './penaltyValue';
+import { differenceSd, differenceSigma, median } from './robustSigma';
+import type { SegmentCost } from './segmentCost';
+import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation, summariseSegment } from './summariseSegment';
+import type { Break, BreaksResult, SegmentSummary } from './types';
+import type { ResolvedBreaksOptions } from './validateBreaksOptions';
+
+const NO_INTERVAL = { given: false as const, note: 'PELT returns the optimal location only; no confidence interval is computed.' };
+
+/** Mask of points where a change may start: not between rows with equal x. Unchecked. */
+export function changeAllowed(x: Float64Array): Uint8Array {
+  const a = new Uint8Array(x.length);
+  for (let i = 1; i < x.length; i++) a[i] = x[i] !== x[i - 1] ? 1 : 0;
+  return a;
+}
+
+/** Builds the segment cost of a piecewise-constant model, with its scale notes. Unchecked options (validated). */
+export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; sigma?: { value: number; source: 'given' | 'estimated' }; notes: Warning[] } {
+  const { y, w } = series;
+  const notes: Warning[] = [];
+  switch (o.model) {
+    case 'mean': {
+      let sigma = o.sigma;
+      let source: 'given' | 'estimated' = 'given';
+      if (sigma === undefined) {
+        source = 'estimated';
+        sigma = differenceSigma(y, 1);
+        if (!(sigma > 0)) {
+          sigma = differenceSd(y, 1);
+          if (sigma > 0) notes.push(warning('note', `most successive differences are equal, so the robust noise estimate (MAD of differences) is 0; the standard deviation of differences / sqrt(2) = ${showNumber(sigma)} was used instead. Give sigma to control the scale.`));
+          else { sigma = 1; notes.push(warning('note', 'the series is constant; sigma = 1 was used and no change can be found.')); }
+        }
+      }
+      return { cost: meanCost(y, w, sigma, median(y)), sigma: { value: sigma, source }, notes };
+    }
+    case 'meanvar': {
+      let W = 0, S = 0;
+      for (let i = 0; i < series.n; i++) { W += w[i]; S += w[i] * y[i]; }
+      const m = S / W;
+      let V = 0;
+      for (let i = 0; i < series.n; i++) V += w[i] * (y[i] - m) * (y[i] - m);
+      let scale = Math.sqrt(V / W);
+      if (!(scale > 0)) scale = 1;
+      return { cost: meanVarCost(y, w, m, scale), notes };
+    }
+    case 'poisson': {
+      for (let i = 0; i < series.n; i++) {
+        const v = y[i];
+        if (v < 0 || !Number.isInteger(v)) {
+          throw new KnotwiseError('bad-data', `model 'poisson' needs counts (whole numbers >= 0); row ${series.firstRow[i] + 1} holds ${showNumber(v)}. Use model 'mean' for measurements.`);
+        }
+      }
+      return { cost: poissonCost(y, w), notes };
+    }
+    default:
+      if (series.weighted) notes.push(warning('note', "model 'distribution' ignores weights: its cost compares empirical distributions of the values."));
+      return { cost: distributionCost(y, o.quantiles), notes };
+  }
+}
+
+/**
+ * Segments a clean series with a piecewise-constant model by {@link pelt} and
+ * summarises the result (see {@link findBreaks} for the public contract). Unchecked
+ * options (validated by the caller).
+ */
+export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResult {
+  const n = series.n;
+  const { cost, sigma, notes } = stepCost(series, o);
+  const allowed = changeAllowed(series.x);
+  const p = parametersPerChange(o.model);
+  const beta = penaltyValue(o.penalty, n, p);
+  const seg = pelt(cost, beta, o.minSegment, allowed);
+  let runs = 1;
+  let evaluations = seg.evaluations;
+  let maxCandidates = seg.maxCandidates;
+  const warnings: Warning[] = [...series.warnings, ...notes];
+  let table;
+  if (o.crops) {
+    const out = crops((b) => { const r = pelt(cost, b, o.minSegment, allowed); evaluations += r.evaluations; maxCandidates = Math.max(maxCandidates, r.maxCandidates); return r; }, o.crops[0], o.crops[1], o.maxRuns);
+    runs += out.runs;
+    table = out.rows;
+    if (!out.complete) warnings.push(warning('not-converged', `CROPS stopped after ${out.runs} searches (maxRuns); the table may miss some segmentations between penalties ${showNumber(o.crops[0])} and ${showNumber(o.crops[1])}.`));
+  }
+  // segments and fitted step function
+  const bounds = [0, ...seg.changes, n];
+  const segments: SegmentSummary[] = [];
+  const fitted = new Float64Array(n);
+  const flooredRows: number[] = [];
+  for (let k = 0; k + 1 < bounds.length; k++) {
+    const s = bounds[k], e = bounds[k + 1];
+    const sum = summariseSegment(series, s, e - 1, o.model);
+    if (o.model === 'meanvar') {
+      const mv = cost as ReturnType<typeof meanVarCost>;
+      if (mv.floored(s, e)) flooredRows.push(series.firstRow[s]);
+    }
+    const level = o.model === 'distribution' ? sum.median : sum.mean;
+    for (let i = s; i < e; i++) fitted[i] = level;
+    segments.push(sum);
+  }
+  if (flooredRows.length) {
+    warnings.push(warning('note', `${flooredRows.length} segment${flooredRows.length === 1 ? '' : 's'} starting at row ${listRows(flooredRows)} ${flooredRows.length === 1 ? 'has' : 'have'} (near-)zero spread; the variance was floored at ${MEANVAR_FLOOR} times the series variance. Such segments often come from rounded or repeated values; consider model 'mean' or a larger minSegment.`, flooredRows));
+  }
+  const breaks: Break[] = seg.changes.map((c, k) => {
+    const before = segments[k], after = segments[k + 1];
+    const change = o.model === 'poisson' ? after.rate - before.rate : o.model === 'distribution' ? after.median - before.median : after.mean - before.mean;
+    return { index: c, row: series.firstRow[c], x: series.x[c], before, after, change, uncertainty: NO_INTERVAL };
+  });
+  if (o.model === 'mean') {
+    const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted));
+    if (aw) warnings.push(aw);
+  }
+  warnings.push(breakCauseWarning(breaks.length));
+  return {
+    model: o.model,
+    penalty: { rule: typeof o.penalty === 'number' ? 'manual' : o.penalty, value: beta, parametersPerChange: p },
+    ...(sigma ? { sigma } : {}),
+    breaks, segments, fitted,
+    cost: seg.cost, penalisedCost: seg.penalisedCost,
+    ...(table ? { crops: table } : {}),
+    warnings,
+    solver: {
+      algorithm: 'pelt', converged: true, iterations: n, evaluations, maxCandidates, meanCandidates: seg.meanCandidates, runs,
+      stoppingRule: 'exact dynamic programme: one pass over the points, pruning candidates that can no longer be optimal (no tolerance).',
+    },
+  };
+}

@@ -1,0 +1,104 @@
+/**
+ * Strict validation of {@link BreaksOptions}.
+ */
+import { KnotwiseError, showNumber } from '../errors';
+import type { BreaksModel, BreaksOptions } from './types';
+
+/** The models {@link findBreaks} accepts. */
+export const BREAKS_MODELS: readonly BreaksModel[] = ['mean', 'meanvar', 'poisson', 'distribution', 'slope'];
+
+const KEYS = ['model', 'penalty', 'crops', 'minSegment', 'sigma', 'quantiles', 'maxRuns'];
+
+/** Options with defaults filled in. */
+export interface ResolvedBreaksOptions {
+  model: BreaksModel;
+  penalty: 'bic' | 'mbic' | number;
+  crops?: [number, number];
+  minSegment: number;
+  sigma?: number;
+  quantiles: number;
+  maxRuns: number;
+}
+
+function show(v: unknown): string {
+  if (typeof v === 'number') return showNumber(v);
+  if (typeof v === 'string') return `"${v}"`;
+  if (Array.isArray(v)) return `[${v.map(show).join(', ')}]`;
+  return String(v);
+}
+
+function isInt(v: unknown): v is number {
+  return typeof v === 'number' && Number.isInteger(v);
+}
+
+/**
+ * Checks every option of {@link findBreaks} and fills defaults: penalty 'bic',
+ * minSegment 1 (2 for 'meanvar'), quantiles 10, maxRuns 200.
+ *
+ * @throws {@link KnotwiseError} `bad-option` naming the option and printing the offending value
+ * @example
+ * ```ts
+ * validateBreaksOptions({ model: 'mean', penalty: 'mbic' }); // { model: 'mean', penalty: 'mbic', minSegment: 1, ... }
+ * ```
+ */
+export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOptions {
+  if (typeof options !== 'object' || options === null) {
+    throw new KnotwiseError('bad-option', `options must be an object with at least a model; got ${show(options)}.`);
+  }
+  for (const k of Object.keys(options)) {
+    if (!KEYS.includes(k)) throw new KnotwiseError('bad-option', `unknown option "${k}" for changepoints; use: ${KEYS.join(', ')}.`);
+  }
+  const model = options.model;
+  if (!BREAKS_MODELS.includes(model)) {
+    throw new KnotwiseError('bad-option', `model must be one of ${BREAKS_MODELS.map((m) => `'${m}'`).join(', ')}; got ${show(model)}.`);
+  }
+  const penalty = options.penalty ?? 'bic';
+  if (typeof penalty === 'number') {
+    if (!Number.isFinite(penalty) || penalty < 0) throw new KnotwiseError('bad-option', `penalty must be 'bic', 'mbic' or a number >= 0; got ${show(penalty)}.`);
+  } else if (penalty !== 'bic' && penalty !== 'mbic') {
+    throw new KnotwiseError('bad-option', `penalty must be 'bic', 'mbic' or a number >= 0; got ${show(penalty)}.`);
+  }
+  let crops: [number, number] | undefined;
+  if (options.crops !== undefined) {
+    const c = options.crops as unknown;
+    if (!Array.isArray(c) || c.length !== 2 || typeof c[0] !== 'number' || typeof c[1] !== 'number' || !Number.isFinite(c[0]) || !Number.isFinite(c[1]) || c[0] < 0 || c[1] <= c[0]) {
+      throw new KnotwiseError('bad-option', `crops must be [low, high] with 0 <= low < high, both finite; got ${show(c)}.`);
+    }
+    crops = [c[0], c[1]];
+  }
+  const minDefault = model === 'meanvar' ? 2 : 1;
+  const minSegment = options.minSegment ?? minDefault;
+  if (!isInt(minSegment) || minSegment < 1) {
+    throw new KnotwiseError('bad-option', `minSegment must be a whole number >= 1; got ${show(minSegment)}.`);
+  }
+  if (model === 'meanvar' && minSegment < 2) {
+    throw new KnotwiseError('bad-option', `minSegment must be at least 2 for model 'meanvar' (a variance needs two points); got ${show(minSegment)}.`);
+  }
+  let sigma: number | undefined;
+  if (options.sigma !== undefined) {
+    if (model !== 'mean' && model !== 'slope') {
+      throw new KnotwiseError('bad-option', `sigma applies to models 'mean' and 'slope' only; model is '${model}' (remove sigma).`);
+    }
+    if (typeof options.sigma !== 'number' || !Number.isFinite(options.sigma) || options.sigma <= 0) {
+      throw new KnotwiseError('bad-option', `sigma must be a positive number (noise standard deviation in y units); got ${show(options.sigma)}.`);
+    }
+    sigma = options.sigma;
+  }
+  let quantiles = 10;
+  if (options.quantiles !== undefined) {
+    if (model !== 'distribution') throw new KnotwiseError('bad-option', `quantiles applies to model 'distribution' only; model is '${model}' (remove quantiles).`);
+    if (!isInt(options.quantiles) || options.quantiles < 2 || options.quantiles > 100) {
+      throw new KnotwiseError('bad-option', `quantiles must be a whole number from 2 to 100; got ${show(options.quantiles)}.`);
+    }
+    quantiles = options.quantiles;
+  }
+  let maxRuns = 200;
+  if (options.maxRuns !== undefined) {
+    if (!crops) throw new KnotwiseError('bad-option', `maxRuns applies only with crops [low, high]; got maxRuns ${show(options.maxRuns)} without crops.`);
+    if (!isInt(options.maxRuns) || options.maxRuns < 2 || options.maxRuns > 10000) {
+      throw new KnotwiseError('bad-option', `maxRuns must be a whole number from 2 to 10000; got ${show(options.maxRuns)}.`);
+    }
+    maxRuns = options.maxRuns;
+  }
+  return { model, penalty, crops, minSegment, sigma, quantiles, maxRuns };
+}

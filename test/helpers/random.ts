@@ -1,0 +1,46 @@
+/**
+ * Small seeded pseudo-random generators for tests, demos and benchmarks.
+ *
+ * uniform: mulberry32 (Tommy Ettinger's 32-bit generator, public domain; a common
+ * choice for reproducible test data, not for cryptography). normal: Box-Muller on
+ * two uniforms. poisson: Knuth's multiplication method (fine for rates up to ~30).
+ */
+
+/** A seeded stream of uniforms on [0, 1). */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** A seeded stream of standard normal deviates (Box-Muller). */
+export function normalStream(seed: number): () => number {
+  const u = mulberry32(seed);
+  let spare: number | null = null;
+  return () => {
+    if (spare !== null) { const s = spare; spare = null; return s; }
+    let a = u();
+    while (a <= 0) a = u();
+    const b = u();
+    const r = Math.sqrt(-2 * Math.log(a));
+    spare = r * Math.sin(2 * Math.PI * b);
+    return r * Math.cos(2 * Math.PI * b);
+  };
+}
+
+/** A seeded Poisson sampler: call with the rate. */
+export function poissonStream(seed: number): (rate: number) => number {
+  const u = mulberry32(seed);
+  return (rate: number) => {
+    const L = Math.exp(-rate);
+    let k = 0;
+    let p = 1;
+    do { k++; p *= u(); } while (p > L);
+    return k - 1;
+  };
+}
