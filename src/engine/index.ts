@@ -1,0 +1,12 @@
+/** Knotwise engine: re-exports only. */
+export * from './errors';
+export * from './warnings';
+export * from './series';
+export * from './types';
+export * from './registry';
+export * from './options';
+export * from './fit';
+export { fitSpline, evaluateSpline, splineMethod } from './smoothers/spline';
+export type { SplineModel } from './smoothers/spline';
+export { bandedLDL, bandedSolve, bandedInverseBand, bandedMultiply } from './linalg/banded';
+export type { BandedLDL } from './linalg/banded';

@@ -1,0 +1,276 @@
+/**
+ * The natural cubic smoothing spline, exact and O(n).
+ *
+ * Minimises  sum_i w_i (y_i - f(x_i))^2 + lambda * integral f''(x)^2 dx  over
+ * all twice-differentiable f; the solution is the natural cubic spline with a
+ * knot at every distinct x (Reinsch 1967). lambda is in the units of the data
+ * as given: (units of y)^2-per-weight times (units of x)^3, so it means the same
+ * as SciPy's `make_smoothing_spline(x, y, w, lam)`. (R's `smooth.spline`
+ * reports lambda for x rescaled to [0, 1]: lambda = lambda_R * range(x)^3.)
+ *
+ * Internally x is mapped to [0, 1], weights to mean 1 and y to mean 0, sd 1,
+ * so the banded system is well scaled for dates near 45,000 or x in [0, 1e-3].
+ *
+ * Penalty choice: a given lambda; a target equivalent df = trace of the hat
+ * matrix; generalised cross-validation (Craven & Wahba 1979),
+ *   GCV(lambda) = n * sum w_i (y_i - f_i)^2 / (n - tr S)^2 ,
+ * with tr S exact from the band of the inverse (Hutchinson & de Hoog 1985);
+ * or K-fold cross-validation with deterministic folds ({@link foldOf}).
+ *
+ * References: C. H. Reinsch, Numer. Math. 10 (1967) 177-183; P. Craven and
+ * G. Wahba, Numer. Math. 31 (1979) 377-403; M. F. Hutchinson and F. R. de Hoog,
+ * Numer. Math. 47 (1985) 99-106; G. Wahba, "Bayesian confidence intervals for
+ * the cross-validated smoothing spline", JRSS B 45 (1983) 133-150 (the
+ * pointwise standard error sigma * sqrt(h_ii / w_i)).
+ */
+import { KnotwiseError, showNumber } from '../errors';
+import type { MethodDefinition } from '../registry';
+import type { Series } from '../series';
+import type { CriterionPoint, Evaluation, FitOptions, FitResult } from '../types';
+import { Warning, warning } from '../warnings';
+import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
+import { reinschSolve, reinschSystem, ReinschSystem } from './spline/reinsch';
+import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
+import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
+import { solveForDf } from '../select/solveForDf';
+import { foldOf } from '../select/foldOf';
+import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
+
+/** State kept for evaluation at new x (original units). */
+export interface SplineModel {
+  x: Float64Array;
+  g: Float64Array;
+  gamma: Float64Array;
+}
+
+interface Scaled {
+  t: Float64Array;
+  w: Float64Array;
+  y: Float64Array;
+  x0: number;
+  xs: number;
+  wm: number;
+  ym: number;
+  ys: number;
+}
+
+function scale(series: Series): Scaled {
+  const { x, y, w, n } = series;
+  const x0 = x[0];
+  const xs = x[n - 1] - x[0];
+  let sw = 0, sy = 0;
+  for (let i = 0; i < n; i++) { sw += w[i]; sy += w[i] * y[i]; }
+  const wm = sw / n;
+  const ym = sy / sw;
+  let ss = 0;
+  for (let i = 0; i < n; i++) ss += w[i] * (y[i] - ym) * (y[i] - ym);
+  const ys = ss > 0 ? Math.sqrt(ss / sw) : 1;
+  const t = new Float64Array(n), ws = new Float64Array(n), yy = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    t[i] = (x[i] - x0) / xs;
+    ws[i] = w[i] / wm;
+    yy[i] = (y[i] - ym) / ys;
+  }
+  return { t, w: ws, y: yy, x0, xs, wm, ym, ys };
+}
+
+/** lambda in the data's units -> lambda in scaled units, and back. */
+const toScaled = (lambda: number, s: Scaled): number => lambda / (s.wm * s.xs * s.xs * s.xs);
+const fromScaled = (lt: number, s: Scaled): number => lt * s.wm * s.xs * s.xs * s.xs;
+
+/**
+ * The range of scaled lambda searched: from nearly interpolating (df close to
+ * n) to nearly the straight line (df close to 2). The natural scale of lambda
+ * in [0, 1] units is hbar^3 (hbar the smallest spacing) at the rough end and n
+ * (sum of weights) at the smooth end (common practice; the equivalent-kernel
+ * bandwidth is (lambda / n)^(1/4)).
+ */
+function searchRange(t: Float64Array): [number, number] {
+  const n = t.length;
+  let hmin = Infinity;
+  for (let i = 1; i < n; i++) hmin = Math.min(hmin, t[i] - t[i - 1]);
+  const lo = Math.max(1e-300, Math.pow(hmin, 3) * 1e-3);
+  const hi = n * 1e2;
+  return [lo, hi];
+}
+
+function resolveOptions(options: FitOptions, n: number): FitOptions {
+  const out: FitOptions = { method: 'spline' };
+  if (options.penalty !== undefined) out.penalty = checkPenalty(options.penalty);
+  else if (options.df !== undefined) out.df = checkPositive(options.df, 'df');
+  else out.select = options.select === undefined ? 'gcv' : checkChoice(options.select, 'select (for the spline)', ['gcv', 'cv'] as const);
+  if (out.select === 'cv') {
+    const maxK = Math.max(2, Math.min(50, n - 2));
+    out.folds = options.folds === undefined ? Math.min(10, maxK) : checkInteger(options.folds, 'folds', 2, maxK);
+    out.oneSE = !!options.oneSE;
+  }
+  out.gridSize = options.gridSize === undefined ? 25 : checkInteger(options.gridSize, 'gridSize', 5, 400);
+  for (const k of ['order', 'relaxed'] as const) {
+    if (options[k] !== undefined) throw new KnotwiseError('bad-option', `${k} does not apply to the spline; remove it or choose method "trend".`);
+  }
+  return out;
+}
+
+/** K-fold CV score of the spline at scaled lambda. */
+function cvScorer(s: Scaled, k: number): (lt: number) => PenaltyScore & { foldScores: number[] } {
+  const n = s.t.length;
+  const fold = foldOf(n, k);
+  const systems: { sys: ReinschSystem; t: Float64Array; held: number[] }[] = [];
+  for (let f = 0; f < k; f++) {
+    const keep: number[] = [];
+    const held: number[] = [];
+    for (let i = 0; i < n; i++) (fold[i] === f ? held : keep).push(i);
+    const t = Float64Array.from(keep, (i) => s.t[i]);
+    systems.push({ sys: reinschSystem(t, Float64Array.from(keep, (i) => s.y[i]), Float64Array.from(keep, (i) => s.w[i])), t, held });
+  }
+  return (lt) => {
+    const foldScores: number[] = [];
+    let total = 0, totalW = 0;
+    for (const { sys, t, held } of systems) {
+      const sol = reinschSolve(sys, lt, false);
+      let e = 0, ww = 0;
+      for (const i of held) {
+        const r = s.y[i] - evaluateNaturalCubic(t, sol.g, sol.gamma, s.t[i]);
+        e += s.w[i] * r * r;
+        ww += s.w[i];
+      }
+      foldScores.push(e / ww);
+      total += e; totalW += ww;
+    }
+    const mean = foldScores.reduce((a, b) => a + b, 0) / k;
+    let v = 0;
+    for (const f of foldScores) v += (f - mean) * (f - mean);
+    const se = Math.sqrt(v / (k - 1) / k);
+    return { score: total / totalW, df: NaN, se, foldScores };
+  };
+}
+
+/**
+ * Fits the natural cubic smoothing spline to a clean series.
+ *
+ * @param series - from {@link prepareSeries}; at least 3 distinct x
+ * @param options - `penalty` (lambda >= 0, data units), or `df` (target trace of
+ *   the hat matrix, clamped to (2, n] with a warning), or `select` 'gcv'
+ *   (default) or 'cv' with `folds` (default 10) and `oneSE`; `gridSize`
+ *   (default 25) log-spaced penalties for the search and the criterion curve.
+ * @returns fitted values, lambda, df, sigma, pointwise standard errors and the
+ *   criterion curve (lambda, score, df), with warnings.
+ * @example
+ * ```ts
+ * const s = prepareSeries(yCells, xCells);
+ * const r = fitSpline(s, { select: 'gcv' });
+ * r.penalty; r.df; r.fitted;
+ * ```
+ */
+export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
+  const n = series.n;
+  if (n < 3) throw new KnotwiseError('too-few-points', `the spline needs at least 3 distinct x values; got ${n}.`);
+  const opts = resolveOptions(options, n);
+  const s = scale(series);
+  const sys = reinschSystem(s.t, s.y, s.w);
+  const [lo, hi] = searchRange(s.t);
+  const warnings: Warning[] = [...series.warnings];
+  let lt: number;
+  let criterion: FitResult['criterion'];
+  let iterations = 1;
+  let converged = true;
+  let achieved = 0;
+  let tolerance = 0;
+  let stoppingRule = 'direct banded solve at the given penalty';
+  const dfAt = (l: number): number => reinschSolve(sys, l, true).df;
+
+  if (opts.penalty !== undefined) {
+    lt = toScaled(opts.penalty, s);
+    criterion = { name: 'fixed', value: NaN };
+  } else if (opts.df !== undefined) {
+    let target = opts.df;
+    const dfMax = dfAt(lo), dfMin = dfAt(hi);
+    if (target > dfMax || target < dfMin) {
+      const clamped = Math.min(dfMax, Math.max(dfMin, target));
+      warnings.push(warning('target-clamped', `df ${showNumber(target)} is outside what the spline can reach with ${n} distinct x (from just above 2 to ${n}); used ${showNumber(Number(clamped.toFixed(3)))}.`));
+      target = clamped;
+    }
+    tolerance = 1e-8;
+    const r = solveForDf(dfAt, target, lo, hi, tolerance);
+    lt = r.penalty; iterations = r.iterations; converged = r.converged;
+    achieved = Math.abs(r.df - target) / Math.max(1, target);
+    stoppingRule = 'root of df(lambda) = target on log(lambda): |df - target| <= tolerance * max(1, target)';
+    criterion = { name: 'df', value: r.df };
+  } else {
+    const gcv = (l: number): PenaltyScore => {
+      const sol = reinschSolve(sys, l, true);
+      const denom = n - sol.df;
+      return { score: denom > 0 ? (n * sol.rss) / (denom * denom) : Infinity, df: sol.df };
+    };
+    let score: (l: number) => PenaltyScore = gcv;
+    if (opts.select === 'cv') {
+      const cv = cvScorer(s, opts.folds!);
+      score = (l) => { const c = cv(l); return { score: c.score, se: c.se, df: dfAt(l) }; };
+    }
+    tolerance = 1e-4;
+    const r = searchLogPenalty(score, lo, hi, opts.gridSize, tolerance);
+    lt = r.penalty;
+    iterations = r.iterations; converged = r.converged; achieved = r.bracket;
+    stoppingRule = `grid of ${opts.gridSize} log-spaced penalties, then Brent's method until the bracket is below ${tolerance} in log10(lambda)`;
+    let value = r.score;
+    if (opts.select === 'cv' && opts.oneSE) {
+      const best = r.curve.reduce((a, b) => (b.score < a.score ? b : a));
+      const limit = best.score + (best.se ?? 0);
+      const pick = r.curve.filter((p) => p.penalty >= best.penalty && p.score <= limit).pop() ?? best;
+      lt = pick.penalty; value = pick.score;
+    }
+    // criterion values are on the scaled y; report them in (units of y)^2
+    const yv = s.ys * s.ys;
+    const curve: CriterionPoint[] = r.curve.map((p) => ({ ...p, penalty: fromScaled(p.penalty, s), score: p.score * yv, ...(p.se !== undefined ? { se: p.se * yv } : {}) }));
+    criterion = { name: opts.select!, value: value * yv, curve, atEdge: r.atEdge };
+    if (r.atEdge) {
+      warnings.push(warning('penalty-at-edge', `The ${opts.select === 'cv' ? 'cross-validation' : 'GCV'} minimum is at the ${lt <= lo * 1.0001 ? 'rough (small-penalty)' : 'smooth (large-penalty)'} end of the searched range: the data may not support a choice by this rule. Consider giving a df target.`));
+    }
+  }
+
+  const sol = reinschSolve(sys, lt, true);
+  const { ys, ym } = s;
+  const fitted = new Float64Array(n);
+  const resid = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    fitted[i] = ym + ys * sol.g[i];
+    resid[i] = series.y[i] - fitted[i];
+  }
+  const df = sol.df;
+  const rss = sol.rss * ys * ys * s.wm;
+  const sigma = n > df + 1e-9 ? Math.sqrt(rss / (n - df)) : NaN;
+  const se = new Float64Array(n);
+  for (let i = 0; i < n; i++) se[i] = sigma * Math.sqrt(Math.max(0, sol.leverage![i]) / series.w[i]);
+  const gx = ys / (s.xs * s.xs);
+  const gamma = sol.gamma.map((v) => v * gx);
+  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined));
+  warnings.push(boundaryWarning());
+  const model: SplineModel = { x: series.x, g: fitted, gamma };
+  return {
+    method: 'spline', options: opts, x: series.x, fitted, penalty: fromScaled(lt, s), df, sigma, criterion,
+    knots: [], se, leverage: sol.leverage, warnings,
+    solver: { converged, iterations, tolerance, achieved, stoppingRule }, model,
+  };
+}
+
+/** Evaluates a spline fit at new x; beyond the data the natural spline continues as a straight line. */
+export function evaluateSpline(result: FitResult, xNew: Float64Array): Evaluation {
+  const m = result.model as SplineModel;
+  const value = new Float64Array(xNew.length);
+  const extrapolated = new Uint8Array(xNew.length);
+  const lo = m.x[0], hi = m.x[m.x.length - 1];
+  for (let i = 0; i < xNew.length; i++) {
+    value[i] = evaluateNaturalCubic(m.x, m.g, m.gamma, xNew[i]);
+    extrapolated[i] = xNew[i] < lo || xNew[i] > hi ? 1 : 0;
+  }
+  return { x: xNew, value, extrapolated };
+}
+
+/** The spline as a registered method. */
+export const splineMethod: MethodDefinition = {
+  name: 'spline',
+  summary: 'natural cubic smoothing spline (knots at every x; penalty by GCV, CV, df or value)',
+  minPoints: () => 3,
+  fit: fitSpline,
+  evaluate: evaluateSpline,
+};
