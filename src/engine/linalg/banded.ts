@@ -76,7 +76,7 @@ function notPositive(i: number, di: number): KnotwiseError {
 }
 
 /** Solves A z = b with a {@link bandedLDL} factorisation. Unchecked: `b.length` must equal n. */
-export function bandedSolve(f: BandedLDL, b: ArrayLike<number>, out = new Float64Array(f.n)): Float64Array {
+export function bandedSolve(f: BandedLDL, b: ArrayLike<number>, out: Float64Array = new Float64Array(f.n)): Float64Array {
   const { n, p, d, l } = f;
   for (let i = 0; i < n; i++) {
     let s = b[i];
@@ -123,7 +123,7 @@ export function bandedInverseBand(f: BandedLDL): Float64Array[] {
 }
 
 /** y = A x for a symmetric banded A in the module's storage. Unchecked. */
-export function bandedMultiply(band: readonly Float64Array[], x: ArrayLike<number>, out = new Float64Array(x.length)): Float64Array {
+export function bandedMultiply(band: readonly Float64Array[], x: ArrayLike<number>, out: Float64Array = new Float64Array(x.length)): Float64Array {
   const p = band.length - 1;
   const n = x.length;
   for (let i = 0; i < n; i++) {

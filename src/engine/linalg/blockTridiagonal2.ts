@@ -29,11 +29,11 @@ export interface BlockLDL2 {
   l: Float64Array;
 }
 
-/** Factorises the block-tridiagonal matrix (b, c) as L D L'. Unchecked. */
-export function blockLDL2(b: Float64Array, c: Float64Array): BlockLDL2 {
+/** Factorises the block-tridiagonal matrix (b, c) as L D L', into `work` when given. Unchecked. */
+export function blockLDL2(b: Float64Array, c: Float64Array, work?: BlockLDL2): BlockLDL2 {
   const m = b.length / 4;
-  const dinv = new Float64Array(4 * m);
-  const l = new Float64Array(4 * m);
+  const dinv = work ? work.dinv : new Float64Array(4 * m);
+  const l = work ? work.l : new Float64Array(4 * m);
   let p0 = 0, p1 = 0, p3 = 0; // previous D^{-1} (symmetric: p1 = p2)
   for (let k = 0; k < m; k++) {
     const o = 4 * k;
@@ -60,7 +60,7 @@ export function blockLDL2(b: Float64Array, c: Float64Array): BlockLDL2 {
 }
 
 /** Solves the system for a right-hand side of length 2m (pairs per block). Unchecked. */
-export function blockSolve2(f: BlockLDL2, rhs: Float64Array, out = new Float64Array(rhs.length)): Float64Array {
+export function blockSolve2(f: BlockLDL2, rhs: Float64Array, out: Float64Array = new Float64Array(rhs.length)): Float64Array {
   const { m, dinv, l } = f;
   out.set(rhs);
   for (let k = 1; k < m; k++) {
@@ -85,9 +85,8 @@ export function blockSolve2(f: BlockLDL2, rhs: Float64Array, out = new Float64Ar
 }
 
 /** Diagonal blocks of the inverse, flat 2 x 2 per block. Unchecked. */
-export function blockInverseDiagonal2(f: BlockLDL2): Float64Array {
+export function blockInverseDiagonal2(f: BlockLDL2, s: Float64Array = new Float64Array(4 * f.m)): Float64Array {
   const { m, dinv, l } = f;
-  const s = new Float64Array(4 * m);
   const last = 4 * (m - 1);
   s[last] = dinv[last]; s[last + 1] = dinv[last + 1]; s[last + 2] = dinv[last + 2]; s[last + 3] = dinv[last + 3];
   for (let k = m - 2; k >= 0; k--) {

@@ -29,7 +29,7 @@ import type { Series } from '../series';
 import type { CriterionPoint, Evaluation, FitOptions, FitResult } from '../types';
 import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
-import { reinschSolve, reinschSystem, ReinschSystem } from './spline/reinsch';
+import { reinschScore, reinschSolve, reinschSystem, ReinschSystem } from './spline/reinsch';
 import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
 import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
 import { solveForDf } from '../select/solveForDf';
@@ -177,7 +177,7 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
   let achieved = 0;
   let tolerance = 0;
   let stoppingRule = 'direct banded solve at the given penalty';
-  const dfAt = (l: number): number => reinschSolve(sys, l, true).df;
+  const dfAt = (l: number): number => reinschScore(sys, l).df;
 
   if (opts.penalty !== undefined) {
     lt = toScaled(opts.penalty, s);
@@ -198,7 +198,7 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
     criterion = { name: 'df', value: r.df };
   } else {
     const gcv = (l: number): PenaltyScore => {
-      const sol = reinschSolve(sys, l, true);
+      const sol = reinschScore(sys, l);
       const denom = n - sol.df;
       return { score: denom > 0 ? (n * sol.rss) / (denom * denom) : Infinity, df: sol.df };
     };

@@ -27,7 +27,7 @@
  *
  * Everything here is unchecked: x strictly increasing, w > 0, n >= 3, lambda >= 0.
  */
-import { blockInverseDiagonal2, blockLDL2, blockSolve2 } from '../../linalg/blockTridiagonal2';
+import { BlockLDL2, blockInverseDiagonal2, blockLDL2, blockSolve2 } from '../../linalg/blockTridiagonal2';
 
 /** Precomputed pieces that do not depend on lambda. */
 export interface ReinschSystem {
@@ -37,6 +37,8 @@ export interface ReinschSystem {
   y: Float64Array;
   /** Right-hand side (w_i y_i, 0) per block. */
   rhs: Float64Array;
+  /** Workspace reused across lambdas: blocks, factor, solution, inverse diagonal. */
+  work: { b: Float64Array; c: Float64Array; f: BlockLDL2; sol: Float64Array; s: Float64Array };
 }
 
 /** Builds the lambda-free parts of the system. Unchecked. */
@@ -48,7 +50,12 @@ export function reinschSystem(x: ArrayLike<number>, y: ArrayLike<number>, w: Arr
   const yy = Float64Array.from(y);
   const rhs = new Float64Array(2 * n);
   for (let i = 0; i < n; i++) rhs[2 * i] = ww[i] * yy[i];
-  return { n, h, w: ww, y: yy, rhs };
+  const work = {
+    b: new Float64Array(4 * n), c: new Float64Array(4 * n),
+    f: { m: n, dinv: new Float64Array(4 * n), l: new Float64Array(4 * n) },
+    sol: new Float64Array(2 * n), s: new Float64Array(4 * n),
+  };
+  return { n, h, w: ww, y: yy, rhs, work };
 }
 
 /** The spline at one lambda. */
@@ -71,12 +78,37 @@ export interface ReinschSolution {
  * diagonal and its trace. lambda = 0 gives the interpolating spline. Unchecked.
  */
 export function reinschSolve(sys: ReinschSystem, lambda: number, leverage: boolean): ReinschSolution {
-  const { n, h, w, y } = sys;
+  const { n, w, y } = sys;
   if (lambda === 0) return interpolate(sys, leverage);
-  const b = new Float64Array(4 * n);
-  const c = new Float64Array(4 * n);
+  const il = 1 / lambda;
+  const { f, sol } = factorAndSolve(sys, lambda);
+  const g = new Float64Array(n);
+  const gamma = new Float64Array(n);
+  let rss = 0;
+  for (let i = 0; i < n; i++) {
+    g[i] = sol[2 * i];
+    if (i >= 1 && i <= n - 2) gamma[i] = sol[2 * i + 1] * il;
+    const r = y[i] - g[i];
+    rss += w[i] * r * r;
+  }
+  if (!leverage) return { g, gamma, df: NaN, rss };
+  const s = blockInverseDiagonal2(f, sys.work.s);
+  const lev = new Float64Array(n);
+  let df = 0;
+  for (let i = 0; i < n; i++) {
+    const hii = w[i] * s[4 * i];
+    lev[i] = hii;
+    df += hii;
+  }
+  return { g, gamma, leverage: lev, df, rss };
+}
+
+/** Fills the blocks for one lambda, factorises and solves, in the system's workspace. Unchecked. */
+function factorAndSolve(sys: ReinschSystem, lambda: number): { f: BlockLDL2; sol: Float64Array } {
+  const { n, h, w } = sys;
   const il = 1 / lambda;
   // End blocks: (g, dummy s) with s = 0 decoupled.
+  const b = sys.work.b, c = sys.work.c;
   b[0] = w[0]; b[3] = -1;
   const e = 4 * (n - 1);
   b[e] = w[n - 1]; b[e + 3] = -1;
@@ -96,27 +128,27 @@ export function reinschSolve(sys: ReinschSystem, lambda: number, leverage: boole
     c[o + 2] = sHere ? q : 0; // s_k - g_{k-1}
     c[o + 3] = sPrev && sHere ? -(h[k - 1] / 6) * il : 0; // s_k - s_{k-1}
   }
-  const f = blockLDL2(b, c);
-  const sol = blockSolve2(f, sys.rhs);
-  const g = new Float64Array(n);
-  const gamma = new Float64Array(n);
-  let rss = 0;
+  const f = blockLDL2(b, c, sys.work.f);
+  const sol = blockSolve2(f, sys.rhs, sys.work.sol);
+  return { f, sol };
+}
+
+/**
+ * GCV ingredients at one lambda without building result arrays: weighted RSS
+ * and the trace of the hat matrix. Unchecked.
+ */
+export function reinschScore(sys: ReinschSystem, lambda: number): { rss: number; df: number } {
+  const { n, w, y } = sys;
+  if (lambda === 0) return { rss: 0, df: n };
+  const { f, sol } = factorAndSolve(sys, lambda);
+  const s = blockInverseDiagonal2(f, sys.work.s);
+  let rss = 0, df = 0;
   for (let i = 0; i < n; i++) {
-    g[i] = sol[2 * i];
-    if (i >= 1 && i <= n - 2) gamma[i] = sol[2 * i + 1] * il;
-    const r = y[i] - g[i];
+    const r = y[i] - sol[2 * i];
     rss += w[i] * r * r;
+    df += w[i] * s[4 * i];
   }
-  if (!leverage) return { g, gamma, df: NaN, rss };
-  const s = blockInverseDiagonal2(f);
-  const lev = new Float64Array(n);
-  let df = 0;
-  for (let i = 0; i < n; i++) {
-    const hii = w[i] * s[4 * i];
-    lev[i] = hii;
-    df += hii;
-  }
-  return { g, gamma, leverage: lev, df, rss };
+  return { rss, df };
 }
 
 function interpolate(sys: ReinschSystem, leverage: boolean): ReinschSolution {
