@@ -1,0 +1,63 @@
+/**
+ * Cholesky factorisation A = L L^T of a symmetric positive definite band
+ * matrix with half-bandwidth p, in place, in O(n p^2) (G. H. Golub and
+ * C. F. Van Loan, "Matrix Computations", 4th ed., section 4.3.5).
+ *
+ * Storage ("lower band"): entry A(i, i - d), 0 <= d <= p, at `a[i * (p + 1) + d]`;
+ * entries with i - d < 0 are ignored. On success `a` holds L in the same layout.
+ *
+ * @param a - the band of A, length n (p + 1); overwritten by L
+ * @param n - order of A
+ * @param p - half-bandwidth
+ * @param pivotFloor - optional relative floor: a pivot below `pivotFloor * A(i, i)` is raised to it
+ *   (a modified Cholesky factorisation of A + E with E >= 0 diagonal, for Newton steps on
+ *   numerically singular systems); 0 (default) means no floor
+ * @returns -1 on success, else the row index where a pivot was not positive (A is not numerically positive definite)
+ * @example
+ * ```ts
+ * const a = Float64Array.of(4, 0, 5, 2); // [[4, 2], [2, 5]]
+ * bandedCholesky(a, 2, 1); // -1; a = [2, 0, 2, 1]
+ * ```
+ * Unchecked.
+ */
+export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor = 0): number {
+  const w = p + 1;
+  for (let i = 0; i < n; i++) {
+    const j0 = i - p > 0 ? i - p : 0;
+    for (let j = j0; j <= i; j++) {
+      const aij = a[i * w + (i - j)];
+      let s = aij;
+      const l0 = j0 > j - p ? j0 : j - p;
+      for (let l = l0; l < j; l++) s -= a[i * w + (i - l)] * a[j * w + (j - l)];
+      if (j === i) {
+        if (pivotFloor > 0 && !(s >= pivotFloor * aij)) s = pivotFloor * aij;
+        if (!(s > 0)) return i;
+        a[i * w] = Math.sqrt(s);
+      } else {
+        a[i * w + (i - j)] = s / a[j * w];
+      }
+    }
+  }
+  return -1;
+}
+
+/**
+ * Solves L L^T x = b with the factor from {@link bandedCholesky}, in place on b, O(n p).
+ * Unchecked.
+ */
+export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Float64Array): Float64Array {
+  const w = p + 1;
+  for (let i = 0; i < n; i++) {
+    let s = b[i];
+    const j0 = i - p > 0 ? i - p : 0;
+    for (let j = j0; j < i; j++) s -= l[i * w + (i - j)] * b[j];
+    b[i] = s / l[i * w];
+  }
+  for (let i = n - 1; i >= 0; i--) {
+    let s = b[i];
+    const j1 = i + p < n - 1 ? i + p : n - 1;
+    for (let j = i + 1; j <= j1; j++) s -= l[j * w + (j - i)] * b[j];
+    b[i] = s / l[i * w];
+  }
+  return b;
+}
