@@ -72,6 +72,20 @@ function crossing(d2: number, d1: number, d0: number, from: number): number {
   return r > from ? r : Infinity;
 }
 
+/** Minimum of d2 phi^2 + d1 phi + d0 over [lo, hi] (ends may be infinite; -Infinity when unbounded below). Unchecked. */
+function minOnInterval(d2: number, d1: number, d0: number, lo: number, hi: number): number {
+  const at = (p: number): number => (d2 * p + d1) * p + d0;
+  if (d2 > 0) {
+    const v = -d1 / (2 * d2);
+    if (v >= lo && v <= hi) return d0 - (d1 * d1) / (4 * d2);
+    return v < lo ? at(lo) : at(hi);
+  }
+  if (d2 < 0) return lo === -Infinity || hi === Infinity ? -Infinity : Math.min(at(lo), at(hi));
+  if (d1 > 0) return lo === -Infinity ? -Infinity : at(lo);
+  if (d1 < 0) return hi === Infinity ? -Infinity : at(hi);
+  return d0;
+}
+
 /**
  * Exact minimiser of the L0-penalised change-in-slope criterion
  *
@@ -234,20 +248,9 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
       const j = tpar[k];
       if (Q.die[j] !== Infinity) continue;
       let prune = true;
-      for (let p = 0; p < P && prune; p++) {
+      for (let p = 0; p < P; p++) {
         const e = envIdx[p];
-        const d2 = ta[k] - ta[e], d1 = tb[k] - tb[e], d0 = tc[k] - tc[e] - beta;
-        const lo = envLo[p], hi = envHi[p];
-        if (d2 < 0) { if (lo === -Infinity || hi === Infinity) { prune = false; break; } }
-        else if (d2 === 0) {
-          if ((lo === -Infinity && d1 > 0) || (hi === Infinity && d1 < 0)) { prune = false; break; }
-        }
-        if (d2 > 0) {
-          const v = -d1 / (2 * d2);
-          if (v > lo && v < hi && d0 - (d1 * d1) / (4 * d2) < 0) { prune = false; break; }
-        }
-        if (lo !== -Infinity && (d2 * lo + d1) * lo + d0 < 0) { prune = false; break; }
-        if (hi !== Infinity && (d2 * hi + d1) * hi + d0 < 0) { prune = false; break; }
+        if (minOnInterval(ta[k] - ta[e], tb[k] - tb[e], tc[k] - tc[e] - beta, envLo[p], envHi[p]) < 0) { prune = false; break; }
       }
       if (prune) Q.die[j] = t + minSegment;
     }
@@ -273,6 +276,16 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
   }
   knots.reverse(); values.reverse();
   const changes = knots.slice(1, -1);
-  const cost = finalValue - beta * changes.length;
-  return { changes, knotValues: values, cost, penalisedCost: finalValue, evaluations, maxCandidates, meanCandidates: sumCandidates / Math.max(1, n - 1) };
+  // residual sum of squares of the broken line, recomputed from the data (the DP's
+  // value carries beta in its constants, which costs digits when beta is large)
+  let cost = 0;
+  for (let k = 0, seg = 0; k < n; k++) {
+    while (seg < knots.length - 2 && k > knots[seg + 1]) seg++;
+    const a = knots[seg], b = knots[seg + 1];
+    const u = (x[k] - x[a]) / (x[b] - x[a]);
+    const f = values[seg] + u * (values[seg + 1] - values[seg]);
+    cost += wyy[k] - 2 * f * w[k] * y[k] + w[k] * f * f;
+  }
+  if (cost < 0) cost = 0;
+  return { changes, knotValues: values, cost, penalisedCost: cost + beta * changes.length, evaluations, maxCandidates, meanCandidates: sumCandidates / Math.max(1, n - 1) };
 }
