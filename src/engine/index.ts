@@ -10,3 +10,6 @@ export { fitSpline, evaluateSpline, splineMethod } from './smoothers/spline';
 export type { SplineModel } from './smoothers/spline';
 export { bandedLDL, bandedSolve, bandedInverseBand, bandedMultiply } from './linalg/banded';
 export type { BandedLDL } from './linalg/banded';
+export { FitCache, cacheKey } from './cache/fitCache';
+export { breaksFromCells } from './segment';
+export type { SeriesBreaks } from './segment';

@@ -1,0 +1,9 @@
+/** Node host of the command line. */
+import * as fs from 'fs';
+import { runCli } from './main';
+
+process.exitCode = runCli(process.argv.slice(2), {
+  readFile: (p) => fs.readFileSync(p, 'utf8'),
+  out: (t) => process.stdout.write(t + '\n'),
+  err: (t) => process.stderr.write(t + '\n'),
+});
