@@ -3,6 +3,8 @@
  */
 import type { SegmentCost } from './segmentCost';
 
+const { log } = Math;
+
 /**
  * Builds the empirical-distribution cost of Haynes, Fearnhead & Eckley (2017),
  * "A computationally efficient nonparametric approach for changepoint detection",
@@ -33,7 +35,7 @@ import type { SegmentCost } from './segmentCost';
 export function distributionCost(y: Float64Array, K: number): SegmentCost {
   const n = y.length;
   const sorted = Float64Array.from(y).sort();
-  const c = -Math.log(2 * n - 1);
+  const c = -log(2 * n - 1);
   const q = new Float64Array(K);
   for (let k = 0; k < K; k++) {
     const p = 1 / (1 + (2 * n - 1) * Math.exp((c * (2 * k + 1)) / K));
@@ -58,7 +60,7 @@ export function distributionCost(y: Float64Array, K: number): SegmentCost {
       let total = 0;
       for (let k = 0, base = 0; k < K; k++, base += stride) {
         const f = (cum[base + t] - cum[base + s]) / (2 * m);
-        if (f > 0 && f < 1) total -= m * (f * Math.log(f) + (1 - f) * Math.log(1 - f));
+        if (f > 0 && f < 1) total -= m * (f * log(f) + (1 - f) * log(1 - f));
       }
       return factor * total;
     },

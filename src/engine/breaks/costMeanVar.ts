@@ -3,6 +3,8 @@
  */
 import type { SegmentCost } from './segmentCost';
 
+const { log } = Math;
+
 /** Variance floor of {@link meanVarCost}, relative to the variance of the whole series. */
 export const MEANVAR_FLOOR = 1e-8;
 
@@ -57,7 +59,7 @@ export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, sc
       let v = (s2[t] - s2[s] - (a * a) / W) / W;
       if (!(v > 0)) v = 0;
       const s2f = v > floor ? v : floor;
-      return W * (Math.log(s2f) + v / s2f);
+      return W * (log(s2f) + v / s2f);
     },
     floored(s: number, t: number): boolean { return variance(s, t) <= floor; },
     variance,

@@ -3,6 +3,8 @@
  */
 import type { SegmentCost } from './segmentCost';
 
+const { log } = Math;
+
 /**
  * Builds the Poisson change-in-rate cost
  *
@@ -33,7 +35,7 @@ export function poissonCost(y: Float64Array, w: Float64Array): SegmentCost {
     cost(s: number, t: number): number {
       const S = sy[t] - sy[s];
       if (!(S > 0)) return 0;
-      return 2 * (S - S * Math.log(S / (sw[t] - sw[s])));
+      return 2 * (S - S * log(S / (sw[t] - sw[s])));
     },
   };
 }

@@ -2,6 +2,10 @@
  * CPOP: exact L0-penalised continuous piecewise-linear fit (changes in slope).
  */
 
+/** Module-level aliases: hot loops avoid global lookups (slow inside sandboxed contexts). */
+const INF = 1 / 0;
+const { abs, sqrt, min } = Math;
+
 /** Result of {@link cpop}. */
 export interface SlopeSegmentation {
   /** Point indices of the kinks, increasing, excluding the two end points. */
@@ -36,7 +40,7 @@ class QuadStore {
     if (this.size === this.a.length) this.grow();
     const i = this.size++;
     this.a[i] = a; this.b[i] = b; this.c[i] = c; this.parent[i] = parent;
-    this.alpha[i] = alpha; this.gamma[i] = gamma; this.time[i] = time; this.die[i] = Infinity;
+    this.alpha[i] = alpha; this.gamma[i] = gamma; this.time[i] = time; this.die[i] = INF;
     return i;
   }
   private grow(): void {
@@ -53,23 +57,23 @@ class QuadStore {
  * lower than cur; Infinity when it never does. Unchecked.
  */
 function crossing(d2: number, d1: number, d0: number, from: number): number {
-  const scale = Math.abs(d2) + Math.abs(d1) + Math.abs(d0);
-  if (scale === 0) return Infinity;
-  if (Math.abs(d2) <= 1e-14 * scale) {
-    if (d1 >= 0) return Infinity;
+  const scale = abs(d2) + abs(d1) + abs(d0);
+  if (scale === 0) return INF;
+  if (abs(d2) <= 1e-14 * scale) {
+    if (d1 >= 0) return INF;
     const r = -d0 / d1;
-    return r > from ? r : Infinity;
+    return r > from ? r : INF;
   }
   const disc = d1 * d1 - 4 * d2 * d0;
-  if (disc <= 0) return Infinity;
-  const sq = Math.sqrt(disc);
+  if (disc <= 0) return INF;
+  const sq = sqrt(disc);
   const qq = -0.5 * (d1 + (d1 >= 0 ? sq : -sq));
   let r1 = qq / d2;
   let r2 = qq !== 0 ? d0 / qq : r1;
   if (r1 > r2) { const t = r1; r1 = r2; r2 = t; }
   // d2 > 0: o - cur < 0 on (r1, r2), entered at r1; d2 < 0: negative beyond r2
   const r = d2 > 0 ? r1 : r2;
-  return r > from ? r : Infinity;
+  return r > from ? r : INF;
 }
 
 /** Minimum of d2 phi^2 + d1 phi + d0 over [lo, hi] (ends may be infinite; -Infinity when unbounded below). Unchecked. */
@@ -80,9 +84,9 @@ function minOnInterval(d2: number, d1: number, d0: number, lo: number, hi: numbe
     if (v >= lo && v <= hi) return d0 - (d1 * d1) / (4 * d2);
     return v < lo ? at(lo) : at(hi);
   }
-  if (d2 < 0) return lo === -Infinity || hi === Infinity ? -Infinity : Math.min(at(lo), at(hi));
-  if (d1 > 0) return lo === -Infinity ? -Infinity : at(lo);
-  if (d1 < 0) return hi === Infinity ? -Infinity : at(hi);
+  if (d2 < 0) return lo === -INF || hi === INF ? -INF : min(at(lo), at(hi));
+  if (d1 > 0) return lo === -INF ? -INF : at(lo);
+  if (d1 < 0) return hi === INF ? -INF : at(hi);
   return d0;
 }
 
@@ -153,7 +157,7 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
   let maxCandidates = 1;
   let sumCandidates = 0;
   let finalBest = -1;
-  let finalValue = Infinity;
+  let finalValue = INF;
   for (let t = 1; t < n; t++) {
     const xt = x[t], wt = w[t], wyt = w[t] * y[t], uyt = wyy[t];
     let K = 0;
@@ -216,9 +220,9 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
     for (let k = 1; k < K; k++) {
       if (ta[k] < ta[cur] || (ta[k] === ta[cur] && (tb[k] > tb[cur] || (tb[k] === tb[cur] && tc[k] < tc[cur])))) cur = k;
     }
-    let pos = -Infinity;
+    let pos = -INF;
     for (let step = 0; step < 2 * K + 1; step++) {
-      let best = Infinity;
+      let best = INF;
       let arg = -1;
       const a0 = ta[cur], b0 = tb[cur], c0 = tc[cur];
       for (let k = 0; k < K; k++) {
@@ -227,12 +231,12 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
         if (r < best) { best = r; arg = k; }
       }
       envIdx.push(cur); envLo.push(pos);
-      if (arg < 0) { envHi.push(Infinity); break; }
+      if (arg < 0) { envHi.push(INF); break; }
       envHi.push(best);
       pos = best;
       cur = arg;
     }
-    if (envHi.length < envIdx.length) envHi.push(Infinity);
+    if (envHi.length < envIdx.length) envHi.push(INF);
     // store the envelope's pieces as f_t
     for (let k = 0; k < K; k++) onEnv[k] = 0;
     for (const k of envIdx) onEnv[k] = 1;
@@ -246,7 +250,7 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
     const P = envIdx.length;
     for (let k = 0; k < K; k++) {
       const j = tpar[k];
-      if (Q.die[j] !== Infinity) continue;
+      if (Q.die[j] !== INF) continue;
       let prune = true;
       for (let p = 0; p < P; p++) {
         const e = envIdx[p];

@@ -4,6 +4,9 @@
 import type { SegmentCost, Segmentation } from './segmentCost';
 import { finish } from './pelt';
 
+/** Module-level aliases: hot loops avoid global lookups (slow inside sandboxed contexts). */
+const INF = 1 / 0;
+
 /**
  * Optimal partitioning (Jackson et al. 2005, "An algorithm for optimal partitioning
  * of data on an interval", IEEE Signal Processing Letters 12:105-108):
@@ -27,16 +30,16 @@ import { finish } from './pelt';
  */
 export function optimalPartitioning(cost: SegmentCost, penalty: number, minSegment: number, allowed?: Uint8Array): Segmentation {
   const n = cost.n;
-  const F = new Float64Array(n + 1).fill(Infinity);
+  const F = new Float64Array(n + 1).fill(INF);
   const last = new Int32Array(n + 1).fill(-1);
   F[0] = -penalty;
   let evaluations = 0;
   for (let t = 1; t <= n; t++) {
-    let best = Infinity;
+    let best = INF;
     let arg = -1;
     for (let s = 0; s <= t - minSegment; s++) {
       if (s > 0 && allowed && allowed[s] !== 1) continue;
-      if (F[s] === Infinity) continue;
+      if (F[s] === INF) continue;
       evaluations++;
       const v = F[s] + cost.cost(s, t) + penalty;
       if (v < best) { best = v; arg = s; }

@@ -3,6 +3,9 @@
  */
 import type { SegmentCost, Segmentation } from './segmentCost';
 
+/** Module-level aliases: hot loops avoid global lookups (slow inside sandboxed contexts). */
+const INF = 1 / 0;
+
 /**
  * Pruned Exact Linear Time search (Killick, Fearnhead & Eckley 2012, "Optimal
  * detection of changepoints with a linear computational cost", JASA 107:1590-1598).
@@ -32,14 +35,14 @@ import type { SegmentCost, Segmentation } from './segmentCost';
 export function pelt(cost: SegmentCost, penalty: number, minSegment: number, allowed?: Uint8Array): Segmentation {
   const n = cost.n;
   const m = minSegment;
-  const F = new Float64Array(n + 1).fill(Infinity);
+  const F = new Float64Array(n + 1).fill(INF);
   const last = new Int32Array(n + 1).fill(-1);
   F[0] = -penalty;
   let cand: Int32Array = new Int32Array(16);
   let die: Float64Array = new Float64Array(16);
   let nc = 1;
   cand[0] = 0;
-  die[0] = Infinity;
+  die[0] = INF;
   const segCost = new Float64Array(n + 1);
   let evaluations = 0;
   let maxCandidates = 1;
@@ -49,7 +52,7 @@ export function pelt(cost: SegmentCost, penalty: number, minSegment: number, all
     let k = 0;
     for (let i = 0; i < nc; i++) if (die[i] > t) { cand[k] = cand[i]; die[k] = die[i]; k++; }
     nc = k;
-    let best = Infinity;
+    let best = INF;
     let arg = -1;
     for (let i = 0; i < nc; i++) {
       const s = cand[i];
@@ -70,14 +73,14 @@ export function pelt(cost: SegmentCost, penalty: number, minSegment: number, all
     if (canChange) {
       // pruning: s cannot be the last change of any optimal path ending at u >= t + m
       for (let i = 0; i < nc; i++) {
-        if (die[i] === Infinity && F[cand[i]] + segCost[i] >= best) die[i] = t + m;
+        if (die[i] === INF && F[cand[i]] + segCost[i] >= best) die[i] = t + m;
       }
       if (nc === cand.length) {
         const c2 = new Int32Array(nc * 2); c2.set(cand); cand = c2;
         const d2 = new Float64Array(nc * 2); d2.set(die); die = d2;
       }
       cand[nc] = t;
-      die[nc] = Infinity;
+      die[nc] = INF;
       nc++;
     }
   }
