@@ -4,6 +4,7 @@
  * generated from those tags at build time).
  */
 import { smooth, penalty, summary, knots, evaluateAt } from './smoothing';
+import { breaks, segments, breakPath } from './breaks';
 
 export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   SMOOTH: smooth,
@@ -11,6 +12,9 @@ export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   SUMMARY: summary,
   KNOTS: knots,
   EVALUATE: evaluateAt,
+  BREAKS: breaks,
+  SEGMENTS: segments,
+  BREAKPATH: breakPath,
 };
 
 

@@ -1,0 +1,132 @@
+/**
+ * Turns a block of selected cells and the pane's choices into one engine call,
+ * and the engine's result into what the pane shows. No numerics here: the
+ * engine fits, checks and warns; this only arranges.
+ */
+import { Cell, FitOptions, Warning, breaksFromCells, evaluate, fitCells } from '../engine';
+import type { BreaksModel, BreaksOptions } from '../engine/breaks/types';
+import type { CellBlock } from './workbook';
+
+export type Choice =
+  | { kind: 'smooth'; method: 'spline' | 'trend'; order?: number }
+  | { kind: 'breaks'; model: BreaksModel };
+
+/** How the penalty is set: a rule, a df target or a fixed value. */
+export interface PenaltyChoice {
+  rule: 'auto' | 'gcv' | 'cv' | 'cv-1se' | 'sure' | 'bic' | 'mbic' | 'df' | 'value';
+  value?: number;
+}
+
+export interface Marker {
+  x: number;
+  label: string;
+}
+
+export interface View {
+  title: string;
+  /** Clean points, sorted by x. */
+  x: Float64Array;
+  y: Float64Array;
+  fitted: Float64Array;
+  /** The fitted curve continued beyond the data on both sides (extrapolation), when the method defines it. */
+  beyond?: { left: { x: number[]; y: number[] }; right: { x: number[]; y: number[] } };
+  /** Points at each end whose fitted values rest on one side only (about one smoothing window). */
+  boundaryPoints: number;
+  markers: Marker[];
+  summary: [string, string][];
+  warnings: Warning[];
+  /** Criterion against df, with the chosen point, for "why this penalty". */
+  curve?: { df: number[]; score: number[]; chosenDf: number; chosenScore: number; name: string };
+  /** CROPS-like table of changes against cost, for changepoints. */
+  /** One value per selected data row (header excluded), blank where dropped: what "write" puts in the sheet. */
+  column: unknown[];
+  columnHeader: string;
+  /** Rows of the knots or breaks table (with header). */
+  table: unknown[][];
+}
+
+const fmt = (v: number): string => (Number.isFinite(v) ? Number(v.toPrecision(5)).toString() : 'n/a');
+
+/** Splits a selection into an optional header and the x, y columns (1 column: y; 2: x, y; 3: x, y, weights). */
+export function splitSelection(block: CellBlock): { header: string[] | null; x: Cell[] | null; y: Cell[]; w: Cell[] | null; yName: string } {
+  const v = block.values;
+  const nc = v[0]?.length ?? 0;
+  if (nc < 1 || nc > 3) throw new Error(`select one column (y), two (x then y) or three (x, y, weights); the selection ${block.address} has ${nc} columns.`);
+  const yCol = nc === 1 ? 0 : 1;
+  const isText = (c: unknown) => typeof c === 'string' && c.trim() !== '' && !/^[-+]?[\d.]+([eE][-+]?\d+)?$/.test(c.trim());
+  const hasHeader = v.length > 1 && v[0].every(isText) && typeof v[1][yCol] === 'number';
+  const body = hasHeader ? v.slice(1) : v;
+  const col = (j: number) => body.map((r) => r[j] as Cell);
+  return {
+    header: hasHeader ? v[0].map(String) : null,
+    x: nc >= 2 ? col(0) : null,
+    y: col(yCol),
+    w: nc === 3 ? col(2) : null,
+    yName: hasHeader ? String(v[0][yCol]) : 'y',
+  };
+}
+
+function penaltyOptions(p: PenaltyChoice): FitOptions {
+  switch (p.rule) {
+    case 'auto': return {};
+    case 'cv-1se': return { select: 'cv', oneSE: true };
+    case 'df': return { df: p.value };
+    case 'value': return { penalty: p.value };
+    case 'mbic': return { select: 'bic' };
+    default: return { select: p.rule };
+  }
+}
+
+/** Runs the chosen analysis on a selection. Throws the engine's errors unchanged. */
+export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): View {
+  const sel = splitSelection(block);
+  if (choice.kind === 'smooth') {
+    const options: FitOptions = { method: choice.method, ...penaltyOptions(pen) };
+    if (choice.method === 'trend') options.order = choice.order ?? 1;
+    const { series, result } = fitCells(sel.y, sel.x, sel.w, options);
+    const n = series.n;
+    const span = series.x[n - 1] - series.x[0];
+    const ext = (from: number, to: number) => {
+      const xs = Array.from({ length: 12 }, (_, i) => from + ((to - from) * i) / 11);
+      return { x: xs, y: Array.from(evaluate(result, xs).value) };
+    };
+    const column: unknown[] = [];
+    for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; column.push(k >= 0 ? result.fitted[k] : ''); }
+    const curve = result.criterion.curve && result.criterion.curve.length > 1
+      ? { df: result.criterion.curve.map((p) => p.df), score: result.criterion.curve.map((p) => p.score), chosenDf: result.df, chosenScore: result.criterion.value, name: result.criterion.name }
+      : undefined;
+    const title = choice.method === 'spline' ? 'Smoothing spline' : `Trend filtering, order ${options.order}`;
+    return {
+      title, x: series.x, y: series.y, fitted: result.fitted,
+      beyond: { left: ext(series.x[0] - 0.08 * span, series.x[0]), right: ext(series.x[n - 1], series.x[n - 1] + 0.08 * span) },
+      boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), Math.round(n / Math.max(result.df, 1)))),
+      markers: result.knots.map((k) => ({ x: k.x, label: `knot at ${fmt(k.x)}: change ${fmt(k.change)}` })),
+      summary: [
+        ['lambda', fmt(result.penalty)], ['df', fmt(result.df)], ['sigma', fmt(result.sigma)],
+        ['chosen by', result.criterion.name], ['points used', `${series.n} of ${series.nRows}`],
+        ['knots', String(result.knots.length)], ['solver', result.solver.converged ? `converged (${result.solver.iterations} steps)` : 'NOT converged'],
+      ],
+      warnings: result.warnings, curve, column, columnHeader: `${sel.yName} (${choice.method})`,
+      table: [['x', 'row', 'change'], ...result.knots.map((k) => [k.x, k.row + 1, k.change])],
+    };
+  }
+  const bo: BreaksOptions = { model: choice.model };
+  if (pen.rule === 'value') bo.penalty = pen.value;
+  else if (pen.rule === 'mbic') bo.penalty = 'mbic';
+  else if (pen.rule === 'bic') bo.penalty = 'bic';
+  const { series, result } = breaksFromCells(sel.y, sel.x, sel.w, bo);
+  const column: unknown[] = [];
+  for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; column.push(k >= 0 ? result.fitted[k] : ''); }
+  return {
+    title: `Changepoints (${choice.model})`, x: series.x, y: series.y, fitted: result.fitted,
+    boundaryPoints: 0,
+    markers: result.breaks.map((b) => ({ x: b.x, label: `break at ${fmt(b.x)}: change ${fmt(b.change)}` })),
+    summary: [
+      ['penalty', `${result.penalty.rule} = ${fmt(result.penalty.value)}`], ['breaks', String(result.breaks.length)],
+      ['segments', String(result.segments.length)], ['points used', `${series.n} of ${series.nRows}`],
+      ['search', `${result.solver.algorithm}, exact`],
+    ],
+    warnings: result.warnings, column, columnHeader: `${sel.yName} (segments)`,
+    table: [['x', 'row', 'change'], ...result.breaks.map((b) => [b.x, b.row + 1, b.change])],
+  };
+}
