@@ -4,5 +4,7 @@
  */
 import { registerMethod } from './registry';
 import { splineMethod } from './smoothers/spline';
+import { trendMethod } from './smoothers/trend';
 
 registerMethod(splineMethod);
+registerMethod(trendMethod);

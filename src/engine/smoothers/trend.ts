@@ -1,0 +1,345 @@
+/**
+ * L1 trend filtering: locally adaptive piecewise polynomial trends with
+ * knots chosen by the data.
+ *
+ *   minimise over b:  1/2 sum_i w_i (y_i - b_i)^2 + lambda ||D(x, k+1) b||_1
+ *
+ * with D(x, k+1) the divided-difference operator of order k + 1 for unequally
+ * spaced x ({@link differenceOperator}); (D b)_r is the jump in the k-th
+ * derivative of the fit's interpolant at its r-th candidate knot, so the
+ * penalty is lambda times the total variation of the k-th derivative.
+ * k = 0: total-variation denoising (piecewise constant); k = 1: piecewise
+ * linear; k = 2, 3: piecewise quadratic / cubic.
+ * References: R. J. Tibshirani, "Adaptive piecewise polynomial estimation via
+ * trend filtering", Ann. Statist. 42 (2014) 285-323; S.-J. Kim, K. Koh, S. Boyd
+ * and D. Gorinevsky, "l1 trend filtering", SIAM Review 51 (2009) 339-360;
+ * R. J. Tibshirani and J. Taylor, "Degrees of freedom in lasso problems",
+ * Ann. Statist. 40 (2012) (df = knots + k + 1).
+ *
+ * Units of lambda: the problem as stated with x, y and w in their own units,
+ * so lambda is in (units of y) x (units of x)^k x (units of weight). Internally
+ * x is mapped to unit mean spacing, y to mean 0 and sd 1, w to mean 1, and the
+ * penalty converted back ({@link toDataPenalty}): lambda = lambda' m c h^k.
+ *
+ * Solvers: k = 0 exact dynamic programming ({@link totalVariationDenoise});
+ * k >= 1 dual interior point ({@link trendDualInteriorPoint}) plus exact
+ * active-set refinement ({@link polishTrend}); status and stopping rule returned.
+ */
+import { KnotwiseError, showNumber } from '../errors';
+import type { MethodDefinition } from '../registry';
+import type { Series } from '../series';
+import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot, SolverStatus } from '../types';
+import { Warning, warning } from '../warnings';
+import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
+import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
+import { differenceOperator } from '../linalg/difference';
+import { trendScaling, toScaledPenalty, toDataPenalty } from './trend/trendScaling';
+import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
+import { trendPath, TrendPath, relaxFit, knotPositions } from './trend/trendPath';
+import { interpolateTrend } from './trend/interpolateTrend';
+import { evaluateRegressionSpline, RegressionSpline } from './trend/regressionSplineRefit';
+
+/** State kept for evaluation at new x (the data's units). */
+export interface TrendModel {
+  /** Clean x. */
+  x: Float64Array;
+  /** The L1 (unrelaxed) fit at x. */
+  l1: Float64Array;
+  /** Order k. */
+  order: number;
+  /** Relaxation in [0, 1]. */
+  relaxed: number;
+  /** The relaxed refit, when relaxed > 0. */
+  refit?: RegressionSpline;
+}
+
+/** Options of trend filtering as resolved (defaults filled in). */
+export interface TrendSettings {
+  order: number;
+  relaxed: number;
+  gridSize: number;
+  folds: number;
+  tolerance: number;
+  maxIterations: number;
+  oneSE: boolean;
+  select: 'cv' | 'sure' | 'bic';
+}
+
+/** Default polynomial order (piecewise linear trends). */
+export const TREND_DEFAULT_ORDER = 1;
+
+/**
+ * Validates trend-filtering options and fills in defaults: order 1, relaxed 0,
+ * gridSize 30, folds 5, tolerance 1e-8 (relative duality gap), maxIterations 200,
+ * select 'cv', oneSE false.
+ * @throws {@link KnotwiseError} `bad-option` naming the offending value
+ */
+export function trendSettings(options: FitOptions): TrendSettings {
+  const order = options.order === undefined ? TREND_DEFAULT_ORDER : checkInteger(options.order, 'order', 0, 3);
+  let relaxed = 0;
+  if (options.relaxed !== undefined) {
+    const r = options.relaxed;
+    if (typeof r !== 'number' || !(r >= 0 && r <= 1)) throw new KnotwiseError('bad-option', `relaxed must be a number from 0 to 1; got ${typeof r === 'number' ? showNumber(r) : String(r)}.`);
+    relaxed = r;
+  }
+  const gridSize = options.gridSize === undefined ? 30 : checkInteger(options.gridSize, 'gridSize', 3, 500);
+  const folds = options.folds === undefined ? 5 : checkInteger(options.folds, 'folds', 2, 50);
+  let tolerance = 1e-8;
+  if (options.tolerance !== undefined) {
+    tolerance = checkPositive(options.tolerance, 'tolerance');
+    if (tolerance >= 1) throw new KnotwiseError('bad-option', `tolerance must be below 1 (a relative duality gap); got ${showNumber(tolerance)}.`);
+  }
+  const maxIterations = options.maxIterations === undefined ? 200 : checkInteger(options.maxIterations, 'maxIterations', 1, 100000);
+  if (options.oneSE !== undefined && typeof options.oneSE !== 'boolean') throw new KnotwiseError('bad-option', `oneSE must be TRUE or FALSE; got ${String(options.oneSE)}.`);
+  const select = options.select === undefined ? 'cv' : checkChoice(options.select, 'select', ['cv', 'sure', 'bic'] as const);
+  return { order, relaxed, gridSize, folds, tolerance, maxIterations, oneSE: !!options.oneSE, select };
+}
+
+/**
+ * The criterion table of trend filtering: the path over the penalty grid with
+ * cross-validation (when select is 'cv' or omitted), SURE and BIC at every
+ * penalty, in increasing penalty. For worksheets that return the table.
+ *
+ * @param series - clean series
+ * @param options - as for {@link fitTrend} (order, relaxed, gridSize, folds, tolerance, maxIterations, select)
+ * @example
+ * ```ts
+ * const path = trendCriterionPath(prepareSeries(y, x), { order: 1 });
+ * path.points.map((p) => [p.penalty, p.cv, p.df]);
+ * ```
+ */
+export function trendCriterionPath(series: Series, options: FitOptions = {}): TrendPath {
+  const s = trendSettings(options);
+  checkSize(series, s.order);
+  const useCv = s.select === 'cv' && cvPossible(series.n, s.folds, s.order);
+  return trendPath(series, { order: s.order, gridSize: s.gridSize, folds: useCv ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations });
+}
+
+function checkSize(series: Series, k: number): void {
+  if (series.n < k + 2) throw new KnotwiseError('too-few-points', `trend filtering of order ${k} needs at least ${k + 2} distinct x values; got ${series.n}.`);
+}
+
+/** Cross-validation needs every training set to keep order + 2 points and every fold a held-out point. */
+function cvPossible(n: number, folds: number, k: number): boolean {
+  return n - 2 >= folds && n - Math.ceil((n - 2) / folds) >= k + 2 && n >= 2 * folds;
+}
+
+/**
+ * Fits L1 trend filtering to a clean series.
+ *
+ * Penalty: `options.penalty` (lambda in the data's units, see the module note),
+ * else `options.df` (the grid penalty whose df = knots + k + 1 is closest,
+ * refined by bisection on log lambda), else `options.select`: 'cv' (default;
+ * K-fold, `folds` default 5, `oneSE` for the largest penalty within one
+ * standard error of the minimum), 'sure' (Mallows Cp with the robust noise sd
+ * of {@link differenceNoiseScale}), or 'bic'. Grid: `gridSize` (default 30)
+ * penalties log-spaced from lambda_max (the smallest giving the polynomial fit)
+ * to 1e-5 lambda_max.
+ *
+ * Knots: rows r of D(x, k+1) with (D b)_r non-zero (see {@link solveTrend} for
+ * the tolerance); reported at point r + k (k >= 1, where the k-th derivative
+ * jumps) or r + 1 (k = 0, the first point at the new level), with `change` the
+ * jump in the k-th derivative of the L1 fit in the data's units (level jump for
+ * k = 0, slope change for k = 1).
+ *
+ * `relaxed` in [0, 1]: fitted = relaxed * refit + (1 - relaxed) * L1 fit, the
+ * refit being the unpenalised weighted regression spline of degree k on the
+ * knots ({@link regressionSplineRefit}).
+ *
+ * sigma = sqrt(RSS_w / (n - df)) (NaN when n <= df).
+ *
+ * @param series - clean series (at least order + 2 points)
+ * @param options - order (0..3, default 1), penalty, df, select, folds, oneSE, relaxed, gridSize, tolerance, maxIterations
+ * @throws {@link KnotwiseError} `bad-option`, `too-few-points`
+ * @example
+ * ```ts
+ * const r = fitTrend(prepareSeries(y, x), { order: 1, select: 'cv' });
+ * r.knots.map((k) => k.x);
+ * ```
+ */
+export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
+  const s = trendSettings(options);
+  const k = s.order;
+  checkSize(series, k);
+  const n = series.n;
+  const warnings: Warning[] = [...series.warnings];
+  const sc = trendScaling(series, k);
+  const prob: TrendProblem = { x: sc.xs, y: sc.ys, w: sc.ws, k };
+  let lamScaled: number;
+  let criterion: Criterion;
+  let fit: TrendFit;
+  let dataDriven = false;
+  if (options.penalty !== undefined) {
+    const lam = checkPenalty(options.penalty, 'penalty');
+    lamScaled = toScaledPenalty(lam, sc);
+    fit = lamScaled > 0 ? solveTrend(prob, lamScaled, s.tolerance, s.maxIterations) : interpolatingFit(prob);
+    criterion = { name: 'fixed', value: NaN };
+  } else if (options.df !== undefined) {
+    const target = checkPositive(options.df, 'df');
+    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: 0, relaxed: 0, tolerance: s.tolerance, maxIterations: s.maxIterations });
+    const r = searchDf(prob, path, target, s);
+    fit = r.fit;
+    lamScaled = r.lambda;
+    criterion = { name: 'df', value: fit.knotRows.length + k + 1, curve: curveOf(path, 'df'), atEdge: false };
+    if (r.clamped) warnings.push(warning('target-clamped', `df ${showNumber(target)} is outside what trend filtering of order ${k} reaches on these data (${k + 1} to about ${showNumber(r.maxDf)}); the closest attainable, ${fit.knotRows.length + k + 1}, was used.`));
+    else if (fit.knotRows.length + k + 1 !== target) warnings.push(warning('target-clamped', `df moves in whole steps (knots + ${k + 1}); ${showNumber(target)} was met as closely as possible: ${fit.knotRows.length + k + 1}.`));
+  } else {
+    dataDriven = true;
+    let rule = s.select;
+    if (rule === 'cv' && !cvPossible(n, s.folds, k)) {
+      warnings.push(warning('note', `${n} points are too few for ${s.folds}-fold cross-validation at order ${k}; the penalty was chosen by SURE instead.`));
+      rule = 'sure';
+    }
+    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations });
+    const pts = path.points;
+    const score = (p: (typeof pts)[number]) => (rule === 'cv' ? p.cv : rule === 'sure' ? p.sure : p.bic);
+    let best = 0;
+    for (let j = 1; j < pts.length; j++) if (score(pts[j]) < score(pts[best])) best = j;
+    let chosen = best;
+    if (rule === 'cv' && s.oneSE) {
+      const lim = pts[best].cv + pts[best].cvSe;
+      for (let j = pts.length - 1; j > best; j--) if (pts[j].cv <= lim) { chosen = j; break; }
+    }
+    const atEdge = chosen === 0 || chosen === pts.length - 1;
+    criterion = { name: rule, value: score(pts[chosen]), curve: curveOf(path, rule), atEdge };
+    if (atEdge) {
+      warnings.push(warning('penalty-at-edge', chosen === 0
+        ? `The ${rule.toUpperCase()} choice is the smallest penalty searched (${showNumber(pts[0].penalty)}, 1e-5 of lambda_max): the fit may follow noise; consider a larger penalty or a df target.`
+        : `The ${rule.toUpperCase()} choice is the largest penalty searched (lambda_max = ${showNumber(pts[chosen].penalty)}): the data show no trend beyond a polynomial of degree ${k}.`));
+    }
+    lamScaled = path.scaledGrid[pts.length - 1 - chosen];
+    fit = solveTrend(prob, lamScaled, s.tolerance, s.maxIterations);
+  }
+  return assemble(series, s, sc, prob, fit, lamScaled, criterion, warnings, dataDriven, options);
+}
+
+function interpolatingFit(prob: TrendProblem): TrendFit {
+  const { x, y, k } = prob;
+  const n = x.length;
+  const db = differenceOperator(x, k + 1, y);
+  let mx = 0;
+  for (let r = 0; r < db.length; r++) mx = Math.max(mx, Math.abs(db[r]));
+  const knotRows: number[] = [];
+  for (let r = 0; r < db.length; r++) if (Math.abs(db[r]) > 1e-12 * mx) knotRows.push(r);
+  return {
+    b: Float64Array.from(y), u: new Float64Array(n - k - 1), lambda: 0, knotRows,
+    status: { converged: true, iterations: 0, tolerance: 0, achieved: 0, stoppingRule: 'penalty 0: the fit interpolates the data' },
+  };
+}
+
+function curveOf(path: TrendPath, rule: string): CriterionPoint[] {
+  return path.points.map((p) => ({
+    penalty: p.penalty,
+    score: rule === 'cv' ? p.cv : rule === 'sure' ? p.sure : rule === 'bic' ? p.bic : p.df,
+    df: p.df,
+    ...(rule === 'cv' ? { se: p.cvSe } : {}),
+    knots: p.knots,
+  }));
+}
+
+/** Grid penalty with df closest to the target, refined by bisection on log lambda between grid neighbours. */
+function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendSettings): { fit: TrendFit; lambda: number; clamped: boolean; maxDf: number } {
+  const grid = path.scaledGrid; // decreasing
+  const G = grid.length;
+  const dfs = path.points.map((p) => p.df).reverse(); // aligned with grid (decreasing penalty)
+  const k = prob.k;
+  const maxDf = Math.max(...dfs);
+  let best = 0;
+  for (let j = 1; j < G; j++) if (Math.abs(dfs[j] - target) < Math.abs(dfs[best] - target)) best = j;
+  let lam = grid[best];
+  let fit = solveTrend(prob, lam, s.tolerance, s.maxIterations);
+  const clamped = target < k + 1 || target > maxDf;
+  if (!clamped && fit.knotRows.length + k + 1 !== target) {
+    // bracket: df increases as lambda decreases
+    let hiLam = grid[0], loLam = grid[G - 1];
+    for (let j = 0; j < G; j++) { if (dfs[j] <= target) hiLam = grid[j]; }
+    for (let j = G - 1; j >= 0; j--) { if (dfs[j] >= target) loLam = grid[j]; }
+    let a = Math.log(loLam), b = Math.log(hiLam);
+    let bestFit = fit, bestLam = lam;
+    for (let it = 0; it < 30 && b - a > 1e-9; it++) {
+      const mid = 0.5 * (a + b);
+      const f = solveTrend(prob, Math.exp(mid), s.tolerance, s.maxIterations, bestFit);
+      const d = f.knotRows.length + k + 1;
+      if (Math.abs(d - target) < Math.abs(bestFit.knotRows.length + k + 1 - target)) { bestFit = f; bestLam = Math.exp(mid); }
+      if (d === target) { bestFit = f; bestLam = Math.exp(mid); break; }
+      if (d > target) a = mid; else b = mid;
+    }
+    fit = bestFit;
+    lam = bestLam;
+  }
+  return { fit, lambda: lam, clamped, maxDf };
+}
+
+function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendScaling>, prob: TrendProblem, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions): FitResult {
+  const k = s.order;
+  const n = series.n;
+  const { x } = series;
+  // L1 fit in the data's units
+  const l1 = new Float64Array(n);
+  for (let i = 0; i < n; i++) l1[i] = sc.y0 + sc.c * fit.b[i];
+  let fitted: Float64Array = l1;
+  let refit: RegressionSpline | undefined;
+  if (s.relaxed > 0) {
+    const r = relaxFit(x, series.y, series.w, k, { ...fit, b: l1 }, s.relaxed);
+    fitted = r.b;
+    refit = r.refit!.spline;
+  }
+  // knots, change in the data's units: c * (D' b')_r / h^k
+  const dbs = differenceOperator(sc.xs, k + 1, fit.b);
+  const kx = knotPositions(x, k, fit.knotRows);
+  const off = k === 0 ? 1 : k;
+  const knots: Knot[] = fit.knotRows.map((r, j) => ({ x: kx[j], index: r + off, row: series.firstRow[r + off], change: (sc.c * dbs[r]) / Math.pow(sc.h, k) }));
+  const df = fit.knotRows.length + k + 1;
+  let rss = 0;
+  const resid = new Float64Array(n);
+  for (let i = 0; i < n; i++) { resid[i] = series.y[i] - fitted[i]; rss += series.w[i] * resid[i] * resid[i]; }
+  const sigma = n > df ? Math.sqrt(rss / (n - df)) : NaN;
+  const status: SolverStatus = fit.status;
+  if (!status.converged) {
+    warnings.push(warning('not-converged', `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum. Increase maxIterations or use a smaller penalty.`));
+  }
+  warnings.push(...fitWarnings(n, df, resid, dataDriven));
+  warnings.push(boundaryWarning());
+  const model: TrendModel = { x, l1, order: k, relaxed: s.relaxed, refit };
+  void prob;
+  return {
+    method: 'trend',
+    options: { ...options, method: 'trend', order: k, relaxed: s.relaxed, gridSize: s.gridSize, folds: s.folds, tolerance: s.tolerance, maxIterations: s.maxIterations, ...(options.penalty === undefined && options.df === undefined ? { select: criterion.name as 'cv' | 'sure' | 'bic', oneSE: s.oneSE } : {}) },
+    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, warnings, solver: status, model,
+  };
+}
+
+/**
+ * Evaluates a trend fit at new x: the falling factorial interpolant of the L1
+ * fit ({@link interpolateTrend}: the degree-k piecewise polynomial through
+ * neighbouring fitted values, changing form only at knots), mixed with the
+ * relaxed refit when relaxed > 0. Beyond the data the end pieces continue as
+ * polynomials of degree k; such values are flagged as extrapolated, and a
+ * trend continued past the data is not a forecast.
+ *
+ * @param result - a result of {@link fitTrend}
+ * @param at - positions in the data's x units
+ * @example
+ * ```ts
+ * evaluateTrend(r, Float64Array.of(2.5, 10)).value;
+ * ```
+ */
+export function evaluateTrend(result: FitResult, at: Float64Array): Evaluation {
+  const m = result.model as TrendModel | undefined;
+  if (!m || !(m.l1 instanceof Float64Array)) throw new KnotwiseError('bad-option', 'this result does not come from trend filtering; evaluate it with its own method.');
+  const { value, extrapolated } = interpolateTrend(m.x, m.l1, m.order, at);
+  if (m.relaxed > 0 && m.refit) {
+    const r = evaluateRegressionSpline(m.refit, at);
+    for (let i = 0; i < value.length; i++) value[i] = m.relaxed * r[i] + (1 - m.relaxed) * value[i];
+  }
+  return { x: Float64Array.from(at), value, extrapolated };
+}
+
+/** The method definition registered as 'trend'. */
+export const trendMethod: MethodDefinition = {
+  name: 'trend',
+  summary: 'L1 trend filtering: piecewise constant, linear, quadratic or cubic trend with data-chosen knots.',
+  minPoints: (options: FitOptions) => (options.order === undefined ? TREND_DEFAULT_ORDER : typeof options.order === 'number' && options.order >= 0 && options.order <= 3 ? Math.floor(options.order) : TREND_DEFAULT_ORDER) + 2,
+  fit: fitTrend,
+  evaluate: evaluateTrend,
+};

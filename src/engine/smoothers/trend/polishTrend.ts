@@ -1,0 +1,168 @@
+import { differenceOperator } from '../../linalg/difference';
+import { dualFromResidual } from './dualFromResidual';
+import { fallingFactorialColumns } from './fallingFactorialColumns';
+
+/** Result of {@link polishTrend}. */
+export interface PolishResult {
+  /** True when the refined solution passed the optimality check. */
+  ok: boolean;
+  b: Float64Array;
+  u: Float64Array;
+  /** Knot rows (rows of D with a non-zero entry). */
+  knots: number[];
+  /** Relative duality gap of the refined pair (lambda ||Db||_1 - u.Db) / P. */
+  achieved: number;
+  /** Active-set rounds used. */
+  rounds: number;
+}
+
+/** Largest active set for which the dense refinement is attempted. */
+export const POLISH_MAX_KNOTS = 150;
+
+/** Largest n * (k + 1 + |A|) (numbers held in the dense block) for which refinement is attempted. */
+export const POLISH_MAX_CELLS = 4e6;
+
+/**
+ * Exact refinement of a trend-filtering solution from a guessed active set
+ * (a primal active-set method on the same problem):
+ *
+ * Given knot rows A with signs s (from an approximate dual: |u_r| close to
+ * lambda), solves exactly
+ *   minimise 1/2 sum w (y - b)^2 + lambda s_A^T (D b)_A  subject to (D b)_j = 0 for j not in A,
+ * with b in the span of the falling factorial columns for A
+ * ({@link fallingFactorialColumns}), by a weighted QR least-squares solve
+ * (dense n x p, p = k + 1 + |A| small). Then recovers the full dual u from
+ * D^T u = W (y - b) ({@link dualFromResidual}) and checks the optimality
+ * conditions of the original problem:
+ *   |u_j| <= lambda (1 + 1e-9) for all j, and s_r (D b)_r >= 0 on A.
+ * Rows breaking the first are added to A with the sign of u, rows breaking the
+ * second are dropped, up to `maxRounds` times. When the check passes the
+ * solution is optimal up to rounding, with exact zeros of D b off the knots.
+ *
+ * Works on x scaled to [0, 1]. Unchecked.
+ */
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 8): PolishResult {
+  const n = x.length;
+  const m = n - k - 1;
+  const act = new Map<number, number>();
+  for (let r = 0; r < m; r++) if (Math.abs(u0[r]) >= lambda * (1 - 1e-6)) act.set(r, Math.sign(u0[r]));
+  let b: Float64Array = new Float64Array(n);
+  let u: Float64Array = new Float64Array(m);
+  let rounds = 0;
+  const work = new Float64Array(n);
+  for (; rounds < maxRounds; rounds++) {
+    if (act.size > POLISH_MAX_KNOTS || n * (k + 1 + act.size) > POLISH_MAX_CELLS) break;
+    const rowsA = [...act.keys()].sort((a, c) => a - c);
+    const sA = rowsA.map((r) => act.get(r)!);
+    const sol = solveRestricted(x, y, w, k, lambda, rowsA, sA, work);
+    if (!sol) break;
+    b = sol;
+    const g = new Float64Array(n);
+    for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - b[i]);
+    u = dualFromResidual(x, k + 1, g).u;
+    const db = Float64Array.from(differenceOperator(x, k + 1, b, work));
+    let dmax = 0;
+    for (let r = 0; r < m; r++) dmax = Math.max(dmax, Math.abs(db[r]));
+    let changed = false;
+    for (let r = 0; r < m; r++) {
+      if (act.has(r)) {
+        if (act.get(r)! * db[r] < -1e-9 * dmax) { act.delete(r); changed = true; }
+      } else if (Math.abs(u[r]) > lambda * (1 + 1e-9)) {
+        act.set(r, Math.sign(u[r]));
+        changed = true;
+      }
+    }
+    if (!changed) {
+      let obj = 0, l1 = 0, ud = 0;
+      for (let i = 0; i < n; i++) obj += 0.5 * w[i] * (y[i] - b[i]) ** 2;
+      const knots: number[] = [];
+      for (let r = 0; r < m; r++) {
+        l1 += Math.abs(db[r]);
+        ud += u[r] * db[r];
+        if (act.has(r) && Math.abs(db[r]) > 1e-10 * dmax) knots.push(r);
+      }
+      obj += lambda * l1;
+      const gap = Math.max(lambda * l1 - ud, 0);
+      return { ok: true, b, u, knots, achieved: obj > 0 ? gap / obj : 0, rounds: rounds + 1 };
+    }
+  }
+  return { ok: false, b, u, knots: [], achieved: Infinity, rounds };
+}
+
+/** Weighted QR solve of the restricted problem; null when the columns are numerically dependent. */
+function solveRestricted(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: number[], sA: number[], work: Float64Array): Float64Array | null {
+  const n = x.length;
+  const p = k + 1 + rowsA.length;
+  const H = fallingFactorialColumns(x, k, rowsA);
+  // G = (D H)_A : column j of D H at the knot rows; D H is zero on the polynomial columns
+  const lin = new Float64Array(p); // lambda * (D_A H)^T s
+  for (let j = k + 1; j < p; j++) {
+    const dcol = differenceOperator(x, k + 1, H.subarray(j * n, (j + 1) * n), work);
+    let s = 0;
+    for (let c = 0; c < rowsA.length; c++) s += dcol[rowsA[c]] * sA[c];
+    lin[j] = lambda * s;
+  }
+  // modified Gram-Schmidt (twice) on sqrt(w) H, in place: H becomes Q of sqrt(W) H = Q R
+  const Q = H;
+  const R = new Float64Array(p * p);
+  const sw = new Float64Array(n);
+  for (let i = 0; i < n; i++) sw[i] = Math.sqrt(w[i]);
+  for (let j = 0; j < p; j++) {
+    const qj = Q.subarray(j * n, (j + 1) * n);
+    for (let i = 0; i < n; i++) qj[i] *= sw[i];
+    let n0 = 0;
+    for (let i = 0; i < n; i++) n0 += qj[i] * qj[i];
+    for (let pass = 0; pass < 2; pass++) {
+      for (let l = 0; l < j; l++) {
+        const ql = Q.subarray(l * n, (l + 1) * n);
+        let d = 0;
+        for (let i = 0; i < n; i++) d += ql[i] * qj[i];
+        for (let i = 0; i < n; i++) qj[i] -= d * ql[i];
+        R[l * p + j] += d;
+      }
+    }
+    let nr = 0;
+    for (let i = 0; i < n; i++) nr += qj[i] * qj[i];
+    nr = Math.sqrt(nr);
+    if (!(nr > 1e-10 * Math.sqrt(n0))) return null;
+    R[j * p + j] = nr;
+    for (let i = 0; i < n; i++) qj[i] /= nr;
+  }
+  // normal equations R^T R beta = H^T W y - lin  ->  R beta = Q^T sqrt(W) y - R^{-T} lin
+  const c = new Float64Array(p);
+  for (let j = 0; j < p; j++) {
+    let d = 0;
+    const qj = Q.subarray(j * n, (j + 1) * n);
+    for (let i = 0; i < n; i++) d += qj[i] * sw[i] * y[i];
+    c[j] = d;
+  }
+  // z = R^{-T} lin (forward substitution with R^T lower triangular)
+  const z = new Float64Array(p);
+  for (let j = 0; j < p; j++) {
+    let s = lin[j];
+    for (let l = 0; l < j; l++) s -= R[l * p + j] * z[l];
+    z[j] = s / R[j * p + j];
+  }
+  for (let j = 0; j < p; j++) c[j] -= z[j];
+  const beta = new Float64Array(p);
+  for (let j = p - 1; j >= 0; j--) {
+    let s = c[j];
+    for (let l = j + 1; l < p; l++) s -= R[j * p + l] * beta[l];
+    beta[j] = s / R[j * p + j];
+  }
+  // H beta = W^{-1/2} Q (R beta)
+  const rb = new Float64Array(p);
+  for (let j = 0; j < p; j++) {
+    let s2 = 0;
+    for (let l = j; l < p; l++) s2 += R[j * p + l] * beta[l];
+    rb[j] = s2;
+  }
+  const b = new Float64Array(n);
+  for (let j = 0; j < p; j++) {
+    const cj = rb[j];
+    const o = j * n;
+    for (let i = 0; i < n; i++) b[i] += cj * Q[o + i];
+  }
+  for (let i = 0; i < n; i++) b[i] /= sw[i];
+  return b;
+}

@@ -1,0 +1,170 @@
+/**
+ * The trend-filtering solution path over a log-spaced penalty grid, with
+ * cross-validation, SURE (Mallows Cp) and BIC scores at every penalty: what the
+ * method uses to choose lambda and what a worksheet returns as the criterion table.
+ */
+import type { Series } from '../../series';
+import type { SolverStatus } from '../../types';
+import { foldOf } from '../../select/foldOf';
+import { trendScaling, toDataPenalty, TrendScaling } from './trendScaling';
+import { trendLambdaMax } from './trendLambdaMax';
+import { solveTrend, TrendFit, TrendProblem } from './solveTrend';
+import { interpolateTrend } from './interpolateTrend';
+import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSplineRefit';
+import { differenceNoiseScale } from './differenceNoiseScale';
+
+/** Settings of {@link trendPath} (already validated). */
+export interface TrendPathSettings {
+  /** Order k, 0..3. */
+  order: number;
+  /** Number of penalties on the grid (>= 2). */
+  gridSize: number;
+  /** Cross-validation folds; 0 = no cross-validation. */
+  folds: number;
+  /** Relaxation in [0, 1]. */
+  relaxed: number;
+  tolerance: number;
+  maxIterations: number;
+  /** Smallest grid penalty as a fraction of lambda_max (default 1e-5). */
+  ratio?: number;
+}
+
+/** One penalty of the path, in the data's units. */
+export interface TrendPathPoint {
+  /** lambda in the data's units (see {@link fitTrend}). */
+  penalty: number;
+  /** Degrees of freedom: knots + k + 1. */
+  df: number;
+  knots: number;
+  /** Weighted residual sum of squares sum w (y - fit)^2 of the full-data fit. */
+  rss: number;
+  /** Mean over folds of the held-out weighted mean squared error (units of y squared); NaN without cross-validation. */
+  cv: number;
+  /** Standard error of `cv`: sd of the fold errors / sqrt(K). */
+  cvSe: number;
+  /** SURE / Mallows Cp: (rss + 2 sigma^2 df) / n. */
+  sure: number;
+  /** n log(rss / n) + df log n. */
+  bic: number;
+  status: SolverStatus;
+}
+
+/** Result of {@link trendPath}. */
+export interface TrendPath {
+  /** Points in increasing penalty. */
+  points: TrendPathPoint[];
+  /** lambda_max in the data's units: at and above it the fit is the weighted polynomial of degree k. */
+  lambdaMax: number;
+  /** Robust noise sd used by SURE ({@link differenceNoiseScale}). */
+  sigmaNoise: number;
+  /** Internal: scaled grid, decreasing, and the scaling. */
+  scaledGrid: Float64Array;
+  scaling: TrendScaling;
+}
+
+/** Mixes a fit with its relaxed refit on the fit's knots (in place on b). Unchecked. */
+export function relaxFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, fit: TrendFit, relaxed: number): { b: Float64Array; refit?: ReturnType<typeof regressionSplineRefit> } {
+  if (!(relaxed > 0)) return { b: fit.b };
+  const kx = knotPositions(x, k, fit.knotRows);
+  const refit = regressionSplineRefit(x, y, w, k, kx);
+  const b = new Float64Array(x.length);
+  for (let i = 0; i < b.length; i++) b[i] = relaxed * refit.fitted[i] + (1 - relaxed) * fit.b[i];
+  return { b, refit };
+}
+
+/** x position of each knot row: point r + k for k >= 1, point r + 1 (first point of the new level) for k = 0. Unchecked. */
+export function knotPositions(x: Float64Array, k: number, rows: ArrayLike<number>): Float64Array {
+  const out = new Float64Array(rows.length);
+  const off = k === 0 ? 1 : k;
+  for (let i = 0; i < rows.length; i++) out[i] = x[rows[i] + off];
+  return out;
+}
+
+/**
+ * Computes the path. Grid: `gridSize` penalties log-spaced from lambda_max down
+ * to ratio * lambda_max (default 1e-5), solved from the largest down with warm
+ * starts. Cross-validation (R. J. Tibshirani, Ann. Statist. 42 (2014),
+ * section 6): interior point i is held out in fold (i - 1) mod K, the ends never
+ * ({@link foldOf}); each training fit uses lambda * (training weight / total
+ * weight), so the balance of fit and penalty per point matches the full fit;
+ * held-out points are predicted by the fit's interpolant ({@link interpolateTrend},
+ * mixed with the relaxed refit when relaxed > 0).
+ *
+ * @param series - clean series (n >= order + 2)
+ * @param s - settings
+ * Unchecked: the caller validates the settings.
+ */
+export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
+  const k = s.order;
+  const sc = trendScaling(series, k);
+  const n = series.n;
+  const prob: TrendProblem = { x: sc.xs, y: sc.ys, w: sc.ws, k };
+  let lmax = trendLambdaMax(sc.xs, sc.ys, sc.ws, k);
+  if (!(lmax > 0)) lmax = 1;
+  const G = s.gridSize;
+  const ratio = s.ratio ?? 1e-5;
+  const grid = new Float64Array(G);
+  for (let j = 0; j < G; j++) grid[j] = lmax * Math.pow(ratio, j / (G - 1));
+  const sigmaNoise = differenceNoiseScale(series.y, series.w);
+  const pts: TrendPathPoint[] = [];
+  let warm: TrendFit | undefined;
+  for (let j = 0; j < G; j++) {
+    const fit = solveTrend(prob, grid[j], s.tolerance, s.maxIterations, warm);
+    warm = fit;
+    const { b } = relaxFit(sc.xs, sc.ys, sc.ws, k, fit, s.relaxed);
+    let rss = 0;
+    for (let i = 0; i < n; i++) rss += series.w[i] * (sc.c * (sc.ys[i] - b[i])) ** 2;
+    const df = fit.knotRows.length + k + 1;
+    pts.push({
+      penalty: toDataPenalty(grid[j], sc), df, knots: fit.knotRows.length, rss, cv: NaN, cvSe: NaN,
+      sure: (rss + 2 * sigmaNoise * sigmaNoise * df) / n,
+      bic: n * Math.log(Math.max(rss, 1e-300) / n) + df * Math.log(n),
+      status: fit.status,
+    });
+  }
+  if (s.folds >= 2) {
+    const K = s.folds;
+    const fold = foldOf(n, K);
+    const err = new Float64Array(K * G);
+    let swAll = 0;
+    for (let i = 0; i < n; i++) swAll += sc.ws[i];
+    for (let f = 0; f < K; f++) {
+      const tr: number[] = [], te: number[] = [];
+      for (let i = 0; i < n; i++) (fold[i] === f ? te : tr).push(i);
+      if (te.length === 0) continue;
+      const xt = Float64Array.from(tr, (i) => sc.xs[i]);
+      const yt = Float64Array.from(tr, (i) => sc.ys[i]);
+      const wt = Float64Array.from(tr, (i) => sc.ws[i]);
+      const xh = Float64Array.from(te, (i) => sc.xs[i]);
+      let swt = 0, swh = 0;
+      for (const i of tr) swt += sc.ws[i];
+      for (const i of te) swh += series.w[i];
+      const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
+      let wf: TrendFit | undefined;
+      for (let j = 0; j < G; j++) {
+        const fit = solveTrend(sub, grid[j] * (swt / swAll), s.tolerance, s.maxIterations, wf);
+        wf = fit;
+        const pred = interpolateTrend(xt, fit.b, k, xh).value;
+        if (s.relaxed > 0) {
+          const { refit } = relaxFit(xt, yt, wt, k, fit, s.relaxed);
+          const pr = evaluateRegressionSpline(refit!.spline, xh);
+          for (let i = 0; i < pred.length; i++) pred[i] = s.relaxed * pr[i] + (1 - s.relaxed) * pred[i];
+        }
+        let e = 0;
+        for (let t = 0; t < te.length; t++) e += series.w[te[t]] * (sc.c * (sc.ys[te[t]] - pred[t])) ** 2;
+        err[f * G + j] = e / swh;
+      }
+    }
+    for (let j = 0; j < G; j++) {
+      let mean = 0;
+      for (let f = 0; f < K; f++) mean += err[f * G + j];
+      mean /= K;
+      let v = 0;
+      for (let f = 0; f < K; f++) v += (err[f * G + j] - mean) ** 2;
+      pts[j].cv = mean;
+      pts[j].cvSe = Math.sqrt(v / (K - 1) / K);
+    }
+  }
+  pts.reverse();
+  return { points: pts, lambdaMax: toDataPenalty(lmax, sc), sigmaNoise, scaledGrid: grid, scaling: sc };
+}
