@@ -6,4 +6,5 @@ module.exports = {
   testPathIgnorePatterns: ['/node_modules/', '/test/browser/'],
   transform: { '^.+\\.ts$': ['ts-jest', { tsconfig: 'tsconfig.json', isolatedModules: true }] },
   testTimeout: 60000,
+  reporters: ['default', '<rootDir>/test/helpers/summaryReporter.js'],
 };

@@ -1,0 +1,109 @@
+import { runCli, CliIO } from '../../src/cli/main';
+import { weeklyOrdersCsv } from '../../src/demo/weeklyOrders';
+import { fitCells, prepareSeries } from '../../src/engine';
+import { parseCsv } from '../../src/cli/csv';
+
+function io(files: Record<string, string>) {
+  const out: string[] = [], err: string[] = [];
+  const host: CliIO = {
+    readFile: (p) => { if (!(p in files)) throw new Error('no such file'); return files[p]; },
+    out: (t) => out.push(t), err: (t) => err.push(t),
+  };
+  return { host, out, err };
+}
+
+const demo = weeklyOrdersCsv();
+
+describe('knotwise fit', () => {
+  test('--json prints the contract fields with one fitted entry per input row, null where dropped', () => {
+    const { host, out } = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--json'], host)).toBe(0);
+    const o = JSON.parse(out.join(''));
+    for (const k of ['method', 'n', 'penalty', 'df', 'sigma', 'criterion', 'fitted', 'knots', 'warnings']) expect(o).toHaveProperty(k);
+    expect(o.method).toBe('spline');
+    expect(o.fitted).toHaveLength(156);
+    expect(o.fitted[33]).toBeNull();
+    expect(o.fitted[120]).toBeNull();
+    expect(o.knots).toEqual([]);
+    expect(o.criterion.name).toBe('gcv');
+    // same numbers as the engine called directly on the same columns
+    const t = parseCsv(demo);
+    const { result } = fitCells(t.rows.map((r) => r[1]), t.rows.map((r) => r[0]), null, {});
+    expect(o.df).toBeCloseTo(result.df, 10);
+  });
+
+  test('columns can be given by 1-based number, and several --y give an array', () => {
+    const { host, out } = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--x', '1', '--y', '2,4', '--df', '6', '--json'], host)).toBe(0);
+    const o = JSON.parse(out.join(''));
+    expect(Array.isArray(o)).toBe(true);
+    expect(o.map((r: any) => r.column)).toEqual(['orders', 'unit_cost']);
+    expect(o[0].df).toBeCloseTo(6, 5);
+  });
+
+  test('--eval adds values at new x flagged when extrapolated', () => {
+    const { host, out } = io({ 'd.csv': demo, 'new.csv': 'x\n45000\n46200\n' });
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--eval', 'new.csv', '--json'], host)).toBe(0);
+    const o = JSON.parse(out.join(''));
+    expect(o.eval.map((e: any) => e.extrapolated)).toEqual([false, true]);
+  });
+
+  test('bad input exits non-zero with one line naming the problem', () => {
+    const { host, err } = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--y', 'nope'], host)).toBe(2);
+    expect(err).toHaveLength(1);
+    expect(err[0]).toMatch(/no column "nope"/);
+    const b = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--y', 'orders', '--df', 'lots'], b.host)).toBe(1);
+    expect(b.err[0]).toMatch(/df must be a finite number > 0; got "lots"/);
+    const c = io({});
+    expect(runCli(['fit', 'missing.csv'], c.host)).toBe(2);
+    expect(runCli(['fit', 'd.csv', '--bogus'], io({ 'd.csv': demo }).host)).toBe(2);
+  });
+
+  test('help lists every option of every command', () => {
+    const { host, out } = io({});
+    expect(runCli(['help'], host)).toBe(0);
+    for (const flag of ['--x', '--y', '--method', '--order', '--df', '--penalty', '--select', '--folds', '--eval', '--model', '--min-segment']) expect(out.join('\n')).toContain(flag);
+  });
+});
+
+describe('knotwise breaks', () => {
+  test('--json prints model, penalty, breaks with rows, segments and an aligned fitted column', () => {
+    const { host, out } = io({ 'd.csv': demo });
+    expect(runCli(['breaks', 'd.csv', '--x', 'week_start', '--y', 'returns', '--model', 'poisson', '--json'], host)).toBe(0);
+    const o = JSON.parse(out.join(''));
+    for (const k of ['model', 'penalty', 'breaks', 'segments', 'fitted', 'warnings']) expect(o).toHaveProperty(k);
+    expect(o.model).toBe('poisson');
+    expect(o.fitted).toHaveLength(156);
+    expect(o.warnings.map((w: any) => w.code)).toContain('break-cause');
+    for (const b of o.breaks) expect(b.row).toBeGreaterThanOrEqual(1);
+    // the demo's return rate rises at week 90 (row 90): the first break is near it
+    expect(o.breaks.length).toBeGreaterThanOrEqual(1);
+    expect(Math.abs(o.breaks[0].row - 90)).toBeLessThanOrEqual(8);
+  });
+
+  test('crops:LOW,HIGH returns the penalty path', () => {
+    const { host, out } = io({ 'd.csv': demo });
+    expect(runCli(['breaks', 'd.csv', '--y', 'orders', '--penalty', 'crops:2,200', '--json'], host)).toBe(0);
+    const o = JSON.parse(out.join(''));
+    expect(o.crops.length).toBeGreaterThan(1);
+    const changes = o.crops.map((c: any) => c.changes);
+    for (let i = 1; i < changes.length; i++) expect(changes[i]).toBeLessThanOrEqual(changes[i - 1]);
+  });
+
+  test('a Poisson model on non-counts is refused with the row named', () => {
+    const { host, err } = io({ 'd.csv': demo });
+    expect(runCli(['breaks', 'd.csv', '--y', 'unit_cost', '--model', 'poisson'], host)).toBe(1);
+    expect(err[0]).toMatch(/row/);
+  });
+});
+
+describe('the demo data', () => {
+  test('is the same on every call and has the documented gaps', () => {
+    expect(weeklyOrdersCsv()).toBe(demo);
+    const t = parseCsv(demo);
+    const s = prepareSeries(t.rows.map((r) => r[1]), t.rows.map((r) => r[0]));
+    expect(s.dropped.map((d) => [d.row, d.reason])).toEqual([[33, 'blank'], [34, 'blank'], [120, 'text']]);
+  });
+});

@@ -1,0 +1,93 @@
+import { smooth, penalty, summary, knots, evaluateAt } from '../../src/functions/smoothing';
+import { clearFitCache, fitCacheSize } from '../../src/functions/fitArgs';
+import { fitCells } from '../../src/engine';
+
+const col = (a: unknown[]) => a.map((v) => [v]);
+
+// A small invented series with a blank, a text cell and unsorted x.
+const xs = [5, 1, 3, 2, 4, 6, 8, 7, 9, 10, 11, 12];
+const ys: unknown[] = [14, 10, '', 11, 13, 15, 'n/a', 18, 21, 20, 24, 25];
+
+describe('SMOOTH', () => {
+  beforeEach(() => clearFitCache());
+
+  test('returns one value per input row in the original order, empty where a row was dropped', () => {
+    const out = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4);
+    expect(out).toHaveLength(ys.length);
+    expect(out[2][0]).toBe('');
+    expect(out[6][0]).toBe('');
+    const { series, result } = fitCells(ys as any, xs, null, { method: 'spline', df: 4 });
+    for (let r = 0; r < ys.length; r++) {
+      const k = series.rowOf[r];
+      if (k >= 0) expect(out[r][0]).toBeCloseTo(result.fitted[k], 12);
+    }
+  });
+
+  test('a row of values gives a row of results', () => {
+    const out = smooth([[1, 3, 2, 5, 4, 6, 8]], undefined, 'spline', undefined, undefined, 1);
+    expect(out).toHaveLength(1);
+    expect(out[0]).toHaveLength(7);
+  });
+
+  test('bad options come back as an error carrying the engine message', () => {
+    expect(() => smooth(col(ys), col(xs), 'spline', undefined, undefined, -3)).toThrow(/penalty must be a finite number >= 0; got -3/);
+    expect(() => smooth(col(ys), col(xs), 'wavy')).toThrow(/unknown method "wavy"/);
+    expect(() => smooth(col(ys), col([1, 2]))).toThrow(/x has 2 rows but y has 12/);
+  });
+
+  test('output "se" and "residual" are aligned like the fitted values', () => {
+    const se = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4, undefined, undefined, undefined, 'se');
+    const res = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4, undefined, undefined, undefined, 'residual');
+    expect(se[2][0]).toBe('');
+    expect(typeof se[0][0]).toBe('number');
+    expect(se[0][0]).toBeGreaterThan(0);
+    const fit = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4);
+    expect((res[0][0] as number) + (fit[0][0] as number)).toBeCloseTo(14, 12);
+  });
+});
+
+describe('the fit cache', () => {
+  test('several functions on the same range and options fit once', () => {
+    clearFitCache();
+    smooth(col(ys), col(xs), 'spline');
+    penalty(col(ys), col(xs), 'spline');
+    summary(col(ys), col(xs), 'spline');
+    expect(fitCacheSize()).toBe(1);
+    smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 5);
+    expect(fitCacheSize()).toBe(2);
+  });
+});
+
+describe('PENALTY and SUMMARY', () => {
+  test('PENALTY returns the chosen lambda, or the criterion table with a header', () => {
+    const one = penalty(col(ys), col(xs));
+    const { result } = fitCells(ys as any, xs, null, {});
+    expect(one[0][0]).toBeCloseTo(result.penalty, 12);
+    const table = penalty(col(ys), col(xs), undefined, undefined, undefined, undefined, undefined, undefined, undefined, undefined, true);
+    expect(table[0]).toEqual(['penalty', 'score (gcv)', 'df', 'se', 'knots']);
+    expect(table.length).toBe(result.criterion.curve!.length + 1);
+  });
+
+  test('SUMMARY reports counts of used, dropped and merged rows and every warning', () => {
+    const t = summary(col(ys), col(xs));
+    const get = (k: string) => t.find((r) => r[0] === k)?.[1];
+    expect(get('n used')).toBe(10);
+    expect(get('n dropped')).toBe(2);
+    expect(get('ties merged')).toBe(0);
+    const nWarn = get('warnings') as number;
+    expect(t.filter((r) => String(r[0]).startsWith('warning ')).length).toBe(nWarn);
+    expect(t.some((r) => String(r[0]).includes('dropped-cells'))).toBe(true);
+  });
+});
+
+describe('KNOTS and EVALUATE', () => {
+  test('KNOTS has a header and no rows for the spline, which has no data-chosen knots', () => {
+    expect(knots(col(ys), col(xs), 'spline')).toEqual([['x', 'row', 'change']]);
+  });
+
+  test('EVALUATE flags positions outside the data', () => {
+    const out = evaluateAt(col(ys), col([0, 6.5, 13, 'text']), col(xs), 'spline', undefined, undefined, undefined, 4);
+    expect(out.map((r) => r[1])).toEqual([true, false, true, '']);
+    expect(out[3][0]).toBe('');
+  });
+});
