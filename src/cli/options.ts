@@ -9,6 +9,8 @@ export interface OptionSpec {
   help: string;
   /** May be given more than once (values accumulate; commas also separate). */
   repeatable?: boolean;
+  /** The value may be left out (`--flag` alone means this value; `--flag=V` sets it). */
+  implied?: string;
 }
 
 export interface CommandSpec {
@@ -38,7 +40,7 @@ export const FIT: CommandSpec = {
     { flag: '--select', value: 'RULE', help: 'penalty rule: gcv | cv (spline); cv | sure | bic (trend)' },
     { flag: '--folds', value: 'K', help: 'cross-validation folds' },
     { flag: '--one-se', help: 'with cv: the largest penalty within one standard error of the best' },
-    { flag: '--relaxed', value: 'R', help: 'trend: 0 plain L1 fit .. 1 unpenalised refit on the knots' },
+    { flag: '--relaxed', value: 'R', implied: '1', help: 'trend: refit the pieces without shrinkage (--relaxed), or mix with --relaxed=R, R from 0 to 1' },
     { flag: '--eval', value: 'FILE', help: 'CSV of new x (column "x" or the first column): adds eval [{x, value, extrapolated}]' },
   ],
 };
@@ -63,7 +65,7 @@ export function helpText(): string {
   const lines = ['knotwise: smoothing, knots and changepoints for series in CSV files', ''];
   for (const c of COMMANDS) {
     lines.push(`${c.usage}`, `  ${c.summary}`);
-    for (const o of c.options) lines.push(`  ${(o.flag + (o.value ? ' ' + o.value : '')).padEnd(22)} ${o.help}`);
+    for (const o of c.options) lines.push(`  ${(o.flag + (o.value ? (o.implied !== undefined ? `[=${o.value}]` : ' ' + o.value) : '')).padEnd(22)} ${o.help}`);
     lines.push('');
   }
   lines.push('Rows in the output are numbered as data rows of the file (1 = the first row after the header).');
@@ -84,7 +86,7 @@ export function parseArgs(argv: string[], spec: CommandSpec, fail: (m: string) =
     const o = spec.options.find((s) => s.flag === flag);
     if (!o) fail(`unknown option ${flag} for "${spec.name}"; see knotwise help.`);
     if (!o.value) { out.switches.add(flag); continue; }
-    const v = inline ?? argv[++i];
+    const v = inline ?? (o.implied !== undefined ? o.implied : argv[++i]);
     if (v === undefined) fail(`${flag} needs a value (${o.value}).`);
     const prev = out.values.get(flag) ?? [];
     if (prev.length && !o.repeatable) fail(`${flag} given twice.`);
