@@ -53,8 +53,11 @@ function frame(svg: SVGSVGElement, xs: number[], ys: number[], w: number, h: num
 }
 
 function pathOf(xs: ArrayLike<number>, ys: ArrayLike<number>, sx: (v: number) => number, sy: (v: number) => number): string {
+  const step = Math.max(1, Math.ceil(xs.length / 4000));
   let d = '';
-  for (let i = 0; i < xs.length; i++) d += `${i ? 'L' : 'M'}${sx(xs[i]).toFixed(1)},${sy(ys[i]).toFixed(1)}`;
+  for (let i = 0; i < xs.length; i += step) d += `${i ? 'L' : 'M'}${sx(xs[i]).toFixed(1)},${sy(ys[i]).toFixed(1)}`;
+  const last = xs.length - 1;
+  if (last > 0 && last % step !== 0) d += `L${sx(xs[last]).toFixed(1)},${sy(ys[last]).toFixed(1)}`;
   return d;
 }
 
@@ -78,8 +81,11 @@ export function drawFit(svg: SVGSVGElement, v: View, width = 560, height = 280):
       el('title', {}, r).textContent = 'End zone: these fitted values rest on data from one side and will be revised as data arrive.';
     }
   }
+  // At most about 3000 dots and 4000 path vertices: a chart this size cannot show more, and the pane stays responsive.
   const pts = el('g', { class: 'points' }, svg);
-  for (let i = 0; i < n; i++) el('circle', { cx: sx(v.x[i]).toFixed(1), cy: sy(v.y[i]).toFixed(1), r: 2.2 }, pts);
+  const stride = Math.max(1, Math.ceil(n / 3000));
+  if (stride > 1) pts.setAttribute('data-stride', String(stride));
+  for (let i = 0; i < n; i += stride) el('circle', { cx: sx(v.x[i]).toFixed(1), cy: sy(v.y[i]).toFixed(1), r: 2.2 }, pts);
   if (v.beyond) {
     for (const side of [v.beyond.left, v.beyond.right]) el('path', { d: pathOf(side.x, side.y, sx, sy), class: 'fit-beyond' }, svg);
   }
