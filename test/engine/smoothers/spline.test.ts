@@ -2,17 +2,7 @@ import { fitSpline, evaluateSpline } from '../../../src/engine/smoothers/spline'
 import { prepareSeries, seriesFromArrays } from '../../../src/engine/series';
 import { reinschSystem, reinschSolve } from '../../../src/engine/smoothers/spline/reinsch';
 import { loadFixture, maxAbsDiff, range } from '../../helpers/fixtures';
-
-function seeded(seed: number): () => number {
-  let s = seed >>> 0;
-  return () => {
-    s = (s + 0x6d2b79f5) >>> 0;
-    let t = s;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 as seeded } from '../../helpers/random';
 
 function noisySine(n: number, seed = 7) {
   const r = seeded(seed);
