@@ -30,6 +30,10 @@ export interface View {
   fitted: Float64Array;
   /** The fitted curve continued beyond the data on both sides (extrapolation), when the method defines it. */
   beyond?: { left: { x: number[]; y: number[] }; right: { x: number[]; y: number[] } };
+  /** Approximate 95% pointwise band (fitted +/- 1.96 se), for linear smoothers. */
+  band?: { lower: Float64Array; upper: Float64Array };
+  /** x holds Excel serial dates: label the axis with dates. */
+  xDates: boolean;
   /** Points at each end whose fitted values rest on one side only (about one smoothing window). */
   boundaryPoints: number;
   markers: Marker[];
@@ -96,8 +100,12 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
       ? { df: result.criterion.curve.map((p) => p.df), score: result.criterion.curve.map((p) => p.score), chosenDf: result.df, chosenScore: result.criterion.value, name: result.criterion.name }
       : undefined;
     const title = choice.method === 'spline' ? 'Smoothing spline' : `Trend filtering, order ${options.order}`;
+    const band = result.se ? {
+      lower: Float64Array.from(result.fitted, (f, i) => f - 1.96 * result.se![i]),
+      upper: Float64Array.from(result.fitted, (f, i) => f + 1.96 * result.se![i]),
+    } : undefined;
     return {
-      title, x: series.x, y: series.y, fitted: result.fitted,
+      title, x: series.x, y: series.y, fitted: result.fitted, band, xDates: !!block.firstColumnDates && !!sel.x,
       beyond: { left: ext(series.x[0] - 0.08 * span, series.x[0]), right: ext(series.x[n - 1], series.x[n - 1] + 0.08 * span) },
       boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), Math.round(n / Math.max(result.df, 1)))),
       markers: result.knots.map((k) => ({ x: k.x, label: `knot at ${fmt(k.x)}: change ${fmt(k.change)}` })),
@@ -118,7 +126,7 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
   const column: unknown[] = [];
   for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; column.push(k >= 0 ? result.fitted[k] : ''); }
   return {
-    title: `Changepoints (${choice.model})`, x: series.x, y: series.y, fitted: result.fitted,
+    title: `Changepoints (${choice.model})`, x: series.x, y: series.y, fitted: result.fitted, xDates: !!block.firstColumnDates && !!sel.x,
     boundaryPoints: 0,
     markers: result.breaks.map((b) => ({ x: b.x, label: `break at ${fmt(b.x)}: change ${fmt(b.change)}` })),
     summary: [

@@ -25,11 +25,17 @@ function ticks(lo: number, hi: number, count = 5): number[] {
   return out;
 }
 
+/** Excel serial date (1900 system, days since 1899-12-30) as yyyy-mm-dd. */
+export function serialToIso(serial: number): string {
+  const ms = Math.round((serial - 25569) * 86400000);
+  return new Date(ms).toISOString().slice(0, 10);
+}
+
 const label = (v: number) => (Math.abs(v) >= 1e5 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(1) : String(Number(v.toPrecision(6))));
 
 interface Frame { x0: number; x1: number; y0: number; y1: number; w: number; h: number; m: { l: number; r: number; t: number; b: number } }
 
-function frame(svg: SVGSVGElement, xs: number[], ys: number[], w: number, h: number): { f: Frame; sx: (v: number) => number; sy: (v: number) => number } {
+function frame(svg: SVGSVGElement, xs: number[], ys: number[], w: number, h: number, xLabel: (v: number) => string = label): { f: Frame; sx: (v: number) => number; sy: (v: number) => number } {
   const m = { l: 52, r: 10, t: 10, b: 26 };
   let x0 = Math.min(...xs), x1 = Math.max(...xs), y0 = Math.min(...ys), y1 = Math.max(...ys);
   if (x1 === x0) { x0 -= 1; x1 += 1; }
@@ -43,7 +49,7 @@ function frame(svg: SVGSVGElement, xs: number[], ys: number[], w: number, h: num
   const axes = el('g', { class: 'axes' }, svg);
   for (const t of ticks(x0, x1)) {
     el('line', { x1: sx(t), x2: sx(t), y1: m.t, y2: h - m.b, class: 'grid' }, axes);
-    const tx = el('text', { x: sx(t), y: h - 8, 'text-anchor': 'middle', class: 'tick' }, axes); tx.textContent = label(t);
+    const tx = el('text', { x: sx(t), y: h - 8, 'text-anchor': 'middle', class: 'tick' }, axes); tx.textContent = xLabel(t);
   }
   for (const t of ticks(y0, y1)) {
     el('line', { x1: m.l, x2: w - m.r, y1: sy(t), y2: sy(t), class: 'grid' }, axes);
@@ -66,7 +72,7 @@ export function drawFit(svg: SVGSVGElement, v: View, width = 560, height = 280):
   svg.replaceChildren();
   const allX = [...Array.from(v.x), ...(v.beyond ? [...v.beyond.left.x, ...v.beyond.right.x] : [])];
   const allY = [...Array.from(v.y), ...Array.from(v.fitted), ...(v.beyond ? [...v.beyond.left.y, ...v.beyond.right.y] : [])];
-  const { f, sx, sy } = frame(svg, allX, allY, width, height);
+  const { f, sx, sy } = frame(svg, allX, allY, width, height, v.xDates ? serialToIso : label);
   const n = v.x.length;
   if (v.beyond) {
     for (const side of [v.beyond.left, v.beyond.right]) {
@@ -88,6 +94,13 @@ export function drawFit(svg: SVGSVGElement, v: View, width = 560, height = 280):
   for (let i = 0; i < n; i += stride) el('circle', { cx: sx(v.x[i]).toFixed(1), cy: sy(v.y[i]).toFixed(1), r: 2.2 }, pts);
   if (v.beyond) {
     for (const side of [v.beyond.left, v.beyond.right]) el('path', { d: pathOf(side.x, side.y, sx, sy), class: 'fit-beyond' }, svg);
+  }
+  if (v.band) {
+    const up = pathOf(v.x, v.band.upper, sx, sy);
+    const xsR = Array.from(v.x).reverse(), loR = Array.from(v.band.lower).reverse();
+    const down = pathOf(xsR, loR, sx, sy).replace(/^M/, 'L');
+    const b = el('path', { d: `${up}${down}Z`, class: 'band' }, svg);
+    el('title', {}, b).textContent = 'Approximate 95% pointwise band (fitted value +/- 1.96 standard errors).';
   }
   el('path', { d: pathOf(v.x, v.fitted, sx, sy), class: 'fit' }, svg);
   const marks = el('g', { class: 'markers' }, svg);

@@ -9,6 +9,8 @@ export interface CellBlock {
   /** A display address, e.g. "Sheet1!B2:C157". */
   address: string;
   values: unknown[][];
+  /** True when the first column holds dates (Excel serial numbers shown as dates). */
+  firstColumnDates?: boolean;
 }
 
 export interface Workbook {
@@ -33,9 +35,11 @@ export class ExcelWorkbook implements Workbook {
   async readSelection(): Promise<CellBlock> {
     return Excel.run(async (ctx) => {
       const r = ctx.workbook.getSelectedRange();
-      r.load(['values', 'address']);
+      r.load(['values', 'address', 'numberFormat']);
       await ctx.sync();
-      return { address: r.address, values: r.values };
+      const fmt = r.numberFormat.map((row) => String(row[0] ?? ''));
+      const dates = fmt.slice(1).some((f) => /[dy]/i.test(f.replace(/"[^"]*"/g, '')) && !/^general$/i.test(f));
+      return { address: r.address, values: r.values, firstColumnDates: dates };
     });
   }
 
@@ -86,7 +90,8 @@ export class PageWorkbook implements Workbook {
     const cols = x >= 0 ? [x, y] : [y];
     const first = Math.min(...cols), last = Math.max(...cols);
     const values = [cols.map((c) => this.header[c]), ...this.rows.map((r) => cols.map((c) => r[c] ?? ''))];
-    return { address: `Demo!${this.columnLetter(first)}1:${this.columnLetter(last)}${this.rows.length + 1}`, values };
+    const dates = x >= 0 && /date|week|day|month/i.test(this.header[x] ?? '');
+    return { address: `Demo!${this.columnLetter(first)}1:${this.columnLetter(last)}${this.rows.length + 1}`, values, firstColumnDates: dates };
   }
 
   private besideIndex(): number {
