@@ -67,19 +67,23 @@ describe('fitTrend recovery', () => {
     return Float64Array.from(x, (t) => (t <= k1 ? t : t <= k2 ? k1 - 0.5 * (t - k1) : k1 - 0.5 * (k2 - k1) + 2 * (t - k2)));
   };
 
-  test('finds exactly the kinks of noiseless piecewise-linear data at a small penalty', () => {
+  test('finds the kinks of noiseless piecewise-linear data at a small penalty, up to negligible neighbours', () => {
+    // At lambda > 0 the exact solution may carry extra knots right beside a true one:
+    // the dual is a smooth (piecewise cubic) function of the rows and need not peak exactly
+    // at the kink row. They are of order lambda; the optimality conditions certify them.
     const n = 60;
     const x = Float64Array.from({ length: n }, (_, i) => 2 * i);
     const y = kinked(x);
     const r = fitTrend(seriesFromArrays(x, y), { order: 1, penalty: 1e-4 });
-    expect(r.knots.map((k) => k.index)).toEqual([20, 40]);
-    expect(r.knots.map((k) => k.x)).toEqual([40, 80]);
+    const big = r.knots.filter((k) => Math.abs(k.change) > 1e-4);
+    expect(big.map((k) => k.x)).toEqual([40, 80]);
+    for (const k of r.knots) if (Math.abs(k.change) <= 1e-4) { expect([19, 21, 39, 41]).toContain(k.index); expect(Math.abs(k.change)).toBeLessThan(1e-5); }
     // slope changes -1.5 and +2.5, shrunk by the penalty by less than 1e-3
-    expect(Math.abs(r.knots[0].change + 1.5)).toBeLessThan(1e-3);
-    expect(Math.abs(r.knots[1].change - 2.5)).toBeLessThan(1e-3);
-    const kkt = checkTrendKkt(x, y, new Float64Array(n).fill(1), r.fitted, 1, 1e-4);
-    expect(kkt.boxExcess).toBeLessThan(1e-6);
-    expect(kkt.signError).toBeLessThan(1e-6);
+    expect(Math.abs(big[0].change + 1.5)).toBeLessThan(1e-3);
+    expect(Math.abs(big[1].change - 2.5)).toBeLessThan(1e-3);
+    const kkt = checkTrendKkt(x, y, new Float64Array(n).fill(1), r.fitted, 1, 1e-4, 1e-9);
+    expect(kkt.boxExcess).toBeLessThan(1e-7);
+    expect(kkt.signError).toBeLessThan(1e-7);
   });
 
   test('on uneven x the kinks carry the slope changes; any extra knots sit beside them and are negligible', () => {

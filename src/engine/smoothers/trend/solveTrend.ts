@@ -2,6 +2,8 @@ import type { SolverStatus } from '../../types';
 import { totalVariationDenoise } from './totalVariationDenoise';
 import { trendDualInteriorPoint, trendOperator, TrendOperator, INTERIOR_POINT_RULE } from './trendDualInteriorPoint';
 import { polishTrend } from './polishTrend';
+import { weightedPolynomialFit } from './weightedPolynomialFit';
+import { dualFromResidual } from './dualFromResidual';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -13,6 +15,8 @@ export interface TrendProblem {
   op?: TrendOperator;
   /** x mapped to [0, 1], built on first use. */
   x01?: Float64Array;
+  /** Dual of the weighted polynomial fit on x01 (refinement restarts), built on first use. */
+  polyDual?: Float64Array;
 }
 
 /** Solution of {@link solveTrend}. */
@@ -65,7 +69,12 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     return { b, u, lambda, knotRows, status: { converged: true, iterations: 1, tolerance: 0, achieved: 0, stoppingRule: DP_RULE } };
   }
   if (!prob.op) prob.op = trendOperator(x, w, k);
-  const sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
+  let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
+  if (!sol.status.converged && warm) {
+    // a warm start can stall where a cold one does not: keep the better of the two
+    const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
+    if (cold.status.achieved < sol.status.achieved) sol = { ...cold, status: { ...cold.status, iterations: cold.status.iterations + sol.status.iterations } };
+  }
   // refinement on x in [0, 1]: D(x01) = N^k D(x), so lambda and u scale by N^-k
   if (!prob.x01) {
     const N = x[n - 1] - x[0];
@@ -76,8 +85,25 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   const f = Math.pow(N, k);
   const u01 = new Float64Array(sol.u.length);
   for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-  const pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
-  if (pol.ok && pol.achieved <= Math.max(tolerance, sol.status.achieved)) {
+  let pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
+  if (!pol.ok && !sol.status.converged) {
+    // the interior-point dual is unreliable here (see its limitation note): restart the
+    // active-set refinement from the previous penalty's knots, else from the polynomial fit
+    const start = new Float64Array(u01.length);
+    if (warm && warm.knotRows.length) for (const r of warm.knotRows) start[r] = Math.sign(warm.u[r] || 1) * (lambda / f);
+    else {
+      if (!prob.polyDual) {
+        const p = weightedPolynomialFit(x, y, w, k);
+        const g = new Float64Array(n);
+        for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - p[i]);
+        prob.polyDual = dualFromResidual(prob.x01, k + 1, g).u;
+      }
+      start.set(prob.polyDual);
+    }
+    const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start, 60);
+    if (pol2.ok) pol = pol2;
+  }
+  if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved)) {
     const u = new Float64Array(pol.u.length);
     for (let r = 0; r < u.length; r++) u[r] = pol.u[r] * f;
     return {

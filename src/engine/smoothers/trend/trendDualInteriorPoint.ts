@@ -21,7 +21,8 @@
  * Limitation: Q has condition number of order L^(2k+2) over a stretch of L points
  * without knots, so at penalties near lambda_max on long series (few knots)
  * the Newton steps lose accuracy and the gap may stall above the tolerance;
- * the status then says not converged and reports the gap reached.
+ * the status then says not converged and reports the gap reached. The best
+ * iterate seen is returned; a breakdown (non-finite step) ends the iterations.
  */
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
 import { differenceRows } from '../../linalg/differenceRows';
@@ -132,7 +133,8 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     applyDifferenceGram(rows, winv, q, u, qu, tmp);
     let g = 0;
     for (let i = 0; i < m; i++) { const dbi = p[i] - qu[i]; g += lambda * Math.abs(dbi) - u[i] * dbi; }
-    t = Math.min(Math.max(1 / lambda, (2 * m) / Math.max(g, 1e-300)), 1e12);
+    // start no closer to the end of the central path than a surrogate gap of 1e-6 of the null deviance
+    t = Math.min(Math.max(1 / lambda, (2 * m) / Math.max(g, 1e-300)), (2 * m) / (1e-6 * e0 + 1e-300));
   } else {
     t = 1 / lambda;
   }
@@ -143,6 +145,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   let gapAbs = Infinity;
   let objective = NaN;
   let converged = false;
+  const best = { achieved: Infinity, gap: Infinity, objective: NaN, b: new Float64Array(n), u: new Float64Array(m) };
   const alpha = 0.01, beta = 0.5, mufac = 10;
   for (;;) {
     applyDifferenceGram(rows, winv, q, u, qu, tmp);
@@ -156,6 +159,8 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     objective = obj;
     gapAbs = Math.max(lambda * l1 - ud, 0);
     achieved = gapAbs / Math.max(obj, floor);
+    if (!Number.isFinite(achieved)) break;
+    if (achieved < best.achieved) { best.achieved = achieved; best.gap = gapAbs; best.objective = obj; best.b.set(b); best.u.set(u); }
     if (achieved <= tolerance) { converged = true; break; }
     if (iter >= maxIterations) break;
     iter++;
@@ -177,6 +182,9 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     for (let i = 0; i < m; i++) mat[i * wd] += mu1[i] / -f1[i] + mu2[i] / -f2[i];
     if (bandedCholesky(mat, m, q, PIVOT_FLOOR) >= 0) break;
     bandedCholeskySolve(mat, m, q, du);
+    let finite = true;
+    for (let i = 0; i < m; i++) if (!Number.isFinite(du[i])) { finite = false; break; }
+    if (!finite) break;
     let smax = 1;
     for (let i = 0; i < m; i++) {
       const c1 = -mu1[i] * f1[i] - it;
@@ -213,8 +221,9 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
       f2[i] = -u[i] - lambda;
     }
   }
+  // the best iterate seen (the last one unless the iteration broke down)
   return {
-    b, u, gap: gapAbs, objective,
-    status: { converged, iterations: iter, tolerance, achieved, stoppingRule: INTERIOR_POINT_RULE },
+    b: best.b, u: best.u, gap: best.gap, objective: best.objective,
+    status: { converged, iterations: iter, tolerance, achieved: best.achieved, stoppingRule: INTERIOR_POINT_RULE },
   };
 }

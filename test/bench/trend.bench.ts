@@ -1,0 +1,108 @@
+/**
+ * Benchmark of trend filtering: one JSON record per measurement.
+ *
+ * - single penalty (1e-3 lambda_max, penalty given) for k = 1 and 3 at n = 1e3 .. 1e6:
+ *   time, iterations, relative duality gap reached, knots, heap growth;
+ * - full 5-fold cross-validation over 30 penalties with warm starts at n = 1e3, 1e4;
+ * - MSE against the truth versus df for trend filtering (k = 1, 3) and the cubic
+ *   smoothing spline ('spline') on the Doppler and Blocks functions of
+ *   D. L. Donoho and I. M. Johnstone, "Ideal spatial adaptation by wavelet
+ *   shrinkage", Biometrika 81 (1994) 425-455.
+ * Data: seeded (Park-Miller generator below), smoothness changing along x.
+ * `quick` keeps n <= 1e4 (CI smoke).
+ */
+import { fitTrend } from '../../src/engine/smoothers/trend';
+import { getMethod } from '../../src/engine/registry';
+import { seriesFromArrays, Series } from '../../src/engine/series';
+import '../../src/engine/methods';
+import { doppler, blocks, seededNormal } from '../engine/smoothers/trendTestFunctions';
+
+declare const process: { memoryUsage(): { heapUsed: number; arrayBuffers: number } } | undefined;
+
+function now(): number {
+  return typeof performance !== 'undefined' ? performance.now() : Date.now();
+}
+
+function memory(): number {
+  if (typeof process === 'undefined' || !process.memoryUsage) return NaN;
+  const m = process.memoryUsage();
+  return m.heapUsed + m.arrayBuffers;
+}
+
+/** Series with smoothness changing along x: a chirp plus a kinked ramp, uneven spacing, noise sd 0.2. */
+export function benchSeries(n: number, seed: number): Series {
+  const rnorm = seededNormal(seed);
+  const x = new Float64Array(n), y = new Float64Array(n);
+  let c = 0;
+  for (let i = 0; i < n; i++) { c += 0.5 + Math.abs(rnorm()) * 0.6; x[i] = c; }
+  for (let i = 0; i < n; i++) {
+    const t = (x[i] - x[0]) / (x[n - 1] - x[0]);
+    y[i] = Math.sin(2 * Math.PI * 3 * t * t * t) + (t > 0.6 ? 2 * (t - 0.6) : 0) + 0.2 * rnorm();
+  }
+  return seriesFromArrays(x, y);
+}
+
+/** MSE against the truth versus df, trend filtering and the spline, on one test function. */
+export function adaptivityTable(name: 'doppler' | 'blocks', n: number, dfs: number[], seed: number): Record<string, unknown>[] {
+  const f = name === 'doppler' ? doppler : blocks;
+  const rnorm = seededNormal(seed);
+  const x = new Float64Array(n), truth = new Float64Array(n), y = new Float64Array(n);
+  // signal-to-noise ratio 7 as in Donoho and Johnstone (1994): sd(f) / sigma = 7
+  for (let i = 0; i < n; i++) { x[i] = i / (n - 1); truth[i] = f(x[i]); }
+  let m = 0, v = 0;
+  for (let i = 0; i < n; i++) m += truth[i] / n;
+  for (let i = 0; i < n; i++) v += (truth[i] - m) ** 2 / n;
+  const sigma = Math.sqrt(v) / 7;
+  for (let i = 0; i < n; i++) y[i] = truth[i] + sigma * rnorm();
+  const s = seriesFromArrays(x, y);
+  const mse = (fit: Float64Array) => { let e = 0; for (let i = 0; i < n; i++) e += (fit[i] - truth[i]) ** 2; return e / n; };
+  const spline = getMethod('spline');
+  const rows: Record<string, unknown>[] = [];
+  for (const df of dfs) {
+    const row: Record<string, unknown> = { bench: 'trend-adaptivity', function: name, n, sigma, targetDf: df };
+    for (const k of [1, 3]) {
+      const r = fitTrend(s, { order: k, df });
+      row[`trendK${k}Df`] = r.df;
+      row[`trendK${k}Mse`] = mse(r.fitted);
+    }
+    const sp = spline.fit(s, { df });
+    row.splineDf = sp.df;
+    row.splineMse = mse(sp.fitted);
+    rows.push(row);
+  }
+  return rows;
+}
+
+export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+  const sizes = quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
+  for (const k of [1, 3]) {
+    for (const n of sizes) {
+      const s = benchSeries(n, 1000 + n);
+      // lambda_max in the data's units from a one-point path
+      const lmax = fitTrend(s, { order: k, df: k + 1, gridSize: 3 }).criterion.curve!.slice(-1)[0].penalty;
+      const lam = 1e-3 * lmax;
+      const m0 = memory();
+      const t0 = now();
+      const r = fitTrend(s, { order: k, penalty: lam });
+      const t1 = now();
+      const m1 = memory();
+      emit({
+        bench: 'trend-single-penalty', order: k, n, penalty: lam, penaltyOverLambdaMax: 1e-3,
+        seconds: (t1 - t0) / 1000, iterations: r.solver.iterations, converged: r.solver.converged,
+        tolerance: r.solver.tolerance, achieved: r.solver.achieved, knots: r.knots.length,
+        heapGrowthBytes: m1 - m0, bytesPerPoint: (m1 - m0) / n,
+      });
+    }
+  }
+  for (const n of quick ? [1e3] : [1e3, 1e4]) {
+    for (const k of [1]) {
+      const s = benchSeries(n, 77 + n);
+      const t0 = now();
+      const r = fitTrend(s, { order: k, select: 'cv', folds: 5, gridSize: 30 });
+      const t1 = now();
+      emit({ bench: 'trend-cv', order: k, n, folds: 5, gridSize: 30, seconds: (t1 - t0) / 1000, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged });
+    }
+  }
+  const dfs = quick ? [10, 30] : [10, 20, 30, 45, 60, 80, 100];
+  for (const name of ['doppler', 'blocks'] as const) for (const row of adaptivityTable(name, quick ? 512 : 2048, dfs, 31)) emit(row);
+}
