@@ -6,6 +6,8 @@
 const INF = 1 / 0;
 const { abs, sqrt, min } = Math;
 
+import { brokenLineFit, suffixLowerBound } from './slopeBounds';
+
 /** Result of {@link cpop}. */
 export interface SlopeSegmentation {
   /** Point indices of the kinks, increasing, excluding the two end points. */
@@ -111,14 +113,26 @@ function minOnInterval(d2: number, d1: number, d0: number, lo: number, hi: numbe
  * some phi) are extended. Inequality pruning: a piece from s is dropped at t when
  * q(phi) >= f_t(phi) + beta for every phi, because a kink at t through the same value
  * is then at least as good for every future point (takes effect after `minSegment`
- * steps). Both rules keep the search exact.
+ * steps). Bound: a relaxation without continuity (free line per segment, PELT run
+ * backwards, {@link suffixLowerBound}) bounds the cost after t from below by G(t); with
+ * a ceiling UB, values with f_t(phi) > UB - G(t) cannot be on a path costing UB or less
+ * and are discarded. UB is found by iterative deepening from the relaxation's total:
+ * a search whose solution costs no more than its UB is optimal (everything discarded
+ * cost more); otherwise UB grows by half and the search repeats, ending at the cost of
+ * a feasible broken line at the latest. All rules keep the search exact (the tests
+ * compare against brute force and against the search without the bound).
+ * The functional pruning is CPOP's; the inequality and bound rules are this engine's
+ * exact variants of PELT-style pruning (CPOP's published inequality pruning differs).
+ * Cost: grows faster than linearly in n when the relaxation is loose (many segments
+ * ahead); see the benchmark.
  *
  * x must be strictly increasing (merge tied x first, carrying sum w y^2 in `wyy`).
  * Running sums are kept per candidate relative to its own x, so no cancellation
  * grows with the position in the series.
  *
- * Stopping rule: none needed; one pass over the points (lower envelopes are built by a
- * sweep that ends after at most 2K - 1 pieces for K quadratics).
+ * Stopping rule: each pass is one sweep over the points (lower envelopes are built by a
+ * sweep that ends after at most 2K - 1 pieces for K quadratics); the passes stop at the
+ * first whose solution is within its UB (at most a few dozen; the last uses a feasible UB).
  *
  * @param x - strictly increasing positions (scaled to order 1 for accuracy)
  * @param y - weighted mean of y at each position
@@ -132,9 +146,50 @@ function minOnInterval(d2: number, d1: number, d0: number, lo: number, hi: numbe
  * r.changes; // kink indices
  * ```
  */
-export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number): SlopeSegmentation {
+export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number, useBound = true): SlopeSegmentation {
+  const n = x.length;
+  if (!useBound || n <= 2) return cpopSearch(x, y, w, wyy, penalty, minSegment, null, INF)!;
+  const beta = penalty;
+  // G(t): relaxation bound on the cost after t; UB: the cost of feasible broken lines
+  const rel = suffixLowerBound(x, y, w, wyy, beta);
+  const kinks: number[] = [];
+  let prev = 0;
+  for (const c of rel.starts) if (c - prev >= minSegment && n - 1 - c >= minSegment) { kinks.push(c); prev = c; }
+  const fit = brokenLineFit(x, y, w, wyy, [0, ...kinks, n - 1]);
+  const line = brokenLineFit(x, y, w, wyy, [0, n - 1]);
+  let feasible = Math.min(fit.rss + beta * kinks.length, line.rss);
+  // Iterative deepening on the bound: search with a guessed UB = LB + delta, where
+  // LB = G(0) + min f_0 bounds the optimum from below. Every discarded path costs more
+  // than the guess, so a solution found at or under the guess is optimal; otherwise
+  // the guess was too low and delta grows. The feasible cost ends the sequence.
+  const lowerTotal = rel.lower[0] - beta;
+  let delta = Math.max(beta, 1) / 2;
+  let evaluations = 0;
+  for (;;) {
+    let guess = lowerTotal + delta;
+    const last = guess >= feasible;
+    if (last) guess = feasible;
+    const upper = guess + 1e-9 * (1 + Math.abs(guess));
+    const r = cpopSearch(x, y, w, wyy, beta, minSegment, rel.lower, upper);
+    if (r) {
+      evaluations += r.evaluations;
+      if (last || r.penalisedCost <= upper) { r.evaluations = evaluations; return r; }
+      // a solution over the guess is still feasible: a tighter ceiling for the sequence
+      if (r.penalisedCost < feasible) feasible = r.penalisedCost;
+    }
+    delta *= 1.5;
+  }
+}
+
+/**
+ * One CPOP pass. With `lower` (G) and `upper` (UB), fitted values with
+ * f_t(phi) > UB - G(t) are discarded: no path through them costs UB or less.
+ * Returns null when every path was discarded (UB below the optimum). Unchecked.
+ */
+function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number, lower: Float64Array | null, upper: number): SlopeSegmentation | null {
   const n = x.length;
   const beta = penalty;
+  const lowerBound: Float64Array = lower ?? new Float64Array(n);
   const Q = new QuadStore();
   // per start point s: running sums over (s, t] with d = x_i - x_s
   const S0 = new Float64Array(n), S1 = new Float64Array(n), S2 = new Float64Array(n);
@@ -150,6 +205,7 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
   let ta: Float64Array = new Float64Array(256), tb: Float64Array = new Float64Array(256), tc: Float64Array = new Float64Array(256);
   let tpar: Int32Array = new Int32Array(256), tal: Float64Array = new Float64Array(256), tga: Float64Array = new Float64Array(256);
   let onEnv: Uint8Array = new Uint8Array(256);
+  let live: Int32Array = new Int32Array(256);
   const envIdx: number[] = [];
   const envLo: number[] = [];
   const envHi: number[] = [];
@@ -214,32 +270,53 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
       }
       break;
     }
-    // lower envelope by a left-to-right sweep
+    // cap: values where f_t exceeds it cannot be on an optimal path
+    const cap = upper - lowerBound[t];
+    // lower envelope by a left-to-right sweep, over candidates whose minimum is under the cap
     envIdx.length = 0; envLo.length = 0; envHi.length = 0;
-    let cur = 0;
-    for (let k = 1; k < K; k++) {
-      if (ta[k] < ta[cur] || (ta[k] === ta[cur] && (tb[k] > tb[cur] || (tb[k] === tb[cur] && tc[k] < tc[cur])))) cur = k;
+    if (live.length < K) live = new Int32Array(2 * K);
+    let nl = 0;
+    let cur = -1;
+    for (let k = 0; k < K; k++) {
+      if (tc[k] - (tb[k] * tb[k]) / (4 * ta[k]) > cap) continue;
+      live[nl++] = k;
+      if (cur < 0 || ta[k] < ta[cur] || (ta[k] === ta[cur] && (tb[k] > tb[cur] || (tb[k] === tb[cur] && tc[k] < tc[cur])))) cur = k;
     }
+    if (cur >= 0) {
+    // a candidate with no crossing below the current piece ahead of pos lies on or above
+    // the envelope from pos on, so it is dropped from the sweep (as in CPOP's pruning)
     let pos = -INF;
+    { let k2 = 0; for (let i = 0; i < nl; i++) if (live[i] !== cur) live[k2++] = live[i]; nl = k2; }
     for (let step = 0; step < 2 * K + 1; step++) {
       let best = INF;
       let arg = -1;
+      let argAt = -1;
       const a0 = ta[cur], b0 = tb[cur], c0 = tc[cur];
-      for (let k = 0; k < K; k++) {
-        if (k === cur) continue;
+      let keepL = 0;
+      for (let i = 0; i < nl; i++) {
+        const k = live[i];
         const r = crossing(ta[k] - a0, tb[k] - b0, tc[k] - c0, pos);
-        if (r < best) { best = r; arg = k; }
+        if (r < INF) {
+          if (r < best) { best = r; arg = k; argAt = keepL; }
+          live[keepL++] = k;
+        }
       }
+      nl = keepL;
       envIdx.push(cur); envLo.push(pos);
       if (arg < 0) { envHi.push(INF); break; }
       envHi.push(best);
+      live[argAt] = cur; // the old piece may come back lower further right
       pos = best;
       cur = arg;
     }
     if (envHi.length < envIdx.length) envHi.push(INF);
+    }
     // store the envelope's pieces as f_t
     for (let k = 0; k < K; k++) onEnv[k] = 0;
-    for (const k of envIdx) onEnv[k] = 1;
+    for (let p = 0; p < envIdx.length; p++) {
+      const e = envIdx[p];
+      if (minOnInterval(ta[e], tb[e], tc[e] - cap, envLo[p], envHi[p]) <= 0) onEnv[e] = 1;
+    }
     qStart[t] = Q.size;
     let cnt = 0;
     for (let k = 0; k < K; k++) {
@@ -248,13 +325,39 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
     qCount[t] = cnt;
     // inequality pruning: q - f_t >= beta on every envelope piece
     const P = envIdx.length;
+    // the envelope's minimiser: a quick first test that rejects most candidates
+    let phiStar = 0, fStar = INF, pStar = 0;
+    for (let p = 0; p < P; p++) {
+      const e = envIdx[p];
+      let v = -tb[e] / (2 * ta[e]);
+      if (v < envLo[p]) v = envLo[p];
+      if (v > envHi[p]) v = envHi[p];
+      const fv = (ta[e] * v + tb[e]) * v + tc[e];
+      if (fv < fStar) { fStar = fv; phiStar = v; pStar = p; }
+    }
+    // a piece is dropped when, wherever q - beta is under the cap (the interval I_q),
+    // it is at least f_t: then a kink at t does as well, or the path cannot beat UB
+    const top = cap + beta;
     for (let k = 0; k < K; k++) {
       const j = tpar[k];
       if (Q.die[j] !== INF) continue;
+      const a2 = ta[k], a1 = tb[k], a0 = tc[k];
+      const qmin = a0 - (a1 * a1) / (4 * a2);
       let prune = true;
-      for (let p = 0; p < P; p++) {
-        const e = envIdx[p];
-        if (minOnInterval(ta[k] - ta[e], tb[k] - tb[e], tc[k] - tc[e] - beta, envLo[p], envHi[p]) < 0) { prune = false; break; }
+      if (qmin < top) {
+        if (P === 0) continue;
+        if ((a2 * phiStar + a1) * phiStar + a0 - fStar < beta && (a2 * phiStar + a1) * phiStar + a0 < top) continue;
+        // I_q = (r1, r2): roots of q - top
+        const h = Math.sqrt((a1 * a1 - 4 * a2 * (a0 - top))) / (2 * a2);
+        const v = -a1 / (2 * a2);
+        const r1 = v - h, r2 = v + h;
+        for (let p = 0; p < P; p++) {
+          const q = (p + pStar) % P;
+          const lo = envLo[q] > r1 ? envLo[q] : r1, hi = envHi[q] < r2 ? envHi[q] : r2;
+          if (lo >= hi) continue;
+          const e = envIdx[q];
+          if (minOnInterval(a2 - ta[e], a1 - tb[e], a0 - tc[e] - beta, lo, hi) < 0) { prune = false; break; }
+        }
       }
       if (prune) Q.die[j] = t + minSegment;
     }
@@ -264,6 +367,7 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
   if (n === 1) {
     return { changes: [], knotValues: [y[0]], cost: wyy[0] - w[0] * y[0] * y[0], penalisedCost: wyy[0] - w[0] * y[0] * y[0], evaluations: 0, maxCandidates: 1, meanCandidates: 1 };
   }
+  if (finalBest < 0) return null;
   // backtrack from the best final piece
   const k = finalBest;
   let phi = -tb[k] / (2 * ta[k]);

@@ -114,6 +114,37 @@ describe('cpop', () => {
     expect(withKinks).toBeGreaterThan(100);
   });
 
+  test('gives the same result with and without the bound-based discarding (300 points, 30 series)', () => {
+    for (let seed = 100; seed < 130; seed++) {
+      const { x, y } = kinked(300, seed, 0.2 + (seed % 5) * 0.3);
+      const w = Float64Array.from({ length: 300 }, (_, i) => 1 + (i % 3) * 0.5);
+      const wyy = Float64Array.from(y, (v, i) => w[i] * v * v);
+      const xs = Float64Array.from(x, (v) => (v - x[0]) / (x[299] - x[0]));
+      for (const beta of [1, 2 * Math.log(300), 40]) {
+        const m = seed % 3 === 0 ? 5 : 1;
+        const a = cpop(xs, y, w, wyy, beta, m, true);
+        const b = cpop(xs, y, w, wyy, beta, m, false);
+        expect(a.changes).toEqual(b.changes);
+        expect(a.penalisedCost).toBeCloseTo(b.penalisedCost, 7);
+      }
+    }
+  });
+
+  test('matches brute force without the bound too (n = 10, 30 series)', () => {
+    for (let seed = 200; seed < 230; seed++) {
+      const { x, y } = kinked(10, seed, 0.3);
+      const w = new Float64Array(10).fill(1);
+      const wyy = Float64Array.from(y, (v) => v * v);
+      const xs = Float64Array.from(x, (v) => (v - x[0]) / (x[9] - x[0]));
+      for (const beta of [0.3, 2]) {
+        const r = cpop(xs, y, w, wyy, beta, 1, false);
+        const bf = bruteForce(xs, y, w, beta, 1);
+        expect(r.changes).toEqual(bf.changes);
+        expect(r.penalisedCost).toBeCloseTo(bf.value, 8);
+      }
+    }
+  });
+
   test('returns knot values that are the least-squares broken line for its kinks (normal equations), n = 600', () => {
     const { x, y } = kinked(600, 3, 0.5);
     const w = new Float64Array(600).fill(1);
