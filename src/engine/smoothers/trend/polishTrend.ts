@@ -23,6 +23,9 @@ export const BOX_RELATIVE = 1e-8;
 /** Largest active set for which the dense refinement is attempted. */
 export const POLISH_MAX_KNOTS = 150;
 
+/** Budget of the refinement in multiply-adds (sum of n p^2 over its solves), about a second. */
+export const POLISH_MAX_WORK = 2e9;
+
 /** Largest n * (k + 1 + |A|) (numbers held in the dense block) for which refinement is attempted. */
 export const POLISH_MAX_CELLS = 4e6;
 
@@ -32,7 +35,8 @@ export const POLISH_MAX_CELLS = 4e6;
  * M. R. Osborne, B. Presnell and B. A. Turlach, "On the LASSO and its dual",
  * J. Comput. Graph. Statist. 9 (2000).
  *
- * For knot rows A with signs s it solves exactly
+ * The initial A takes, of each run of rows with |u0_r| >= lambda (1 - 1e-6) of one
+ * sign, the row with the largest |u0_r|. For knot rows A with signs s it solves exactly
  *   minimise 1/2 sum w (y - b)^2 + lambda s_A^T (D b)_A  subject to (D b)_j = 0 for j not in A,
  * with b in the span of the falling factorial columns for A
  * ({@link fallingFactorialColumns}), by a weighted QR least-squares solve
@@ -44,16 +48,25 @@ export const POLISH_MAX_CELLS = 4e6;
  * consecutive rows with |u_r| > lambda (1 + 1e-8) the largest joins A with the
  * sign of u. When no row violates, all optimality conditions of the original
  * problem hold: the solution is optimal up to rounding, with exact zeros of
- * D b off the knots. At most `maxRounds` restricted solves; stops if an
- * active set repeats.
+ * D b off the knots. At most `maxRounds` restricted solves (and {@link POLISH_MAX_WORK}
+ * multiply-adds); stops if an active set repeats.
  *
  * Works on x scaled to [0, 1]. Unchecked.
  */
-export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 40): PolishResult {
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200): PolishResult {
   const n = x.length;
   const m = n - k - 1;
   const act = new Map<number, number>();
-  for (let r = 0; r < m; r++) if (Math.abs(u0[r]) >= lambda * (1 - 1e-6)) act.set(r, Math.sign(u0[r]));
+  // initial guess: of each run of consecutive rows with |u0_r| >= lambda (1 - 1e-6), the largest
+  // (a smooth dual is flat near its peaks, and adjacent knots would be nearly collinear columns)
+  const near = lambda * (1 - 1e-6);
+  for (let r = 0; r < m; ) {
+    if (!(Math.abs(u0[r]) >= near)) { r++; continue; }
+    let best = r, e = r;
+    while (e < m && Math.abs(u0[e]) >= near && Math.sign(u0[e]) === Math.sign(u0[r])) { if (Math.abs(u0[e]) > Math.abs(u0[best])) best = e; e++; }
+    act.set(best, Math.sign(u0[best]));
+    r = e;
+  }
   // a feasible start in the span of any active set: the weighted polynomial fit (D b = 0)
   let bcur: Float64Array = weightedPolynomialFit(x, y, w, k);
   let u: Float64Array = new Float64Array(m);
@@ -61,8 +74,11 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   const seen = new Set<string>();
   const lim = lambda * (1 + BOX_RELATIVE);
   let rounds = 0;
+  let work2 = 0;
   for (; rounds < maxRounds; rounds++) {
     if (act.size > POLISH_MAX_KNOTS || n * (k + 1 + act.size) > POLISH_MAX_CELLS) break;
+    work2 += n * (k + 1 + act.size) ** 2;
+    if (work2 > POLISH_MAX_WORK) break;
     const key = [...act.entries()].sort((a, c) => a[0] - c[0]).map(([r, sg]) => r * sg).join(',');
     if (seen.has(key)) break; // the active set cycles: give up
     seen.add(key);

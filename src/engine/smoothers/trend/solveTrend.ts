@@ -30,6 +30,9 @@ export interface TrendFit {
   status: SolverStatus;
 }
 
+/** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
+const CONTINUATION_STEPS_PER_DECADE = 4;
+
 export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations or tolerance';
 
 export const TREND_RULE = `${INTERIOR_POINT_RULE}; then, when the dual marks at most 150 knots, an exact active-set refinement, kept only if it meets the optimality conditions |u| <= lambda and u = lambda * sign(D b) on the knots`;
@@ -44,7 +47,10 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * Solves trend filtering of order k at one (scaled) penalty: the exact dynamic
  * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
  * from `warm`), followed by the exact active-set refinement of
- * {@link polishTrend} when few knots are marked.
+ * {@link polishTrend} when few knots are marked. When the interior point does
+ * not converge and that refinement fails, the refinement is restarted from the
+ * previous penalty's knots, else run as a continuation from lambda_max
+ * (4 geometric steps per decade, each started from the last one's knots).
  *
  * Knot rows: k = 0, the rows where b jumps (exact); k >= 1 after a successful
  * refinement, the rows where D b is non-zero (exact zeros elsewhere); otherwise
@@ -90,18 +96,42 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     // the interior-point dual is unreliable here (see its limitation note): restart the
     // active-set refinement from the previous penalty's knots, else from the polynomial fit
     const start = new Float64Array(u01.length);
-    if (warm && warm.knotRows.length) for (const r of warm.knotRows) start[r] = Math.sign(warm.u[r] || 1) * (lambda / f);
-    else {
+    if (warm && warm.knotRows.length) {
+      for (const r of warm.knotRows) start[r] = Math.sign(warm.u[r] || 1) * (lambda / f);
+      const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start);
+      if (pol2.ok) pol = pol2;
+    }
+    if (!pol.ok) {
+      // continuation from lambda_max (where the active set is empty) down to lambda in
+      // geometric steps, each refinement started from the knots of the step before
       if (!prob.polyDual) {
         const p = weightedPolynomialFit(x, y, w, k);
         const g = new Float64Array(n);
         for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - p[i]);
         prob.polyDual = dualFromResidual(prob.x01, k + 1, g).u;
       }
-      start.set(prob.polyDual);
+      let lmax = 0;
+      for (let r = 0; r < prob.polyDual.length; r++) lmax = Math.max(lmax, Math.abs(prob.polyDual[r]));
+      const target = lambda / f;
+      if (lmax > target) {
+        const steps = Math.max(2, Math.ceil(Math.log10(lmax / target) * CONTINUATION_STEPS_PER_DECADE));
+        let cur: Float64Array = prob.polyDual;
+        let curLam = lmax;
+        let ok = true;
+        let rounds = 0;
+        let last: ReturnType<typeof polishTrend> | undefined;
+        for (let j = 1; j <= steps && ok; j++) {
+          const lj = lmax * Math.pow(target / lmax, j / steps);
+          const st = Float64Array.from(cur, (v) => (v * lj) / curLam);
+          last = polishTrend(prob.x01, y, w, k, lj, st);
+          rounds += last.rounds;
+          ok = last.ok;
+          cur = last.u;
+          curLam = lj;
+        }
+        if (ok && last) pol = { ...last, rounds };
+      }
     }
-    const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start, 60);
-    if (pol2.ok) pol = pol2;
   }
   if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved)) {
     const u = new Float64Array(pol.u.length);
