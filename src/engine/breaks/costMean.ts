@@ -36,6 +36,7 @@ export function meanCost(y: Float64Array, w: Float64Array, sigma: number, centre
   }
   return {
     n,
+    squaredErrorSums: { w: sw, s1, s2 },
     cost(s: number, t: number): number {
       const a = s1[t] - s1[s];
       const v = s2[t] - s2[s] - (a * a) / (sw[t] - sw[s]);

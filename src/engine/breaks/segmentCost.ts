@@ -17,6 +17,11 @@ export interface SegmentCost {
   readonly n: number;
   /** Cost of points s..t-1. Unchecked: 0 <= s < t <= n. */
   cost(s: number, t: number): number;
+  /**
+   * Optional cumulative sums (length n + 1) of w, w z, w z^2 when the cost is exactly
+   * sum w (z - zbar)^2 (clamped at 0): lets {@link pelt} inline the cost in its loop.
+   */
+  readonly squaredErrorSums?: { w: Float64Array; s1: Float64Array; s2: Float64Array };
 }
 
 /** Result of one penalised search. */

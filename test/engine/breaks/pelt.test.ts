@@ -108,6 +108,21 @@ describe('pelt', () => {
     }
   });
 
+  test('the inlined squared-error path returns what the generic loop returns', () => {
+    for (const seed of seeds) {
+      const y = gaussian(400, seed, false);
+      const c = meanCost(y, ones(400), 1, 0);
+      const generic: SegmentCost = { n: c.n, cost: (s, t) => c.cost(s, t) };
+      expect(c.squaredErrorSums).toBeDefined();
+      for (const beta of [1, 2 * Math.log(400), 25]) {
+        const a = pelt(c, beta, 1);
+        const b = pelt(generic, beta, 1);
+        expect(a.changes).toEqual(b.changes);
+        expect(a.penalisedCost).toBeCloseTo(b.penalisedCost, 9);
+      }
+    }
+  });
+
   test('prunes: evaluates far fewer segment costs than optimal partitioning when changes are frequent', () => {
     const y = gaussian(3000, 5, false);
     const ratio = expectSame(meanCost(y, ones(3000), 1, 0), 2 * Math.log(3000), 1);
