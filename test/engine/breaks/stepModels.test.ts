@@ -1,0 +1,77 @@
+import { findBreaks } from '../../../src/engine/breaks/findBreaks';
+import { prepareSeries } from '../../../src/engine/series';
+import { normalStream } from '../../helpers/random';
+
+describe('findBreaks with the mean-and-variance model', () => {
+  test('finds a change in variance that the mean does not show', () => {
+    let ok = 0;
+    for (let seed = 1; seed <= 20; seed++) {
+      const z = normalStream(seed * 13);
+      const y = Array.from({ length: 400 }, (_, i) => (i < 250 ? 1 : 3) * z());
+      const r = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'meanvar', penalty: 'mbic' });
+      if (r.breaks.length === 1 && Math.abs(r.breaks[0].index - 250) <= 15) ok++;
+      for (const s of r.segments) expect(s.n).toBeGreaterThanOrEqual(2);
+    }
+    expect(ok).toBeGreaterThanOrEqual(16);
+  });
+
+  test('floors the variance of a constant stretch and says so', () => {
+    const z = normalStream(5);
+    const y = Array.from({ length: 120 }, (_, i) => (i >= 40 && i < 70 ? 2 : z()));
+    const r = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'meanvar' });
+    const idx = r.breaks.map((b) => b.index);
+    expect(idx).toEqual(expect.arrayContaining([40, 70]));
+    const note = r.warnings.find((w) => w.code === 'note' && /floored/.test(w.message));
+    expect(note).toBeDefined();
+    expect(note!.rows).toContain(40);
+  });
+});
+
+describe('findBreaks with the distribution model', () => {
+  test('finds a change in spread with equal means and medians', () => {
+    let ok = 0;
+    for (let seed = 1; seed <= 10; seed++) {
+      const z = normalStream(seed * 7);
+      const y = Array.from({ length: 400 }, (_, i) => (i < 200 ? 0.5 : 3) * z());
+      const r = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'distribution', penalty: 'mbic' });
+      if (r.breaks.some((b) => Math.abs(b.index - 200) <= 15)) ok++;
+    }
+    expect(ok).toBeGreaterThanOrEqual(8);
+  });
+
+  test('is unchanged by a monotone transform of the data (it uses ranks only)', () => {
+    const z = normalStream(3);
+    const y = Array.from({ length: 300 }, (_, i) => (i < 120 ? 0 : 1.5) + z());
+    const a = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'distribution' });
+    const b = findBreaks(prepareSeries(y.map((v) => Math.exp(v)), null, null, { ties: 'keep' }), { model: 'distribution' });
+    expect(a.breaks.map((k) => k.index)).toEqual(b.breaks.map((k) => k.index));
+    expect(a.cost).toBeCloseTo(b.cost, 10);
+  });
+
+  test('says it ignores weights', () => {
+    const r = findBreaks(prepareSeries([1, 2, 3, 4, 5, 6], null, [1, 1, 2, 2, 1, 1], { ties: 'keep' }), { model: 'distribution' });
+    expect(r.warnings.some((w) => w.code === 'note' && /ignores weights/.test(w.message))).toBe(true);
+  });
+});
+
+describe('findBreaks with the mean model and weights', () => {
+  test('a weight of 2 acts as a repeated row', () => {
+    const z = normalStream(21);
+    const y = Array.from({ length: 60 }, (_, i) => (i < 30 ? 0 : 2) + 0.5 * z());
+    const w = y.map((_, i) => (i % 3 === 0 ? 2 : 1));
+    const yy: number[] = [];
+    y.forEach((v, i) => { yy.push(v); if (w[i] === 2) yy.push(v); });
+    const a = findBreaks(prepareSeries(y, null, w, { ties: 'keep' }), { model: 'mean', sigma: 0.5, penalty: 10 });
+    const b = findBreaks(prepareSeries(yy, null, null, { ties: 'keep' }), { model: 'mean', sigma: 0.5, penalty: 10 });
+    expect(a.cost).toBeCloseTo(b.cost, 8);
+    expect(a.segments.map((s) => s.mean)).toEqual(b.segments.map((s) => expect.closeTo(s.mean, 10)));
+  });
+
+  test('warns when residuals are autocorrelated', () => {
+    const z = normalStream(4);
+    let e = 0;
+    const y = Array.from({ length: 300 }, () => (e = 0.9 * e + z()));
+    const r = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'mean', sigma: 3 });
+    expect(r.warnings.some((w) => w.code === 'autocorrelation')).toBe(true);
+  });
+});
