@@ -129,12 +129,13 @@ function cvPossible(n: number, folds: number, k: number): boolean {
  *
  * Penalty: `options.penalty` (lambda in the data's units, see the module note),
  * else `options.df` (the grid penalty whose df = knots + k + 1 is closest,
- * refined by bisection on log lambda), else `options.select`: 'cv' (default;
+ * refined by bisection on log lambda; the grid is extended downwards when the
+ * target lies beyond it), else `options.select`: 'cv' (default;
  * K-fold, `folds` default 5, `oneSE` for the largest penalty within one
  * standard error of the minimum), 'sure' (Mallows Cp with the robust noise sd
  * of {@link differenceNoiseScale}), or 'bic'. Grid: `gridSize` (default 30)
  * penalties log-spaced from lambda_max (the smallest giving the polynomial fit)
- * to 1e-5 lambda_max.
+ * down to 1e-5 lambda_max (k = 0, 1), 1e-7 (k = 2) or 1e-9 (k = 3).
  *
  * Knots: rows r of D(x, k+1) with (D b)_r non-zero (see {@link solveTrend} for
  * the tolerance); reported at point r + k (k >= 1, where the k-th derivative
@@ -204,7 +205,7 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
     criterion = { name: rule, value: score(pts[chosen]), curve: curveOf(path, rule), atEdge };
     if (atEdge) {
       warnings.push(warning('penalty-at-edge', chosen === 0
-        ? `The ${rule.toUpperCase()} choice is the smallest penalty searched (${showNumber(pts[0].penalty)}, 1e-5 of lambda_max): the fit may follow noise; consider a larger penalty or a df target.`
+        ? `The ${rule.toUpperCase()} choice is the smallest penalty searched (${showNumber(pts[0].penalty)}): the fit may follow noise; consider a larger penalty or a df target.`
         : `The ${rule.toUpperCase()} choice is the largest penalty searched (lambda_max = ${showNumber(pts[chosen].penalty)}): the data show no trend beyond a polynomial of degree ${k}.`));
     }
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
@@ -248,10 +249,19 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
   for (let j = 1; j < G; j++) if (Math.abs(dfs[j] - target) < Math.abs(dfs[best] - target)) best = j;
   let lam = grid[best];
   let fit = solveTrend(prob, lam, s.tolerance, s.maxIterations);
-  const clamped = target < k + 1 || target > maxDf;
+  let maxDfReached = maxDf;
+  let loGrid = grid[G - 1];
+  let loFit: TrendFit | undefined;
+  // extend the grid downwards (two decades at a time, to 1e-8 of its low end) when the target lies beyond it
+  for (let ext = 0; ext < 4 && target > maxDfReached; ext++) {
+    loGrid /= 100;
+    loFit = solveTrend(prob, loGrid, s.tolerance, s.maxIterations, loFit);
+    maxDfReached = Math.max(maxDfReached, loFit.knotRows.length + k + 1);
+  }
+  const clamped = target < k + 1 || target > maxDfReached;
   if (!clamped && fit.knotRows.length + k + 1 !== target) {
     // bracket: df increases as lambda decreases
-    let hiLam = grid[0], loLam = grid[G - 1];
+    let hiLam = grid[0], loLam = loFit && loFit.knotRows.length + k + 1 >= target ? loGrid : grid[G - 1];
     for (let j = 0; j < G; j++) { if (dfs[j] <= target) hiLam = grid[j]; }
     for (let j = G - 1; j >= 0; j--) { if (dfs[j] >= target) loLam = grid[j]; }
     let a = Math.log(loLam), b = Math.log(hiLam);
@@ -267,7 +277,7 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
     fit = bestFit;
     lam = bestLam;
   }
-  return { fit, lambda: lam, clamped, maxDf };
+  return { fit, lambda: lam, clamped, maxDf: maxDfReached };
 }
 
 function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendScaling>, prob: TrendProblem, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions): FitResult {

@@ -30,6 +30,9 @@ export interface TrendFit {
   status: SolverStatus;
 }
 
+/** Refinement after a converged interior point is done when n (k + 1 + knots)^2 is at most this. */
+const CHEAP_REFINEMENT = 5e6;
+
 /** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
 const CONTINUATION_STEPS_PER_DECADE = 4;
 
@@ -47,7 +50,8 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * Solves trend filtering of order k at one (scaled) penalty: the exact dynamic
  * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
  * from `warm`), followed by the exact active-set refinement of
- * {@link polishTrend} when few knots are marked. When the interior point does
+ * {@link polishTrend} when the interior point did not converge, or when it did
+ * and the refinement is cheap (n (k + 1 + knots)^2 <= 5e6). When the interior point does
  * not converge and that refinement fails, the refinement is restarted from the
  * previous penalty's knots, else run as a continuation from lambda_max
  * (4 geometric steps per decade, each started from the last one's knots).
@@ -76,11 +80,6 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   }
   if (!prob.op) prob.op = trendOperator(x, w, k);
   let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
-  if (!sol.status.converged && warm) {
-    // a warm start can stall where a cold one does not: keep the better of the two
-    const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
-    if (cold.status.achieved < sol.status.achieved) sol = { ...cold, status: { ...cold.status, iterations: cold.status.iterations + sol.status.iterations } };
-  }
   // refinement on x in [0, 1]: D(x01) = N^k D(x), so lambda and u scale by N^-k
   if (!prob.x01) {
     const N = x[n - 1] - x[0];
@@ -91,7 +90,24 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   const f = Math.pow(N, k);
   const u01 = new Float64Array(sol.u.length);
   for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-  let pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
+  // after a converged interior point, refine only when it is cheap (n p^2 small); otherwise
+  // refinement is the way to an exact answer and gets its full budget
+  let marked = 0;
+  for (let r = 0; r < u01.length; r++) if (Math.abs(sol.u[r]) >= lambda * (1 - DUAL_BOUND_RELATIVE)) marked++;
+  const cheap = n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
+  let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], achieved: Infinity, rounds: 0 };
+  if (!sol.status.converged || cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
+  if (!pol.ok && !sol.status.converged && warm) {
+    // a warm start can stall where a cold one does not
+    const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
+    const iters = sol.status.iterations + cold.status.iterations;
+    if (cold.status.achieved < sol.status.achieved) sol = cold;
+    sol = { ...sol, status: { ...sol.status, iterations: iters } };
+    if (!sol.status.converged) {
+      for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
+      pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
+    }
+  }
   if (!pol.ok && !sol.status.converged) {
     // the interior-point dual is unreliable here (see its limitation note): restart the
     // active-set refinement from the previous penalty's knots, else from the polynomial fit

@@ -25,7 +25,7 @@ export interface TrendPathSettings {
   relaxed: number;
   tolerance: number;
   maxIterations: number;
-  /** Smallest grid penalty as a fraction of lambda_max (default 1e-5). */
+  /** Smallest grid penalty as a fraction of lambda_max (default {@link defaultGridRatio}). */
   ratio?: number;
 }
 
@@ -62,6 +62,16 @@ export interface TrendPath {
   scaling: TrendScaling;
 }
 
+/**
+ * Smallest grid penalty relative to lambda_max: 1e-5 for k = 0, 1; 1e-7 for
+ * k = 2; 1e-9 for k = 3. lambda_max grows like n^(k+1) while the penalties
+ * that matter shrink accordingly, so higher orders need a wider range to reach
+ * fits with many knots.
+ */
+export function defaultGridRatio(k: number): number {
+  return Math.pow(10, -(5 + 2 * Math.max(0, k - 1)));
+}
+
 /** Mixes a fit with its relaxed refit on the fit's knots (in place on b). Unchecked. */
 export function relaxFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, fit: TrendFit, relaxed: number): { b: Float64Array; refit?: ReturnType<typeof regressionSplineRefit> } {
   if (!(relaxed > 0)) return { b: fit.b };
@@ -82,7 +92,7 @@ export function knotPositions(x: Float64Array, k: number, rows: ArrayLike<number
 
 /**
  * Computes the path. Grid: `gridSize` penalties log-spaced from lambda_max down
- * to ratio * lambda_max (default 1e-5), solved from the largest down with warm
+ * to ratio * lambda_max ({@link defaultGridRatio}), solved from the largest down with warm
  * starts. Cross-validation (R. J. Tibshirani, Ann. Statist. 42 (2014),
  * section 6): interior point i is held out in fold (i - 1) mod K, the ends never
  * ({@link foldOf}); each training fit uses lambda * (training weight / total
@@ -102,7 +112,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   let lmax = trendLambdaMax(sc.xs, sc.ys, sc.ws, k);
   if (!(lmax > 0)) lmax = 1;
   const G = s.gridSize;
-  const ratio = s.ratio ?? 1e-5;
+  const ratio = s.ratio ?? defaultGridRatio(k);
   const grid = new Float64Array(G);
   for (let j = 0; j < G; j++) grid[j] = lmax * Math.pow(ratio, j / (G - 1));
   const sigmaNoise = differenceNoiseScale(series.y, series.w);
