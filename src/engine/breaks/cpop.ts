@@ -24,6 +24,8 @@ export interface SlopeSegmentation {
   maxCandidates: number;
   /** Mean candidate pieces per step. */
   meanCandidates: number;
+  /** True when the result is proven optimal; false when the work budget ran out first. */
+  exact: boolean;
 }
 
 /** Growable store of quadratics a phi^2 + b phi + c with back-pointers. */
@@ -148,7 +150,7 @@ function minOnInterval(d2: number, d1: number, d0: number, lo: number, hi: numbe
  */
 export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number, useBound = true): SlopeSegmentation {
   const n = x.length;
-  if (!useBound || n <= 2) return cpopSearch(x, y, w, wyy, penalty, minSegment, null, INF)!;
+  if (!useBound || n <= 2) return cpopSearch(x, y, w, wyy, penalty, minSegment, null, INF)!;  // exact, no budget
   const beta = penalty;
   // G(t): relaxation bound on the cost after t; UB: the cost of feasible broken lines
   const rel = suffixLowerBound(x, y, w, wyy, beta);
@@ -165,28 +167,46 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
   const lowerTotal = rel.lower[0] - beta;
   let delta = Math.max(beta, 1) / 2;
   let evaluations = 0;
+  let best: SlopeSegmentation = {
+    changes: kinks, knotValues: Array.from(fit.values), cost: fit.rss, penalisedCost: fit.rss + beta * kinks.length,
+    evaluations: 0, maxCandidates: 0, meanCandidates: 0, exact: false,
+  };
+  if (line.rss < best.penalisedCost) best = { ...best, changes: [], knotValues: Array.from(line.values), cost: line.rss, penalisedCost: line.rss };
   for (;;) {
     let guess = lowerTotal + delta;
     const last = guess >= feasible;
     if (last) guess = feasible;
     const upper = guess + 1e-9 * (1 + Math.abs(guess));
-    const r = cpopSearch(x, y, w, wyy, beta, minSegment, rel.lower, upper);
-    if (r) {
-      evaluations += r.evaluations;
-      if (last || r.penalisedCost <= upper) { r.evaluations = evaluations; return r; }
-      // a solution over the guess is still feasible: a tighter ceiling for the sequence
-      if (r.penalisedCost < feasible) feasible = r.penalisedCost;
+    const r = cpopSearch(x, y, w, wyy, beta, minSegment, rel.lower, upper, CPOP_WORK_BUDGET - evaluations);
+    if (!r) {
+      // work budget spent: the best line found so far, not proven optimal
+      best.evaluations = evaluations + Math.max(0, CPOP_WORK_BUDGET - evaluations);
+      best.exact = false;
+      return best;
     }
+    evaluations += r.evaluations;
+    if (r.penalisedCost < best.penalisedCost) best = r;
+    if (last || r.penalisedCost <= upper) { r.evaluations = evaluations; r.exact = true; return r; }
+    // a solution over the guess is still feasible: a tighter ceiling for the sequence
+    if (r.penalisedCost < feasible) feasible = r.penalisedCost;
     delta *= 1.5;
   }
 }
 
 /**
+ * Most candidate pieces {@link cpop} evaluates in all (about 10-30 s of work); past it
+ * the best line found is returned with `exact: false`.
+ */
+export const CPOP_WORK_BUDGET = 2e8;
+
+/**
  * One CPOP pass. With `lower` (G) and `upper` (UB), fitted values with
  * f_t(phi) > UB - G(t) are discarded: no path through them costs UB or less.
- * Returns null when every path was discarded (UB below the optimum). Unchecked.
+ * When nothing is under the ceiling at a step, the best piece is kept, so the pass ends
+ * in a feasible line (optimal when its cost is within UB). Returns null when the work
+ * budget (candidate evaluations) runs out. Unchecked.
  */
-function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number, lower: Float64Array | null, upper: number): SlopeSegmentation | null {
+function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number, lower: Float64Array | null, upper: number, budget = INF): SlopeSegmentation | null {
   const n = x.length;
   const beta = penalty;
   const lowerBound: Float64Array = lower ?? new Float64Array(n);
@@ -260,6 +280,7 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
     }
     na = keep;
     evaluations += K;
+    if (evaluations > budget) return null;
     sumCandidates += K;
     if (K > maxCandidates) maxCandidates = K;
     if (K === 0) { qCount[t] = 0; continue; }
@@ -282,7 +303,19 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
       live[nl++] = k;
       if (cur < 0 || ta[k] < ta[cur] || (ta[k] === ta[cur] && (tb[k] > tb[cur] || (tb[k] === tb[cur] && tc[k] < tc[cur])))) cur = k;
     }
-    if (cur >= 0) {
+    let capT = cap;
+    if (cur < 0) {
+      // nothing under the cap (the ceiling is below the optimum): keep the best piece so
+      // the pass still ends in a feasible line; the caller's check decides optimality
+      let vmin = INF;
+      for (let k = 0; k < K; k++) {
+        const v = tc[k] - (tb[k] * tb[k]) / (4 * ta[k]);
+        if (v < vmin) { vmin = v; cur = k; }
+      }
+      live[nl++] = cur;
+      capT = vmin;
+    }
+    {
     // a candidate with no crossing below the current piece ahead of pos lies on or above
     // the envelope from pos on, so it is dropped from the sweep (as in CPOP's pruning)
     let pos = -INF;
@@ -315,7 +348,7 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
     for (let k = 0; k < K; k++) onEnv[k] = 0;
     for (let p = 0; p < envIdx.length; p++) {
       const e = envIdx[p];
-      if (minOnInterval(ta[e], tb[e], tc[e] - cap, envLo[p], envHi[p]) <= 0) onEnv[e] = 1;
+      if (minOnInterval(ta[e], tb[e], tc[e] - capT, envLo[p], envHi[p]) <= 0) onEnv[e] = 1;
     }
     qStart[t] = Q.size;
     let cnt = 0;
@@ -337,7 +370,7 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
     }
     // a piece is dropped when, wherever q - beta is under the cap (the interval I_q),
     // it is at least f_t: then a kink at t does as well, or the path cannot beat UB
-    const top = cap + beta;
+    const top = capT + beta;
     for (let k = 0; k < K; k++) {
       const j = tpar[k];
       if (Q.die[j] !== INF) continue;
@@ -365,7 +398,7 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
     if (cnt > 0) active[na++] = t;
   }
   if (n === 1) {
-    return { changes: [], knotValues: [y[0]], cost: wyy[0] - w[0] * y[0] * y[0], penalisedCost: wyy[0] - w[0] * y[0] * y[0], evaluations: 0, maxCandidates: 1, meanCandidates: 1 };
+    return { changes: [], knotValues: [y[0]], cost: wyy[0] - w[0] * y[0] * y[0], penalisedCost: wyy[0] - w[0] * y[0] * y[0], evaluations: 0, maxCandidates: 1, meanCandidates: 1, exact: true };
   }
   if (finalBest < 0) return null;
   // backtrack from the best final piece
@@ -395,5 +428,5 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
     cost += wyy[k] - 2 * f * w[k] * y[k] + w[k] * f * f;
   }
   if (cost < 0) cost = 0;
-  return { changes, knotValues: values, cost, penalisedCost: cost + beta * changes.length, evaluations, maxCandidates, meanCandidates: sumCandidates / Math.max(1, n - 1) };
+  return { changes, knotValues: values, cost, penalisedCost: cost + beta * changes.length, evaluations, maxCandidates, meanCandidates: sumCandidates / Math.max(1, n - 1), exact: lower === null };
 }

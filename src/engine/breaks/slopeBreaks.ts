@@ -78,13 +78,17 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
   const solve = (b: number): SlopeSegmentation => cpop(u, P.y, P.w, P.wyy, b, o.minSegment);
   const seg = solve(beta);
   let runs = 1, evaluations = seg.evaluations, maxCandidates = seg.maxCandidates;
+  let inexact = seg.exact ? 0 : 1;
   const warnings: Warning[] = [...series.warnings, ...notes];
   let table: CropsRow[] | undefined;
   if (o.crops) {
-    const out = crops((b) => { const r = solve(b); evaluations += r.evaluations; maxCandidates = Math.max(maxCandidates, r.maxCandidates); return r; }, o.crops[0], o.crops[1], o.maxRuns);
+    const out = crops((b) => { const r = solve(b); evaluations += r.evaluations; maxCandidates = Math.max(maxCandidates, r.maxCandidates); if (!r.exact) inexact++; return r; }, o.crops[0], o.crops[1], o.maxRuns);
     runs += out.runs;
     table = out.rows.map((r) => ({ ...r, breaks: r.breaks.map((g) => P.first[g]) }));
     if (!out.complete) warnings.push(warning('not-converged', `CROPS stopped after ${out.runs} searches (maxRuns); the table may miss some segmentations between penalties ${showNumber(o.crops[0])} and ${showNumber(o.crops[1])}.`));
+  }
+  if (inexact) {
+    warnings.push(warning('not-converged', `the exact search for kinks ran out of its work budget (${inexact} of ${runs} search${runs === 1 ? '' : 'es'}); the broken line returned is the best found, not proven optimal. Long series with many kinks cost most: try a larger penalty, a larger minSegment, or a shorter range.`));
   }
   // broken line through the knots, back in y units
   const knots = [0, ...seg.changes, m - 1];
@@ -131,8 +135,8 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
     ...(table ? { crops: table } : {}),
     warnings,
     solver: {
-      algorithm: 'cpop', converged: true, iterations: m, evaluations, maxCandidates, meanCandidates: seg.meanCandidates, runs,
-      stoppingRule: 'exact dynamic programme over the fitted value at the latest kink (piecewise-quadratic cost functions): one pass over the points with functional and inequality pruning (no tolerance).',
+      algorithm: 'cpop', converged: inexact === 0, iterations: m, evaluations, maxCandidates, meanCandidates: seg.meanCandidates, runs,
+      stoppingRule: 'exact dynamic programme over the fitted value at the latest kink (piecewise-quadratic cost functions), repeated with a rising cost ceiling until a pass proves its line optimal; stops early (converged false) after 2e8 candidate evaluations.',
     },
   };
 }

@@ -104,7 +104,7 @@ export interface CropsRow {
 export interface BreaksSolver {
   /** 'pelt', 'op' (exhaustive optimal partitioning) or 'cpop'. */
   algorithm: string;
-  /** Always true: the search is exact; kept for the shared diagnostics shape. */
+  /** True when the result is the proven optimum (always for PELT; for CPOP unless its work budget ran out). */
   converged: boolean;
   /** Number of dynamic-programming steps (points). */
   iterations: number;
