@@ -66,7 +66,7 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
     if (!(sigma > 0)) {
       sigma = differenceSd(raw.y, 2);
       if (sigma > 0) notes.push(warning('note', `most second differences are equal, so the robust noise estimate (MAD of second differences) is 0; their standard deviation / sqrt(6) = ${showNumber(sigma)} was used instead. Give sigma to control the scale.`));
-      else { sigma = 1; notes.push(warning('note', 'the series lies on one straight line; sigma = 1 was used and no kink can be found.')); }
+      else { sigma = 1; notes.push(warning('note', 'the noise scale cannot be estimated (points on one straight line, or fewer than 4 distinct x); sigma = 1 (y units) was used. Give sigma to set it.')); }
     }
   }
   const P = mergePositions(series, centre, sigma);

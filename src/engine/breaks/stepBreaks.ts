@@ -40,7 +40,7 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
         if (!(sigma > 0)) {
           sigma = differenceSd(y, 1);
           if (sigma > 0) notes.push(warning('note', `most successive differences are equal, so the robust noise estimate (MAD of differences) is 0; the standard deviation of differences / sqrt(2) = ${showNumber(sigma)} was used instead. Give sigma to control the scale.`));
-          else { sigma = 1; notes.push(warning('note', 'the series is constant; sigma = 1 was used and no change can be found.')); }
+          else { sigma = 1; notes.push(warning('note', 'the noise scale cannot be estimated (constant series or fewer than 3 points); sigma = 1 (y units) was used. Give sigma to set it.')); }
         }
       }
       return { cost: meanCost(y, w, sigma, median(y)), sigma: { value: sigma, source }, notes };

@@ -75,3 +75,24 @@ describe('findBreaks with the mean model and weights', () => {
     expect(r.warnings.some((w) => w.code === 'autocorrelation')).toBe(true);
   });
 });
+
+describe('findBreaks on tiny or constant series', () => {
+  test('a constant series has no break and a note on the noise scale', () => {
+    for (const model of ['mean', 'slope'] as const) {
+      const r = findBreaks(prepareSeries([4, 4, 4, 4, 4, 4], null, null, { ties: 'keep' }), { model });
+      expect(r.breaks).toEqual([]);
+      expect(r.warnings.some((w) => w.code === 'note' && /sigma = 1/.test(w.message))).toBe(true);
+      expect(Array.from(r.fitted)).toEqual([4, 4, 4, 4, 4, 4].map((v) => expect.closeTo(v, 10)));
+    }
+  });
+
+  test('two points give a result for every model, one segment under a large penalty', () => {
+    for (const model of ['mean', 'poisson', 'distribution', 'slope', 'meanvar'] as const) {
+      const s = prepareSeries([1, 3], null, null, { ties: 'keep' });
+      const r = findBreaks(s, { model });
+      expect(r.fitted.length).toBe(2);
+      expect(r.segments.length).toBe(r.breaks.length + 1);
+      expect(findBreaks(s, { model, penalty: 1000 }).segments.length).toBe(1);
+    }
+  });
+});
