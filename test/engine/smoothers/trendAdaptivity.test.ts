@@ -34,16 +34,13 @@ describe('trend filtering versus the smoothing spline at matched df', () => {
     const { series, truth } = noisy(doppler, 512, 11);
     const dfs = [20, 35, 50, 65, 80, 100];
     let wins = 0;
-    const table: string[] = [];
     for (const df of dfs) {
       const tf = fitTrend(series, { order: 3, df });
       const sp = spline.fit(series, { df });
       expect(Math.abs(tf.df - df)).toBeLessThanOrEqual(2);
       const a = mse(tf.fitted, truth), b = mse(sp.fitted, truth);
-      table.push(`${df}: trend ${a.toExponential(2)} spline ${b.toExponential(2)}`);
       if (a < b) wins++;
     }
-    expect({ wins, table }).toEqual({ wins: expect.any(Number), table });
     expect(wins).toBeGreaterThanOrEqual(5);
   });
 

@@ -31,7 +31,7 @@ export interface TrendFit {
 }
 
 /** Refinement after a converged interior point is done when n (k + 1 + knots)^2 is at most this. */
-const CHEAP_REFINEMENT = 5e6;
+const CHEAP_REFINEMENT = 1e6;
 
 /** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
 const CONTINUATION_STEPS_PER_DECADE = 4;
@@ -51,7 +51,8 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
  * from `warm`), followed by the exact active-set refinement of
  * {@link polishTrend} when the interior point did not converge, or when it did
- * and the refinement is cheap (n (k + 1 + knots)^2 <= 5e6). When the interior point does
+ * and the refinement is cheap (n (k + 1 + knots)^2 <= 1e6). With `refine` false
+ * (cross-validation folds, which only need predictions) there is no refinement. When the interior point does
  * not converge and that refinement fails, the refinement is restarted from the
  * previous penalty's knots, else run as a continuation from lambda_max
  * (4 geometric steps per decade, each started from the last one's knots).
@@ -61,7 +62,7 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * rows with |u_r| >= lambda (1 - 1e-6) and |(D b)_r| > 1e-8 max |D b|.
  * Unchecked.
  */
-export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number, maxIterations: number, warm?: TrendFit): TrendFit {
+export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number, maxIterations: number, warm?: TrendFit, refine = true): TrendFit {
   const { x, y, w, k } = prob;
   const n = x.length;
   if (k === 0) {
@@ -96,6 +97,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   for (let r = 0; r < u01.length; r++) if (Math.abs(sol.u[r]) >= lambda * (1 - DUAL_BOUND_RELATIVE)) marked++;
   const cheap = n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
   let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], achieved: Infinity, rounds: 0 };
+  if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
   if (!sol.status.converged || cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
   if (!pol.ok && !sol.status.converged && warm) {
     // a warm start can stall where a cold one does not
@@ -157,22 +159,25 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
       status: { converged: pol.achieved <= tolerance, iterations: sol.status.iterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
     };
   }
+  const knotRows = knotRowsOf(prob, sol.b, sol.u, lambda);
+  return { b: sol.b, u: sol.u, lambda, knotRows, status: { ...sol.status, stoppingRule: TREND_RULE } };
+}
+
+/** Knot rows of an interior-point solution: |u_r| >= lambda (1 - 1e-6) and |(D b)_r| > 1e-8 max |D b|. Unchecked. */
+function knotRowsOf(prob: TrendProblem, b: Float64Array, u: Float64Array, lambda: number): number[] {
+  const k = prob.k;
+  const n = prob.x.length;
   const m = n - k - 1;
+  const rows = prob.op!.rows, wd = k + 2;
   const db = new Float64Array(m);
-  // D b = p - Q u is what the solver controls; recompute from b for the knot test
-  {
-    const rows = prob.op.rows, wd = k + 2;
-    for (let r = 0; r < m; r++) {
-      let s = 0;
-      for (let c = 0; c < wd; c++) s += rows[r * wd + c] * sol.b[r + c];
-      db[r] = s;
-    }
+  for (let r = 0; r < m; r++) {
+    let s = 0;
+    for (let c = 0; c < wd; c++) s += rows[r * wd + c] * b[r + c];
+    db[r] = s;
   }
   let dmax = 0;
   for (let r = 0; r < m; r++) dmax = Math.max(dmax, Math.abs(db[r]));
-  const knotRows: number[] = [];
-  for (let r = 0; r < m; r++) {
-    if (Math.abs(sol.u[r]) >= lambda * (1 - DUAL_BOUND_RELATIVE) && Math.abs(db[r]) > KNOT_RELATIVE * dmax) knotRows.push(r);
-  }
-  return { b: sol.b, u: sol.u, lambda, knotRows, status: { ...sol.status, stoppingRule: TREND_RULE } };
+  const out: number[] = [];
+  for (let r = 0; r < m; r++) if (Math.abs(u[r]) >= lambda * (1 - DUAL_BOUND_RELATIVE) && Math.abs(db[r]) > KNOT_RELATIVE * dmax) out.push(r);
+  return out;
 }

@@ -6,12 +6,14 @@
  * Primal:  minimise P(b) = 1/2 sum_i w_i (y_i - b_i)^2 + lambda ||D b||_1,  D = D(x, k+1).
  * Dual:    minimise 1/2 u^T Q u - u^T D y  subject to |u_j| <= lambda,  Q = D W^{-1} D^T,
  *          with b = y - W^{-1} D^T u.
- * Each Newton step solves (Q + diag(d)) du = r with Q banded (half-bandwidth
- * k + 1) by banded Cholesky: O(n k^2) per iteration, no dense matrices. The
- * barrier parameter follows t = max(t, 10 * 2m / surrogate gap); the step keeps
- * the dual strictly inside the box (fraction 0.99) and backtracks on the norm
- * of the residual (S. Boyd and L. Vandenberghe, "Convex Optimization", 2004,
- * section 11.7).
+ * Each iteration factors Q + diag(mu1 / s1 + mu2 / s2) (Q banded, half-bandwidth
+ * k + 1) once by banded Cholesky and solves twice: Mehrotra's predictor-corrector
+ * (S. Mehrotra, "On the implementation of a primal-dual interior point method",
+ * SIAM J. Optim. 2 (1992); S. J. Wright, "Primal-Dual Interior-Point Methods",
+ * SIAM 1997, ch. 10): an affine-scaling predictor, centring sigma = (mu_aff / mu)^3,
+ * and a second-order corrector, then a step of 0.99 of the longest one keeping
+ * u strictly inside the box and the multipliers positive. O(n k^2) per
+ * iteration, no dense matrices.
  *
  * Stopping rule ({@link INTERIOR_POINT_RULE}): with b = b(u),
  *   gap = lambda ||D b||_1 - u.D b  (= P(b) - dual objective, >= 0 for |u| <= lambda),
@@ -85,7 +87,7 @@ export const INTERIOR_POINT_RULE = 'relative duality gap (lambda*||Db||_1 - u.Db
  * @param lambda - penalty > 0 (units of the problem as passed in)
  * @param tolerance - relative duality gap to stop at
  * @param maxIterations - Newton-step limit
- * @param u0 - optional warm start (a dual from a nearby lambda); clipped into 0.95 of the box
+ * @param u0 - optional warm start (a dual from a nearby lambda); scaled so that max |u| <= 0.95 lambda
  * @example
  * ```ts
  * const sol = trendDualInteriorPoint(trendOperator(x, w, 1), y, 10, 1e-10, 100);
@@ -114,7 +116,6 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   const qu = new Float64Array(m);
   const rd = new Float64Array(m);
   const du = new Float64Array(m);
-  const qdu = new Float64Array(m);
   const dmu1 = new Float64Array(m);
   const dmu2 = new Float64Array(m);
   const mat = new Float64Array(m * wd);
@@ -122,10 +123,11 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   const b = new Float64Array(n);
 
   if (u0 && u0.length === m) {
-    for (let i = 0; i < m; i++) {
-      const v = u0[i];
-      u[i] = v > 0.95 * lambda ? 0.95 * lambda : v < -0.95 * lambda ? -0.95 * lambda : v;
-    }
+    // scale the warm start into the new box, keeping its shape: max |u| -> 0.95 lambda
+    let um = 0;
+    for (let i = 0; i < m; i++) um = Math.max(um, Math.abs(u0[i]));
+    const sc = um > 0.95 * lambda ? (0.95 * lambda) / um : 1;
+    for (let i = 0; i < m; i++) u[i] = sc * u0[i];
   }
   for (let i = 0; i < m; i++) { f1[i] = u[i] - lambda; f2[i] = -u[i] - lambda; }
   let t: number;
@@ -143,12 +145,13 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   let iter = 0;
   let achieved = Infinity;
   let gapAbs = Infinity;
-  let objective = NaN;
   let converged = false;
   const best = { achieved: Infinity, gap: Infinity, objective: NaN, b: new Float64Array(n), u: new Float64Array(m) };
-  const alpha = 0.01, beta = 0.5, mufac = 10;
+  const rhs = new Float64Array(m);
+  const du2 = new Float64Array(m);
+  const fraction = 0.99;
+  applyDifferenceGram(rows, winv, q, u, qu, tmp);
   for (;;) {
-    applyDifferenceGram(rows, winv, q, u, qu, tmp);
     // b = y - W^{-1} D^T u ; D b = p - Q u
     differenceTranspose(x, q, u, tmp);
     let obj = 0;
@@ -156,7 +159,6 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     let l1 = 0, ud = 0;
     for (let i = 0; i < m; i++) { const v = p[i] - qu[i]; l1 += Math.abs(v); ud += u[i] * v; }
     obj += lambda * l1;
-    objective = obj;
     gapAbs = Math.max(lambda * l1 - ud, 0);
     achieved = gapAbs / Math.max(obj, floor);
     if (!Number.isFinite(achieved)) break;
@@ -164,62 +166,67 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     if (achieved <= tolerance) { converged = true; break; }
     if (iter >= maxIterations) break;
     iter++;
-    let eta = 0;
-    for (let i = 0; i < m; i++) eta -= f1[i] * mu1[i] + f2[i] * mu2[i];
-    t = Math.max(t, (mufac * 2 * m) / eta);
-    const it = 1 / t;
-    let rnorm2 = 0;
-    for (let i = 0; i < m; i++) {
-      const r = qu[i] - p[i] + mu1[i] - mu2[i];
-      rd[i] = r;
-      const c1 = -mu1[i] * f1[i] - it;
-      const c2 = -mu2[i] * f2[i] - it;
-      rnorm2 += r * r + c1 * c1 + c2 * c2;
-      // (Q + diag(mu1/-f1 + mu2/-f2)) du = -rd - c1/f1 + c2/f2
-      du[i] = -r - c1 / f1[i] + c2 / f2[i];
-    }
+    // slacks s1 = lambda - u = -f1, s2 = lambda + u = -f2; complementarity mu . s
+    let comp = 0;
+    for (let i = 0; i < m; i++) { comp += mu1[i] * -f1[i] + mu2[i] * -f2[i]; rd[i] = qu[i] - p[i] + mu1[i] - mu2[i]; }
+    const muAvg = comp / (2 * m);
     mat.set(gram);
     for (let i = 0; i < m; i++) mat[i * wd] += mu1[i] / -f1[i] + mu2[i] / -f2[i];
     if (bandedCholesky(mat, m, q, PIVOT_FLOOR) >= 0) break;
+    // predictor (affine scaling): sigma = 0
+    for (let i = 0; i < m; i++) du[i] = -rd[i] + mu1[i] - mu2[i];
     bandedCholeskySolve(mat, m, q, du);
-    let finite = true;
-    for (let i = 0; i < m; i++) if (!Number.isFinite(du[i])) { finite = false; break; }
-    if (!finite) break;
+    let aff = 1;
+    for (let i = 0; i < m; i++) {
+      const s1 = -f1[i], s2 = -f2[i];
+      const d1 = -mu1[i] + (mu1[i] * du[i]) / s1; // dmu1 = (-mu1 s1 + mu1 du) / s1
+      const d2 = -mu2[i] - (mu2[i] * du[i]) / s2;
+      dmu1[i] = d1; dmu2[i] = d2;
+      if (d1 < 0) aff = Math.min(aff, -mu1[i] / d1);
+      if (d2 < 0) aff = Math.min(aff, -mu2[i] / d2);
+      if (du[i] > 0) aff = Math.min(aff, s1 / du[i]);
+      else if (du[i] < 0) aff = Math.min(aff, s2 / -du[i]);
+    }
+    let compAff = 0;
+    for (let i = 0; i < m; i++) {
+      compAff += (mu1[i] + aff * dmu1[i]) * (-f1[i] - aff * du[i]) + (mu2[i] + aff * dmu2[i]) * (-f2[i] + aff * du[i]);
+    }
+    const sigma = Math.pow(Math.max(compAff, 0) / Math.max(comp, 1e-300), 3);
+    const target = sigma * muAvg;
+    // corrector: mu1 s1 = target - ds1_aff dmu1_aff, with ds1 = -du, ds2 = du
+    for (let i = 0; i < m; i++) {
+      const s1 = -f1[i], s2 = -f2[i];
+      const c1 = -du[i] * dmu1[i], c2 = du[i] * dmu2[i];
+      // Q du + dmu1 - dmu2 = -rd ; dmu1 = (-mu1 s1 + target - c1 + mu1 du) / s1 ; dmu2 = (-mu2 s2 + target - c2 - mu2 du) / s2
+      rhs[i] = -rd[i] - (-mu1[i] * s1 + target - c1) / s1 + (-mu2[i] * s2 + target - c2) / s2;
+      du2[i] = c1; // keep c1 for the multiplier step
+      tmp[i] = c2;
+    }
+    du.set(rhs);
+    bandedCholeskySolve(mat, m, q, du);
     let smax = 1;
     for (let i = 0; i < m; i++) {
-      const c1 = -mu1[i] * f1[i] - it;
-      const c2 = -mu2[i] * f2[i] - it;
-      dmu1[i] = (c1 - mu1[i] * du[i]) / f1[i];
-      dmu2[i] = (c2 + mu2[i] * du[i]) / f2[i];
-      if (dmu1[i] < 0) smax = Math.min(smax, -mu1[i] / dmu1[i]);
-      if (dmu2[i] < 0) smax = Math.min(smax, -mu2[i] / dmu2[i]);
-      if (du[i] > 0) smax = Math.min(smax, -f1[i] / du[i]);
-      else if (du[i] < 0) smax = Math.min(smax, f2[i] / du[i]);
+      const s1 = -f1[i], s2 = -f2[i];
+      const d1 = (-mu1[i] * s1 + target - du2[i] + mu1[i] * du[i]) / s1;
+      const d2 = (-mu2[i] * s2 + target - tmp[i] - mu2[i] * du[i]) / s2;
+      dmu1[i] = d1; dmu2[i] = d2;
+      if (d1 < 0) smax = Math.min(smax, -mu1[i] / d1);
+      if (d2 < 0) smax = Math.min(smax, -mu2[i] / d2);
+      if (du[i] > 0) smax = Math.min(smax, s1 / du[i]);
+      else if (du[i] < 0) smax = Math.min(smax, s2 / -du[i]);
     }
-    let s = 0.99 * smax;
-    applyDifferenceGram(rows, winv, q, du, qdu, tmp);
-    const rn = Math.sqrt(rnorm2);
-    for (let ls = 0; ls < 60; ls++) {
-      let r2 = 0;
-      for (let i = 0; i < m; i++) {
-        const ui = u[i] + s * du[i];
-        const m1 = mu1[i] + s * dmu1[i];
-        const m2 = mu2[i] + s * dmu2[i];
-        const r = rd[i] + s * (qdu[i] + dmu1[i] - dmu2[i]);
-        const c1 = -m1 * (ui - lambda) - it;
-        const c2 = -m2 * (-ui - lambda) - it;
-        r2 += r * r + c1 * c1 + c2 * c2;
-      }
-      if (Math.sqrt(r2) <= (1 - alpha * s) * rn) break;
-      s *= beta;
-    }
+    let finite = Number.isFinite(smax);
+    for (let i = 0; i < m && finite; i++) if (!Number.isFinite(du[i])) finite = false;
+    if (!finite) break;
+    const step = Math.min(1, fraction * smax);
     for (let i = 0; i < m; i++) {
-      u[i] += s * du[i];
-      mu1[i] += s * dmu1[i];
-      mu2[i] += s * dmu2[i];
+      u[i] += step * du[i];
+      mu1[i] += step * dmu1[i];
+      mu2[i] += step * dmu2[i];
       f1[i] = u[i] - lambda;
       f2[i] = -u[i] - lambda;
     }
+    applyDifferenceGram(rows, winv, q, u, qu, tmp);
   }
   // the best iterate seen (the last one unless the iteration broke down)
   return {

@@ -72,6 +72,9 @@ export function defaultGridRatio(k: number): number {
   return Math.pow(10, -(5 + 2 * Math.max(0, k - 1)));
 }
 
+/** Cross-validation fits stop at a relative duality gap of at least this: they only feed predictions of held-out points. */
+export const CV_TOLERANCE = 1e-6;
+
 /** Mixes a fit with its relaxed refit on the fit's knots (in place on b). Unchecked. */
 export function relaxFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, fit: TrendFit, relaxed: number): { b: Float64Array; refit?: ReturnType<typeof regressionSplineRefit> } {
   if (!(relaxed > 0)) return { b: fit.b };
@@ -97,6 +100,7 @@ export function knotPositions(x: Float64Array, k: number, rows: ArrayLike<number
  * section 6): interior point i is held out in fold (i - 1) mod K, the ends never
  * ({@link foldOf}); each training fit uses lambda * (training weight / total
  * weight), so the balance of fit and penalty per point matches the full fit;
+ * training fits stop at relative gap max(tolerance, 1e-6) without refinement;
  * held-out points are predicted by the fit's interpolant ({@link interpolateTrend},
  * mixed with the relaxed refit when relaxed > 0).
  *
@@ -152,7 +156,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
       let wf: TrendFit | undefined;
       for (let j = 0; j < G; j++) {
-        const fit = solveTrend(sub, grid[j] * (swt / swAll), s.tolerance, s.maxIterations, wf);
+        const fit = solveTrend(sub, grid[j] * (swt / swAll), Math.max(s.tolerance, CV_TOLERANCE), s.maxIterations, wf, false);
         wf = fit;
         const pred = interpolateTrend(xt, fit.b, k, xh).value;
         if (s.relaxed > 0) {
