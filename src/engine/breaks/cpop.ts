@@ -142,13 +142,16 @@ function minOnInterval(d2: number, d1: number, d0: number, lo: number, hi: numbe
  * @param wyy - sum of w y^2 at each position (w y^2 when not merged)
  * @param penalty - beta >= 0 on the scale of sum w (y - f)^2
  * @param minSegment - fewest positions strictly after a knot up to and including the next (>= 1)
+ * @param useBound - use the relaxation bound and iterative deepening (default true; false: one unbounded pass, for checks)
+ * @param budget - most candidate evaluations over all passes (default {@link CPOP_WORK_BUDGET}); when spent,
+ *   the best feasible broken line found is returned with `exact: false` (fronts report converged false)
  * @example
  * ```ts
  * const r = cpop(x, y, w, wyy, 2 * Math.log(n), 1);
  * r.changes; // kink indices
  * ```
  */
-export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number, useBound = true): SlopeSegmentation {
+export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, penalty: number, minSegment: number, useBound = true, budget = CPOP_WORK_BUDGET): SlopeSegmentation {
   const n = x.length;
   if (!useBound || n <= 2) return cpopSearch(x, y, w, wyy, penalty, minSegment, null, INF)!;  // exact, no budget
   const beta = penalty;
@@ -177,10 +180,10 @@ export function cpop(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Flo
     const last = guess >= feasible;
     if (last) guess = feasible;
     const upper = guess + 1e-9 * (1 + Math.abs(guess));
-    const r = cpopSearch(x, y, w, wyy, beta, minSegment, rel.lower, upper, CPOP_WORK_BUDGET - evaluations);
+    const r = cpopSearch(x, y, w, wyy, beta, minSegment, rel.lower, upper, budget - evaluations);
     if (!r) {
       // work budget spent: the best line found so far, not proven optimal
-      best.evaluations = evaluations + Math.max(0, CPOP_WORK_BUDGET - evaluations);
+      best.evaluations = Math.max(evaluations, budget);
       best.exact = false;
       return best;
     }

@@ -145,6 +145,22 @@ describe('cpop', () => {
     }
   });
 
+  test('with a spent work budget returns a feasible continuous line flagged not exact', () => {
+    const { x, y } = kinked(2000, 9, 0.5);
+    const w = new Float64Array(2000).fill(1);
+    const wyy = Float64Array.from(y, (v) => v * v);
+    const xs = Float64Array.from(x, (v) => (v - x[0]) / (x[1999] - x[0]));
+    const beta = 2 * Math.log(2000);
+    const exact = cpop(xs, y, w, wyy, beta, 1);
+    expect(exact.exact).toBe(true);
+    const cut = cpop(xs, y, w, wyy, beta, 1, true, 1000);
+    expect(cut.exact).toBe(false);
+    expect(cut.penalisedCost).toBeGreaterThanOrEqual(exact.penalisedCost - 1e-8);
+    // its cost is the least-squares cost of its own kinks: a real, feasible line
+    const ls = brokenLineFit(xs, y, w, [0, ...cut.changes, 1999]);
+    expect(cut.cost).toBeCloseTo(ls.rss, 6);
+  });
+
   test('returns knot values that are the least-squares broken line for its kinks (normal equations), n = 600', () => {
     const { x, y } = kinked(600, 3, 0.5);
     const w = new Float64Array(600).fill(1);
