@@ -29,6 +29,9 @@ import { validateBreaksOptions } from './validateBreaksOptions';
  *   with `quantiles` K (Haynes, Fearnhead & Eckley 2017, Stat Comput). Weights ignored.
  * - 'slope': changes in slope, no jumps; sigma given or MAD(second differences) / sqrt(6).
  *   Tied x are merged into one weighted position (exact for a curve in x). Case weights.
+ *   Exact within a work budget of 2e8 candidate evaluations (seconds up to ~10^4 points,
+ *   longer series with many kinks may exceed it): past it the best line found is returned
+ *   with solver.converged false and a 'not-converged' warning.
  *
  * Penalty: 'bic' = p log n, 'mbic' = (p + 1) log n (Zhang & Siegmund 2007), or a number;
  * p = parameters per change including its location (mean 2, meanvar 3, poisson 2,
