@@ -6,17 +6,10 @@
  * two uniforms. poisson: Knuth's multiplication method (fine for rates up to ~30).
  */
 
-/** A seeded stream of uniforms on [0, 1). */
-export function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 } from '../../src/demo/weeklyOrders';
+
+/** A seeded stream of uniforms on [0, 1): the same generator the demo data use. */
+export { mulberry32 };
 
 /** A seeded stream of standard normal deviates (Box-Muller). */
 export function normalStream(seed: number): () => number {

@@ -26,6 +26,7 @@ export const MEANVAR_FLOOR = 1e-8;
  * @param w - case weights
  * @param centre - subtracted before the sums (e.g. the mean)
  * @param scale - divided out before the sums (e.g. the standard deviation), so floor is relative
+ * @param floorVariance - variance floor on the standardised scale (at least {@link MEANVAR_FLOOR}), e.g. the rounding variance (q / scale)^2 / 12 of data recorded at resolution q
  * @returns the cost and `floored(s, t)`, true when a segment's variance was raised to the floor
  * @example
  * ```ts
@@ -33,7 +34,7 @@ export const MEANVAR_FLOOR = 1e-8;
  * c.cost(0, y.length);
  * ```
  */
-export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, scale: number): SegmentCost & { floored(s: number, t: number): boolean; variance(s: number, t: number): number } {
+export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, scale: number, floorVariance = MEANVAR_FLOOR): SegmentCost & { floored(s: number, t: number): boolean; variance(s: number, t: number): number } {
   const n = y.length;
   const sw = new Float64Array(n + 1);
   const s1 = new Float64Array(n + 1);
@@ -44,7 +45,7 @@ export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, sc
     s1[i + 1] = s1[i] + w[i] * z;
     s2[i + 1] = s2[i] + w[i] * z * z;
   }
-  const floor = MEANVAR_FLOOR;
+  const floor = Math.max(MEANVAR_FLOOR, floorVariance);
   const variance = (s: number, t: number): number => {
     const W = sw[t] - sw[s];
     const a = s1[t] - s1[s];

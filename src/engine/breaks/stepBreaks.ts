@@ -6,6 +6,7 @@ import type { Series } from '../series';
 import { warning, listRows, type Warning } from '../warnings';
 import { meanCost } from './costMean';
 import { meanVarCost, MEANVAR_FLOOR } from './costMeanVar';
+import { recordingResolution } from './recordingResolution';
 import { poissonCost } from './costPoisson';
 import { distributionCost } from './costDistribution';
 import { crops } from './crops';
@@ -27,7 +28,7 @@ export function changeAllowed(x: Float64Array): Uint8Array {
 }
 
 /** Builds the segment cost of a piecewise-constant model, with its scale notes. Unchecked options (validated). */
-export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; sigma?: { value: number; source: 'given' | 'estimated' }; notes: Warning[] } {
+export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; sigma?: { value: number; source: 'given' | 'estimated' }; notes: Warning[]; floorNote?: string } {
   const { y, w } = series;
   const notes: Warning[] = [];
   switch (o.model) {
@@ -53,7 +54,9 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
       for (let i = 0; i < series.n; i++) V += w[i] * (y[i] - m) * (y[i] - m);
       let scale = Math.sqrt(V / W);
       if (!(scale > 0)) scale = 1;
-      return { cost: meanVarCost(y, w, m, scale), notes };
+      const q = recordingResolution(y);
+      const floor = q > 0 ? (q / scale) ** 2 / 12 : MEANVAR_FLOOR;
+      return { cost: meanVarCost(y, w, m, scale, floor), notes, floorNote: q > 0 && floor > MEANVAR_FLOOR ? `the rounding variance (${showNumber(q)})^2 / 12 of values recorded to ${showNumber(q)}` : `${MEANVAR_FLOOR} times the series variance` };
     }
     case 'poisson': {
       for (let i = 0; i < series.n; i++) {
@@ -77,7 +80,7 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
  */
 export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResult {
   const n = series.n;
-  const { cost, sigma, notes } = stepCost(series, o);
+  const { cost, sigma, notes, floorNote } = stepCost(series, o);
   const allowed = changeAllowed(series.x);
   const p = parametersPerChange(o.model);
   const beta = penaltyValue(o.penalty, n, p);
@@ -110,7 +113,7 @@ export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResu
     segments.push(sum);
   }
   if (flooredRows.length) {
-    warnings.push(warning('note', `${flooredRows.length} segment${flooredRows.length === 1 ? '' : 's'} starting at row ${listRows(flooredRows)} ${flooredRows.length === 1 ? 'has' : 'have'} (near-)zero spread; the variance was floored at ${MEANVAR_FLOOR} times the series variance. Such segments often come from rounded or repeated values; consider model 'mean' or a larger minSegment.`, flooredRows));
+    warnings.push(warning('note', `${flooredRows.length} segment${flooredRows.length === 1 ? '' : 's'} starting at row ${listRows(flooredRows)} ${flooredRows.length === 1 ? 'has' : 'have'} (near-)zero spread; the variance was floored at ${floorNote}. Such segments often come from rounded or repeated values; consider model 'mean' or a larger minSegment.`, flooredRows));
   }
   const breaks: Break[] = seg.changes.map((c, k) => {
     const before = segments[k], after = segments[k + 1];
