@@ -2,6 +2,7 @@ import { differenceOperator } from '../../linalg/difference';
 import { dualFromResidual } from './dualFromResidual';
 import { fallingFactorialColumns } from './fallingFactorialColumns';
 import { weightedPolynomialFit } from './weightedPolynomialFit';
+import { restrictedLinearFit } from './restrictedLinearFit';
 
 /** Result of {@link polishTrend}. */
 export interface PolishResult {
@@ -40,13 +41,15 @@ export const POLISH_MAX_CELLS = 4e6;
  *   minimise 1/2 sum w (y - b)^2 + lambda s_A^T (D b)_A  subject to (D b)_j = 0 for j not in A,
  * with b in the span of the falling factorial columns for A
  * ({@link fallingFactorialColumns}), by a weighted QR least-squares solve
- * (dense n x p, p = k + 1 + |A|, with one step of iterative refinement).
+ * (dense n x p, p = k + 1 + |A|, with one step of iterative refinement); for
+ * k = 1 the span is that of hat functions and {@link restrictedLinearFit} solves
+ * it in O(n) with no limit on |A|.
  * Starting from the weighted polynomial fit (feasible for every A), if the
  * new solution breaks a sign s_r (D b)_r >= 0 the iterate moves only up to
  * the first sign change and that row leaves A. Otherwise the full dual u is
  * recovered from D^T u = W (y - b) ({@link dualFromResidual}); of each run of
  * consecutive rows with |u_r| > lambda (1 + 1e-8) the largest joins A with the
- * sign of u. When no row violates, all optimality conditions of the original
+ *sign of u. When no row violates, all optimality conditions of the original
  * problem hold: the solution is optimal up to rounding, with exact zeros of
  * D b off the knots. At most `maxRounds` restricted solves (and {@link POLISH_MAX_WORK}
  * multiply-adds); stops if an active set repeats.
@@ -76,15 +79,15 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   let rounds = 0;
   let work2 = 0;
   for (; rounds < maxRounds; rounds++) {
-    if (act.size > POLISH_MAX_KNOTS || n * (k + 1 + act.size) > POLISH_MAX_CELLS) break;
-    work2 += n * (k + 1 + act.size) ** 2;
+    if (k !== 1 && (act.size > POLISH_MAX_KNOTS || n * (k + 1 + act.size) > POLISH_MAX_CELLS)) break;
+    work2 += k === 1 ? 40 * n : n * (k + 1 + act.size) ** 2;
     if (work2 > POLISH_MAX_WORK) break;
     const key = [...act.entries()].sort((a, c) => a[0] - c[0]).map(([r, sg]) => r * sg).join(',');
     if (seen.has(key)) break; // the active set cycles: give up
     seen.add(key);
     const rowsA = [...act.keys()].sort((a, c) => a - c);
     const sA = rowsA.map((r) => act.get(r)!);
-    const bnew = solveRestricted(x, y, w, k, lambda, rowsA, sA, work);
+    const bnew = k === 1 ? restrictedLinearFit(x, y, w, lambda, rowsA, sA) : solveRestricted(x, y, w, k, lambda, rowsA, sA, work);
     if (!bnew) break;
     const dnew = Float64Array.from(differenceOperator(x, k + 1, bnew, work));
     const dcur = Float64Array.from(differenceOperator(x, k + 1, bcur, work));

@@ -15,6 +15,8 @@ export interface TrendProblem {
   op?: TrendOperator;
   /** x mapped to [0, 1], built on first use. */
   x01?: Float64Array;
+  /** Weighted polynomial fit, its dual and lambda_max (on x), built on first use. */
+  poly?: { b: Float64Array; u: Float64Array; lambdaMax: number };
   /** Dual of the weighted polynomial fit on x01 (refinement restarts), built on first use. */
   polyDual?: Float64Array;
 }
@@ -36,6 +38,8 @@ const CHEAP_REFINEMENT = 1e6;
 /** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
 const CONTINUATION_STEPS_PER_DECADE = 4;
 
+export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weighted polynomial fit of degree k is the solution (max |u| <= lambda)';
+
 export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations or tolerance';
 
 export const TREND_RULE = `${INTERIOR_POINT_RULE}; then, when the dual marks at most 150 knots, an exact active-set refinement, kept only if it meets the optimality conditions |u| <= lambda and u = lambda * sign(D b) on the knots`;
@@ -51,7 +55,7 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
  * from `warm`), followed by the exact active-set refinement of
  * {@link polishTrend} when the interior point did not converge, or when it did
- * and the refinement is cheap (n (k + 1 + knots)^2 <= 1e6). With `refine` false
+ * and the refinement is cheap (k = 1, where it is O(n), or n (k + 1 + knots)^2 <= 1e6). With `refine` false
  * (cross-validation folds, which only need predictions) there is no refinement. When the interior point does
  * not converge and that refinement fails, the refinement is restarted from the
  * previous penalty's knots, else run as a continuation from lambda_max
@@ -80,6 +84,19 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     return { b, u, lambda, knotRows, status: { converged: true, iterations: 1, tolerance: 0, achieved: 0, stoppingRule: DP_RULE } };
   }
   if (!prob.op) prob.op = trendOperator(x, w, k);
+  // at or above lambda_max the weighted polynomial fit is the exact solution
+  if (!prob.poly) {
+    const p = weightedPolynomialFit(x, y, w, k);
+    const g = new Float64Array(n);
+    for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - p[i]);
+    const u = dualFromResidual(x, k + 1, g).u;
+    let um = 0;
+    for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
+    prob.poly = { b: p, u, lambdaMax: um };
+  }
+  if (lambda >= prob.poly.lambdaMax) {
+    return { b: Float64Array.from(prob.poly.b), u: Float64Array.from(prob.poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
+  }
   let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
   // refinement on x in [0, 1]: D(x01) = N^k D(x), so lambda and u scale by N^-k
   if (!prob.x01) {
@@ -95,7 +112,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   // refinement is the way to an exact answer and gets its full budget
   let marked = 0;
   for (let r = 0; r < u01.length; r++) if (Math.abs(sol.u[r]) >= lambda * (1 - DUAL_BOUND_RELATIVE)) marked++;
-  const cheap = n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
+  const cheap = k === 1 || n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
   let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], achieved: Infinity, rounds: 0 };
   if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
   if (!sol.status.converged || cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
