@@ -13,7 +13,7 @@ export type { BandedLDL } from './linalg/banded';
 export { FitCache, cacheKey } from './cache/fitCache';
 export { breaksFromCells } from './segment';
 export type { SeriesBreaks } from './segment';
-export { fitTrend, evaluateTrend, trendMethod, trendCriterionPath, trendSettings } from './smoothers/trend';
+export { fitTrend, evaluateTrend, trendMethod, trendCriterionPath, trendSettings, trendPenaltyMax } from './smoothers/trend';
 export type { TrendModel, TrendSettings } from './smoothers/trend';
 export type { TrendPath, TrendPathPoint } from './smoothers/trend/trendPath';
 export { differenceOperator, differenceTranspose } from './linalg/difference';

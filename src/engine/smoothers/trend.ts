@@ -38,6 +38,7 @@ import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
 import { trendPath, TrendPath, relaxFit, knotPositions } from './trend/trendPath';
 import { interpolateTrend } from './trend/interpolateTrend';
 import { evaluateRegressionSpline, RegressionSpline } from './trend/regressionSplineRefit';
+import { trendLambdaMax } from './trend/trendLambdaMax';
 
 /** State kept for evaluation at new x (the data's units). */
 export interface TrendModel {
@@ -113,6 +114,25 @@ export function trendCriterionPath(series: Series, options: FitOptions = {}): Tr
   checkSize(series, s.order);
   const useCv = s.select === 'cv' && cvPossible(series.n, s.folds, s.order);
   return trendPath(series, { order: s.order, gridSize: s.gridSize, folds: useCv ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations });
+}
+
+/**
+ * lambda_max of trend filtering in the data's units: the smallest penalty at
+ * which the fit is the weighted least-squares polynomial of degree k (no knots).
+ * O(n k). Useful to state a penalty as a fraction of it.
+ *
+ * @param series - clean series
+ * @param options - `order` (0..3, default 1)
+ * @example
+ * ```ts
+ * const lam = 1e-3 * trendPenaltyMax(series, { order: 1 });
+ * ```
+ */
+export function trendPenaltyMax(series: Series, options: FitOptions = {}): number {
+  const s = trendSettings(options);
+  checkSize(series, s.order);
+  const sc = trendScaling(series, s.order);
+  return toDataPenalty(trendLambdaMax(sc.xs, sc.ys, sc.ws, s.order), sc);
 }
 
 function checkSize(series: Series, k: number): void {

@@ -1,6 +1,6 @@
 import * as fs from 'fs';
 import * as path from 'path';
-import { fitTrend, evaluateTrend, trendCriterionPath } from '../../../src/engine/smoothers/trend';
+import { fitTrend, evaluateTrend, trendCriterionPath, trendPenaltyMax } from '../../../src/engine/smoothers/trend';
 import { seriesFromArrays, prepareSeries } from '../../../src/engine/series';
 import { KnotwiseError } from '../../../src/engine/errors';
 import { getMethod } from '../../../src/engine/registry';
@@ -181,6 +181,10 @@ describe('fitTrend penalty choice', () => {
     const p = trendCriterionPath(series, { order: 1 });
     expect(p.points.length).toBe(30);
     expect(p.points[29].penalty).toBeCloseTo(p.lambdaMax, 6);
+    expect(trendPenaltyMax(series, { order: 1 })).toBeCloseTo(p.lambdaMax, 6);
+    // just below lambda_max a knot appears, at and above it none
+    expect(fitTrend(series, { order: 1, penalty: p.lambdaMax * 1.0001 }).knots.length).toBe(0);
+    expect(fitTrend(series, { order: 1, penalty: p.lambdaMax * 0.99 }).knots.length).toBeGreaterThan(0);
     expect(p.points[29].df).toBe(2);
     expect(p.points.every((q) => Number.isFinite(q.cv))).toBe(true);
   });

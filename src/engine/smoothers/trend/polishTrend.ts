@@ -46,7 +46,8 @@ export const POLISH_MAX_CELLS = 4e6;
  * it in O(n) with no limit on |A|.
  * Starting from the weighted polynomial fit (feasible for every A), if the
  * new solution breaks a sign s_r (D b)_r >= 0 the iterate moves only up to
- * the first sign change and that row leaves A. Otherwise the full dual u is
+ * the first sign change and that row leaves A (at a zero step, every row at zero
+ * that would change sign leaves together). Otherwise the full dual u is
  * recovered from D^T u = W (y - b) ({@link dualFromResidual}); of each run of
  * consecutive rows with |u_r| > lambda (1 + 1e-8) the largest joins A with the
  *sign of u. When no row violates, all optimality conditions of the original
@@ -108,6 +109,14 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       for (let i = 0; i < n; i++) nb[i] = bcur[i] + tau * (bnew[i] - bcur[i]);
       bcur = nb;
       act.delete(drop);
+      if (tau <= 1e-12) {
+        // a zero step: every row that is at zero now and would change sign leaves together
+        for (const r of rowsA) {
+          const sg = act.get(r);
+          if (sg === undefined) continue;
+          if (sg * dnew[r] < -1e-12 * dmax && Math.abs(dcur[r]) <= 1e-12 * dmax) act.delete(r);
+        }
+      }
       continue;
     }
     bcur = bnew;
