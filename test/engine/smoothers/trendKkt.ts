@@ -6,9 +6,9 @@
  * u_r = lambda sign((D b)_r) wherever (D b)_r != 0 (subgradient condition).
  * D is built densely from the divided-difference formula
  *   (D(x, k+1) b)_r = k! (x_{r+k+1} - x_r) [x_r .. x_{r+k+1}] b,
- * and u is the least-squares solution of D^T u = W (y - b) (dense, small n only).
+ * and u is the least-squares solution of D^T u = W (y - b) by dense QR (small n only).
  */
-import { Matrix, solve } from 'ml-matrix';
+import { Matrix, QrDecomposition } from 'ml-matrix';
 
 export interface KktReport {
   /** max_r |u_r| / lambda - 1 (<= 0 when feasible). */
@@ -48,9 +48,8 @@ export function checkTrendKkt(x: ArrayLike<number>, y: ArrayLike<number>, w: Arr
   const D = new Matrix(denseDifference(x, k + 1));
   const m = D.rows;
   const g = Matrix.columnVector(Array.from({ length: n }, (_, i) => w[i] * (y[i] - b[i])));
-  // least squares D^T u = g  <=>  (D D^T) u = D g
-  const DDt = D.mmul(D.transpose());
-  const u = solve(DDt, D.mmul(g)).to1DArray();
+  // least squares D^T u = g by Householder QR of D^T (condition number of D, not its square)
+  const u = new QrDecomposition(D.transpose()).solve(g).to1DArray();
   const dtu = D.transpose().mmul(Matrix.columnVector(u)).to1DArray();
   let gmax = 0, sres = 0;
   for (let i = 0; i < n; i++) { gmax = Math.max(gmax, Math.abs(g.get(i, 0))); sres = Math.max(sres, Math.abs(dtu[i] - g.get(i, 0))); }

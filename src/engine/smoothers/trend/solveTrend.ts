@@ -33,7 +33,7 @@ export interface TrendFit {
 }
 
 /** Refinement after a converged interior point is done when n (k + 1 + knots)^2 is at most this. */
-const CHEAP_REFINEMENT = 1e6;
+const CHEAP_REFINEMENT = 2e7;
 
 /** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
 const CONTINUATION_STEPS_PER_DECADE = 4;
@@ -55,7 +55,7 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
  * from `warm`), followed by the exact active-set refinement of
  * {@link polishTrend} when the interior point did not converge, or when it did
- * and the refinement is cheap (k = 1, where it is O(n), or n (k + 1 + knots)^2 <= 1e6). With `refine` false
+ * and the refinement is cheap (k = 1, where it is O(n), or n (k + 1 + knots)^2 <= 2e7). With `refine` false
  * (cross-validation folds, which only need predictions) there is no refinement. When the interior point does
  * not converge and that refinement fails, the refinement is restarted from the
  * previous penalty's knots, else run as a continuation from lambda_max
