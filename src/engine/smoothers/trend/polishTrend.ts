@@ -76,6 +76,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   let u: Float64Array = new Float64Array(m);
   const work = new Float64Array(n);
   const seen = new Set<string>();
+  let last: Certifiable | undefined;
   const lim = lambda * (1 + BOX_RELATIVE);
   let rounds = 0;
   let work2 = 0;
@@ -123,6 +124,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     const g = new Float64Array(n);
     for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - bcur[i]);
     u = dualFromResidual(x, k + 1, g).u;
+    last = { b: bcur, u, g, db: dnew, rows: rowsA.slice(), dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
     let added = false;
     for (let r = 0; r < m; ) {
@@ -134,26 +136,57 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       added = true;
       r = e;
     }
-    if (!added) {
-      // optimal. D b vanishes off the active rows by construction (b lies in the span of
-      // their columns), so the objective and the gap are summed over the active rows; what
-      // D b shows elsewhere is rounding in evaluating D.
-      let obj = 0, l1 = 0, ud = 0;
-      for (let i = 0; i < n; i++) obj += 0.5 * w[i] * (y[i] - bcur[i]) ** 2;
-      const knots: number[] = [];
-      for (let r = 0; r < m; r++) {
-        if (!act.has(r)) continue;
-        l1 += Math.abs(dnew[r]);
-        ud += u[r] * dnew[r];
-        if (Math.abs(dnew[r]) > 1e-10 * dmax) knots.push(r);
-      }
-      obj += lambda * l1;
-      const gap = Math.max(lambda * l1 - ud, 0);
-      return { ok: true, b: bcur, u, knots, achieved: obj > 0 ? gap / obj : 0, rounds: rounds + 1 };
-    }
+    if (!added) return certify(y, w, lambda, last, true, rounds + 1);
+  }
+  // stopped early (cycle, budget): the last sign-consistent solution still comes with an
+  // honest gap when its dual is close to feasible
+  if (last) {
+    const c = certify(y, w, lambda, last, false, rounds);
+    if (c.ok) return c;
   }
   return { ok: false, b: bcur, u, knots: [], achieved: Infinity, rounds };
 }
+
+/**
+ * Certificate of a sign-consistent restricted solution: with u from D^T u = g,
+ * g = W (y - b), and delta = max(0, max |u| / lambda - 1), the vector
+ * u / (1 + delta) is dual feasible and G(u / (1 + delta)) = (y.g) / (1 + delta) -
+ * (1/2) sum g^2 / w / (1 + delta)^2, so P(b) - G is a valid duality gap. D b is zero
+ * off the active rows by construction, so P sums |D b| over them (what D b shows
+ * elsewhere is rounding in evaluating D). Accepted when delta <= 1e-4. For
+ * `optimal` (no row violates by more than 1e-8, the precision of u) the gap is
+ * lambda ||D b||_1 - u.D b over the active rows.
+ */
+function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number): PolishResult {
+  const fail: PolishResult = { ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], achieved: Infinity, rounds };
+  if (!last) return fail;
+  const { b, u, g, db, rows, dmax } = last;
+  let um = 0;
+  for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
+  const delta = Math.max(0, um / lambda - 1);
+  if (!optimal && delta > 1e-4) return fail;
+  const n = y.length;
+  let rss = 0, yg = 0, gg = 0;
+  for (let i = 0; i < n; i++) { rss += 0.5 * w[i] * (y[i] - b[i]) ** 2; yg += y[i] * g[i]; gg += (g[i] * g[i]) / w[i]; }
+  let l1 = 0;
+  for (const r of rows) l1 += Math.abs(db[r]);
+  const obj = rss + lambda * l1;
+  let gap: number;
+  const f = optimal ? 1 : 1 + delta;
+  if (optimal) {
+    // every |u_r| is within 1e-8 of lambda, the precision of u recovered by running sums:
+    // gap = lambda ||D b||_1 - u.D b, over the active rows (u = lambda sign(D b) there up to rounding)
+    let ud = 0;
+    for (const r of rows) ud += u[r] * db[r];
+    gap = Math.max(lambda * l1 - ud, 0);
+  } else {
+    gap = Math.max(obj - (yg / f - (0.5 * gg) / (f * f)), 0);
+  }
+  const scale = 1 / f;
+  return { ok: true, b, u: Float64Array.from(u, (v) => v * scale), knots: rows.filter((r) => Math.abs(db[r]) > 1e-10 * dmax), achieved: obj > 0 ? gap / obj : 0, rounds };
+}
+
+interface Certifiable { b: Float64Array; u: Float64Array; g: Float64Array; db: Float64Array; rows: number[]; dmax: number }
 
 /** Weighted QR solve of the restricted problem; null when the columns are numerically dependent. */
 function solveRestricted(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: number[], sA: number[], work: Float64Array): Float64Array | null {
