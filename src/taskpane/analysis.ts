@@ -40,7 +40,7 @@ export interface View {
   summary: [string, string][];
   warnings: Warning[];
   /** Criterion against df, with the chosen point, for "why this penalty". */
-  curve?: { df: number[]; score: number[]; chosenDf: number; chosenScore: number; name: string };
+  curve?: { df: number[]; score: number[]; chosenDf: number; chosenScore: number; name: string; xLabel: string; step?: boolean };
   /** CROPS-like table of changes against cost, for changepoints. */
   /** One value per selected data row (header excluded), blank where dropped: what "write" puts in the sheet. */
   column: unknown[];
@@ -97,7 +97,7 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
     const column: unknown[] = [];
     for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; column.push(k >= 0 ? result.fitted[k] : ''); }
     const curve = result.criterion.curve && result.criterion.curve.length > 1
-      ? { df: result.criterion.curve.map((p) => p.df), score: result.criterion.curve.map((p) => p.score), chosenDf: result.df, chosenScore: result.criterion.value, name: result.criterion.name }
+      ? { df: result.criterion.curve.map((p) => p.df), score: result.criterion.curve.map((p) => p.score), chosenDf: result.df, chosenScore: result.criterion.value, name: `${result.criterion.name} score`, xLabel: 'degrees of freedom' }
       : undefined;
     const title = choice.method === 'spline' ? 'Smoothing spline' : `Trend filtering, order ${options.order}`;
     const band = result.se ? {
@@ -123,6 +123,16 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
   else if (pen.rule === 'mbic') bo.penalty = 'mbic';
   else if (pen.rule === 'bic') bo.penalty = 'bic';
   const { series, result } = breaksFromCells(sel.y, sel.x, sel.w, bo);
+  // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
+  // The slope model's exact search is costly, so its path is drawn on shorter series only.
+  let curve: View['curve'];
+  if (choice.model !== 'slope' || series.n <= 2000) {
+    const beta = result.penalty.value;
+    const path = breaksFromCells(sel.y, sel.x, sel.w, { ...bo, crops: [beta / 10, beta * 10] }).result.crops ?? [];
+    if (path.length > 1) {
+      curve = { df: path.map((c) => c.changes), score: path.map((c) => c.cost), chosenDf: result.breaks.length, chosenScore: result.cost, name: 'cost', xLabel: 'number of changes', step: true };
+    }
+  }
   const column: unknown[] = [];
   for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; column.push(k >= 0 ? result.fitted[k] : ''); }
   return {
@@ -134,7 +144,7 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
       ['segments', String(result.segments.length)], ['points used', `${series.n} of ${series.nRows}`],
       ['search', `${result.solver.algorithm}, exact`],
     ],
-    warnings: result.warnings, column, columnHeader: `${sel.yName} (segments)`,
+    warnings: result.warnings, curve, column, columnHeader: `${sel.yName} (segments)`,
     table: [['x', 'row', 'change'], ...result.breaks.map((b) => [b.x, b.row + 1, b.change])],
   };
 }

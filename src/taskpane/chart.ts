@@ -49,7 +49,9 @@ function frame(svg: SVGSVGElement, xs: number[], ys: number[], w: number, h: num
   const axes = el('g', { class: 'axes' }, svg);
   for (const t of ticks(x0, x1)) {
     el('line', { x1: sx(t), x2: sx(t), y1: m.t, y2: h - m.b, class: 'grid' }, axes);
-    const tx = el('text', { x: sx(t), y: h - 8, 'text-anchor': 'middle', class: 'tick' }, axes); tx.textContent = xLabel(t);
+    const px = sx(t);
+    const anchor = px > w - 40 ? 'end' : px < m.l + 20 ? 'start' : 'middle';
+    const tx = el('text', { x: px, y: h - 8, 'text-anchor': anchor, class: 'tick' }, axes); tx.textContent = xLabel(t);
   }
   for (const t of ticks(y0, y1)) {
     el('line', { x1: m.l, x2: w - m.r, y1: sy(t), y2: sy(t), class: 'grid' }, axes);
@@ -122,5 +124,5 @@ export function drawCurve(svg: SVGSVGElement, c: NonNullable<View['curve']>, wid
   const dot = el('circle', { cx: sx(c.chosenDf), cy: sy(cy), r: 4.5, class: 'chosen' }, svg);
   el('title', {}, dot).textContent = `chosen: df ${c.chosenDf.toPrecision(4)}`;
   const t = el('text', { x: width - 12, y: 22, 'text-anchor': 'end', class: 'tick' }, svg);
-  t.textContent = `${c.name} score against degrees of freedom`;
+  t.textContent = `${c.name} against ${c.xLabel}`;
 }

@@ -52,6 +52,7 @@ test('changepoints carry the warning that a break is not proof of its cause', as
   await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints'));
   const codes = await page.$$eval('#warnings li', (l) => l.map((x) => x.dataset.code));
   assert(codes.includes('break-cause'), `break-cause missing: ${codes}`);
+  assert(await page.isVisible('#curve-box'), 'penalty path (changes against cost) not shown');
   assert((await page.$$('#chart .markers line')).length >= 1, 'no break markers');
 });
 
