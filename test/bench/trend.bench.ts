@@ -16,6 +16,7 @@ import { getMethod } from '../../src/engine/registry';
 import { seriesFromArrays, Series } from '../../src/engine/series';
 import '../../src/engine/methods';
 import { doppler, blocks, seededNormal } from '../engine/smoothers/trendTestFunctions';
+import { execFileSync } from 'child_process';
 
 declare const process: { memoryUsage(): { heapUsed: number; arrayBuffers: number } } | undefined;
 
@@ -73,7 +74,56 @@ export function adaptivityTable(name: 'doppler' | 'blocks', n: number, dfs: numb
   return rows;
 }
 
+/**
+ * Reference timing on the same machine: SciPy's bounded-variable least squares
+ * (scipy.optimize.lsq_linear, method 'bvls') on the trend-filtering dual, the
+ * solver of test/reference/gen_trend.py, against fitTrend on the same data.
+ * No dedicated trend-filtering library is installed here, so this is the
+ * reference we have; it is dense, so only small n.
+ */
+export function scipyReference(n: number, k: number): Record<string, unknown> | null {
+  const s = benchSeries(n, 4242 + n);
+  const lam = 1e-2 * trendPenaltyMax(s, { order: k });
+  const code = [
+    'import sys, json, math, time', 'import numpy as np', 'from scipy.optimize import lsq_linear',
+    'd = json.load(sys.stdin); x = np.array(d["x"]); y = np.array(d["y"]); k = d["k"]; lam = d["lam"]; q = k + 1; n = len(x)',
+    'D = np.zeros((n - q, n))',
+    'for r in range(n - q):',
+    '    z = x[r:r + q + 1]',
+    '    for j in range(q + 1):',
+    '        den = np.prod([z[j] - z[l] for l in range(q + 1) if l != j])',
+    '        D[r, r + j] = math.factorial(k) * (z[-1] - z[0]) / den',
+    't = time.perf_counter(); res = lsq_linear(D.T, y, bounds=(-lam, lam), method="bvls", tol=1e-12); t = time.perf_counter() - t',
+    'b = y - D.T @ res.x',
+    'obj = 0.5 * np.sum((y - b) ** 2) + lam * np.sum(np.abs(D @ b))',
+    'print(json.dumps({"seconds": t, "fitted": b.tolist(), "status": int(res.status), "objective": float(obj)}))',
+  ].join('\n');
+  let out: { seconds: number; fitted: number[]; status: number; objective: number };
+  try {
+    out = JSON.parse(execFileSync('/usr/bin/python3', ['-c', code], { input: JSON.stringify({ x: Array.from(s.x), y: Array.from(s.y), k, lam }), encoding: 'utf8', maxBuffer: 1 << 26 }));
+  } catch {
+    return null;
+  }
+  const t0 = now();
+  const r = fitTrend(s, { order: k, penalty: lam });
+  const t1 = now();
+  let diff = 0;
+  for (let i = 0; i < n; i++) diff = Math.max(diff, Math.abs(r.fitted[i] - out.fitted[i]));
+  let obj = 0;
+  for (let i = 0; i < n; i++) obj += 0.5 * (s.y[i] - r.fitted[i]) ** 2;
+  for (const kn of r.knots) obj += lam * Math.abs(kn.change);
+  // scipy status 0 means bvls hit its iteration limit (it does on ill-conditioned duals, e.g. n = 400, k = 2)
+  return {
+    bench: 'trend-vs-scipy-bvls', order: k, n, seconds: (t1 - t0) / 1000, scipySeconds: out.seconds, ratioScipyOverOurs: out.seconds / ((t1 - t0) / 1000),
+    maxAbsDifference: diff, converged: r.solver.converged, scipyStatus: out.status, scipyObjective: out.objective, objective: obj,
+  };
+}
+
 export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+  for (const [n, k] of (quick ? [[100, 1]] : [[100, 1], [200, 1], [150, 2], [400, 2]]) as [number, number][]) {
+    const rec = scipyReference(n, k);
+    if (rec) emit(rec);
+  }
   const sizes = quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
   for (const k of [1, 3]) {
     for (const n of sizes) {

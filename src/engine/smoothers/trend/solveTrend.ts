@@ -42,7 +42,7 @@ export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weight
 
 export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations or tolerance';
 
-export const TREND_RULE = `${INTERIOR_POINT_RULE}; then, when the dual marks at most 150 knots, an exact active-set refinement, kept only if it meets the optimality conditions |u| <= lambda and u = lambda * sign(D b) on the knots`;
+export const TREND_RULE = `${INTERIOR_POINT_RULE}, or else (and whenever cheap) an exact active-set refinement whose result is kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
 /** Relative size below which an entry of D b counts as zero for k >= 1 without refinement: the interior-point error in D b off the knots is of order gap / (m * distance of u to the bound), far below this. */
 export const KNOT_RELATIVE = 1e-8;
