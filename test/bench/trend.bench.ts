@@ -4,7 +4,8 @@
  * - single penalty (1e-3 lambda_max, penalty given) for k = 1 and 3 at n = 1e3 .. 1e6:
  *   time, iterations, relative duality gap reached, knots, heap growth;
  * - full 5-fold cross-validation over 30 penalties with warm starts at n = 1e3, 1e4;
- * - MSE against the truth versus df for trend filtering (k = 1, 3) and the cubic
+ * - SciPy bvls on the dual against fitTrend on the same data (small n);
+ * - MSE against the truth versus df for trend filtering (Doppler: k = 1, 3; Blocks: k = 0, 1) and the cubic
  *   smoothing spline ('spline') on the Doppler and Blocks functions of
  *   D. L. Donoho and I. M. Johnstone, "Ideal spatial adaptation by wavelet
  *   shrinkage", Biometrika 81 (1994) 425-455.
@@ -44,7 +45,7 @@ export function benchSeries(n: number, seed: number): Series {
 }
 
 /** MSE against the truth versus df, trend filtering and the spline, on one test function. */
-export function adaptivityTable(name: 'doppler' | 'blocks', n: number, dfs: number[], seed: number): Record<string, unknown>[] {
+export function adaptivityTable(name: 'doppler' | 'blocks', n: number, dfs: number[], seed: number, orders: number[]): Record<string, unknown>[] {
   const f = name === 'doppler' ? doppler : blocks;
   const rnorm = seededNormal(seed);
   const x = new Float64Array(n), truth = new Float64Array(n), y = new Float64Array(n);
@@ -61,7 +62,7 @@ export function adaptivityTable(name: 'doppler' | 'blocks', n: number, dfs: numb
   const rows: Record<string, unknown>[] = [];
   for (const df of dfs) {
     const row: Record<string, unknown> = { bench: 'trend-adaptivity', function: name, n, sigma, targetDf: df };
-    for (const k of [1, 3]) {
+    for (const k of orders) {
       const r = fitTrend(s, { order: k, df });
       row[`trendK${k}Df`] = r.df;
       row[`trendK${k}Mse`] = mse(r.fitted);
@@ -151,6 +152,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
       emit({ bench: 'trend-cv', order: k, n, folds: 5, gridSize: 30, seconds: (t1 - t0) / 1000, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged });
     }
   }
-  const dfs = quick ? [10, 30] : [10, 20, 30, 45, 60, 80, 100];
-  for (const name of ['doppler', 'blocks'] as const) for (const row of adaptivityTable(name, quick ? 512 : 2048, dfs, 31)) emit(row);
+  const dfs = quick ? [10, 30] : [15, 25, 40, 60, 80, 100, 130, 160];
+  for (const row of adaptivityTable('doppler', quick ? 512 : 1024, dfs, 31, [1, 3])) emit(row);
+  for (const row of adaptivityTable('blocks', quick ? 512 : 1024, dfs, 32, [0, 1])) emit(row);
 }
