@@ -224,8 +224,9 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
     const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations });
     const pts = path.points;
     const score = (p: (typeof pts)[number]) => (rule === 'cv' ? p.cv : rule === 'sure' ? p.sure : p.bic);
-    let best = 0;
-    for (let j = 1; j < pts.length; j++) if (score(pts[j]) < score(pts[best])) best = j;
+    // minimum of the score; on ties the larger penalty (the simpler fit)
+    let best = pts.length - 1;
+    for (let j = pts.length - 2; j >= 0; j--) if (score(pts[j]) < score(pts[best])) best = j;
     let chosen = best;
     if (rule === 'cv' && s.oneSE) {
       const lim = pts[best].cv + pts[best].cvSe;
