@@ -63,7 +63,7 @@ export const POLISH_MAX_CELLS = 4e6;
  *
  * Works on x scaled to [0, 1]. Unchecked.
  */
-export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200): PolishResult {
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array): PolishResult {
   const n = x.length;
   const m = n - k - 1;
   const act = new Map<number, number>();
@@ -78,7 +78,9 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     r = e;
   }
   // a feasible start in the span of any active set: the weighted polynomial fit (D b = 0)
-  let bcur: Float64Array = weightedPolynomialFit(x, y, w, k);
+  let bcur: Float64Array = poly ? Float64Array.from(poly) : weightedPolynomialFit(x, y, w, k);
+  // D bcur, kept up to date along the steps (zero for the polynomial start)
+  let dcur: Float64Array = new Float64Array(m);
   let u: Float64Array = new Float64Array(m);
   const work = new Float64Array(n);
   const seen = new Set<string>();
@@ -98,7 +100,6 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     const bnew = k === 1 ? restrictedLinearFit(x, y, w, lambda, rowsA, sA) : solveRestricted(x, y, w, k, lambda, rowsA, sA, work);
     if (!bnew) break;
     const dnew = Float64Array.from(differenceOperator(x, k + 1, bnew, work));
-    const dcur = Float64Array.from(differenceOperator(x, k + 1, bcur, work));
     let dmax = 0;
     for (let r = 0; r < m; r++) dmax = Math.max(dmax, Math.abs(dnew[r]), Math.abs(dcur[r]));
     // sign feasibility: move from bcur towards bnew until the first active row changes sign
@@ -112,9 +113,12 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       }
     }
     if (drop >= 0) {
-      const nb = new Float64Array(n);
+      // new arrays: the last certified state may still refer to the old ones
+      const nb = new Float64Array(n), nd = new Float64Array(m);
       for (let i = 0; i < n; i++) nb[i] = bcur[i] + tau * (bnew[i] - bcur[i]);
+      for (let r = 0; r < m; r++) nd[r] = dcur[r] + tau * (dnew[r] - dcur[r]);
       bcur = nb;
+      dcur = nd;
       act.delete(drop);
       if (tau <= 1e-12) {
         // a zero step: every row that is at zero now and would change sign leaves together
@@ -127,6 +131,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       continue;
     }
     bcur = bnew;
+    dcur = dnew;
     const g = new Float64Array(n);
     for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - bcur[i]);
     u = dualFromResidual(x, k + 1, g).u;

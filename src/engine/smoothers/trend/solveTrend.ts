@@ -115,7 +115,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   const cheap = k === 1 || n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
   let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], achieved: Infinity, rounds: 0 };
   if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
-  if (!sol.status.converged || cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
+  if (!sol.status.converged || cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b);
   if (!pol.ok && !sol.status.converged && warm) {
     // a warm start can stall where a cold one does not
     const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
@@ -124,7 +124,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     sol = { ...sol, status: { ...sol.status, iterations: iters } };
     if (!sol.status.converged) {
       for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-      pol = polishTrend(prob.x01, y, w, k, lambda / f, u01);
+      pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b);
     }
   }
   if (!pol.ok && !sol.status.converged) {
@@ -133,7 +133,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     const start = new Float64Array(u01.length);
     if (warm && warm.knotRows.length) {
       for (const r of warm.knotRows) start[r] = Math.sign(warm.u[r] || 1) * (lambda / f);
-      const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start);
+      const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start, undefined, prob.poly.b);
       if (pol2.ok) pol = pol2;
     }
     if (!pol.ok) {
@@ -158,7 +158,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
         for (let j = 1; j <= steps && ok; j++) {
           const lj = lmax * Math.pow(target / lmax, j / steps);
           const st = Float64Array.from(cur, (v) => (v * lj) / curLam);
-          last = polishTrend(prob.x01, y, w, k, lj, st);
+          last = polishTrend(prob.x01, y, w, k, lj, st, undefined, prob.poly!.b);
           rounds += last.rounds;
           ok = last.ok;
           cur = last.u;
