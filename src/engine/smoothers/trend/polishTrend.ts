@@ -234,7 +234,7 @@ function solveRestricted(x: Float64Array, y: Float64Array, w: Float64Array, k: n
     let nr = 0;
     for (let i = 0; i < n; i++) nr += qj[i] * qj[i];
     nr = Math.sqrt(nr);
-    if (!(nr > 1e-10 * Math.sqrt(n0))) return null;
+    if (!(nr > 1e-14 * Math.sqrt(n0))) return null;
     R[j * p + j] = nr;
     for (let i = 0; i < n; i++) qj[i] /= nr;
   }
