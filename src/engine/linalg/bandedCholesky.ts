@@ -21,6 +21,7 @@
  * Unchecked.
  */
 export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor = 0): number {
+  if (p === 2) return bandedCholesky2(a, n, pivotFloor);
   const w = p + 1;
   for (let i = 0; i < n; i++) {
     const j0 = i - p > 0 ? i - p : 0;
@@ -41,11 +42,51 @@ export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor
   return -1;
 }
 
+/** {@link bandedCholesky} unrolled for half-bandwidth 2 (pentadiagonal: trend filtering of order 1). Unchecked. */
+function bandedCholesky2(a: Float64Array, n: number, pivotFloor: number): number {
+  for (let i = 0; i < n; i++) {
+    const o = 3 * i;
+    let l2 = 0, l1 = 0;
+    if (i >= 2) {
+      // L(i, i-2) = A(i, i-2) / L(i-2, i-2)
+      l2 = a[o + 2] / a[3 * (i - 2)];
+      a[o + 2] = l2;
+    }
+    if (i >= 1) {
+      // L(i, i-1) = (A(i, i-1) - L(i, i-2) L(i-1, i-2)) / L(i-1, i-1)
+      const ob = 3 * (i - 1);
+      l1 = (a[o + 1] - (i >= 2 ? l2 * a[ob + 1] : 0)) / a[ob];
+      a[o + 1] = l1;
+    }
+    const aii = a[o];
+    let s = aii - l1 * l1 - l2 * l2;
+    if (pivotFloor > 0 && !(s >= pivotFloor * aii)) s = pivotFloor * aii;
+    if (!(s > 0)) return i;
+    a[o] = Math.sqrt(s);
+  }
+  return -1;
+}
+
 /**
  * Solves L L^T x = b with the factor from {@link bandedCholesky}, in place on b, O(n p).
  * Unchecked.
  */
 export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Float64Array): Float64Array {
+  if (p === 2) {
+    for (let i = 0; i < n; i++) {
+      let s = b[i];
+      if (i >= 1) s -= l[3 * i + 1] * b[i - 1];
+      if (i >= 2) s -= l[3 * i + 2] * b[i - 2];
+      b[i] = s / l[3 * i];
+    }
+    for (let i = n - 1; i >= 0; i--) {
+      let s = b[i];
+      if (i + 1 < n) s -= l[3 * (i + 1) + 1] * b[i + 1];
+      if (i + 2 < n) s -= l[3 * (i + 2) + 2] * b[i + 2];
+      b[i] = s / l[3 * i];
+    }
+    return b;
+  }
   const w = p + 1;
   for (let i = 0; i < n; i++) {
     let s = b[i];

@@ -150,26 +150,24 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   let achieved = Infinity;
   let gapAbs = Infinity;
   let converged = false;
-  const best = { achieved: Infinity, gap: Infinity, objective: NaN, b: new Float64Array(n), u: new Float64Array(m) };
+  const best = { achieved: Infinity, gap: Infinity, objective: NaN, u: new Float64Array(m) };
   const rhs = new Float64Array(m);
   const du2 = new Float64Array(m);
   const fraction = 0.99;
   let lastGain = 0;
   applyDifferenceGram(rows, winv, q, u, qu, tmp);
   for (;;) {
-    // b = y - W^{-1} D^T u ; D b = p - Q u
-    differenceTranspose(x, q, u, tmp);
-    let obj = 0;
-    for (let i = 0; i < n; i++) { const r = winv[i] * tmp[i]; b[i] = y[i] - r; obj += 0.5 * w[i] * r * r; }
-    let l1 = 0, ud = 0;
-    for (let i = 0; i < m; i++) { const v = p[i] - qu[i]; l1 += Math.abs(v); ud += u[i] * v; }
-    obj += lambda * l1;
+    // with b = y - W^{-1} D^T u: 1/2 sum w (y - b)^2 = 1/2 u.Q u and D b = p - Q u, so the
+    // objective and the gap need no b (formed once, for the best iterate, at the end)
+    let l1 = 0, ud = 0, uqu = 0;
+    for (let i = 0; i < m; i++) { const v = p[i] - qu[i]; l1 += Math.abs(v); ud += u[i] * v; uqu += u[i] * qu[i]; }
+    const obj = 0.5 * uqu + lambda * l1;
     gapAbs = Math.max(lambda * l1 - ud, 0);
     achieved = gapAbs / Math.max(obj, floor);
     if (!Number.isFinite(achieved)) break;
     if (achieved < best.achieved) {
       if (achieved < 0.5 * best.achieved) lastGain = iter;
-      best.achieved = achieved; best.gap = gapAbs; best.objective = obj; best.b.set(b); best.u.set(u);
+      best.achieved = achieved; best.gap = gapAbs; best.objective = obj; best.u.set(u);
     }
     if (achieved <= tolerance) { converged = true; break; }
     if (iter >= maxIterations) break;
@@ -237,9 +235,11 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     }
     applyDifferenceGram(rows, winv, q, u, qu, tmp);
   }
-  // the best iterate seen (the last one unless the iteration broke down)
+  // the best iterate seen (the last one unless the iteration broke down); b = y - W^{-1} D^T u
+  differenceTranspose(x, q, best.u, tmp);
+  for (let i = 0; i < n; i++) b[i] = y[i] - winv[i] * tmp[i];
   return {
-    b: best.b, u: best.u, gap: best.gap, objective: best.objective,
+    b, u: best.u, gap: best.gap, objective: best.objective,
     status: { converged, iterations: iter, tolerance, achieved: best.achieved, stoppingRule: INTERIOR_POINT_RULE },
   };
 }
