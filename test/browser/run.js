@@ -109,6 +109,27 @@ test('the functions bundle associates every function that functions.json declare
   await ctx.close();
 });
 
+test('the manifest is well-formed and points at the built pages, the functions and the KNOTWISE namespace', async (page, base) => {
+  const info = await page.evaluate(async () => {
+    const text = await (await fetch('manifest.xml')).text();
+    const doc = new DOMParser().parseFromString(text, 'application/xml');
+    if (doc.getElementsByTagName('parsererror').length) return { error: doc.getElementsByTagName('parsererror')[0].textContent };
+    const urls = [...doc.getElementsByTagName('bt:Url'), ...doc.getElementsByTagName('bt:Image')].map((e) => e.getAttribute('DefaultValue')).filter((u) => u !== null);
+    const ns = [...doc.getElementsByTagName('bt:String')].find((e) => e.getAttribute('id') === 'Functions.Namespace')?.getAttribute('DefaultValue');
+    const cf = doc.querySelector('ExtensionPoint[*|type="CustomFunctions"]') !== null;
+    return { urls, ns, cf };
+  });
+  assert(!info.error, `manifest.xml does not parse: ${info.error}`);
+  assert(info.ns === 'KNOTWISE', `namespace is ${info.ns}`);
+  assert(info.cf, 'no CustomFunctions extension point');
+  assert(info.urls.length >= 8 && info.urls.every((u) => typeof u === 'string'), `manifest URLs: ${JSON.stringify(info.urls)}`);
+  for (const u of info.urls) {
+    const rel = u.replace(/^https:\/\/localhost:3000/, '');
+    const res = await page.evaluate(async (r) => (await fetch(r)).status, rel);
+    assert(res === 200, `${rel} named in the manifest is not served (status ${res})`);
+  }
+});
+
 (async () => {
   if (!fs.existsSync(path.join(__dirname, '..', '..', 'dist', 'web', 'preview.html'))) {
     console.error('dist/web is missing: run npm run build first.');
