@@ -1,0 +1,82 @@
+/** Unit checks of the trend-filtering kernels against dense or closed-form answers. */
+import { Matrix, solve } from 'ml-matrix';
+import { restrictedLinearFit } from '../../../src/engine/smoothers/trend/restrictedLinearFit';
+import { interpolateTrend } from '../../../src/engine/smoothers/trend/interpolateTrend';
+import { differenceNoiseScale } from '../../../src/engine/smoothers/trend/differenceNoiseScale';
+import { dualFromResidual } from '../../../src/engine/smoothers/trend/dualFromResidual';
+import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/engine/smoothers/trend/regressionSplineRefit';
+import { differenceTranspose } from '../../../src/engine/linalg/difference';
+import { seededNormal } from './trendTestFunctions';
+
+describe('restrictedLinearFit', () => {
+  test('matches the dense solve in the hinge basis 1, x, (x - knot)_+', () => {
+    const n = 40;
+    const rn = seededNormal(5);
+    const x = Float64Array.from({ length: n }, (_, i) => i + 0.4 * Math.sin(i));
+    const y = Float64Array.from(x, (t) => Math.abs(t - 15) + rn());
+    const w = Float64Array.from({ length: n }, (_, i) => 0.5 + (i % 3));
+    const rows = [9, 20, 31];
+    const signs = [1, -1, 1];
+    const lam = 0.7;
+    const b = restrictedLinearFit(x, y, w, lam, rows, signs)!;
+    // objective 1/2 sum w (y - H beta)^2 + lam sum s_j (slope change at knot j); the slope change is beta_j for hinge j
+    const H = new Matrix(n, 2 + rows.length);
+    for (let i = 0; i < n; i++) {
+      H.set(i, 0, 1); H.set(i, 1, x[i]);
+      rows.forEach((r, j) => H.set(i, 2 + j, Math.max(0, x[i] - x[r + 1])));
+    }
+    const W = Matrix.diag(Array.from(w));
+    const lhs = H.transpose().mmul(W).mmul(H);
+    const rhs = H.transpose().mmul(W).mmul(Matrix.columnVector(Array.from(y)));
+    rows.forEach((_, j) => rhs.set(2 + j, 0, rhs.get(2 + j, 0) - lam * signs[j]));
+    const want = H.mmul(solve(lhs, rhs)).to1DArray();
+    for (let i = 0; i < n; i++) expect(b[i]).toBeCloseTo(want[i], 9);
+  });
+});
+
+describe('interpolateTrend', () => {
+  test('reproduces a polynomial of degree k exactly between and beyond the points', () => {
+    const x = Float64Array.of(0, 0.7, 1.1, 2.5, 3, 4.2, 5);
+    const f = (t: number) => 1 - 2 * t + 0.5 * t * t - 0.1 * t * t * t;
+    const b = Float64Array.from(x, f);
+    const at = Float64Array.of(-1, 0.3, 1.9, 4.9, 6);
+    const e = interpolateTrend(x, b, 3, at);
+    for (let i = 0; i < at.length; i++) expect(e.value[i]).toBeCloseTo(f(at[i]), 10);
+    expect(Array.from(e.extrapolated)).toEqual([1, 0, 0, 0, 1]);
+  });
+});
+
+describe('dualFromResidual', () => {
+  test('inverts the transpose of the difference operator on its range', () => {
+    const x = Float64Array.from({ length: 30 }, (_, i) => i * 1.3 + Math.cos(i));
+    for (const q of [1, 2, 3, 4]) {
+      const u = Float64Array.from({ length: 30 - q }, (_, i) => Math.sin(0.7 * i) * 10);
+      const g = differenceTranspose(x, q, u);
+      const r = dualFromResidual(x, q, g);
+      for (let i = 0; i < u.length; i++) expect(r.u[i]).toBeCloseTo(u[i], 8);
+      expect(r.inconsistency).toBeLessThan(1e-12);
+    }
+  });
+});
+
+describe('differenceNoiseScale', () => {
+  test('estimates the noise sd of a smooth signal plus noise within 5% (n = 20000)', () => {
+    // MAD of first differences / sqrt(2): common practice for smooth signals
+    const rn = seededNormal(17);
+    const n = 20000;
+    const y = Float64Array.from({ length: n }, (_, i) => Math.sin(i / 500) * 3 + 0.25 * rn());
+    const s = differenceNoiseScale(y, new Float64Array(n).fill(1));
+    expect(Math.abs(s / 0.25 - 1)).toBeLessThan(0.05);
+  });
+});
+
+describe('regressionSplineRefit', () => {
+  test('a cubic spline refit reproduces data lying on a cubic spline with those knots', () => {
+    const x = Float64Array.from({ length: 50 }, (_, i) => i / 7);
+    const f = (t: number) => 0.2 * t * t * t - t + Math.max(0, t - 3) ** 3 - 2 * Math.max(0, t - 5) ** 3;
+    const y = Float64Array.from(x, f);
+    const r = regressionSplineRefit(x, y, new Float64Array(50).fill(1), 3, [3, 5]);
+    for (let i = 0; i < 50; i++) expect(r.fitted[i]).toBeCloseTo(y[i], 8);
+    expect(evaluateRegressionSpline(r.spline, Float64Array.of(4.05))[0]).toBeCloseTo(f(4.05), 8);
+  });
+});
