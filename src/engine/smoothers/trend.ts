@@ -337,7 +337,10 @@ function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendS
   const sigma = n > df ? Math.sqrt(rss / (n - df)) : NaN;
   const status: SolverStatus = fit.status;
   if (!status.converged) {
-    warnings.push(warning('not-converged', `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum. Increase maxIterations or use a smaller penalty.`));
+    const far = !(status.achieved <= 1e-3);
+    warnings.push(warning('not-converged', far
+      ? `The trend solver failed: after ${status.iterations} iterations the relative duality gap is ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}), so the fitted values and knots are not reliable. Order ${k} on ${n} points is beyond what the solver handles accurately; use a lower order, a shorter series or a smaller penalty.`
+      : `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum (||fit - optimum||_W <= sqrt(2 gap)). Increase maxIterations or use a smaller penalty.`));
   }
   warnings.push(...fitWarnings(n, df, resid, dataDriven));
   warnings.push(boundaryWarning());
