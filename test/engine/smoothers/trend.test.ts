@@ -210,6 +210,17 @@ describe('fitTrend relaxed fit', () => {
     }
   });
 
+  test('relaxed = 1 at order 0 gives the weighted mean of each segment between knots', () => {
+    const c = fixture.cases.find((d) => d.order === 0 && d.weighted)!;
+    const r = fitTrend(seriesFromArrays(c.x, c.y, c.w), { order: 0, penalty: c.lambda, relaxed: 1 });
+    const starts = [0, ...r.knots.map((k) => k.index), c.n];
+    for (let s = 0; s + 1 < starts.length; s++) {
+      let sw = 0, sy = 0;
+      for (let i = starts[s]; i < starts[s + 1]; i++) { sw += c.w[i]; sy += c.w[i] * c.y[i]; }
+      for (let i = starts[s]; i < starts[s + 1]; i++) expect(r.fitted[i]).toBeCloseTo(sy / sw, 10);
+    }
+  });
+
   test('relaxed = 0.5 is the average of the L1 fit and the refit', () => {
     const c = fixture.cases.find((d) => d.order === 2)!;
     const s = seriesFromArrays(c.x, c.y, c.w);
