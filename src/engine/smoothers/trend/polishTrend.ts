@@ -12,7 +12,7 @@ export interface PolishResult {
   u: Float64Array;
   /** Knot rows (rows of D with a non-zero entry). */
   knots: number[];
-  /** Relative duality gap of the refined pair (lambda ||Db||_1 - u.Db) / P. */
+  /** Relative duality gap certified for the result (see certify). */
   achieved: number;
   /** Active-set rounds used. */
   rounds: number;
@@ -56,7 +56,7 @@ export const POLISH_MAX_CELLS = 4e6;
  * that would change sign leaves together). Otherwise the full dual u is
  * recovered from D^T u = W (y - b) ({@link dualFromResidual}); of each run of
  * consecutive rows with |u_r| > lambda (1 + {@link boxRelative}) the largest joins A with the
- *sign of u. When no row violates, all optimality conditions of the original
+ * sign of u. When no row violates, all optimality conditions of the original
  * problem hold: the solution is optimal up to rounding, with exact zeros of
  * D b off the knots. At most `maxRounds` restricted solves (and {@link POLISH_MAX_WORK}
  * multiply-adds); stops if an active set repeats.
