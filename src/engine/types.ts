@@ -45,6 +45,8 @@ export interface CriterionPoint {
   se?: number;
   /** Number of knots (adaptive methods). */
   knots?: number;
+  /** Whether the iterative solver reached its tolerance at this penalty (iterative methods). */
+  converged?: boolean;
 }
 
 /** How the penalty was arrived at, with the score that chose it. */

@@ -54,16 +54,16 @@ export function smooth(y: any[][], x?: any[][], method?: string, order?: number,
  * @param [weights] Positive weights, same size as y.
  * @param [folds] Number of cross-validation folds for rule "cv".
  * @param [relaxed] Trend filtering only: 0 to 1.
- * @param [curve] TRUE: return the table penalty, score, df, se, knots for every penalty tried (with a header row).
+ * @param [curve] TRUE: return the table penalty, score, df, se, knots, converged for every penalty tried (with a header row).
  * @returns The chosen lambda, or the criterion table.
  */
 export function penalty(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, curve?: boolean): any[][] {
   return guarded(() => {
     const { result } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
     if (scalar(curve) !== true) return [[result.penalty]];
-    const head = ['penalty', `score (${result.criterion.name})`, 'df', 'se', 'knots'];
+    const head = ['penalty', `score (${result.criterion.name})`, 'df', 'se', 'knots', 'converged'];
     const pts = result.criterion.curve ?? [{ penalty: result.penalty, score: result.criterion.value, df: result.df }];
-    return [head, ...pts.map((p) => [cellNumber(p.penalty), cellNumber(p.score), cellNumber(p.df), p.se === undefined ? '' : cellNumber(p.se), p.knots === undefined ? '' : p.knots])];
+    return [head, ...pts.map((p) => [cellNumber(p.penalty), cellNumber(p.score), cellNumber(p.df), p.se === undefined ? '' : cellNumber(p.se), p.knots === undefined ? '' : p.knots, p.converged === undefined ? '' : p.converged])];
   });
 }
 

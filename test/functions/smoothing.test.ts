@@ -64,7 +64,7 @@ describe('PENALTY and SUMMARY', () => {
     const { result } = fitCells(ys as any, xs, null, {});
     expect(one[0][0]).toBeCloseTo(result.penalty, 12);
     const table = penalty(col(ys), col(xs), undefined, undefined, undefined, undefined, undefined, undefined, undefined, undefined, true);
-    expect(table[0]).toEqual(['penalty', 'score (gcv)', 'df', 'se', 'knots']);
+    expect(table[0]).toEqual(['penalty', 'score (gcv)', 'df', 'se', 'knots', 'converged']);
     expect(table.length).toBe(result.criterion.curve!.length + 1);
   });
 
