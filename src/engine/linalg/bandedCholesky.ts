@@ -22,6 +22,7 @@
  */
 export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor = 0): number {
   if (p === 2) return bandedCholesky2(a, n, pivotFloor);
+  if (p === 1) return bandedCholesky1(a, n, pivotFloor);
   const w = p + 1;
   for (let i = 0; i < n; i++) {
     const j0 = i - p > 0 ? i - p : 0;
@@ -38,6 +39,23 @@ export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor
         a[i * w + (i - j)] = s / a[j * w];
       }
     }
+  }
+  return -1;
+}
+
+/** {@link bandedCholesky} unrolled for half-bandwidth 1 (tridiagonal). Unchecked. */
+function bandedCholesky1(a: Float64Array, n: number, pivotFloor: number): number {
+  let prev = 0; // L(i-1, i-1)
+  for (let i = 0; i < n; i++) {
+    const o = 2 * i;
+    let l1 = 0;
+    if (i >= 1) { l1 = a[o + 1] / prev; a[o + 1] = l1; }
+    const aii = a[o];
+    let s = aii - l1 * l1;
+    if (pivotFloor > 0 && !(s >= pivotFloor * aii)) s = pivotFloor * aii;
+    if (!(s > 0)) return i;
+    prev = Math.sqrt(s);
+    a[o] = prev;
   }
   return -1;
 }
@@ -72,6 +90,16 @@ function bandedCholesky2(a: Float64Array, n: number, pivotFloor: number): number
  * Unchecked.
  */
 export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Float64Array): Float64Array {
+  if (p === 1) {
+    if (n === 0) return b;
+    let prev = b[0] / l[0];
+    b[0] = prev;
+    for (let i = 1; i < n; i++) { prev = (b[i] - l[2 * i + 1] * prev) / l[2 * i]; b[i] = prev; }
+    let next = b[n - 1] / l[2 * (n - 1)];
+    b[n - 1] = next;
+    for (let i = n - 2; i >= 0; i--) { next = (b[i] - l[2 * (i + 1) + 1] * next) / l[2 * i]; b[i] = next; }
+    return b;
+  }
   if (p === 2) {
     for (let i = 0; i < n; i++) {
       let s = b[i];

@@ -23,7 +23,11 @@
  *
  * Solvers: k = 0 exact dynamic programming ({@link totalVariationDenoise});
  * k >= 1 dual interior point ({@link trendDualInteriorPoint}) plus exact
- * active-set refinement ({@link polishTrend}); status and stopping rule returned.
+ * active-set refinement ({@link polishTrend}); for k = 1 where the interior
+ * point stalls (long series), the ADMM of A. Ramdas and R. J. Tibshirani
+ * (J. Comput. Graph. Statist. 25, 2016; {@link trendAdmm}), started from the
+ * interior point's iterate, finds the knots for the refinement; status and
+ * stopping rule returned.
  * `tolerance` (default 1e-8) is the relative duality gap; ||b - b*||_W <= sqrt(2 gap).
  *
  * Limitations: the dual interior point loses accuracy on long stretches

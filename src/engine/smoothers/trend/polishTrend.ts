@@ -42,7 +42,8 @@ export const POLISH_MAX_CELLS = 4e6;
  * M. R. Osborne, B. Presnell and B. A. Turlach, "On the LASSO and its dual",
  * J. Comput. Graph. Statist. 9 (2000).
  *
- * The initial A takes, of each run of rows with |u0_r| >= lambda (1 - 1e-6) of one
+ * The initial A is the rows `initial` when given (knots found by another solver,
+ * with the signs of u0), else, of each run of rows with |u0_r| >= lambda (1 - 1e-6) of one
  * sign, the row with the largest |u0_r|. For knot rows A with signs s it solves exactly
  *   minimise 1/2 sum w (y - b)^2 + lambda s_A^T (D b)_A  subject to (D b)_j = 0 for j not in A,
  * with b in the span of the falling factorial columns for A
@@ -63,14 +64,16 @@ export const POLISH_MAX_CELLS = 4e6;
  *
  * Works on x scaled to [0, 1]. Unchecked.
  */
-export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array): PolishResult {
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>): PolishResult {
   const n = x.length;
   const m = n - k - 1;
   const act = new Map<number, number>();
-  // initial guess: of each run of consecutive rows with |u0_r| >= lambda (1 - 1e-6), the largest
-  // (a smooth dual is flat near its peaks, and adjacent knots would be nearly collinear columns)
+  // initial guess: the given rows with the signs of u0, else of each run of consecutive rows
+  // with |u0_r| >= lambda (1 - 1e-6), the largest (a smooth dual is flat near its peaks, and
+  // adjacent knots would be nearly collinear columns)
   const near = lambda * (1 - 1e-6);
-  for (let r = 0; r < m; ) {
+  if (initial) for (let j = 0; j < initial.length; j++) { const r = initial[j]; if (u0[r] !== 0) act.set(r, Math.sign(u0[r])); }
+  for (let r = 0; r < m && !initial; ) {
     if (!(Math.abs(u0[r]) >= near)) { r++; continue; }
     let best = r, e = r;
     while (e < m && Math.abs(u0[e]) >= near && Math.sign(u0[e]) === Math.sign(u0[r])) { if (Math.abs(u0[e]) > Math.abs(u0[best])) best = e; e++; }

@@ -4,6 +4,7 @@ import { trendDualInteriorPoint, trendOperator, TrendOperator, INTERIOR_POINT_RU
 import { polishTrend } from './polishTrend';
 import { weightedPolynomialFit } from './weightedPolynomialFit';
 import { dualFromResidual } from './dualFromResidual';
+import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } from './trendAdmm';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -19,6 +20,8 @@ export interface TrendProblem {
   poly?: { b: Float64Array; u: Float64Array; lambdaMax: number };
   /** Dual of the weighted polynomial fit on x01 (refinement restarts), built on first use. */
   polyDual?: Float64Array;
+  /** Rows of the ADMM split operator ({@link scaledDifferenceRows}), built on first use. */
+  admmRows?: Float64Array;
 }
 
 /** Solution of {@link solveTrend}. */
@@ -30,7 +33,15 @@ export interface TrendFit {
   /** Knot rows of D(x, k+1) (row r = knot at point r + k, or r + 1 for k = 0). */
   knotRows: number[];
   status: SolverStatus;
+  /** ADMM state when the ADMM ran (warm start for the next penalty). */
+  admm?: AdmmState;
 }
+
+/** Iteration limit of the ADMM when it seeds the refinement. */
+const ADMM_SEED_ITERATIONS = 1000;
+
+/** The ADMM hands over to the refinement once its knots have not changed for this many iterations. */
+const ADMM_STABLE_ITERATIONS = 2;
 
 /** Refinement after a converged interior point is done when n (k + 1 + knots)^2 is at most this. */
 const CHEAP_REFINEMENT = 2e7;
@@ -42,7 +53,7 @@ export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weight
 
 export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations or tolerance';
 
-export const TREND_RULE = `${INTERIOR_POINT_RULE}, or else (and whenever cheap) an exact active-set refinement whose result is kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
+export const TREND_RULE = `${INTERIOR_POINT_RULE}; for order 1 where that stalls, ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations; then, or else (and whenever cheap), an exact active-set refinement whose result is kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
 /** Relative size below which an entry of D b counts as zero for k >= 1 without refinement: the interior-point error in D b off the knots is of order gap / (m * distance of u to the bound), far below this. */
 export const KNOT_RELATIVE = 1e-8;
@@ -56,8 +67,12 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * from `warm`), followed by the exact active-set refinement of
  * {@link polishTrend} when the interior point did not converge, or when it did
  * and the refinement is cheap (k = 1, where it is O(n), or n (k + 1 + knots)^2 <= 2e7). With `refine` false
- * (cross-validation folds, which only need predictions) there is no refinement. When the interior point does
- * not converge and that refinement fails, the refinement is restarted from the
+ * (cross-validation folds, which only need predictions) there is no refinement. A converged interior
+ * point seeds the refinement with its knots. For k = 1, when the interior point does not converge (long
+ * series: its Newton matrix is ill-conditioned), the ADMM of {@link trendAdmm}, started from the interior
+ * point's iterate, runs until its knots are unchanged for {@link ADMM_STABLE_ITERATIONS} iterations (at most 1000) and seeds the
+ * refinement with them; the ADMM's own certified iterate is kept when the refinement does no better.
+ * When the interior point does not converge and the refinement fails, the refinement is restarted from the
  * previous penalty's knots, else run as a continuation from lambda_max
  * (4 geometric steps per decade, each started from the last one's knots).
  *
@@ -115,7 +130,39 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   const cheap = k === 1 || n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
   let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], achieved: Infinity, rounds: 0 };
   if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
-  if (!sol.status.converged || cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b);
+  // a converged interior point knows the knots: start the refinement from them (the rows where
+  // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
+  if (sol.status.converged && cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));
+  let admmIterations = 0;
+  let admm: AdmmResult | undefined;
+  if (!sol.status.converged && k === 1) {
+    // the interior point stalled (long series): the ADMM finds the knots, the refinement makes them exact
+    if (!prob.admmRows) prob.admmRows = scaledDifferenceRows(x, k);
+    // warm start from the interior point's iterate: alpha = T b, rho s = D1^T u (rho = lambda)
+    const mt = n - k;
+    const alpha = new Float64Array(mt), sc = new Float64Array(mt);
+    const T = prob.admmRows;
+    for (let r = 0; r < mt; r++) {
+      let a = 0;
+      for (let c = 0; c <= k; c++) a += T[r * (k + 1) + c] * sol.b[r + c];
+      alpha[r] = a;
+      sc[r] = ((r < mt - 1 ? -sol.u[r] : 0) + (r > 0 ? sol.u[r - 1] : 0)) / lambda;
+    }
+    admm = trendAdmm(x, y, w, k, lambda, tolerance, ADMM_SEED_ITERATIONS, { alpha, s: sc, rho: lambda }, prob.admmRows, ADMM_STABLE_ITERATIONS);
+    admmIterations = admm.status.iterations;
+    const ua = new Float64Array(admm.u.length);
+    for (let r = 0; r < ua.length; r++) ua[r] = admm.u[r] / f;
+    pol = polishTrend(prob.x01, y, w, k, lambda / f, ua, undefined, prob.poly.b, admm.knots);
+    if (pol.ok && pol.achieved <= tolerance) {
+      const u = new Float64Array(pol.u.length);
+      for (let r = 0; r < u.length; r++) u[r] = pol.u[r] * f;
+      return {
+        b: pol.b, u, lambda, knotRows: pol.knots, admm: admm.state,
+        status: { converged: true, iterations: sol.status.iterations + admmIterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
+      };
+    }
+  }
+  if (!pol.ok && !sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b);
   if (!pol.ok && !sol.status.converged && warm) {
     // a warm start can stall where a cold one does not
     const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
@@ -168,12 +215,18 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
       }
     }
   }
-  if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved)) {
+  if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved) && !(admm && admm.achieved < pol.achieved)) {
     const u = new Float64Array(pol.u.length);
     for (let r = 0; r < u.length; r++) u[r] = pol.u[r] * f;
     return {
-      b: pol.b, u, lambda, knotRows: pol.knots,
-      status: { converged: pol.achieved <= tolerance, iterations: sol.status.iterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
+      b: pol.b, u, lambda, knotRows: pol.knots, admm: admm?.state,
+      status: { converged: pol.achieved <= tolerance, iterations: sol.status.iterations + admmIterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
+    };
+  }
+  if (admm && admm.achieved < sol.status.achieved) {
+    return {
+      b: admm.b, u: admm.u, lambda, knotRows: knotRowsOf(prob, admm.b, admm.u, lambda), admm: admm.state,
+      status: { converged: admm.achieved <= tolerance, iterations: sol.status.iterations + admmIterations, tolerance, achieved: admm.achieved, stoppingRule: TREND_RULE },
     };
   }
   const knotRows = knotRowsOf(prob, sol.b, sol.u, lambda);

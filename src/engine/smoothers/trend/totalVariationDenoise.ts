@@ -20,6 +20,7 @@
  * @param w - positive weights (length n)
  * @param lambda - penalty >= 0, in units of y (times weight)
  * @param out - optional output of length n
+ * @param work - optional workspace from {@link totalVariationWorkspace} for this n (saves allocations in iterations that call this repeatedly)
  * @returns the minimiser b (length n)
  * @example
  * ```ts
@@ -27,7 +28,7 @@
  * ```
  * Unchecked: weights must be positive and finite.
  */
-export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>, lambda: number, out?: Float64Array): Float64Array {
+export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>, lambda: number, out?: Float64Array, work?: TotalVariationWorkspace): Float64Array {
   const n = y.length;
   const b = out && out.length >= n ? out : new Float64Array(n);
   if (n === 0) return b;
@@ -35,14 +36,10 @@ export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>
     for (let i = 0; i < n; i++) b[i] = y[i];
     return b;
   }
-  const cap = 2 * n + 2;
-  const pos = new Float64Array(cap);
-  const da = new Float64Array(cap);
-  const dc = new Float64Array(cap);
+  const ws = work && work.lo.length >= n ? work : totalVariationWorkspace(n);
+  const { pos, da, dc, lo, hi } = ws;
   let head = n + 1; // first knot
   let tail = n + 1; // one past the last knot
-  const lo = new Float64Array(n);
-  const hi = new Float64Array(n);
   for (let i = 0; i < n - 1; i++) {
     const wi = w[i];
     const ci = -wi * y[i];
@@ -95,4 +92,13 @@ export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>
     b[i] = v < lo[i] ? lo[i] : v > hi[i] ? hi[i] : v;
   }
   return b;
+}
+
+/** Work arrays of {@link totalVariationDenoise}. */
+export interface TotalVariationWorkspace { pos: Float64Array; da: Float64Array; dc: Float64Array; lo: Float64Array; hi: Float64Array }
+
+/** Allocates the work arrays of {@link totalVariationDenoise} for series of length up to n. Unchecked. */
+export function totalVariationWorkspace(n: number): TotalVariationWorkspace {
+  const cap = 2 * n + 2;
+  return { pos: new Float64Array(cap), da: new Float64Array(cap), dc: new Float64Array(cap), lo: new Float64Array(n), hi: new Float64Array(n) };
 }
