@@ -2,7 +2,8 @@
  * Benchmark of trend filtering: one JSON record per measurement.
  *
  * - single penalty (1e-3 lambda_max, penalty given) for k = 1 and 3 at n = 1e3 .. 1e6:
- *   time, iterations, relative duality gap reached, knots, heap growth;
+ *   time, iterations (interior-point iterations + ADMM iterations + refinement rounds),
+ *   relative duality gap reached, knots, heap growth;
  * - full 5-fold cross-validation over 30 penalties with warm starts at n = 1e3, 1e4;
  * - SciPy bvls on the dual against fitTrend on the same data (small n);
  * - MSE against the truth versus df for trend filtering (Doppler: k = 1, 3; Blocks: k = 0, 1) and the cubic

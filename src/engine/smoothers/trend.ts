@@ -31,11 +31,13 @@
  * `tolerance` (default 1e-8) is the relative duality gap; ||b - b*||_W <= sqrt(2 gap).
  *
  * Limitations: the dual interior point loses accuracy on long stretches
- * without knots (its Newton matrix has condition number of order L^(2k+2));
- * the refinement then carries the fit, in O(n) per step for k = 1 but with
- * dense n x (k + 1 + knots) blocks for k = 2, 3. For k = 3 on long series
- * (about n >= 1e4) with few knots the solver can stop short of the tolerance;
- * the result then reports the gap reached and carries a 'not-converged' warning.
+ * without knots (its Newton matrix has condition number of order L^(2k+2)).
+ * For k = 1 the ADMM and the O(n)-per-step refinement then carry the fit. For
+ * k = 2, 3 the refinement uses dense n x (k + 1 + knots) blocks and the ADMM
+ * converges too slowly to help (thousands of iterations already at n = 150
+ * for k = 3), so on long series (about n >= 1e4) with few knots the solver can
+ * stop short of the tolerance; the result then reports the gap reached and
+ * carries a 'not-converged' warning.
  * A trend describes the past; its end values are revised as data arrive and
  * it is not a forecast (every result carries the 'boundary' note).
  */

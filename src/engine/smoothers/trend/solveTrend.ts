@@ -76,6 +76,8 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * previous penalty's knots, else run as a continuation from lambda_max
  * (4 geometric steps per decade, each started from the last one's knots).
  *
+ * `status.iterations` counts interior-point iterations, ADMM iterations and refinement rounds together.
+ *
  * Knot rows: k = 0, the rows where b jumps (exact); k >= 1 after a successful
  * refinement, the rows where D b is non-zero (exact zeros elsewhere); otherwise
  * rows with |u_r| >= lambda (1 - 1e-6) and |(D b)_r| > 1e-8 max |D b|.
