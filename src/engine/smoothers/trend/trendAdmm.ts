@@ -139,16 +139,40 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
   const pen = lambda / rho;
   let iter = 0;
   let converged = false;
+  // k = 1: the b step as one forward and one backward sweep with the reciprocal pivots
+  const inv = k === 1 ? new Float64Array(n) : undefined;
+  if (inv) for (let i = 0; i < n; i++) inv[i] = 1 / band[2 * i];
   while (iter < maxIterations) {
     iter++;
-    // b step
-    for (let r = 0; r < mt; r++) z[r] = rho * (alpha[r] - s[r]);
-    transposeRows(T, k, z, b);
-    for (let i = 0; i < n; i++) b[i] += wy[i];
-    bandedCholeskySolve(band, n, k, b);
+    if (inv) {
+      // b step: right-hand side W y + T^T (rho (alpha - s)), forward sweep, backward sweep fused with z = T b + s
+      let zp = 0, prev = 0;
+      for (let i = 0; i < n; i++) {
+        const zi = i < mt ? rho * (alpha[i] - s[i]) : 0;
+        const rhs = (i > 0 ? T[2 * (i - 1) + 1] * zp : 0) + (i < mt ? T[2 * i] * zi : 0) + wy[i];
+        prev = (i > 0 ? rhs - band[2 * i + 1] * prev : rhs) * inv[i];
+        b[i] = prev;
+        zp = zi;
+      }
+      let next = b[n - 1] * inv[n - 1];
+      b[n - 1] = next;
+      for (let i = n - 2; i >= 0; i--) {
+        const bi = (b[i] - band[2 * (i + 1) + 1] * next) * inv[i];
+        b[i] = bi;
+        z[i] = T[2 * i] * bi + T[2 * i + 1] * next + s[i];
+        next = bi;
+      }
+    } else {
+      // b step
+      for (let r = 0; r < mt; r++) z[r] = rho * (alpha[r] - s[r]);
+      transposeRows(T, k, z, b);
+      for (let i = 0; i < n; i++) b[i] += wy[i];
+      bandedCholeskySolve(band, n, k, b);
+      // alpha step input
+      applyRows(T, k, b, z);
+      for (let r = 0; r < mt; r++) z[r] += s[r];
+    }
     // alpha step
-    applyRows(T, k, b, z);
-    for (let r = 0; r < mt; r++) z[r] += s[r];
     totalVariationDenoise(z, ones, pen, alpha, tvWork);
     // s step, and the fused-lasso dual v = -cumsum(rho s) (mean of s removed: sum s = 0 in exact arithmetic)
     let sm = 0;
