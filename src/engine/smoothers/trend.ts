@@ -272,6 +272,7 @@ function curveOf(path: TrendPath, rule: string): CriterionPoint[] {
     df: p.df,
     ...(rule === 'cv' ? { se: p.cvSe } : {}),
     knots: p.knots,
+    converged: p.status.converged,
   }));
 }
 
@@ -343,10 +344,11 @@ function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendS
   const sigma = n > df ? Math.sqrt(rss / (n - df)) : NaN;
   const status: SolverStatus = fit.status;
   if (!status.converged) {
-    const far = !(status.achieved <= 1e-3);
-    warnings.push(warning('not-converged', far
-      ? `The trend solver failed: after ${status.iterations} iterations the relative duality gap is ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}), so the fitted values and knots are not reliable. Order ${k} on ${n} points is beyond what the solver handles accurately; use a lower order, a shorter series or a smaller penalty.`
-      : `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum (||fit - optimum||_W <= sqrt(2 gap)). Increase maxIterations or use a smaller penalty.`));
+    // A fit far from the optimum is not a result with a caveat but no result: refuse it.
+    if (!(status.achieved <= 1e-3)) {
+      throw new KnotwiseError('numerical', `trend filtering of order ${k} did not converge on these ${n} points (relative duality gap ${showNumber(status.achieved)} after ${status.iterations} iterations, asked ${showNumber(status.tolerance)}), so no reliable fit exists to return. Use order 1, a shorter series, or the spline.`);
+    }
+    warnings.push(warning('not-converged', `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum (||fit - optimum||_W <= sqrt(2 gap)). Increase maxIterations or use a smaller penalty.`));
   }
   warnings.push(...fitWarnings(n, df, resid, dataDriven));
   warnings.push(boundaryWarning());
