@@ -17,7 +17,7 @@ import { fitTrend, trendPenaltyMax } from '../../src/engine/smoothers/trend';
 import { getMethod } from '../../src/engine/registry';
 import { seriesFromArrays, Series } from '../../src/engine/series';
 import '../../src/engine/methods';
-import { doppler, blocks, seededNormal } from '../engine/smoothers/trendTestFunctions';
+import { doppler, blocks, seededNormal, noisyTestFunction } from '../engine/smoothers/trendTestFunctions';
 import { execFileSync } from 'child_process';
 
 declare const process: { memoryUsage(): { heapUsed: number; arrayBuffers: number } } | undefined;
@@ -48,15 +48,7 @@ export function benchSeries(n: number, seed: number): Series {
 /** MSE against the truth versus df, trend filtering and the spline, on one test function. */
 export function adaptivityTable(name: 'doppler' | 'blocks', n: number, dfs: number[], seed: number, orders: number[]): Record<string, unknown>[] {
   const f = name === 'doppler' ? doppler : blocks;
-  const rnorm = seededNormal(seed);
-  const x = new Float64Array(n), truth = new Float64Array(n), y = new Float64Array(n);
-  // signal-to-noise ratio 7 as in Donoho and Johnstone (1994): sd(f) / sigma = 7
-  for (let i = 0; i < n; i++) { x[i] = i / (n - 1); truth[i] = f(x[i]); }
-  let m = 0, v = 0;
-  for (let i = 0; i < n; i++) m += truth[i] / n;
-  for (let i = 0; i < n; i++) v += (truth[i] - m) ** 2 / n;
-  const sigma = Math.sqrt(v) / 7;
-  for (let i = 0; i < n; i++) y[i] = truth[i] + sigma * rnorm();
+  const { x, y, truth, sigma } = noisyTestFunction(f, n, seed);
   const s = seriesFromArrays(x, y);
   const mse = (fit: Float64Array) => { let e = 0; for (let i = 0; i < n; i++) e += (fit[i] - truth[i]) ** 2; return e / n; };
   const spline = getMethod('spline');

@@ -11,17 +11,10 @@ import { fitTrend } from '../../../src/engine/smoothers/trend';
 import { getMethod } from '../../../src/engine/registry';
 import { seriesFromArrays } from '../../../src/engine/series';
 import '../../../src/engine/methods';
-import { doppler, blocks, seededNormal } from './trendTestFunctions';
+import { doppler, blocks, noisyTestFunction } from './trendTestFunctions';
 
 function noisy(f: (t: number) => number, n: number, seed: number) {
-  const rnorm = seededNormal(seed);
-  const x = new Float64Array(n), truth = new Float64Array(n), y = new Float64Array(n);
-  for (let i = 0; i < n; i++) { x[i] = i / (n - 1); truth[i] = f(x[i]); }
-  let m = 0, v = 0;
-  for (let i = 0; i < n; i++) m += truth[i] / n;
-  for (let i = 0; i < n; i++) v += (truth[i] - m) ** 2 / n;
-  const sigma = Math.sqrt(v) / 7;
-  for (let i = 0; i < n; i++) y[i] = truth[i] + sigma * rnorm();
+  const { x, y, truth } = noisyTestFunction(f, n, seed);
   return { series: seriesFromArrays(x, y), truth };
 }
 

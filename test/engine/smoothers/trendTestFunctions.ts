@@ -34,3 +34,20 @@ export function seededNormal(seed: number): () => number {
     return r * Math.cos(2 * Math.PI * v);
   };
 }
+
+/**
+ * A test function sampled at n equispaced points on [0, 1] with seeded Gaussian
+ * noise at signal-to-noise ratio 7 (sd of the function / sigma = 7), the setting
+ * of Donoho and Johnstone (1994).
+ */
+export function noisyTestFunction(f: (t: number) => number, n: number, seed: number): { x: Float64Array; y: Float64Array; truth: Float64Array; sigma: number } {
+  const rnorm = seededNormal(seed);
+  const x = new Float64Array(n), truth = new Float64Array(n), y = new Float64Array(n);
+  for (let i = 0; i < n; i++) { x[i] = i / (n - 1); truth[i] = f(x[i]); }
+  let m = 0, v = 0;
+  for (let i = 0; i < n; i++) m += truth[i] / n;
+  for (let i = 0; i < n; i++) v += (truth[i] - m) ** 2 / n;
+  const sigma = Math.sqrt(v) / 7;
+  for (let i = 0; i < n; i++) y[i] = truth[i] + sigma * rnorm();
+  return { x, y, truth, sigma };
+}

@@ -36,6 +36,7 @@ import { differenceRows } from '../../linalg/differenceRows';
 import { differenceOperator } from '../../linalg/difference';
 import type { SolverStatus } from '../../types';
 import { totalVariationDenoise, totalVariationWorkspace } from './totalVariationDenoise';
+import { constantFitObjective } from './constantFitObjective';
 
 /** The stopping rule of {@link trendAdmm}, as reported in SolverStatus. */
 export const ADMM_RULE = 'ADMM (Ramdas and Tibshirani 2016) until the relative duality gap of the iterate against the fused-lasso dual scaled into the box, (P(b) - G(v)) / max(P(b), 1e-12 * null deviance), is at most the tolerance';
@@ -108,11 +109,7 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
     }
   }
   bandedCholesky(band, n, k);
-  let ybar = 0, sw = 0;
-  for (let i = 0; i < n; i++) { ybar += w[i] * y[i]; sw += w[i]; }
-  ybar /= sw;
-  let e0 = 0;
-  for (let i = 0; i < n; i++) e0 += 0.5 * w[i] * (y[i] - ybar) ** 2;
+  const e0 = constantFitObjective(y, w);
   const floor = 1e-12 * e0 + 1e-300;
   const wy = new Float64Array(n);
   for (let i = 0; i < n; i++) wy[i] = w[i] * y[i];

@@ -32,6 +32,7 @@ import { differenceRows } from '../../linalg/differenceRows';
 import { differenceOperator, differenceTranspose } from '../../linalg/difference';
 import type { SolverStatus } from '../../types';
 import { differenceGram, applyDifferenceGram } from './differenceGram';
+import { constantFitObjective } from './constantFitObjective';
 
 /** Result of a trend-filtering solve on the (scaled) problem. */
 export interface TrendSolution {
@@ -104,11 +105,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   const q = k + 1;
   const m = n - q;
   const wd = q + 1;
-  let ybar = 0, sw = 0;
-  for (let i = 0; i < n; i++) { ybar += w[i] * y[i]; sw += w[i]; }
-  ybar /= sw;
-  let e0 = 0;
-  for (let i = 0; i < n; i++) e0 += 0.5 * w[i] * (y[i] - ybar) ** 2;
+  const e0 = constantFitObjective(y, w);
   const floor = 1e-12 * e0 + 1e-300;
 
   const p = Float64Array.from(differenceOperator(x, q, y, new Float64Array(n)));
