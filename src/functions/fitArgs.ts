@@ -3,7 +3,7 @@
  * options. Values are passed through as typed; the engine validates them and
  * its messages name the offending value.
  */
-import { Cell, FitCache, FitOptions, cacheKey, fitCells, SeriesFit } from '../engine';
+import { Cell, FitCache, FitOptions, KnotwiseError, cacheKey, fitCells, SeriesFit } from '../engine';
 import { Matrix, Orientation, omitted, optionalNumber, optionalText, readColumn } from './cells';
 
 /** Raw worksheet arguments of a fitting function after y and x. */
@@ -18,18 +18,42 @@ export interface FitArgs {
   relaxed?: unknown;
 }
 
-/** Translates the rule text: "cv-1se" is cross-validation with the one-standard-error rule. */
+function setRule(o: FitOptions, r: string): void {
+  if (r === 'cv-1se') { o.select = 'cv'; o.oneSE = true; } else o.select = r as FitOptions['select'];
+}
+
+function asNumber(v: string): number | string {
+  return /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(v) ? Number(v) : v;
+}
+
+/**
+ * The rule argument: a rule name ("gcv", "cv", "cv-1se", "sure", "bic"), or
+ * settings separated by semicolons, e.g. "cv; folds=10" or "df=8", so the
+ * optional arguments need not be counted out with empty commas. A later
+ * positional argument, when given, wins.
+ */
+function settings(text: string): [string, string][] {
+  return text.split(';').map((p) => p.trim()).filter((p) => p !== '').map((p) => {
+    const eq = p.indexOf('=');
+    return eq < 0 ? ['rule', p.toLowerCase()] : [p.slice(0, eq).trim().toLowerCase(), p.slice(eq + 1).trim().toLowerCase()];
+  });
+}
+
+/** Translates the worksheet arguments into engine options; the engine validates the values. */
 export function toOptions(a: FitArgs): FitOptions {
   const o: FitOptions = {};
   const method = optionalText(a.method);
   if (method !== undefined) o.method = method.trim().toLowerCase();
-  const order = optionalNumber(a.order);
-  if (order !== undefined) o.order = order;
   const rule = optionalText(a.rule);
   if (rule !== undefined) {
-    const r = rule.trim().toLowerCase();
-    if (r === 'cv-1se') { o.select = 'cv'; o.oneSE = true; } else o.select = r as FitOptions['select'];
+    for (const [key, value] of settings(rule)) {
+      if (key === 'rule') setRule(o, value);
+      else if (key === 'df' || key === 'penalty' || key === 'folds' || key === 'relaxed' || key === 'order') (o as Record<string, unknown>)[key] = asNumber(value);
+      else throw new KnotwiseError('bad-option', `unknown setting "${key}" in "${rule}"; use rule, df, penalty, folds, relaxed or order, e.g. "cv; folds=10" or "df=8".`);
+    }
   }
+  const order = optionalNumber(a.order);
+  if (order !== undefined) o.order = order;
   const penalty = optionalNumber(a.penalty);
   if (penalty !== undefined) o.penalty = penalty;
   const df = optionalNumber(a.df);

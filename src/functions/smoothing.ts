@@ -15,7 +15,7 @@ import { fitFromCells } from './fitArgs';
  * @param [x] Positions of the values (dates, times, any numbers), same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "spline" (default: natural cubic smoothing spline) or "trend" (L1 trend filtering, knots chosen by the data).
  * @param [order] Trend filtering order: 0 level shifts, 1 kinks (default), 2 or 3 smooth bends.
- * @param [rule] How to choose the penalty: "gcv" (spline default), "cv" (trend default), "cv-1se", "sure" or "bic" (trend).
+ * @param [rule] How to choose the penalty: "gcv" (spline default), "cv" (trend default), "cv-1se", "sure" or "bic" (trend); or settings such as "df=8", "penalty=500" or "cv; folds=10".
  * @param [penalty] A fixed penalty lambda instead of a rule (units: see the README).
  * @param [df] A target equivalent degrees of freedom instead of a rule.
  * @param [weights] Positive weights, same size as y (e.g. number of orders behind each value).
@@ -48,7 +48,7 @@ export function smooth(y: any[][], x?: any[][], method?: string, order?: number,
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "spline" (default) or "trend".
  * @param [order] Trend filtering order 0 to 3 (default 1).
- * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic".
+ * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic"; or settings such as "df=8" or "cv; folds=10".
  * @param [penalty] A fixed penalty (returned as given, with its df in the curve).
  * @param [df] A target equivalent degrees of freedom.
  * @param [weights] Positive weights, same size as y.
@@ -74,7 +74,7 @@ export function penalty(y: any[][], x?: any[][], method?: string, order?: number
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "spline" (default) or "trend".
  * @param [order] Trend filtering order 0 to 3 (default 1).
- * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic".
+ * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic"; or settings such as "df=8" or "cv; folds=10".
  * @param [penalty] A fixed penalty lambda.
  * @param [df] A target equivalent degrees of freedom.
  * @param [weights] Positive weights, same size as y.
@@ -111,7 +111,7 @@ export function summary(y: any[][], x?: any[][], method?: string, order?: number
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "trend" (default here) or "spline" (which has no data-chosen knots).
  * @param [order] Trend filtering order: 0 jumps, 1 slope changes (default), 2 or 3 changes in curvature.
- * @param [rule] "cv" (default), "cv-1se", "sure" or "bic".
+ * @param [rule] "cv" (default), "cv-1se", "sure" or "bic"; or settings such as "df=12" or "cv; folds=10".
  * @param [penalty] A fixed penalty lambda.
  * @param [df] A target equivalent degrees of freedom.
  * @param [weights] Positive weights, same size as y.
@@ -135,7 +135,7 @@ export function knots(y: any[][], x?: any[][], method?: string, order?: number, 
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "spline" (default) or "trend".
  * @param [order] Trend filtering order 0 to 3 (default 1).
- * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic".
+ * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic"; or settings such as "df=8" or "cv; folds=10".
  * @param [penalty] A fixed penalty lambda.
  * @param [df] A target equivalent degrees of freedom.
  * @param [weights] Positive weights, same size as y.

@@ -46,6 +46,24 @@ describe('SMOOTH', () => {
   });
 });
 
+describe('settings in the rule argument', () => {
+  test('"df=8" equals the df argument, and "cv; folds=5" sets both', () => {
+    const a = smooth(col(ys), col(xs), 'spline', undefined, 'df=4');
+    const b = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4);
+    expect(a).toEqual(b);
+    const s = summary(col(ys), col(xs), 'spline', undefined, 'cv; folds=5');
+    expect(s.find((r) => r[0] === 'criterion')?.[1]).toBe('cv');
+  });
+  test('an unknown setting is refused with the allowed names', () => {
+    expect(() => smooth(col(ys), col(xs), 'spline', undefined, 'smoothness=3')).toThrow(/unknown setting "smoothness" in "smoothness=3"; use rule, df, penalty, folds, relaxed or order/);
+  });
+  test('a positional argument wins over the same setting', () => {
+    const a = smooth(col(ys), col(xs), 'spline', undefined, 'df=4', undefined, 6);
+    const b = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 6);
+    expect(a).toEqual(b);
+  });
+});
+
 describe('the fit cache', () => {
   test('several functions on the same range and options fit once', () => {
     clearFitCache();
