@@ -4,6 +4,8 @@
  * a number; an empty field becomes null (a blank cell); anything else stays
  * text, so the engine's intake reports it instead of guessing.
  */
+import { numberFromText } from '../engine/numberText';
+
 export interface Table {
   header: string[];
   rows: (number | string | null)[][];
@@ -41,13 +43,9 @@ export function parseCsv(text: string): Table {
   return { header: header.map((h) => h.trim()), rows: body.map((r) => r.map(toValue)) };
 }
 
-const NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
-
 function toValue(f: string): number | string | null {
-  const t = f.trim();
-  if (t === '') return null;
-  if (NUMBER.test(t)) return Number(t);
-  return f;
+  if (f.trim() === '') return null;
+  return numberFromText(f) ?? f;
 }
 
 /** Finds a column by header name (exact, then case-insensitive) or 1-based number. */

@@ -3,7 +3,7 @@
  * over the engine: it reads columns, calls the same entry points as the
  * worksheet functions, and prints what comes back.
  */
-import { Cell, FitOptions, breaksFromCells, evaluate, fitCells, isKnotwiseError } from '../engine';
+import { Cell, FitOptions, breaksFromCells, evaluate, fitCells, isKnotwiseError, numberFromText, ruleOptions, toRows } from '../engine';
 import type { BreaksOptions } from '../engine/breaks/types';
 import { CliError, Table, columnIndex, parseCsv } from './csv';
 import { BREAKS, FIT, Parsed, helpText, parseArgs } from './options';
@@ -20,8 +20,7 @@ const fail = (m: string): never => { throw new CliError(m); };
 /** A flag's value as a number when it reads as one, else the text (the engine names it in its message). */
 function numberOrText(v: string | undefined): number | string | undefined {
   if (v === undefined) return undefined;
-  const t = v.trim();
-  return /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t) ? Number(t) : t;
+  return numberFromText(v) ?? v.trim();
 }
 
 function one(p: Parsed, flag: string): string | undefined {
@@ -63,11 +62,10 @@ function fitOne(p: Parsed, name: string, y: Cell[], x: Cell[] | null, w: Cell[] 
   set('--folds', 'folds');
   set('--relaxed', 'relaxed');
   const select = one(p, '--select');
-  if (select !== undefined) options.select = select as FitOptions['select'];
+  if (select !== undefined) Object.assign(options, ruleOptions(select));
   if (p.switches.has('--one-se')) options.oneSE = true;
   const { series, result } = fitCells(y, x, w, options);
-  const fitted: (number | null)[] = [];
-  for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; fitted.push(k >= 0 ? result.fitted[k] : null); }
+  const fitted = toRows(series, result.fitted, null);
   const out: Record<string, unknown> = {
     column: name, method: result.method, n: series.n, nRows: series.nRows, nUsed: series.nUsed,
     dropped: series.dropped.length, tiesMerged: series.tiesMerged,
@@ -119,8 +117,7 @@ function breaksOne(p: Parsed, name: string, y: Cell[], x: Cell[] | null, w: Cell
   const sg = numberOrText(one(p, '--sigma'));
   if (sg !== undefined) options.sigma = sg as number;
   const { series, result } = breaksFromCells(y, x, w, options);
-  const fitted: (number | null)[] = [];
-  for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; fitted.push(k >= 0 ? result.fitted[k] : null); }
+  const fitted = toRows(series, result.fitted, null);
   const seg = (s: typeof result.segments[number]) => {
     const o: Record<string, unknown> = { rowStart: s.rowStart + 1, rowEnd: s.rowEnd + 1, xStart: s.xStart, xEnd: s.xEnd, n: s.n };
     for (const k of ['mean', 'sd', 'rate', 'median', 'slope', 'intercept'] as const) if (Number.isFinite(s[k])) o[k] = s[k];

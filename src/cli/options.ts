@@ -37,7 +37,7 @@ export const FIT: CommandSpec = {
     { flag: '--order', value: 'K', help: 'trend filtering order 0..3 (default 1)' },
     { flag: '--penalty', value: 'VALUE', help: 'fixed penalty lambda' },
     { flag: '--df', value: 'D', help: 'target equivalent degrees of freedom' },
-    { flag: '--select', value: 'RULE', help: 'penalty rule: gcv | cv (spline); cv | sure | bic (trend)' },
+    { flag: '--select', value: 'RULE', help: 'penalty rule: gcv | cv | cv-1se (spline); cv | cv-1se | sure | bic (trend)' },
     { flag: '--folds', value: 'K', help: 'cross-validation folds' },
     { flag: '--one-se', help: 'with cv: the largest penalty within one standard error of the best' },
     { flag: '--relaxed', value: 'R', implied: '1', help: 'trend: refit the pieces without shrinkage (--relaxed), or mix with --relaxed=R, R from 0 to 1' },

@@ -3,6 +3,7 @@
  * offending value and the allowed range.
  */
 import { KnotwiseError, showNumber } from './errors';
+import type { FitOptions, SelectRule } from './types';
 
 /** A finite number >= 0 (a penalty). */
 export function checkPenalty(v: unknown, name = 'penalty'): number {
@@ -34,6 +35,16 @@ export function checkChoice<T extends string>(v: unknown, name: string, allowed:
   const hit = allowed.find((a) => a === s);
   if (!hit) throw new KnotwiseError('bad-option', `${name} must be one of ${allowed.map((a) => `"${a}"`).join(', ')}; got ${describe(v)}.`);
   return hit;
+}
+
+/**
+ * Options for a penalty rule as users write it: "cv-1se" is cross-validation
+ * with the one-standard-error rule; any other name is passed as `select`,
+ * where the method checks it. The one translation every front uses.
+ */
+export function ruleOptions(rule: string): Pick<FitOptions, 'select' | 'oneSE'> {
+  const r = rule.trim().toLowerCase();
+  return r === 'cv-1se' ? { select: 'cv', oneSE: true } : { select: r as SelectRule };
 }
 
 function describe(v: unknown): string {

@@ -10,6 +10,7 @@
  */
 import { KnotwiseError, showNumber } from './errors';
 import { Warning, warning, listRows } from './warnings';
+import { numberFromText } from './numberText';
 
 /** An error cell as the fronts pass it on (Excel's #N/A, #DIV/0! ...). */
 export interface CellError {
@@ -103,7 +104,7 @@ function classify(v: Cell): { ok: true; value: number } | { ok: false; reason: D
   if (typeof v === 'string') {
     if (v.trim() === '') return { ok: false, reason: 'blank', text: '' };
     const t = v.trim();
-    if (/^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(t)) return { ok: false, reason: 'numeric-text', text: t };
+    if (numberFromText(t) !== undefined) return { ok: false, reason: 'numeric-text', text: t };
     return { ok: false, reason: 'text', text: t.length > 20 ? t.slice(0, 20) + '...' : t };
   }
   if (typeof v === 'boolean') return { ok: false, reason: 'boolean', text: v ? 'TRUE' : 'FALSE' };

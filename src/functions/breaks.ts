@@ -3,24 +3,21 @@
  * share one cached segmentation when called on the same range and options.
  */
 import { BreaksOptions } from '../engine/breaks/types';
-import { Cell, FitCache, SeriesBreaks, breaksFromCells, cacheKey, toRows } from '../engine';
-import { Matrix, Orientation, cellNumber, omitted, optionalNumber, optionalText, readColumn, shapeLike } from './cells';
+import { FitCache, SeriesBreaks, breaksFromCells, cacheKey, toRows } from '../engine';
+import { Matrix, Orientation, cellNumber, optionalNumber, optionalText, readInputs, shapeLike } from './cells';
 import { guarded } from './excelErrors';
 
 const cache = new FitCache<SeriesBreaks & { orientation: Orientation }>(16);
 
 function segment(y: Matrix, x: unknown, model: unknown, penalty: unknown, minSegment: unknown, weights: unknown, crops?: [unknown, unknown]): SeriesBreaks & { orientation: Orientation } {
-  const yc = readColumn(y, 'y');
-  const xc: Cell[] | null = omitted(x) ? null : readColumn(x as Matrix, 'x').cells;
-  const wc: Cell[] | null = omitted(weights) ? null : readColumn(weights as Matrix, 'weights').cells;
+  const d = readInputs(y, x, weights);
   const options = { model: (optionalText(model) ?? 'mean').trim().toLowerCase() } as BreaksOptions;
   const p = optionalNumber(penalty);
   if (p !== undefined) options.penalty = (typeof p === 'string' ? (p as string).trim().toLowerCase() : p) as BreaksOptions['penalty'];
   const m = optionalNumber(minSegment);
   if (m !== undefined) options.minSegment = m;
   if (crops) options.crops = [optionalNumber(crops[0]) as number, optionalNumber(crops[1]) as number];
-  const key = cacheKey(['breaks', yc.cells, xc, wc, options]);
-  return cache.get(key, () => ({ ...breaksFromCells(yc.cells, xc, wc, options), orientation: yc.orientation }));
+  return cache.get(cacheKey(['breaks', d.y, d.x, d.w, options]), () => ({ ...breaksFromCells(d.y, d.x, d.w, options), orientation: d.orientation }));
 }
 
 const blank = (v: number) => (Number.isFinite(v) ? v : '');

@@ -11,14 +11,11 @@ export type Matrix = unknown[][];
 /** Whether a range runs down a column (or is a single cell) or along a row. */
 export type Orientation = 'column' | 'row';
 
+const isBlank = (s: unknown): boolean => s === null || s === undefined || s === '';
+
 /** An omitted optional argument arrives as null or undefined; a blank cell reference as a 1 x 1 range holding "" or null. */
 export function omitted(v: unknown): boolean {
-  if (v === null || v === undefined) return true;
-  if (Array.isArray(v) && v.length === 1 && Array.isArray(v[0]) && v[0].length === 1) {
-    const c = v[0][0];
-    return c === null || c === undefined || c === '';
-  }
-  return false;
+  return isBlank(scalar(v));
 }
 
 function toCell(v: unknown): Cell {
@@ -53,15 +50,24 @@ export function scalar(v: unknown): unknown {
 /** An optional number argument: omitted -> undefined; anything else is passed to the engine as typed, which validates it. */
 export function optionalNumber(v: unknown): number | undefined {
   const s = scalar(v);
-  if (s === null || s === undefined || s === '') return undefined;
-  return s as number;
+  return isBlank(s) ? undefined : (s as number);
 }
 
 /** An optional text argument: omitted -> undefined. */
 export function optionalText(v: unknown): string | undefined {
   const s = scalar(v);
-  if (s === null || s === undefined || s === '') return undefined;
-  return typeof s === 'string' ? s : String(s);
+  return isBlank(s) ? undefined : String(s);
+}
+
+/** y, and x and weights when given, as engine cells; the orientation of y shapes the output. */
+export function readInputs(y: Matrix, x: unknown, weights: unknown): { y: Cell[]; x: Cell[] | null; w: Cell[] | null; orientation: Orientation } {
+  const yc = readColumn(y, 'y');
+  return {
+    y: yc.cells,
+    x: omitted(x) ? null : readColumn(x as Matrix, 'x').cells,
+    w: omitted(weights) ? null : readColumn(weights as Matrix, 'weights').cells,
+    orientation: yc.orientation,
+  };
 }
 
 /** Replaces NaN and infinities (which Excel cannot hold) by blank cells. */

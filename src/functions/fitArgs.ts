@@ -3,8 +3,8 @@
  * options. Values are passed through as typed; the engine validates them and
  * its messages name the offending value.
  */
-import { Cell, FitCache, FitOptions, KnotwiseError, cacheKey, fitCells, SeriesFit } from '../engine';
-import { Matrix, Orientation, omitted, optionalNumber, optionalText, readColumn } from './cells';
+import { FitCache, FitOptions, KnotwiseError, cacheKey, fitCells, numberFromText, ruleOptions, SeriesFit } from '../engine';
+import { Matrix, Orientation, optionalNumber, optionalText, readInputs } from './cells';
 
 /** Raw worksheet arguments of a fitting function after y and x. */
 export interface FitArgs {
@@ -18,13 +18,6 @@ export interface FitArgs {
   relaxed?: unknown;
 }
 
-function setRule(o: FitOptions, r: string): void {
-  if (r === 'cv-1se') { o.select = 'cv'; o.oneSE = true; } else o.select = r as FitOptions['select'];
-}
-
-function asNumber(v: string): number | string {
-  return /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/.test(v) ? Number(v) : v;
-}
 
 /**
  * The rule argument: a rule name ("gcv", "cv", "cv-1se", "sure", "bic"), or
@@ -47,8 +40,8 @@ export function toOptions(a: FitArgs): FitOptions {
   const rule = optionalText(a.rule);
   if (rule !== undefined) {
     for (const [key, value] of settings(rule)) {
-      if (key === 'rule') setRule(o, value);
-      else if (key === 'df' || key === 'penalty' || key === 'folds' || key === 'relaxed' || key === 'order') (o as Record<string, unknown>)[key] = asNumber(value);
+      if (key === 'rule') Object.assign(o, ruleOptions(value));
+      else if (key === 'df' || key === 'penalty' || key === 'folds' || key === 'relaxed' || key === 'order') (o as Record<string, unknown>)[key] = numberFromText(value) ?? value;
       else throw new KnotwiseError('bad-option', `unknown setting "${key}" in "${rule}"; use rule, df, penalty, folds, relaxed or order, e.g. "cv; folds=10" or "df=8".`);
     }
   }
@@ -69,12 +62,9 @@ const cache = new FitCache<SeriesFit & { orientation: Orientation }>(16);
 
 /** Fits (or reuses the cached fit of) y, x and the argument tail. */
 export function fitFromCells(y: Matrix, x: unknown, args: FitArgs): SeriesFit & { orientation: Orientation } {
-  const yc = readColumn(y, 'y');
-  const xc: Cell[] | null = omitted(x) ? null : readColumn(x as Matrix, 'x').cells;
-  const wc: Cell[] | null = omitted(args.weights) ? null : readColumn(args.weights as Matrix, 'weights').cells;
+  const d = readInputs(y, x, args.weights);
   const options = toOptions(args);
-  const key = cacheKey(['fit', yc.cells, xc, wc, options]);
-  return cache.get(key, () => ({ ...fitCells(yc.cells, xc, wc, options), orientation: yc.orientation }));
+  return cache.get(cacheKey(['fit', d.y, d.x, d.w, options]), () => ({ ...fitCells(d.y, d.x, d.w, options), orientation: d.orientation }));
 }
 
 /** Empties the shared fit cache (tests, and the pane after edits). */

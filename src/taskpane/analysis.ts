@@ -3,7 +3,7 @@
  * and the engine's result into what the pane shows. No numerics here: the
  * engine fits, checks and warns; this only arranges.
  */
-import { Cell, FitOptions, Warning, breaksFromCells, evaluate, fitCells } from '../engine';
+import { Cell, FitOptions, Warning, breaksFromCells, evaluate, fitCells, numberFromText, ruleOptions, toRows } from '../engine';
 import type { BreaksModel, BreaksOptions } from '../engine/breaks/types';
 import type { CellBlock } from './workbook';
 
@@ -41,7 +41,6 @@ export interface View {
   warnings: Warning[];
   /** Criterion against df, with the chosen point, for "why this penalty". */
   curve?: { df: number[]; score: number[]; chosenDf: number; chosenScore: number; name: string; xLabel: string; step?: boolean };
-  /** CROPS-like table of changes against cost, for changepoints. */
   /** One value per selected data row (header excluded), blank where dropped: what "write" puts in the sheet. */
   column: unknown[];
   columnHeader: string;
@@ -57,7 +56,7 @@ export function splitSelection(block: CellBlock): { header: string[] | null; x: 
   const nc = v[0]?.length ?? 0;
   if (nc < 1 || nc > 3) throw new Error(`select one column (y), two (x then y) or three (x, y, weights); the selection ${block.address} has ${nc} columns.`);
   const yCol = nc === 1 ? 0 : 1;
-  const isText = (c: unknown) => typeof c === 'string' && c.trim() !== '' && !/^[-+]?[\d.]+([eE][-+]?\d+)?$/.test(c.trim());
+  const isText = (c: unknown) => typeof c === 'string' && c.trim() !== '' && numberFromText(c) === undefined;
   const hasHeader = v.length > 1 && v[0].every(isText) && typeof v[1][yCol] === 'number';
   const body = hasHeader ? v.slice(1) : v;
   const col = (j: number) => body.map((r) => r[j] as Cell);
@@ -70,15 +69,18 @@ export function splitSelection(block: CellBlock): { header: string[] | null; x: 
   };
 }
 
+/** The pane's penalty choice as smoother options; rules a smoother lacks go to the engine, which refuses them by name. */
 function penaltyOptions(p: PenaltyChoice): FitOptions {
-  switch (p.rule) {
-    case 'auto': return {};
-    case 'cv-1se': return { select: 'cv', oneSE: true };
-    case 'df': return { df: p.value };
-    case 'value': return { penalty: p.value };
-    case 'mbic': return { select: 'bic' };
-    default: return { select: p.rule };
-  }
+  if (p.rule === 'auto') return {};
+  if (p.rule === 'df') return { df: p.value };
+  if (p.rule === 'value') return { penalty: p.value };
+  return ruleOptions(p.rule);
+}
+
+/** The pane's penalty choice as changepoint options; rules segmentation lacks go to the engine, which refuses them by name. */
+function breaksPenalty(p: PenaltyChoice): Pick<BreaksOptions, 'penalty'> {
+  if (p.rule === 'auto') return {};
+  return { penalty: p.rule === 'value' ? p.value : (p.rule as BreaksOptions['penalty']) };
 }
 
 /** Runs the chosen analysis on a selection. Throws the engine's errors unchanged. */
@@ -94,8 +96,7 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
       const xs = Array.from({ length: 12 }, (_, i) => from + ((to - from) * i) / 11);
       return { x: xs, y: Array.from(evaluate(result, xs).value) };
     };
-    const column: unknown[] = [];
-    for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; column.push(k >= 0 ? result.fitted[k] : ''); }
+    const column = toRows(series, result.fitted, '');
     const curve = result.criterion.curve && result.criterion.curve.length > 1
       ? { df: result.criterion.curve.map((p) => p.df), score: result.criterion.curve.map((p) => p.score), chosenDf: result.df, chosenScore: result.criterion.value, name: `${result.criterion.name} score`, xLabel: 'degrees of freedom' }
       : undefined;
@@ -118,10 +119,7 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
       table: [['x', 'row', 'change'], ...result.knots.map((k) => [k.x, k.row + 1, k.change])],
     };
   }
-  const bo: BreaksOptions = { model: choice.model };
-  if (pen.rule === 'value') bo.penalty = pen.value;
-  else if (pen.rule === 'mbic') bo.penalty = 'mbic';
-  else if (pen.rule === 'bic') bo.penalty = 'bic';
+  const bo: BreaksOptions = { model: choice.model, ...breaksPenalty(pen) };
   const { series, result } = breaksFromCells(sel.y, sel.x, sel.w, bo);
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
   // The slope model's exact search is costly, so its path is drawn on shorter series only.
@@ -133,8 +131,7 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
       curve = { df: path.map((c) => c.changes), score: path.map((c) => c.cost), chosenDf: result.breaks.length, chosenScore: result.cost, name: 'cost', xLabel: 'number of changes', step: true };
     }
   }
-  const column: unknown[] = [];
-  for (let r = 0; r < series.nRows; r++) { const k = series.rowOf[r]; column.push(k >= 0 ? result.fitted[k] : ''); }
+  const column = toRows(series, result.fitted, '');
   return {
     title: `Changepoints (${choice.model})`, x: series.x, y: series.y, fitted: result.fitted, xDates: !!block.firstColumnDates && !!sel.x,
     boundaryPoints: 0,

@@ -44,8 +44,9 @@ export class ExcelWorkbook implements Workbook {
   }
 
   private besideRange(ctx: Excel.RequestContext, source: CellBlock): Excel.Range {
-    const sheetAndCells = source.address.includes('!') ? source.address : `${source.address}`;
-    const [sheet, cells] = sheetAndCells.includes('!') ? sheetAndCells.split('!') : [undefined, sheetAndCells];
+    const bang = source.address.lastIndexOf('!');
+    const sheet = bang >= 0 ? source.address.slice(0, bang) : undefined;
+    const cells = source.address.slice(bang + 1);
     const ws = sheet ? ctx.workbook.worksheets.getItem(sheet.replace(/^'|'$/g, '')) : ctx.workbook.worksheets.getActiveWorksheet();
     return ws.getRange(cells).getLastColumn().getOffsetRange(0, 1);
   }

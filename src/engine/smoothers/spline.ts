@@ -112,7 +112,7 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
 }
 
 /** K-fold CV score of the spline at scaled lambda. */
-function cvScorer(s: Scaled, k: number): (lt: number) => PenaltyScore & { foldScores: number[] } {
+function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: number } {
   const n = s.t.length;
   const fold = foldOf(n, k);
   const systems: { sys: ReinschSystem; t: Float64Array; held: number[] }[] = [];
@@ -141,7 +141,7 @@ function cvScorer(s: Scaled, k: number): (lt: number) => PenaltyScore & { foldSc
     let v = 0;
     for (const f of foldScores) v += (f - mean) * (f - mean);
     const se = Math.sqrt(v / (k - 1) / k);
-    return { score: total / totalW, df: NaN, se, foldScores };
+    return { score: total / totalW, se };
   };
 }
 
