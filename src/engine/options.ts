@@ -47,8 +47,12 @@ export function ruleOptions(rule: string): Pick<FitOptions, 'select' | 'oneSE'> 
   return r === 'cv-1se' ? { select: 'cv', oneSE: true } : { select: r as SelectRule };
 }
 
-function describe(v: unknown): string {
+/** An option value as printed in messages: numbers short, text quoted, arrays bracketed. */
+export function describeValue(v: unknown): string {
   if (typeof v === 'number') return showNumber(v);
   if (typeof v === 'string') return `"${v}"`;
+  if (Array.isArray(v)) return `[${v.map(describeValue).join(', ')}]`;
   return String(v);
 }
+
+const describe = describeValue;

@@ -1,7 +1,7 @@
 /**
  * Gaussian change-in-mean cost with a common known variance.
  */
-import type { SegmentCost } from './segmentCost';
+import { standardisedSums, type SegmentCost } from './segmentCost';
 
 /**
  * Builds the change-in-mean cost
@@ -24,19 +24,11 @@ import type { SegmentCost } from './segmentCost';
  * ```
  */
 export function meanCost(y: Float64Array, w: Float64Array, sigma: number, centre: number): SegmentCost {
-  const n = y.length;
-  const sw = new Float64Array(n + 1);
-  const s1 = new Float64Array(n + 1);
-  const s2 = new Float64Array(n + 1);
-  for (let i = 0; i < n; i++) {
-    const z = (y[i] - centre) / sigma;
-    sw[i + 1] = sw[i] + w[i];
-    s1[i + 1] = s1[i] + w[i] * z;
-    s2[i + 1] = s2[i] + w[i] * z * z;
-  }
+  const sums = standardisedSums(y, w, centre, sigma);
+  const { w: sw, s1, s2 } = sums;
   return {
-    n,
-    squaredErrorSums: { w: sw, s1, s2 },
+    n: y.length,
+    squaredErrorSums: sums,
     cost(s: number, t: number): number {
       const a = s1[t] - s1[s];
       const v = s2[t] - s2[s] - (a * a) / (sw[t] - sw[s]);

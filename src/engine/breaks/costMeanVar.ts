@@ -1,7 +1,7 @@
 /**
  * Gaussian change-in-mean-and-variance cost.
  */
-import type { SegmentCost } from './segmentCost';
+import { standardisedSums, type SegmentCost } from './segmentCost';
 
 const { log } = Math;
 
@@ -34,17 +34,8 @@ export const MEANVAR_FLOOR = 1e-8;
  * c.cost(0, y.length);
  * ```
  */
-export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, scale: number, floorVariance = MEANVAR_FLOOR): SegmentCost & { floored(s: number, t: number): boolean; variance(s: number, t: number): number } {
-  const n = y.length;
-  const sw = new Float64Array(n + 1);
-  const s1 = new Float64Array(n + 1);
-  const s2 = new Float64Array(n + 1);
-  for (let i = 0; i < n; i++) {
-    const z = (y[i] - centre) / scale;
-    sw[i + 1] = sw[i] + w[i];
-    s1[i + 1] = s1[i] + w[i] * z;
-    s2[i + 1] = s2[i] + w[i] * z * z;
-  }
+export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, scale: number, floorVariance = MEANVAR_FLOOR): SegmentCost & { floored(s: number, t: number): boolean } {
+  const { w: sw, s1, s2 } = standardisedSums(y, w, centre, scale);
   const floor = Math.max(MEANVAR_FLOOR, floorVariance);
   const variance = (s: number, t: number): number => {
     const W = sw[t] - sw[s];
@@ -53,16 +44,12 @@ export function meanVarCost(y: Float64Array, w: Float64Array, centre: number, sc
     return v > 0 ? v : 0;
   };
   return {
-    n,
+    n: y.length,
     cost(s: number, t: number): number {
-      const W = sw[t] - sw[s];
-      const a = s1[t] - s1[s];
-      let v = (s2[t] - s2[s] - (a * a) / W) / W;
-      if (!(v > 0)) v = 0;
+      const v = variance(s, t);
       const s2f = v > floor ? v : floor;
-      return W * (log(s2f) + v / s2f);
+      return (sw[t] - sw[s]) * (log(s2f) + v / s2f);
     },
     floored(s: number, t: number): boolean { return variance(s, t) <= floor; },
-    variance,
   };
 }

@@ -1,7 +1,7 @@
 /**
  * PELT: exact optimal segmentation under a per-change penalty.
  */
-import type { SegmentCost, Segmentation } from './segmentCost';
+import { totalCost, type SegmentCost, type Segmentation } from './segmentCost';
 
 /** Module-level aliases: hot loops avoid global lookups (slow inside sandboxed contexts). */
 const INF = 1 / 0;
@@ -163,9 +163,5 @@ export function finish(cost: SegmentCost, F: Float64Array, last: Int32Array, pen
     t = s;
   }
   changes.reverse();
-  let total = 0;
-  let s = 0;
-  for (const c of changes) { total += cost.cost(s, c); s = c; }
-  total += cost.cost(s, n);
-  return { changes, cost: total, penalisedCost: F[n], evaluations, maxCandidates, meanCandidates };
+  return { changes, cost: totalCost(cost, changes), penalisedCost: F[n], evaluations, maxCandidates, meanCandidates };
 }

@@ -28,7 +28,7 @@ export function recordingResolution(y: ArrayLike<number>): number {
     const f = Math.pow(10, d);
     const ints = distinct.map((v) => v * f);
     if (ints.some((v) => Math.abs(v) > 2 ** 52)) return 0;
-    if (!ints.every((v) => Math.abs(v - Math.round(v)) <= 1e-6 * Math.max(1, Math.abs(v)) * 1e-3)) continue;
+    if (!ints.every((v) => Math.abs(v - Math.round(v)) <= 1e-9 * Math.max(1, Math.abs(v)))) continue;
     let g = 0;
     const base = Math.round(ints[0]);
     for (const v of ints) g = gcd(g, Math.abs(Math.round(v) - base));

@@ -40,6 +40,24 @@ export interface Segmentation {
   meanCandidates: number;
 }
 
+/**
+ * Prefix sums of weights, weighted z and weighted z^2 with z = (y - centre) / scale,
+ * the O(1) segment statistics of the Gaussian costs. Unchecked: scale > 0.
+ */
+export function standardisedSums(y: Float64Array, w: Float64Array, centre: number, scale: number): { w: Float64Array; s1: Float64Array; s2: Float64Array } {
+  const n = y.length;
+  const sw = new Float64Array(n + 1);
+  const s1 = new Float64Array(n + 1);
+  const s2 = new Float64Array(n + 1);
+  for (let i = 0; i < n; i++) {
+    const z = (y[i] - centre) / scale;
+    sw[i + 1] = sw[i] + w[i];
+    s1[i + 1] = s1[i] + w[i] * z;
+    s2[i + 1] = s2[i] + w[i] * z * z;
+  }
+  return { w: sw, s1, s2 };
+}
+
 /** Sum of segment costs of a segmentation given by its change indices. Unchecked. */
 export function totalCost(cost: SegmentCost, changes: readonly number[]): number {
   let total = 0;

@@ -12,7 +12,8 @@ import { distributionCost } from './costDistribution';
 import { crops } from './crops';
 import { pelt } from './pelt';
 import { parametersPerChange, penaltyValue } from './penaltyValue';
-import { differenceSd, differenceSigma, median } from './robustSigma';
+import { differenceSd, differenceSigma } from './robustSigma';
+import { median } from '../median';
 import type { SegmentCost } from './segmentCost';
 import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation, summariseSegment } from './summariseSegment';
 import type { Break, BreaksResult, SegmentSummary } from './types';
@@ -104,10 +105,7 @@ export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResu
   for (let k = 0; k + 1 < bounds.length; k++) {
     const s = bounds[k], e = bounds[k + 1];
     const sum = summariseSegment(series, s, e - 1, o.model);
-    if (o.model === 'meanvar') {
-      const mv = cost as ReturnType<typeof meanVarCost>;
-      if (mv.floored(s, e)) flooredRows.push(series.firstRow[s]);
-    }
+    if (cost.floored?.(s, e)) flooredRows.push(series.firstRow[s]);
     const level = o.model === 'distribution' ? sum.median : sum.mean;
     for (let i = s; i < e; i++) fitted[i] = level;
     segments.push(sum);

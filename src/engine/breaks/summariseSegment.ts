@@ -3,7 +3,8 @@
  */
 import type { Series } from '../series';
 import { warning, type Warning } from '../warnings';
-import { median } from './robustSigma';
+import { median } from '../median';
+import { lagOneAutocorrelation } from '../diagnostics/lagOneAutocorrelation';
 import type { BreaksModel, SegmentSummary } from './types';
 
 /**
@@ -38,15 +39,8 @@ export function breakCauseWarning(count: number): Warning {
  * Lag-1 autocorrelation of the residuals y - fitted (weights ignored). Unchecked.
  */
 export function residualAutocorrelation(y: Float64Array, fitted: Float64Array): number {
-  const n = y.length;
-  if (n < 3) return 0;
-  let num = 0, den = 0, prev = y[0] - fitted[0];
-  den = prev * prev;
-  for (let i = 1; i < n; i++) {
-    const r = y[i] - fitted[i];
-    num += r * prev; den += r * r; prev = r;
-  }
-  return den > 0 ? num / den : 0;
+  if (y.length < 3) return 0;
+  return lagOneAutocorrelation(Float64Array.from(y, (v, i) => v - fitted[i]));
 }
 
 /** An 'autocorrelation' warning when residual lag-1 autocorrelation exceeds 0.3, else null. */

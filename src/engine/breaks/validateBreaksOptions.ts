@@ -1,7 +1,8 @@
 /**
  * Strict validation of {@link BreaksOptions}.
  */
-import { KnotwiseError, showNumber } from '../errors';
+import { KnotwiseError } from '../errors';
+import { checkChoice, checkInteger, checkPositive, describeValue } from '../options';
 import type { BreaksModel, BreaksOptions } from './types';
 
 /** The models {@link findBreaks} accepts. */
@@ -20,16 +21,7 @@ export interface ResolvedBreaksOptions {
   maxRuns: number;
 }
 
-function show(v: unknown): string {
-  if (typeof v === 'number') return showNumber(v);
-  if (typeof v === 'string') return `"${v}"`;
-  if (Array.isArray(v)) return `[${v.map(show).join(', ')}]`;
-  return String(v);
-}
-
-function isInt(v: unknown): v is number {
-  return typeof v === 'number' && Number.isInteger(v);
-}
+const show = describeValue;
 
 /**
  * Checks every option of {@link findBreaks} and fills defaults: penalty 'bic',
@@ -48,10 +40,7 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
   for (const k of Object.keys(options)) {
     if (!KEYS.includes(k)) throw new KnotwiseError('bad-option', `unknown option "${k}" for changepoints; use: ${KEYS.join(', ')}.`);
   }
-  const model = options.model;
-  if (!BREAKS_MODELS.includes(model)) {
-    throw new KnotwiseError('bad-option', `model must be one of ${BREAKS_MODELS.map((m) => `'${m}'`).join(', ')}; got ${show(model)}.`);
-  }
+  const model = checkChoice(options.model, 'model', BREAKS_MODELS);
   const penalty = options.penalty ?? 'bic';
   if (typeof penalty === 'number') {
     if (!Number.isFinite(penalty) || penalty < 0) throw new KnotwiseError('bad-option', `penalty must be 'bic', 'mbic' or a number >= 0; got ${show(penalty)}.`);
@@ -68,7 +57,7 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
   }
   const minDefault = model === 'meanvar' ? 2 : 1;
   const minSegment = options.minSegment ?? minDefault;
-  if (!isInt(minSegment) || minSegment < 1) {
+  if (typeof minSegment !== 'number' || !Number.isInteger(minSegment) || minSegment < 1) {
     throw new KnotwiseError('bad-option', `minSegment must be a whole number >= 1; got ${show(minSegment)}.`);
   }
   if (model === 'meanvar' && minSegment < 2) {
@@ -79,26 +68,17 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
     if (model !== 'mean' && model !== 'slope') {
       throw new KnotwiseError('bad-option', `sigma applies to models 'mean' and 'slope' only; model is '${model}' (remove sigma).`);
     }
-    if (typeof options.sigma !== 'number' || !Number.isFinite(options.sigma) || options.sigma <= 0) {
-      throw new KnotwiseError('bad-option', `sigma must be a positive number (noise standard deviation in y units); got ${show(options.sigma)}.`);
-    }
-    sigma = options.sigma;
+    sigma = checkPositive(options.sigma, 'sigma (noise standard deviation in y units)');
   }
   let quantiles = 10;
   if (options.quantiles !== undefined) {
     if (model !== 'distribution') throw new KnotwiseError('bad-option', `quantiles applies to model 'distribution' only; model is '${model}' (remove quantiles).`);
-    if (!isInt(options.quantiles) || options.quantiles < 2 || options.quantiles > 100) {
-      throw new KnotwiseError('bad-option', `quantiles must be a whole number from 2 to 100; got ${show(options.quantiles)}.`);
-    }
-    quantiles = options.quantiles;
+    quantiles = checkInteger(options.quantiles, 'quantiles', 2, 100);
   }
   let maxRuns = 200;
   if (options.maxRuns !== undefined) {
     if (!crops) throw new KnotwiseError('bad-option', `maxRuns applies only with crops [low, high]; got maxRuns ${show(options.maxRuns)} without crops.`);
-    if (!isInt(options.maxRuns) || options.maxRuns < 2 || options.maxRuns > 10000) {
-      throw new KnotwiseError('bad-option', `maxRuns must be a whole number from 2 to 10000; got ${show(options.maxRuns)}.`);
-    }
-    maxRuns = options.maxRuns;
+    maxRuns = checkInteger(options.maxRuns, 'maxRuns', 2, 10000);
   }
   return { model, penalty, crops, minSegment, sigma, quantiles, maxRuns };
 }

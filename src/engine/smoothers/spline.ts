@@ -176,7 +176,7 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
   let converged = true;
   let achieved = 0;
   let tolerance = 0;
-  let stoppingRule = 'direct banded solve at the given penalty';
+  let stoppingRule = 'direct block LDL\' solve at the given penalty';
   const dfAt = (l: number): number => reinschScore(sys, l).df;
 
   if (opts.penalty !== undefined) {

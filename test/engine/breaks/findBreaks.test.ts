@@ -1,5 +1,4 @@
 import { findBreaks } from '../../../src/engine/breaks/findBreaks';
-import { pelt } from '../../../src/engine/breaks/pelt';
 import { prepareSeries } from '../../../src/engine/series';
 import { KnotwiseError } from '../../../src/engine/errors';
 import { loadFixture } from '../../helpers/fixtures';
@@ -79,13 +78,13 @@ describe('findBreaks hit rate on seeded series with known breaks', () => {
     }
     return { hit: hits / (20 * truth.length), extra: found / 20 - truth.length };
   };
-  // floors set from the separation: shift/sd = 3/0.5 is easy, 3/1 clear, 3/2 hard
+  // Measured on these seeds: 1.00, 1.00, 0.9875 (mean) and 1.00, 1.00 (distribution);
+  // each floor sits just under its measured rate, so a real loss of power fails.
   test.each([
-    [0.5, 'mean', 0.99], [1, 'mean', 0.95], [2, 'mean', 0.6],
-    [0.5, 'distribution', 0.95], [1, 'distribution', 0.8],
+    [0.5, 'mean', 0.99], [1, 'mean', 0.99], [2, 'mean', 0.95],
+    [0.5, 'distribution', 0.99], [1, 'distribution', 0.95],
   ] as const)('noise sd %s, model %s: hit rate >= %s within 5 rows', (sd, model, floor) => {
     const r = rate(sd, model);
-    // the measured rates are printed by the benchmark; here they must clear the floor
     expect(r.hit).toBeGreaterThanOrEqual(floor);
     expect(Math.abs(r.extra)).toBeLessThan(1.5);
   });
@@ -99,7 +98,12 @@ describe('findBreaks with the Poisson model', () => {
       const y = Array.from({ length: 300 }, (_, i) => draw(i < 180 ? 4 : 7));
       const r = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'poisson', penalty: 'bic' });
       if (r.breaks.length === 1 && Math.abs(r.breaks[0].index - 180) <= 8) ok++;
-      for (const b of r.breaks) expect(b.after.rate).toBeCloseTo(r.segments[r.breaks.indexOf(b) + 1].rate, 12);
+      // each reported rate is the mean count of its segment, computed here from the data
+      for (const seg of r.segments) {
+        let sum = 0;
+        for (let i = seg.start; i <= seg.end; i++) sum += y[i];
+        expect(seg.rate).toBeCloseTo(sum / (seg.end - seg.start + 1), 10);
+      }
     }
     expect(ok).toBeGreaterThanOrEqual(17);
   });
@@ -142,8 +146,12 @@ describe('findBreaks maps results to input rows', () => {
   test('never puts a change between rows with equal x', () => {
     const x = [1, 2, 3, 4, 5, 5, 5, 6, 7, 8];
     const y = [0, 0, 0, 0, 0, 10, 10, 10, 10, 10];
-    const r = findBreaks(prepareSeries(y, x, null, { ties: 'keep' }), { model: 'mean', sigma: 0.1 });
-    for (const b of r.breaks) expect(x[b.row - 0]).not.toBe(x[b.row - 1]);
+    const s = prepareSeries(y, x, null, { ties: 'keep' });
+    const r = findBreaks(s, { model: 'mean', sigma: 0.1 });
+    // the jump sits inside the tie group x = 5 (points 4..6), so a change is needed but may only go at its edges
+    expect(r.breaks.length).toBeGreaterThanOrEqual(1);
+    for (const b of r.breaks) expect(s.x[b.index]).not.toBe(s.x[b.index - 1]);
+    expect(r.breaks.map((b) => b.index)).toContain(4);
   });
 });
 
@@ -175,12 +183,11 @@ describe('findBreaks CROPS', () => {
     }
   });
 
-  test('the rows are the lower envelope: no other number of changes is cheaper at a row penalty', () => {
+  test('any penalty in the range gets the segmentation of the row whose interval holds it', () => {
     const r = findBreaks(s, { model: 'mean', crops: [2, 60] });
-    const cost = (b: number) => pelt({ n: 1, cost: () => 0 }, b, 1); // placeholder shape check
-    expect(cost(1).changes).toEqual([]);
-    for (const row of r.crops!) {
-      for (const other of r.crops!) expect(row.cost + row.penalty * row.changes).toBeLessThanOrEqual(other.cost + row.penalty * other.changes + 1e-8);
+    for (let b = 2.5; b < 60; b *= 1.37) {
+      const row = r.crops!.find((c) => c.penaltyLow <= b && b <= c.penaltyHigh)!;
+      expect(findBreaks(s, { model: 'mean', penalty: b }).breaks.map((x) => x.index)).toEqual(row.breaks);
     }
   });
 });
@@ -193,7 +200,7 @@ describe('findBreaks options', () => {
     [{ model: 'mean', penalty: -1 }, /got -1/],
     [{ model: 'mean', minSegment: 1.5 }, /minSegment must be a whole number >= 1; got 1.5/],
     [{ model: 'meanvar', minSegment: 1 }, /at least 2 for model 'meanvar'/],
-    [{ model: 'mean', sigma: 0 }, /sigma must be a positive number.*got 0/],
+    [{ model: 'mean', sigma: 0 }, /sigma \(noise standard deviation in y units\) must be a finite number > 0; got 0/],
     [{ model: 'poisson', sigma: 1 }, /sigma applies to models 'mean' and 'slope' only/],
     [{ model: 'mean', crops: [5, 1] }, /crops must be \[low, high\].*got \[5, 1\]/],
     [{ model: 'distribution', quantiles: 1 }, /quantiles must be a whole number from 2 to 100; got 1/],

@@ -1,3 +1,5 @@
+import { median } from '../../median';
+
 /**
  * Robust noise standard deviation from first differences: with
  * d_i = (y_{i+1} - y_i) / sqrt(1/w_i + 1/w_{i+1}) (unit variance per sigma^2 when
@@ -17,8 +19,3 @@ export function differenceNoiseScale(y: ArrayLike<number>, w: ArrayLike<number>)
   return 1.4826 * median(d);
 }
 
-function median(a: Float64Array): number {
-  const s = Float64Array.from(a).sort();
-  const n = s.length;
-  return n % 2 ? s[(n - 1) >> 1] : 0.5 * (s[n / 2 - 1] + s[n / 2]);
-}
