@@ -248,7 +248,7 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
     fit = solveTrend(prob, lamScaled, s.tolerance, s.maxIterations);
   }
-  return assemble(series, s, sc, prob, fit, lamScaled, criterion, warnings, dataDriven, options);
+  return assemble(series, s, sc, fit, lamScaled, criterion, warnings, dataDriven, options);
 }
 
 function interpolatingFit(prob: TrendProblem): TrendFit {
@@ -318,7 +318,7 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
   return { fit, lambda: lam, clamped, maxDf: maxDfReached };
 }
 
-function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendScaling>, prob: TrendProblem, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions): FitResult {
+function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendScaling>, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions): FitResult {
   const k = s.order;
   const n = series.n;
   const { x } = series;
@@ -353,7 +353,6 @@ function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendS
   warnings.push(...fitWarnings(n, df, resid, dataDriven));
   warnings.push(boundaryWarning());
   const model: TrendModel = { x, l1, order: k, relaxed: s.relaxed, refit };
-  void prob;
   return {
     method: 'trend',
     options: { ...options, method: 'trend', order: k, relaxed: s.relaxed, gridSize: s.gridSize, folds: s.folds, tolerance: s.tolerance, maxIterations: s.maxIterations, ...(options.penalty === undefined && options.df === undefined ? { select: criterion.name as 'cv' | 'sure' | 'bic', oneSE: s.oneSE } : {}) },

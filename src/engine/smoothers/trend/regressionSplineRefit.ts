@@ -1,4 +1,5 @@
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
+import { KnotwiseError } from '../../errors';
 
 /**
  * An unpenalised weighted least-squares regression spline of degree k with
@@ -78,7 +79,7 @@ export function regressionSplineRefit(x: Float64Array, y: Float64Array, w: Float
   let tr = 0;
   for (let j = 0; j < p; j++) tr += band[j * wd];
   for (let j = 0; j < p; j++) band[j * wd] += 1e-12 * (tr / p);
-  bandedCholesky(band, p, k, 1e-15);
+  if (bandedCholesky(band, p, k, 1e-15) >= 0) throw new KnotwiseError('numerical', `the relaxed refit's system is not positive definite (order ${k}, ${p} basis functions); use a smaller relaxed value or fewer knots.`);
   coef.set(rhs);
   bandedCholeskySolve(band, p, k, coef);
   for (let i = 0; i < n; i++) {

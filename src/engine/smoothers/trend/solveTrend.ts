@@ -115,13 +115,13 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     return { b: Float64Array.from(prob.poly.b), u: Float64Array.from(prob.poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
   }
   let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
+  if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
   // refinement on x in [0, 1]: D(x01) = N^k D(x), so lambda and u scale by N^-k
+  const N = x[n - 1] - x[0];
   if (!prob.x01) {
-    const N = x[n - 1] - x[0];
     prob.x01 = new Float64Array(n);
     for (let i = 0; i < n; i++) prob.x01[i] = (x[i] - x[0]) / N;
   }
-  const N = x[n - 1] - x[0];
   const f = Math.pow(N, k);
   const u01 = new Float64Array(sol.u.length);
   for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
@@ -131,7 +131,6 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   for (let r = 0; r < u01.length; r++) if (Math.abs(sol.u[r]) >= lambda * (1 - DUAL_BOUND_RELATIVE)) marked++;
   const cheap = k === 1 || n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
   let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], achieved: Infinity, rounds: 0 };
-  if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
   if (sol.status.converged && cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));

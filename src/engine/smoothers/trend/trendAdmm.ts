@@ -37,6 +37,7 @@ import { differenceOperator } from '../../linalg/difference';
 import type { SolverStatus } from '../../types';
 import { totalVariationDenoise, totalVariationWorkspace } from './totalVariationDenoise';
 import { constantFitObjective } from './constantFitObjective';
+import { KnotwiseError } from '../../errors';
 
 /** The stopping rule of {@link trendAdmm}, as reported in SolverStatus. */
 export const ADMM_RULE = 'ADMM (Ramdas and Tibshirani 2016) until the relative duality gap of the iterate against the fused-lasso dual scaled into the box, (P(b) - G(v)) / max(P(b), 1e-12 * null deviance), is at most the tolerance';
@@ -108,7 +109,7 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
       for (let c = 0; c <= a; c++) band[(r + a) * wd + (a - c)] += ta * T[o + c];
     }
   }
-  bandedCholesky(band, n, k);
+  if (bandedCholesky(band, n, k) >= 0) throw new KnotwiseError('numerical', `the trend ADMM system is not positive definite (order ${k}, ${n} points); the x values may be too close together for their scale.`);
   const e0 = constantFitObjective(y, w);
   const floor = 1e-12 * e0 + 1e-300;
   const wy = new Float64Array(n);
