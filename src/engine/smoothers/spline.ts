@@ -34,6 +34,7 @@ import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
 import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
 import { solveForDf } from '../select/solveForDf';
 import { foldOf } from '../select/foldOf';
+import { oneStandardError } from '../select/oneStandardError';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 
 /** State kept for evaluation at new x (original units). */
@@ -111,7 +112,7 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
   return out;
 }
 
-/** K-fold CV score of the spline at scaled lambda. */
+/** K-fold CV score of the spline at scaled lambda: the mean over folds of the held-out weighted mean squared error (as trend filtering reports it), with its standard error. */
 function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: number } {
   const n = s.t.length;
   const fold = foldOf(n, k);
@@ -125,7 +126,6 @@ function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: nu
   }
   return (lt) => {
     const foldScores: number[] = [];
-    let total = 0, totalW = 0;
     for (const { sys, t, held } of systems) {
       const sol = reinschSolve(sys, lt, false);
       let e = 0, ww = 0;
@@ -135,13 +135,12 @@ function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: nu
         ww += s.w[i];
       }
       foldScores.push(e / ww);
-      total += e; totalW += ww;
     }
     const mean = foldScores.reduce((a, b) => a + b, 0) / k;
     let v = 0;
     for (const f of foldScores) v += (f - mean) * (f - mean);
     const se = Math.sqrt(v / (k - 1) / k);
-    return { score: total / totalW, se };
+    return { score: mean, se };
   };
 }
 
@@ -214,9 +213,9 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
     stoppingRule = `grid of ${opts.gridSize} log-spaced penalties, then Brent's method until the bracket is below ${tolerance} in log10(lambda)`;
     let value = r.score;
     if (opts.select === 'cv' && opts.oneSE) {
-      const best = r.curve.reduce((a, b) => (b.score < a.score ? b : a));
-      const limit = best.score + (best.se ?? 0);
-      const pick = r.curve.filter((p) => p.penalty >= best.penalty && p.score <= limit).pop() ?? best;
+      let best = 0;
+      r.curve.forEach((p, j) => { if (p.score < r.curve[best].score) best = j; });
+      const pick = r.curve[oneStandardError(r.curve.map((p) => p.score), r.curve.map((p) => p.se ?? 0), best)];
       lt = pick.penalty; value = pick.score;
     }
     // criterion values are on the scaled y; report them in (units of y)^2

@@ -48,6 +48,7 @@ import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot
 import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
+import { oneStandardError } from '../select/oneStandardError';
 import { differenceOperator } from '../linalg/difference';
 import { trendScaling, toScaledPenalty, toDataPenalty } from './trend/trendScaling';
 import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
@@ -234,10 +235,7 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
     let best = pts.length - 1;
     for (let j = pts.length - 2; j >= 0; j--) if (score(pts[j]) < score(pts[best])) best = j;
     let chosen = best;
-    if (rule === 'cv' && s.oneSE) {
-      const lim = pts[best].cv + pts[best].cvSe;
-      for (let j = pts.length - 1; j > best; j--) if (pts[j].cv <= lim) { chosen = j; break; }
-    }
+    if (rule === 'cv' && s.oneSE) chosen = oneStandardError(pts.map((p) => p.cv), pts.map((p) => p.cvSe), best);
     const atEdge = chosen === 0 || chosen === pts.length - 1;
     criterion = { name: rule, value: score(pts[chosen]), curve: curveOf(path, rule), atEdge };
     if (atEdge) {
