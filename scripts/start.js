@@ -1,8 +1,8 @@
 #!/usr/bin/env node
-// npm start: build everything, then serve the add-in and the standalone preview.
+// npm start [-- --https] [-- --port=N]: build everything, then serve the add-in and the standalone preview
+// (serve.js reads the same arguments).
 const { execSync } = require('child_process');
 const path = require('path');
 const root = path.join(__dirname, '..');
 execSync('npm run build', { cwd: root, stdio: 'inherit' });
-process.argv.splice(2, 0, ...process.argv.splice(2));
 require('./serve.js').start();
