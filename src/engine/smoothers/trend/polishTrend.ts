@@ -1,8 +1,6 @@
-import { differenceOperator } from '../../linalg/difference';
 import { dualFromResidual } from './dualFromResidual';
-import { fallingFactorialColumns } from './fallingFactorialColumns';
 import { weightedPolynomialFit } from './weightedPolynomialFit';
-import { restrictedLinearFit } from './restrictedLinearFit';
+import { restrictedSplineFit } from './restrictedSplineFit';
 
 /** Result of {@link polishTrend}. */
 export interface PolishResult {
@@ -27,14 +25,8 @@ export function boxRelative(n: number, k: number): number {
   return Math.max(1e-8, 100 * 2.2e-16 * Math.pow(n, Math.max(0, k - 1)));
 }
 
-/** Largest active set for which the dense refinement is attempted. */
-export const POLISH_MAX_KNOTS = 150;
-
-/** Budget of the refinement in multiply-adds (sum of n p^2 over its solves), about a second. */
-export const POLISH_MAX_WORK = 2e9;
-
-/** Largest n * (k + 1 + |A|) (numbers held in the dense block) for which refinement is attempted. */
-export const POLISH_MAX_CELLS = 4e6;
+/** Budget of the refinement: points times restricted solves (200 solves on 1e5 points), and at least 20 solves. */
+export const POLISH_MAX_WORK = 2e7;
 
 /**
  * Exact refinement of a trend-filtering solution from a guessed active set: a
@@ -46,11 +38,8 @@ export const POLISH_MAX_CELLS = 4e6;
  * with the signs of u0), else, of each run of rows with |u0_r| >= lambda (1 - 1e-6) of one
  * sign, the row with the largest |u0_r|. For knot rows A with signs s it solves exactly
  *   minimise 1/2 sum w (y - b)^2 + lambda s_A^T (D b)_A  subject to (D b)_j = 0 for j not in A,
- * with b in the span of the falling factorial columns for A
- * ({@link fallingFactorialColumns}), by a weighted QR least-squares solve
- * (dense n x p, p = k + 1 + |A|, with one step of iterative refinement); for
- * k = 1 the span is that of hat functions and {@link restrictedLinearFit} solves
- * it in O(n) with no limit on |A|.
+ * with b a discrete spline with knots A, by the banded solve of
+ * {@link restrictedSplineFit} in O(n k^2) (no limit on |A|), which also gives (D b)_A.
  * Starting from the weighted polynomial fit (feasible for every A), if the
  * new solution breaks a sign s_r (D b)_r >= 0 the iterate moves only up to
  * the first sign change and that row leaves A (at a zero step, every row at zero
@@ -60,7 +49,7 @@ export const POLISH_MAX_CELLS = 4e6;
  * sign of u. When no row violates, all optimality conditions of the original
  * problem hold: the solution is optimal up to rounding, with exact zeros of
  * D b off the knots. At most `maxRounds` restricted solves (and {@link POLISH_MAX_WORK}
- * multiply-adds); stops if an active set repeats.
+ * points solved over in all); stops if an active set repeats.
  *
  * Works on x scaled to [0, 1]. Unchecked.
  */
@@ -85,26 +74,27 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   // D bcur, kept up to date along the steps (zero for the polynomial start)
   let dcur: Float64Array = new Float64Array(m);
   let u: Float64Array = new Float64Array(m);
-  const work = new Float64Array(n);
   const seen = new Set<string>();
   let last: Certifiable | undefined;
   const lim = lambda * (1 + boxRelative(n, k));
   let rounds = 0;
   let work2 = 0;
   for (; rounds < maxRounds; rounds++) {
-    if (k !== 1 && (act.size > POLISH_MAX_KNOTS || n * (k + 1 + act.size) > POLISH_MAX_CELLS)) break;
-    work2 += k === 1 ? 1e7 : n * (k + 1 + act.size) ** 2; // k = 1: an O(n) solve counts as 1e7, so 200 rounds fit the budget
-    if (work2 > POLISH_MAX_WORK) break;
+    work2 += n;
+    if (work2 > Math.max(POLISH_MAX_WORK, 20 * n)) break;
     const key = [...act.entries()].sort((a, c) => a[0] - c[0]).map(([r, sg]) => r * sg).join(',');
     if (seen.has(key)) break; // the active set cycles: give up
     seen.add(key);
     const rowsA = [...act.keys()].sort((a, c) => a - c);
     const sA = rowsA.map((r) => act.get(r)!);
-    const bnew = k === 1 ? restrictedLinearFit(x, y, w, lambda, rowsA, sA) : solveRestricted(x, y, w, k, lambda, rowsA, sA, work);
-    if (!bnew) break;
-    const dnew = Float64Array.from(differenceOperator(x, k + 1, bnew, work));
+    const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA);
+    if (!sol) break;
+    const bnew = sol.b;
+    // D bnew: (D b)_A from the solve, exact zeros elsewhere
+    const dnew = new Float64Array(m);
+    for (let j = 0; j < rowsA.length; j++) dnew[rowsA[j]] = sol.dA[j];
     let dmax = 0;
-    for (let r = 0; r < m; r++) dmax = Math.max(dmax, Math.abs(dnew[r]), Math.abs(dcur[r]));
+    for (const r of rowsA) dmax = Math.max(dmax, Math.abs(dnew[r]), Math.abs(dcur[r]));
     // sign feasibility: move from bcur towards bnew until the first active row changes sign
     let tau = 1, drop = -1;
     for (const r of rowsA) {
@@ -201,93 +191,3 @@ function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifi
 }
 
 interface Certifiable { b: Float64Array; u: Float64Array; g: Float64Array; db: Float64Array; rows: number[]; dmax: number }
-
-/** Weighted QR solve of the restricted problem; null when the columns are numerically dependent. */
-function solveRestricted(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: number[], sA: number[], work: Float64Array): Float64Array | null {
-  const n = x.length;
-  const p = k + 1 + rowsA.length;
-  const H = fallingFactorialColumns(x, k, rowsA);
-  // G = (D H)_A : column j of D H at the knot rows; D H is zero on the polynomial columns
-  const lin = new Float64Array(p); // lambda * (D_A H)^T s
-  for (let j = k + 1; j < p; j++) {
-    const dcol = differenceOperator(x, k + 1, H.subarray(j * n, (j + 1) * n), work);
-    let s = 0;
-    for (let c = 0; c < rowsA.length; c++) s += dcol[rowsA[c]] * sA[c];
-    lin[j] = lambda * s;
-  }
-  // modified Gram-Schmidt (twice) on sqrt(w) H, in place: H becomes Q of sqrt(W) H = Q R
-  const Q = H;
-  const R = new Float64Array(p * p);
-  const sw = new Float64Array(n);
-  for (let i = 0; i < n; i++) sw[i] = Math.sqrt(w[i]);
-  for (let j = 0; j < p; j++) {
-    const qj = Q.subarray(j * n, (j + 1) * n);
-    for (let i = 0; i < n; i++) qj[i] *= sw[i];
-    let n0 = 0;
-    for (let i = 0; i < n; i++) n0 += qj[i] * qj[i];
-    for (let pass = 0; pass < 2; pass++) {
-      for (let l = 0; l < j; l++) {
-        const ql = Q.subarray(l * n, (l + 1) * n);
-        let d = 0;
-        for (let i = 0; i < n; i++) d += ql[i] * qj[i];
-        for (let i = 0; i < n; i++) qj[i] -= d * ql[i];
-        R[l * p + j] += d;
-      }
-    }
-    let nr = 0;
-    for (let i = 0; i < n; i++) nr += qj[i] * qj[i];
-    nr = Math.sqrt(nr);
-    if (!(nr > 1e-14 * Math.sqrt(n0))) return null;
-    R[j * p + j] = nr;
-    for (let i = 0; i < n; i++) qj[i] /= nr;
-  }
-  // normal equations R^T R beta = H^T W y - lin  ->  R beta = Q^T sqrt(W) y - R^{-T} lin
-  const c = new Float64Array(p);
-  for (let j = 0; j < p; j++) {
-    let d = 0;
-    const qj = Q.subarray(j * n, (j + 1) * n);
-    for (let i = 0; i < n; i++) d += qj[i] * sw[i] * y[i];
-    c[j] = d;
-  }
-  // z = R^{-T} lin (forward substitution with R^T lower triangular)
-  const z = new Float64Array(p);
-  for (let j = 0; j < p; j++) {
-    let s = lin[j];
-    for (let l = 0; l < j; l++) s -= R[l * p + j] * z[l];
-    z[j] = s / R[j * p + j];
-  }
-  for (let j = 0; j < p; j++) c[j] -= z[j];
-  const beta = new Float64Array(p);
-  for (let j = p - 1; j >= 0; j--) {
-    let s = c[j];
-    for (let l = j + 1; l < p; l++) s -= R[j * p + l] * beta[l];
-    beta[j] = s / R[j * p + j];
-  }
-  // H beta = W^{-1/2} Q (R beta)
-  const rb = new Float64Array(p);
-  for (let j = 0; j < p; j++) {
-    let s2 = 0;
-    for (let l = j; l < p; l++) s2 += R[j * p + l] * beta[l];
-    rb[j] = s2;
-  }
-  const b = new Float64Array(n);
-  for (let j = 0; j < p; j++) {
-    const cj = rb[j];
-    const o = j * n;
-    for (let i = 0; i < n; i++) b[i] += cj * Q[o + i];
-  }
-  for (let i = 0; i < n; i++) b[i] /= sw[i];
-  // one step of iterative refinement: make Q^T sqrt(W) (y - b) equal R^{-T} lin to working precision
-  for (let j = 0; j < p; j++) {
-    const qj = Q.subarray(j * n, (j + 1) * n);
-    let d = 0;
-    for (let i = 0; i < n; i++) d += qj[i] * sw[i] * (y[i] - b[i]);
-    rb[j] = d - z[j];
-  }
-  for (let j = 0; j < p; j++) {
-    const cj = rb[j];
-    const o = j * n;
-    for (let i = 0; i < n; i++) b[i] += (cj * Q[o + i]) / sw[i];
-  }
-  return b;
-}

@@ -1,0 +1,170 @@
+/**
+ * A local basis of the discrete splines of degree k on the design points x with
+ * knots at chosen rows of D(x, k+1): the space
+ *
+ *   S(A) = { b : (D(x, k+1) b)_j = 0 for every row j not in A },   dim S(A) = k + 1 + |A|,
+ *
+ * spanned by discrete B-splines (R. J. Tibshirani, "Divided differences, falling
+ * factorials, and discrete splines: another look at trend filtering and related
+ * problems", Foundations and Trends in Machine Learning 15 (2022), section 8;
+ * T. Lyche, "Discrete polynomial spline approximation methods", 1975).
+ *
+ * Construction. Row r of D(x, k+1) is annihilated by b on both sides of it when b
+ * follows one polynomial there; S(A) is spanned by the polynomials of degree k and the
+ * truncated falling factorials
+ *   g_r(x_i) = P_r(x_i) 1{i > r},   P_r(x) = prod_{l=1}^{k} (x - x_{r+l}),
+ * for r in A, with (D g_r)_r = k! and (D g_r)_j = 0 for j != r. The knot list is
+ * extended by k + 1 phantom rows on each side, on design points continued beyond
+ * the data at the mean spacing: a phantom row r < 0 gives g_r = P_r, a polynomial on
+ * the data, and a phantom row r >= n - k - 1 gives g_r = 0 on the data. Basis
+ * function e combines the k + 2 consecutive (extended) knots rho_0 < .. < rho_{k+1}
+ * starting at e:
+ *   B_e = sum_l a_l g_{rho_l},  with sum_l a_l P_{rho_l} = 0 identically,
+ * so B_e vanishes outside the points rho_0 + k + 1 .. rho_{k+1} (the smallest
+ * support in S(A)). The coefficients a are the null vector of the identity sampled at
+ * k + 1 Chebyshev points of the support, in local coordinates. On a point with
+ * rho_l < i <= rho_{l+1}, B_e(x_i) is the sum over the knots left of it or, equally,
+ * minus the sum over the knots right of it; the shorter of the two sums is used
+ * (at most 2 terms for k <= 3), which bounds the cancellation by the ratio of the
+ * support to the knot spacing. Each B_e is scaled to max |B_e| = 1.
+ *
+ * At most k + 1 basis functions are non-zero at a point and they are consecutive, so
+ * Gram matrices are banded with half-bandwidth k. For k = 1 the B_e are the hat
+ * functions on the kinks.
+ */
+export interface DiscreteBSplines {
+  k: number;
+  /** Number of basis functions, k + 1 + |A|. */
+  p: number;
+  /** first[i]: the first basis function non-zero at point i (the others are first[i] + 1 .. first[i] + k). */
+  first: Int32Array;
+  /** values[i (k + 1) + j] = B_{first[i] + j}(x_i). */
+  values: Float64Array;
+  /**
+   * penalty[e (k + 2) + l] = (D B_e) at the l-th knot of e's window when that knot is a
+   * row of A (0 for phantoms); (D B_e) is zero on every other row.
+   */
+  penalty: Float64Array;
+}
+
+/**
+ * Builds the discrete B-splines of degree k (1..3) for knot rows A.
+ *
+ * @param x - strictly increasing design points (length n > k + 1)
+ * @param k - degree
+ * @param rowsA - knot rows, strictly increasing, in 0 .. n - k - 2
+ * @returns the basis, or null when a local system is singular (numerically coincident knots)
+ * @example
+ * ```ts
+ * const B = discreteBSplines(Float64Array.of(0, 1, 2, 3, 4), 1, [1]); // hats at x = 0, 2, 4
+ * ```
+ * Unchecked.
+ */
+export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<number>): DiscreteBSplines | null {
+  const n = x.length;
+  const m = n - k - 1;
+  const K = rowsA.length;
+  const p = K + k + 1;
+  const h = (x[n - 1] - x[0]) / (n - 1);
+  const X = (i: number): number => (i < 0 ? x[0] + i * h : i >= n ? x[n - 1] + (i - n + 1) * h : x[i]);
+  // extended knot rows: k + 1 phantoms on the left, A, k + 1 phantoms on the right
+  const E = new Int32Array(K + 2 * k + 2);
+  for (let j = 0; j <= k; j++) { E[j] = j - (k + 1); E[k + 1 + K + j] = m + j; }
+  for (let j = 0; j < K; j++) E[k + 1 + j] = rowsA[j];
+  const lo = new Int32Array(p), hi = new Int32Array(p);
+  for (let e = 0; e < p; e++) { lo[e] = Math.max(0, E[e] + k + 1); hi[e] = Math.min(n - 1, E[e + k + 1]); }
+  // the first basis function covering each point: lo and hi both increase with e
+  const first = new Int32Array(n);
+  for (let i = 0, e = 0; i < n; i++) {
+    while (hi[e] < i) e++;
+    first[i] = e;
+  }
+  const wd = k + 1;
+  const values = new Float64Array(n * wd);
+  const penalty = new Float64Array(p * (k + 2));
+  const nu = (k + 1) * (k + 1); // unknowns: k + 1 local coefficients for each of the k + 1 pieces
+  const M = new Float64Array((nu - 1) * nu);
+  const coef = new Float64Array(nu);
+  const cen = new Float64Array(k + 1), half = new Float64Array(k + 1);
+  const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
+  for (let e = 0; e < p; e++) {
+    // piece l (l = 0..k) holds the points rho_l < i <= rho_{l+1}; it is one polynomial Q_l on
+    // x_{rho_l + 1} .. x_{rho_{l+1} + k}, written in its own coordinate t = (x - cen_l) / half_l
+    for (let l = 0; l <= k; l++) {
+      const a = X(E[e + l] + 1), b = X(E[e + l + 1] + k);
+      cen[l] = 0.5 * (a + b); half[l] = 0.5 * (b - a);
+    }
+    // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
+    M.fill(0);
+    let row = 0;
+    for (let l = 0; l <= k + 1; l++) {
+      for (let d = 1; d <= k; d++) {
+        const xv = X(E[e + l] + d);
+        const o = row * nu;
+        let big = 0;
+        if (l <= k) { const t = (xv - cen[l]) / half[l]; let v = 1; for (let q = 0; q <= k; q++) { M[o + l * (k + 1) + q] = v; big = Math.max(big, Math.abs(v)); v *= t; } }
+        if (l >= 1) { const t = (xv - cen[l - 1]) / half[l - 1]; let v = 1; for (let q = 0; q <= k; q++) { M[o + (l - 1) * (k + 1) + q] -= v; big = Math.max(big, Math.abs(v)); v *= t; } }
+        for (let j = 0; j < nu; j++) M[o + j] /= big;
+        row++;
+      }
+    }
+    if (!nullVector(M, nu - 1, nu, coef)) return null;
+    // values on the support
+    let vmax = 0;
+    let l = 0;
+    const i0 = lo[e], i1 = hi[e];
+    for (let i = i0; i <= i1; i++) {
+      while (E[e + l + 1] < i) l++;
+      const t = (x[i] - cen[l]) / half[l];
+      let v = 0;
+      for (let q = k; q >= 0; q--) v = v * t + coef[l * (k + 1) + q];
+      values[i * wd + (e - first[i])] = v;
+      vmax = Math.max(vmax, Math.abs(v));
+    }
+    if (!(vmax > 0) || !Number.isFinite(vmax)) return null;
+    for (let i = i0; i <= i1; i++) values[i * wd + (e - first[i])] /= vmax;
+    // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
+    for (let q = 0; q <= k + 1; q++) {
+      const r = E[e + q];
+      if (!(r >= 0 && r < m)) continue;
+      const after = q <= k ? coef[q * (k + 1) + k] / Math.pow(half[q], k) : 0;
+      const before = q >= 1 ? coef[(q - 1) * (k + 1) + k] / Math.pow(half[q - 1], k) : 0;
+      penalty[e * (k + 2) + q] = (fact * (after - before)) / vmax;
+    }
+  }
+  return { k, p, first, values, penalty };
+}
+
+/**
+ * A null vector of the rows x cols matrix M (row-major, rank cols - 1): Gaussian
+ * elimination with complete pivoting, the last free column set to 1. False when the
+ * rank is lower (numerically coincident knots). Unchecked.
+ */
+function nullVector(M: Float64Array, rows: number, cols: number, out: Float64Array): boolean {
+  const perm = Int32Array.from({ length: cols }, (_, j) => j);
+  let first = 0;
+  for (let c = 0; c < rows; c++) {
+    let pr = c, pc = c, best = 0;
+    for (let r = c; r < rows; r++) for (let j = c; j < cols; j++) { const v = Math.abs(M[r * cols + j]); if (v > best) { best = v; pr = r; pc = j; } }
+    if (c === 0) first = best;
+    if (!(best > 1e-13 * first)) return false;
+    if (pr !== c) for (let j = 0; j < cols; j++) { const t = M[c * cols + j]; M[c * cols + j] = M[pr * cols + j]; M[pr * cols + j] = t; }
+    if (pc !== c) { for (let r = 0; r < rows; r++) { const t = M[r * cols + c]; M[r * cols + c] = M[r * cols + pc]; M[r * cols + pc] = t; } const t = perm[c]; perm[c] = perm[pc]; perm[pc] = t; }
+    const piv = M[c * cols + c];
+    for (let r = c + 1; r < rows; r++) {
+      const f = M[r * cols + c] / piv;
+      if (f === 0) continue;
+      for (let j = c; j < cols; j++) M[r * cols + j] -= f * M[c * cols + j];
+    }
+  }
+  // columns 0..rows-1 (permuted) are pivots; the last one is free
+  const z = new Float64Array(cols);
+  z[rows] = 1;
+  for (let c = rows - 1; c >= 0; c--) {
+    let s = -M[c * cols + rows];
+    for (let j = c + 1; j < rows; j++) s -= M[c * cols + j] * z[j];
+    z[c] = s / M[c * cols + c];
+  }
+  for (let j = 0; j < cols; j++) { out[perm[j]] = z[j]; if (!Number.isFinite(z[j])) return false; }
+  return true;
+}
