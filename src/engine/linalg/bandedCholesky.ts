@@ -4,7 +4,9 @@
  * C. F. Van Loan, "Matrix Computations", 4th ed., section 4.3.5).
  *
  * Storage ("lower band"): entry A(i, i - d), 0 <= d <= p, at `a[i * (p + 1) + d]`;
- * entries with i - d < 0 are ignored. On success `a` holds L in the same layout.
+ * entries with i - d < 0 are ignored. On success `a` holds L in the same layout,
+ * except that the diagonal holds the reciprocals 1 / L(i, i): the triangular solves,
+ * a chain of dependent operations, then multiply instead of divide.
  *
  * @param a - the band of A, length n (p + 1); overwritten by L
  * @param n - order of A
@@ -16,7 +18,7 @@
  * @example
  * ```ts
  * const a = Float64Array.of(4, 0, 5, 2); // [[4, 2], [2, 5]]
- * bandedCholesky(a, 2, 1); // -1; a = [2, 0, 2, 1]
+ * bandedCholesky(a, 2, 1); // -1; a = [0.5, 0, 0.5, 1]  (L = [[2, 0], [1, 2]])
  * ```
  * Unchecked.
  */
@@ -34,9 +36,9 @@ export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor
       if (j === i) {
         if (pivotFloor > 0 && !(s >= pivotFloor * aij)) s = pivotFloor * aij;
         if (!(s > 0)) return i;
-        a[i * w] = Math.sqrt(s);
+        a[i * w] = 1 / Math.sqrt(s);
       } else {
-        a[i * w + (i - j)] = s / a[j * w];
+        a[i * w + (i - j)] = s * a[j * w];
       }
     }
   }
@@ -45,16 +47,16 @@ export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor
 
 /** {@link bandedCholesky} unrolled for half-bandwidth 1 (tridiagonal). Unchecked. */
 function bandedCholesky1(a: Float64Array, n: number, pivotFloor: number): number {
-  let prev = 0; // L(i-1, i-1)
+  let prev = 0; // 1 / L(i-1, i-1)
   for (let i = 0; i < n; i++) {
     const o = 2 * i;
     let l1 = 0;
-    if (i >= 1) { l1 = a[o + 1] / prev; a[o + 1] = l1; }
+    if (i >= 1) { l1 = a[o + 1] * prev; a[o + 1] = l1; }
     const aii = a[o];
     let s = aii - l1 * l1;
     if (pivotFloor > 0 && !(s >= pivotFloor * aii)) s = pivotFloor * aii;
     if (!(s > 0)) return i;
-    prev = Math.sqrt(s);
+    prev = 1 / Math.sqrt(s);
     a[o] = prev;
   }
   return -1;
@@ -62,25 +64,28 @@ function bandedCholesky1(a: Float64Array, n: number, pivotFloor: number): number
 
 /** {@link bandedCholesky} unrolled for half-bandwidth 2 (pentadiagonal: trend filtering of order 1). Unchecked. */
 function bandedCholesky2(a: Float64Array, n: number, pivotFloor: number): number {
+  // r1, r2: 1 / L(i-1, i-1) and 1 / L(i-2, i-2); c1: L(i-1, i-2)
+  let r1 = 0, r2 = 0, c1 = 0;
   for (let i = 0; i < n; i++) {
     const o = 3 * i;
     let l2 = 0, l1 = 0;
     if (i >= 2) {
       // L(i, i-2) = A(i, i-2) / L(i-2, i-2)
-      l2 = a[o + 2] / a[3 * (i - 2)];
+      l2 = a[o + 2] * r2;
       a[o + 2] = l2;
     }
     if (i >= 1) {
       // L(i, i-1) = (A(i, i-1) - L(i, i-2) L(i-1, i-2)) / L(i-1, i-1)
-      const ob = 3 * (i - 1);
-      l1 = (a[o + 1] - (i >= 2 ? l2 * a[ob + 1] : 0)) / a[ob];
+      l1 = (a[o + 1] - l2 * c1) * r1;
       a[o + 1] = l1;
     }
     const aii = a[o];
     let s = aii - l1 * l1 - l2 * l2;
     if (pivotFloor > 0 && !(s >= pivotFloor * aii)) s = pivotFloor * aii;
     if (!(s > 0)) return i;
-    a[o] = Math.sqrt(s);
+    const r = 1 / Math.sqrt(s);
+    a[o] = r;
+    r2 = r1; r1 = r; c1 = l1;
   }
   return -1;
 }
@@ -90,28 +95,34 @@ function bandedCholesky2(a: Float64Array, n: number, pivotFloor: number): number
  * Unchecked.
  */
 export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Float64Array): Float64Array {
+  if (n === 0) return b;
   if (p === 1) {
-    if (n === 0) return b;
-    let prev = b[0] / l[0];
+    let prev = b[0] * l[0];
     b[0] = prev;
-    for (let i = 1; i < n; i++) { prev = (b[i] - l[2 * i + 1] * prev) / l[2 * i]; b[i] = prev; }
-    let next = b[n - 1] / l[2 * (n - 1)];
+    for (let i = 1; i < n; i++) { prev = (b[i] - l[2 * i + 1] * prev) * l[2 * i]; b[i] = prev; }
+    let next = b[n - 1] * l[2 * (n - 1)];
     b[n - 1] = next;
-    for (let i = n - 2; i >= 0; i--) { next = (b[i] - l[2 * (i + 1) + 1] * next) / l[2 * i]; b[i] = next; }
+    for (let i = n - 2; i >= 0; i--) { next = (b[i] - l[2 * (i + 1) + 1] * next) * l[2 * i]; b[i] = next; }
     return b;
   }
   if (p === 2) {
+    // forward: z_i = (b_i - L(i, i-1) z_{i-1} - L(i, i-2) z_{i-2}) / L(i, i)
+    let z1 = 0, z2 = 0;
     for (let i = 0; i < n; i++) {
-      let s = b[i];
-      if (i >= 1) s -= l[3 * i + 1] * b[i - 1];
-      if (i >= 2) s -= l[3 * i + 2] * b[i - 2];
-      b[i] = s / l[3 * i];
+      const o = 3 * i;
+      const z = (b[i] - l[o + 1] * z1 - l[o + 2] * z2) * l[o];
+      b[i] = z;
+      z2 = z1; z1 = z;
     }
+    // backward: x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2}) / L(i, i)
+    let x1 = 0, x2 = 0;
+    let c1 = 0, c2 = 0; // L(i+1, i), L(i+2, i)
     for (let i = n - 1; i >= 0; i--) {
-      let s = b[i];
-      if (i + 1 < n) s -= l[3 * (i + 1) + 1] * b[i + 1];
-      if (i + 2 < n) s -= l[3 * (i + 2) + 2] * b[i + 2];
-      b[i] = s / l[3 * i];
+      c1 = i + 1 < n ? l[3 * (i + 1) + 1] : 0;
+      c2 = i + 2 < n ? l[3 * (i + 2) + 2] : 0;
+      const x = (b[i] - c1 * x1 - c2 * x2) * l[3 * i];
+      b[i] = x;
+      x2 = x1; x1 = x;
     }
     return b;
   }
@@ -120,13 +131,13 @@ export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Fl
     let s = b[i];
     const j0 = i - p > 0 ? i - p : 0;
     for (let j = j0; j < i; j++) s -= l[i * w + (i - j)] * b[j];
-    b[i] = s / l[i * w];
+    b[i] = s * l[i * w];
   }
   for (let i = n - 1; i >= 0; i--) {
     let s = b[i];
     const j1 = i + p < n - 1 ? i + p : n - 1;
     for (let j = i + 1; j <= j1; j++) s -= l[j * w + (j - i)] * b[j];
-    b[i] = s / l[i * w];
+    b[i] = s * l[i * w];
   }
   return b;
 }

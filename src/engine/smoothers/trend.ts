@@ -30,14 +30,14 @@
  * stopping rule returned.
  * `tolerance` (default 1e-8) is the relative duality gap; ||b - b*||_W <= sqrt(2 gap).
  *
- * Limitations: the dual interior point loses accuracy on long stretches
- * without knots (its Newton matrix has condition number of order L^(2k+2)).
- * For k = 1 the ADMM and the O(n)-per-step refinement then carry the fit. For
- * k = 2, 3 the refinement uses dense n x (k + 1 + knots) blocks and the ADMM
- * converges too slowly to help (thousands of iterations already at n = 150
- * for k = 3), so on long series (about n >= 1e4) with few knots the solver can
- * stop short of the tolerance; the result then reports the gap reached and
- * carries a 'not-converged' warning.
+ * Long series: the dual interior point loses accuracy on long stretches
+ * without knots (its Newton matrix has condition number of order L^(2k+2)), so
+ * it mainly proposes knots; the refinement's restricted solves run in a banded
+ * discrete B-spline basis (trend/restrictedSplineFit.ts), well conditioned at any n,
+ * and make the answer exact, or the continuation from lambda_max does when the
+ * interior point's knots are too far off. A fit still short of the tolerance
+ * reports the gap reached and carries a 'not-converged' warning; one far from it
+ * (gap above 1e-3) is refused with an error.
  * A trend describes the past; its end values are revised as data arrive and
  * it is not a forecast (every result carries the 'boundary' note).
  */
@@ -330,11 +330,16 @@ function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendS
     fitted = r.b;
     refit = r.refit!.spline;
   }
-  // knots, change in the data's units: c * (D' b')_r / h^k
-  const dbs = differenceOperator(sc.xs, k + 1, fit.b);
+  // knots, change in the data's units: c * (D' b')_r / h^k; (D' b') from the refinement's
+  // coefficients when it made the fit (differencing b loses about n^(k+1) eps of its scale)
+  let dbs = fit.knotDifferences;
+  if (!dbs) {
+    const d = differenceOperator(sc.xs, k + 1, fit.b);
+    dbs = Float64Array.from(fit.knotRows, (r) => d[r]);
+  }
   const kx = knotPositions(x, k, fit.knotRows);
   const off = k === 0 ? 1 : k;
-  const knots: Knot[] = fit.knotRows.map((r, j) => ({ x: kx[j], index: r + off, row: series.firstRow[r + off], change: (sc.c * dbs[r]) / Math.pow(sc.h, k) }));
+  const knots: Knot[] = fit.knotRows.map((r, j) => ({ x: kx[j], index: r + off, row: series.firstRow[r + off], change: (sc.c * dbs[j]) / Math.pow(sc.h, k) }));
   const df = fit.knotRows.length + k + 1;
   let rss = 0;
   const resid = new Float64Array(n);
@@ -344,7 +349,7 @@ function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendS
   if (!status.converged) {
     // A fit far from the optimum is not a result with a caveat but no result: refuse it.
     if (!(status.achieved <= 1e-3)) {
-      throw new KnotwiseError('numerical', `trend filtering of order ${k} did not converge on these ${n} points (relative duality gap ${showNumber(status.achieved)} after ${status.iterations} iterations, asked ${showNumber(status.tolerance)}), so no reliable fit exists to return. Use order 1, a shorter series, or the spline.`);
+      throw new KnotwiseError('numerical', `trend filtering of order ${k} did not converge on these ${n} points (relative duality gap ${showNumber(status.achieved)} after ${status.iterations} iterations, asked ${showNumber(status.tolerance)}), so no reliable fit exists to return. Try a larger penalty (fewer knots), a lower order, a shorter range of rows, or the spline.`);
     }
     warnings.push(warning('not-converged', `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum (||fit - optimum||_W <= sqrt(2 gap)). Increase maxIterations or use a smaller penalty.`));
   }

@@ -1,6 +1,6 @@
 /** Unit checks of the trend-filtering kernels against dense or closed-form answers. */
 import { Matrix, solve } from 'ml-matrix';
-import { restrictedLinearFit } from '../../../src/engine/smoothers/trend/restrictedLinearFit';
+import { restrictedSplineFit } from '../../../src/engine/smoothers/trend/restrictedSplineFit';
 import { interpolateTrend } from '../../../src/engine/smoothers/trend/interpolateTrend';
 import { differenceNoiseScale } from '../../../src/engine/smoothers/trend/differenceNoiseScale';
 import { dualFromResidual } from '../../../src/engine/smoothers/trend/dualFromResidual';
@@ -8,7 +8,7 @@ import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/en
 import { differenceTranspose } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
 
-describe('restrictedLinearFit', () => {
+describe('restrictedSplineFit (order 1)', () => {
   test('matches the dense solve in the hinge basis 1, x, (x - knot)_+', () => {
     const n = 40;
     const rn = seededNormal(5);
@@ -18,7 +18,7 @@ describe('restrictedLinearFit', () => {
     const rows = [9, 20, 31];
     const signs = [1, -1, 1];
     const lam = 0.7;
-    const b = restrictedLinearFit(x, y, w, lam, rows, signs)!;
+    const b = restrictedSplineFit(x, y, w, 1, lam, rows, signs)!.b;
     // objective 1/2 sum w (y - H beta)^2 + lam sum s_j (slope change at knot j); the slope change is beta_j for hinge j
     const H = new Matrix(n, 2 + rows.length);
     for (let i = 0; i < n; i++) {

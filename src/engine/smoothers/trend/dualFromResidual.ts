@@ -21,10 +21,20 @@ export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number
   let len = n;
   for (let s = 1; s <= q; s++) {
     // invert D1^T: (D1^T z)_0 = -z_0, (D1^T z)_i = z_{i-1} - z_i, (D1^T z)_{len-1} = z_{len-2}
+    // compensated running sum (A. Neumaier, ZAMM 54 (1974)): a plain one loses about
+    // n eps of the partial sums' size at each level, which on long series of order 3
+    // is more than the distance of u to the bound that the refinement must resolve
     const z = new Float64Array(len - 1);
-    let acc = 0;
+    let acc = 0, comp = 0;
     let zmax = 0;
-    for (let i = 0; i < len - 1; i++) { acc -= v[i]; z[i] = acc; zmax = Math.max(zmax, Math.abs(acc)); }
+    for (let i = 0; i < len - 1; i++) {
+      const t = acc - v[i];
+      comp += Math.abs(acc) >= Math.abs(v[i]) ? (acc - t) - v[i] : (-v[i] - t) + acc;
+      acc = t;
+      const zi = acc + comp;
+      z[i] = zi;
+      zmax = Math.max(zmax, Math.abs(zi));
+    }
     const miss = Math.abs(z[len - 2] - v[len - 1]);
     worst = Math.max(worst, miss / Math.max(gmax, zmax, 1e-300));
     len--;

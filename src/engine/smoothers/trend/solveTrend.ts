@@ -32,6 +32,8 @@ export interface TrendFit {
   lambda: number;
   /** Knot rows of D(x, k+1) (row r = knot at point r + k, or r + 1 for k = 0). */
   knotRows: number[];
+  /** (D(x, k+1) b) at the knot rows when the refinement produced the fit (exact); otherwise absent. */
+  knotDifferences?: Float64Array;
   status: SolverStatus;
   /** ADMM state when the ADMM ran (warm start for the next penalty). */
   admm?: AdmmState;
@@ -43,9 +45,6 @@ const ADMM_SEED_ITERATIONS = 1000;
 /** The ADMM hands over to the refinement once its knots have not changed for this many iterations. */
 const ADMM_STABLE_ITERATIONS = 2;
 
-/** Refinement after a converged interior point is done when n (k + 1 + knots)^2 is at most this. */
-const CHEAP_REFINEMENT = 2e7;
-
 /** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
 const CONTINUATION_STEPS_PER_DECADE = 4;
 
@@ -53,7 +52,7 @@ export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weight
 
 export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations or tolerance';
 
-export const TREND_RULE = `${INTERIOR_POINT_RULE}; for order 1 where that stalls, ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations; then, or else (and whenever cheap), an exact active-set refinement whose result is kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
+export const TREND_RULE = `${INTERIOR_POINT_RULE}; for order 1 where that stalls, ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations; then, or else, an exact active-set refinement whose result is kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
 /** Relative size below which an entry of D b counts as zero for k >= 1 without refinement: the interior-point error in D b off the knots is of order gap / (m * distance of u to the bound), far below this. */
 export const KNOT_RELATIVE = 1e-8;
@@ -65,8 +64,7 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * Solves trend filtering of order k at one (scaled) penalty: the exact dynamic
  * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
  * from `warm`), followed by the exact active-set refinement of
- * {@link polishTrend} when the interior point did not converge, or when it did
- * and the refinement is cheap (k = 1, where it is O(n), or n (k + 1 + knots)^2 <= 2e7). With `refine` false
+ * {@link polishTrend} (O(n k^2) per round). With `refine` false
  * (cross-validation folds, which only need predictions) there is no refinement. A converged interior
  * point seeds the refinement with its knots. For k = 1, when the interior point does not converge (long
  * series: its Newton matrix is ill-conditioned), the ADMM of {@link trendAdmm}, started from the interior
@@ -125,15 +123,10 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   const f = Math.pow(N, k);
   const u01 = new Float64Array(sol.u.length);
   for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-  // after a converged interior point, refine only when it is cheap (n p^2 small); otherwise
-  // refinement is the way to an exact answer and gets its full budget
-  let marked = 0;
-  for (let r = 0; r < u01.length; r++) if (Math.abs(sol.u[r]) >= lambda * (1 - DUAL_BOUND_RELATIVE)) marked++;
-  const cheap = k === 1 || n * (k + 1 + marked) ** 2 <= CHEAP_REFINEMENT;
-  let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], achieved: Infinity, rounds: 0 };
+  let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
-  if (sol.status.converged && cheap) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));
+  if (sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));
   let admmIterations = 0;
   let admm: AdmmResult | undefined;
   if (!sol.status.converged && k === 1) {
@@ -158,7 +151,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
       const u = new Float64Array(pol.u.length);
       for (let r = 0; r < u.length; r++) u[r] = pol.u[r] * f;
       return {
-        b: pol.b, u, lambda, knotRows: pol.knots, admm: admm.state,
+        b: pol.b, u, lambda, knotRows: pol.knots, knotDifferences: Float64Array.from(pol.dKnots, (v) => v / f), admm: admm.state,
         status: { converged: true, iterations: sol.status.iterations + admmIterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
       };
     }
@@ -220,7 +213,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     const u = new Float64Array(pol.u.length);
     for (let r = 0; r < u.length; r++) u[r] = pol.u[r] * f;
     return {
-      b: pol.b, u, lambda, knotRows: pol.knots, admm: admm?.state,
+      b: pol.b, u, lambda, knotRows: pol.knots, knotDifferences: Float64Array.from(pol.dKnots, (v) => v / f), admm: admm?.state,
       status: { converged: pol.achieved <= tolerance, iterations: sol.status.iterations + admmIterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
     };
   }

@@ -138,8 +138,8 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
   let iter = 0;
   let converged = false;
   // k = 1: the b step as one forward and one backward sweep with the reciprocal pivots
-  const inv = k === 1 ? new Float64Array(n) : undefined;
-  if (inv) for (let i = 0; i < n; i++) inv[i] = 1 / band[2 * i];
+  // (the factor's diagonal holds them, see bandedCholesky)
+  const inv = k === 1 ? Float64Array.from({ length: n }, (_, i) => band[2 * i]) : undefined;
   while (iter < maxIterations) {
     iter++;
     if (inv) {

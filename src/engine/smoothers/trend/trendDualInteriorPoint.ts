@@ -120,6 +120,8 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   const dmu1 = new Float64Array(m);
   const dmu2 = new Float64Array(m);
   const mat = new Float64Array(m * wd);
+  const inv1 = new Float64Array(m);
+  const inv2 = new Float64Array(m);
   const tmp = new Float64Array(n);
   const b = new Float64Array(n);
 
@@ -171,11 +173,18 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     if (iter - lastGain >= STALL_ITERATIONS) break; // stalled: the best gap has not halved for a while
     iter++;
     // slacks s1 = lambda - u = -f1, s2 = lambda + u = -f2; complementarity mu . s
+    // (the reciprocal slacks are formed once: the loops below multiply)
     let comp = 0;
-    for (let i = 0; i < m; i++) { comp += mu1[i] * -f1[i] + mu2[i] * -f2[i]; rd[i] = qu[i] - p[i] + mu1[i] - mu2[i]; }
-    const muAvg = comp / (2 * m);
     mat.set(gram);
-    for (let i = 0; i < m; i++) mat[i * wd] += mu1[i] / -f1[i] + mu2[i] / -f2[i];
+    for (let i = 0; i < m; i++) {
+      const s1 = -f1[i], s2 = -f2[i];
+      const i1 = 1 / s1, i2 = 1 / s2;
+      inv1[i] = i1; inv2[i] = i2;
+      comp += mu1[i] * s1 + mu2[i] * s2;
+      rd[i] = qu[i] - p[i] + mu1[i] - mu2[i];
+      mat[i * wd] += mu1[i] * i1 + mu2[i] * i2;
+    }
+    const muAvg = comp / (2 * m);
     if (bandedCholesky(mat, m, q, PIVOT_FLOOR) >= 0) break;
     // predictor (affine scaling): sigma = 0
     for (let i = 0; i < m; i++) du[i] = -rd[i] + mu1[i] - mu2[i];
@@ -183,13 +192,14 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     let aff = 1;
     for (let i = 0; i < m; i++) {
       const s1 = -f1[i], s2 = -f2[i];
-      const d1 = -mu1[i] + (mu1[i] * du[i]) / s1; // dmu1 = (-mu1 s1 + mu1 du) / s1
-      const d2 = -mu2[i] - (mu2[i] * du[i]) / s2;
+      const d1 = -mu1[i] + mu1[i] * du[i] * inv1[i]; // dmu1 = (-mu1 s1 + mu1 du) / s1
+      const d2 = -mu2[i] - mu2[i] * du[i] * inv2[i];
       dmu1[i] = d1; dmu2[i] = d2;
-      if (d1 < 0) aff = Math.min(aff, -mu1[i] / d1);
-      if (d2 < 0) aff = Math.min(aff, -mu2[i] / d2);
-      if (du[i] > 0) aff = Math.min(aff, s1 / du[i]);
-      else if (du[i] < 0) aff = Math.min(aff, s2 / -du[i]);
+      // step limits, compared without dividing: t <= a / b for b > 0 is t b <= a
+      if (d1 < 0 && aff * -d1 > mu1[i]) aff = mu1[i] / -d1;
+      if (d2 < 0 && aff * -d2 > mu2[i]) aff = mu2[i] / -d2;
+      if (du[i] > 0) { if (aff * du[i] > s1) aff = s1 / du[i]; }
+      else if (du[i] < 0) { if (aff * -du[i] > s2) aff = s2 / -du[i]; }
     }
     let compAff = 0;
     for (let i = 0; i < m; i++) {
@@ -202,7 +212,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
       const s1 = -f1[i], s2 = -f2[i];
       const c1 = -du[i] * dmu1[i], c2 = du[i] * dmu2[i];
       // Q du + dmu1 - dmu2 = -rd ; dmu1 = (-mu1 s1 + target - c1 + mu1 du) / s1 ; dmu2 = (-mu2 s2 + target - c2 - mu2 du) / s2
-      rhs[i] = -rd[i] - (-mu1[i] * s1 + target - c1) / s1 + (-mu2[i] * s2 + target - c2) / s2;
+      rhs[i] = -rd[i] - (-mu1[i] * s1 + target - c1) * inv1[i] + (-mu2[i] * s2 + target - c2) * inv2[i];
       du2[i] = c1; // keep c1 for the multiplier step
       tmp[i] = c2;
     }
@@ -211,13 +221,13 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     let smax = 1;
     for (let i = 0; i < m; i++) {
       const s1 = -f1[i], s2 = -f2[i];
-      const d1 = (-mu1[i] * s1 + target - du2[i] + mu1[i] * du[i]) / s1;
-      const d2 = (-mu2[i] * s2 + target - tmp[i] - mu2[i] * du[i]) / s2;
+      const d1 = (-mu1[i] * s1 + target - du2[i] + mu1[i] * du[i]) * inv1[i];
+      const d2 = (-mu2[i] * s2 + target - tmp[i] - mu2[i] * du[i]) * inv2[i];
       dmu1[i] = d1; dmu2[i] = d2;
-      if (d1 < 0) smax = Math.min(smax, -mu1[i] / d1);
-      if (d2 < 0) smax = Math.min(smax, -mu2[i] / d2);
-      if (du[i] > 0) smax = Math.min(smax, s1 / du[i]);
-      else if (du[i] < 0) smax = Math.min(smax, s2 / -du[i]);
+      if (d1 < 0 && smax * -d1 > mu1[i]) smax = mu1[i] / -d1;
+      if (d2 < 0 && smax * -d2 > mu2[i]) smax = mu2[i] / -d2;
+      if (du[i] > 0) { if (smax * du[i] > s1) smax = s1 / du[i]; }
+      else if (du[i] < 0) { if (smax * -du[i] > s2) smax = s2 / -du[i]; }
     }
     let finite = Number.isFinite(smax);
     for (let i = 0; i < m && finite; i++) if (!Number.isFinite(du[i])) finite = false;
