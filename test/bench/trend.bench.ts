@@ -125,7 +125,14 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
       const lam = 1e-3 * trendPenaltyMax(s, { order: k });
       const m0 = memory();
       const t0 = now();
-      const r = fitTrend(s, { order: k, penalty: lam });
+      let r: ReturnType<typeof fitTrend>;
+      try {
+        r = fitTrend(s, { order: k, penalty: lam });
+      } catch (e) {
+        // a fit the engine refuses (no reliable optimum reached) is a result of the benchmark too
+        emit({ bench: 'trend-single-penalty', order: k, n, penalty: lam, penaltyOverLambdaMax: 1e-3, seconds: (now() - t0) / 1000, error: (e as Error).message });
+        continue;
+      }
       const t1 = now();
       const m1 = memory();
       // the first call includes compiling the solver; repeats (up to n = 1e5) give the steady time
