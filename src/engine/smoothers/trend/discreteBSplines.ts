@@ -17,16 +17,18 @@
  * extended by k + 1 phantom rows on each side, on design points continued beyond
  * the data at the mean spacing: a phantom row r < 0 gives g_r = P_r, a polynomial on
  * the data, and a phantom row r >= n - k - 1 gives g_r = 0 on the data. Basis
- * function e combines the k + 2 consecutive (extended) knots rho_0 < .. < rho_{k+1}
- * starting at e:
- *   B_e = sum_l a_l g_{rho_l},  with sum_l a_l P_{rho_l} = 0 identically,
- * so B_e vanishes outside the points rho_0 + k + 1 .. rho_{k+1} (the smallest
- * support in S(A)). The coefficients a are the null vector of the identity sampled at
- * k + 1 Chebyshev points of the support, in local coordinates. On a point with
- * rho_l < i <= rho_{l+1}, B_e(x_i) is the sum over the knots left of it or, equally,
- * minus the sum over the knots right of it; the shorter of the two sums is used
- * (at most 2 terms for k <= 3), which bounds the cancellation by the ratio of the
- * support to the knot spacing. Each B_e is scaled to max |B_e| = 1.
+ * function e, for the k + 2 consecutive (extended) knots rho_0 < .. < rho_{k+1}
+ * starting at e, is the function of S(A) that vanishes outside the points
+ * rho_0 + k + 1 .. rho_{k+1} (the smallest support in S(A)). It is one polynomial Q_l
+ * of degree k on each of its k + 1 pieces (the points rho_l < i <= rho_{l+1}), and
+ * consecutive pieces agree on the k points x_{rho_l + 1} .. x_{rho_l + k} (that is what
+ * (D b)_j = 0 off the knots means), with Q_{-1} = Q_{k+1} = 0. Each Q_l is written in
+ * its own coordinate t = (x - centre) / half-width over the points it covers; the
+ * (k + 1)^2 coefficients are the null vector of these k (k + 2) conditions (Gaussian
+ * elimination with complete pivoting). Local coordinates keep this accurate however
+ * unequal the pieces are; summing truncated powers instead cancels badly when knots
+ * cluster beside long stretches. Each B_e is scaled to max |B_e| = 1 on the data, and
+ * (D B_e) at its knots is k! times the jump of the leading coefficient.
  *
  * At most k + 1 basis functions are non-zero at a point and they are consecutive, so
  * Gram matrices are banded with half-bandwidth k. For k = 1 the B_e are the hat
