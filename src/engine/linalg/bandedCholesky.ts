@@ -116,10 +116,9 @@ export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Fl
     }
     // backward: x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2}) / L(i, i)
     let x1 = 0, x2 = 0;
-    let c1 = 0, c2 = 0; // L(i+1, i), L(i+2, i)
     for (let i = n - 1; i >= 0; i--) {
-      c1 = i + 1 < n ? l[3 * (i + 1) + 1] : 0;
-      c2 = i + 2 < n ? l[3 * (i + 2) + 2] : 0;
+      const c1 = i + 1 < n ? l[3 * (i + 1) + 1] : 0; // L(i+1, i)
+      const c2 = i + 2 < n ? l[3 * (i + 2) + 2] : 0; // L(i+2, i)
       const x = (b[i] - c1 * x1 - c2 * x2) * l[3 * i];
       b[i] = x;
       x2 = x1; x1 = x;

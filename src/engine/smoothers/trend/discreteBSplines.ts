@@ -87,6 +87,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const nu = (k + 1) * (k + 1); // unknowns: k + 1 local coefficients for each of the k + 1 pieces
   const M = new Float64Array((nu - 1) * nu);
   const coef = new Float64Array(nu);
+  const perm = new Int32Array(nu), z = new Float64Array(nu); // work space of nullVector
   const cen = new Float64Array(k + 1), half = new Float64Array(k + 1);
   const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
   for (let e = 0; e < p; e++) {
@@ -110,7 +111,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
         row++;
       }
     }
-    if (!nullVector(M, nu - 1, nu, coef)) return null;
+    if (!nullVector(M, nu - 1, nu, coef, perm, z)) return null;
     // values on the support
     let vmax = 0;
     let l = 0;
@@ -140,16 +141,16 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
 /**
  * A null vector of the rows x cols matrix M (row-major, rank cols - 1): Gaussian
  * elimination with complete pivoting, the last free column set to 1. False when the
- * rank is lower (numerically coincident knots). Unchecked.
+ * rank is lower (numerically coincident knots). `perm` and `z` (length cols) are work space. Unchecked.
  */
-function nullVector(M: Float64Array, rows: number, cols: number, out: Float64Array): boolean {
-  const perm = Int32Array.from({ length: cols }, (_, j) => j);
-  let first = 0;
+function nullVector(M: Float64Array, rows: number, cols: number, out: Float64Array, perm: Int32Array, z: Float64Array): boolean {
+  for (let j = 0; j < cols; j++) perm[j] = j;
+  let top = 0;
   for (let c = 0; c < rows; c++) {
     let pr = c, pc = c, best = 0;
     for (let r = c; r < rows; r++) for (let j = c; j < cols; j++) { const v = Math.abs(M[r * cols + j]); if (v > best) { best = v; pr = r; pc = j; } }
-    if (c === 0) first = best;
-    if (!(best > 1e-13 * first)) return false;
+    if (c === 0) top = best;
+    if (!(best > 1e-13 * top)) return false;
     if (pr !== c) for (let j = 0; j < cols; j++) { const t = M[c * cols + j]; M[c * cols + j] = M[pr * cols + j]; M[pr * cols + j] = t; }
     if (pc !== c) { for (let r = 0; r < rows; r++) { const t = M[r * cols + c]; M[r * cols + c] = M[r * cols + pc]; M[r * cols + pc] = t; } const t = perm[c]; perm[c] = perm[pc]; perm[pc] = t; }
     const piv = M[c * cols + c];
@@ -160,7 +161,6 @@ function nullVector(M: Float64Array, rows: number, cols: number, out: Float64Arr
     }
   }
   // columns 0..rows-1 (permuted) are pivots; the last one is free
-  const z = new Float64Array(cols);
   z[rows] = 1;
   for (let c = rows - 1; c >= 0; c--) {
     let s = -M[c * cols + rows];

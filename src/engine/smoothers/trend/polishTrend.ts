@@ -154,12 +154,11 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
  * Certificate of a sign-consistent restricted solution: with u from D^T u = g,
  * g = W (y - b), and delta = max(0, max |u| / lambda - 1), the vector
  * u / (1 + delta) is dual feasible and G(u / (1 + delta)) = (y.g) / (1 + delta) -
- * (1/2) sum g^2 / w / (1 + delta)^2, so P(b) - G is a valid duality gap. D b is zero
- * off the active rows by construction, so P sums |D b| over them (what D b shows
- * elsewhere is rounding in evaluating D). Accepted when delta <= 1e-4. For
- * `optimal` (no row violates by more than {@link boxRelative}) the same gap is formed as
- * lambda ||D b||_1 - u.D b over the active rows plus the cost of scaling u into the box,
- * which avoids the cancellation of P - G.
+ * (1/2) sum g^2 / w / (1 + delta)^2, so P(b) - G is a valid duality gap, formed as
+ * lambda ||D b||_1 - u.D b over the active rows plus the cost of scaling u into the box
+ * (no cancellation of P against G). D b is exactly zero off the active rows (the
+ * restricted solve's space). Unless `optimal` (no row violates by more than
+ * {@link boxRelative}), accepted only when delta <= 1e-4.
  */
 function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number): PolishResult {
   const fail: PolishResult = { ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
@@ -176,7 +175,7 @@ function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifi
   for (const r of rows) l1 += Math.abs(db[r]);
   const obj = rss + lambda * l1;
   // u / f with f = 1 + delta is dual feasible. Its dual value is G(u) - e (y.g - g.W^-1 g (1 - e / 2)),
-  // e = 1 - 1 / f, and P(b) - G(u) = lambda ||D b||_1 - u.D b when D^T u = g; so the gap is
+  // e = 1 - 1 / f, and P(b) - G(u) = lambda ||D b||_1 - u.D b since D^T u = g; so the gap is
   // that sum over the active rows plus the loss from scaling u into the box, each formed
   // without the cancellation of P - G. Rows whose violation was below the slack of
   // boxRelative are paid for here, not ignored.
@@ -184,9 +183,7 @@ function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifi
   const e = 1 - 1 / f;
   let ud = 0;
   for (const r of rows) ud += u[r] * db[r];
-  const gap = optimal
-    ? Math.max(lambda * l1 - ud, 0) + Math.max(e * (yg - gg * (1 - e / 2)), 0)
-    : Math.max(obj - (yg / f - (0.5 * gg) / (f * f)), 0);
+  const gap = Math.max(lambda * l1 - ud, 0) + Math.max(e * (yg - gg * (1 - e / 2)), 0);
   const scale = 1 / f;
   const knots = rows.filter((r) => Math.abs(db[r]) > 1e-10 * dmax);
   return { ok: true, b, u: Float64Array.from(u, (v) => v * scale), knots, dKnots: Float64Array.from(knots, (r) => db[r]), achieved: obj > 0 ? gap / obj : 0, rounds };

@@ -1,7 +1,7 @@
 import type { SolverStatus } from '../../types';
 import { totalVariationDenoise } from './totalVariationDenoise';
 import { trendDualInteriorPoint, trendOperator, TrendOperator, INTERIOR_POINT_RULE } from './trendDualInteriorPoint';
-import { polishTrend } from './polishTrend';
+import { polishTrend, PolishResult } from './polishTrend';
 import { weightedPolynomialFit } from './weightedPolynomialFit';
 import { dualFromResidual } from './dualFromResidual';
 import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } from './trendAdmm';
@@ -123,7 +123,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   const f = Math.pow(N, k);
   const u01 = new Float64Array(sol.u.length);
   for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-  let pol: ReturnType<typeof polishTrend> = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
+  let pol: PolishResult = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
   if (sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));
@@ -147,14 +147,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     const ua = new Float64Array(admm.u.length);
     for (let r = 0; r < ua.length; r++) ua[r] = admm.u[r] / f;
     pol = polishTrend(prob.x01, y, w, k, lambda / f, ua, undefined, prob.poly.b, admm.knots);
-    if (pol.ok && pol.achieved <= tolerance) {
-      const u = new Float64Array(pol.u.length);
-      for (let r = 0; r < u.length; r++) u[r] = pol.u[r] * f;
-      return {
-        b: pol.b, u, lambda, knotRows: pol.knots, knotDifferences: Float64Array.from(pol.dKnots, (v) => v / f), admm: admm.state,
-        status: { converged: true, iterations: sol.status.iterations + admmIterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
-      };
-    }
+    if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, sol.status.iterations + admmIterations, admm.state);
   }
   if (!pol.ok && !sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b);
   if (!pol.ok && !sol.status.converged && warm) {
@@ -195,7 +188,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
         let curLam = lmax;
         let ok = true;
         let rounds = 0;
-        let last: ReturnType<typeof polishTrend> | undefined;
+        let last: PolishResult | undefined;
         for (let j = 1; j <= steps && ok; j++) {
           const lj = lmax * Math.pow(target / lmax, j / steps);
           const st = Float64Array.from(cur, (v) => (v * lj) / curLam);
@@ -210,12 +203,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     }
   }
   if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved) && !(admm && admm.achieved < pol.achieved)) {
-    const u = new Float64Array(pol.u.length);
-    for (let r = 0; r < u.length; r++) u[r] = pol.u[r] * f;
-    return {
-      b: pol.b, u, lambda, knotRows: pol.knots, knotDifferences: Float64Array.from(pol.dKnots, (v) => v / f), admm: admm?.state,
-      status: { converged: pol.achieved <= tolerance, iterations: sol.status.iterations + admmIterations + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
-    };
+    return refinedFit(pol, f, lambda, tolerance, sol.status.iterations + admmIterations, admm?.state);
   }
   if (admm && admm.achieved < sol.status.achieved) {
     return {
@@ -225,6 +213,17 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   }
   const knotRows = knotRowsOf(prob, sol.b, sol.u, lambda);
   return { b: sol.b, u: sol.u, lambda, knotRows, status: { ...sol.status, stoppingRule: TREND_RULE } };
+}
+
+/**
+ * A {@link TrendFit} from a refinement on x in [0, 1]: u and D b scale back by N^k (`f`),
+ * D(x01) = N^k D(x). `before` counts the iterations spent before the refinement. Unchecked.
+ */
+function refinedFit(pol: PolishResult, f: number, lambda: number, tolerance: number, before: number, admm?: AdmmState): TrendFit {
+  return {
+    b: pol.b, u: Float64Array.from(pol.u, (v) => v * f), lambda, knotRows: pol.knots, knotDifferences: Float64Array.from(pol.dKnots, (v) => v / f), admm,
+    status: { converged: pol.achieved <= tolerance, iterations: before + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
+  };
 }
 
 /** Knot rows of an interior-point solution: |u_r| >= lambda (1 - 1e-6) and |(D b)_r| > 1e-8 max |D b|. Unchecked. */

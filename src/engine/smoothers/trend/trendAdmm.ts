@@ -137,25 +137,24 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
   const pen = lambda / rho;
   let iter = 0;
   let converged = false;
-  // k = 1: the b step as one forward and one backward sweep with the reciprocal pivots
-  // (the factor's diagonal holds them, see bandedCholesky)
-  const inv = k === 1 ? Float64Array.from({ length: n }, (_, i) => band[2 * i]) : undefined;
   while (iter < maxIterations) {
     iter++;
-    if (inv) {
+    if (k === 1) {
+      // the b step as one forward and one backward sweep; the factor's diagonal holds the
+      // reciprocal pivots (see bandedCholesky)
       // b step: right-hand side W y + T^T (rho (alpha - s)), forward sweep, backward sweep fused with z = T b + s
       let zp = 0, prev = 0;
       for (let i = 0; i < n; i++) {
         const zi = i < mt ? rho * (alpha[i] - s[i]) : 0;
         const rhs = (i > 0 ? T[2 * (i - 1) + 1] * zp : 0) + (i < mt ? T[2 * i] * zi : 0) + wy[i];
-        prev = (i > 0 ? rhs - band[2 * i + 1] * prev : rhs) * inv[i];
+        prev = (i > 0 ? rhs - band[2 * i + 1] * prev : rhs) * band[2 * i];
         b[i] = prev;
         zp = zi;
       }
-      let next = b[n - 1] * inv[n - 1];
+      let next = b[n - 1] * band[2 * (n - 1)];
       b[n - 1] = next;
       for (let i = n - 2; i >= 0; i--) {
-        const bi = (b[i] - band[2 * (i + 1) + 1] * next) * inv[i];
+        const bi = (b[i] - band[2 * (i + 1) + 1] * next) * band[2 * i];
         b[i] = bi;
         z[i] = T[2 * i] * bi + T[2 * i + 1] * next + s[i];
         next = bi;

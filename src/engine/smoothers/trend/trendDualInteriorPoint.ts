@@ -85,6 +85,23 @@ const STALL_ITERATIONS = 8;
 export const INTERIOR_POINT_RULE = 'relative duality gap (lambda*||Db||_1 - u.Db) / max(primal objective, 1e-12 * null deviance) at most the tolerance (stopping early after 8 iterations without halving it)';
 
 /**
+ * The longest step t <= 1 along (du, dmu1, dmu2) that keeps the slacks s1 = -f1,
+ * s2 = -f2 (s1 - t du, s2 + t du) and the multipliers mu1, mu2 non-negative. Limits are
+ * compared before dividing (t b > a for b > 0 rather than t > a / b). Unchecked.
+ */
+function longestStep(du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): number {
+  let t = 1;
+  for (let i = 0; i < m; i++) {
+    const d1 = dmu1[i], d2 = dmu2[i], d = du[i];
+    if (d1 < 0 && t * -d1 > mu1[i]) t = mu1[i] / -d1;
+    if (d2 < 0 && t * -d2 > mu2[i]) t = mu2[i] / -d2;
+    if (d > 0) { if (t * d > -f1[i]) t = -f1[i] / d; }
+    else if (d < 0) { if (t * -d > -f2[i]) t = -f2[i] / -d; }
+  }
+  return t;
+}
+
+/**
  * Solves one trend-filtering problem by the dual interior-point method.
  *
  * @param op - operator for x, w, k
@@ -189,18 +206,11 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     // predictor (affine scaling): sigma = 0
     for (let i = 0; i < m; i++) du[i] = -rd[i] + mu1[i] - mu2[i];
     bandedCholeskySolve(mat, m, q, du);
-    let aff = 1;
     for (let i = 0; i < m; i++) {
-      const s1 = -f1[i], s2 = -f2[i];
-      const d1 = -mu1[i] + mu1[i] * du[i] * inv1[i]; // dmu1 = (-mu1 s1 + mu1 du) / s1
-      const d2 = -mu2[i] - mu2[i] * du[i] * inv2[i];
-      dmu1[i] = d1; dmu2[i] = d2;
-      // step limits, compared without dividing: t <= a / b for b > 0 is t b <= a
-      if (d1 < 0 && aff * -d1 > mu1[i]) aff = mu1[i] / -d1;
-      if (d2 < 0 && aff * -d2 > mu2[i]) aff = mu2[i] / -d2;
-      if (du[i] > 0) { if (aff * du[i] > s1) aff = s1 / du[i]; }
-      else if (du[i] < 0) { if (aff * -du[i] > s2) aff = s2 / -du[i]; }
+      dmu1[i] = -mu1[i] + mu1[i] * du[i] * inv1[i]; // dmu1 = (-mu1 s1 + mu1 du) / s1
+      dmu2[i] = -mu2[i] - mu2[i] * du[i] * inv2[i];
     }
+    const aff = longestStep(du, dmu1, dmu2, mu1, mu2, f1, f2, m);
     let compAff = 0;
     for (let i = 0; i < m; i++) {
       compAff += (mu1[i] + aff * dmu1[i]) * (-f1[i] - aff * du[i]) + (mu2[i] + aff * dmu2[i]) * (-f2[i] + aff * du[i]);
@@ -218,17 +228,11 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     }
     du.set(rhs);
     bandedCholeskySolve(mat, m, q, du);
-    let smax = 1;
     for (let i = 0; i < m; i++) {
-      const s1 = -f1[i], s2 = -f2[i];
-      const d1 = (-mu1[i] * s1 + target - du2[i] + mu1[i] * du[i]) * inv1[i];
-      const d2 = (-mu2[i] * s2 + target - tmp[i] - mu2[i] * du[i]) * inv2[i];
-      dmu1[i] = d1; dmu2[i] = d2;
-      if (d1 < 0 && smax * -d1 > mu1[i]) smax = mu1[i] / -d1;
-      if (d2 < 0 && smax * -d2 > mu2[i]) smax = mu2[i] / -d2;
-      if (du[i] > 0) { if (smax * du[i] > s1) smax = s1 / du[i]; }
-      else if (du[i] < 0) { if (smax * -du[i] > s2) smax = s2 / -du[i]; }
+      dmu1[i] = (mu1[i] * f1[i] + target - du2[i] + mu1[i] * du[i]) * inv1[i];
+      dmu2[i] = (mu2[i] * f2[i] + target - tmp[i] - mu2[i] * du[i]) * inv2[i];
     }
+    const smax = longestStep(du, dmu1, dmu2, mu1, mu2, f1, f2, m);
     let finite = Number.isFinite(smax);
     for (let i = 0; i < m && finite; i++) if (!Number.isFinite(du[i])) finite = false;
     if (!finite) break;
