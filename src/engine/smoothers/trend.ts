@@ -50,7 +50,7 @@ import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../optio
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { oneStandardError } from '../select/oneStandardError';
 import { differenceOperator } from '../linalg/difference';
-import { trendScaling, toScaledPenalty, toDataPenalty } from './trend/trendScaling';
+import { trendScaling, toScaledPenalty, toDataPenalty, TrendScaling } from './trend/trendScaling';
 import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
 import { trendPath, TrendPath, relaxFit, knotPositions } from './trend/trendPath';
 import { interpolateTrend } from './trend/interpolateTrend';
@@ -201,21 +201,24 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
   checkSize(series, k);
   const n = series.n;
   const warnings: Warning[] = [...series.warnings];
-  const sc = trendScaling(series, k);
-  const prob: TrendProblem = { x: sc.xs, y: sc.ys, w: sc.ws, k };
+  // the scaled problem: built here for a given penalty, else taken from the path (with what its solves cached)
+  let sc: TrendScaling;
   let lamScaled: number;
   let criterion: Criterion;
   let fit: TrendFit;
   let dataDriven = false;
   if (options.penalty !== undefined) {
     const lam = checkPenalty(options.penalty, 'penalty');
+    sc = trendScaling(series, k);
+    const prob: TrendProblem = { x: sc.xs, y: sc.ys, w: sc.ws, k };
     lamScaled = toScaledPenalty(lam, sc);
     fit = lamScaled > 0 ? solveTrend(prob, lamScaled, s.tolerance, s.maxIterations) : interpolatingFit(prob);
     criterion = { name: 'fixed', value: NaN };
   } else if (options.df !== undefined) {
     const target = checkPositive(options.df, 'df');
     const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: 0, relaxed: 0, tolerance: s.tolerance, maxIterations: s.maxIterations });
-    const r = searchDf(prob, path, target, s);
+    sc = path.scaling;
+    const r = searchDf(path.problem, path, target, s);
     fit = r.fit;
     lamScaled = r.lambda;
     criterion = { name: 'df', value: fit.knotRows.length + k + 1, curve: curveOf(path, 'df'), atEdge: false };
@@ -243,8 +246,9 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
         ? `The ${rule.toUpperCase()} choice is the smallest penalty searched (${showNumber(pts[0].penalty)}): the fit may follow noise; consider a larger penalty or a df target.`
         : `The ${rule.toUpperCase()} choice is the largest penalty searched (lambda_max = ${showNumber(pts[chosen].penalty)}): the data show no trend beyond a polynomial of degree ${k}.`));
     }
+    sc = path.scaling;
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
-    fit = solveTrend(prob, lamScaled, s.tolerance, s.maxIterations);
+    fit = solveTrend(path.problem, lamScaled, s.tolerance, s.maxIterations);
   }
   return assemble(series, s, sc, fit, lamScaled, criterion, warnings, dataDriven, options);
 }
@@ -316,7 +320,7 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
   return { fit, lambda: lam, clamped, maxDf: maxDfReached };
 }
 
-function assemble(series: Series, s: TrendSettings, sc: ReturnType<typeof trendScaling>, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions): FitResult {
+function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions): FitResult {
   const k = s.order;
   const n = series.n;
   const { x } = series;

@@ -2,8 +2,7 @@ import type { SolverStatus } from '../../types';
 import { totalVariationDenoise } from './totalVariationDenoise';
 import { trendDualInteriorPoint, trendOperator, TrendOperator, INTERIOR_POINT_RULE } from './trendDualInteriorPoint';
 import { polishTrend, PolishResult } from './polishTrend';
-import { weightedPolynomialFit } from './weightedPolynomialFit';
-import { dualFromResidual } from './dualFromResidual';
+import { polynomialDual, PolynomialDual } from './trendLambdaMax';
 import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } from './trendAdmm';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
@@ -16,10 +15,8 @@ export interface TrendProblem {
   op?: TrendOperator;
   /** x mapped to [0, 1], built on first use. */
   x01?: Float64Array;
-  /** Weighted polynomial fit, its dual and lambda_max (on x), built on first use. */
-  poly?: { b: Float64Array; u: Float64Array; lambdaMax: number };
-  /** Dual of the weighted polynomial fit on x01 (refinement restarts), built on first use. */
-  polyDual?: Float64Array;
+  /** Weighted polynomial fit, its dual and lambda_max (on x), built on first use ({@link polynomialOf}). */
+  poly?: PolynomialDual;
   /** Rows of the ADMM split operator ({@link scaledDifferenceRows}), built on first use. */
   admmRows?: Float64Array;
 }
@@ -100,17 +97,9 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   }
   if (!prob.op) prob.op = trendOperator(x, w, k);
   // at or above lambda_max the weighted polynomial fit is the exact solution
-  if (!prob.poly) {
-    const p = weightedPolynomialFit(x, y, w, k);
-    const g = new Float64Array(n);
-    for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - p[i]);
-    const u = dualFromResidual(x, k + 1, g).u;
-    let um = 0;
-    for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
-    prob.poly = { b: p, u, lambdaMax: um };
-  }
-  if (lambda >= prob.poly.lambdaMax) {
-    return { b: Float64Array.from(prob.poly.b), u: Float64Array.from(prob.poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
+  const poly = polynomialOf(prob);
+  if (lambda >= poly.lambdaMax) {
+    return { b: Float64Array.from(poly.b), u: Float64Array.from(poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
   }
   let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
   if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
@@ -126,7 +115,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   let pol: PolishResult = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
-  if (sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));
+  if (sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));
   let admmIterations = 0;
   let admm: AdmmResult | undefined;
   if (!sol.status.converged && k === 1) {
@@ -146,10 +135,10 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     admmIterations = admm.status.iterations;
     const ua = new Float64Array(admm.u.length);
     for (let r = 0; r < ua.length; r++) ua[r] = admm.u[r] / f;
-    pol = polishTrend(prob.x01, y, w, k, lambda / f, ua, undefined, prob.poly.b, admm.knots);
+    pol = polishTrend(prob.x01, y, w, k, lambda / f, ua, undefined, poly.b, admm.knots);
     if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, sol.status.iterations + admmIterations, admm.state);
   }
-  if (!pol.ok && !sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b);
+  if (!pol.ok && !sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, poly.b);
   if (!pol.ok && !sol.status.converged && warm) {
     // a warm start can stall where a cold one does not
     const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
@@ -158,7 +147,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     sol = { ...sol, status: { ...sol.status, iterations: iters } };
     if (!sol.status.converged) {
       for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-      pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, prob.poly.b);
+      pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, poly.b);
     }
   }
   if (!pol.ok && !sol.status.converged) {
@@ -167,24 +156,18 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     const start = new Float64Array(u01.length);
     if (warm && warm.knotRows.length) {
       for (const r of warm.knotRows) start[r] = Math.sign(warm.u[r] || 1) * (lambda / f);
-      const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start, undefined, prob.poly.b);
+      const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start, undefined, poly.b);
       if (pol2.ok) pol = pol2;
     }
     if (!pol.ok) {
       // continuation from lambda_max (where the active set is empty) down to lambda in
       // geometric steps, each refinement started from the knots of the step before
-      if (!prob.polyDual) {
-        const p = weightedPolynomialFit(x, y, w, k);
-        const g = new Float64Array(n);
-        for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - p[i]);
-        prob.polyDual = dualFromResidual(prob.x01, k + 1, g).u;
-      }
-      let lmax = 0;
-      for (let r = 0; r < prob.polyDual.length; r++) lmax = Math.max(lmax, Math.abs(prob.polyDual[r]));
+      // (on x01 the polynomial's dual is u / N^k, as D(x01) = N^k D(x))
+      const lmax = poly.lambdaMax / f;
       const target = lambda / f;
       if (lmax > target) {
         const steps = Math.max(2, Math.ceil(Math.log10(lmax / target) * CONTINUATION_STEPS_PER_DECADE));
-        let cur: Float64Array = prob.polyDual;
+        let cur: Float64Array = Float64Array.from(poly.u, (v) => v / f);
         let curLam = lmax;
         let ok = true;
         let rounds = 0;
@@ -192,7 +175,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
         for (let j = 1; j <= steps && ok; j++) {
           const lj = lmax * Math.pow(target / lmax, j / steps);
           const st = Float64Array.from(cur, (v) => (v * lj) / curLam);
-          last = polishTrend(prob.x01, y, w, k, lj, st, undefined, prob.poly!.b);
+          last = polishTrend(prob.x01, y, w, k, lj, st, undefined, poly.b);
           rounds += last.rounds;
           ok = last.ok;
           cur = last.u;
@@ -213,6 +196,12 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   }
   const knotRows = knotRowsOf(prob, sol.b, sol.u, lambda);
   return { b: sol.b, u: sol.u, lambda, knotRows, status: { ...sol.status, stoppingRule: TREND_RULE } };
+}
+
+/** The weighted polynomial fit of degree k, its dual and lambda_max for `prob`, computed once. Unchecked. */
+export function polynomialOf(prob: TrendProblem): PolynomialDual {
+  if (!prob.poly) prob.poly = polynomialDual(prob.x, prob.y, prob.w, prob.k);
+  return prob.poly;
 }
 
 /**

@@ -1,23 +1,43 @@
 import { dualFromResidual } from './dualFromResidual';
 import { weightedPolynomialFit } from './weightedPolynomialFit';
 
+/** The weighted least-squares polynomial of degree k, its dual and lambda_max ({@link polynomialDual}). */
+export interface PolynomialDual {
+  /** Fitted values of the polynomial. */
+  b: Float64Array;
+  /** The dual u with D(x, k+1)^T u = W (y - b), length n - k - 1. */
+  u: Float64Array;
+  /** max |u|. */
+  lambdaMax: number;
+}
+
+/**
+ * The trend-filtering solution at and above lambda_max: the weighted
+ * least-squares polynomial of degree k. With r the residual of that polynomial,
+ * the dual u solving D(x, k+1)^T u = W r is unique, and the polynomial is optimal
+ * exactly when max |u| <= lambda (Tibshirani 2014, section 6; Kim et al. 2009,
+ * section 3.1), so lambda_max = max |u|.
+ *
+ * Unchecked: n >= k + 2.
+ */
+export function polynomialDual(x: Float64Array, y: Float64Array, w: Float64Array, k: number): PolynomialDual {
+  const n = x.length;
+  const b = weightedPolynomialFit(x, y, w, k);
+  const g = new Float64Array(n);
+  for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - b[i]);
+  const { u } = dualFromResidual(x, k + 1, g);
+  let mx = 0;
+  for (let i = 0; i < u.length; i++) mx = Math.max(mx, Math.abs(u[i]));
+  return { b, u, lambdaMax: mx };
+}
+
 /**
  * lambda_max of trend filtering of order k: the smallest penalty at which the
- * solution is the weighted least-squares polynomial of degree k. With r the
- * residual of that polynomial, the dual u solving D(x, k+1)^T u = W r is
- * unique, and the polynomial is optimal exactly when max |u| <= lambda
- * (Tibshirani 2014, section 6; Kim et al. 2009, section 3.1).
+ * solution is the weighted least-squares polynomial of degree k ({@link polynomialDual}).
  *
  * @returns lambda_max in the units of the inputs (>= 0; 0 when y is itself such a polynomial)
  * Unchecked: n >= k + 2.
  */
 export function trendLambdaMax(x: Float64Array, y: Float64Array, w: Float64Array, k: number): number {
-  const n = x.length;
-  const p = weightedPolynomialFit(x, y, w, k);
-  const g = new Float64Array(n);
-  for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - p[i]);
-  const { u } = dualFromResidual(x, k + 1, g);
-  let mx = 0;
-  for (let i = 0; i < u.length; i++) mx = Math.max(mx, Math.abs(u[i]));
-  return mx;
+  return polynomialDual(x, y, w, k).lambdaMax;
 }

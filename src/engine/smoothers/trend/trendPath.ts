@@ -7,8 +7,7 @@ import type { Series } from '../../series';
 import type { SolverStatus } from '../../types';
 import { foldOf } from '../../select/foldOf';
 import { trendScaling, toDataPenalty, TrendScaling } from './trendScaling';
-import { trendLambdaMax } from './trendLambdaMax';
-import { solveTrend, TrendFit, TrendProblem } from './solveTrend';
+import { solveTrend, polynomialOf, TrendFit, TrendProblem } from './solveTrend';
 import { interpolateTrend } from './interpolateTrend';
 import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSplineRefit';
 import { differenceNoiseScale } from './differenceNoiseScale';
@@ -57,9 +56,10 @@ export interface TrendPath {
   lambdaMax: number;
   /** Robust noise sd used by SURE ({@link differenceNoiseScale}). */
   sigmaNoise: number;
-  /** Internal: scaled grid, decreasing, and the scaling. */
+  /** Internal: scaled grid, decreasing, the scaling, and the full-data problem with what its solves cached (operator, polynomial fit). */
   scaledGrid: Float64Array;
   scaling: TrendScaling;
+  problem: TrendProblem;
 }
 
 /**
@@ -119,7 +119,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   const sc = trendScaling(series, k);
   const n = series.n;
   const prob: TrendProblem = { x: sc.xs, y: sc.ys, w: sc.ws, k };
-  let lmax = trendLambdaMax(sc.xs, sc.ys, sc.ws, k);
+  let lmax = polynomialOf(prob).lambdaMax;
   if (!(lmax > 0)) lmax = 1;
   const G = s.gridSize;
   const ratio = s.ratio ?? defaultGridRatio(k);
@@ -186,5 +186,5 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
     }
   }
   pts.reverse();
-  return { points: pts, lambdaMax: toDataPenalty(lmax, sc), sigmaNoise, scaledGrid: grid, scaling: sc };
+  return { points: pts, lambdaMax: toDataPenalty(lmax, sc), sigmaNoise, scaledGrid: grid, scaling: sc, problem: prob };
 }
