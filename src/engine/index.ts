@@ -33,5 +33,5 @@ export { distributionCost } from './breaks/costDistribution';
 export { totalCost } from './breaks/segmentCost';
 export type { SegmentCost, Segmentation } from './breaks/segmentCost';
 export { penaltyValue, parametersPerChange } from './breaks/penaltyValue';
-export { differenceSigma } from './breaks/robustSigma';
+export { differenceSigma } from './robustSigma';
 export { suffixLowerBound, brokenLineFit } from './breaks/slopeBounds';

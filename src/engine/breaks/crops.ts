@@ -2,6 +2,8 @@
  * CROPS: every optimal segmentation for a range of penalties.
  */
 import type { CropsRow } from './types';
+import { showNumber } from '../errors';
+import { warning, type Warning } from '../warnings';
 
 /** What CROPS needs from one penalised search. */
 export interface PenalisedFit {
@@ -97,4 +99,27 @@ export function crops(solve: (penalty: number) => PenalisedFit, low: number, hig
     rows.push({ penalty: Math.min(Math.max(c.penalty, lo), hi), penaltyLow: lo, penaltyHigh: hi, changes: c.m, cost: c.cost, breaks: c.changes.slice() });
   }
   return { rows, runs, complete };
+}
+
+/** Work counters of one exact search, summed by {@link cropsWithCounts}. */
+export interface SearchCounts {
+  evaluations: number;
+  maxCandidates: number;
+}
+
+/**
+ * {@link crops} over [range[0], range[1]] for a search that reports its work: the table,
+ * the searches run, their summed evaluations and largest candidate set, and the
+ * 'not-converged' warning when `maxRuns` stopped it. Unchecked.
+ */
+export function cropsWithCounts(solve: (penalty: number) => PenalisedFit & SearchCounts, range: [number, number], maxRuns: number): CropsOutcome & SearchCounts & { warning?: Warning } {
+  let evaluations = 0, maxCandidates = 0;
+  const out = crops((b) => {
+    const r = solve(b);
+    evaluations += r.evaluations;
+    maxCandidates = Math.max(maxCandidates, r.maxCandidates);
+    return r;
+  }, range[0], range[1], maxRuns);
+  const warn = out.complete ? undefined : warning('not-converged', `CROPS stopped after ${out.runs} searches (maxRuns); the table may miss some segmentations between penalties ${showNumber(range[0])} and ${showNumber(range[1])}.`);
+  return { ...out, evaluations, maxCandidates, ...(warn ? { warning: warn } : {}) };
 }

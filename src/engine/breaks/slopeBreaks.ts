@@ -5,9 +5,9 @@ import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
 import { warning, type Warning } from '../warnings';
 import { cpop, type SlopeSegmentation } from './cpop';
-import { crops } from './crops';
+import { cropsWithCounts } from './crops';
+import { givenOrEstimatedSigma } from './stepBreaks';
 import { parametersPerChange, penaltyValue } from './penaltyValue';
-import { differenceSd, differenceSigma } from './robustSigma';
 import { median } from '../median';
 import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation } from './summariseSegment';
 import type { Break, BreaksResult, CropsRow, SegmentSummary } from './types';
@@ -59,17 +59,7 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
   const m = raw.x.length;
   if (m < 2) throw new KnotwiseError('too-few-points', `model 'slope' needs at least 2 distinct x values; got ${m}.`);
   if (m - 1 < o.minSegment) throw new KnotwiseError('too-few-points', `model 'slope' with minSegment ${o.minSegment} needs at least ${o.minSegment + 1} distinct x values; got ${m}.`);
-  let sigma = o.sigma;
-  let source: 'given' | 'estimated' = 'given';
-  if (sigma === undefined) {
-    source = 'estimated';
-    sigma = differenceSigma(raw.y, 2);
-    if (!(sigma > 0)) {
-      sigma = differenceSd(raw.y, 2);
-      if (sigma > 0) notes.push(warning('note', `most second differences are equal, so the robust noise estimate (MAD of second differences) is 0; their standard deviation / sqrt(6) = ${showNumber(sigma)} was used instead. Give sigma to control the scale.`));
-      else { sigma = 1; notes.push(warning('note', 'the noise scale cannot be estimated (points on one straight line, or fewer than 4 distinct x); sigma = 1 (y units) was used. Give sigma to set it.')); }
-    }
-  }
+  const { value: sigma, source } = givenOrEstimatedSigma(o.sigma, raw.y, 2, notes);
   const P = mergePositions(series, centre, sigma);
   const x0 = P.x[0], span = P.x[m - 1] - P.x[0];
   const u = new Float64Array(m);
@@ -83,10 +73,12 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
   const warnings: Warning[] = [...series.warnings, ...notes];
   let table: CropsRow[] | undefined;
   if (o.crops) {
-    const out = crops((b) => { const r = solve(b); evaluations += r.evaluations; maxCandidates = Math.max(maxCandidates, r.maxCandidates); if (!r.exact) inexact++; return r; }, o.crops[0], o.crops[1], o.maxRuns);
+    const out = cropsWithCounts((b) => { const r = solve(b); if (!r.exact) inexact++; return r; }, o.crops, o.maxRuns);
     runs += out.runs;
+    evaluations += out.evaluations;
+    maxCandidates = Math.max(maxCandidates, out.maxCandidates);
     table = out.rows.map((r) => ({ ...r, breaks: r.breaks.map((g) => P.first[g]) }));
-    if (!out.complete) warnings.push(warning('not-converged', `CROPS stopped after ${out.runs} searches (maxRuns); the table may miss some segmentations between penalties ${showNumber(o.crops[0])} and ${showNumber(o.crops[1])}.`));
+    if (out.warning) warnings.push(out.warning);
   }
   if (inexact) {
     warnings.push(warning('not-converged', `the exact search for kinks ran out of its work budget (${inexact} of ${runs} search${runs === 1 ? '' : 'es'}); the broken line returned is the best found, not proven optimal. Long series with many kinks cost most: try a larger penalty, a larger minSegment, or a shorter range.`));
@@ -94,7 +86,7 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
   // broken line through the knots, back in y units
   const knots = [0, ...seg.changes, m - 1];
   const kx = knots.map((g) => P.x[g]);
-  const kv = seg.knotValues.map((v) => centre + sigma! * v);
+  const kv = seg.knotValues.map((v) => centre + sigma * v);
   const fitted = new Float64Array(n);
   let seg_k = 0;
   for (let i = 0; i < n; i++) {

@@ -9,10 +9,10 @@ import { meanVarCost, MEANVAR_FLOOR } from './costMeanVar';
 import { recordingResolution } from './recordingResolution';
 import { poissonCost } from './costPoisson';
 import { distributionCost } from './costDistribution';
-import { crops } from './crops';
+import { cropsWithCounts } from './crops';
 import { pelt } from './pelt';
 import { parametersPerChange, penaltyValue } from './penaltyValue';
-import { differenceSd, differenceSigma } from './robustSigma';
+import { noiseScale } from '../robustSigma';
 import { median } from '../median';
 import type { SegmentCost } from './segmentCost';
 import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation, summariseSegment } from './summariseSegment';
@@ -28,24 +28,25 @@ export function changeAllowed(x: Float64Array): Uint8Array {
   return a;
 }
 
+/**
+ * The noise scale of a model: `given` when set, else {@link noiseScale} of y with its
+ * fallback note (if any) added to `notes`. Unchecked.
+ */
+export function givenOrEstimatedSigma(given: number | undefined, y: ArrayLike<number>, order: 1 | 2, notes: Warning[]): { value: number; source: 'given' | 'estimated' } {
+  if (given !== undefined) return { value: given, source: 'given' };
+  const est = noiseScale(y, order);
+  if (est.note) notes.push(warning('note', est.note));
+  return { value: est.value, source: 'estimated' };
+}
+
 /** Builds the segment cost of a piecewise-constant model, with its scale notes. Unchecked options (validated). */
 export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; sigma?: { value: number; source: 'given' | 'estimated' }; notes: Warning[]; floorNote?: string } {
   const { y, w } = series;
   const notes: Warning[] = [];
   switch (o.model) {
     case 'mean': {
-      let sigma = o.sigma;
-      let source: 'given' | 'estimated' = 'given';
-      if (sigma === undefined) {
-        source = 'estimated';
-        sigma = differenceSigma(y, 1);
-        if (!(sigma > 0)) {
-          sigma = differenceSd(y, 1);
-          if (sigma > 0) notes.push(warning('note', `most successive differences are equal, so the robust noise estimate (MAD of differences) is 0; the standard deviation of differences / sqrt(2) = ${showNumber(sigma)} was used instead. Give sigma to control the scale.`));
-          else { sigma = 1; notes.push(warning('note', 'the noise scale cannot be estimated (constant series or fewer than 3 points); sigma = 1 (y units) was used. Give sigma to set it.')); }
-        }
-      }
-      return { cost: meanCost(y, w, sigma, median(y)), sigma: { value: sigma, source }, notes };
+      const sigma = givenOrEstimatedSigma(o.sigma, y, 1, notes);
+      return { cost: meanCost(y, w, sigma.value, median(y)), sigma, notes };
     }
     case 'meanvar': {
       let W = 0, S = 0;
@@ -92,10 +93,12 @@ export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResu
   const warnings: Warning[] = [...series.warnings, ...notes];
   let table;
   if (o.crops) {
-    const out = crops((b) => { const r = pelt(cost, b, o.minSegment, allowed); evaluations += r.evaluations; maxCandidates = Math.max(maxCandidates, r.maxCandidates); return r; }, o.crops[0], o.crops[1], o.maxRuns);
+    const out = cropsWithCounts((b) => pelt(cost, b, o.minSegment, allowed), o.crops, o.maxRuns);
     runs += out.runs;
+    evaluations += out.evaluations;
+    maxCandidates = Math.max(maxCandidates, out.maxCandidates);
     table = out.rows;
-    if (!out.complete) warnings.push(warning('not-converged', `CROPS stopped after ${out.runs} searches (maxRuns); the table may miss some segmentations between penalties ${showNumber(o.crops[0])} and ${showNumber(o.crops[1])}.`));
+    if (out.warning) warnings.push(out.warning);
   }
   // segments and fitted step function
   const bounds = [0, ...seg.changes, n];

@@ -170,7 +170,7 @@ function cvPossible(n: number, folds: number, k: number): boolean {
  * target lies beyond it), else `options.select`: 'cv' (default;
  * K-fold, `folds` default 5, `oneSE` for the largest penalty within one
  * standard error of the minimum), 'sure' (Mallows Cp with the robust noise sd
- * of {@link differenceNoiseScale}), or 'bic'. Grid: `gridSize` (default 30)
+ * of differenceSigma, weighted first differences), or 'bic'. Grid: `gridSize` (default 30)
  * penalties log-spaced from lambda_max (the smallest giving the polynomial fit)
  * down to 1e-5 lambda_max (k = 0, 1), 1e-7 (k = 2) or 1e-9 (k = 3).
  *

@@ -2,7 +2,6 @@
 import { Matrix, solve } from 'ml-matrix';
 import { restrictedSplineFit } from '../../../src/engine/smoothers/trend/restrictedSplineFit';
 import { interpolateTrend } from '../../../src/engine/smoothers/trend/interpolateTrend';
-import { differenceNoiseScale } from '../../../src/engine/smoothers/trend/differenceNoiseScale';
 import { dualFromResidual } from '../../../src/engine/smoothers/trend/dualFromResidual';
 import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/engine/smoothers/trend/regressionSplineRefit';
 import { differenceTranspose } from '../../../src/engine/linalg/difference';
@@ -56,17 +55,6 @@ describe('dualFromResidual', () => {
       for (let i = 0; i < u.length; i++) expect(r.u[i]).toBeCloseTo(u[i], 8);
       expect(r.inconsistency).toBeLessThan(1e-12);
     }
-  });
-});
-
-describe('differenceNoiseScale', () => {
-  test('estimates the noise sd of a smooth signal plus noise within 5% (n = 20000)', () => {
-    // MAD of first differences / sqrt(2): common practice for smooth signals
-    const rn = seededNormal(17);
-    const n = 20000;
-    const y = Float64Array.from({ length: n }, (_, i) => Math.sin(i / 500) * 3 + 0.25 * rn());
-    const s = differenceNoiseScale(y, new Float64Array(n).fill(1));
-    expect(Math.abs(s / 0.25 - 1)).toBeLessThan(0.05);
   });
 });
 

@@ -10,7 +10,7 @@ import { trendScaling, toDataPenalty, TrendScaling } from './trendScaling';
 import { solveTrend, polynomialOf, TrendFit, TrendProblem } from './solveTrend';
 import { interpolateTrend } from './interpolateTrend';
 import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSplineRefit';
-import { differenceNoiseScale } from './differenceNoiseScale';
+import { differenceSigma } from '../../robustSigma';
 
 /** Settings of {@link trendPath} (already validated). */
 export interface TrendPathSettings {
@@ -54,7 +54,7 @@ export interface TrendPath {
   points: TrendPathPoint[];
   /** lambda_max in the data's units: at and above it the fit is the weighted polynomial of degree k. */
   lambdaMax: number;
-  /** Robust noise sd used by SURE ({@link differenceNoiseScale}). */
+  /** Robust noise sd used by SURE ({@link differenceSigma} of first differences, weighted). */
   sigmaNoise: number;
   /** Internal: scaled grid, decreasing, the scaling, and the full-data problem with what its solves cached (operator, polynomial fit). */
   scaledGrid: Float64Array;
@@ -125,7 +125,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   const ratio = s.ratio ?? defaultGridRatio(k);
   const grid = new Float64Array(G);
   for (let j = 0; j < G; j++) grid[j] = lmax * Math.pow(ratio, j / (G - 1));
-  const sigmaNoise = differenceNoiseScale(series.y, series.w);
+  const sigmaNoise = differenceSigma(series.y, 1, series.w);
   const pts: TrendPathPoint[] = [];
   let warm: TrendFit | undefined;
   for (let j = 0; j < G; j++) {
