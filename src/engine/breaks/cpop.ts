@@ -6,7 +6,7 @@
 const INF = 1 / 0;
 const { abs, sqrt, min } = Math;
 
-import { brokenLineFit, suffixLowerBound } from './slopeBounds';
+import { brokenLineFit, brokenLineRss, suffixLowerBound } from './slopeBounds';
 
 /** Result of {@link cpop}. */
 export interface SlopeSegmentation {
@@ -318,7 +318,6 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
       live[nl++] = cur;
       capT = vmin;
     }
-    {
     // a candidate with no crossing below the current piece ahead of pos lies on or above
     // the envelope from pos on, so it is dropped from the sweep (as in CPOP's pruning)
     let pos = -INF;
@@ -344,8 +343,6 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
       live[argAt] = cur; // the old piece may come back lower further right
       pos = best;
       cur = arg;
-    }
-    if (envHi.length < envIdx.length) envHi.push(INF);
     }
     // store the envelope's pieces as f_t
     for (let k = 0; k < K; k++) onEnv[k] = 0;
@@ -422,14 +419,6 @@ function cpopSearch(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Floa
   const changes = knots.slice(1, -1);
   // residual sum of squares of the broken line, recomputed from the data (the DP's
   // value carries beta in its constants, which costs digits when beta is large)
-  let cost = 0;
-  for (let k = 0, seg = 0; k < n; k++) {
-    while (seg < knots.length - 2 && k > knots[seg + 1]) seg++;
-    const a = knots[seg], b = knots[seg + 1];
-    const u = (x[k] - x[a]) / (x[b] - x[a]);
-    const f = values[seg] + u * (values[seg + 1] - values[seg]);
-    cost += wyy[k] - 2 * f * w[k] * y[k] + w[k] * f * f;
-  }
-  if (cost < 0) cost = 0;
+  const cost = brokenLineRss(x, y, w, wyy, knots, values);
   return { changes, knotValues: values, cost, penalisedCost: cost + beta * changes.length, evaluations, maxCandidates, meanCandidates: sumCandidates / Math.max(1, n - 1), exact: lower === null };
 }

@@ -121,8 +121,17 @@ export function brokenLineFit(x: Float64Array, y: Float64Array, w: Float64Array,
   const values = new Float64Array(k);
   values[k - 1] = dp[k - 1];
   for (let j = k - 2; j >= 0; j--) values[j] = dp[j] - cp[j] * values[j + 1];
+  return { values, rss: brokenLineRss(x, y, w, wyy, knots, values) };
+}
+
+/**
+ * sum_i w_i (y_i - f(x_i))^2 for the broken line f through (x[knots[j]], values[j]),
+ * from the merged sums (w, weighted mean y, sum w y^2 per position), at least 0.
+ * Unchecked: knots start at 0 and end at n - 1.
+ */
+export function brokenLineRss(x: Float64Array, y: Float64Array, w: Float64Array, wyy: Float64Array, knots: readonly number[], values: ArrayLike<number>): number {
   let rss = wyy[0] - 2 * values[0] * w[0] * y[0] + w[0] * values[0] * values[0];
-  for (let j = 0; j + 1 < k; j++) {
+  for (let j = 0; j + 1 < knots.length; j++) {
     const a = knots[j], b = knots[j + 1], L = x[b] - x[a];
     for (let i = a + 1; i <= b; i++) {
       const u = (x[i] - x[a]) / L;
@@ -130,5 +139,5 @@ export function brokenLineFit(x: Float64Array, y: Float64Array, w: Float64Array,
       rss += wyy[i] - 2 * f * w[i] * y[i] + w[i] * f * f;
     }
   }
-  return { values, rss: rss > 0 ? rss : 0 };
+  return rss > 0 ? rss : 0;
 }
