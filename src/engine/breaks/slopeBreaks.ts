@@ -116,7 +116,7 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
     const idx = P.first[g];
     return { index: idx, row: series.firstRow[idx], x: series.x[idx], before: segments[k], after: segments[k + 1], change: segments[k + 1].slope - segments[k].slope, uncertainty: NO_INTERVAL };
   });
-  const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted));
+  const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted), n);
   if (aw) warnings.push(aw);
   warnings.push(breakCauseWarning(breaks.length));
   return {

@@ -122,7 +122,7 @@ export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResu
     return { index: c, row: series.firstRow[c], x: series.x[c], before, after, change, uncertainty: NO_INTERVAL };
   });
   if (o.model === 'mean') {
-    const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted));
+    const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted), n);
     if (aw) warnings.push(aw);
   }
   warnings.push(breakCauseWarning(breaks.length));

@@ -4,7 +4,7 @@
 import type { Series } from '../series';
 import { warning, type Warning } from '../warnings';
 import { median } from '../median';
-import { lagOneAutocorrelation } from '../diagnostics/lagOneAutocorrelation';
+import { lagOneAutocorrelation, isAutocorrelated } from '../diagnostics/lagOneAutocorrelation';
 import type { BreaksModel, SegmentSummary } from './types';
 
 /**
@@ -43,8 +43,8 @@ export function residualAutocorrelation(y: Float64Array, fitted: Float64Array): 
   return lagOneAutocorrelation(Float64Array.from(y, (v, i) => v - fitted[i]));
 }
 
-/** An 'autocorrelation' warning when residual lag-1 autocorrelation exceeds 0.3, else null. */
-export function autocorrelationWarning(rho: number): Warning | null {
-  if (!(rho > 0.3)) return null;
+/** An 'autocorrelation' warning when the residual lag-1 autocorrelation of n points passes {@link isAutocorrelated}, else null. */
+export function autocorrelationWarning(rho: number, n: number): Warning | null {
+  if (!isAutocorrelated(rho, n)) return null;
   return warning('autocorrelation', `residuals have lag-1 autocorrelation ${rho.toFixed(2)}: the models assume independent noise, so slow swings may be split into extra breaks. Raise the penalty (see the CROPS table) or treat marginal breaks with caution.`);
 }

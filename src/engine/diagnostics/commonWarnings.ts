@@ -3,7 +3,7 @@
  * the CLI print one message per situation.
  */
 import { Warning, warning } from '../warnings';
-import { lagOneAutocorrelation } from './lagOneAutocorrelation';
+import { lagOneAutocorrelation, isAutocorrelated } from './lagOneAutocorrelation';
 import { showNumber } from '../errors';
 
 /** The note on end effects that every smoothed trend carries. */
@@ -23,7 +23,7 @@ export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dat
   }
   if (dataDriven && n >= 20) {
     const r1 = lagOneAutocorrelation(resid);
-    if (r1 > Math.max(0.3, 3 / Math.sqrt(n))) {
+    if (isAutocorrelated(r1, n)) {
       out.push(warning('autocorrelation', `Residuals are autocorrelated (lag-one correlation ${r1.toFixed(2)}): data-driven penalty rules treat such structure as signal and tend to under-smooth. Consider a larger penalty or a df target.`));
     }
   }

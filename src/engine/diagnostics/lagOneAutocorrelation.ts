@@ -13,3 +13,13 @@ export function lagOneAutocorrelation(e: ArrayLike<number>): number {
   }
   return den > 0 ? num / den : 0;
 }
+
+/**
+ * The one rule for calling residuals autocorrelated: r1 above max(0.3, 3 / sqrt(n)),
+ * that is, both a sizeable correlation and three standard errors of r1 under
+ * independent noise (about 1 / sqrt(n); common practice, no single source), so short
+ * series do not warn on chance correlation. Unchecked.
+ */
+export function isAutocorrelated(r1: number, n: number): boolean {
+  return r1 > Math.max(0.3, 3 / Math.sqrt(n));
+}
