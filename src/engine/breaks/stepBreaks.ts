@@ -14,6 +14,7 @@ import { pelt } from './pelt';
 import { parametersPerChange, penaltyValue } from './penaltyValue';
 import { noiseScale } from '../robustSigma';
 import { median } from '../median';
+import { weightedMoments } from '../weightedMoments';
 import type { SegmentCost } from './segmentCost';
 import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation, summariseSegment } from './summariseSegment';
 import type { Break, BreaksResult, SegmentSummary } from './types';
@@ -49,13 +50,7 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
       return { cost: meanCost(y, w, sigma.value, median(y)), sigma, notes };
     }
     case 'meanvar': {
-      let W = 0, S = 0;
-      for (let i = 0; i < series.n; i++) { W += w[i]; S += w[i] * y[i]; }
-      const m = S / W;
-      let V = 0;
-      for (let i = 0; i < series.n; i++) V += w[i] * (y[i] - m) * (y[i] - m);
-      let scale = Math.sqrt(V / W);
-      if (!(scale > 0)) scale = 1;
+      const { mean: m, sd: scale } = weightedMoments(y, w);
       const q = recordingResolution(y);
       const floor = q > 0 ? (q / scale) ** 2 / 12 : MEANVAR_FLOOR;
       return { cost: meanVarCost(y, w, m, scale, floor), notes, floorNote: q > 0 && floor > MEANVAR_FLOOR ? `the rounding variance (${showNumber(q)})^2 / 12 of values recorded to ${showNumber(q)}` : `${MEANVAR_FLOOR} times the series variance` };

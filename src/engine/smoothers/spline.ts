@@ -36,6 +36,7 @@ import { solveForDf } from '../select/solveForDf';
 import { foldOf } from '../select/foldOf';
 import { oneStandardError } from '../select/oneStandardError';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
+import { weightedMoments } from '../weightedMoments';
 
 /** State kept for evaluation at new x (original units). */
 export interface SplineModel {
@@ -59,13 +60,7 @@ function scale(series: Series): Scaled {
   const { x, y, w, n } = series;
   const x0 = x[0];
   const xs = x[n - 1] - x[0];
-  let sw = 0, sy = 0;
-  for (let i = 0; i < n; i++) { sw += w[i]; sy += w[i] * y[i]; }
-  const wm = sw / n;
-  const ym = sy / sw;
-  let ss = 0;
-  for (let i = 0; i < n; i++) ss += w[i] * (y[i] - ym) * (y[i] - ym);
-  const ys = ss > 0 ? Math.sqrt(ss / sw) : 1;
+  const { mean: ym, sd: ys, meanWeight: wm } = weightedMoments(y, w);
   const t = new Float64Array(n), ws = new Float64Array(n), yy = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     t[i] = (x[i] - x0) / xs;

@@ -1,4 +1,5 @@
 import type { Series } from '../../series';
+import { weightedMoments } from '../../weightedMoments';
 
 /**
  * Internal scaling of a trend-filtering problem: x' = (x - x0) / h with h the
@@ -28,13 +29,7 @@ export function trendScaling(series: Series, k: number): TrendScaling {
   const { x, y, w, n } = series;
   const x0 = x[0];
   const h = (x[n - 1] - x[0]) / (n - 1);
-  let sw = 0, sy = 0;
-  for (let i = 0; i < n; i++) { sw += w[i]; sy += w[i] * y[i]; }
-  const m = sw / n;
-  const y0 = sy / sw;
-  let ss = 0;
-  for (let i = 0; i < n; i++) ss += w[i] * (y[i] - y0) ** 2;
-  const c = ss > 0 && Number.isFinite(ss) ? Math.sqrt(ss / sw) : 1;
+  const { mean: y0, sd: c, meanWeight: m } = weightedMoments(y, w);
   const xs = new Float64Array(n), ys = new Float64Array(n), ws = new Float64Array(n);
   for (let i = 0; i < n; i++) { xs[i] = (x[i] - x0) / h; ys[i] = (y[i] - y0) / c; ws[i] = w[i] / m; }
   return { x0, h, y0, c, m, k, xs, ys, ws };
