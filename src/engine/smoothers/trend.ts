@@ -248,7 +248,7 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
     }
     sc = path.scaling;
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
-    fit = solveTrend(path.problem, lamScaled, s.tolerance, s.maxIterations);
+    fit = solveTrend(path.problem, lamScaled, s.tolerance, s.maxIterations, undefined, true, pts[chosen].seed);
   }
   return assemble(series, s, sc, fit, lamScaled, criterion, warnings, dataDriven, options);
 }
@@ -288,7 +288,7 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
   let best = 0;
   for (let j = 1; j < G; j++) if (Math.abs(dfs[j] - target) < Math.abs(dfs[best] - target)) best = j;
   let lam = grid[best];
-  let fit = solveTrend(prob, lam, s.tolerance, s.maxIterations);
+  let fit = solveTrend(prob, lam, s.tolerance, s.maxIterations, undefined, true, path.points[G - 1 - best].seed);
   let maxDfReached = maxDf;
   let loGrid = grid[G - 1];
   let loFit: TrendFit | undefined;

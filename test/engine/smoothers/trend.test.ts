@@ -158,6 +158,14 @@ describe('fitTrend penalty choice', () => {
     expect(r.warnings.map((w) => w.code)).toContain('boundary');
   });
 
+  test.each([1, 3])('order %i: the returned fit is the curve point it was chosen from (same penalty, same knot count)', (k) => {
+    const r = fitTrend(series, { order: k, select: 'sure' });
+    const point = r.criterion.curve!.find((p) => p.penalty === r.penalty)!;
+    expect(point).toBeDefined();
+    expect(r.knots.length).toBe(point.knots);
+    expect(r.solver.converged).toBe(true);
+  });
+
   test('the one-standard-error rule picks a penalty at least as large', () => {
     const a = fitTrend(series, { order: 1 });
     const b = fitTrend(series, { order: 1, oneSE: true });

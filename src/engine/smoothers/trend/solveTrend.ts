@@ -21,6 +21,17 @@ export interface TrendProblem {
   admmRows?: Float64Array;
 }
 
+/** Knot rows and the signs of D b on them: all an exact fit needs to be rebuilt in one refinement round. */
+export interface KnotSeed {
+  rows: number[];
+  signs: number[];
+}
+
+/** The {@link KnotSeed} of a fit: its knot rows with the signs of u there. Unchecked. */
+export function seedOf(fit: TrendFit): KnotSeed {
+  return { rows: fit.knotRows.slice(), signs: fit.knotRows.map((r) => Math.sign(fit.u[r] || 1)) };
+}
+
 /** Solution of {@link solveTrend}. */
 export interface TrendFit {
   b: Float64Array;
@@ -62,7 +73,8 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
  * from `warm`), followed by the exact active-set refinement of
  * {@link polishTrend} (O(n k^2) per round). With `refine` false
- * (cross-validation folds, which only need predictions) there is no refinement. A converged interior
+ * (cross-validation folds, which only need predictions) a converged interior point is returned
+ * without refinement; one that stalled goes on as below. A converged interior
  * point seeds the refinement with its knots. For k = 1, when the interior point does not converge (long
  * series: its Newton matrix is ill-conditioned), the ADMM of {@link trendAdmm}, started from the interior
  * point's iterate, runs until its knots are unchanged for {@link ADMM_STABLE_ITERATIONS} iterations (at most 1000) and seeds the
@@ -71,6 +83,9 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * previous penalty's knots, else run as a continuation from lambda_max
  * (4 geometric steps per decade, each started from the last one's knots).
  *
+ * With a `seed` (the knots and signs of an exact fit at this penalty, e.g. a path point) the
+ * refinement starts from it first and, when it certifies, nothing else runs.
+ *
  * `status.iterations` counts interior-point iterations, ADMM iterations and refinement rounds together.
  *
  * Knot rows: k = 0, the rows where b jumps (exact); k >= 1 after a successful
@@ -78,7 +93,7 @@ export const DUAL_BOUND_RELATIVE = 1e-6;
  * rows with |u_r| >= lambda (1 - 1e-6) and |(D b)_r| > 1e-8 max |D b|.
  * Unchecked.
  */
-export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number, maxIterations: number, warm?: TrendFit, refine = true): TrendFit {
+export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number, maxIterations: number, warm?: TrendFit, refine = true, seed?: KnotSeed): TrendFit {
   const { x, y, w, k } = prob;
   const n = x.length;
   if (k === 0) {
@@ -101,8 +116,6 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   if (lambda >= poly.lambdaMax) {
     return { b: Float64Array.from(poly.b), u: Float64Array.from(poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
   }
-  let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
-  if (!refine) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
   // refinement on x in [0, 1]: D(x01) = N^k D(x), so lambda and u scale by N^-k
   const N = x[n - 1] - x[0];
   if (!prob.x01) {
@@ -110,6 +123,21 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     for (let i = 0; i < n; i++) prob.x01[i] = (x[i] - x[0]) / N;
   }
   const f = Math.pow(N, k);
+  // the refinement started from given knots, with their signs (adjacent knots kept apart)
+  const fromKnots = (rows: number[], sign: (j: number) => number): PolishResult => {
+    const start = new Float64Array(n - k - 1);
+    for (let j = 0; j < rows.length; j++) start[rows[j]] = sign(j) * (lambda / f);
+    return polishTrend(prob.x01!, y, w, k, lambda / f, start, undefined, poly.b, rows);
+  };
+  if (seed && refine) {
+    // an exact fit known by its knots (a path point): rebuilt in a round or two
+    const pol = fromKnots(seed.rows, (j) => seed.signs[j]);
+    if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, 0);
+  }
+  let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
+  // without refinement (cross-validation folds) a converged interior point is enough; one that
+  // stalled is not, and goes on to the refinement like any other
+  if (!refine && sol.status.converged) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
   const u01 = new Float64Array(sol.u.length);
   for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
   let pol: PolishResult = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
@@ -153,10 +181,8 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
   if (!pol.ok && !sol.status.converged) {
     // the interior-point dual is unreliable here (see its limitation note): restart the
     // active-set refinement from the previous penalty's knots, else from the polynomial fit
-    const start = new Float64Array(u01.length);
     if (warm && warm.knotRows.length) {
-      for (const r of warm.knotRows) start[r] = Math.sign(warm.u[r] || 1) * (lambda / f);
-      const pol2 = polishTrend(prob.x01, y, w, k, lambda / f, start, undefined, poly.b);
+      const pol2 = fromKnots(warm.knotRows, (j) => Math.sign(warm.u[warm.knotRows[j]] || 1));
       if (pol2.ok) pol = pol2;
     }
     if (!pol.ok) {

@@ -7,7 +7,7 @@ import type { Series } from '../../series';
 import type { SolverStatus } from '../../types';
 import { foldOf } from '../../select/foldOf';
 import { trendScaling, toDataPenalty, TrendScaling } from './trendScaling';
-import { solveTrend, polynomialOf, TrendFit, TrendProblem } from './solveTrend';
+import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } from './solveTrend';
 import { interpolateTrend } from './interpolateTrend';
 import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSplineRefit';
 import { differenceSigma } from '../../robustSigma';
@@ -46,6 +46,8 @@ export interface TrendPathPoint {
   /** n log(rss / n) + df log n. */
   bic: number;
   status: SolverStatus;
+  /** Knots and signs of the full-data fit: rebuilds it exactly ({@link solveTrend}'s seed) without solving again. */
+  seed: KnotSeed;
 }
 
 /** Result of {@link trendPath}. */
@@ -140,6 +142,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       sure: (rss + 2 * sigmaNoise * sigmaNoise * df) / n,
       bic: n * Math.log(Math.max(rss, 1e-300) / n) + df * Math.log(n),
       status: fit.status,
+      seed: seedOf(fit),
     });
   }
   if (s.folds >= 2) {

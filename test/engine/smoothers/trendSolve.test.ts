@@ -1,0 +1,63 @@
+/**
+ * solveTrend's entry points that the path relies on: rebuilding an exact fit from its
+ * knots (a path point's seed), and cross-validation solves that do not stop at a stalled
+ * interior point. Optimality is checked by the dense KKT checker of trendKkt.ts.
+ */
+import { solveTrend, seedOf, TrendProblem } from '../../../src/engine/smoothers/trend/solveTrend';
+import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
+import { checkTrendKkt } from './trendKkt';
+import { seededNormal } from './trendTestFunctions';
+
+function problem(n: number, k: number, seed: number): TrendProblem {
+  const rn = seededNormal(seed);
+  const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n);
+  let c = 0;
+  for (let i = 0; i < n; i++) { c += 0.5 + Math.abs(rn()); x[i] = c; }
+  const span = x[n - 1] - x[0];
+  for (let i = 0; i < n; i++) {
+    const t = (x[i] - x[0]) / span;
+    y[i] = Math.sin(7 * t * t) + (t > 0.5 ? 3 * (t - 0.5) : 0) + 0.1 * rn();
+    w[i] = 1 + (i % 2);
+  }
+  // unit mean spacing, as solveTrend expects
+  const h = span / (n - 1);
+  return { x: Float64Array.from(x, (v) => (v - x[0]) / h), y, w, k };
+}
+
+describe('solveTrend', () => {
+  test.each([1, 2, 3])('order %i: a seed (knots and signs of an exact fit) rebuilds that fit in at most two rounds', (k) => {
+    const p = problem(200, k, 40 + k);
+    const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
+    const fit = solveTrend(p, lam, 1e-10, 200);
+    expect(fit.status.converged).toBe(true);
+    expect(fit.knotRows.length).toBeGreaterThan(2);
+    const again = solveTrend({ x: p.x, y: p.y, w: p.w, k }, lam, 1e-10, 200, undefined, true, seedOf(fit));
+    expect(again.status.iterations).toBeLessThanOrEqual(2);
+    expect(again.knotRows).toEqual(fit.knotRows);
+    let diff = 0;
+    for (let i = 0; i < fit.b.length; i++) diff = Math.max(diff, Math.abs(again.b[i] - fit.b[i]));
+    expect(diff).toBeLessThan(1e-9);
+  });
+
+  test('a seed that is wrong is not trusted: the solve goes on and still meets the KKT conditions', () => {
+    const k = 2;
+    const p = problem(150, k, 51);
+    const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
+    const r = solveTrend(p, lam, 1e-10, 200, undefined, true, { rows: [10, 70, 120], signs: [1, 1, 1] });
+    expect(r.status.converged).toBe(true);
+    const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, k, lam);
+    expect(kkt.boxExcess).toBeLessThan(1e-6);
+    expect(kkt.signError).toBeLessThan(1e-6);
+  });
+
+  test('without refinement, an interior point stopped short (here by its iteration limit) goes on to the refinement', () => {
+    const k = 1;
+    const p = problem(300, k, 61);
+    const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
+    const r = solveTrend(p, lam, 1e-8, 3, undefined, false);
+    expect(r.status.converged).toBe(true);
+    expect(r.status.achieved).toBeLessThanOrEqual(1e-8);
+    const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, k, lam);
+    expect(kkt.boxExcess).toBeLessThan(1e-6);
+  });
+});
