@@ -37,6 +37,10 @@ import { foldOf } from '../select/foldOf';
 import { oneStandardError } from '../select/oneStandardError';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { weightedMoments } from '../weightedMoments';
+import { QUIET, RunContext } from '../analysis/runContext';
+import type { AnalysisDefinition } from '../analysis/analysisDefinition';
+import type { ResolvedOptions } from '../analysis/optionDeclaration';
+import { PENALTY_OPTIONS, fitOptionsOf } from '../analysis/penaltyOptions';
 
 /** State kept for evaluation at new x (original units). */
 export interface SplineModel {
@@ -156,7 +160,7 @@ function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: nu
  * r.penalty; r.df; r.fitted;
  * ```
  */
-export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
+export function fitSpline(series: Series, options: FitOptions = {}, context: RunContext = QUIET): FitResult {
   const n = series.n;
   if (n < 3) throw new KnotwiseError('too-few-points', `the spline needs at least 3 distinct x values; got ${n}.`);
   const opts = resolveOptions(options, n);
@@ -196,11 +200,17 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
       const denom = n - sol.df;
       return { score: denom > 0 ? (n * sol.rss) / (denom * denom) : Infinity, df: sol.df };
     };
-    let score: (l: number) => PenaltyScore = gcv;
+    let plain: (l: number) => PenaltyScore = gcv;
     if (opts.select === 'cv') {
       const cv = cvScorer(s, opts.folds!);
-      score = (l) => { const c = cv(l); return { score: c.score, se: c.se, df: dfAt(l) }; };
+      plain = (l) => { const c = cv(l); return { score: c.score, se: c.se, df: dfAt(l) }; };
     }
+    let evaluations = 0;
+    const expected = opts.gridSize! + 20;
+    const score = (l: number): PenaltyScore => {
+      context.step(Math.min(0.95, evaluations++ / expected), `trying penalties (${opts.select === 'cv' ? 'cross-validation' : 'GCV'})`);
+      return plain(l);
+    };
     tolerance = 1e-4;
     const r = searchLogPenalty(score, lo, hi, opts.gridSize, tolerance);
     lt = r.penalty;
@@ -259,6 +269,26 @@ export function evaluateSpline(result: FitResult, xNew: Float64Array): Evaluatio
   }
   return { x: xNew, value, extrapolated };
 }
+
+/**
+ * The spline as a declared analysis: its options (a penalty rule, a fixed
+ * penalty or a df target, folds for cross-validation, the search grid) and
+ * its run. The registration line is in `analyses.ts`.
+ */
+export const splineAnalysis: AnalysisDefinition = {
+  name: 'spline',
+  family: 'smoother',
+  label: 'Smooth curve (smoothing spline)',
+  summary: 'natural cubic smoothing spline: a smooth curve with a knot at every x; penalty by GCV, cross-validation, a df target or a value (Reinsch 1967; Craven & Wahba 1979)',
+  options: PENALTY_OPTIONS({ rules: ['gcv', 'cv', 'cv-simpler'], defaultRule: 'gcv', folds: 10, searchPoints: 25 }),
+  ties: 'merge',
+  minPoints: () => 3,
+  run(series: Series, options: ResolvedOptions, context: RunContext) {
+    const smooth = fitSpline(series, fitOptionsOf(options), context);
+    return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
+  },
+  evaluate: (result, x) => evaluateSpline(result.smooth!, x),
+};
 
 /** The spline as a registered method. */
 export const splineMethod: MethodDefinition = {

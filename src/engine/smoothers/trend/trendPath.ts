@@ -11,6 +11,7 @@ import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } fr
 import { interpolateTrend } from './interpolateTrend';
 import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSplineRefit';
 import { differenceSigma } from '../../robustSigma';
+import type { RunContext } from '../../analysis/runContext';
 
 /** Settings of {@link trendPath} (already validated). */
 export interface TrendPathSettings {
@@ -26,6 +27,8 @@ export interface TrendPathSettings {
   maxIterations: number;
   /** Smallest grid penalty as a fraction of lambda_max (default {@link defaultGridRatio}). */
   ratio?: number;
+  /** Progress and cancellation, checked at every penalty of the path and of each fold. */
+  context?: RunContext;
 }
 
 /** One penalty of the path, in the data's units. */
@@ -130,7 +133,9 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   const sigmaNoise = differenceSigma(series.y, 1, series.w);
   const pts: TrendPathPoint[] = [];
   let warm: TrendFit | undefined;
+  const stages = 1 + (s.folds >= 2 ? s.folds : 0);
   for (let j = 0; j < G; j++) {
+    s.context?.step(j / G / stages, 'solving along the penalty path');
     const fit = solveTrend(prob, grid[j], s.tolerance, s.maxIterations, warm);
     warm = fit;
     const { b } = relaxFit(sc.xs, sc.ys, sc.ws, k, fit, s.relaxed);
@@ -165,6 +170,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
       let wf: TrendFit | undefined;
       for (let j = 0; j < G; j++) {
+        s.context?.step((1 + f + j / G) / stages, `cross-validation, fold ${f + 1} of ${K}`);
         const fit = solveTrend(sub, grid[j] * (swt / swAll), Math.max(s.tolerance, CV_TOLERANCE), s.maxIterations, wf, false);
         wf = fit;
         const pred = interpolateTrend(xt, fit.b, k, xh).value;
