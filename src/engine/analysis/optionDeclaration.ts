@@ -48,6 +48,8 @@ export interface OptionDeclaration {
   group?: string;
   /** For a `number` option: text naming one of these values of another option is moved there (e.g. penalty "bic" -> rule "bic"). */
   textGoesTo?: string;
+  /** The value meant when the option is named without one (a command-line flag alone). */
+  implied?: OptionValue;
 }
 
 /** A progress report: how far, and what is being done, in plain words. */

@@ -70,11 +70,16 @@ export function runAnalysis(request: AnalysisRequest, control: RunControl = {}):
 
 /**
  * A key naming a request's answer: equal keys, equal results (up to a 53-bit
- * hash collision). Options are keyed as given, so spellings that resolve alike
- * may still get different keys; that only costs a recomputation.
+ * hash collision). Analyses are keyed by their current name (old names alike);
+ * `family` is not part of the key, since it only restricts which names are
+ * accepted (callers check it before looking up a shared answer). Options are
+ * keyed as given, so spellings that resolve alike may still get different
+ * keys; that only costs a recomputation.
  */
 export function analysisKey(request: AnalysisRequest): string {
-  return cacheKey(['analysis', String(request.analysis).trim().toLowerCase(), request.family ?? '', request.y, request.x ?? null, request.w ?? null, request.options ?? {}]);
+  let name = String(request.analysis).trim().toLowerCase();
+  try { name = findAnalysis(name).def.name; } catch { /* an unknown name keys as typed; running it reports the error */ }
+  return cacheKey(['analysis', name, request.y, request.x ?? null, request.w ?? null, request.options ?? {}]);
 }
 
 /**

@@ -414,7 +414,7 @@ export const trendAnalysis: AnalysisDefinition = {
     },
     ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler', 'sure', 'bic'], defaultRule: 'cv', folds: 5, searchPoints: 30 }),
     {
-      name: 'refit', kind: 'number', min: 0, max: 1, default: 0, oldNames: ['relaxed'],
+      name: 'refit', kind: 'number', min: 0, max: 1, default: 0, implied: 1, oldNames: ['relaxed'],
       help: 'refit the pieces between the knots without shrinking their jumps: 0 plain fit (default), 1 full refit, between a mix (relaxed trend filtering)',
     },
     { name: 'tolerance', kind: 'number', above: 0, max: 0.01, help: 'relative duality gap the solver must reach (default 1e-8)' },
