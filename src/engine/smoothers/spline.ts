@@ -33,8 +33,8 @@ import { reinschScore, reinschSolve, reinschSystem, ReinschSystem } from './spli
 import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
 import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
 import { solveForDf } from '../select/solveForDf';
-import { foldOf } from '../select/foldOf';
-import { oneStandardError } from '../select/oneStandardError';
+import { crossValidate } from '../select/crossValidate';
+import { choosePenalty, edgeWarning } from '../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { weightedMoments } from '../weightedMoments';
 import { QUIET, RunContext } from '../analysis/runContext';
@@ -111,35 +111,30 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
   return out;
 }
 
-/** K-fold CV score of the spline at scaled lambda: the mean over folds of the held-out weighted mean squared error (as trend filtering reports it), with its standard error. */
+/**
+ * K-fold CV score of the spline at scaled lambda through the shared
+ * {@link crossValidate} (the same folds and score as every method), with each
+ * fold's banded system built once and reused for every penalty tried.
+ * Scores are in scaled units of y (the caller converts).
+ */
 function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: number } {
-  const n = s.t.length;
-  const fold = foldOf(n, k);
-  const systems: { sys: ReinschSystem; t: Float64Array; held: number[] }[] = [];
-  for (let f = 0; f < k; f++) {
-    const keep: number[] = [];
-    const held: number[] = [];
-    for (let i = 0; i < n; i++) (fold[i] === f ? held : keep).push(i);
-    const t = Float64Array.from(keep, (i) => s.t[i]);
-    systems.push({ sys: reinschSystem(t, Float64Array.from(keep, (i) => s.y[i]), Float64Array.from(keep, (i) => s.w[i])), t, held });
-  }
-  return (lt) => {
-    const foldScores: number[] = [];
-    for (const { sys, t, held } of systems) {
-      const sol = reinschSolve(sys, lt, false);
-      let e = 0, ww = 0;
-      for (const i of held) {
-        const r = s.y[i] - evaluateNaturalCubic(t, sol.g, sol.gamma, s.t[i]);
-        e += s.w[i] * r * r;
-        ww += s.w[i];
-      }
-      foldScores.push(e / ww);
+  const systems = new Map<number, { sys: ReinschSystem; t: Float64Array }>();
+  const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {
+    let f = systems.get(held[0]);
+    if (!f) {
+      const t = Float64Array.from(train, (i) => s.t[i]);
+      f = { sys: reinschSystem(t, Float64Array.from(train, (i) => s.y[i]), Float64Array.from(train, (i) => s.w[i])), t };
+      systems.set(held[0], f);
     }
-    const mean = foldScores.reduce((a, b) => a + b, 0) / k;
-    let v = 0;
-    for (const f of foldScores) v += (f - mean) * (f - mean);
-    const se = Math.sqrt(v / (k - 1) / k);
-    return { score: mean, se };
+    const { sys, t } = f;
+    return Array.from(pens, (lt) => {
+      const sol = reinschSolve(sys, lt, false);
+      return Float64Array.from(held, (i) => evaluateNaturalCubic(t, sol.g, sol.gamma, s.t[i]));
+    });
+  };
+  return (lt) => {
+    const cv = crossValidate(s.y, s.w, k, Float64Array.of(lt), predict);
+    return { score: cv.score[0], se: cv.se[0] };
   };
 }
 
@@ -218,9 +213,7 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
     stoppingRule = `grid of ${opts.gridSize} log-spaced penalties, then Brent's method until the bracket is below ${tolerance} in log10(lambda)`;
     let value = r.score;
     if (opts.select === 'cv' && opts.oneSE) {
-      let best = 0;
-      r.curve.forEach((p, j) => { if (p.score < r.curve[best].score) best = j; });
-      const pick = r.curve[oneStandardError(r.curve.map((p) => p.score), r.curve.map((p) => p.se ?? 0), best)];
+      const pick = r.curve[choosePenalty(r.curve, 'simpler')];
       lt = pick.penalty; value = pick.score;
     }
     // criterion values are on the scaled y; report them in (units of y)^2
@@ -228,7 +221,7 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
     const curve: CriterionPoint[] = r.curve.map((p) => ({ ...p, penalty: fromScaled(p.penalty, s), score: p.score * yv, ...(p.se !== undefined ? { se: p.se * yv } : {}) }));
     criterion = { name: opts.select!, value: value * yv, curve, atEdge: r.atEdge };
     if (r.atEdge) {
-      warnings.push(warning('penalty-at-edge', `The ${opts.select === 'cv' ? 'cross-validation' : 'GCV'} minimum is at the ${lt <= lo * 1.0001 ? 'rough (small-penalty)' : 'smooth (large-penalty)'} end of the searched range: the data may not support a choice by this rule. Consider giving a df target.`));
+      warnings.push(edgeWarning(opts.select === 'cv' ? 'cross-validation' : 'GCV', lt <= lo * 1.0001 ? 'rough' : 'smooth', fromScaled(lt, s), 'a straight line'));
     }
   }
 

@@ -52,7 +52,7 @@ import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot
 import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
-import { oneStandardError } from '../select/oneStandardError';
+import { choosePenalty, edgeWarning } from '../select/choosePenalty';
 import { differenceOperator } from '../linalg/difference';
 import { trendScaling, toScaledPenalty, toDataPenalty, TrendScaling } from './trend/trendScaling';
 import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
@@ -237,18 +237,13 @@ export function fitTrend(series: Series, options: FitOptions = {}, context: RunC
     }
     const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations, context });
     const pts = path.points;
-    const score = (p: (typeof pts)[number]) => (rule === 'cv' ? p.cv : rule === 'sure' ? p.sure : p.bic);
-    // minimum of the score; on ties the larger penalty (the simpler fit)
-    let best = pts.length - 1;
-    for (let j = pts.length - 2; j >= 0; j--) if (score(pts[j]) < score(pts[best])) best = j;
-    let chosen = best;
-    if (rule === 'cv' && s.oneSE) chosen = oneStandardError(pts.map((p) => p.cv), pts.map((p) => p.cvSe), best);
+    const curve = curveOf(path, rule);
+    const chosen = choosePenalty(curve, rule === 'cv' && s.oneSE ? 'simpler' : 'minimum');
     const atEdge = chosen === 0 || chosen === pts.length - 1;
-    criterion = { name: rule, value: score(pts[chosen]), curve: curveOf(path, rule), atEdge };
+    criterion = { name: rule, value: curve[chosen].score, curve, atEdge };
     if (atEdge) {
-      warnings.push(warning('penalty-at-edge', chosen === 0
-        ? `The ${rule.toUpperCase()} choice is the smallest penalty searched (${showNumber(pts[0].penalty)}): the fit may follow noise; consider a larger penalty or a df target.`
-        : `The ${rule.toUpperCase()} choice is the largest penalty searched (lambda_max = ${showNumber(pts[chosen].penalty)}): the data show no trend beyond a polynomial of degree ${k}.`));
+      const ruleName = rule === 'cv' ? 'cross-validation' : rule.toUpperCase();
+      warnings.push(edgeWarning(ruleName, chosen === 0 ? 'rough' : 'smooth', pts[chosen].penalty, `a polynomial of degree ${k}`));
     }
     sc = path.scaling;
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
