@@ -67,6 +67,12 @@ export interface Series {
   dropped: DroppedRow[];
   /** Rows absorbed into another row's point by tie merging. */
   tiesMerged: number;
+  /**
+   * Weighted scatter of y within merged tie groups, sum_g sum_{i in g} w_i (y_i - ybar_g)^2
+   * (0 without ties): what the merged points no longer show, which criteria on the
+   * original observations (GCV) add back. Accumulated by West's weighted update (1979).
+   */
+  withinTies: number;
   /** Whether usable rows were already in increasing x order. */
   inputSorted: boolean;
   /** Whether x came from the input (false: x = 1..nRows, the row positions). */
@@ -188,12 +194,15 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
   const pw: number[] = [];
   const pfirst: number[] = [];
   let tiesMerged = 0;
+  let withinTies = 0;
   const tieRows: number[] = [];
   for (const i of order) {
     const k = px.length - 1;
     if (ties === 'merge' && k >= 0 && px[k] === ux[i]) {
       const wn = pw[k] + uw[i];
-      py[k] += (uw[i] / wn) * (uy[i] - py[k]);
+      const delta = uy[i] - py[k];
+      withinTies += ((pw[k] * uw[i]) / wn) * delta * delta;
+      py[k] += (uw[i] / wn) * delta;
       pw[k] = wn;
       if (urow[i] < pfirst[k]) pfirst[k] = urow[i];
       rowOf[urow[i]] = k;
@@ -226,7 +235,7 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
 
   return {
     x: Float64Array.from(px), y: Float64Array.from(py), w: Float64Array.from(pw), n,
-    nRows, nUsed, rowOf, firstRow: Int32Array.from(pfirst), dropped, tiesMerged, inputSorted,
+    nRows, nUsed, rowOf, firstRow: Int32Array.from(pfirst), dropped, tiesMerged, withinTies, inputSorted,
     xGiven: !!xCells, weighted: !!wCells, warnings,
   };
 }
@@ -241,7 +250,7 @@ export function seriesFromArrays(x: ArrayLike<number>, y: ArrayLike<number>, w?:
   for (let i = 0; i < n; i++) rowOf[i] = i;
   return {
     x: Float64Array.from(x), y: Float64Array.from(y), w: w ? Float64Array.from(w) : new Float64Array(n).fill(1), n,
-    nRows: n, nUsed: n, rowOf, firstRow: Int32Array.from(rowOf), dropped: [], tiesMerged: 0, inputSorted: true,
+    nRows: n, nUsed: n, rowOf, firstRow: Int32Array.from(rowOf), dropped: [], tiesMerged: 0, withinTies: 0, inputSorted: true,
     xGiven: true, weighted: !!w, warnings: [],
   };
 }

@@ -59,5 +59,5 @@ export interface AnalysisDefinition {
   /** Runs on a clean series with resolved options; reports progress and honours cancellation through `context`. */
   run(series: Series, options: ResolvedOptions, context: RunContext): AnalysisCore;
   /** Values of the fit at new x, flagged beyond the data (smoothers). */
-  evaluate?(result: AnalysisResult, x: Float64Array): Evaluation;
+  evaluate?(result: AnalysisCore, x: Float64Array): Evaluation;
 }

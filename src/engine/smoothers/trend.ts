@@ -46,7 +46,6 @@ import type { AnalysisDefinition } from '../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import { PENALTY_OPTIONS, fitOptionsOf } from '../analysis/penaltyOptions';
 import { KnotwiseError, showNumber } from '../errors';
-import type { MethodDefinition } from '../registry';
 import type { Series } from '../series';
 import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot, SolverStatus } from '../types';
 import { Warning, warning } from '../warnings';
@@ -424,11 +423,3 @@ export const trendAnalysis: AnalysisDefinition = {
   evaluate: (result, x) => evaluateTrend(result.smooth!, x),
 };
 
-/** The method definition registered as 'trend'. */
-export const trendMethod: MethodDefinition = {
-  name: 'trend',
-  summary: 'L1 trend filtering: piecewise constant, linear, quadratic or cubic trend with data-chosen knots.',
-  minPoints: (options: FitOptions) => (options.order === undefined ? TREND_DEFAULT_ORDER : typeof options.order === 'number' && options.order >= 0 && options.order <= 3 ? Math.floor(options.order) : TREND_DEFAULT_ORDER) + 2,
-  fit: fitTrend,
-  evaluate: evaluateTrend,
-};
