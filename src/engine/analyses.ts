@@ -5,8 +5,10 @@
 import { registerAnalysis } from './analysis/analysisRegistry';
 import { splineAnalysis } from './smoothers/spline';
 import { trendAnalysis } from './smoothers/trend';
+import { autoAnalysis } from './smoothers/auto';
 import { CHANGEPOINT_ANALYSES } from './breaks/changepointAnalyses';
 
 registerAnalysis(splineAnalysis);
 registerAnalysis(trendAnalysis);
+registerAnalysis(autoAnalysis);
 for (const a of CHANGEPOINT_ANALYSES) registerAnalysis(a);

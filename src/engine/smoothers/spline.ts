@@ -283,6 +283,7 @@ export const splineAnalysis: AnalysisDefinition = {
   options: PENALTY_OPTIONS({ rules: ['gcv', 'cv', 'cv-simpler'], defaultRule: 'gcv', folds: 10, searchPoints: 25 }),
   ties: 'merge',
   minPoints: () => 3,
+  autoVariants: [{ label: 'a smooth curve (spline)', options: {}, simplicity: 1 }],
   run(series: Series, options: ResolvedOptions, context: RunContext) {
     const smooth = fitSpline(series, fitOptionsOf(options), context);
     return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };

@@ -416,6 +416,12 @@ export const trendAnalysis: AnalysisDefinition = {
   ],
   ties: 'merge',
   minPoints: (o: ResolvedOptions) => (o.order as number) + 2,
+  autoVariants: [
+    { label: 'level shifts (trend filtering, order 0)', options: { order: 0 }, simplicity: 0 },
+    { label: 'straight pieces with kinks (trend filtering, order 1)', options: { order: 1 }, simplicity: 1 },
+    { label: 'smooth bends (trend filtering, order 2)', options: { order: 2 }, simplicity: 2 },
+    { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3 },
+  ],
   run(series: Series, options: ResolvedOptions, context: RunContext) {
     const smooth = fitTrend(series, fitOptionsOf(options), context);
     return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
