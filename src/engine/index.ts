@@ -42,3 +42,5 @@ export { analysisDefinitions, findAnalysis, registerAnalysis } from './analysis/
 export { resolveOptions, optionKey, dashedName } from './analysis/resolveOptions';
 export { RunContext } from './analysis/runContext';
 export { RULE_HELP } from './analysis/penaltyOptions';
+export { knotBends, derivativeJumps } from './diagnostics/knotBends';
+export type { Bend } from './diagnostics/knotBends';

@@ -52,6 +52,7 @@ import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { choosePenalty, edgeWarning } from '../select/choosePenalty';
+import { knotBends } from '../diagnostics/knotBends';
 import { differenceOperator } from '../linalg/difference';
 import { trendScaling, toScaledPenalty, toDataPenalty, TrendScaling } from './trend/trendScaling';
 import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
@@ -361,7 +362,7 @@ function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: Trend
   return {
     method: 'trend',
     options: { ...options, method: 'trend', order: k, relaxed: s.relaxed, gridSize: s.gridSize, folds: s.folds, tolerance: s.tolerance, maxIterations: s.maxIterations, ...(options.penalty === undefined && options.df === undefined ? { select: criterion.name as 'cv' | 'sure' | 'bic', oneSE: s.oneSE } : {}) },
-    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, warnings, solver: status, model,
+    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, bends: knotBends(series, k, knots), warnings, solver: status, model,
   };
 }
 
