@@ -17,7 +17,6 @@
 import { fitTrend, trendPenaltyMax } from '../../src/engine/smoothers/trend';
 import { fitSpline } from '../../src/engine/smoothers/spline';
 import { seriesFromArrays, Series } from '../../src/engine/series';
-import '../../src/engine/methods';
 import { doppler, blocks, seededNormal, noisyTestFunction } from '../engine/smoothers/trendTestFunctions';
 import { execFileSync } from 'child_process';
 

@@ -5,7 +5,6 @@ import { seriesFromArrays, prepareSeries } from '../../../src/engine/series';
 import { KnotwiseError } from '../../../src/engine/errors';
 import { runAnalysis } from '../../../src/engine/analysis/runAnalysis';
 import { trendAnalysis } from '../../../src/engine/smoothers/trend';
-import '../../../src/engine/methods';
 import { checkTrendKkt } from './trendKkt';
 import { totalVariationDenoise } from '../../../src/engine/smoothers/trend/totalVariationDenoise';
 

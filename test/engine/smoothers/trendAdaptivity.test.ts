@@ -10,7 +10,6 @@
 import { fitTrend } from '../../../src/engine/smoothers/trend';
 import { fitSpline } from '../../../src/engine/smoothers/spline';
 import { seriesFromArrays } from '../../../src/engine/series';
-import '../../../src/engine/methods';
 import { doppler, blocks, noisyTestFunction } from './trendTestFunctions';
 
 function noisy(f: (t: number) => number, n: number, seed: number) {
