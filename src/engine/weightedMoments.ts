@@ -14,18 +14,18 @@
  * Unchecked: n >= 1, weights positive.
  */
 export function weightedMoments(y: ArrayLike<number>, w: ArrayLike<number>): { mean: number; sd: number; meanWeight: number } {
-  // sums of products and squares can overflow (or underflow) for |y| or w near the ends of the double range:
-  // accumulate y / a and w / b, with a = max |y| and b = max w, and scale back
   const n = y.length;
   let a = 0, b = 0;
   for (let i = 0; i < n; i++) { a = Math.max(a, Math.abs(y[i])); b = Math.max(b, w[i]); }
-  if (!(a > 0)) a = 1;
-  if (!(b > 0)) b = 1;
+  // sums of products and squares overflow (or underflow) for |y| or w near the ends of the double range:
+  // there, accumulate y / a and w / b (a = max |y|, b = max w) and scale back; elsewhere the plain sums
+  const safe = (v: number) => v === 0 || (v > 1e-100 && v < 1e100);
+  const sa = safe(a) ? 1 : a, sb = safe(b) ? 1 : b;
   let sw = 0, sy = 0;
-  for (let i = 0; i < n; i++) { const wi = w[i] / b; sw += wi; sy += wi * (y[i] / a); }
+  for (let i = 0; i < n; i++) { const wi = w[i] / sb; sw += wi; sy += wi * (y[i] / sa); }
   const m = sy / sw;
   let ss = 0;
-  for (let i = 0; i < n; i++) ss += (w[i] / b) * (y[i] / a - m) ** 2;
-  const sd = ss > 0 && Number.isFinite(ss) ? a * Math.sqrt(ss / sw) : 1;
-  return { mean: a * m, sd, meanWeight: b * (sw / n) };
+  for (let i = 0; i < n; i++) ss += (w[i] / sb) * (y[i] / sa - m) ** 2;
+  const sd = ss > 0 && Number.isFinite(ss) ? sa * Math.sqrt(ss / sw) : 1;
+  return { mean: sa * m, sd, meanWeight: sb * (sw / n) };
 }
