@@ -78,7 +78,7 @@ export function knotsTable(result: FitResult, series: Series, ctx: PresentContex
   const xp = xPresenter(series.x, ctx.xDates);
   const order = result.method === 'trend' ? Number((result.options as { order?: number }).order ?? 1) : 3;
   let change = ORDER_CHANGE[Math.max(0, Math.min(3, order))];
-  if (order >= 1) change += ctx.xDates ? ' (per day' + (order > 1 ? `^${order}` : '') + ')' : ' (per x unit' + (order > 1 ? `^${order}` : '') + ')';
+  if (order >= 1) change += ctx.xDates ? ` per day${order > 1 ? `^${order}` : ''}` : ` per x unit${order > 1 ? `^${order}` : ''}`;
   const rounding = roundForData(series.y);
   return {
     header: [xp.label, rowHeader(ctx), change],
@@ -140,7 +140,7 @@ export function roundedFit(fitted: ArrayLike<number>, series: Series): { values:
 export function fitSummary(result: FitResult, series: Series): [string, string][] {
   const rounding = roundForData(series.y);
   return [
-    ['penalty', smoothPenaltyInWords(result)],
+    ['smoothing', smoothPenaltyInWords(result)],
     ['chosen by', ruleInWords(result.criterion.name, result.options)],
     ['noise sd', Number.isFinite(result.sigma) ? rounding.format(result.sigma) : 'not estimated'],
     ['points used', `${series.n} of ${series.nRows} rows${series.tiesMerged ? ` (${series.tiesMerged} merged as ties)` : ''}`],
