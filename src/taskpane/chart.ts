@@ -48,7 +48,7 @@ function axisFor(xDates: boolean, show: (v: number) => string, box: HTMLElement)
 }
 
 const yAxis = (): uPlot.Axis => ({
-  font: FONT, stroke: INK, grid: { stroke: GRID, width: 1 }, ticks: { stroke: GRID, width: 1 }, gap: 3,
+  font: FONT, stroke: INK, grid: { stroke: GRID, width: 1 }, ticks: { stroke: GRID, width: 1 }, gap: 3, space: 22,
   size: (_u, values) => (values && values.length ? Math.max(...values.map((v) => String(v).length)) * 7 + 20 : 44),
   values: (_u, splits) => splits.map((v) => formatNumber(v, 4)),
 });
@@ -207,4 +207,15 @@ export function drawCurve(box: HTMLElement, c: NonNullable<View['curve']>, heigh
   note.className = 'readout';
   note.textContent = `Chosen: ${c.xLabel} ${Number(c.chosenDf.toPrecision(3))}, ${c.name} ${formatNumber(chosenY, 4)}.`;
   box.append(note);
+}
+
+/** The axis label sizes (CSS px) of the chart drawn in `box`, as uPlot draws them. */
+export function axisFontSizes(box: HTMLElement): number[] {
+  const u = charts.get(box);
+  if (!u) return [];
+  return u.axes.map((a) => {
+    const f = a.font as unknown;
+    const text = Array.isArray(f) ? String(f[0]) : String(f);
+    return parseFloat(text) / devicePixelRatio;
+  });
 }

@@ -9,7 +9,7 @@ import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
 import { analyse, Choice, PenaltyChoice, splitSelection } from './analysis';
-import { drawCurve, drawFit, resizeCharts } from './chart';
+import { axisFontSizes, drawCurve, drawFit, resizeCharts } from './chart';
 import { readOwnTable } from './ownData';
 import { reportStart, sharePlan } from './share';
 import { View, viewOf } from './view';
@@ -215,7 +215,8 @@ async function boot(inExcel: boolean): Promise<void> {
   document.body.classList.toggle('in-excel', inExcel);
   const wb: Workbook = inExcel ? new ExcelWorkbook() : pageWorkbook();
   let last: { block: CellBlock; view: View } | null = null;
-  (window as unknown as { knotwise: unknown }).knotwise = { workbook: wb };
+  // For tests and for checking the pane from the browser console.
+  (window as unknown as { knotwise: unknown }).knotwise = { workbook: wb, axisFonts: () => [...axisFontSizes($('chart')), ...axisFontSizes($('curve'))] };
 
   $('rule').onchange = () => {
     const r = $<HTMLSelectElement>('rule').value;

@@ -102,6 +102,23 @@ test('a bad penalty shows the engine message instead of a result', async (page) 
   assert(/penalty must be a finite number >= 0; got -2/.test(status), `status was: ${status}`);
   assert(await page.isHidden('#results'), 'results still shown after an error');
   await page.selectOption('#rule', 'auto');
+  // An engine error about a row names the sheet row: unit costs in D are not counts, the first is in D2.
+  await page.selectOption('#pick-y', '3');
+  await page.selectOption('#method', 'breaks-poisson');
+  await page.click('#run');
+  const err = await page.textContent('#status');
+  await page.selectOption('#pick-y', '1');
+  assert(/sheet row 2 holds 3\.17/.test(err), `error does not name the sheet row: ${err}`);
+});
+
+test('chart labels are at least 11 px', async (page) => {
+  await page.selectOption('#method', 'trend1');
+  await page.click('#run');
+  await page.waitForSelector('#results:not([hidden])');
+  const sizes = await page.$$eval('#chart .legend, #chart .readout, #table td, #summary dd', (els) => els.map((e) => parseFloat(getComputedStyle(e).fontSize)));
+  assert(sizes.length > 3 && sizes.every((s) => s >= 11), `text below 11 px: ${sizes}`);
+  const axisFonts = await page.evaluate(() => window.knotwise.axisFonts());
+  assert(axisFonts.length >= 4 && axisFonts.every((f) => f >= 11), `axis label sizes: ${axisFonts}`);
 });
 
 test('writing to the sheet asks before replacing cells, names them, and Cancel leaves them', async (page) => {

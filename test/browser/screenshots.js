@@ -40,6 +40,10 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
         console.log(`wrote ${readme}`);
       }
     }
+    await page.click('#own-data summary');
+    const sheet = path.join(out, `sheet-${width}.png`);
+    await page.locator('#sheet-panel').screenshot({ path: sheet });
+    console.log(`wrote ${sheet}`);
     await page.close();
   }
   await browser.close();
