@@ -29,7 +29,8 @@ function ticksFor(u: uPlot, lo: number, hi: number) {
 
 const charts = new WeakMap<HTMLElement, uPlot>();
 
-function axisFor(xDates: boolean, show: (v: number) => string, box: HTMLElement): uPlot.Axis {
+/** The x axis: calendar ticks and date labels when x are dates (the labels drawn are recorded in box.dataset.xTicks). */
+export function axisFor(xDates: boolean, show: (v: number) => string, box: HTMLElement): uPlot.Axis {
   const base: uPlot.Axis = { font: FONT, stroke: INK, grid: { stroke: GRID, width: 1 }, ticks: { stroke: GRID, width: 1 }, gap: 3, size: 28 };
   if (!xDates) return { ...base, values: (_u, splits) => splits.map((v) => formatNumber(v, 4)) };
   return {

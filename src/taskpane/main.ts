@@ -9,7 +9,7 @@ import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
 import { analyse, Choice, PenaltyChoice, splitSelection } from './analysis';
-import { axisFontSizes, drawCurve, drawFit, resizeCharts } from './chart';
+import { axisFontSizes, axisFor, drawCurve, drawFit, resizeCharts } from './chart';
 import { readOwnTable } from './ownData';
 import { reportStart, sharePlan } from './share';
 import { View, viewOf } from './view';
@@ -114,7 +114,9 @@ function renderSheet(wb: PageWorkbook): void {
     for (let j = 0; j < width; j++) {
       const td = document.createElement(i === 0 ? 'th' : 'td');
       td.textContent = cellText(r[j], wb.formats[i]?.[j]);
-      if (j === wb.selection.x || j === wb.selection.y) td.className = 'selected';
+      if (td.textContent.length > 24) td.title = td.textContent;
+      if (j === wb.selection.x || j === wb.selection.y) td.classList.add('selected');
+      if (typeof r[j] === 'string') td.classList.add('text');
       tr.append(td);
     }
     t.append(tr);
@@ -141,7 +143,7 @@ function renderSheetCharts(wb: PageWorkbook): void {
     const at = new Map(c.markers.map((m) => [m.x, m.y]));
     new uPlot({
       width: Math.max(240, (box.clientWidth || 320) - 12), height: 180, legend: { show: false }, cursor: { show: false }, scales: { x: { time: false } },
-      axes: [{ font: '11px system-ui', values: (_u, s) => s.map((v) => (wb.dateColumns[wb.selection.x] ? serialToIso(v, 'never') ?? '' : formatNumber(v, 4))) }, { font: '11px system-ui', size: 44 }],
+      axes: [axisFor(!!wb.dateColumns[wb.selection.x], (v) => serialToIso(v, 'never') ?? formatNumber(v, 4), el), { font: '11px system-ui, sans-serif', size: 44 }],
       series: [{}, { stroke: '#7b8fa1', paths: () => null, points: { show: true, size: 3, fill: '#7b8fa1' } }, { stroke: '#0f7c7a', width: 2, spanGaps: true, points: { show: false } },
         { stroke: '#c8611a', paths: () => null, points: { show: true, size: 8, width: 2, fill: '#fff' } }],
     }, [xs, order.map((i) => c.data[i]), order.map((i) => c.fit[i]), xs.map((x) => at.get(x) ?? null)] as uPlot.AlignedData, el);
