@@ -14,7 +14,7 @@ import { ChartSpec, ExcelWorkbook, WriteBlock, WriteError } from '../../src/task
 
 interface Series { name?: string; values?: string; x?: string; chartType?: string; markerStyle?: string; markerSize?: number }
 
-function excelMock(opts: { failOnSync?: number; used?: string[] } = {}) {
+function excelMock(opts: { failOnSync?: number; used?: string[]; selected?: { address: string; values: unknown[][]; numberFormat: string[][] } } = {}) {
   const ranges: any[] = [];
   const charts: any[] = [];
   const sheets: string[] = [];
@@ -53,12 +53,18 @@ function excelMock(opts: { failOnSync?: number; used?: string[] } = {}) {
       },
     },
   };
+  const selected: any = new OfficeMockObject(opts.selected ?? { address: 'Sheet1!A1', values: [['']], numberFormat: [['General']] });
   const mock: any = new OfficeMockObject({
     context: {
       workbook: {
+        getSelectedRange: () => selected,
         worksheets: { getItem: (name: string) => { sheets.push(name); return sheet; }, getActiveWorksheet: () => { sheets.push('(active)'); return sheet; } },
       },
-      sync: async () => { syncs++; if (syncs === opts.failOnSync) throw new Error('This operation is not allowed because the sheet is protected.'); },
+      sync: async () => {
+        syncs++;
+        if (syncs === opts.failOnSync) throw new Error('This operation is not allowed because the sheet is protected.');
+        await selected.sync(); // loaded properties of the selection become readable, as after Excel's sync
+      },
     },
     run: async function (this: any, cb: (ctx: any) => Promise<unknown>) { return cb(this.context); },
   });
@@ -78,6 +84,17 @@ const blocks: WriteBlock[] = [
 
 describe('ExcelWorkbook with office-addin-mock', () => {
   afterEach(() => { delete (global as any).Excel; });
+
+  test('reads the selection with its address, and takes a date number format in the first column as dates', async () => {
+    const values = [['week', 'orders'], [44928, 422], [44935, 448]];
+    const m = excelMock({ selected: { address: 'Sheet1!A1:B3', values, numberFormat: [['General', 'General'], ['yyyy-mm-dd', 'General'], ['yyyy-mm-dd', 'General']] } });
+    (global as any).Excel = m.mock;
+    const b = await new ExcelWorkbook().readSelection();
+    expect(b).toEqual({ address: 'Sheet1!A1:B3', values, firstColumnDates: true });
+    const plain = excelMock({ selected: { address: 'Sheet1!A1:B3', values, numberFormat: [['General', 'General'], ['0', 'General'], ['General', 'General']] } });
+    (global as any).Excel = plain.mock;
+    expect((await new ExcelWorkbook().readSelection()).firstColumnDates).toBe(false);
+  });
 
   test('writes each block to its range with values and number formats, one sync each, on the named sheet', async () => {
     const m = excelMock();
