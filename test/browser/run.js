@@ -196,6 +196,20 @@ test('a write that fails part way says which cells were written', async (page) =
   assert(/^Wrote Pasted!C1:C41, Pasted!E1; then writing summary \(Pasted!E3:F\d+\) failed: .* Nothing else was written\.$/.test(status), `status: ${status}`);
 });
 
+test('a CSV file opened in the preview becomes the sheet; dates in another layout are named', async (page) => {
+  const rows = ['day,cost'];
+  for (let i = 0; i < 30; i++) rows.push(`${new Date(Date.UTC(2024, 2, 1 + i)).toISOString().slice(0, 10)},${(3 + 0.01 * i).toFixed(2)}`);
+  await page.setInputFiles('#csv-file', { name: 'unit-costs.csv', mimeType: 'text/csv', buffer: Buffer.from(rows.join('\n')) });
+  await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'unit_costs');
+  const a2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(2)', (t) => t.textContent);
+  assert(a2 === '2024-03-01', `A2 of the opened file shows ${a2}`);
+  await page.setInputFiles('#csv-file', { name: 'other.csv', mimeType: 'text/csv', buffer: Buffer.from('day,cost\n01/03/2024,3\n02/03/2024,4\n') });
+  await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'other');
+  const status = await page.textContent('#status');
+  assert(/column "day" holds 2 dates that could not be read \(first in sheet row 2: "01\/03\/2024"\)/.test(status), `status: ${status}`);
+  await page.click('#demo-use');
+});
+
 test('every control fits at 320 px and the tables scroll inside their box', async (page, base, browser) => {
   const p = await browser.newPage({ viewport: { width: 320, height: 800 } });
   await p.goto(`${base}/preview.html`);
