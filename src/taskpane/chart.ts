@@ -96,7 +96,10 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
   const xs = [...Array.from(v.x), ...extra];
   const pad = <T,>(a: ArrayLike<number>, after: (number | null)[] = extra.map(() => null)): (number | null)[] => [...Array.from(a), ...after];
   const none = (k: number) => Array<number | null>(k).fill(null);
-  const data: (number | null)[][] = [xs, pad(v.y), pad(v.fitted)];
+  // At most about 20000 dots: a chart this size cannot show more, and drawing each as a circle keeps the pane busy.
+  const stride = Math.max(1, Math.ceil(n / 20000));
+  const dots = stride === 1 ? pad(v.y) : pad(Array.from(v.y, (y, i) => (i % stride === 0 ? y : NaN))).map((y) => (y === null || Number.isNaN(y) ? null : y));
+  const data: (number | null)[][] = [xs, dots, pad(v.fitted)];
   const series: uPlot.Series[] = [
     {},
     { label: 'data', stroke: POINT, paths: () => null, points: { show: true, size: 4, width: 0, fill: POINT, stroke: POINT } },
@@ -160,10 +163,11 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
     zones.push({ el, x0: m.x });
   }
   layoutOverlays(u, zones);
-  box.dataset.points = String(v.y.filter(Number.isFinite).length);
+  box.dataset.points = String(dots.filter((y) => y !== null && Number.isFinite(y)).length);
+  box.dataset.stride = String(stride);
   box.dataset.fit = String(v.fitted.filter(Number.isFinite).length);
   box.dataset.markers = String(v.markers.length);
-  const items: [string, string][] = [['sw-points', 'data'], ['sw-fit', 'fit']];
+  const items: [string, string][] = [['sw-points', stride > 1 ? `data (1 in ${stride} points drawn)` : 'data'], ['sw-fit', 'fit']];
   if (v.band) items.push(['sw-band', 'approx. 95% band']);
   if (ends) items.push(['sw-edge', 'end zone: values get revised']);
   if (bx) items.push(['sw-beyond', 'after the data: extrapolation, not a forecast']);

@@ -91,6 +91,9 @@ function cellText(v: unknown, format: string | undefined): string {
   return formatNumber(v, 6);
 }
 
+/** Rows of the preview sheet drawn as a table. */
+const SHEET_ROWS_SHOWN = 2000;
+
 function renderSheet(wb: PageWorkbook): void {
   $('sheet-name').textContent = wb.name;
   const t = $('sheet-table');
@@ -105,7 +108,9 @@ function renderSheet(wb: PageWorkbook): void {
     letters.append(th);
   }
   t.append(letters);
-  wb.cells.forEach((r, i) => {
+  // A preview sheet shows its first rows only: a page of 1e5 table rows would take seconds to lay out.
+  const shown = Math.min(wb.cells.length, SHEET_ROWS_SHOWN);
+  wb.cells.slice(0, shown).forEach((r, i) => {
     const tr = document.createElement('tr');
     const num = document.createElement('th');
     num.className = 'rownum';
@@ -121,6 +126,15 @@ function renderSheet(wb: PageWorkbook): void {
     }
     t.append(tr);
   });
+  if (shown < wb.cells.length) {
+    const tr = document.createElement('tr');
+    const td = document.createElement('td');
+    td.colSpan = width + 1;
+    td.className = 'text';
+    td.textContent = `Rows ${shown + 1} to ${wb.cells.length} are not shown here; the pane reads them all.`;
+    tr.append(td);
+    t.append(tr);
+  }
   renderSheetCharts(wb);
 }
 

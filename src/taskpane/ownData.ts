@@ -24,7 +24,7 @@ export function readOwnTable(text: string): OwnTable {
   const parsed = Papa.parse<string[]>(text.replace(/^\ufeff/, ''), { skipEmptyLines: 'greedy', delimitersToGuess: ['\t', ',', ';', '|'] });
   const [head, ...body] = parsed.data;
   if (!head || !body.length) throw new Error('no data found: paste or open at least a header row and one row of values.');
-  const width = Math.max(head.length, ...body.map((r) => r.length));
+  const width = body.reduce((m, r) => Math.max(m, r.length), head.length);
   const header = Array.from({ length: width }, (_, j) => (head[j] ?? '').trim() || `column ${j + 1}`);
   const dateColumns = header.map(() => false);
   const unread = header.map(() => ({ count: 0, example: '', row: 0 }));

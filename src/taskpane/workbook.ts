@@ -44,9 +44,14 @@ export interface ChartSpec {
   row: number;
 }
 
+/** The longest row's length (at least 1), without spreading long arrays into arguments. */
+function widest(rows: readonly unknown[][]): number {
+  return rows.reduce((m, r) => Math.max(m, r.length), 1);
+}
+
 /** The address of a block on `sheet`. */
 export function blockAddress(sheet: string | null, b: WriteBlock): string {
-  const w = Math.max(1, ...b.values.map((r) => r.length));
+  const w = widest(b.values);
   return rangeName(sheet, b.col, b.row, b.col + w - 1, b.row + b.values.length - 1);
 }
 
@@ -72,7 +77,7 @@ export interface Workbook {
 
 /** Pads ragged rows to a rectangle (Excel needs one). */
 function rectangle<T>(rows: T[][], fill: T): T[][] {
-  const w = Math.max(1, ...rows.map((r) => r.length));
+  const w = widest(rows);
   return rows.map((r) => [...r, ...Array<T>(w - r.length).fill(fill)]);
 }
 
@@ -207,7 +212,7 @@ export class PageWorkbook implements Workbook {
   }
 
   get width(): number {
-    return Math.max(0, ...this.cells.map((r) => r.length));
+    return widest(this.cells);
   }
 
   async readSelection(): Promise<CellBlock> {
