@@ -99,7 +99,7 @@ test('a bad penalty shows the engine message instead of a result', async (page) 
   await page.fill('#rule-value', '-2');
   await page.click('#run');
   const status = await page.textContent('#status');
-  assert(/penalty must be a finite number >= 0; got -2/.test(status), `status was: ${status}`);
+  assert(/penalty \(spline\) must be a number from 0; got -2/.test(status), `status was: ${status}`);
   assert(await page.isHidden('#results'), 'results still shown after an error');
   await page.selectOption('#rule', 'auto');
   // An engine error about a row names the sheet row: unit costs in D are not counts, the first is in D2.
