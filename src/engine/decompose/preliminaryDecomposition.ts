@@ -71,15 +71,18 @@ export function preliminaryDecomposition(y: Float64Array, grid: Int32Array, grid
  * clustering for time series data", Data Min. Knowl. Discov. 13 (2006) 335-364, in the
  * form of R. J. Hyndman and G. Athanasopoulos, Forecasting: Principles and Practice, 3rd
  * ed., section 4.3): F_S = max(0, 1 - Var(R) / Var(S + R)), from the remainder R and the
- * seasonal component S. 0 means no season; near 1 a season that dominates the noise. Unchecked.
+ * seasonal component S. 0 means no season; near 1 a season that dominates the noise.
+ * With `weights` (robust STL's), points of weight 0 (outliers: |R| above 6 median |R|) are
+ * left out of both variances, so that one outlier does not hide a season. Unchecked.
  */
-export function seasonalStrength(season: Float64Array, remainder: Float64Array): number {
-  const n = season.length;
-  const sr = new Float64Array(n);
-  for (let i = 0; i < n; i++) sr[i] = season[i] + remainder[i];
+export function seasonalStrength(season: Float64Array, remainder: Float64Array, weights?: Float64Array): number {
+  const idx: number[] = [];
+  for (let i = 0; i < season.length; i++) if (!weights || weights[i] > 0) idx.push(i);
+  const r = Float64Array.from(idx, (i) => remainder[i]);
+  const sr = Float64Array.from(idx, (i) => season[i] + remainder[i]);
   const vsr = variance(sr);
   if (!(vsr > 0)) return 0;
-  return Math.max(0, 1 - variance(remainder) / vsr);
+  return Math.max(0, 1 - variance(r) / vsr);
 }
 
 function variance(a: Float64Array): number {
