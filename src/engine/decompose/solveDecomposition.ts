@@ -8,12 +8,16 @@
  *
  * With theta and o minimised out, the objective is H(t) + lambda ||D t||_1 with H convex
  * and its gradient -W r*(t) 1-Lipschitz in the W-norm (r* is the residual of the exact
- * (theta, o) solve, a composition of a projection and a soft threshold), so the exact
- * trend-filtering step on y - s*(v) - o*(v) is a proximal-gradient step of unit length.
- * Accelerated by FISTA (A. Beck and M. Teboulle, SIAM J. Imaging Sci. 2 (2009) 183-202)
- * with the gradient restart of B. O'Donoghue and E. Candes (Found. Comput. Math. 15
- * (2015) 715-732); without momentum this is block coordinate descent over t and
- * (theta, o) (P. Tseng, J. Optim. Theory Appl. 109 (2001) 475-494).
+ * (theta, o) solve, a composition of a projection and a soft threshold), so the map
+ * F(t) = the exact trend-filtering fit of y - s*(t) - o*(t) is a proximal-gradient step
+ * of unit length, i.e. block coordinate descent over t and (theta, o) (P. Tseng,
+ * J. Optim. Theory Appl. 109 (2001) 475-494), whose fixed points are the minimisers.
+ * Its fixed-point iteration is slow when the trend and a smooth season trade off
+ * (a yearly Fourier season against a trend with knots), so it is accelerated by
+ * Anderson mixing of the last 5 steps (D. G. Anderson, J. ACM 12 (1965) 547-560; as a
+ * safeguarded scheme for such maps, J. Zhang, B. O'Donoghue and S. Boyd, SIAM J. Optim.
+ * 30 (2020) 3170-3197): a mixed point is kept only while the step length ||F(t) - t||
+ * keeps falling, otherwise the memory is cleared and the plain step taken.
  * The (theta, o) block for a given trend: the weighted least-squares season and the
  * soft-threshold of the spikes o_i = sign(r_i) max(0, |r_i| - rho / w_i), alternated
  * until they settle (block coordinate descent on a problem whose non-smooth part is
@@ -41,7 +45,10 @@ export interface DecompositionFit {
 /** Relative duality gap asked of each trend step: an exact active-set refinement (seeded with the last knots) certifies at this level in a round or two. */
 export const TREND_STEP_TOLERANCE = 1e-10;
 
-export const DECOMPOSITION_RULE = 'accelerated proximal gradient on the trend (FISTA with gradient restart), each step an exact trend-filtering solve after the season (weighted least squares) and the spikes (soft threshold) are alternated until they settle; stops when one step changes the trend by at most the tolerance times the sd of y, the season and spikes then solved exactly for the final trend';
+export const DECOMPOSITION_RULE = 'block coordinate descent on the trend and (season, spikes), Anderson-accelerated (memory 5, safeguarded): each step an exact trend-filtering solve after the season (weighted least squares) and the spikes (soft threshold) are alternated until they settle; stops when a plain step changes the trend by at most the tolerance times the sd of y; returns the last exact trend step with the season and spikes it was taken for';
+
+/** Anderson memory (number of past steps mixed). */
+export const ANDERSON_MEMORY = 5;
 
 /** Starting values and settings of {@link solveDecomposition}. Unchecked. */
 export interface DecompositionStart {
@@ -53,18 +60,16 @@ export interface DecompositionStart {
 /**
  * Solves the scaled problem. `lambda` and `rho` are in scaled units; `design` null
  * means no season (trend and spikes only). `tolerance` bounds the largest change of
- * the trend in a step (scaled units: sd of y = 1). Unchecked.
+ * the trend in a plain step (scaled units: sd of y = 1). Unchecked.
  */
 export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rho: number, design: SeasonDesign | null,
   tolerance: number, maxCycles: number, start: DecompositionStart = {}): DecompositionFit {
   const n = x.length;
-  let t = start.trend ? Float64Array.from(start.trend) : new Float64Array(n);
-  let tPrev = Float64Array.from(t);
+  let t: Float64Array = start.trend ? Float64Array.from(start.trend) : new Float64Array(n);
   const s = start.season ? Float64Array.from(start.season) : new Float64Array(n);
   const o = start.spikes ? Float64Array.from(start.spikes) : new Float64Array(n);
   const parts = design ? design.terms.map(() => new Float64Array(n)) : [];
   const theta = { value: new Float64Array(design ? design.q : 0) };
-  const v = new Float64Array(n);
   const z = new Float64Array(n);
   const work = { r: new Float64Array(n), s: new Float64Array(n) };
   let prob: TrendProblem | undefined;
@@ -73,41 +78,110 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
   let change = Infinity;
   let trendIterations = 0;
   let trendOk = true;
-  let mom = 1;
-  let restarts = 0;
-  while (cycles < maxCycles) {
-    cycles++;
-    const momNext = (1 + Math.sqrt(1 + 4 * mom * mom)) / 2;
-    const beta = (mom - 1) / momNext;
-    for (let i = 0; i < n; i++) v[i] = t[i] + beta * (t[i] - tPrev[i]);
-    seasonAndSpikes(y, v, w, rho, design, s, o, parts, theta, work, tolerance * 0.01);
+  let resets = 0;
+  // the map F: trend -> exact trend step after the exact (season, spikes) step
+  const F = (tIn: Float64Array): Float64Array => {
+    seasonAndSpikes(y, tIn, w, rho, design, s, o, parts, theta, work, tolerance * 0.01);
     for (let i = 0; i < n; i++) z[i] = y[i] - s[i] - o[i];
     // operator and scaled x depend on x and w only: carried over; the polynomial fit depends on y and is rebuilt
     prob = { x, y: Float64Array.from(z), w, k, op: prob?.op, x01: prob?.x01, admmRows: prob?.admmRows };
     fit = solveTrend(prob, lambda, TREND_STEP_TOLERANCE, 400, fit, true, fit ? seedOf(fit) : undefined);
     trendIterations += fit.status.iterations;
     trendOk = fit.status.converged;
-    const tNew = fit.b;
-    let dt = 0;
-    let dot = 0;
+    return Float64Array.from(fit.b);
+  };
+  const sw = Float64Array.from(w, Math.sqrt);
+  const dG: Float64Array[] = [], dF: Float64Array[] = [];
+  let gPrev: Float64Array | null = null, fPrev: Float64Array | null = null;
+  let fNormPrev = Infinity;
+  while (cycles < maxCycles) {
+    cycles++;
+    const g = F(t);
+    const f = new Float64Array(n);
+    let fmax = 0, fNorm = 0;
     for (let i = 0; i < n; i++) {
-      dt = Math.max(dt, Math.abs(tNew[i] - t[i]));
-      dot += w[i] * (v[i] - tNew[i]) * (tNew[i] - t[i]);
+      f[i] = g[i] - t[i];
+      fmax = Math.max(fmax, Math.abs(f[i]));
+      fNorm += w[i] * f[i] * f[i];
     }
-    // gradient restart: momentum is dropped when the step goes against it
-    if (dot > 0) { mom = 1; restarts++; } else mom = momNext;
-    tPrev = t;
-    t = Float64Array.from(tNew);
-    change = dt;
-    if (change <= tolerance) break;
+    change = fmax;
+    if (change <= tolerance) { t = g; break; }
+    if (fNorm > fNormPrev) {
+      // safeguard: the mixed point did worse than the last one; drop the memory, take the plain step
+      dG.length = 0;
+      dF.length = 0;
+      gPrev = null;
+      fPrev = null;
+      resets++;
+    }
+    fNormPrev = fNorm;
+    if (gPrev && fPrev) {
+      dG.push(Float64Array.from(g, (v, i) => v - gPrev![i]));
+      dF.push(Float64Array.from(f, (v, i) => v - fPrev![i]));
+      if (dG.length > ANDERSON_MEMORY) { dG.shift(); dF.shift(); }
+    }
+    gPrev = g;
+    fPrev = f;
+    const m = dF.length;
+    if (m === 0) { t = g; continue; }
+    // gamma = argmin || W^1/2 (f - dF gamma) ||: normal equations with a small ridge for stability
+    const M = new Float64Array(m * m), b = new Float64Array(m);
+    for (let a = 0; a < m; a++) {
+      for (let c = 0; c <= a; c++) {
+        let v = 0;
+        for (let i = 0; i < n; i++) v += sw[i] * dF[a][i] * sw[i] * dF[c][i];
+        M[a * m + c] = v;
+        M[c * m + a] = v;
+      }
+      let v = 0;
+      for (let i = 0; i < n; i++) v += w[i] * dF[a][i] * f[i];
+      b[a] = v;
+    }
+    let tr = 0;
+    for (let a = 0; a < m; a++) tr += M[a * m + a];
+    for (let a = 0; a < m; a++) M[a * m + a] += 1e-10 * tr / m;
+    const gamma = solveSmall(M, b, m);
+    const next = Float64Array.from(g);
+    for (let a = 0; a < m; a++) for (let i = 0; i < n; i++) next[i] -= gamma[a] * dG[a][i];
+    t = next;
   }
-  // the season and spikes exactly for the final trend
-  seasonAndSpikes(y, t, w, rho, design, s, o, parts, theta, work, tolerance * 0.01);
+  if (change <= tolerance) {
+    // one more plain step from the converged point
+    const g = F(t);
+    let d = 0;
+    for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(g[i] - t[i]));
+    change = Math.max(change, d);
+  }
+  // returned: the last exact trend step and the season and spikes it was taken for, so that the
+  // trend's optimality conditions hold exactly and those of the season and spikes within the
+  // last step's change of the trend (reported as `achieved`)
+  t = Float64Array.from(fit!.b);
   const converged = change <= tolerance && trendOk;
   return {
     trend: t, season: s, parts, spikes: o, theta: theta.value, trendFit: fit!,
-    status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations and ${restarts} momentum restarts in all` },
+    status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations and ${resets} memory resets in all` },
   };
+}
+
+/** Solves a small symmetric positive definite system by Cholesky (NaN-free: a failing pivot gives gamma = 0). Unchecked. */
+function solveSmall(M: Float64Array, b: Float64Array, m: number): Float64Array {
+  const L = new Float64Array(m * m);
+  for (let j = 0; j < m; j++) {
+    let d = M[j * m + j];
+    for (let p = 0; p < j; p++) d -= L[j * m + p] * L[j * m + p];
+    if (!(d > 0)) return new Float64Array(m);
+    L[j * m + j] = Math.sqrt(d);
+    for (let i = j + 1; i < m; i++) {
+      let v = M[i * m + j];
+      for (let p = 0; p < j; p++) v -= L[i * m + p] * L[j * m + p];
+      L[i * m + j] = v / L[j * m + j];
+    }
+  }
+  const yv = new Float64Array(m);
+  for (let i = 0; i < m; i++) { let v = b[i]; for (let p = 0; p < i; p++) v -= L[i * m + p] * yv[p]; yv[i] = v / L[i * m + i]; }
+  const xv = new Float64Array(m);
+  for (let i = m - 1; i >= 0; i--) { let v = yv[i]; for (let p = i + 1; p < m; p++) v -= L[p * m + i] * xv[p]; xv[i] = v / L[i * m + i]; }
+  return xv;
 }
 
 /** The (theta, o) block for trend t: season and spikes alternated until neither moves by more than tol. Updates s, o, parts, theta. Unchecked. */
