@@ -1,0 +1,81 @@
+/**
+ * Entry checks shared by the Whittaker-Henderson kernels, and the internal
+ * scaling they all use.
+ */
+import { KnotwiseError, showNumber } from '../../errors';
+import { differenceRows } from '../../linalg/differenceRows';
+
+/** Highest order of differences accepted. */
+export const WHITTAKER_MAX_ORDER = 6;
+
+/** Checked and scaled input: x in units of the mean spacing, weights divided by their mean. */
+export interface WhittakerInput {
+  n: number;
+  order: number;
+  x: Float64Array;
+  y: Float64Array;
+  /** Weights divided by their mean. */
+  w: Float64Array;
+  /** Mean weight (the scale removed from w). */
+  wScale: number;
+  /** Mean spacing h = (x_n - x_1) / (n - 1); x is used as (x - x_1) / h internally. */
+  h: number;
+  /** Rows of D(u, order) for the scaled positions u, (n - order) x (order + 1). */
+  rows: Float64Array;
+}
+
+/**
+ * Validates x (finite, strictly increasing), y (finite), w (finite, >= 0; null
+ * for all ones; at least `order` positive) and order (1..6, n > order).
+ * Throws KnotwiseError with the offending value. With `scale` false, x and w are
+ * kept as given (h = 1, wScale = 1).
+ */
+export function whittakerInput(x: ArrayLike<number>, y: ArrayLike<number>, w: ArrayLike<number> | null | undefined, order: number, scale = true): WhittakerInput {
+  if (typeof order !== 'number' || !Number.isInteger(order) || order < 1 || order > WHITTAKER_MAX_ORDER) {
+    throw new KnotwiseError('bad-option', `order must be a whole number from 1 to ${WHITTAKER_MAX_ORDER}; got ${typeof order === 'number' ? showNumber(order) : String(order)}.`);
+  }
+  const n = y.length;
+  if (x.length !== n) throw new KnotwiseError('shape-mismatch', `x has ${x.length} values but y has ${n}.`);
+  if (w && w.length !== n) throw new KnotwiseError('shape-mismatch', `the weights have ${w.length} values but y has ${n}.`);
+  if (n <= order) throw new KnotwiseError('too-few-points', `differences of order ${order} need at least ${order + 1} points; got ${n}.`);
+  const xs = new Float64Array(n), ys = new Float64Array(n), ws = new Float64Array(n);
+  let positive = 0, wSum = 0;
+  for (let i = 0; i < n; i++) {
+    const xi = x[i], yi = y[i], wi = w ? w[i] : 1;
+    if (!Number.isFinite(xi)) throw new KnotwiseError('bad-data', `x at position ${i + 1} is not a finite number: ${showNumber(xi)}.`);
+    if (!Number.isFinite(yi)) throw new KnotwiseError('bad-data', `y at position ${i + 1} is not a finite number: ${showNumber(yi)}.`);
+    if (!Number.isFinite(wi)) throw new KnotwiseError('bad-data', `the weight at position ${i + 1} is not a finite number: ${showNumber(wi)}.`);
+    if (wi < 0) throw new KnotwiseError('negative-weight', `the weight at position ${i + 1} is negative: ${showNumber(wi)}.`);
+    if (i > 0 && !(xi > x[i - 1])) {
+      throw new KnotwiseError('bad-data', `x must be strictly increasing (merge equal x first); x at position ${i + 1} is ${showNumber(xi)} after ${showNumber(x[i - 1])}.`);
+    }
+    if (wi > 0) positive++;
+    wSum += wi;
+    xs[i] = xi; ys[i] = yi; ws[i] = wi;
+  }
+  if (positive < order) {
+    throw new KnotwiseError('too-few-points', `differences of order ${order} need at least ${order} points with positive weight; got ${positive}.`);
+  }
+  const h = scale ? (xs[n - 1] - xs[0]) / (n - 1) : 1;
+  const wScale = scale ? wSum / n : 1;
+  const u = new Float64Array(n);
+  for (let i = 0; i < n; i++) { u[i] = (xs[i] - xs[0]) / h; ws[i] /= wScale; }
+  return { n, order, x: xs, y: ys, w: ws, wScale, h, rows: differenceRows(u, order) };
+}
+
+/**
+ * The penalty on the internal scale: lambda ||D(x, d) z||^2 / wScale equals
+ * lambdaScaled ||D(u, d) z||^2 with u = (x - x_1) / h, since D(x, d) = D(u, d) / h^(d-1).
+ * Unchecked.
+ */
+export function scaledLambda(inp: WhittakerInput, lambda: number): number {
+  return lambda / Math.pow(inp.h, 2 * (inp.order - 1)) / inp.wScale;
+}
+
+/** Checks a penalty: finite and > 0. */
+export function checkWhittakerLambda(lambda: unknown): number {
+  if (typeof lambda !== 'number' || !Number.isFinite(lambda) || lambda <= 0) {
+    throw new KnotwiseError('bad-option', `lambda must be a finite number > 0; got ${typeof lambda === 'number' ? showNumber(lambda) : String(lambda)}.`);
+  }
+  return lambda;
+}
