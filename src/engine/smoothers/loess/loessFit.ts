@@ -1,6 +1,7 @@
 import { KnotwiseError, showNumber } from '../../errors';
 import type { SolverStatus } from '../../types';
 import { localPolynomial, localWeight, type LocalFit } from './localPolynomial';
+import { toFloat64 } from '../whittaker/whittakerInput';
 
 /** Options of {@link loessFit}. */
 export interface LoessOptions {
@@ -102,17 +103,17 @@ export function loessInput(x: ArrayLike<number>, y: ArrayLike<number>, w: ArrayL
   if (x.length !== n) throw new KnotwiseError('shape-mismatch', `x has ${x.length} values but y has ${n}.`);
   if (w && w.length !== n) throw new KnotwiseError('shape-mismatch', `the weights have ${w.length} values but y has ${n}.`);
   if (n < 3) throw new KnotwiseError('too-few-points', `LOESS needs at least 3 points; got ${n}.`);
-  const xs = new Float64Array(n), ys = new Float64Array(n), ws = new Float64Array(n);
+  const xs = toFloat64(x), ys = toFloat64(y);
+  const ws = w ? toFloat64(w) : new Float64Array(n).fill(1);
   let positive = 0;
   for (let i = 0; i < n; i++) {
-    const xi = x[i], yi = y[i], wi = w ? w[i] : 1;
+    const xi = xs[i], yi = ys[i], wi = ws[i];
     if (!Number.isFinite(xi)) throw new KnotwiseError('bad-data', `x at position ${i + 1} is not a finite number: ${showNumber(xi)}.`);
     if (!Number.isFinite(yi)) throw new KnotwiseError('bad-data', `y at position ${i + 1} is not a finite number: ${showNumber(yi)}.`);
     if (!Number.isFinite(wi)) throw new KnotwiseError('bad-data', `the weight at position ${i + 1} is not a finite number: ${showNumber(wi)}.`);
     if (wi < 0) throw new KnotwiseError('negative-weight', `the weight at position ${i + 1} is negative: ${showNumber(wi)}.`);
-    if (i > 0 && xi < x[i - 1]) throw new KnotwiseError('bad-data', `x must be sorted in increasing order; x at position ${i + 1} is ${showNumber(xi)} after ${showNumber(x[i - 1])}.`);
+    if (i > 0 && xi < xs[i - 1]) throw new KnotwiseError('bad-data', `x must be sorted in increasing order; x at position ${i + 1} is ${showNumber(xi)} after ${showNumber(xs[i - 1])}.`);
     if (wi > 0) positive++;
-    xs[i] = xi; ys[i] = yi; ws[i] = wi;
   }
   if (positive === 0) throw new KnotwiseError('too-few-points', 'every weight is zero.');
   if (!(xs[n - 1] > xs[0])) throw new KnotwiseError('constant-x', `all x are equal (${showNumber(xs[0])}); a curve in x cannot be fitted.`);

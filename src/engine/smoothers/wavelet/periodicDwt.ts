@@ -80,7 +80,7 @@ function synthesisStep(a: Float64Array, ao: number, d: Float64Array, dO: number,
 export function periodicDwt(x: Float64Array, h: readonly number[], levels: number): Float64Array {
   const N = x.length;
   const c = new Float64Array(N);
-  let cur = Float64Array.from(x);
+  const cur = x.slice();
   let len = N;
   const tmp = new Float64Array(N >> 1);
   for (let j = 0; j < levels; j++) {

@@ -2,6 +2,7 @@ import { KnotwiseError, showNumber } from '../../errors';
 import type { SolverStatus } from '../../types';
 import { periodicDwt, periodicIdwt } from './periodicDwt';
 import { sureThreshold } from './sureThreshold';
+import { toFloat64 } from '../whittaker/whittakerInput';
 import { WAVELET_FILTERS, WAVELET_FILTER_NAMES, type WaveletFilterName } from './waveletFilters';
 
 /** Options of {@link waveletShrink}. */
@@ -102,8 +103,9 @@ export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOption
   if (typeof levels !== 'number' || !Number.isInteger(levels) || levels < 1 || levels > Math.max(1, Math.floor(Math.log2(n)))) {
     throw new KnotwiseError('bad-option', `levels must be a whole number from 1 to ${Math.max(1, Math.floor(Math.log2(n)))} for ${n} points; got ${typeof levels === 'number' ? showNumber(levels) : String(levels)}.`);
   }
+  const ys = toFloat64(y);
   for (let i = 0; i < n; i++) {
-    if (!Number.isFinite(y[i])) throw new KnotwiseError('bad-data', `y at position ${i + 1} is not a finite number: ${showNumber(y[i])}.`);
+    if (!Number.isFinite(ys[i])) throw new KnotwiseError('bad-data', `y at position ${i + 1} is not a finite number: ${showNumber(ys[i])}.`);
   }
   if (options.x !== undefined) checkEqualSpacing(options.x, n);
 
@@ -112,7 +114,8 @@ export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOption
   const padded = Math.ceil(n / block) * block;
   const M = boundary === 'reflect' ? 2 * padded : padded;
   const ext = new Float64Array(M);
-  for (let i = 0; i < padded; i++) ext[i] = y[mirrorIndex(i, n)];
+  for (let i = 0; i < n; i++) ext[i] = ys[i];
+  for (let i = n; i < padded; i++) ext[i] = ys[mirrorIndex(i, n)];
   if (boundary === 'reflect') for (let i = 0; i < padded; i++) ext[M - 1 - i] = ext[i];
 
   // noise and thresholds from the unshifted transform
@@ -165,11 +168,35 @@ function mirrorIndex(i: number, n: number): number {
   return p < n ? p : 2 * n - 1 - p;
 }
 
-/** Median of |v|. Unchecked. */
+/** Median of |v| by quickselect (Hoare's FIND), O(m) on average. Unchecked. */
 function medianAbs(v: Float64Array): number {
-  const a = Float64Array.from(v, Math.abs).sort();
-  const m = a.length;
-  return m % 2 ? a[(m - 1) >> 1] : 0.5 * (a[m / 2 - 1] + a[m / 2]);
+  const m = v.length;
+  const a = new Float64Array(m);
+  for (let i = 0; i < m; i++) a[i] = Math.abs(v[i]);
+  const hi = selectKth(a, m >> 1);
+  if (m % 2) return hi;
+  // the largest of the lower half, which selectKth left in a[0 .. m/2)
+  let lo = -Infinity;
+  for (let i = 0; i < m >> 1; i++) if (a[i] > lo) lo = a[i];
+  return 0.5 * (lo + hi);
+}
+
+/** k-th smallest (0-based) of a, partially reordering a so that a[0..k) <= a[k]. Unchecked. */
+function selectKth(a: Float64Array, k: number): number {
+  let l = 0, r = a.length - 1;
+  while (r > l) {
+    const t = a[(l + r) >> 1];
+    let i = l, j = r;
+    while (i <= j) {
+      while (a[i] < t) i++;
+      while (a[j] > t) j--;
+      if (i <= j) { const s = a[i]; a[i] = a[j]; a[j] = s; i++; j--; }
+    }
+    if (k <= j) r = j;
+    else if (k >= i) l = i;
+    else break;
+  }
+  return a[k];
 }
 
 /** Refuses unevenly spaced or non-finite x, with the worst spacing printed. */

@@ -31,15 +31,17 @@
 export function bandedInverseBand(l: Float64Array, n: number, p: number): Float64Array {
   const w = p + 1;
   const s = new Float64Array(n * w);
-  // Sigma(a, b) for a, b > i inside the band, read from the upper band storage
-  const sig = (a: number, b: number): number => (a <= b ? s[a * w + (b - a)] : s[b * w + (a - b)]);
   for (let i = n - 1; i >= 0; i--) {
     const r = l[i * w]; // 1 / L(i, i)
     const kMax = i + p < n - 1 ? i + p : n - 1;
-    // off-diagonal entries first: they need only rows below i
+    // off-diagonal entries first: they need only rows below i;
+    // Sigma(k, j) for k, j > i is read from the upper band at row min(k, j)
     for (let j = kMax; j > i; j--) {
       let acc = 0;
-      for (let k = i + 1; k <= kMax; k++) acc += l[k * w + (k - i)] * sig(k, j);
+      for (let k = i + 1; k <= kMax; k++) {
+        const sk = k <= j ? s[k * w + (j - k)] : s[j * w + (k - j)];
+        acc += l[k * w + (k - i)] * sk;
+      }
       s[i * w + (j - i)] = -acc * r;
     }
     let acc = 0;
