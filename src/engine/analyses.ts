@@ -6,7 +6,13 @@ import { registerAnalysis } from './analysis/analysisRegistry';
 import { splineAnalysis } from './smoothers/spline';
 import { trendAnalysis } from './smoothers/trend';
 import { CHANGEPOINT_ANALYSES } from './breaks/changepointAnalyses';
+import { whittakerAnalysis } from './smoothers/whittaker/whittakerAnalysis';
+import { loessAnalysis } from './smoothers/loess/loessAnalysis';
+import { waveletAnalysis } from './smoothers/wavelet/waveletAnalysis';
 
 registerAnalysis(splineAnalysis);
 registerAnalysis(trendAnalysis);
+registerAnalysis(whittakerAnalysis);
+registerAnalysis(loessAnalysis);
+registerAnalysis(waveletAnalysis);
 for (const a of CHANGEPOINT_ANALYSES) registerAnalysis(a);
