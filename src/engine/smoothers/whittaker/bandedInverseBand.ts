@@ -29,6 +29,7 @@
  * Unchecked.
  */
 export function bandedInverseBand(l: Float64Array, n: number, p: number): Float64Array {
+  if (p === 2) return bandedInverseBand2(l, n);
   const w = p + 1;
   const s = new Float64Array(n * w);
   for (let i = n - 1; i >= 0; i--) {
@@ -47,6 +48,33 @@ export function bandedInverseBand(l: Float64Array, n: number, p: number): Float6
     let acc = 0;
     for (let k = i + 1; k <= kMax; k++) acc += l[k * w + (k - i)] * s[i * w + (k - i)];
     s[i * w] = (r - acc) * r;
+  }
+  return s;
+}
+
+/**
+ * {@link bandedInverseBand} unrolled for half-bandwidth 2 (order-2 graduation, the
+ * Hodrick-Prescott case): with a = L(i+1, i), b = L(i+2, i), r = 1 / L(i, i),
+ *   S(i, i+2) = -(a S(i+1, i+2) + b S(i+2, i+2)) r
+ *   S(i, i+1) = -(a S(i+1, i+1) + b S(i+1, i+2)) r
+ *   S(i, i)   = (r - a S(i, i+1) - b S(i, i+2)) r
+ * Unchecked.
+ */
+function bandedInverseBand2(l: Float64Array, n: number): Float64Array {
+  const s = new Float64Array(n * 3);
+  if (n === 0) return s;
+  // running values for rows i+1 and i+2: S(i+1,i+1), S(i+1,i+2), S(i+2,i+2)
+  let s11 = 0, s12 = 0, s22 = 0;
+  for (let i = n - 1; i >= 0; i--) {
+    const r = l[3 * i];
+    const a = i + 1 < n ? l[3 * (i + 1) + 1] : 0;
+    const b = i + 2 < n ? l[3 * (i + 2) + 2] : 0;
+    const e2 = -(a * s12 + b * s22) * r;
+    const e1 = -(a * s11 + b * s12) * r;
+    const e0 = (r - a * e1 - b * e2) * r;
+    s[3 * i] = e0; s[3 * i + 1] = e1; s[3 * i + 2] = e2;
+    // shift: row i becomes row i+1 for the next step
+    s22 = s11; s12 = e1; s11 = e0;
   }
   return s;
 }

@@ -71,7 +71,7 @@ export function whittakerFit(x: ArrayLike<number>, y: ArrayLike<number>, w: Arra
       iterations: 1,
       tolerance,
       achieved: sol.residual,
-      stoppingRule: 'direct banded Cholesky solve; achieved is the componentwise backward error of the normal equations, max_i |Wy - Az|_i / (|A||z| + |Wy|)_i',
+      stoppingRule: 'direct banded Cholesky solve; achieved is the componentwise backward error of the normal equations, max_i |Wy - Az|_i / (|W||z| + lambda |D|^T |D||z| + |Wy|)_i',
     },
   };
 }

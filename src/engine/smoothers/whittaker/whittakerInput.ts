@@ -39,7 +39,9 @@ export function whittakerInput(x: ArrayLike<number>, y: ArrayLike<number>, w: Ar
   if (w && w.length !== n) throw new KnotwiseError('shape-mismatch', `the weights have ${w.length} values but y has ${n}.`);
   if (n <= order) throw new KnotwiseError('too-few-points', `differences of order ${order} need at least ${order + 1} points; got ${n}.`);
   // copies as Float64Array first, so the checks below read one array type (fast at 1e6 points)
-  const xs = toFloat64(x), ys = toFloat64(y);
+  // Float64Array input is read in place (never written); anything else is copied first,
+  // so the checks below read one array type (fast at 1e6 points)
+  const xs = x instanceof Float64Array ? x : toFloat64(x), ys = y instanceof Float64Array ? y : toFloat64(y);
   const ws = w ? toFloat64(w) : new Float64Array(n).fill(1);
   let positive = 0, wSum = 0;
   for (let i = 0; i < n; i++) {
@@ -59,9 +61,8 @@ export function whittakerInput(x: ArrayLike<number>, y: ArrayLike<number>, w: Ar
   }
   const h = scale ? (xs[n - 1] - xs[0]) / (n - 1) : 1;
   const wScale = scale ? wSum / n : 1;
-  const u = new Float64Array(n);
-  for (let i = 0; i < n; i++) { u[i] = (xs[i] - xs[0]) / h; ws[i] /= wScale; }
-  return { n, order, x: xs, y: ys, w: ws, wScale, h, rows: differenceRows(u, order) };
+  for (let i = 0; i < n; i++) ws[i] /= wScale;
+  return { n, order, x: xs, y: ys, w: ws, wScale, h, rows: scaledDifferenceRows(xs, h, order) };
 }
 
 /**
@@ -71,6 +72,33 @@ export function whittakerInput(x: ArrayLike<number>, y: ArrayLike<number>, w: Ar
  */
 export function scaledLambda(inp: WhittakerInput, lambda: number): number {
   return lambda / Math.pow(inp.h, 2 * (inp.order - 1)) / inp.wScale;
+}
+
+/**
+ * Rows of D(u, d) for u = (x - x_1) / h: direct formulas for d = 1 ([-1, 1]) and d = 2
+ * ([s_r, -(s_r + s_{r+1}), s_{r+1}], s_r = 1 / (u_{r+1} - u_r)), else {@link differenceRows}.
+ * Unchecked.
+ */
+function scaledDifferenceRows(x: Float64Array, h: number, d: number): Float64Array {
+  const n = x.length;
+  if (d === 1) {
+    const rows = new Float64Array(2 * (n - 1));
+    for (let r = 0; r < n - 1; r++) { rows[2 * r] = -1; rows[2 * r + 1] = 1; }
+    return rows;
+  }
+  if (d === 2) {
+    const rows = new Float64Array(3 * (n - 2));
+    let s0 = h / (x[1] - x[0]);
+    for (let r = 0; r < n - 2; r++) {
+      const s1 = h / (x[r + 2] - x[r + 1]);
+      rows[3 * r] = s0; rows[3 * r + 1] = -(s0 + s1); rows[3 * r + 2] = s1;
+      s0 = s1;
+    }
+    return rows;
+  }
+  const u = new Float64Array(n);
+  for (let i = 0; i < n; i++) u[i] = (x[i] - x[0]) / h;
+  return differenceRows(u, d);
 }
 
 /** Checks a penalty: finite and > 0. */
