@@ -9,7 +9,8 @@
  *   our default mirror boundary, which transforms twice the length, is timed too.
  * - LOESS (degree 2, span 0.1, no robustness) at 1e3 .. 1e5 with the default delta
  *   interpolation (exact local fits at anchors min(0.01, span / 20) * range apart) beside R's
- *   loess with its default kd-tree vertex interpolation (surface = "interpolate"), and our
+ *   loess with its default kd-tree vertex interpolation (surface = "interpolate"; timed with its
+ *   default exact trace of the smoother matrix, as ours, and with trace.hat = "approximate"), and our
  *   exact fit beside R's surface = "direct" up to 1e4.
  * The machine is shared and has 2 cores: figures are noisy; ratios are ours / theirs.
  */
@@ -158,15 +159,20 @@ print(tmed(shrink, ${repeats}))
 tm <- function(f, r) { f(); median(sapply(seq_len(r), function(i) system.time(f())[['elapsed']])) * 1000 }
 a <- tm(function() loess(y ~ x, span = ${span}, degree = 2), ${repeats})
 b <- if (${direct ? 'TRUE' : 'FALSE'}) tm(function() loess(y ~ x, span = ${span}, degree = 2, control = loess.control(surface = 'direct')), ${repeats}) else NA
+c <- tm(function() loess(y ~ x, span = ${span}, degree = 2, control = loess.control(trace.hat = 'approximate')), ${repeats})
 f <- fitted(loess(y ~ x, span = ${span}, degree = 2, control = loess.control(surface = 'direct', statistics = 'none')))
 writeBin(f, '${fx}.fit')
-cat(a, b)`);
+cat(a, b, c)`);
         if (out !== null) {
-          const [a, b] = out.split(/\s+/).map(Number);
+          const [a, b, c] = out.split(/\s+/).map(Number);
           const rf = new Float64Array(fs.readFileSync(`${fx}.fit`).buffer.slice(0));
           let d = 0;
           for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(rf[i] - interp.value.fitted[i]));
-          Object.assign(rec, { r_loess_interpolate_ms: a, ratio_to_r_interpolate: Number((interp.ms / Math.max(a, 1e-3)).toFixed(3)), max_abs_diff_to_r_direct: Number(d.toExponential(2)) });
+          Object.assign(rec, {
+            r_loess_interpolate_ms: a, ratio_to_r_interpolate: Number((interp.ms / Math.max(a, 1e-3)).toFixed(3)),
+            r_loess_interpolate_approx_trace_ms: c, ratio_to_r_approx_trace: Number((interp.ms / Math.max(c, 1e-3)).toFixed(3)),
+            max_abs_diff_to_r_direct: Number(d.toExponential(2)),
+          });
           if (exact && Number.isFinite(b)) Object.assign(rec, { r_loess_direct_ms: b, ratio_exact_to_r_direct: Number((exact.ms / Math.max(b, 1e-3)).toFixed(3)) });
         }
       } else rec.r_loess_interpolate_ms = 'R not installed';
