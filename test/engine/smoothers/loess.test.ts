@@ -7,6 +7,7 @@
 import { Matrix, solve } from 'ml-matrix';
 import { loessFit } from '../../../src/engine/smoothers/loess/loessFit';
 import { loessSelectSpan } from '../../../src/engine/smoothers/loess/loessSelectSpan';
+import { loessPredict } from '../../../src/engine/smoothers/loess/loessPredict';
 import { loadFixture, maxAbsDiff, range } from '../../helpers/fixtures';
 import { mulberry32, normalStream } from '../../helpers/random';
 
@@ -132,6 +133,22 @@ describe('loessFit', () => {
     expect(() => loessFit([2, 2, 2], [1, 2, 3], null, { span: 1 })).toThrow(/all x are equal \(2\)/);
     expect(() => loessFit(x, y, null, { span: 1, degree: 3 as never })).toThrow(/degree must be 0, 1 or 2; got 3/);
     expect(() => loessFit(x, y, null, { span: 1, delta: -1 })).toThrow(/delta must be a finite number >= 0.*got -1/);
+  });
+});
+
+describe('loessPredict', () => {
+  test.each([[1, 0], [2, 0], [1, 3]] as const)('at the sample points it equals the exact fit (degree %i, %i robustness passes), in any order', (degree, passes) => {
+    const u = mulberry32(70 + degree + passes), z = normalStream(71);
+    const x = Float64Array.from({ length: 150 }, () => 5 * u()).sort();
+    const y = Float64Array.from(x, (v) => Math.cos(v) + 0.2 * z() + (u() < 0.05 ? 3 : 0));
+    const f = loessFit(x, y, null, { span: 0.35, degree, robustnessIterations: passes, delta: 0 });
+    const idx = Array.from({ length: 150 }, (_, i) => (i * 37) % 150);
+    const p = loessPredict(x, y, null, f.robustnessWeights, 0.35, degree, idx.map((i) => x[i]));
+    for (let k = 0; k < idx.length; k++) expect(Math.abs(p[k] - f.fitted[idx[k]])).toBeLessThan(1e-12);
+    // between points it reproduces a line (degree >= 1) and beyond the data it extrapolates it
+    const line = Float64Array.from(x, (v) => 3 - 2 * v);
+    const q = loessPredict(x, line, null, null, 0.35, degree, [-1, 2.2222, 7]);
+    expect(maxAbsDiff(q, [5, 3 - 2 * 2.2222, -11])).toBeLessThan(1e-10);
   });
 });
 

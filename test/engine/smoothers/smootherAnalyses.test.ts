@@ -56,9 +56,22 @@ describe('loess analysis', () => {
   test('a given span is the kernel; AICc is the default rule; robustness passes are applied', () => {
     const r = runAnalysis({ analysis: 'loess', y, x, options: { span: 0.3, robustness: 3 } });
     expect(maxAbsDiff(r.fitted, loessFit(x, y, null, { span: 0.3, degree: 1, robustnessIterations: 3 }).fitted)).toBe(0);
+    const e = evaluateAnalysis(r, [x[20], 170]);
+    expect(e.value[0]).toBeCloseTo(r.fitted[20], 10);
+    expect(Array.from(e.extrapolated)).toEqual([0, 1]);
     const a = runAnalysis({ analysis: 'loess', y, x, options: { degree: 2 } });
     expect(a.smooth!.criterion.name).toBe('aicc');
     for (const p of a.smooth!.criterion.curve!) expect(a.smooth!.criterion.value).toBeLessThanOrEqual(p.score);
+  });
+
+  test('cross-validation on the shared folds picks an interior span; cv-simpler a span at least as large', () => {
+    const a = runAnalysis({ analysis: 'loess', y, x, options: { rule: 'cv', folds: 5 } });
+    const b = runAnalysis({ analysis: 'loess', y, x, options: { rule: 'cv-simpler', folds: 5 } });
+    const c = a.smooth!.criterion;
+    expect(c.name).toBe('cv');
+    expect(c.atEdge).toBe(false);
+    for (const p of c.curve!) expect(c.value).toBeLessThanOrEqual(p.score);
+    expect(b.smooth!.penalty).toBeGreaterThanOrEqual(a.smooth!.penalty);
   });
 
   test('refuses a span together with a rule, and a span above 1', () => {

@@ -8,26 +8,34 @@ import type { Series } from '../../series';
 import type { FitResult } from '../../types';
 import { Warning, warning } from '../../warnings';
 import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
+import { RULE_HELP } from '../../analysis/penaltyOptions';
 import type { ResolvedOptions } from '../../analysis/optionDeclaration';
 import { QUIET, RunContext } from '../../analysis/runContext';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
 import { loessFit, type LoessFit } from './loessFit';
 import { loessSelectSpan } from './loessSelectSpan';
-import { interpolateFit } from '../whittaker/interpolateFit';
+import { loessPredict } from './loessPredict';
+import { crossValidate } from '../../select/crossValidate';
+import { choosePenalty } from '../../select/choosePenalty';
+import type { CriterionPoint } from '../../types';
 
 /** Settings of {@link fitLoess}. */
 export interface LoessSettings {
   degree: 0 | 1 | 2;
   span?: number;
-  rule?: 'aicc' | 'gcv';
+  rule?: 'aicc' | 'gcv' | 'cv' | 'cv-simpler';
+  folds?: number;
   robustness?: number;
   interpolateWithin?: number;
 }
 
 /**
  * Fits LOESS to a clean series (ties merged into weighted points): a given span, or the
- * span minimising AICc (default) or GCV over {@link loessSelectSpan}'s grid. The reported
- * penalty is the span; df is the exact trace of the smoother matrix.
+ * span minimising AICc (default) or GCV over {@link loessSelectSpan}'s grid, or K-fold
+ * cross-validation on the shared folds ({@link crossValidate}) over the same grid, where each
+ * held-out point is predicted by {@link loessPredict} from a fit to the other folds ('cv-simpler':
+ * the largest span within one standard error of the best). The reported penalty is the span;
+ * df is the exact trace of the smoother matrix.
  *
  * @example
  * ```ts
@@ -44,9 +52,34 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
     span = s.span;
     fit = loessFit(series.x, series.y, series.w, { span, ...common });
     criterion = { name: 'fixed', value: NaN };
+  } else if (s.rule === 'cv' || s.rule === 'cv-simpler') {
+    const k = Math.max(2, Math.min(s.folds ?? 10, n - 2));
+    // the grid of loessSelectSpan, kept to spans the training folds can use
+    const lo = Math.min(1, Math.max((2 * s.degree + 4) / (n - Math.ceil(n / k)), 1e-3));
+    const spans = Float64Array.from({ length: 30 }, (_, i) => Math.exp(Math.log(lo) + (i * (0 - Math.log(lo))) / 29));
+    const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {
+      const tx = Float64Array.from(train, (i) => series.x[i]), ty = Float64Array.from(train, (i) => series.y[i]), tw = Float64Array.from(train, (i) => series.w[i]);
+      const hx = Float64Array.from(held, (i) => series.x[i]);
+      return Array.from(pens, (sp) => {
+        const f = loessFit(tx, ty, tw, { span: sp, ...common });
+        return loessPredict(tx, ty, tw, f.robustnessWeights, sp, s.degree, hx);
+      });
+    };
+    const cv = crossValidate(series.y, series.w, k, spans, predict, context, 'cross-validation of spans');
+    const curve: CriterionPoint[] = [];
+    for (let j = 0; j < spans.length; j++) {
+      const f = loessFit(series.x, series.y, series.w, { span: spans[j], ...common });
+      curve.push({ penalty: spans[j], score: cv.score[j], se: cv.se[j], df: f.df });
+    }
+    const best = choosePenalty(curve, s.rule === 'cv-simpler' ? 'simpler' : 'minimum');
+    span = spans[best];
+    fit = loessFit(series.x, series.y, series.w, { span, ...common });
+    const atEdge = choosePenalty(curve, 'minimum') === 0 || choosePenalty(curve, 'minimum') === curve.length - 1;
+    criterion = { name: 'cv', value: curve[best].score, curve, atEdge };
+    if (atEdge) warnings.push(warning('penalty-at-edge', `The cross-validation choice is at an end of the spans tried (${showNumber(span)}): a span outside ${showNumber(spans[0])} to 1 might predict better, or the data show no local structure.`));
   } else {
     context.step(0.1, `trying spans (${s.rule === 'gcv' ? 'GCV' : 'AICc'})`);
-    const sel = loessSelectSpan(series.x, series.y, series.w, { ...common, criterion: s.rule ?? 'aicc' });
+    const sel = loessSelectSpan(series.x, series.y, series.w, { ...common, criterion: s.rule === 'gcv' ? 'gcv' : 'aicc' });
     span = sel.span; fit = sel.fit;
     criterion = { name: sel.criterion, value: sel.criterion === 'aicc' ? fit.aicc : fit.gcv, curve: sel.table.map((r) => ({ penalty: r.span, score: r.score, df: r.df })), atEdge: sel.atEdge };
     if (sel.atEdge) {
@@ -63,7 +96,8 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
   warnings.push(boundaryWarning());
   return {
     method: 'loess', options: { method: 'loess' }, x: series.x, fitted: fit.fitted, penalty: span, df: fit.df, sigma, criterion,
-    knots: [], leverage: fit.leverage, warnings, solver: fit.status, model: { x: series.x, fitted: fit.fitted },
+    knots: [], leverage: fit.leverage, warnings, solver: fit.status,
+    model: { x: series.x, y: series.y, w: series.w, rw: fit.robustnessWeights, span, degree: s.degree },
   };
 }
 
@@ -77,10 +111,11 @@ export const loessAnalysis: AnalysisDefinition = {
     { name: 'degree', kind: 'integer', min: 0, max: 2, default: 1, help: 'shape fitted around each point: 1 a straight line (default, as LOWESS), 2 a parabola, 0 a weighted mean' },
     { name: 'span', kind: 'number', above: 0, max: 1, group: 'penalty', help: 'fraction of the points used around each point (0 to 1); larger is smoother' },
     {
-      name: 'rule', kind: 'choice', choices: ['aicc', 'gcv'], default: 'aicc', group: 'penalty',
-      choiceHelp: { aicc: 'corrected Akaike criterion (Hurvich, Simonoff & Tsai 1998)', gcv: 'generalised cross-validation (Craven & Wahba 1979)' },
-      help: 'how to choose the span when none is given: aicc (default) or gcv',
+      name: 'rule', kind: 'choice', choices: ['aicc', 'gcv', 'cv', 'cv-simpler'], default: 'aicc', group: 'penalty',
+      choiceHelp: { aicc: 'corrected Akaike criterion (Hurvich, Simonoff & Tsai 1998)', gcv: RULE_HELP.gcv, cv: RULE_HELP.cv, 'cv-simpler': RULE_HELP['cv-simpler'] },
+      help: 'how to choose the span when none is given: aicc (default), gcv, cv or cv-simpler',
     },
+    { name: 'folds', kind: 'integer', min: 2, max: 50, onlyWith: { option: 'rule', values: ['cv', 'cv-simpler'] }, help: 'number of cross-validation folds (default 10, fewer on short series)' },
     { name: 'robustness', kind: 'integer', min: 0, max: 20, default: 0, implied: 3, help: 'passes that down-weight outliers (bisquare weights; 3 as in LOWESS); 0 for none (default)' },
     { name: 'interpolateWithin', kind: 'number', min: 0, help: 'x distance within which fitted values are interpolated between exact local fits (default: none up to 1000 points, else min(0.01, span / 20) of the x range)' },
   ],
@@ -90,14 +125,18 @@ export const loessAnalysis: AnalysisDefinition = {
     const smooth = fitLoess(series, {
       degree: o.degree as 0 | 1 | 2,
       span: o.span as number | undefined,
-      rule: o.rule as 'aicc' | 'gcv' | undefined,
+      rule: o.rule as LoessSettings['rule'],
+      folds: o.folds as number | undefined,
       robustness: o.robustness as number | undefined,
       interpolateWithin: o.interpolateWithin as number | undefined,
     }, context);
     return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
   },
+  // the local fit at each new x (beyond the data: the end polynomial continued, flagged)
   evaluate: (result, x) => {
-    const m = result.smooth!.model as { x: Float64Array; fitted: Float64Array };
-    return interpolateFit(m.x, m.fitted, x);
+    const m = result.smooth!.model as { x: Float64Array; y: Float64Array; w: Float64Array; rw: Float64Array; span: number; degree: 0 | 1 | 2 };
+    const value = loessPredict(m.x, m.y, m.w, m.rw, m.span, m.degree, x);
+    const lo = m.x[0], hi = m.x[m.x.length - 1];
+    return { x, value, extrapolated: Uint8Array.from(x, (t) => (t < lo || t > hi ? 1 : 0)) };
   },
 };
