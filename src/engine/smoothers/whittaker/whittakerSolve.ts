@@ -23,6 +23,17 @@ export function whittakerBand(inp: WhittakerInput, lam: number): Float64Array {
   const wd = d + 1;
   const a = new Float64Array(n * wd);
   for (let i = 0; i < n; i++) a[i * wd] = w[i];
+  if (d === 2) {
+    // row r = (p, q, s) on columns r, r+1, r+2 adds lam * its outer product
+    for (let r = 0; r < n - 2; r++) {
+      const o = 3 * r, p = rows[o], q = rows[o + 1], s = rows[o + 2];
+      const lp = lam * p, lq = lam * q, ls = lam * s;
+      a[o] += lp * p;                       // (r, r)
+      a[o + 3] += lq * q; a[o + 4] += lq * p; // (r+1, r+1), (r+1, r)
+      a[o + 6] += ls * s; a[o + 7] += ls * q; a[o + 8] += ls * p; // (r+2, r+2), (r+2, r+1), (r+2, r)
+    }
+    return a;
+  }
   const m = n - d;
   for (let r = 0; r < m; r++) {
     const o = r * wd;
@@ -69,6 +80,18 @@ function backwardError(inp: WhittakerInput, lam: number, z: Float64Array): numbe
   const wd = d + 1;
   const r = new Float64Array(n), mag = new Float64Array(n);
   for (let i = 0; i < n; i++) { r[i] = w[i] * (y[i] - z[i]); mag[i] = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]); }
+  if (d === 2) {
+    for (let k = 0; k < n - 2; k++) {
+      const o = 3 * k;
+      const t0 = rows[o] * z[k], t1 = rows[o + 1] * z[k + 1], t2 = rows[o + 2] * z[k + 2];
+      const dz = lam * (t0 + t1 + t2), adz = lam * (Math.abs(t0) + Math.abs(t1) + Math.abs(t2));
+      r[k] -= rows[o] * dz; r[k + 1] -= rows[o + 1] * dz; r[k + 2] -= rows[o + 2] * dz;
+      mag[k] += Math.abs(rows[o]) * adz; mag[k + 1] += Math.abs(rows[o + 1]) * adz; mag[k + 2] += Math.abs(rows[o + 2]) * adz;
+    }
+    let worst2 = 0;
+    for (let i = 0; i < n; i++) if (mag[i] > 0) { const e = Math.abs(r[i]) / mag[i]; if (e > worst2) worst2 = e; }
+    return worst2;
+  }
   for (let k = 0; k < n - d; k++) {
     const o = k * wd;
     let dz = 0, adz = 0;
