@@ -77,7 +77,8 @@ function fitOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[]
     penalty: fit.penalty, df: fit.df, sigma: Number.isFinite(fit.sigma) ? fit.sigma : null,
     criterion: { name: fit.criterion.name, value: Number.isFinite(fit.criterion.value) ? fit.criterion.value : null, atEdge: fit.criterion.atEdge ?? false },
     fitted: toRows(series, fit.fitted, null),
-    knots: fit.knots.map((k) => ({ x: k.x, row: k.row + 1, change: k.change })),
+    knots: (fit.bends ?? []).map((b) => ({ x: b.x, row: b.row + 1, change: Number.isFinite(b.change) ? b.change : null, shrunkChange: b.shrunkChange, xFrom: b.xFrom, xTo: b.xTo, knotsMerged: b.knots, rank: b.rank })),
+    allKnots: fit.knots.map((k) => ({ x: k.x, row: k.row + 1, change: k.change })),
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
     solver: result.solver,
   };

@@ -5,6 +5,7 @@
 import { registerAnalysis } from './analysis/analysisRegistry';
 import { splineAnalysis } from './smoothers/spline';
 import { trendAnalysis } from './smoothers/trend';
+import { autoAnalysis } from './smoothers/auto';
 import { CHANGEPOINT_ANALYSES } from './breaks/changepointAnalyses';
 import { whittakerAnalysis } from './smoothers/whittaker/whittakerAnalysis';
 import { loessAnalysis } from './smoothers/loess/loessAnalysis';
@@ -15,4 +16,5 @@ registerAnalysis(trendAnalysis);
 registerAnalysis(whittakerAnalysis);
 registerAnalysis(loessAnalysis);
 registerAnalysis(waveletAnalysis);
+registerAnalysis(autoAnalysis);
 for (const a of CHANGEPOINT_ANALYSES) registerAnalysis(a);

@@ -102,21 +102,26 @@ export async function summary(y: any[][], x?: any[][], method?: string, settings
 }
 
 /**
- * The knots of a fit: where the fitted curve changes form, with the size of the change.
+ * The knots of a fit: where the fitted curve changes form. Neighbouring knots of one bend are merged and each bend's change is measured on the unshrunk refit, ranked by size; "all" lists every knot of the fit.
  * @customfunction KNOTS
  * @param y Values to smooth: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "trend" (default here) or "spline" (which has no data-chosen knots).
  * @param [settings] Settings as text, e.g. "order=1" (slope changes, default), "order=0" (jumps), "df=12" or "cv; folds=10".
  * @param [weights] Positive weights, same size as y.
+ * @param [detail] "bends" (default: merged, sized on the refit, ranked) or "all" (every knot of the fit with its shrunk change).
  * @param invocation Excel's handle to cancel the call.
- * @returns A table with header x, row, change: one line per knot; row counts from the first cell of y (1 = first cell).
+ * @returns A table with a header row: x, row, change, from, to, knots merged, rank (or x, row, change for "all"); row counts from the first cell of y (1 = first cell).
  * @cancelable
  */
-export async function knots(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+export async function knots(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], detail?: string, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
   return guardedAsync(async () => {
+    const what = (optionalText(detail) ?? 'bends').trim().toLowerCase();
+    if (what !== 'bends' && what !== 'all') throw new KnotwiseError('bad-option', `detail must be "bends" or "all"; got "${what}".`);
     const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'trend', invocation);
-    return [['x', 'row', 'change'], ...smoothOf(result).knots.map((k) => [k.x, k.row + 1, cellNumber(k.change)])];
+    const fit = smoothOf(result);
+    if (what === 'all' || !fit.bends) return [['x', 'row', 'change'], ...fit.knots.map((k) => [k.x, k.row + 1, cellNumber(k.change)])];
+    return [['x', 'row', 'change', 'from', 'to', 'knots merged', 'rank'], ...fit.bends.map((b) => [b.x, b.row + 1, cellNumber(Number.isFinite(b.change) ? b.change : b.shrunkChange), b.xFrom, b.xTo, b.knots, b.rank])];
   });
 }
 

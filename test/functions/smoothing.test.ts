@@ -144,8 +144,11 @@ describe('PENALTY and SUMMARY', () => {
 });
 
 describe('KNOTS and EVALUATE', () => {
-  test('KNOTS has a header and no rows for the spline, which has no data-chosen knots', async () => {
-    expect(await knots(col(ys), col(xs), 'spline')).toEqual([['x', 'row', 'change']]);
+  test('KNOTS lists bends with their refit sizes, every knot on request, and none for the spline', async () => {
+    expect(await knots(col(ys), col(xs), "spline", undefined, undefined, "all")).toEqual([["x", "row", "change"]]);
+    const t = await knots(col(ys), col(xs), "trend", "order=1; penalty=0.5");
+    expect(t[0]).toEqual(["x", "row", "change", "from", "to", "knots merged", "rank"]);
+    await expect(knots(col(ys), col(xs), "trend", undefined, undefined, "some")).rejects.toThrow(/detail must be "bends" or "all"; got "some"/);
   });
 
   test('EVALUATE flags positions outside the data', async () => {

@@ -7,7 +7,7 @@ import type { Series } from '../series';
 import type { Criterion, Evaluation, FitResult, SolverStatus } from '../types';
 import type { Warning } from '../warnings';
 import type { BreaksResult } from '../breaks/types';
-import type { OptionDeclaration, ResolvedOptions } from './optionDeclaration';
+import type { OptionDeclaration, OptionValue, ResolvedOptions } from './optionDeclaration';
 import type { RunContext } from './runContext';
 
 /** What kind of answer an analysis gives; fronts choose their tables by it. */
@@ -25,8 +25,40 @@ export interface AnalysisCore {
   smooth?: FitResult;
   /** Changepoint models: breaks, segments, penalty, CROPS table. */
   breaks?: BreaksResult;
+  /** The automatic choice: every candidate's cross-validation score on the same folds, and why the winner won. */
+  comparison?: Comparison;
   /** Decompositions: named components per clean point and whatever else the analysis reports. */
   decomposition?: { components: Record<string, Float64Array>; [more: string]: unknown };
+}
+
+/** One candidate of the automatic choice. */
+export interface CandidateRow {
+  /** Analysis name and the variant's options, e.g. 'trend' with order 1. */
+  method: string;
+  options: Record<string, OptionValue>;
+  /** What shape it fits, in words. */
+  label: string;
+  penalty: number;
+  df: number;
+  /** Cross-validation error at its chosen penalty (mean held-out squared error, units of y squared) and its standard error. */
+  cv: number;
+  se: number;
+  /** Milliseconds spent on this candidate (penalty search included). */
+  milliseconds: number;
+  /** Why a candidate could not be compared (too few points, a refusal), when it could not. */
+  skipped?: string;
+}
+
+/** The comparison table of the automatic choice. */
+export interface Comparison {
+  rows: CandidateRow[];
+  /** Index of the chosen row. */
+  chosen: number;
+  /** Index of the row with the lowest cross-validation error. */
+  best: number;
+  folds: number;
+  /** One plain sentence: what was chosen and why. */
+  reason: string;
 }
 
 /** The result of {@link runAnalysis}: plain data (structured-clone-able, so it crosses to and from workers). */
@@ -58,6 +90,11 @@ export interface AnalysisDefinition {
   minPoints(options: ResolvedOptions): number;
   /** Runs on a clean series with resolved options; reports progress and honours cancellation through `context`. */
   run(series: Series, options: ResolvedOptions, context: RunContext): AnalysisCore;
+  /**
+   * Smoothers that take part in the automatic choice list their variants here
+   * (e.g. one per order), each run with cross-validation on the shared folds.
+   */
+  autoVariants?: readonly { label: string; options: Readonly<Record<string, OptionValue>>; simplicity: number }[];
   /** Values of the fit at new x, flagged beyond the data (smoothers). */
-  evaluate?(result: AnalysisResult, x: Float64Array): Evaluation;
+  evaluate?(result: AnalysisCore, x: Float64Array): Evaluation;
 }

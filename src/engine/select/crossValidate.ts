@@ -1,7 +1,10 @@
 /**
  * K-fold cross-validation for any smoother, on the same deterministic folds
  * ({@link foldOf}) for every method, so scores of different methods on one
- * series compare honestly. The method supplies only predictions: fits on the
+ * series compare honestly. When the noise looks positively correlated
+ * ({@link noiseDependence}), folds are blocks and the neighbours of held-out
+ * points are left out of training, so correlated noise is not mistaken for
+ * signal; the plan depends on the data only, so every method still shares it. The method supplies only predictions: fits on the
  * training points along a list of penalties (decreasing, so it may warm-start
  * from the previous one) evaluated at the held-out x.
  *
@@ -12,6 +15,7 @@
  */
 import type { RunContext } from '../analysis/runContext';
 import { foldOf } from './foldOf';
+import { blockFolds, noiseDependence, NoiseDependence } from './noiseDependence';
 
 /**
  * Predictions at held-out points for each penalty of `penalties`.
@@ -26,6 +30,8 @@ export interface CrossValidation {
   /** Fold errors, K x G row-major (fold f, penalty j at f * G + j). */
   foldErrors: Float64Array;
   folds: number;
+  /** The noise dependence found and the fold plan used ({@link noiseDependence}). */
+  plan: NoiseDependence;
 }
 
 /**
@@ -46,16 +52,26 @@ export function crossValidate(y: ArrayLike<number>, w: ArrayLike<number>, folds:
   const n = y.length;
   const K = folds;
   const G = penalties.length;
-  const fold = foldOf(n, K);
+  const plan = noiseDependence(y, K);
+  const fold = plan.buffer > 0 ? blockFolds(n, K, plan) : foldOf(n, K);
   const err = new Float64Array(K * G);
+  const keep = new Uint8Array(n);
   for (let f = 0; f < K; f++) {
     context?.step(f / K, `${stage}, fold ${f + 1} of ${K}`);
+    // training: every point outside the fold and more than `buffer` points away from its held-out points
+    keep.fill(1);
     let nh = 0;
-    for (let i = 0; i < n; i++) if (fold[i] === f) nh++;
-    const held = new Int32Array(nh);
-    const train = new Int32Array(n - nh);
-    for (let i = 0, a = 0, b = 0; i < n; i++) { if (fold[i] === f) held[a++] = i; else train[b++] = i; }
+    for (let i = 0; i < n; i++) {
+      if (fold[i] !== f) continue;
+      nh++;
+      for (let j = Math.max(0, i - plan.buffer); j <= Math.min(n - 1, i + plan.buffer); j++) keep[j] = 0;
+    }
     if (nh === 0) continue;
+    let nt = 0;
+    for (let i = 0; i < n; i++) nt += keep[i];
+    const held = new Int32Array(nh);
+    const train = new Int32Array(nt);
+    for (let i = 0, a = 0, b = 0; i < n; i++) { if (fold[i] === f) held[a++] = i; else if (keep[i]) train[b++] = i; }
     let sw = 0;
     for (let t = 0; t < nh; t++) sw += w[held[t]];
     const preds = predict(train, held, penalties);
@@ -76,5 +92,5 @@ export function crossValidate(y: ArrayLike<number>, w: ArrayLike<number>, folds:
     score[j] = mean;
     se[j] = Math.sqrt(v / (K - 1) / K);
   }
-  return { score, se, foldErrors: err, folds: K };
+  return { score, se, foldErrors: err, folds: K, plan };
 }

@@ -13,7 +13,10 @@
  *
  * Penalty choice: a given lambda; a target equivalent df = trace of the hat
  * matrix; generalised cross-validation (Craven & Wahba 1979),
- *   GCV(lambda) = n * sum w_i (y_i - f_i)^2 / (n - tr S)^2 ,
+ *   GCV(lambda) = [ sum_rows w_r (y_r - f(x_r))^2 / sum_rows w_r ] / (1 - tr S / N)^2 ,
+ * over the N original rows (so tied x count as the observations they are, and the
+ * scatter within a tie group counts, as in R's smooth.spline; without ties and with
+ * unit weights this is n RSS / (n - tr S)^2),
  * with tr S exact from the band of the inverse (Hutchinson & de Hoog 1985);
  * or K-fold cross-validation with deterministic folds ({@link foldOf}).
  *
@@ -24,7 +27,6 @@
  * pointwise standard error sigma * sqrt(h_ii / w_i)).
  */
 import { KnotwiseError, showNumber } from '../errors';
-import type { MethodDefinition } from '../registry';
 import type { Series } from '../series';
 import type { CriterionPoint, Evaluation, FitOptions, FitResult } from '../types';
 import { Warning, warning } from '../warnings';
@@ -190,10 +192,15 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
     stoppingRule = 'root of df(lambda) = target on log(lambda): |df - target| <= tolerance * max(1, target)';
     criterion = { name: 'df', value: r.df };
   } else {
+    // GCV of the original observations (as R's smooth.spline computes it with ties): the weighted mean squared
+    // residual over all N rows used, including the scatter within tie groups, over (1 - df / N)^2. Without ties
+    // and with unit weights this is the usual n RSS / (n - df)^2.
+    const N = series.nUsed;
+    const within = series.withinTies / (s.ys * s.ys * s.wm);
     const gcv = (l: number): PenaltyScore => {
       const sol = reinschScore(sys, l);
-      const denom = n - sol.df;
-      return { score: denom > 0 ? (n * sol.rss) / (denom * denom) : Infinity, df: sol.df };
+      const denom = 1 - sol.df / N;
+      return { score: denom > 0 ? ((sol.rss + within) / n) / (denom * denom) : Infinity, df: sol.df };
     };
     let plain: (l: number) => PenaltyScore = gcv;
     if (opts.select === 'cv') {
@@ -240,7 +247,7 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
   for (let i = 0; i < n; i++) se[i] = sigma * Math.sqrt(Math.max(0, sol.leverage![i]) / series.w[i]);
   const gx = ys / (s.xs * s.xs);
   const gamma = sol.gamma.map((v) => v * gx);
-  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined));
+  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined, series.y, opts.select));
   warnings.push(boundaryWarning());
   const model: SplineModel = { x: series.x, g: fitted, gamma };
   return {
@@ -276,6 +283,7 @@ export const splineAnalysis: AnalysisDefinition = {
   options: PENALTY_OPTIONS({ rules: ['gcv', 'cv', 'cv-simpler'], defaultRule: 'gcv', folds: 10, searchPoints: 25 }),
   ties: 'merge',
   minPoints: () => 3,
+  autoVariants: [{ label: 'a smooth curve (spline)', options: {}, simplicity: 1 }],
   run(series: Series, options: ResolvedOptions, context: RunContext) {
     const smooth = fitSpline(series, fitOptionsOf(options), context);
     return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
@@ -283,11 +291,3 @@ export const splineAnalysis: AnalysisDefinition = {
   evaluate: (result, x) => evaluateSpline(result.smooth!, x),
 };
 
-/** The spline as a registered method. */
-export const splineMethod: MethodDefinition = {
-  name: 'spline',
-  summary: 'natural cubic smoothing spline (knots at every x; penalty by GCV, CV, df or value)',
-  minPoints: () => 3,
-  fit: fitSpline,
-  evaluate: evaluateSpline,
-};

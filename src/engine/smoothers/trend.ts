@@ -46,13 +46,13 @@ import type { AnalysisDefinition } from '../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import { PENALTY_OPTIONS, fitOptionsOf } from '../analysis/penaltyOptions';
 import { KnotwiseError, showNumber } from '../errors';
-import type { MethodDefinition } from '../registry';
 import type { Series } from '../series';
 import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot, SolverStatus } from '../types';
 import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { choosePenalty, edgeWarning } from '../select/choosePenalty';
+import { knotBends } from '../diagnostics/knotBends';
 import { differenceOperator } from '../linalg/difference';
 import { trendScaling, toScaledPenalty, toDataPenalty, TrendScaling } from './trend/trendScaling';
 import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
@@ -356,13 +356,13 @@ function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: Trend
     }
     warnings.push(warning('not-converged', `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum (||fit - optimum||_W <= sqrt(2 gap)). Increase maxIterations or use a smaller penalty.`));
   }
-  warnings.push(...fitWarnings(n, df, resid, dataDriven));
+  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name));
   warnings.push(boundaryWarning());
   const model: TrendModel = { x, l1, order: k, relaxed: s.relaxed, refit };
   return {
     method: 'trend',
     options: { ...options, method: 'trend', order: k, relaxed: s.relaxed, gridSize: s.gridSize, folds: s.folds, tolerance: s.tolerance, maxIterations: s.maxIterations, ...(options.penalty === undefined && options.df === undefined ? { select: criterion.name as 'cv' | 'sure' | 'bic', oneSE: s.oneSE } : {}) },
-    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, warnings, solver: status, model,
+    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, bends: knotBends(series, k, knots), warnings, solver: status, model,
   };
 }
 
@@ -417,6 +417,12 @@ export const trendAnalysis: AnalysisDefinition = {
   ],
   ties: 'merge',
   minPoints: (o: ResolvedOptions) => (o.order as number) + 2,
+  autoVariants: [
+    { label: 'level shifts (trend filtering, order 0)', options: { order: 0 }, simplicity: 0 },
+    { label: 'straight pieces with kinks (trend filtering, order 1)', options: { order: 1 }, simplicity: 1 },
+    { label: 'smooth bends (trend filtering, order 2)', options: { order: 2 }, simplicity: 2 },
+    { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3 },
+  ],
   run(series: Series, options: ResolvedOptions, context: RunContext) {
     const smooth = fitTrend(series, fitOptionsOf(options), context);
     return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
@@ -424,11 +430,3 @@ export const trendAnalysis: AnalysisDefinition = {
   evaluate: (result, x) => evaluateTrend(result.smooth!, x),
 };
 
-/** The method definition registered as 'trend'. */
-export const trendMethod: MethodDefinition = {
-  name: 'trend',
-  summary: 'L1 trend filtering: piecewise constant, linear, quadratic or cubic trend with data-chosen knots.',
-  minPoints: (options: FitOptions) => (options.order === undefined ? TREND_DEFAULT_ORDER : typeof options.order === 'number' && options.order >= 0 && options.order <= 3 ? Math.floor(options.order) : TREND_DEFAULT_ORDER) + 2,
-  fit: fitTrend,
-  evaluate: evaluateTrend,
-};

@@ -120,6 +120,10 @@ export const loessAnalysis: AnalysisDefinition = {
     { name: 'interpolateWithin', kind: 'number', min: 0, help: 'x distance within which fitted values are interpolated between exact local fits (default: none up to 1000 points, else min(0.01, span / 20) of the x range)' },
   ],
   ties: 'merge',
+  autoVariants: [
+    { label: 'a local straight-line curve (LOESS, degree 1)', options: { degree: 1 }, simplicity: 1 },
+    { label: 'a local parabola curve (LOESS, degree 2)', options: { degree: 2 }, simplicity: 2 },
+  ],
   minPoints: (o: ResolvedOptions) => (o.degree as number) + 2,
   run(series: Series, o: ResolvedOptions, context: RunContext) {
     const smooth = fitLoess(series, {

@@ -157,6 +157,7 @@ export const whittakerAnalysis: AnalysisDefinition = {
     { name: 'pastOnly', kind: 'switch', default: false, implied: true, help: 'each value uses only data up to its own row (one-sided trend for backtests, no look-ahead; computed by a Kalman filter)' },
   ],
   ties: 'merge',
+  autoVariants: [{ label: 'a smooth trend penalising changes in slope (Whittaker / Hodrick-Prescott)', options: { order: 2 }, simplicity: 1 }],
   minPoints: (o: ResolvedOptions) => (o.order as number) + 1,
   run(series: Series, o: ResolvedOptions, context: RunContext) {
     const smooth = fitWhittaker(series, {
