@@ -41,8 +41,8 @@ export interface WhittakerSettings {
 /**
  * Fits Whittaker-Henderson graduation to a clean series, with the penalty from a value,
  * a frequency preset (order 2), a df target, GCV or K-fold cross-validation (the shared
- * folds of {@link crossValidate}; a held-out point is predicted by the fit with its weight
- * set to zero, which the penalty fills in). Searches run over lambda on the internal scale
+ * folds of {@link crossValidate}; a held-out point is predicted by the fit in which only the
+ * training points carry weight, the others being filled in by the penalty). Searches run over lambda on the internal scale
  * (x in mean spacings, weights of mean 1) from 1e-3 to min(1e12, (n/2)^(2 order)).
  * With `pastOnly` the fitted values are the one-sided trend ({@link whittakerOneSided});
  * df, sigma and the penalty choice then refer to the two-sided fit at the same lambda.
@@ -98,8 +98,10 @@ export function fitWhittaker(series: Series, s: WhittakerSettings, context: RunC
     } else {
       const k = Math.max(2, Math.min(s.folds ?? 10, n - 2));
       const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {
-        const w = series.w.slice();
-        for (let t = 0; t < held.length; t++) w[held[t]] = 0;
+        // only training points carry weight: held-out points, and any neighbours the
+        // shared folds leave out of training (correlated noise), are filled in by the penalty
+        const w = new Float64Array(n);
+        for (let t = 0; t < train.length; t++) w[train[t]] = series.w[train[t]];
         return Array.from(pens, (l) => { const f = whittakerFit(series.x, series.y, w, l, d).fitted; return Float64Array.from(held, (i) => f[i]); });
       };
       score = (l) => {
