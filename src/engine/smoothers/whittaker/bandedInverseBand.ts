@@ -78,3 +78,35 @@ function bandedInverseBand2(l: Float64Array, n: number): Float64Array {
   }
   return s;
 }
+
+/**
+ * Only the diagonal of A^{-1} from the factor of {@link bandedInverseBand}: for half-bandwidth 2
+ * the recursion runs on three numbers per step (no band is stored); otherwise the band is
+ * computed and its diagonal read. O(n p^2).
+ *
+ * @example
+ * ```ts
+ * bandedInverseDiagonal(l, n, 2); // (A^{-1})_ii, i = 0..n-1
+ * ```
+ * Unchecked.
+ */
+export function bandedInverseDiagonal(l: Float64Array, n: number, p: number): Float64Array {
+  const out = new Float64Array(n);
+  if (p === 2) {
+    let s11 = 0, s12 = 0, s22 = 0;
+    for (let i = n - 1; i >= 0; i--) {
+      const r = l[3 * i];
+      const a = i + 1 < n ? l[3 * (i + 1) + 1] : 0;
+      const b = i + 2 < n ? l[3 * (i + 2) + 2] : 0;
+      const e2 = -(a * s12 + b * s22) * r;
+      const e1 = -(a * s11 + b * s12) * r;
+      const e0 = (r - a * e1 - b * e2) * r;
+      out[i] = e0;
+      s22 = s11; s12 = e1; s11 = e0;
+    }
+    return out;
+  }
+  const s = bandedInverseBand(l, n, p);
+  for (let i = 0; i < n; i++) out[i] = s[i * (p + 1)];
+  return out;
+}

@@ -5,7 +5,7 @@
  */
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
 import { KnotwiseError, showNumber } from '../../errors';
-import { bandedInverseBand } from './bandedInverseBand';
+import { bandedInverseDiagonal } from './bandedInverseBand';
 import type { WhittakerInput } from './whittakerInput';
 
 export interface WhittakerSolution {
@@ -61,10 +61,9 @@ export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: b
   const worst = backwardError(inp, lam, z);
   const out: WhittakerSolution = { fitted: z, residual: worst };
   if (withLeverage) {
-    const sig = bandedInverseBand(band, n, d);
-    const lev = new Float64Array(n);
+    const lev = bandedInverseDiagonal(band, n, d);
     let df = 0;
-    for (let i = 0; i < n; i++) { lev[i] = w[i] * sig[i * wd]; df += lev[i]; }
+    for (let i = 0; i < n; i++) { lev[i] *= w[i]; df += lev[i]; }
     out.leverage = lev;
     out.df = df;
   }
@@ -78,20 +77,29 @@ export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: b
 function backwardError(inp: WhittakerInput, lam: number, z: Float64Array): number {
   const { n, order: d, rows, w, y } = inp;
   const wd = d + 1;
-  const r = new Float64Array(n), mag = new Float64Array(n);
-  for (let i = 0; i < n; i++) { r[i] = w[i] * (y[i] - z[i]); mag[i] = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]); }
   if (d === 2) {
-    for (let k = 0; k < n - 2; k++) {
-      const o = 3 * k;
-      const t0 = rows[o] * z[k], t1 = rows[o + 1] * z[k + 1], t2 = rows[o + 2] * z[k + 2];
-      const dz = lam * (t0 + t1 + t2), adz = lam * (Math.abs(t0) + Math.abs(t1) + Math.abs(t2));
-      r[k] -= rows[o] * dz; r[k + 1] -= rows[o + 1] * dz; r[k + 2] -= rows[o + 2] * dz;
-      mag[k] += Math.abs(rows[o]) * adz; mag[k + 1] += Math.abs(rows[o + 1]) * adz; mag[k + 2] += Math.abs(rows[o + 2]) * adz;
-    }
+    // one pass: residual i needs (D z)_k for the rows k = i-2, i-1, i that touch column i
     let worst2 = 0;
-    for (let i = 0; i < n; i++) if (mag[i] > 0) { const e = Math.abs(r[i]) / mag[i]; if (e > worst2) worst2 = e; }
+    let dzA = 0, adzA = 0, dzB = 0, adzB = 0; // rows i-2 and i-1 (lam included)
+    for (let i = 0; i < n; i++) {
+      let dzC = 0, adzC = 0;
+      if (i < n - 2) {
+        const o = 3 * i;
+        const t0 = rows[o] * z[i], t1 = rows[o + 1] * z[i + 1], t2 = rows[o + 2] * z[i + 2];
+        dzC = lam * (t0 + t1 + t2); adzC = lam * (Math.abs(t0) + Math.abs(t1) + Math.abs(t2));
+      }
+      let ri = w[i] * (y[i] - z[i]);
+      let mi = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]);
+      if (i >= 2) { const c = rows[3 * (i - 2) + 2]; ri -= c * dzA; mi += Math.abs(c) * adzA; }
+      if (i >= 1 && i - 1 < n - 2) { const c = rows[3 * (i - 1) + 1]; ri -= c * dzB; mi += Math.abs(c) * adzB; }
+      if (i < n - 2) { const c = rows[3 * i]; ri -= c * dzC; mi += Math.abs(c) * adzC; }
+      if (mi > 0) { const e = Math.abs(ri) / mi; if (e > worst2) worst2 = e; }
+      dzA = dzB; adzA = adzB; dzB = dzC; adzB = adzC;
+    }
     return worst2;
   }
+  const r = new Float64Array(n), mag = new Float64Array(n);
+  for (let i = 0; i < n; i++) { r[i] = w[i] * (y[i] - z[i]); mag[i] = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]); }
   for (let k = 0; k < n - d; k++) {
     const o = k * wd;
     let dz = 0, adz = 0;
