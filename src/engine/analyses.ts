@@ -8,9 +8,15 @@ import { trendAnalysis } from './smoothers/trend';
 import { autoAnalysis } from './smoothers/auto';
 import { CHANGEPOINT_ANALYSES } from './breaks/changepointAnalyses';
 import { decomposeAnalysis } from './decompose/decomposeAnalysis';
+import { whittakerAnalysis } from './smoothers/whittaker/whittakerAnalysis';
+import { loessAnalysis } from './smoothers/loess/loessAnalysis';
+import { waveletAnalysis } from './smoothers/wavelet/waveletAnalysis';
 
 registerAnalysis(splineAnalysis);
 registerAnalysis(trendAnalysis);
+registerAnalysis(whittakerAnalysis);
+registerAnalysis(loessAnalysis);
+registerAnalysis(waveletAnalysis);
 registerAnalysis(autoAnalysis);
 for (const a of CHANGEPOINT_ANALYSES) registerAnalysis(a);
 registerAnalysis(decomposeAnalysis);

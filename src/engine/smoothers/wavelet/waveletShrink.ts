@@ -1,0 +1,216 @@
+import { KnotwiseError, showNumber } from '../../errors';
+import type { SolverStatus } from '../../types';
+import { periodicDwt, periodicIdwt } from './periodicDwt';
+import { sureThreshold } from './sureThreshold';
+import { toFloat64 } from '../whittaker/whittakerInput';
+import { WAVELET_FILTERS, WAVELET_FILTER_NAMES, type WaveletFilterName } from './waveletFilters';
+
+/** Options of {@link waveletShrink}. */
+export interface WaveletShrinkOptions {
+  /** Filter name (default 'sym8'). */
+  filter?: WaveletFilterName;
+  /** Levels J (default floor(log2(n / (L - 1))), the deepest level whose filter fits in the data). */
+  levels?: number;
+  /** 'universal' (VisuShrink, default) or 'sure' (SureShrink, soft only). */
+  threshold?: 'universal' | 'sure';
+  /** 'soft' (default) or 'hard'. */
+  shrink?: 'soft' | 'hard';
+  /** 'reflect' (default): mirror the series at both ends; 'periodic': treat it as one period. */
+  boundary?: 'reflect' | 'periodic';
+  /** Number of circular shifts averaged (cycle spinning), 1 (default, none) to 64. */
+  shifts?: number;
+  /** Positions; when given they must be equally spaced (the transform assumes it). */
+  x?: ArrayLike<number>;
+}
+
+/** Result of {@link waveletShrink}. */
+export interface WaveletShrinkResult {
+  fitted: Float64Array;
+  /** Noise level from the finest details: median |d_1| / 0.6745. */
+  sigma: number;
+  /** Threshold applied at each detail level, finest first (units of y). */
+  thresholds: number[];
+  levels: number;
+  filter: WaveletFilterName;
+  boundary: 'reflect' | 'periodic';
+  /** Length of the transformed (extended) series. */
+  transformLength: number;
+  /** Nonzero detail coefficients kept (first shift), of transformLength - (approximation length). */
+  kept: number;
+  status: SolverStatus;
+}
+
+/**
+ * Wavelet shrinkage (D. L. Donoho and I. M. Johnstone, "Ideal spatial adaptation by
+ * wavelet shrinkage", Biometrika 81 (1994) 425-455; "Adapting to unknown smoothness
+ * via wavelet shrinkage", JASA 90 (1995) 1200-1224): transform with an orthogonal
+ * Daubechies or symmlet wavelet ({@link periodicDwt}), shrink the detail coefficients
+ * of every level, invert. The approximation coefficients are kept.
+ *
+ *   sigma = median(|d_1|) / 0.6745                     (finest level; robust to the signal)
+ *   universal (VisuShrink): t = sigma sqrt(2 log n)   (n = number of data points)
+ *   sure (SureShrink):      t_j = sigma * sureThreshold(d_j / sigma) per level
+ *   soft: sign(d) max(|d| - t, 0);   hard: d [|d| > t]
+ *
+ * Boundaries and lengths. The transform is periodic, so it needs a length divisible by
+ * 2^J. 'reflect' (default) extends the series by its mirror image (y_0..y_{n-1},
+ * y_{n-1}..y_0, after first padding the end by mirror reflection to a multiple of
+ * 2^(J-1)): the extended series is symmetric at both ends, so a trending series shows no
+ * jump where the period wraps; the cost is a transform of about twice the length.
+ * 'periodic' treats the series (padded at the end by mirror reflection to a multiple of
+ * 2^J) as one period: fastest, and exact for data that really are periodic, but the end
+ * values are pulled toward each other when the series trends. Either way the result is
+ * cut back to the n input rows.
+ *
+ * Cycle spinning (R. R. Coifman and D. L. Donoho, "Translation-invariant de-noising",
+ * in Wavelets and Statistics, Springer 1995): the extended series is shifted circularly
+ * by 0..shifts-1, shrunk, shifted back and averaged; sigma and the thresholds are
+ * taken from the unshifted transform.
+ *
+ * Wavelets assume equal spacing: if x is given and unevenly spaced the call is
+ * refused (KnotwiseError 'bad-data').
+ *
+ * @param y - equally spaced values, finite, at least 4
+ * @param options - see {@link WaveletShrinkOptions}
+ * @example
+ * ```ts
+ * const r = waveletShrink(y, { filter: 'sym8', threshold: 'sure', shifts: 8 });
+ * r.fitted; r.sigma;
+ * ```
+ */
+export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOptions = {}): WaveletShrinkResult {
+  const n = y.length;
+  const filter = options.filter ?? 'sym8';
+  if (!(WAVELET_FILTER_NAMES as readonly string[]).includes(filter)) {
+    throw new KnotwiseError('bad-option', `filter must be one of ${WAVELET_FILTER_NAMES.map((f) => `"${f}"`).join(', ')}; got ${JSON.stringify(filter)}.`);
+  }
+  const h = WAVELET_FILTERS[filter];
+  const L = h.length;
+  const rule = options.threshold ?? 'universal';
+  if (rule !== 'universal' && rule !== 'sure') throw new KnotwiseError('bad-option', `threshold must be "universal" or "sure"; got ${JSON.stringify(rule)}.`);
+  const shrink = options.shrink ?? 'soft';
+  if (shrink !== 'soft' && shrink !== 'hard') throw new KnotwiseError('bad-option', `shrink must be "soft" or "hard"; got ${JSON.stringify(shrink)}.`);
+  if (rule === 'sure' && shrink === 'hard') throw new KnotwiseError('bad-option', 'the "sure" threshold is derived for soft shrinkage; use shrink "soft" or threshold "universal".');
+  const boundary = options.boundary ?? 'reflect';
+  if (boundary !== 'reflect' && boundary !== 'periodic') throw new KnotwiseError('bad-option', `boundary must be "reflect" or "periodic"; got ${JSON.stringify(boundary)}.`);
+  const shifts = options.shifts ?? 1;
+  if (typeof shifts !== 'number' || !Number.isInteger(shifts) || shifts < 1 || shifts > 64) {
+    throw new KnotwiseError('bad-option', `shifts must be a whole number from 1 to 64; got ${typeof shifts === 'number' ? showNumber(shifts) : String(shifts)}.`);
+  }
+  if (n < 4) throw new KnotwiseError('too-few-points', `wavelet shrinkage needs at least 4 points; got ${n}.`);
+  const maxLevels = Math.max(1, Math.floor(Math.log2(n / (L - 1))));
+  const levels = options.levels ?? maxLevels;
+  if (typeof levels !== 'number' || !Number.isInteger(levels) || levels < 1 || levels > Math.max(1, Math.floor(Math.log2(n)))) {
+    throw new KnotwiseError('bad-option', `levels must be a whole number from 1 to ${Math.max(1, Math.floor(Math.log2(n)))} for ${n} points; got ${typeof levels === 'number' ? showNumber(levels) : String(levels)}.`);
+  }
+  const ys = toFloat64(y);
+  for (let i = 0; i < n; i++) {
+    if (!Number.isFinite(ys[i])) throw new KnotwiseError('bad-data', `y at position ${i + 1} is not a finite number: ${showNumber(ys[i])}.`);
+  }
+  if (options.x !== undefined) checkEqualSpacing(options.x, n);
+
+  // extended series
+  const block = boundary === 'reflect' ? 1 << (levels - 1) : 1 << levels;
+  const padded = Math.ceil(n / block) * block;
+  const M = boundary === 'reflect' ? 2 * padded : padded;
+  const ext = new Float64Array(M);
+  for (let i = 0; i < n; i++) ext[i] = ys[i];
+  for (let i = n; i < padded; i++) ext[i] = ys[mirrorIndex(i, n)];
+  if (boundary === 'reflect') for (let i = 0; i < padded; i++) ext[M - 1 - i] = ext[i];
+
+  // noise and thresholds from the unshifted transform
+  const c0 = periodicDwt(ext, h, levels);
+  const finest = c0.subarray(M >> 1);
+  const sigma = medianAbs(finest) / 0.6745;
+  const thresholds: number[] = [];
+  for (let j = 1; j <= levels; j++) {
+    if (rule === 'universal') thresholds.push(sigma * Math.sqrt(2 * Math.log(n)));
+    else if (!(sigma > 0)) thresholds.push(0);
+    else {
+      const dj = c0.subarray(M >> j, M >> (j - 1));
+      thresholds.push(sigma * sureThreshold(Float64Array.from(dj, (v) => v / sigma)).threshold);
+    }
+  }
+  const out = new Float64Array(n);
+  let kept = 0;
+  const shifted = new Float64Array(M);
+  for (let s = 0; s < shifts; s++) {
+    let c: Float64Array;
+    if (s === 0) c = c0.slice();
+    else {
+      for (let i = 0; i < M; i++) shifted[(i + s) % M] = ext[i];
+      c = periodicDwt(shifted, h, levels);
+    }
+    for (let j = 1; j <= levels; j++) {
+      const t = thresholds[j - 1];
+      const lo = M >> j, hi = M >> (j - 1);
+      for (let i = lo; i < hi; i++) {
+        const v = c[i];
+        const a = Math.abs(v);
+        if (shrink === 'soft') c[i] = a > t ? (v > 0 ? a - t : t - a) : 0;
+        else if (!(a > t)) c[i] = 0;
+        if (s === 0 && c[i] !== 0) kept++;
+      }
+    }
+    const r = periodicIdwt(c, h, levels);
+    for (let i = 0; i < n; i++) out[i] += r[(i + s) % M];
+  }
+  if (shifts > 1) for (let i = 0; i < n; i++) out[i] /= shifts;
+  return {
+    fitted: out, sigma, thresholds, levels, filter, boundary, transformLength: M, kept,
+    status: { converged: true, iterations: shifts, tolerance: 0, achieved: 0, stoppingRule: 'direct: one transform, shrinkage and inverse per shift' },
+  };
+}
+
+/** Index into 0..n-1 of position i >= 0 of the half-sample mirror extension (y_{n-1}, y_{n-2}, ... after the end). Unchecked. */
+function mirrorIndex(i: number, n: number): number {
+  const p = i % (2 * n);
+  return p < n ? p : 2 * n - 1 - p;
+}
+
+/** Median of |v| by quickselect (Hoare's FIND), O(m) on average. Unchecked. */
+function medianAbs(v: Float64Array): number {
+  const m = v.length;
+  const a = new Float64Array(m);
+  for (let i = 0; i < m; i++) a[i] = Math.abs(v[i]);
+  const hi = selectKth(a, m >> 1);
+  if (m % 2) return hi;
+  // the largest of the lower half, which selectKth left in a[0 .. m/2)
+  let lo = -Infinity;
+  for (let i = 0; i < m >> 1; i++) if (a[i] > lo) lo = a[i];
+  return 0.5 * (lo + hi);
+}
+
+/** k-th smallest (0-based) of a, partially reordering a so that a[0..k) <= a[k]. Unchecked. */
+function selectKth(a: Float64Array, k: number): number {
+  let l = 0, r = a.length - 1;
+  while (r > l) {
+    const t = a[(l + r) >> 1];
+    let i = l, j = r;
+    while (i <= j) {
+      while (a[i] < t) i++;
+      while (a[j] > t) j--;
+      if (i <= j) { const s = a[i]; a[i] = a[j]; a[j] = s; i++; j--; }
+    }
+    if (k <= j) r = j;
+    else if (k >= i) l = i;
+    else break;
+  }
+  return a[k];
+}
+
+/** Refuses unevenly spaced or non-finite x, with the worst spacing printed. */
+function checkEqualSpacing(x: ArrayLike<number>, n: number): void {
+  if (x.length !== n) throw new KnotwiseError('shape-mismatch', `x has ${x.length} values but y has ${n}.`);
+  for (let i = 0; i < n; i++) if (!Number.isFinite(x[i])) throw new KnotwiseError('bad-data', `x at position ${i + 1} is not a finite number: ${showNumber(x[i])}.`);
+  const step = (x[n - 1] - x[0]) / (n - 1);
+  if (!(step > 0)) throw new KnotwiseError('bad-data', `x must increase; it runs from ${showNumber(x[0])} to ${showNumber(x[n - 1])}.`);
+  let worst = 0, at = 1;
+  for (let i = 1; i < n; i++) {
+    const dev = Math.abs(x[i] - x[i - 1] - step);
+    if (dev > worst) { worst = dev; at = i; }
+  }
+  if (worst > 1e-6 * step) {
+    throw new KnotwiseError('bad-data', `wavelet shrinkage needs equally spaced x; the step from position ${at} to ${at + 1} is ${showNumber(x[at] - x[at - 1])} where the average step is ${showNumber(step)}. Use a method that accepts uneven spacing (the spline, trend filtering, Whittaker or LOESS), or fill the series onto a regular grid first.`);
+  }
+}
