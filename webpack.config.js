@@ -13,7 +13,7 @@ const { version } = require('./package.json');
 const csp = (office) => ["default-src 'none'", `script-src 'self'${office ? ' https://appsforoffice.microsoft.com' : ''}`, "style-src 'self'",
   "img-src 'self'", "connect-src 'none'", "font-src 'self'", "base-uri 'none'", "form-action 'none'", "object-src 'none'"].join('; ');
 
-const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts', './src/functions/options.ts'];
+const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts', './src/functions/options.ts', './src/functions/decompose.ts'];
 
 module.exports = (env, argv) => ({
   mode: argv.mode || 'production',

@@ -6,6 +6,7 @@
 import { smooth, penalty, summary, knots, evaluateAt } from './smoothing';
 import { breaks, segments, breakScan, breakPath } from './breaks';
 import { options } from './options';
+import { decompose } from './decompose';
 
 export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   SMOOTH: smooth,
@@ -18,6 +19,7 @@ export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   BREAKSCAN: breakScan,
   BREAKPATH: breakPath,
   OPTIONS: options,
+  DECOMPOSE: decompose,
 };
 
 if (typeof CustomFunctions !== 'undefined') {

@@ -194,3 +194,21 @@ describe('OPTIONS', () => {
     expect(() => options('wavy')).toThrow(/unknown method "wavy"/);
   });
 });
+
+describe('DECOMPOSE', () => {
+  test('DECOMPOSE spills trend, season, spikes, remainder and adjusted per row, adding back to y', async () => {
+    const { decompose } = require('../../src/functions/decompose');
+    // invented monthly series: a level, a yearly pattern of period 12 and noise-free values, one blank row
+    const y: unknown[] = Array.from({ length: 48 }, (_, i) => 100 + 0.5 * i + 10 * Math.sin((2 * Math.PI * i) / 12));
+    y[20] = '';
+    const out = await decompose(col(y), undefined, 'period=12');
+    expect(out[0]).toEqual(['trend', 'season', 'spikes', 'remainder', 'adjusted']);
+    expect(out).toHaveLength(49);
+    expect(out[21]).toEqual(['', '', '', '', '']);
+    for (let r = 0; r < 48; r++) {
+      if (r === 20) continue;
+      const [t, s, o, e] = out[r + 1] as number[];
+      expect(t + s + o + e).toBeCloseTo(y[r] as number, 8);
+    }
+  });
+});
