@@ -280,6 +280,9 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
     const parts = [...byReason.entries()].map(([reason, rows]) => `${rows.length} ${REASON_TEXT[reason]} (row ${listRows(rows)})`);
     warnings.push(warning('dropped-cells', `${dropped.length} of ${nRows} rows left out: ${parts.join('; ')}. Their output cells are left empty.`, dropped.map((d) => d.row)));
   }
+  if (nUsed >= 2 && uy.every((v) => v === uy[0])) {
+    warnings.push(warning('note', `all ${nUsed} usable y values equal ${showNumber(uy[0])}: every method returns that constant; there is no trend, knot or break to find.`));
+  }
   if (!inputSorted) warnings.push(warning('unsorted-x', 'x was not in increasing order; the data were sorted for fitting and every output is returned in the original row order.'));
   if (tiesMerged) warnings.push(warning('ties-merged', `${tiesMerged} rows share an x value with an earlier row and were merged into one weighted point (weights added, y averaged): row ${listRows(tieRows)}.`, tieRows));
 

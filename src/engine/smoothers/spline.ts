@@ -247,7 +247,7 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
   for (let i = 0; i < n; i++) se[i] = sigma * Math.sqrt(Math.max(0, sol.leverage![i]) / series.w[i]);
   const gx = ys / (s.xs * s.xs);
   const gamma = sol.gamma.map((v) => v * gx);
-  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined));
+  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined, series.y));
   warnings.push(boundaryWarning());
   const model: SplineModel = { x: series.x, g: fitted, gamma };
   return {
