@@ -1,14 +1,20 @@
 /**
  * A small RFC 4180 CSV reader for the command line: quoted fields, doubled
- * quotes, CRLF or LF line ends. A field that is a plain decimal number becomes
- * a number; an empty field becomes null (a blank cell); anything else stays
- * text, so the engine's intake reports it instead of guessing.
+ * quotes, CRLF or LF line ends. Fields become cells by the rule every front
+ * follows (README, "Numbers, text and blanks"): a field that is exactly a
+ * plain decimal numeral ("12", "-3.5", "1e-4", quoted or not) is a number;
+ * an empty or all-space field is a blank; an Excel error literal (#N/A,
+ * #DIV/0!, ...) is an error cell; TRUE and FALSE are booleans; NaN and
+ * Infinity are numbers that are not finite; anything else stays text, so the
+ * engine's intake names it, including numbers written with anything around
+ * them (" 12 ", "1,234", "12%"), which it leaves out as numbers stored as text
+ * exactly as it does for a text cell on a worksheet.
  */
-import { numberFromText } from '../engine/numberText';
+import type { Cell } from '../engine/series';
 
 export interface Table {
   header: string[];
-  rows: (number | string | null)[][];
+  rows: Cell[][];
 }
 
 export function parseCsv(text: string): Table {
@@ -40,12 +46,26 @@ export function parseCsv(text: string): Table {
   if (field !== '' || record.length) { record.push(field); records.push(record); }
   const nonEmpty = records.filter((r) => !(r.length === 1 && r[0] === ''));
   const [header = [], ...body] = nonEmpty;
-  return { header: header.map((h) => h.trim()), rows: body.map((r) => r.map(toValue)) };
+  return { header: header.map((h) => h.trim()), rows: body.map((r) => r.map(fieldToCell)) };
 }
 
-function toValue(f: string): number | string | null {
+/** A plain decimal numeral, nothing around it (no spaces, separators, signs of currency or percent). */
+const PLAIN_NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
+/** Excel's error values as a worksheet saved as CSV writes them. */
+const EXCEL_ERRORS = new Set(['#NULL!', '#DIV/0!', '#VALUE!', '#REF!', '#NAME?', '#NUM!', '#N/A', '#GETTING_DATA', '#SPILL!', '#CALC!', '#FIELD!', '#BUSY!', '#BLOCKED!', '#CONNECT!', '#UNKNOWN!']);
+const NOT_FINITE: Record<string, number> = { nan: NaN, infinity: Infinity, '+infinity': Infinity, '-infinity': -Infinity, inf: Infinity, '+inf': Infinity, '-inf': -Infinity };
+
+/** One field as a cell, by the rule above. */
+export function fieldToCell(f: string): Cell {
   if (f.trim() === '') return null;
-  return numberFromText(f) ?? f;
+  if (PLAIN_NUMBER.test(f)) return Number(f);
+  const t = f.trim();
+  const upper = t.toUpperCase();
+  if (EXCEL_ERRORS.has(upper)) return { error: upper };
+  if (upper === 'TRUE' || upper === 'FALSE') return upper === 'TRUE';
+  const lower = t.toLowerCase();
+  if (lower in NOT_FINITE) return NOT_FINITE[lower];
+  return f;
 }
 
 /** Finds a column by header name (exact, then case-insensitive) or 1-based number. */

@@ -96,7 +96,10 @@ function readEval(io: CliIO, path: string): number[] {
   const xs: number[] = [];
   t.rows.forEach((r, j) => {
     const v = r[k];
-    if (typeof v !== 'number') fail(`${path}: row ${j + 1} of column "${t.header[k]}" is not a number (${v === null ? 'blank' : JSON.stringify(v)}).`);
+    if (typeof v !== 'number' || !Number.isFinite(v)) {
+      const what = v === null || v === undefined ? 'blank' : typeof v === 'object' ? `the error value ${v.error}` : typeof v === 'boolean' ? (v ? 'TRUE' : 'FALSE') : typeof v === 'number' ? String(v) : JSON.stringify(v);
+      throw new CliError(`${path}: row ${j + 1} of column "${t.header[k]}" is not a finite number (${what}); give one plain number per row.`, 1);
+    }
     xs.push(v as number);
   });
   return xs;
