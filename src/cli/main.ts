@@ -12,6 +12,10 @@ export interface CliIO {
   readFile(path: string): string;
   out(text: string): void;
   err(text: string): void;
+  /** Whether a file exists (for --out; absent: the command line cannot write files). */
+  exists?(path: string): boolean;
+  /** Writes a file (for --out); with `overwrite` false it must fail rather than replace an existing file. */
+  writeFile?(path: string, text: string, overwrite: boolean): void;
 }
 
 const fail = (m: string): never => { throw new CliError(m); };
@@ -128,6 +132,24 @@ function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cel
   };
 }
 
+/** Refuses an --out file that exists (without --force) before any work is done. */
+function checkOut(io: CliIO, path: string, force: boolean): void {
+  if (path.trim() === '') fail('--out needs a file name.');
+  if (!io.writeFile) fail('this host cannot write files; leave out --out.');
+  if (!force && io.exists?.(path)) throw new CliError(`${path} already exists; add --force to overwrite it, or choose another --out file.`, 1);
+}
+
+/** Writes the output file; never replaces an existing file without --force. */
+function writeOut(io: CliIO, path: string, text: string, force: boolean): void {
+  try {
+    io.writeFile!(path, text, force);
+  } catch (e) {
+    const code = (e as { code?: string }).code;
+    if (code === 'EEXIST') throw new CliError(`${path} already exists; add --force to overwrite it, or choose another --out file.`, 1);
+    throw new CliError(`cannot write ${path}: ${(e as Error).message}`, 1);
+  }
+}
+
 const fmt = (v: unknown): string => (typeof v === 'number' ? Number(v.toPrecision(6)).toString() : String(v));
 
 function textFit(o: Record<string, any>): string {
@@ -157,13 +179,19 @@ export function runCli(argv: string[], io: CliIO): number {
     const spec = commands().find((c) => c.name === command)!;
     const p = parseArgs(rest, spec, fail);
     if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
+    const outPath = one(p, '--out');
+    if (p.switches.has('--force') && outPath === undefined) fail('--force only applies with --out FILE.');
+    if (outPath !== undefined) checkOut(io, outPath, p.switches.has('--force'));
     const t = readTable(io, p.positional[0]);
     const { x, w, ys } = columns(p, t);
     const evalPath = one(p, '--eval');
     const evalX = command === 'fit' && evalPath ? readEval(io, evalPath) : null;
     const results = ys.map((c) => (command === 'fit' ? fitOne(p, spec, c.name, c.cells, x, w, evalX) : breaksOne(p, spec, c.name, c.cells, x, w)));
-    if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
-    else io.out(results.map((r) => (command === 'fit' ? textFit(r) : textBreaks(r))).join('\n'));
+    const text = p.switches.has('--json')
+      ? JSON.stringify(results.length === 1 ? results[0] : results)
+      : results.map((r) => (command === 'fit' ? textFit(r) : textBreaks(r))).join('\n');
+    if (outPath === undefined) io.out(text);
+    else writeOut(io, outPath, text + '\n', p.switches.has('--force'));
     return 0;
   } catch (e) {
     if (e instanceof CliError) { io.err(`knotwise: ${e.message}`); return e.exitCode; }
