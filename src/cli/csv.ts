@@ -44,8 +44,13 @@ export function parseCsv(text: string): Table {
     field += ch; i++;
   }
   if (field !== '' || record.length) { record.push(field); records.push(record); }
-  const nonEmpty = records.filter((r) => !(r.length === 1 && r[0] === ''));
-  const [header = [], ...body] = nonEmpty;
+  // An empty line inside the data is a row of blanks (a one-column file writes a blank cell so), so
+  // rows keep their numbers; empty lines before the header and after the last row are not rows.
+  const empty = (r: string[]) => r.length === 1 && r[0].trim() === '';
+  let first = 0, last = records.length;
+  while (first < last && empty(records[first])) first++;
+  while (last > first && empty(records[last - 1])) last--;
+  const [header = [], ...body] = records.slice(first, last);
   return { header: header.map((h) => h.trim()), rows: body.map((r) => r.map(fieldToCell)) };
 }
 

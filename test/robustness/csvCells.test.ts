@@ -50,3 +50,15 @@ describe('one rule for numbers, text and blanks on every front', () => {
     expect(text).not.toMatch(/\btext\b/);
   });
 });
+
+describe('rows keep their numbers', () => {
+  test('an empty line inside a one-column file is a blank row, so later rows are not shifted', () => {
+    expect(parseCsv('y\n1\n\n3\n4\n\n\n').rows).toEqual([[1], [null], [3], [4]]);
+    const io = memoryIO({ 'd.csv': 'y\n12\n15\n\n18\n16\n21\n19\n' });
+    expect(runCli(['fit', 'd.csv', '--df', '3', '--json'], io.host)).toBe(0);
+    const o = JSON.parse(io.out.join(''));
+    expect(o.fitted).toHaveLength(7);
+    expect(o.fitted[2]).toBeNull();
+    expect(o.fitted[3]).not.toBeNull();
+  });
+});
