@@ -72,6 +72,13 @@ export function optionalNumber(v: unknown): number | undefined {
   return isBlank(s) ? undefined : (s as number);
 }
 
+/** A required scalar argument, which Excel passes blank when its cell is empty or the argument is left out: refused by name. */
+export function required(v: unknown, what: string): unknown {
+  const s = scalar(v);
+  if (isBlank(s)) throw new KnotwiseError('bad-option', `${what} is blank; give a number.`);
+  return s;
+}
+
 /** An optional text argument: omitted -> undefined. */
 export function optionalText(v: unknown): string | undefined {
   const s = scalar(v);
