@@ -21,7 +21,7 @@ function files(dir: string, ext: RegExp): string[] {
 /** Code built from text at run time. */
 const CODE_FROM_TEXT: [string, RegExp][] = [['eval(', /\beval\s*\(/], ['new Function', /\bnew\s+Function\s*\(/], ['Function(', /(^|[^.\w$])Function\s*\(\s*["'`]/]];
 /** Ways a page or worker reaches the network. */
-const NETWORK: [string, RegExp][] = [['fetch(', /(^|[^.\w$])fetch\s*\(/], ['XMLHttpRequest', /XMLHttpRequest/], ['WebSocket', /\bWebSocket\b/], ['EventSource', /\bEventSource\b/], ['sendBeacon', /sendBeacon/]];
+const NETWORK: [string, RegExp][] = [['fetch(', /(^|[^\w$])fetch\s*\(/], ['XMLHttpRequest', /XMLHttpRequest/], ['WebSocket', /\bWebSocket\b/], ['EventSource', /\bEventSource\b/], ['sendBeacon', /sendBeacon/]];
 
 function hits(file: string, patterns: [string, RegExp][]): string[] {
   const text = fs.readFileSync(file, 'utf8');
