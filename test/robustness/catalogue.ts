@@ -157,6 +157,8 @@ export const DATA_CASES: Case[] = [
   { name: 'y near 1e300', y: col(BASE_Y.map((v) => v * 1e300)), x: col(BASE_X), expect: { all: refused(/values beyond 1e\+150 in size cannot be analysed.*Divide the column/) } },
   { name: 'y near 1e-300', y: col(BASE_Y.map((v) => v * 1e-300)), x: col(BASE_X), expect: { all: refused(/values all below 1e-150 in size underflow.*Multiply the column/) } },
   { name: 'x near 1e300', y: col(BASE_Y), x: col(BASE_X.map((v) => v * 1e300)), expect: { all: refused(/positions beyond 1e\+75 in size overflow/) } },
+  { name: 'x a multiple of 5e-324 (the smallest double)', y: col(BASE_Y), x: col(BASE_X.map((v) => v * 5e-324)), expect: { all: refused(/x spans only .*: positions this close underflow the penalties' units\. Multiply x by a power of ten/) } },
+  { name: 'y of 9.9e307 (the largest number a cell holds) in one row', y: col(withAt(BASE_Y, { 30: 9.9e307 })), x: col(BASE_X), expect: { all: refused(/y in row 30 is 9\.9e\+307: values beyond 1e\+150/) } },
   { name: 'one outlier of 1e140', y: col(withAt(BASE_Y, { 25: 1e140 })), x: col(BASE_X), expect: { all: ALL_OK } },
   { name: 'prices near 1e9 with cents', y: col(BASE_Y.map((v, i) => 1e9 + v + ((i * 37) % 100) / 100)), x: col(BASE_X), expect: { all: ALL_OK, counts: refused(/row 1.*(whole|count)|count/i) } },
   { name: 'x spacing 1e-9 of the range', y: col(BASE_Y), x: col(BASE_X.map((v, i) => (i === 20 ? BASE_X[19] + 39e-9 : v))), expect: { all: ALL_OK } },
