@@ -180,7 +180,9 @@ export const OPTION_CASES: Case[] = [
   },
   { name: 'folds 1', ...base, options: { folds: '1' }, targets: ['trend', 'auto'], expect: { all: refused(/folds \((trend|auto)\) must be a whole number from 2 to \d+; got "?1"?/) } },
   { name: 'folds with GCV', ...base, options: { folds: '5' }, targets: ['spline'], expect: { all: refused(/folds applies only when rule is "cv" or "cv-simpler"/) } },
-  { name: 'folds more than the points', ...base, options: { folds: '50' }, targets: ['trend'], expect: { all: ok() } },
+  // trend filtering falls back to SURE and says so; the spline refuses
+  { name: 'folds more than the points', ...base, options: { folds: '50' }, targets: ['trend'], expect: { all: okSaying(/40 points are too few for 50-fold cross-validation at order 1; the penalty was chosen by SURE instead/, 'note') } },
+  { name: 'folds more than the points (spline)', ...base, options: { rule: 'cv', folds: '50' }, targets: ['spline'], expect: { all: refused(/folds must be a whole number from 2 to 38; got 50/) } },
   { name: 'df more than the points', ...base, options: { df: '100' }, targets: ['spline', 'trend'], expect: { all: ok('target-clamped') } },
   { name: 'df below 2', ...base, options: { df: '1' }, targets: ['spline', 'trend'], expect: { all: ok('target-clamped') } },
   { name: 'a negative penalty', ...base, options: { penalty: '-1' }, targets: ['spline', 'trend', ...changepoints], expect: { all: refused(/penalty \(\w+\) must be a number from 0; got "?-1"?/) } },
