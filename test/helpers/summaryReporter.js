@@ -16,13 +16,15 @@ class SummaryReporter {
     const sum = { sheet: { cases: 0, results: 0, warned: 0, errors: 0, crashes: 0 }, cli: { cases: 0, results: 0, warned: 0, errors: 0, crashes: 0 } };
     let files = [];
     try { files = fs.readdirSync(this.dir).filter((f) => f.endsWith('.json')); } catch { return null; }
+    let random = 0;
     for (const f of files) {
       const t = JSON.parse(fs.readFileSync(path.join(this.dir, f), 'utf8'));
+      if (f.startsWith('properties')) random += t.sheet.cases + t.cli.cases;
       for (const front of ['sheet', 'cli']) for (const k of Object.keys(sum[front])) sum[front][k] += t[front][k];
     }
     if (!files.length) return null;
     const all = (k) => sum.sheet[k] + sum.cli[k];
-    return `robustness: ${all('cases')} cases (worksheet ${sum.sheet.cases}, CLI ${sum.cli.cases}): ${all('results')} results, ${all('warned')} with warnings, ${all('errors')} clear errors, ${all('crashes')} crashes`;
+    return `robustness: ${all('cases')} cases (worksheet ${sum.sheet.cases}, CLI ${sum.cli.cases}; ${all('cases') - random} from the catalogue, ${random} random): ${all('results')} results, ${all('warned')} with warnings, ${all('errors')} clear errors, ${all('crashes')} crashes`;
   }
 
   onRunComplete(_contexts, results) {
