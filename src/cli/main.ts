@@ -13,6 +13,10 @@ export interface CliIO {
   readFile(path: string): string;
   out(text: string): void;
   err(text: string): void;
+  /** Whether a file exists (for --out; absent: the command line cannot write files). */
+  exists?(path: string): boolean;
+  /** Writes a file (for --out); with `overwrite` false it must fail rather than replace an existing file. */
+  writeFile?(path: string, text: string, overwrite: boolean): void;
 }
 
 const fail = (m: string): never => { throw new CliError(m); };
@@ -97,7 +101,10 @@ function readEval(io: CliIO, path: string): number[] {
   const xs: number[] = [];
   t.rows.forEach((r, j) => {
     const v = r[k];
-    if (typeof v !== 'number') fail(`${path}: row ${j + 1} of column "${t.header[k]}" is not a number (${v === null ? 'blank' : JSON.stringify(v)}).`);
+    if (typeof v !== 'number' || !Number.isFinite(v)) {
+      const what = v === null || v === undefined ? 'blank' : typeof v === 'object' ? `the error value ${v.error}` : typeof v === 'boolean' ? (v ? 'TRUE' : 'FALSE') : typeof v === 'number' ? String(v) : JSON.stringify(v);
+      throw new CliError(`${path}: row ${j + 1} of column "${t.header[k]}" is not a finite number (${what}); give one plain number per row.`, 1);
+    }
     xs.push(v as number);
   });
   return xs;
@@ -145,6 +152,25 @@ function decomposeOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: 
     solver: result.solver,
   };
 }
+
+/** Refuses an --out file that exists (without --force) before any work is done. */
+function checkOut(io: CliIO, path: string, force: boolean): void {
+  if (path.trim() === '') fail('--out needs a file name.');
+  if (!io.writeFile) fail('this host cannot write files; leave out --out.');
+  if (!force && io.exists?.(path)) throw new CliError(`${path} already exists; add --force to overwrite it, or choose another --out file.`, 1);
+}
+
+/** Writes the output file; never replaces an existing file without --force. */
+function writeOut(io: CliIO, path: string, text: string, force: boolean): void {
+  try {
+    io.writeFile!(path, text, force);
+  } catch (e) {
+    const code = (e as { code?: string }).code;
+    if (code === 'EEXIST') throw new CliError(`${path} already exists; add --force to overwrite it, or choose another --out file.`, 1);
+    throw new CliError(`cannot write ${path}: ${(e as Error).message}`, 1);
+  }
+}
+
 
 function textDecompose(o: Record<string, any>): string {
   const lines = [`${o.column}: ${o.method} decomposition, ${o.n} points, season ${o.seasonal ? o.period.map(fmt).join(' and ') : 'none'}, ${o.knots.length} knots, ${o.spikeRows.length} spikes`];
@@ -219,14 +245,20 @@ export function runCli(argv: string[], io: CliIO): number {
     const spec = commands().find((c) => c.name === command)!;
     const p = parseArgs(rest, spec, fail);
     if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
+    const outPath = one(p, '--out');
+    if (p.switches.has('--force') && outPath === undefined) fail('--force only applies with --out FILE.');
+    if (outPath !== undefined) checkOut(io, outPath, p.switches.has('--force'));
     const t = readTable(io, p.positional[0]);
     const { x, w, ys, xDates } = columns(p, t);
     const evalPath = one(p, '--eval');
     const evalX = command === 'fit' && evalPath ? readEval(io, evalPath) : null;
     const computed = ys.map((c) => (command === 'fit' ? fitOne(p, spec, c.name, c.cells, x, w, evalX) : command === 'breaks' ? breaksOne(p, spec, c.name, c.cells, x, w) : decomposeOne(p, spec, c.name, c.cells, x, w)));
     const results = xDates ? computed.map(withDates) : computed;
-    if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
-    else io.out(results.map((r, i) => { const st = textStyle(xDates, x, ys[i].cells); return command === 'fit' ? textFit(r, st) : command === 'breaks' ? textBreaks(r, st) : textDecompose(r); }).join('\n'));
+    const text = p.switches.has('--json')
+      ? JSON.stringify(results.length === 1 ? results[0] : results)
+      : results.map((r, i) => { const st = textStyle(xDates, x, ys[i].cells); return command === 'fit' ? textFit(r, st) : command === 'breaks' ? textBreaks(r, st) : textDecompose(r); }).join('\n');
+    if (outPath === undefined) io.out(text);
+    else writeOut(io, outPath, text + '\n', p.switches.has('--force'));
     return 0;
   } catch (e) {
     if (e instanceof CliError) { io.err(`knotwise: ${e.message}`); return e.exitCode; }

@@ -32,6 +32,8 @@ const common: OptionSpec[] = [
   { flag: '--y', value: 'COL', help: 'column(s) of values; several columns give one result each; default: the last column', repeatable: true },
   { flag: '--w', value: 'COL', help: 'column of positive weights' },
   { flag: '--json', help: 'print JSON (one object, or an array for several --y) instead of a text summary' },
+  { flag: '--out', value: 'FILE', help: 'write the output (JSON or text) to FILE instead of the screen; an existing FILE is never replaced without --force' },
+  { flag: '--force', help: 'with --out: replace FILE if it exists' },
 ];
 
 function valueName(d: OptionDeclaration): string {

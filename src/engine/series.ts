@@ -102,6 +102,14 @@ export function toColumn(values: readonly Cell[] | readonly (readonly Cell[])[],
   throw new KnotwiseError('shape-mismatch', `${name} must be a single column or a single row; got ${nr} rows by ${nc} columns.`);
 }
 
+/**
+ * Text that spells a number with decoration a worksheet number would carry as
+ * its format: thousands separators, a currency sign, a percent sign ("1,234",
+ * "$1,234.50", "12%", "-4.5%"). Still text: left out, but named as a number
+ * stored as text, since converting the cells is the fix.
+ */
+const DECORATED_NUMBER = /^[-+]?[$€£¥]?\s?[-+]?(\d{1,3}(,\d{3})+|\d+)(\.\d+)?\s?%?$/;
+
 function classify(v: Cell): { ok: true; value: number } | { ok: false; reason: DropReason; text: string } {
   if (typeof v === 'number') {
     return Number.isFinite(v) ? { ok: true, value: v } : { ok: false, reason: 'non-finite', text: showNumber(v) };
@@ -110,7 +118,7 @@ function classify(v: Cell): { ok: true; value: number } | { ok: false; reason: D
   if (typeof v === 'string') {
     if (v.trim() === '') return { ok: false, reason: 'blank', text: '' };
     const t = v.trim();
-    if (numberFromText(t) !== undefined) return { ok: false, reason: 'numeric-text', text: t };
+    if (numberFromText(t) !== undefined || DECORATED_NUMBER.test(t)) return { ok: false, reason: 'numeric-text', text: t };
     return { ok: false, reason: 'text', text: t.length > 20 ? t.slice(0, 20) + '...' : t };
   }
   if (typeof v === 'boolean') return { ok: false, reason: 'boolean', text: v ? 'TRUE' : 'FALSE' };
@@ -259,7 +267,8 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
     throw new KnotwiseError('constant-x', `all ${nUsed} usable x values equal ${showNumber(px[0])}; x must vary to fit a curve in x.`);
   }
   if (n < minPoints) {
-    const extra = dropped.length ? ` (${dropped.length} of ${nRows} rows were not usable numbers)` : '';
+    const asText = dropped.filter((d) => d.reason === 'numeric-text').length;
+    const extra = dropped.length ? ` (${dropped.length} of ${nRows} rows were not usable numbers${asText ? `, ${asText} of them numbers stored as text: convert those cells to numbers` : ''})` : '';
     const distinct = tiesMerged ? ' distinct-x' : '';
     throw new KnotwiseError('too-few-points', `need at least ${minPoints}${distinct} usable points${method}; got ${n}${extra}.`);
   }
@@ -270,6 +279,9 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
     for (const d of dropped) { const a = byReason.get(d.reason) ?? []; a.push(d.row); byReason.set(d.reason, a); }
     const parts = [...byReason.entries()].map(([reason, rows]) => `${rows.length} ${REASON_TEXT[reason]} (row ${listRows(rows)})`);
     warnings.push(warning('dropped-cells', `${dropped.length} of ${nRows} rows left out: ${parts.join('; ')}. Their output cells are left empty.`, dropped.map((d) => d.row)));
+  }
+  if (nUsed >= 2 && uy.every((v) => v === uy[0])) {
+    warnings.push(warning('note', `all ${nUsed} usable y values equal ${showNumber(uy[0])}: every method returns that constant; there is no trend, knot or break to find.`));
   }
   if (!inputSorted) warnings.push(warning('unsorted-x', 'x was not in increasing order; the data were sorted for fitting and every output is returned in the original row order.'));
   if (tiesMerged) warnings.push(warning('ties-merged', `${tiesMerged} rows share an x value with an earlier row and were merged into one weighted point (weights added, y averaged): row ${listRows(tieRows)}.`, tieRows));

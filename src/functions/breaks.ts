@@ -3,7 +3,7 @@
  * share one computation when called on the same range, model and settings.
  */
 import { AnalysisResult, SegmentSummary, toRows } from '../engine';
-import { cellNumber, shapeLike } from './cells';
+import { cellNumber, required, shapeLike } from './cells';
 import { guardedAsync } from './excelErrors';
 import { analyseCells } from './request';
 
@@ -81,7 +81,8 @@ function scanTable(result: AnalysisResult): any[][] {
  */
 export async function breakScan(y: any[][], low: any, high: any, x?: any[][], model?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
   return guardedAsync(async () => {
-    const { result } = await analyseCells(y, { x, method: model, settings, weights, extra: { penaltyRange: [low, high] } }, 'changepoints', 'level', invocation);
+    const range = [required(low, 'low (the smallest penalty of the scan)'), required(high, 'high (the largest penalty of the scan)')];
+    const { result } = await analyseCells(y, { x, method: model, settings, weights, extra: { penaltyRange: range } }, 'changepoints', 'level', invocation);
     return scanTable(result);
   });
 }

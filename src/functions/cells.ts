@@ -18,23 +18,41 @@ export function omitted(v: unknown): boolean {
   return isBlank(scalar(v));
 }
 
-function toCell(v: unknown): Cell {
+/**
+ * One Excel value as an engine cell. Excel passes numbers (dates are serial
+ * numbers), text, booleans, null or "" for blanks, error values as objects with
+ * a code ({ code: '#N/A' }, CustomFunctions.Error), and, for data types, rich
+ * values { type, basicValue } whose basic value is what the cell shows
+ * (type 'Error' holds the error's code as its basic value).
+ */
+export function toCell(v: unknown): Cell {
   if (v === null || v === undefined || typeof v === 'number' || typeof v === 'string' || typeof v === 'boolean') return v as Cell;
   if (typeof v === 'object') {
-    const o = v as { code?: unknown; message?: unknown; type?: unknown; basicValue?: unknown };
+    const o = v as { code?: unknown; type?: unknown; basicValue?: unknown; errorType?: unknown };
     if (o.code !== undefined) return { error: String(o.code) };
+    if (o.type === 'Error') return { error: String(o.basicValue ?? o.errorType ?? '#VALUE!') };
     if (o.basicValue !== undefined) return toCell(o.basicValue);
-    return { error: 'unsupported value' };
+    return { error: 'an unsupported value' };
   }
-  return { error: String(v) };
+  return { error: `an unsupported ${typeof v} value` };
 }
 
 /** Flattens a single row or column range into engine cells; `name` is used in messages. */
 export function readColumn(m: Matrix, name: string): { cells: Cell[]; orientation: Orientation } {
-  if (!Array.isArray(m)) throw new KnotwiseError('shape-mismatch', `${name} must be a range of cells (a column or a row); got the single value ${JSON.stringify(m)}.`);
-  const cells = toColumn(m.map((r) => r.map(toCell)), name);
+  if (!Array.isArray(m)) throw new KnotwiseError('shape-mismatch', `${name} must be a range of cells (a column or a row); got the single value ${describeCell(m)}.`);
+  const lines = m.filter((r) => Array.isArray(r)).length;
+  if (lines !== 0 && lines !== m.length) throw new KnotwiseError('shape-mismatch', `${name} must be a range of cells (rows of values); got a list mixing rows and single values.`);
+  const cells = lines ? toColumn(m.map((r) => r.map(toCell)), name) : m.map(toCell);
   const orientation: Orientation = m.length === 1 && (m[0]?.length ?? 0) > 1 ? 'row' : 'column';
   return { cells, orientation };
+}
+
+/** A value for a message: text quoted, an error by its code. */
+function describeCell(v: unknown): string {
+  const c = toCell(v);
+  if (typeof c === 'string') return JSON.stringify(c);
+  if (c !== null && typeof c === 'object') return `the error value ${c.error}`;
+  return String(c);
 }
 
 /** Shapes one value per input row as the input was shaped (a column, or a row). */
@@ -52,6 +70,13 @@ export function scalar(v: unknown): unknown {
 export function optionalNumber(v: unknown): number | undefined {
   const s = scalar(v);
   return isBlank(s) ? undefined : (s as number);
+}
+
+/** A required scalar argument, which Excel passes blank when its cell is empty or the argument is left out: refused by name. */
+export function required(v: unknown, what: string): unknown {
+  const s = scalar(v);
+  if (isBlank(s)) throw new KnotwiseError('bad-option', `${what} is blank; give a number.`);
+  return s;
 }
 
 /** An optional text argument: omitted -> undefined. */

@@ -15,10 +15,13 @@ export function boundaryWarning(): Warning {
 /**
  * Warnings that depend on the fit: few points per df, autocorrelated
  * residuals (only when the penalty was chosen from the data, where it misleads).
- * `resid` is in x order.
+ * `resid` is in x order. When `y` is given and constant, neither applies: the
+ * fit is that constant whatever the penalty, and there is no noise to follow
+ * (the intake's note says the values are all equal).
  */
 export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string): Warning[] {
   const out: Warning[] = [];
+  if (y && isConstant(y)) return out;
   if (df > n / 3 && n > 6) {
     out.push(warning('few-points-per-df', `The fit uses ${showNumber(df)} degrees of freedom for ${n} points (fewer than 3 points per df): it is close to interpolating the data and follows noise.`));
   }
@@ -36,4 +39,10 @@ export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dat
     }
   }
   return out;
+}
+
+/** Whether every value equals the first. Unchecked. */
+function isConstant(y: ArrayLike<number>): boolean {
+  for (let i = 1; i < y.length; i++) if (y[i] !== y[0]) return false;
+  return true;
 }
