@@ -1,6 +1,13 @@
 /* Builds the add-in into dist/: the task pane (and its standalone preview),
  * the custom-functions bundle with functions.json generated from JSDoc, the
- * manifest and the icons. */
+ * analysis worker, the manifest and the icons.
+ *
+ * In Excel the pane's page is the shared runtime of the pane and the worksheet
+ * functions (manifest.xml), so the taskpane bundle registers the functions too.
+ * The analysis worker is its own entry, analysis-worker.js, which both pages
+ * start from the URL of the bundle that loaded them (src/runtime/browser/pageRuntime.ts);
+ * a separate entry keeps import.meta out of the sources, which jest and the
+ * type checks compile as CommonJS. */
 const path = require('path');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
@@ -12,8 +19,9 @@ module.exports = (env, argv) => ({
   mode: argv.mode || 'production',
   devtool: 'source-map',
   entry: {
-    taskpane: './src/taskpane/main.ts',
+    taskpane: ['./src/functions/register.ts', './src/taskpane/main.ts'],
     functions: './src/functions/register.ts',
+    'analysis-worker': './src/runtime/browser/analysisWorker.ts',
   },
   output: { path: path.resolve(__dirname, 'dist/web'), filename: '[name].js', clean: true },
   resolve: { extensions: ['.ts', '.js'] },

@@ -3,13 +3,11 @@
  * share one cached segmentation when called on the same range and options.
  */
 import { BreaksOptions } from '../engine/breaks/types';
-import { FitCache, SeriesBreaks, breaksFromCells, cacheKey, toRows } from '../engine';
+import { SeriesBreaks, toRows } from '../engine';
 import { Matrix, Orientation, cellNumber, optionalNumber, optionalText, readInputs, shapeLike } from './cells';
-import { guarded } from './excelErrors';
+import { CancelableCall, cancelableCompute, guardedAsync } from './async';
 
-const cache = new FitCache<SeriesBreaks & { orientation: Orientation }>(16);
-
-function segment(y: Matrix, x: unknown, model: unknown, penalty: unknown, minSegment: unknown, weights: unknown, crops?: [unknown, unknown]): SeriesBreaks & { orientation: Orientation } {
+async function segment(y: Matrix, x: unknown, model: unknown, penalty: unknown, minSegment: unknown, weights: unknown, crops?: [unknown, unknown], invocation?: CancelableCall): Promise<SeriesBreaks & { orientation: Orientation }> {
   const d = readInputs(y, x, weights);
   const options = { model: (optionalText(model) ?? 'mean').trim().toLowerCase() } as BreaksOptions;
   const p = optionalNumber(penalty);
@@ -17,7 +15,9 @@ function segment(y: Matrix, x: unknown, model: unknown, penalty: unknown, minSeg
   const m = optionalNumber(minSegment);
   if (m !== undefined) options.minSegment = m;
   if (crops) options.crops = [optionalNumber(crops[0]) as number, optionalNumber(crops[1]) as number];
-  return cache.get(cacheKey(['breaks', d.y, d.x, d.w, options]), () => ({ ...breaksFromCells(d.y, d.x, d.w, options), orientation: d.orientation }));
+  const out = await cancelableCompute(invocation, { analysis: 'breaks', y: d.y, x: d.x, w: d.w, options: options as unknown as Record<string, unknown> });
+  if (out.kind !== 'breaks') throw new Error(`expected a segmentation, got ${out.kind}.`);
+  return { series: out.series, result: out.result, orientation: d.orientation };
 }
 
 const blank = (v: number) => (Number.isFinite(v) ? v : '');
@@ -33,9 +33,9 @@ const blank = (v: number) => (Number.isFinite(v) ? v : '');
  * @param [weights] Positive weights, same size as y.
  * @returns A table with header x, row, change, mean before, mean after (rate, sd or slope for those models): one line per break; row is the position within the y range.
  */
-export function breaks(y: any[][], x?: any[][], model?: string, penalty?: any, minSegment?: number, weights?: any[][]): any[][] {
-  return guarded(() => {
-    const { result } = segment(y, x, model, penalty, minSegment, weights);
+export async function breaks(y: any[][], x?: any[][], model?: string, penalty?: any, minSegment?: number, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await segment(y, x, model, penalty, minSegment, weights, undefined, invocation);
     const field = result.model === 'poisson' ? 'rate' : result.model === 'slope' ? 'slope' : result.model === 'meanvar' ? 'sd' : result.model === 'distribution' ? 'median' : 'mean';
     const head = ['x', 'row', 'change', `${field} before`, `${field} after`];
     return [head, ...result.breaks.map((b) => [b.x, b.row + 1, blank(b.change), blank(b.before[field]), blank(b.after[field])])];
@@ -53,9 +53,9 @@ export function breaks(y: any[][], x?: any[][], model?: string, penalty?: any, m
  * @param [weights] Positive weights, same size as y.
  * @returns One value per row of y, in the rows' original order; dropped rows stay empty.
  */
-export function segments(y: any[][], x?: any[][], model?: string, penalty?: any, minSegment?: number, weights?: any[][]): any[][] {
-  return guarded(() => {
-    const { series, result, orientation } = segment(y, x, model, penalty, minSegment, weights);
+export async function segments(y: any[][], x?: any[][], model?: string, penalty?: any, minSegment?: number, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { series, result, orientation } = await segment(y, x, model, penalty, minSegment, weights, undefined, invocation);
     return shapeLike(toRows(series, result.fitted, '' as const).map((v) => (typeof v === 'number' ? cellNumber(v) : v)), orientation);
   });
 }
@@ -72,9 +72,9 @@ export function segments(y: any[][], x?: any[][], model?: string, penalty?: any,
  * @param [weights] Positive weights, same size as y.
  * @returns A table with header penalty from, penalty to, changes, cost: one line per segmentation, in increasing penalty.
  */
-export function breakPath(y: any[][], low: number, high: number, x?: any[][], model?: string, minSegment?: number, weights?: any[][]): any[][] {
-  return guarded(() => {
-    const { result } = segment(y, x, model, undefined, minSegment, weights, [low, high]);
+export async function breakPath(y: any[][], low: number, high: number, x?: any[][], model?: string, minSegment?: number, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await segment(y, x, model, undefined, minSegment, weights, [low, high], invocation);
     const rows = (result.crops ?? []).map((c) => [blank(c.penaltyLow), blank(c.penaltyHigh), c.changes, blank(c.cost)]);
     return [['penalty from', 'penalty to', 'changes', 'cost'], ...rows];
   });

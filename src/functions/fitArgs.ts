@@ -3,7 +3,9 @@
  * options. Values are passed through as typed; the engine validates them and
  * its messages name the offending value.
  */
-import { FitCache, FitOptions, KnotwiseError, cacheKey, fitCells, numberFromText, ruleOptions, SeriesFit } from '../engine';
+import { FitOptions, KnotwiseError, numberFromText, ruleOptions, SeriesFit } from '../engine';
+import { pageRuntime } from '../runtime/browser/pageRuntime';
+import { CancelableCall, cancelableCompute } from './async';
 import { Matrix, Orientation, optionalNumber, optionalText, readInputs } from './cells';
 
 /** Raw worksheet arguments of a fitting function after y and x. */
@@ -58,21 +60,21 @@ export function toOptions(a: FitArgs): FitOptions {
   return o;
 }
 
-const cache = new FitCache<SeriesFit & { orientation: Orientation }>(16);
-
-/** Fits (or reuses the cached fit of) y, x and the argument tail. */
-export function fitFromCells(y: Matrix, x: unknown, args: FitArgs): SeriesFit & { orientation: Orientation } {
+/** Fits (or reuses the shared cached fit of) y, x and the argument tail, off the page's thread; `invocation` lets Excel cancel it. */
+export async function fitFromCells(y: Matrix, x: unknown, args: FitArgs, invocation?: CancelableCall): Promise<SeriesFit & { orientation: Orientation }> {
   const d = readInputs(y, x, args.weights);
-  const options = toOptions(args);
-  return cache.get(cacheKey(['fit', d.y, d.x, d.w, options]), () => ({ ...fitCells(d.y, d.x, d.w, options), orientation: d.orientation }));
+  const { method, ...options } = toOptions(args);
+  const out = await cancelableCompute(invocation, { analysis: method ?? 'spline', y: d.y, x: d.x, w: d.w, options: options as Record<string, unknown> });
+  if (out.kind !== 'fit') throw new Error(`expected a fit from "${method}", got ${out.kind}.`);
+  return { series: out.series, result: out.result, orientation: d.orientation };
 }
 
-/** Empties the shared fit cache (tests, and the pane after edits). */
+/** Empties the shared cache of finished results (tests, and the pane after edits). */
 export function clearFitCache(): void {
-  cache.clear();
+  pageRuntime().client.clear();
 }
 
-/** Number of fits held in the cache. */
+/** Number of finished results held in the shared cache. */
 export function fitCacheSize(): number {
-  return cache.size;
+  return pageRuntime().client.size;
 }

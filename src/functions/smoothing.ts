@@ -5,7 +5,7 @@
  */
 import { KnotwiseError, evaluate, toRows } from '../engine';
 import { Matrix, cellNumber, omitted, optionalText, readColumn, scalar, shapeLike } from './cells';
-import { guarded } from './excelErrors';
+import { guardedAsync } from './async';
 import { fitFromCells } from './fitArgs';
 
 /**
@@ -24,9 +24,9 @@ import { fitFromCells } from './fitArgs';
  * @param [output] "fitted" (default), "se" (pointwise standard error), "residual" or "leverage".
  * @returns One value per row of y, in the rows' original order.
  */
-export function smooth(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, output?: string): any[][] {
-  return guarded(() => {
-    const { series, result, orientation } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
+export async function smooth(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, output?: string, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { series, result, orientation } = await fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed }, invocation);
     const what = (optionalText(output) ?? 'fitted').trim().toLowerCase();
     let perPoint: ArrayLike<number>;
     if (what === 'fitted') perPoint = result.fitted;
@@ -57,9 +57,9 @@ export function smooth(y: any[][], x?: any[][], method?: string, order?: number,
  * @param [curve] TRUE: return the table penalty, score, df, se, knots, converged for every penalty tried (with a header row).
  * @returns The chosen lambda, or the criterion table.
  */
-export function penalty(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, curve?: boolean): any[][] {
-  return guarded(() => {
-    const { result } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
+export async function penalty(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, curve?: boolean, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed }, invocation);
     if (scalar(curve) !== true) return [[result.penalty]];
     const head = ['penalty', `score (${result.criterion.name})`, 'df', 'se', 'knots', 'converged'];
     const pts = result.criterion.curve ?? [{ penalty: result.penalty, score: result.criterion.value, df: result.df }];
@@ -82,9 +82,9 @@ export function penalty(y: any[][], x?: any[][], method?: string, order?: number
  * @param [relaxed] Trend filtering only: 0 to 1.
  * @returns Label and value pairs, then one row per warning.
  */
-export function summary(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number): any[][] {
-  return guarded(() => {
-    const { series, result } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
+export async function summary(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { series, result } = await fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed }, invocation);
     const rows: any[][] = [
       ['method', result.method + (result.options.order !== undefined ? ` (order ${result.options.order})` : '')],
       ['lambda', cellNumber(result.penalty)],
@@ -119,10 +119,10 @@ export function summary(y: any[][], x?: any[][], method?: string, order?: number
  * @param [relaxed] 0 plain fit (default) to 1 unpenalised refit on the knots.
  * @returns A table with header x, row, change: one line per knot; row is the position within the y range (1 = first cell).
  */
-export function knots(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number): any[][] {
-  return guarded(() => {
+export async function knots(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
     const m = omitted(method) ? 'trend' : method;
-    const { result } = fitFromCells(y, x, { method: m, order, rule, penalty, df, weights, folds, relaxed });
+    const { result } = await fitFromCells(y, x, { method: m, order, rule, penalty, df, weights, folds, relaxed }, invocation);
     return [['x', 'row', 'change'], ...result.knots.map((k) => [k.x, k.row + 1, cellNumber(k.change)])];
   });
 }
@@ -143,9 +143,9 @@ export function knots(y: any[][], x?: any[][], method?: string, order?: number, 
  * @param [relaxed] Trend filtering only: 0 to 1.
  * @returns Two columns per position: the value, and TRUE where it is extrapolated beyond the data.
  */
-export function evaluateAt(y: any[][], at: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number): any[][] {
-  return guarded(() => {
-    const { result } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
+export async function evaluateAt(y: any[][], at: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed }, invocation);
     const cells = readColumn(at as Matrix, 'at').cells;
     const ok: number[] = [];
     const where: number[] = [];

@@ -20,7 +20,7 @@ describe('WorkerPool with in-process workers', () => {
   test('a KnotwiseError thrown in the worker arrives as a KnotwiseError with its code and message', async () => {
     const fw = fakeWorkers(() => { throw new KnotwiseError('bad-option', 'folds must be an integer from 2 to 50; got 1.'); });
     const pool = new WorkerPool(fw.factory, 1);
-    const err = await pool.run({}).promise.catch((e) => e);
+    const err: any = await pool.run({}).promise.catch((e) => e);
     expect(isKnotwiseError(err)).toBe(true);
     expect(err).toBeInstanceOf(KnotwiseError);
     expect(err.code).toBe('bad-option');
@@ -28,7 +28,7 @@ describe('WorkerPool with in-process workers', () => {
     // Anything else arrives as a plain Error with its message, and the worker goes on.
     const fw2 = fakeWorkers((r: { boom: boolean }) => { if (r.boom) throw new TypeError('x is undefined'); return 1; });
     const pool2 = new WorkerPool<{ boom: boolean }, number>(fw2.factory, 1);
-    const e2 = await pool2.run({ boom: true }).promise.catch((e) => e);
+    const e2: any = await pool2.run({ boom: true }).promise.catch((e) => e);
     expect(isKnotwiseError(e2)).toBe(false);
     expect(e2.message).toBe('x is undefined');
     expect(await pool2.run({ boom: false }).promise).toBe(1);

@@ -4,7 +4,7 @@
  * by terminating its thread, and ten equal calls compute once.
  */
 import * as path from 'path';
-import { threadPool } from '../../src/runtime/threadPool';
+import { threadPool } from '../../src/runtime/node/threadPool';
 import { AnalysisClient } from '../../src/runtime/client';
 import { AnalysisRequest, analysisKey } from '../../src/runtime/engineEntry';
 import { KnotwiseError, breaksFromCells } from '../../src/engine';

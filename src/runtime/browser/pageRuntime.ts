@@ -7,10 +7,10 @@
  * The worker code is its own bundle, analysis-worker.js, next to the bundle
  * that loaded this module.
  */
-import { AnalysisClient, ComputeOptions } from './client';
-import { AnalysisRequest, AnalysisResult, analysisKey, runAnalysis } from './engineEntry';
-import { inlineSubmit } from './inlineRunner';
-import { WorkerPool, poolSize } from './pool';
+import { AnalysisClient, ComputeOptions } from '../client';
+import { AnalysisRequest, AnalysisResult, analysisKey, runAnalysis } from '../engineEntry';
+import { inlineSubmit } from '../inlineRunner';
+import { WorkerPool, poolSize } from '../pool';
 
 /** File name of the worker bundle (webpack entry 'analysis-worker'). */
 export const WORKER_FILE = 'analysis-worker.js';

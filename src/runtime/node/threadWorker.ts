@@ -3,8 +3,8 @@
  * threadWorker.js): the same job loop as the browser worker.
  */
 import { parentPort } from 'worker_threads';
-import { runAnalysis } from './engineEntry';
-import { serveJobs } from './serveJobs';
+import { runAnalysis } from '../engineEntry';
+import { serveJobs } from '../serveJobs';
 
 if (!parentPort) throw new Error('threadWorker runs as a worker thread only.');
 const port = parentPort;

@@ -5,7 +5,7 @@
  */
 import * as os from 'os';
 import { Worker } from 'worker_threads';
-import { WorkerFactory, WorkerPool, poolSize } from './pool';
+import { WorkerFactory, WorkerPool, poolSize } from '../pool';
 
 export interface ThreadOptions {
   /** Options of `new Worker` (e.g. execArgv, eval). */
