@@ -11,9 +11,26 @@
 const path = require('path');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
-const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
+const webpack = require('webpack');
+const { generateCustomFunctionsMetadata } = require('custom-functions-metadata');
 
 const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts'];
+
+/** Writes functions.json from the functions' JSDoc (as custom-functions-metadata-plugin does) but adds no
+ * unguarded CustomFunctions.associate calls to their modules: those modules are also in the pane's bundle,
+ * which runs outside Excel in the preview, and src/functions/register.ts associates them when CustomFunctions exists. */
+class FunctionsMetadataPlugin {
+  apply(compiler) {
+    let generated;
+    compiler.hooks.beforeCompile.tapPromise('FunctionsMetadataPlugin', async () => {
+      generated = await generateCustomFunctionsMetadata(FUNCTION_FILES.map((f) => path.resolve(f)), true);
+    });
+    compiler.hooks.thisCompilation.tap('FunctionsMetadataPlugin', (compilation) => {
+      if (generated.errors.length) for (const e of generated.errors) compilation.errors.push(new webpack.WebpackError(`functions metadata: ${e}`));
+      else compilation.emitAsset('functions.json', new webpack.sources.RawSource(generated.metadataJson));
+    });
+  }
+}
 
 module.exports = (env, argv) => ({
   mode: argv.mode || 'production',
@@ -32,7 +49,7 @@ module.exports = (env, argv) => ({
     ],
   },
   plugins: [
-    new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: FUNCTION_FILES }),
+    new FunctionsMetadataPlugin(),
     new HtmlWebpackPlugin({
       filename: 'taskpane.html', template: './src/taskpane/taskpane.html', chunks: ['taskpane'],
       officeScript: '<script src="https://appsforoffice.microsoft.com/lib/1/hosted/office.js"></script>',

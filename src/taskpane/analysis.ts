@@ -3,9 +3,16 @@
  * and the engine's result into what the pane shows. No numerics here: the
  * engine fits, checks and warns; this only arranges.
  */
-import { Cell, FitOptions, Warning, breaksFromCells, evaluate, fitCells, numberFromText, ruleOptions, toRows } from '../engine';
+import { Cell, FitOptions, SeriesBreaks, SeriesFit, Warning, evaluate, numberFromText, ruleOptions, toRows } from '../engine';
 import type { BreaksModel, BreaksOptions } from '../engine/breaks/types';
+import { AnalysisRequest, AnalysisResult, runAnalysis } from '../runtime/engineEntry';
 import type { CellBlock } from './workbook';
+
+/** Runs one analysis request: the page's worker pool in the pane, or this thread by default. */
+export type Compute = (request: AnalysisRequest) => Promise<AnalysisResult>;
+const onThisThread: Compute = async (r) => runAnalysis(r);
+const asFit = (o: AnalysisResult): SeriesFit => { if (o.kind !== 'fit') throw new Error('expected a fit'); return o; };
+const asBreaks = (o: AnalysisResult): SeriesBreaks => { if (o.kind !== 'breaks') throw new Error('expected a segmentation'); return o; };
 
 export type Choice =
   | { kind: 'smooth'; method: 'spline' | 'trend'; order?: number }
@@ -83,13 +90,14 @@ function breaksPenalty(p: PenaltyChoice): Pick<BreaksOptions, 'penalty'> {
   return { penalty: p.rule === 'value' ? p.value : (p.rule as BreaksOptions['penalty']) };
 }
 
-/** Runs the chosen analysis on a selection. Throws the engine's errors unchanged. */
-export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): View {
+/** Runs the chosen analysis on a selection through `compute`. Throws the engine's errors unchanged. */
+export async function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice, compute: Compute = onThisThread): Promise<View> {
   const sel = splitSelection(block);
   if (choice.kind === 'smooth') {
     const options: FitOptions = { method: choice.method, ...penaltyOptions(pen) };
     if (choice.method === 'trend') options.order = choice.order ?? 1;
-    const { series, result } = fitCells(sel.y, sel.x, sel.w, options);
+    const { method, ...rest } = options;
+    const { series, result } = asFit(await compute({ analysis: method!, y: sel.y, x: sel.x, w: sel.w, options: rest as Record<string, unknown> }));
     const n = series.n;
     const span = series.x[n - 1] - series.x[0];
     const ext = (from: number, to: number) => {
@@ -120,13 +128,13 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): V
     };
   }
   const bo: BreaksOptions = { model: choice.model, ...breaksPenalty(pen) };
-  const { series, result } = breaksFromCells(sel.y, sel.x, sel.w, bo);
+  const { series, result } = asBreaks(await compute({ analysis: 'breaks', y: sel.y, x: sel.x, w: sel.w, options: bo as unknown as Record<string, unknown> }));
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
   // The slope model's exact search is costly, so its path is drawn on shorter series only.
   let curve: View['curve'];
   if (choice.model !== 'slope' || series.n <= 2000) {
     const beta = result.penalty.value;
-    const path = breaksFromCells(sel.y, sel.x, sel.w, { ...bo, crops: [beta / 10, beta * 10] }).result.crops ?? [];
+    const path = asBreaks(await compute({ analysis: 'breaks', y: sel.y, x: sel.x, w: sel.w, options: { ...bo, crops: [beta / 10, beta * 10] } as unknown as Record<string, unknown> })).result.crops ?? [];
     if (path.length > 1) {
       curve = { df: path.map((c) => c.changes), score: path.map((c) => c.cost), chosenDf: result.breaks.length, chosenScore: result.cost, name: 'cost', xLabel: 'number of changes', step: true };
     }

@@ -6,6 +6,9 @@
 import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { analyse, Choice, PenaltyChoice, View } from './analysis';
+import { compute } from '../runtime/browser/pageRuntime';
+import { isCancelled } from '../runtime/engineEntry';
+import { ProgressBox } from './progress';
 import { drawCurve, drawFit } from './chart';
 import { CellBlock, ExcelWorkbook, PageWorkbook, Workbook, isEmptyBlock } from './workbook';
 
@@ -119,17 +122,23 @@ async function boot(inExcel: boolean): Promise<void> {
     const r = $<HTMLSelectElement>('rule').value;
     $('rule-value').hidden = !(r === 'df' || r === 'value');
   };
+  const progress = new ProgressBox($('status'));
   $('run').onclick = async () => {
+    const run = progress.start();
     try {
       const block = await wb.readSelection();
       showStatus(`Fitting ${block.address} ...`);
-      const view = analyse(block, choiceFrom($<HTMLSelectElement>('method').value), penaltyFrom());
+      // The fit runs in a worker: the pane stays responsive, shows progress and can cancel.
+      const view = await analyse(block, choiceFrom($<HTMLSelectElement>('method').value), penaltyFrom(), (r) => compute(r, run));
       last = { block, view };
       renderView(view);
       showStatus(`Fitted ${block.address}.`);
     } catch (e) {
+      if (isCancelled(e)) { if (!run.superseded) showStatus('Fit cancelled: nothing new was fitted.'); return; }
       $('results').hidden = true;
       showStatus(isKnotwiseError(e) || e instanceof Error ? (e as Error).message : String(e), 'error');
+    } finally {
+      run.done();
     }
   };
   const confirmBox = $('confirm');
