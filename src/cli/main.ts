@@ -5,7 +5,7 @@
  */
 import { Cell, FitOptions, breaksFromCells, evaluate, fitCells, isKnotwiseError, numberFromText, ruleOptions, toRows } from '../engine';
 import type { BreaksOptions } from '../engine/breaks/types';
-import { CliError, Table, columnIndex, parseCsv } from './csv';
+import { CliError, NumericTable, Table, columnIndex, parseCsv, parseNumericCsv } from './csv';
 import { BREAKS, FIT, Parsed, helpText, parseArgs } from './options';
 
 /** What the command line needs from its host (Node's fs and streams, or a test double). */
@@ -27,7 +27,7 @@ function one(p: Parsed, flag: string): string | undefined {
   return p.values.get(flag)?.[0];
 }
 
-function readTable(io: CliIO, path: string | undefined): Table {
+function readTable(io: CliIO, path: string | undefined): Table | NumericTable {
   if (!path) fail('give a CSV file; see knotwise help.');
   let text: string;
   try {
@@ -35,13 +35,19 @@ function readTable(io: CliIO, path: string | undefined): Table {
   } catch (e) {
     throw new CliError(`cannot read ${path}: ${(e as Error).message}`);
   }
-  const t = parseCsv(text);
+  // All-numeric files (the common case) are read straight into typed arrays; anything else cell by cell.
+  const t = parseNumericCsv(text) ?? parseCsv(text);
   if (!t.header.length) fail(`${path} is empty.`);
   return t;
 }
 
-function columns(p: Parsed, t: Table): { x: Cell[] | null; w: Cell[] | null; ys: { name: string; cells: Cell[] }[] } {
-  const col = (i: number): Cell[] => t.rows.map((r) => (i < r.length ? r[i] : null));
+/** Column i of a table as engine cells (a typed array for an all-numeric file). */
+function tableColumn(t: Table | NumericTable, i: number): Cell[] {
+  return 'columns' in t ? (t.columns[i] as unknown as Cell[]) : t.rows.map((r) => (i < r.length ? r[i] : null));
+}
+
+function columns(p: Parsed, t: Table | NumericTable): { x: Cell[] | null; w: Cell[] | null; ys: { name: string; cells: Cell[] }[] } {
+  const col = (i: number): Cell[] => tableColumn(t, i);
   const xSpec = one(p, '--x');
   const wSpec = one(p, '--w');
   const xi = xSpec !== undefined ? columnIndex(t, xSpec) : -1;
@@ -88,8 +94,7 @@ function readEval(io: CliIO, path: string): number[] {
   const i = t.header.findIndex((h) => h.toLowerCase() === 'x');
   const k = i >= 0 ? i : 0;
   const xs: number[] = [];
-  t.rows.forEach((r, j) => {
-    const v = r[k];
+  Array.from(tableColumn(t, k)).forEach((v, j) => {
     if (typeof v !== 'number') fail(`${path}: row ${j + 1} of column "${t.header[k]}" is not a number (${v === null ? 'blank' : JSON.stringify(v)}).`);
     xs.push(v as number);
   });

@@ -1,0 +1,41 @@
+/**
+ * The fast numeric CSV path must read exactly what the general reader reads
+ * (parseCsv, which applies numberFromText to each field), and hand every
+ * other file back to it.
+ */
+import fc from 'fast-check';
+import { parseCsv, parseNumericCsv } from '../../src/cli/csv';
+
+const sameAsGeneral = (text: string) => {
+  const fast = parseNumericCsv(text);
+  const slow = parseCsv(text);
+  expect(fast).not.toBeNull();
+  expect(fast!.header).toEqual(slow.header);
+  expect(fast!.columns.every((c) => c.length === slow.rows.length)).toBe(true);
+  fast!.columns.forEach((c, j) => c.forEach((v, i) => expect(Object.is(v, slow.rows[i][j])).toBe(true)));
+};
+
+describe('parseNumericCsv', () => {
+  test('numbers written every plain-decimal way read as Number() reads them', () => {
+    sameAsGeneral('a,b,c\n1,-2.5,3e4\n+.5,5.,1E-7\n 7 ,\t8\t,0.1\r\n-0,12345678901234567890,1.7976931348623157e308\n4.9e-324,0.30000000000000004,123456.789e-30\n');
+  });
+
+  test('random decimal fields of every length and exponent agree with the general reader', () => {
+    const digits = fc.stringMatching(/^[0-9]{1,22}$/);
+    const field = fc.tuple(fc.constantFrom('', '-', '+'), digits, fc.option(fc.stringMatching(/^[0-9]{0,20}$/)), fc.option(fc.integer({ min: -340, max: 340 })), fc.constantFrom('', ' '))
+      .map(([s, i, f, e, pad]) => `${pad}${s}${i}${f === null ? '' : '.' + f}${e === null ? '' : 'e' + e}${pad}`);
+    fc.assert(fc.property(fc.array(fc.array(field, { minLength: 3, maxLength: 3 }), { minLength: 1, maxLength: 20 }), fc.constantFrom('\n', '\r\n'), (rows, eol) => {
+      sameAsGeneral(['x,y,z', ...rows.map((r) => r.join(','))].join(eol) + eol);
+    }), { numRuns: 300 });
+  });
+
+  test('blank lines are skipped as the general reader skips them; a missing final line end is fine', () => {
+    sameAsGeneral('\ufeffx,y\n1,2\n\n3,4');
+  });
+
+  test('any other file goes back to the general reader', () => {
+    for (const text of ['x,y\n1,\n', 'x,y\n1,a\n', 'x,y\n1,"2"\n', 'x,y\n1\n', 'x,y\n1,2,3\n', 'x,y\n.,1\n', 'x,y\n1e,2\n', 'x,y\nNaN,1\n', 'x,y\n1,2 3\n', '"x",y\n1,2\n', '']) {
+      expect(parseNumericCsv(text)).toBeNull();
+    }
+  });
+});
