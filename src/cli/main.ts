@@ -162,27 +162,73 @@ function textBreaks(o: Record<string, any>): string {
   return lines.join('\n');
 }
 
+/** One column's analysis: what the command line runs per --y, here in order or spread over worker threads (threads.ts). */
+export interface ColumnJob {
+  command: 'fit' | 'breaks';
+  parsed: Parsed;
+  name: string;
+  y: Cell[];
+  x: Cell[] | null;
+  w: Cell[] | null;
+  evalX: number[] | null;
+}
+
+/** Runs one column's analysis and shapes its output record. */
+export function runColumn(j: ColumnJob): Record<string, unknown> {
+  return j.command === 'fit' ? fitOne(j.parsed, j.name, j.y, j.x, j.w, j.evalX) : breaksOne(j.parsed, j.name, j.y, j.x, j.w);
+}
+
+/** Reads the arguments and the file: the help's exit code, or the columns to run. */
+function prepare(argv: string[], io: CliIO): number | { command: 'fit' | 'breaks'; p: Parsed; jobs: ColumnJob[] } {
+  const [command, ...rest] = argv;
+  if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText()); return command ? 0 : 2; }
+  if (command !== 'fit' && command !== 'breaks') fail(`unknown command "${command}"; use fit, breaks or help.`);
+  const cmd = command as 'fit' | 'breaks';
+  const spec = cmd === 'fit' ? FIT : BREAKS;
+  const p = parseArgs(rest, spec, fail);
+  if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
+  const t = readTable(io, p.positional[0]);
+  const { x, w, ys } = columns(p, t);
+  const evalPath = one(p, '--eval');
+  const evalX = cmd === 'fit' && evalPath ? readEval(io, evalPath) : null;
+  return { command: cmd, p, jobs: ys.map((c) => ({ command: cmd, parsed: p, name: c.name, y: c.cells, x, w, evalX })) };
+}
+
+function print(io: CliIO, command: 'fit' | 'breaks', p: Parsed, results: Record<string, unknown>[]): number {
+  if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
+  else io.out(results.map((r) => (command === 'fit' ? textFit(r) : textBreaks(r))).join('\n'));
+  return 0;
+}
+
+function report(io: CliIO, e: unknown): number {
+  if (e instanceof CliError) { io.err(`knotwise: ${e.message}`); return e.exitCode; }
+  if (isKnotwiseError(e)) { io.err(`knotwise: ${e.message}`); return 1; }
+  io.err(`knotwise: unexpected failure: ${e instanceof Error ? e.message : String(e)}`);
+  return 1;
+}
+
 /** Runs the command line; returns the exit code (0 done, 1 data or option refused, 2 usage). */
 export function runCli(argv: string[], io: CliIO): number {
   try {
-    const [command, ...rest] = argv;
-    if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText()); return command ? 0 : 2; }
-    if (command !== 'fit' && command !== 'breaks') fail(`unknown command "${command}"; use fit, breaks or help.`);
-    const spec = command === 'fit' ? FIT : BREAKS;
-    const p = parseArgs(rest, spec, fail);
-    if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
-    const t = readTable(io, p.positional[0]);
-    const { x, w, ys } = columns(p, t);
-    const evalPath = one(p, '--eval');
-    const evalX = command === 'fit' && evalPath ? readEval(io, evalPath) : null;
-    const results = ys.map((c) => (command === 'fit' ? fitOne(p, c.name, c.cells, x, w, evalX) : breaksOne(p, c.name, c.cells, x, w)));
-    if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
-    else io.out(results.map((r) => (command === 'fit' ? textFit(r) : textBreaks(r))).join('\n'));
-    return 0;
+    const plan = prepare(argv, io);
+    if (typeof plan === 'number') return plan;
+    return print(io, plan.command, plan.p, plan.jobs.map(runColumn));
   } catch (e) {
-    if (e instanceof CliError) { io.err(`knotwise: ${e.message}`); return e.exitCode; }
-    if (isKnotwiseError(e)) { io.err(`knotwise: ${e.message}`); return 1; }
-    io.err(`knotwise: unexpected failure: ${e instanceof Error ? e.message : String(e)}`);
-    return 1;
+    return report(io, e);
+  }
+}
+
+/**
+ * The command line with the columns run by `runColumns` (e.g. spread over
+ * worker threads): same output, same order, same exit codes as {@link runCli}.
+ * `runColumns` rejects with the error of the first failing column in order.
+ */
+export async function runCliWith(argv: string[], io: CliIO, runColumns: (jobs: ColumnJob[]) => Promise<Record<string, unknown>[]>): Promise<number> {
+  try {
+    const plan = prepare(argv, io);
+    if (typeof plan === 'number') return plan;
+    return print(io, plan.command, plan.p, await runColumns(plan.jobs));
+  } catch (e) {
+    return report(io, e);
   }
 }
