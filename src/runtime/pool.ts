@@ -6,8 +6,11 @@
  *
  * Cancel: a queued job is dropped; a running job's worker is terminated (a
  * synchronous computation reads no messages, so asking it to stop would wait
- * for the end) and a replacement is started at once, so the next job does not
- * pay for the start-up. A worker that fails (its script does not load, it runs
+ * for the end) and a replacement is started at once. With `spares` = 1 the
+ * pool keeps one loaded worker in reserve that takes the terminated one's
+ * place at once (loading a worker costs from about a hundred milliseconds in a
+ * browser to about a second in a busy Node process), and a new reserve loads
+ * in the background. A worker that fails (its script does not load, it runs
  * out of memory) rejects its job and is replaced on the next job.
  */
 import type { Progress } from './engineEntry';
@@ -63,9 +66,12 @@ export class WorkerPool<Req, Res> {
   private closed = false;
   readonly stats: PoolStats = { workersStarted: 0, workersTerminated: 0, jobsRun: 0, jobsCancelled: 0 };
   private readyWaiters: (() => void)[] = [];
+  /** Loaded workers held in reserve for replacing a cancelled job's worker. */
+  private readonly reserve: Slot<Req, Res>[] = [];
 
-  constructor(private readonly factory: WorkerFactory, readonly size: number) {
+  constructor(private readonly factory: WorkerFactory, readonly size: number, readonly spares = 0) {
     if (!(Number.isInteger(size) && size >= 1)) throw new RangeError(`pool size must be a whole number >= 1; got ${size}.`);
+    if (!(Number.isInteger(spares) && spares >= 0)) throw new RangeError(`spares must be a whole number >= 0; got ${spares}.`);
     for (let i = 0; i < size; i++) this.slots.push({ worker: null, ready: false, job: null, generation: 0 });
   }
 
@@ -79,6 +85,7 @@ export class WorkerPool<Req, Res> {
     });
     this.queue.push(job);
     this.dispatch();
+    this.fillReserve();
     return { id, promise, cancel: () => this.cancel(id) };
   }
 
@@ -96,9 +103,9 @@ export class WorkerPool<Req, Res> {
     const job = slot.job!;
     slot.job = null;
     this.stats.jobsCancelled++;
+    this.settle(job, undefined, cancelledError()); // the caller is released first
     this.retire(slot);
-    this.settle(job, undefined, cancelledError());
-    this.start(slot);
+    this.replace(slot);
     this.dispatch();
   }
 
@@ -117,9 +124,15 @@ export class WorkerPool<Req, Res> {
     return this.slots.filter((s) => s.worker !== null).length;
   }
 
-  /** Starts every worker now (instead of at the first job), so the first job does not wait for start-up. */
-  warm(): void {
-    for (const s of this.slots) if (!s.worker) this.start(s);
+  /** Starts `count` workers now (default: all, and the reserve) instead of at the first job, so the first job does not wait for start-up. */
+  warm(count = this.size): void {
+    for (const s of this.slots.slice(0, count)) if (!s.worker) this.start(s);
+    this.fillReserve();
+  }
+
+  /** Workers loaded and waiting in reserve. */
+  get reserved(): number {
+    return this.reserve.filter((r) => r.ready).length;
   }
 
   /** Resolves when every started worker has loaded its code and none is running a job. */
@@ -137,6 +150,26 @@ export class WorkerPool<Req, Res> {
       s.job = null;
       this.retire(s);
       if (j) this.settle(j, undefined, cancelledError());
+    }
+    for (const r of this.reserve.splice(0)) this.retire(r);
+  }
+
+  /** Gives a slot whose worker was terminated a loaded reserve worker, or a new one. */
+  private replace(slot: Slot<Req, Res>): void {
+    const k = this.reserve.findIndex((r) => r.ready);
+    if (k < 0) { this.start(slot); this.fillReserve(); return; }
+    const [spare] = this.reserve.splice(k, 1);
+    // The reserve worker's callbacks check its own slot's generation: keep that slot object, hand its state over.
+    const i = this.slots.indexOf(slot);
+    this.slots[i] = spare;
+    this.fillReserve();
+  }
+
+  private fillReserve(): void {
+    while (!this.closed && this.reserve.length < this.spares) {
+      const r: Slot<Req, Res> = { worker: null, ready: false, job: null, generation: 0 };
+      this.reserve.push(r);
+      this.start(r);
     }
   }
 
@@ -204,6 +237,8 @@ export class WorkerPool<Req, Res> {
   }
 
   private onFailure(slot: Slot<Req, Res>, e: Error): void {
+    const r = this.reserve.indexOf(slot);
+    if (r >= 0) { this.reserve.splice(r, 1); this.retire(slot); return; } // not refilled here, so a worker that cannot load does not loop
     const job = slot.job;
     slot.job = null;
     this.retire(slot);

@@ -6,7 +6,7 @@
 import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { analyse, Choice, PenaltyChoice, View } from './analysis';
-import { compute } from '../runtime/browser/pageRuntime';
+import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
 import { drawCurve, drawFit } from './chart';
@@ -123,6 +123,7 @@ async function boot(inExcel: boolean): Promise<void> {
     $('rule-value').hidden = !(r === 'df' || r === 'value');
   };
   const progress = new ProgressBox($('status'));
+  pageRuntime().pool?.warm(1); // load one analysis worker now, so the first fit does not wait for it
   $('run').onclick = async () => {
     const run = progress.start();
     try {

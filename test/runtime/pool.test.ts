@@ -54,6 +54,27 @@ describe('WorkerPool with in-process workers', () => {
     pool.close();
   });
 
+  test('with a loaded reserve worker, a cancelled job\'s worker is replaced at once and the pool is idle without waiting for a start-up', async () => {
+    const fw = fakeWorkers((r: { v: number }) => r.v, (r) => (r.v === 1 ? 10_000 : 5));
+    const pool = new WorkerPool<{ v: number }, number>(fw.factory, 1, 1);
+    const long = pool.run({ v: 1 });
+    expect(fw.started).toBe(2); // the worker and its reserve
+    await wait(5);
+    expect(pool.reserved).toBe(1);
+    long.cancel();
+    await long.promise.catch(() => undefined);
+    let idle = false;
+    void pool.whenIdle().then(() => { idle = true; });
+    await Promise.resolve();
+    await Promise.resolve();
+    expect(idle).toBe(true); // the reserve was already loaded
+    expect(fw.started).toBe(3); // a new reserve is loading
+    expect(pool.reserved).toBe(0);
+    expect(await pool.run({ v: 2 }).promise).toBe(2);
+    pool.close();
+    expect(fw.terminated).toBe(3);
+  });
+
   test('cancelling a queued job drops it without touching any worker', async () => {
     const fw = fakeWorkers((r: { v: number }) => r.v);
     const pool = new WorkerPool<{ v: number }, number>(fw.factory, 1);

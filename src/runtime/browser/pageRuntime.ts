@@ -48,7 +48,7 @@ function create(): PageRuntime {
     w.onerror = (e) => { e.preventDefault?.(); onFailure(new Error(e.message || `could not run ${workerUrl}`)); };
     w.onmessageerror = () => onFailure(new Error('a message from the worker could not be read'));
     return w;
-  }, size);
+  }, size, 1); // one loaded worker in reserve, so Cancel leaves the pool ready at once
   const client = new AnalysisClient<AnalysisRequest, AnalysisResult>((r, p) => pool.run(r, p), analysisKey);
   return { client, pool, workerUrl };
 }

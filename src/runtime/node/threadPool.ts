@@ -10,6 +10,8 @@ import { WorkerFactory, WorkerPool, poolSize } from '../pool';
 export interface ThreadOptions {
   /** Options of `new Worker` (e.g. execArgv, eval). */
   workerOptions?: ConstructorParameters<typeof Worker>[1];
+  /** Loaded threads kept in reserve to replace a cancelled job's thread at once (default 0). */
+  spares?: number;
 }
 
 /** A factory of worker threads running `file`. */
@@ -25,5 +27,5 @@ export function threadFactory(file: string, options: ThreadOptions = {}): Worker
 
 /** A pool of worker threads, one per core (at most 4) unless `size` is given. Close it when done: live threads keep the process running. */
 export function threadPool<Req, Res>(file: string, size = poolSize(os.cpus().length), options?: ThreadOptions): WorkerPool<Req, Res> {
-  return new WorkerPool<Req, Res>(threadFactory(file, options), size);
+  return new WorkerPool<Req, Res>(threadFactory(file, options), size, options?.spares ?? 0);
 }
