@@ -14,7 +14,7 @@ const CopyWebpackPlugin = require('copy-webpack-plugin');
 const webpack = require('webpack');
 const { generateCustomFunctionsMetadata } = require('custom-functions-metadata');
 
-const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts'];
+const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts', './src/functions/options.ts'];
 
 /** Writes functions.json from the functions' JSDoc (as custom-functions-metadata-plugin does) but adds no
  * unguarded CustomFunctions.associate calls to their modules: those modules are also in the pane's bundle,

@@ -3,7 +3,7 @@
  * and the engine's result into what the pane shows. No numerics here: the
  * engine fits, checks and warns; this only arranges.
  */
-import { Cell, FitOptions, SeriesBreaks, SeriesFit, Warning, evaluate, numberFromText, ruleOptions, toRows } from '../engine';
+import { Cell, FitOptions, SeriesBreaks, SeriesFit, Warning, evaluate, findAnalysis, numberFromText, ruleOptions, toRows } from '../engine';
 import type { BreaksModel, BreaksOptions } from '../engine/breaks/types';
 import { AnalysisRequest, AnalysisResult, runAnalysis } from '../runtime/engineEntry';
 import type { CellBlock } from './workbook';
@@ -11,8 +11,28 @@ import type { CellBlock } from './workbook';
 /** Runs one analysis request: the page's worker pool in the pane, or this thread by default. */
 export type Compute = (request: AnalysisRequest) => Promise<AnalysisResult>;
 const onThisThread: Compute = async (r) => runAnalysis(r);
-const asFit = (o: AnalysisResult): SeriesFit => { if (o.kind !== 'fit') throw new Error('expected a fit'); return o; };
-const asBreaks = (o: AnalysisResult): SeriesBreaks => { if (o.kind !== 'breaks') throw new Error('expected a segmentation'); return o; };
+const asFit = (o: AnalysisResult): SeriesFit => ({ series: o.series, result: o.smooth! });
+const asBreaks = (o: AnalysisResult): SeriesBreaks => ({ series: o.series, result: o.breaks! });
+
+/** The pane's smoother options as a request with the declared option names (as fitCells translates them). */
+function smoothRequest(sel: { y: Cell[]; x: Cell[] | null; w: Cell[] | null }, options: FitOptions): AnalysisRequest {
+  const { method = 'spline', oneSE, select, relaxed, gridSize, ...rest } = options;
+  const o: Record<string, unknown> = { ...rest };
+  if (select !== undefined) o.rule = oneSE && String(select).toLowerCase() === 'cv' ? 'cv-simpler' : select;
+  else if (oneSE) o.rule = 'cv-simpler';
+  if (relaxed !== undefined) o.refit = relaxed;
+  if (gridSize !== undefined) o.searchPoints = gridSize;
+  return { analysis: method, family: 'smoother', y: sel.y, x: sel.x, w: sel.w, options: o };
+}
+
+/** The pane's changepoint options as a request: a number is the penalty, a word the rule, a range the penalty path. */
+function breaksRequest(sel: { y: Cell[]; x: Cell[] | null; w: Cell[] | null }, bo: BreaksOptions): AnalysisRequest {
+  const o: Record<string, unknown> = {};
+  if (typeof bo.penalty === 'number') o.penalty = bo.penalty;
+  else if (bo.penalty !== undefined) o.rule = bo.penalty;
+  if (bo.crops) o.penaltyRange = bo.crops;
+  return { analysis: findAnalysis(bo.model, 'changepoints').def.name, family: 'changepoints', y: sel.y, x: sel.x, w: sel.w, options: o };
+}
 
 export type Choice =
   | { kind: 'smooth'; method: 'spline' | 'trend'; order?: number }
@@ -96,8 +116,7 @@ export async function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoi
   if (choice.kind === 'smooth') {
     const options: FitOptions = { method: choice.method, ...penaltyOptions(pen) };
     if (choice.method === 'trend') options.order = choice.order ?? 1;
-    const { method, ...rest } = options;
-    const { series, result } = asFit(await compute({ analysis: method!, y: sel.y, x: sel.x, w: sel.w, options: rest as Record<string, unknown> }));
+    const { series, result } = asFit(await compute(smoothRequest(sel, options)));
     const n = series.n;
     const span = series.x[n - 1] - series.x[0];
     const ext = (from: number, to: number) => {
@@ -128,13 +147,13 @@ export async function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoi
     };
   }
   const bo: BreaksOptions = { model: choice.model, ...breaksPenalty(pen) };
-  const { series, result } = asBreaks(await compute({ analysis: 'breaks', y: sel.y, x: sel.x, w: sel.w, options: bo as unknown as Record<string, unknown> }));
+  const { series, result } = asBreaks(await compute(breaksRequest(sel, bo)));
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
   // The slope model's exact search is costly, so its path is drawn on shorter series only.
   let curve: View['curve'];
   if (choice.model !== 'slope' || series.n <= 2000) {
     const beta = result.penalty.value;
-    const path = asBreaks(await compute({ analysis: 'breaks', y: sel.y, x: sel.x, w: sel.w, options: { ...bo, crops: [beta / 10, beta * 10] } as unknown as Record<string, unknown> })).result.crops ?? [];
+    const path = asBreaks(await compute(breaksRequest(sel, { ...bo, crops: [beta / 10, beta * 10] }))).result.crops ?? [];
     if (path.length > 1) {
       curve = { df: path.map((c) => c.changes), score: path.map((c) => c.cost), chosenDf: result.breaks.length, chosenScore: result.cost, name: 'cost', xLabel: 'number of changes', step: true };
     }

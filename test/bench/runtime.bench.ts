@@ -72,7 +72,7 @@ async function cancelToIdle(emit: Emit, quick: boolean, spares: number): Promise
     for (let k = 0; k < (quick ? 3 : 7); k++) {
       let started!: () => void;
       const running = new Promise<void>((r) => { started = r; });
-      const h = pool.run({ analysis: 'breaks', y: long.map((v) => v + k * 1e-9), options: { model: 'slope' } }, () => started());
+      const h = pool.run({ analysis: 'slope', y: long.map((v) => v + k * 1e-9) }, () => started());
       h.promise.catch(() => undefined);
       await running;
       await new Promise((r) => setTimeout(r, 50));

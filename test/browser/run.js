@@ -170,12 +170,13 @@ test('the functions bundle associates every function that functions.json declare
   const got = (await p2.evaluate(() => Object.keys(window.__assoc))).sort();
   assert(JSON.stringify(got) === JSON.stringify(ids), `associated ${got} but metadata declares ${ids}`);
   const cancelable = meta.functions.filter((f) => f.options && f.options.cancelable === true).map((f) => f.id).sort();
-  assert(JSON.stringify(cancelable) === JSON.stringify(ids), `cancelable in functions.json: ${cancelable}`);
-  const isPromise = await p2.evaluate(() => window.__assoc.SMOOTH([[1], [3], [2], [5], [4], [6]], null, 'spline', null, null, null, 3) instanceof Promise);
+  const computing = ids.filter((id) => id !== 'OPTIONS');
+  assert(JSON.stringify(cancelable) === JSON.stringify(computing), `cancelable in functions.json: ${cancelable}`);
+  const isPromise = await p2.evaluate(() => window.__assoc.SMOOTH([[1], [3], [2], [5], [4], [6]], null, 'spline', 'df=3', null, null, {}) instanceof Promise);
   assert(isPromise, 'SMOOTH does not return a Promise');
-  const out = await p2.evaluate(() => window.__assoc.SMOOTH([[1], [3], [2], [5], [4], [6]], null, 'spline', null, null, null, 3));
+  const out = await p2.evaluate(() => window.__assoc.SMOOTH([[1], [3], [2], [5], [4], [6]], null, 'spline', 'df=3', null, null, {}));
   assert(out.length === 6 && typeof out[0][0] === 'number', `SMOOTH returned ${JSON.stringify(out)}`);
-  const err = await p2.evaluate(async () => { try { await window.__assoc.SMOOTH([[1], [2]], [[1]]); return null; } catch (e) { return [e.code, e.message]; } });
+  const err = await p2.evaluate(async () => { try { await window.__assoc.SMOOTH([[1], [2]], [[1]], null, null, null, null, {}); return null; } catch (e) { return [e.code, e.message]; } });
   assert(err && err[0] === '#VALUE!' && /x has 1 rows but y has 2/.test(err[1]), `error was ${JSON.stringify(err)}`);
   // The computation ran in a Web Worker of the one shared runtime (the functions bundle found the pane's).
   const stats = await p2.evaluate(() => { const rt = globalThis[Symbol.for('knotwise.pageRuntime')]; return rt && rt.pool ? { ...rt.pool.stats, url: rt.workerUrl } : null; });
@@ -184,7 +185,7 @@ test('the functions bundle associates every function that functions.json declare
   const cancelled = await p2.evaluate(async () => {
     const inv = {};
     const y = Array.from({ length: 400 }, (_, i) => [Math.sin(i / 9) * 10 + (i % 5)]);
-    const p = window.__assoc.SEGMENTS(y, null, 'slope', null, null, null, inv);
+    const p = window.__assoc.SEGMENTS(y, null, 'slope', null, null, inv);
     if (typeof inv.onCanceled !== 'function') return 'no onCanceled handler was set';
     inv.onCanceled();
     try { await p; return 'resolved after cancel'; } catch (e) { return e.message; }

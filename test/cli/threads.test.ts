@@ -49,7 +49,7 @@ test('a failing column: the same message and exit code as the in-order run, noth
 });
 
 test('a usage error raised while running a column keeps exit code 2', async () => {
-  const { a, b } = await both(['breaks', 'd.csv', '--y', 'orders', '--y', 'returns', '--penalty', 'crops:5']);
+  const { a, b } = await both(['fit', 'd.csv', '--y', 'orders', '--y', 'returns', '--rule', 'gcv', '--one-se']);
   expect(a.code).toBe(2);
   expect(b).toEqual(a);
 });

@@ -5,6 +5,7 @@
 import { Warning, warning } from '../warnings';
 import { lagOneAutocorrelation, isAutocorrelated } from './lagOneAutocorrelation';
 import { showNumber } from '../errors';
+import { noiseDependence } from '../select/noiseDependence';
 
 /** The note on end effects that every smoothed trend carries. */
 export function boundaryWarning(): Warning {
@@ -16,15 +17,22 @@ export function boundaryWarning(): Warning {
  * residuals (only when the penalty was chosen from the data, where it misleads).
  * `resid` is in x order.
  */
-export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean): Warning[] {
+export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string): Warning[] {
   const out: Warning[] = [];
   if (df > n / 3 && n > 6) {
     out.push(warning('few-points-per-df', `The fit uses ${showNumber(df)} degrees of freedom for ${n} points (fewer than 3 points per df): it is close to interpolating the data and follows noise.`));
   }
   if (dataDriven && n >= 20) {
     const r1 = lagOneAutocorrelation(resid);
-    if (isAutocorrelated(r1, n)) {
-      out.push(warning('autocorrelation', `Residuals are autocorrelated (lag-one correlation ${r1.toFixed(2)}): data-driven penalty rules treat such structure as signal and tend to under-smooth. Consider a larger penalty or a df target.`));
+    const dep = y ? noiseDependence(y, 5) : undefined;
+    // warn only on clear dependence (about three standard errors of the estimate, and at least 0.25); below that the
+    // cross-validation plan still leaves neighbours out, quietly, since doing so costs little either way
+    if (dep && dep.buffer > 0 && dep.phi > Math.max(0.25, 3 / Math.sqrt(n))) {
+      out.push(warning('autocorrelation', rule === 'cv'
+        ? `The noise looks correlated from one point to the next (lag-one about ${dep.phi.toFixed(2)}, estimated from differences): cross-validation held out blocks of ${dep.block} points and left ${dep.buffer} neighbours on each side out of training, so that correlated noise is not taken for trend (h-block cross-validation; Chu & Marron 1991).`
+        : `The noise looks correlated from one point to the next (lag-one about ${dep.phi.toFixed(2)}, estimated from differences): ${rule ? rule.toUpperCase() : 'this rule'} treats such noise as signal and tends to under-smooth. Use the rule "cv", which then leaves neighbours out of its folds, or a larger penalty.`));
+    } else if (isAutocorrelated(r1, n)) {
+      out.push(warning('autocorrelation', `Residuals are autocorrelated (lag-one correlation ${r1.toFixed(2)}): the fit leaves structure in the residuals (a season, a missed change) or the noise is correlated. Consider a smaller penalty or a df target, and look at the residuals.`));
     }
   }
   return out;
