@@ -34,9 +34,9 @@ function readTable(io: CliIO, path: string | undefined): Table | NumericTable {
   return t;
 }
 
-/** Column i of a table as engine cells (a typed array for an all-numeric file). */
+/** Column i of a table as engine cells (from an all-numeric file, one packed array of numbers copied from its typed array). */
 function tableColumn(t: Table | NumericTable, i: number): Cell[] {
-  return 'columns' in t ? (t.columns[i] as unknown as Cell[]) : t.rows.map((r) => (i < r.length ? r[i] : null));
+  return 'columns' in t ? Array.from(t.columns[i]) : t.rows.map((r) => (i < r.length ? r[i] : null));
 }
 
 function columns(p: Parsed, t: Table | NumericTable): { x: Cell[] | null; w: Cell[] | null; ys: { name: string; cells: Cell[] }[] } {

@@ -5,6 +5,7 @@
  */
 import fc from 'fast-check';
 import { parseCsv, parseNumericCsv } from '../../src/cli/csv';
+import { runCli } from '../../src/cli/main';
 
 const sameAsGeneral = (text: string) => {
   const fast = parseNumericCsv(text);
@@ -37,5 +38,26 @@ describe('parseNumericCsv', () => {
     for (const text of ['x,y\n1,\n', 'x,y\n1,a\n', 'x,y\n1,"2"\n', 'x,y\n1\n', 'x,y\n1,2,3\n', 'x,y\n.,1\n', 'x,y\n1e,2\n', 'x,y\nNaN,1\n', 'x,y\n1,2 3\n', '"x",y\n1,2\n', '']) {
       expect(parseNumericCsv(text)).toBeNull();
     }
+  });
+});
+
+describe('knotwise fit on an all-numeric file (the fast path)', () => {
+  test('gives the same JSON as the same file read by the general reader', () => {
+    // An invented all-numeric file; a trailing text cell in one copy sends that copy to the general reader.
+    const rows = Array.from({ length: 60 }, (_, i) => `${i + 1},${(Math.sin(i / 6) * 5 + (i % 7) / 3).toFixed(4)}`);
+    const fast = 'day,level\n' + rows.join('\n') + '\n';
+    const general = 'day,level,note\n' + rows.map((r, i) => `${r},${i === 0 ? 'start' : ''}`).join('\n') + '\n';
+    expect(parseNumericCsv(fast)).not.toBeNull();
+    expect(parseNumericCsv(general)).toBeNull();
+    const run = (text: string) => {
+      const out: string[] = [], err: string[] = [];
+      const code = runCli(['fit', 'f.csv', '--x', 'day', '--y', 'level', '--json'], { readFile: () => text, out: (t) => out.push(t), err: (t) => err.push(t) });
+      return { code, out, err };
+    };
+    const a = run(fast), b = run(general);
+    expect(a.err).toEqual([]);
+    expect(a.code).toBe(0);
+    expect(a).toEqual(b);
+    expect(JSON.parse(a.out[0]).fitted).toHaveLength(60);
   });
 });
