@@ -12,7 +12,14 @@ const path = require('path');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
 const webpack = require('webpack');
+const { DefinePlugin } = webpack;
 const { generateCustomFunctionsMetadata } = require('custom-functions-metadata');
+const { version } = require('./package.json');
+
+// Content-Security-Policy of the pane's pages: scripts and styles from the add-in's own origin only (and, inside
+// Excel, Office.js from Microsoft's CDN); no eval, no inline scripts, no network requests at run time.
+const csp = (office) => ["default-src 'none'", `script-src 'self'${office ? ' https://appsforoffice.microsoft.com' : ''}`, "style-src 'self'",
+  "img-src 'self'", "connect-src 'none'", "font-src 'self'", "base-uri 'none'", "form-action 'none'", "object-src 'none'"].join('; ');
 
 const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts', './src/functions/options.ts'];
 
@@ -52,11 +59,12 @@ module.exports = (env, argv) => ({
     new FunctionsMetadataPlugin(),
     new HtmlWebpackPlugin({
       filename: 'taskpane.html', template: './src/taskpane/taskpane.html', chunks: ['taskpane'],
-      officeScript: '<script src="https://appsforoffice.microsoft.com/lib/1/hosted/office.js"></script>',
+      officeScript: '<script src="https://appsforoffice.microsoft.com/lib/1/hosted/office.js"></script>', csp: csp(true),
     }),
-    new HtmlWebpackPlugin({ filename: 'preview.html', template: './src/taskpane/taskpane.html', chunks: ['taskpane'], officeScript: '' }),
+    new HtmlWebpackPlugin({ filename: 'preview.html', template: './src/taskpane/taskpane.html', chunks: ['taskpane'], officeScript: '', csp: csp(false) }),
+    new DefinePlugin({ KNOTWISE_VERSION: JSON.stringify(version) }),
     new HtmlWebpackPlugin({ filename: 'functions.html', template: './src/functions/functions.html', chunks: ['functions'] }),
-    new CopyWebpackPlugin({ patterns: [{ from: 'assets', to: 'assets' }, { from: 'manifest.xml', to: 'manifest.xml' }, { from: 'src/taskpane/taskpane.css', to: 'taskpane.css' }] }),
+    new CopyWebpackPlugin({ patterns: [{ from: 'assets', to: 'assets' }, { from: 'manifest.xml', to: 'manifest.xml' }, { from: 'src/taskpane/taskpane.css', to: 'taskpane.css' }, { from: 'node_modules/uplot/dist/uPlot.min.css', to: 'uPlot.min.css' }] }),
   ],
   performance: { hints: false },
 });

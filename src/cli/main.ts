@@ -6,6 +6,7 @@
 import { AnalysisResult, Cell, evaluateAnalysis, isKnotwiseError, runAnalysis, toRows } from '../engine';
 import { CliError, NumericTable, Table, columnIndex, parseCsv, parseNumericCsv } from './csv';
 import { CommandSpec, Parsed, commands, helpText, parseArgs } from './options';
+import { dataDecimals, formatFixed, formatNumber, roundForData, serialToIso, smoothPenaltyInWords, ruleInWords, fitSolverInWords, breaksSolverInWords } from '../present';
 
 /** What the command line needs from its host (Node's fs and streams, or a test double). */
 export interface CliIO {
@@ -39,7 +40,7 @@ function tableColumn(t: Table | NumericTable, i: number): Cell[] {
   return 'columns' in t ? Array.from(t.columns[i]) : t.rows.map((r) => (i < r.length ? r[i] : null));
 }
 
-function columns(p: Parsed, t: Table | NumericTable): { x: Cell[] | null; w: Cell[] | null; ys: { name: string; cells: Cell[] }[] } {
+function columns(p: Parsed, t: Table | NumericTable): { x: Cell[] | null; w: Cell[] | null; ys: { name: string; cells: Cell[] }[]; xDates: boolean } {
   const col = (i: number): Cell[] => tableColumn(t, i);
   const xSpec = one(p, '--x');
   const wSpec = one(p, '--w');
@@ -47,7 +48,7 @@ function columns(p: Parsed, t: Table | NumericTable): { x: Cell[] | null; w: Cel
   const wi = wSpec !== undefined ? columnIndex(t, wSpec) : -1;
   const ySpecs = p.values.get('--y') ?? [String(t.header.length)];
   const ys = ySpecs.map((s) => { const i = columnIndex(t, s.trim()); return { name: t.header[i], cells: col(i) }; });
-  return { x: xi >= 0 ? col(xi) : null, w: wi >= 0 ? col(wi) : null, ys };
+  return { x: xi >= 0 ? col(xi) : null, w: wi >= 0 ? col(wi) : null, ys, xDates: xi >= 0 && 'rows' in t && t.dateColumns[xi] };
 }
 
 /** The engine options named on the command line: each declared flag's text, passed as typed (the engine checks it). */
@@ -100,7 +101,7 @@ function readEval(io: CliIO, path: string): number[] {
   const i = t.header.findIndex((h) => h.toLowerCase() === 'x');
   const k = i >= 0 ? i : 0;
   const xs: number[] = [];
-  Array.from(tableColumn(t, k)).forEach((v, j) => {
+  tableColumn(t, k).forEach((v, j) => {
     if (typeof v !== 'number') fail(`${path}: row ${j + 1} of column "${t.header[k]}" is not a number (${v === null ? 'blank' : JSON.stringify(v)}).`);
     xs.push(v as number);
   });
@@ -130,21 +131,58 @@ function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cel
   };
 }
 
-const fmt = (v: unknown): string => (typeof v === 'number' ? Number(v.toPrecision(6)).toString() : String(v));
+const fmt = (v: unknown): string => (typeof v === 'number' ? formatNumber(v, 4) : String(v));
 
-function textFit(o: Record<string, any>): string {
+/**
+ * When x are dates (an ISO date column): ISO 8601 text beside every x in the
+ * JSON, keeping the serial number (knots and breaks get xDate, segments
+ * xStartDate and xEndDate, evaluations xDate) and a top-level xDates: true.
+ */
+function withDates(o: Record<string, any>): Record<string, any> {
+  const iso = (v: number) => serialToIso(v) ?? null;
+  const out: Record<string, any> = { ...o, xDates: true };
+  if (o.knots) out.knots = o.knots.map((k: any) => ({ ...k, xDate: iso(k.x) }));
+  if (o.breaks) out.breaks = o.breaks.map((b: any) => ({ ...b, xDate: iso(b.x), before: withSegmentDates(b.before), after: withSegmentDates(b.after) }));
+  if (o.segments) out.segments = o.segments.map(withSegmentDates);
+  if (o.eval) out.eval = o.eval.map((e: any) => ({ ...e, xDate: iso(e.x) }));
+  return out;
+}
+
+function withSegmentDates(s: Record<string, any>): Record<string, any> {
+  return { ...s, xStartDate: serialToIso(s.xStart) ?? null, xEndDate: serialToIso(s.xEnd) ?? null };
+}
+
+/** How a text summary shows x and values derived from the data (the data's own decimals plus one). */
+interface TextStyle {
+  x(v: number): string;
+  value(v: number): string;
+}
+
+function textStyle(xDates: boolean, x: Cell[] | null, y: Cell[]): TextStyle {
+  const r = roundForData(y.filter((v): v is number => typeof v === 'number'));
+  const xd = dataDecimals((x ?? []).filter((v): v is number => typeof v === 'number'));
+  return { x: (v) => (xDates ? serialToIso(v) ?? String(v) : formatFixed(v, xd)), value: (v) => r.format(v) };
+}
+
+function textFit(o: Record<string, any>, st: TextStyle): string {
+  const method = o.method === 'spline' ? 'smoothing spline' : o.method === 'trend' ? 'trend filtering' : o.method;
   const lines = [
-    `${o.column}: ${o.method}, ${o.n} points (${o.dropped} rows dropped, ${o.tiesMerged} merged as ties)`,
-    `  lambda ${fmt(o.penalty)}   df ${fmt(o.df)}   sigma ${o.sigma === null ? 'n/a' : fmt(o.sigma)}   ${o.criterion.name} ${o.criterion.value === null ? '' : fmt(o.criterion.value)}`,
+    `${o.column}: ${method}, ${o.n} points (${o.dropped} rows dropped, ${o.tiesMerged} merged as ties)`,
+    `  ${smoothPenaltyInWords(o as any)}; chosen by ${ruleInWords(o.criterion.name)}${o.criterion.value === null ? '' : ` (score ${fmt(o.criterion.value)})`}; noise sd ${o.sigma === null ? 'not estimated' : st.value(o.sigma)}`,
+    `  solver: ${fitSolverInWords(o as any)}`,
   ];
-  if (o.knots.length) lines.push(`  knots (${o.knots.length}): ` + o.knots.slice(0, 12).map((k: any) => `x=${fmt(k.x)} (row ${k.row}, change ${fmt(k.change)})`).join('; ') + (o.knots.length > 12 ? ' ...' : ''));
+  if (o.knots.length) lines.push(`  bends (${o.knots.length}, largest first): ` + [...o.knots].sort((a: any, b: any) => a.rank - b.rank).slice(0, 12).map((k: any) => `${st.x(k.x)} (row ${k.row}, change ${fmt(k.change ?? k.shrunkChange)})`).join('; ') + (o.knots.length > 12 ? ' ...' : ''));
   for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
   return lines.join('\n');
 }
 
-function textBreaks(o: Record<string, any>): string {
-  const lines = [`${o.column}: ${o.model} model, ${o.n} points, penalty ${o.penalty.rule} = ${fmt(o.penalty.value)}, ${o.breaks.length} breaks`];
-  for (const b of o.breaks) lines.push(`  row ${b.row} (x = ${fmt(b.x)}): change ${fmt(b.change)}`);
+const SEGMENT_FIELDS = ['mean', 'sd', 'rate', 'median', 'slope'] as const;
+
+function textBreaks(o: Record<string, any>, st: TextStyle): string {
+  const lines = [`${o.column}: ${o.model} model, ${o.n} points, penalty ${fmt(o.penalty.value)} per change (${ruleInWords(o.penalty.rule)}), ${o.breaks.length} breaks; ${breaksSolverInWords(o as any)}`];
+  const fields = (s: any) => SEGMENT_FIELDS.filter((k) => s[k] !== undefined).map((k) => `${k} ${k === 'slope' ? fmt(s[k]) : st.value(s[k])}`).join(', ');
+  for (const b of o.breaks) lines.push(`  break at ${st.x(b.x)} (row ${b.row}): change ${fmt(b.change)}`);
+  for (const s of o.segments) lines.push(`  segment ${st.x(s.xStart)} to ${st.x(s.xEnd)} (rows ${s.rowStart}-${s.rowEnd}, ${s.n} points): ${fields(s)}`);
   if (o.crops) for (const c of o.crops) lines.push(`  crops: penalty ${fmt(c.penaltyLow)}..${fmt(c.penaltyHigh)} -> ${c.changes} changes, cost ${fmt(c.cost)}`);
   for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
   return lines.join('\n');
@@ -167,8 +205,16 @@ export function runColumn(j: ColumnJob): Record<string, unknown> {
   return j.command === 'fit' ? fitOne(j.parsed, spec, j.name, j.y, j.x, j.w, j.evalX) : breaksOne(j.parsed, spec, j.name, j.y, j.x, j.w);
 }
 
+interface Plan {
+  command: 'fit' | 'breaks';
+  p: Parsed;
+  jobs: ColumnJob[];
+  xDates: boolean;
+  x: Cell[] | null;
+}
+
 /** Reads the arguments and the file: the help's exit code, or the columns to run. */
-function prepare(argv: string[], io: CliIO): number | { command: 'fit' | 'breaks'; p: Parsed; jobs: ColumnJob[] } {
+function prepare(argv: string[], io: CliIO): number | Plan {
   const [command, ...rest] = argv;
   if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText(rest[0])); return command ? 0 : 2; }
   if (command !== 'fit' && command !== 'breaks') fail(`unknown command "${command}"; use fit, breaks or help.`);
@@ -177,15 +223,17 @@ function prepare(argv: string[], io: CliIO): number | { command: 'fit' | 'breaks
   const p = parseArgs(rest, spec, fail);
   if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
   const t = readTable(io, p.positional[0]);
-  const { x, w, ys } = columns(p, t);
+  const { x, w, ys, xDates } = columns(p, t);
   const evalPath = one(p, '--eval');
   const evalX = cmd === 'fit' && evalPath ? readEval(io, evalPath) : null;
-  return { command: cmd, p, jobs: ys.map((c) => ({ command: cmd, parsed: p, name: c.name, y: c.cells, x, w, evalX })) };
+  return { command: cmd, p, xDates, x, jobs: ys.map((c) => ({ command: cmd, parsed: p, name: c.name, y: c.cells, x, w, evalX })) };
 }
 
-function print(io: CliIO, command: 'fit' | 'breaks', p: Parsed, results: Record<string, unknown>[]): number {
+function print(io: CliIO, plan: Plan, computed: Record<string, unknown>[]): number {
+  const { command, p, xDates, x, jobs } = plan;
+  const results = xDates ? computed.map(withDates) : computed;
   if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
-  else io.out(results.map((r) => (command === 'fit' ? textFit(r) : textBreaks(r))).join('\n'));
+  else io.out(results.map((r, i) => { const st = textStyle(xDates, x, jobs[i].y); return command === 'fit' ? textFit(r, st) : textBreaks(r, st); }).join('\n'));
   return 0;
 }
 
@@ -201,7 +249,7 @@ export function runCli(argv: string[], io: CliIO): number {
   try {
     const plan = prepare(argv, io);
     if (typeof plan === 'number') return plan;
-    return print(io, plan.command, plan.p, plan.jobs.map(runColumn));
+    return print(io, plan, plan.jobs.map(runColumn));
   } catch (e) {
     return report(io, e);
   }
@@ -216,7 +264,7 @@ export async function runCliWith(argv: string[], io: CliIO, runColumns: (jobs: C
   try {
     const plan = prepare(argv, io);
     if (typeof plan === 'number') return plan;
-    return print(io, plan.command, plan.p, await runColumns(plan.jobs));
+    return print(io, plan, await runColumns(plan.jobs));
   } catch (e) {
     return report(io, e);
   }

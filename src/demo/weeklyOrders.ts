@@ -10,6 +10,8 @@
  * and one cell holds the text "n/a", as real exports do.
  */
 
+import { serialToIso } from '../present/isoDate';
+
 /** mulberry32: a 32-bit seeded generator (public-domain algorithm by Tommy Ettinger). */
 export function mulberry32(seed: number): () => number {
   let s = seed >>> 0;
@@ -72,9 +74,13 @@ export function weeklyOrders(seed = DEMO_SEED): DemoRow[] {
   return rows;
 }
 
-/** The demo as CSV text (header week_start, orders, returns, unit_cost). */
+/**
+ * The demo as CSV text (header week_start, orders, returns, unit_cost), with
+ * week_start as ISO 8601 dates (2023-01-02, ...), which Excel and the command
+ * line both read as dates.
+ */
 export function weeklyOrdersCsv(seed = DEMO_SEED): string {
   const lines = ['week_start,orders,returns,unit_cost'];
-  for (const r of weeklyOrders(seed)) lines.push([r.weekStart, r.orders ?? '', r.returns, r.unitCost].join(','));
+  for (const r of weeklyOrders(seed)) lines.push([serialToIso(r.weekStart), r.orders ?? '', r.returns, r.unitCost].join(','));
   return lines.join('\n') + '\n';
 }

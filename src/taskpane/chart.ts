@@ -1,128 +1,226 @@
 /**
- * SVG drawing of a fit: data points, the fitted curve, knots or breaks, the
- * end zones whose values get revised, and the curve continued beyond the data
- * (shaded as extrapolation). Also the "why this penalty" plot of the
- * criterion against degrees of freedom.
+ * The pane's charts, drawn with uPlot (a small canvas time-series chart
+ * library): data points, the fitted curve and its band, the end zones whose
+ * values get revised, the curve continued after the data (shaded as
+ * extrapolation), and knot or break markers with tooltips. Dates get calendar
+ * ticks (weeks, months, quarters, years). Also the "why this penalty" plot of
+ * the criterion against degrees of freedom.
+ *
+ * Zones and markers are overlay elements (with tooltips) placed over the
+ * plot; the container records what it drew (data-points, data-fit,
+ * data-x-ticks) so tests and assistive tools can read it.
  */
-import type { View } from './analysis';
+import uPlot from 'uplot';
+import { calendarTicks, formatNumber } from '../present';
+import type { View } from './view';
 
-const NS = 'http://www.w3.org/2000/svg';
+const FONT = '11px system-ui, sans-serif';
+const INK = '#5f7180', GRID = '#eef2f5', FIT = '#0f7c7a', MARK = '#c8611a', POINT = '#7b8fa1';
+/** Width an 11 px label needs, with a gap: a full date (2023-01-02), or a month, quarter or year. */
+const DATE_LABEL_PX = 80, SHORT_LABEL_PX = 58;
 
-function el(name: string, attrs: Record<string, string | number>, parent?: Element): SVGElement {
-  const e = document.createElementNS(NS, name);
-  for (const [k, v] of Object.entries(attrs)) e.setAttribute(k, String(v));
-  if (parent) parent.appendChild(e);
-  return e;
+/** Calendar ticks that fit the plot's width: short labels (months, quarters, years) are packed closer than full dates. */
+function ticksFor(u: uPlot, lo: number, hi: number) {
+  const px = u.bbox.width / devicePixelRatio;
+  const t = calendarTicks(lo, hi, Math.max(2, Math.floor(px / SHORT_LABEL_PX)));
+  if ((t.unit === 'day' || t.unit === 'week' || t.unit === 'hour') && t.ticks.length * DATE_LABEL_PX > px) return calendarTicks(lo, hi, Math.max(2, Math.floor(px / DATE_LABEL_PX)));
+  return t;
 }
 
-function ticks(lo: number, hi: number, count = 5): number[] {
-  const span = hi - lo || 1;
-  const step0 = span / count;
-  const mag = Math.pow(10, Math.floor(Math.log10(step0)));
-  const step = [1, 2, 5, 10].map((m) => m * mag).find((s) => s >= step0) ?? step0;
-  const out: number[] = [];
-  for (let v = Math.ceil(lo / step) * step; v <= hi + 1e-9 * span; v += step) out.push(Number(v.toPrecision(12)));
-  return out;
+const charts = new WeakMap<HTMLElement, uPlot>();
+
+/** The x axis: calendar ticks and date labels when x are dates (the labels drawn are recorded in box.dataset.xTicks). */
+export function axisFor(xDates: boolean, show: (v: number) => string, box: HTMLElement): uPlot.Axis {
+  const base: uPlot.Axis = { font: FONT, stroke: INK, grid: { stroke: GRID, width: 1 }, ticks: { stroke: GRID, width: 1 }, gap: 3, size: 28 };
+  if (!xDates) return { ...base, values: (_u, splits) => splits.map((v) => formatNumber(v, 4)) };
+  return {
+    ...base,
+    splits: (u, _i, lo, hi) => {
+      const t = ticksFor(u, lo, hi);
+      return t.ticks.length ? t.ticks : [lo, hi];
+    },
+    values: (u, splits) => {
+      const t = ticksFor(u, u.scales.x.min!, u.scales.x.max!);
+      const labels = splits.map((s) => { const k = t.ticks.indexOf(s); return k >= 0 ? t.labels[k] : show(s); });
+      box.dataset.xTicks = labels.join('|');
+      return labels;
+    },
+  };
 }
 
-/** Excel serial date (1900 system, days since 1899-12-30) as yyyy-mm-dd. */
-export function serialToIso(serial: number): string {
-  const ms = Math.round((serial - 25569) * 86400000);
-  return new Date(ms).toISOString().slice(0, 10);
-}
+const yAxis = (): uPlot.Axis => ({
+  font: FONT, stroke: INK, grid: { stroke: GRID, width: 1 }, ticks: { stroke: GRID, width: 1 }, gap: 3, space: 22,
+  size: (_u, values) => (values && values.length ? Math.max(...values.map((v) => String(v).length)) * 7 + 20 : 44),
+  values: (_u, splits) => splits.map((v) => formatNumber(v, 4)),
+});
 
-const label = (v: number) => (Math.abs(v) >= 1e5 || (Math.abs(v) < 1e-3 && v !== 0) ? v.toExponential(1) : String(Number(v.toPrecision(6))));
-
-interface Frame { x0: number; x1: number; y0: number; y1: number; w: number; h: number; m: { l: number; r: number; t: number; b: number } }
-
-function frame(svg: SVGSVGElement, xs: number[], ys: number[], w: number, h: number, xLabel: (v: number) => string = label): { f: Frame; sx: (v: number) => number; sy: (v: number) => number } {
-  const m = { l: 52, r: 10, t: 10, b: 26 };
-  let x0 = Math.min(...xs), x1 = Math.max(...xs), y0 = Math.min(...ys), y1 = Math.max(...ys);
-  if (x1 === x0) { x0 -= 1; x1 += 1; }
-  if (y1 === y0) { y0 -= 1; y1 += 1; }
-  const pad = 0.05 * (y1 - y0);
-  y0 -= pad; y1 += pad;
-  const f = { x0, x1, y0, y1, w, h, m };
-  const sx = (v: number) => m.l + ((v - x0) / (x1 - x0)) * (w - m.l - m.r);
-  const sy = (v: number) => h - m.b - ((v - y0) / (y1 - y0)) * (h - m.t - m.b);
-  svg.setAttribute('viewBox', `0 0 ${w} ${h}`);
-  const axes = el('g', { class: 'axes' }, svg);
-  for (const t of ticks(x0, x1)) {
-    el('line', { x1: sx(t), x2: sx(t), y1: m.t, y2: h - m.b, class: 'grid' }, axes);
-    const px = sx(t);
-    const anchor = px > w - 40 ? 'end' : px < m.l + 20 ? 'start' : 'middle';
-    const tx = el('text', { x: px, y: h - 8, 'text-anchor': anchor, class: 'tick' }, axes); tx.textContent = xLabel(t);
-  }
-  for (const t of ticks(y0, y1)) {
-    el('line', { x1: m.l, x2: w - m.r, y1: sy(t), y2: sy(t), class: 'grid' }, axes);
-    const ty = el('text', { x: m.l - 4, y: sy(t) + 3, 'text-anchor': 'end', class: 'tick' }, axes); ty.textContent = label(t);
-  }
-  return { f, sx, sy };
-}
-
-function pathOf(xs: ArrayLike<number>, ys: ArrayLike<number>, sx: (v: number) => number, sy: (v: number) => number): string {
-  const step = Math.max(1, Math.ceil(xs.length / 4000));
-  let d = '';
-  for (let i = 0; i < xs.length; i += step) d += `${i ? 'L' : 'M'}${sx(xs[i]).toFixed(1)},${sy(ys[i]).toFixed(1)}`;
-  const last = xs.length - 1;
-  if (last > 0 && last % step !== 0) d += `L${sx(xs[last]).toFixed(1)},${sy(ys[last]).toFixed(1)}`;
+/** An overlay element over the plot (u.over) at x positions [x0, x1] (one x: a marker line). */
+function overlay(u: uPlot, cls: string, title: string): HTMLDivElement {
+  const d = document.createElement('div');
+  d.className = cls;
+  d.title = title;
+  u.over.append(d);
   return d;
 }
 
-/** Draws a fit into an (emptied) SVG element. */
-export function drawFit(svg: SVGSVGElement, v: View, width = 560, height = 280): void {
-  svg.replaceChildren();
-  const allX = [...Array.from(v.x), ...(v.beyond ? [...v.beyond.left.x, ...v.beyond.right.x] : [])];
-  const allY = [...Array.from(v.y), ...Array.from(v.fitted), ...(v.beyond ? [...v.beyond.left.y, ...v.beyond.right.y] : [])];
-  const { f, sx, sy } = frame(svg, allX, allY, width, height, v.xDates ? serialToIso : label);
+function place(u: uPlot, el: HTMLElement, x0: number, x1?: number): void {
+  const a = u.valToPos(x0, 'x');
+  const b = x1 === undefined ? a : u.valToPos(x1, 'x');
+  el.style.left = `${Math.min(a, b) - (x1 === undefined ? 4 : 0)}px`;
+  el.style.width = x1 === undefined ? '9px' : `${Math.max(2, Math.abs(b - a))}px`;
+}
+
+/** Legend entries for what is drawn, and nothing else. */
+function legend(box: HTMLElement, items: [string, string][]): void {
+  const lg = document.createElement('div');
+  lg.className = 'legend';
+  for (const [cls, text] of items) {
+    const item = document.createElement('span');
+    item.className = 'legend-item';
+    const sw = document.createElement('span');
+    sw.className = `swatch ${cls}`;
+    item.append(sw, document.createTextNode(text));
+    lg.append(item);
+  }
+  box.append(lg);
+}
+
+/** Draws a fit into `box` (emptied first), as wide as the box. */
+export function drawFit(box: HTMLElement, v: View, height = 240): void {
+  charts.get(box)?.destroy();
+  box.replaceChildren();
   const n = v.x.length;
-  if (v.beyond) {
-    for (const side of [v.beyond.left, v.beyond.right]) {
-      const a = sx(side.x[0]), b = sx(side.x[side.x.length - 1]);
-      const r = el('rect', { x: Math.min(a, b), y: f.m.t, width: Math.abs(b - a), height: f.h - f.m.t - f.m.b, class: 'zone-extrapolation' }, svg);
-      el('title', {}, r).textContent = 'Beyond the data: an extrapolation of the fitted curve, not a forecast.';
-    }
-  }
-  if (v.boundaryPoints > 0 && n > 2 * v.boundaryPoints) {
-    for (const [i0, i1] of [[0, v.boundaryPoints - 1], [n - v.boundaryPoints, n - 1]]) {
-      const r = el('rect', { x: sx(v.x[i0]), y: f.m.t, width: Math.max(1, sx(v.x[i1]) - sx(v.x[i0])), height: f.h - f.m.t - f.m.b, class: 'zone-boundary' }, svg);
-      el('title', {}, r).textContent = 'End zone: these fitted values rest on data from one side and will be revised as data arrive.';
-    }
-  }
-  // At most about 3000 dots and 4000 path vertices: a chart this size cannot show more, and the pane stays responsive.
-  const pts = el('g', { class: 'points' }, svg);
-  const stride = Math.max(1, Math.ceil(n / 3000));
-  if (stride > 1) pts.setAttribute('data-stride', String(stride));
-  for (let i = 0; i < n; i += stride) el('circle', { cx: sx(v.x[i]).toFixed(1), cy: sy(v.y[i]).toFixed(1), r: 2.2 }, pts);
-  if (v.beyond) {
-    for (const side of [v.beyond.left, v.beyond.right]) el('path', { d: pathOf(side.x, side.y, sx, sy), class: 'fit-beyond' }, svg);
+  const bx = v.beyond && v.beyond.x.length > 1 ? v.beyond : undefined;
+  // uPlot wants one increasing x for all series: the data's x, then the extrapolated x after the last point.
+  const extra = bx ? bx.x.slice(1) : [];
+  const xs = [...Array.from(v.x), ...extra];
+  const pad = <T,>(a: ArrayLike<number>, after: (number | null)[] = extra.map(() => null)): (number | null)[] => [...Array.from(a), ...after];
+  const none = (k: number) => Array<number | null>(k).fill(null);
+  // At most about 20000 dots: a chart this size cannot show more, and drawing each as a circle keeps the pane busy.
+  const stride = Math.max(1, Math.ceil(n / 20000));
+  const dots = stride === 1 ? pad(v.y) : pad(Array.from(v.y, (y, i) => (i % stride === 0 ? y : NaN))).map((y) => (y === null || Number.isNaN(y) ? null : y));
+  const data: (number | null)[][] = [xs, dots, pad(v.fitted)];
+  const series: uPlot.Series[] = [
+    {},
+    { label: 'data', stroke: POINT, paths: () => null, points: { show: true, size: 4, width: 0, fill: POINT, stroke: POINT } },
+    { label: 'fit', stroke: FIT, width: 2, points: { show: false } },
+  ];
+  const bands: uPlot.Band[] = [];
+  if (bx) {
+    data.push([...none(n - 1), v.fitted[n - 1], ...bx.y.slice(1)]);
+    series.push({ label: 'beyond', stroke: FIT, width: 1.5, dash: [5, 4], points: { show: false } });
   }
   if (v.band) {
-    const up = pathOf(v.x, v.band.upper, sx, sy);
-    const xsR = Array.from(v.x).reverse(), loR = Array.from(v.band.lower).reverse();
-    const down = pathOf(xsR, loR, sx, sy).replace(/^M/, 'L');
-    const b = el('path', { d: `${up}${down}Z`, class: 'band' }, svg);
-    el('title', {}, b).textContent = 'Approximate 95% pointwise band (fitted value +/- 1.96 standard errors).';
+    data.push(pad(v.band.upper), pad(v.band.lower));
+    series.push({ label: 'upper', stroke: 'transparent', points: { show: false } }, { label: 'lower', stroke: 'transparent', points: { show: false } });
+    bands.push({ series: [data.length - 2, data.length - 1], fill: 'rgba(15,124,122,0.13)' });
   }
-  el('path', { d: pathOf(v.x, v.fitted, sx, sy), class: 'fit' }, svg);
-  const marks = el('g', { class: 'markers' }, svg);
-  for (const mk of v.markers) {
-    const line = el('line', { x1: sx(mk.x), x2: sx(mk.x), y1: f.m.t, y2: f.h - f.m.b, class: 'marker' }, marks);
-    el('title', {}, line).textContent = mk.label;
+  if (v.markers.length) {
+    const at = new Map(v.markers.map((m) => [m.x, m.y]));
+    data.push(xs.map((x, i) => (i < n && at.has(x) ? at.get(x)! : null)));
+    series.push({ label: v.markerName, stroke: MARK, paths: () => null, points: { show: true, size: 9, width: 2, stroke: MARK, fill: '#fff' } });
   }
+  const width = Math.max(240, box.clientWidth || 320);
+  // Overlays are made once the plot exists, and placed on every draw (resize included).
+  const zones: { el: HTMLElement; x0: number; x1?: number }[] = [];
+  const readout = document.createElement('div');
+  readout.className = 'readout';
+  readout.textContent = 'Point at the chart to read a value.';
+  const u = new uPlot({
+    width, height,
+    legend: { show: false },
+    cursor: { drag: { x: false, y: false }, points: { size: 6 } },
+    scales: { x: { time: false } },
+    axes: [axisFor(v.xDates, v.showX, box), yAxis()],
+    series, bands,
+    hooks: {
+      setCursor: [(u) => {
+        const i = u.cursor.idx;
+        if (i === null || i === undefined || i >= n) return;
+        const mk = v.markers.find((m) => m.x === xs[i]);
+        readout.textContent = `${v.showX(xs[i])}: ${v.yName} ${v.showY(v.y[i])}, fit ${v.showY(v.fitted[i])}${mk ? `; ${mk.label}` : ''}`;
+      }],
+      draw: [(u) => layoutOverlays(u, zones)],
+    },
+  }, data as uPlot.AlignedData, box);
+  charts.set(box, u);
+  const ends = v.boundaryPoints > 0 && n > 2 * v.boundaryPoints;
+  if (ends) {
+    for (const [i0, i1] of [[0, v.boundaryPoints - 1], [n - v.boundaryPoints, n - 1]]) {
+      zones.push({ el: overlay(u, 'zone zone-boundary', `End zone (${v.showX(v.x[i0])} to ${v.showX(v.x[i1])}): these fitted values rest on data from one side and will be revised as data arrive.`), x0: v.x[i0], x1: v.x[i1] });
+    }
+  }
+  if (bx) zones.push({ el: overlay(u, 'zone zone-extrapolation', `After ${v.showX(v.x[n - 1])}: the fitted curve continued beyond the data, an extrapolation, not a forecast.`), x0: bx.x[0], x1: bx.x[bx.x.length - 1] });
+  const marks = document.createElement('div');
+  marks.className = 'markers';
+  u.over.append(marks);
+  for (const m of v.markers) {
+    const el = document.createElement('div');
+    el.className = 'marker';
+    el.title = m.label;
+    el.dataset.x = v.showX(m.x);
+    marks.append(el);
+    zones.push({ el, x0: m.x });
+  }
+  layoutOverlays(u, zones);
+  box.dataset.points = String(dots.filter((y) => y !== null && Number.isFinite(y)).length);
+  box.dataset.stride = String(stride);
+  box.dataset.fit = String(v.fitted.filter(Number.isFinite).length);
+  box.dataset.markers = String(v.markers.length);
+  const items: [string, string][] = [['sw-points', stride > 1 ? `data (1 in ${stride} points drawn)` : 'data'], ['sw-fit', 'fit']];
+  if (v.band) items.push(['sw-band', 'approx. 95% band']);
+  if (ends) items.push(['sw-edge', 'end zone: values get revised']);
+  if (bx) items.push(['sw-beyond', 'after the data: extrapolation, not a forecast']);
+  if (v.markers.length) items.push(['sw-mark', v.markerName === 'knot' ? 'knot' : 'break']);
+  legend(box, items);
+  box.append(readout);
+}
+
+function layoutOverlays(u: uPlot, zones: { el: HTMLElement; x0: number; x1?: number }[]): void {
+  for (const z of zones) place(u, z.el, z.x0, z.x1);
+}
+
+/** Redraws every chart in `root` at its box's current width. */
+export function resizeCharts(root: ParentNode): void {
+  root.querySelectorAll<HTMLElement>('.chart-box').forEach((box) => {
+    const u = charts.get(box);
+    if (u && box.clientWidth > 0) u.setSize({ width: Math.max(240, box.clientWidth), height: u.height });
+  });
 }
 
 /** Draws the criterion against df, marking the chosen fit. */
-export function drawCurve(svg: SVGSVGElement, c: NonNullable<View['curve']>, width = 560, height = 180): void {
-  svg.replaceChildren();
+export function drawCurve(box: HTMLElement, c: NonNullable<View['curve']>, height = 160): void {
+  charts.get(box)?.destroy();
+  box.replaceChildren();
   const order = c.df.map((_, i) => i).filter((i) => Number.isFinite(c.score[i]) && Number.isFinite(c.df[i])).sort((a, b) => c.df[a] - c.df[b]);
   const xs = order.map((i) => c.df[i]), ys = order.map((i) => c.score[i]);
   if (!xs.length) return;
-  const { sx, sy } = frame(svg, [...xs, c.chosenDf], [...ys, Number.isFinite(c.chosenScore) ? c.chosenScore : ys[0]], width, height);
-  el('path', { d: pathOf(xs, ys, sx, sy), class: 'curve' }, svg);
-  const cy = Number.isFinite(c.chosenScore) ? c.chosenScore : ys[0];
-  const dot = el('circle', { cx: sx(c.chosenDf), cy: sy(cy), r: 4.5, class: 'chosen' }, svg);
-  el('title', {}, dot).textContent = `chosen: df ${c.chosenDf.toPrecision(4)}`;
-  const t = el('text', { x: width - 12, y: 22, 'text-anchor': 'end', class: 'tick' }, svg);
-  t.textContent = `${c.name} against ${c.xLabel}`;
+  const chosenY = Number.isFinite(c.chosenScore) ? c.chosenScore : ys[0];
+  // The chosen point joins the x values so it can be drawn as its own series.
+  const all = [...xs.map((x, i) => ({ x, y: ys[i] as number | null, c: null as number | null })), { x: c.chosenDf, y: null, c: chosenY }].sort((a, b) => a.x - b.x);
+  const width = Math.max(240, box.clientWidth || 320);
+  const u = new uPlot({
+    width, height, legend: { show: false }, cursor: { show: false },
+    scales: { x: { time: false } },
+    axes: [{ ...axisFor(false, String, box), label: c.xLabel, labelFont: FONT, labelSize: 16, size: 26 }, { ...yAxis(), label: c.name, labelFont: FONT, labelSize: 16 }],
+    series: [{}, { stroke: '#1d2b36', width: 1.5, spanGaps: true, paths: c.step ? uPlot.paths.stepped!({ align: 1 }) : undefined, points: { show: false } },
+      { stroke: MARK, paths: () => null, points: { show: true, size: 9, fill: MARK, stroke: MARK } }],
+  }, [all.map((p) => p.x), all.map((p) => p.y), all.map((p) => p.c)] as uPlot.AlignedData, box);
+  charts.set(box, u);
+  box.dataset.chosen = `${c.xLabel} ${Number(c.chosenDf.toPrecision(3))}`;
+  const note = document.createElement('div');
+  note.className = 'readout';
+  note.textContent = `Chosen: ${c.xLabel} ${Number(c.chosenDf.toPrecision(3))}, ${c.name} ${formatNumber(chosenY, 4)}.`;
+  box.append(note);
+}
+
+/** The axis label sizes (CSS px) of the chart drawn in `box`, as uPlot draws them. */
+export function axisFontSizes(box: HTMLElement): number[] {
+  const u = charts.get(box);
+  if (!u) return [];
+  return u.axes.map((a) => {
+    const f = a.font as unknown;
+    const text = Array.isArray(f) ? String(f[0]) : String(f);
+    return parseFloat(text) / devicePixelRatio;
+  });
 }

@@ -1,16 +1,25 @@
 /**
  * The task pane: pick cells, a method and a penalty rule; see the fit, why
- * this penalty, the knots or breaks, and every warning; write the result
- * beside the data (asking before anything is replaced).
+ * this penalty, the knots or breaks, and every warning; write the results to
+ * the sheet (asking before anything is replaced) so a colleague without the
+ * add-in sees what was done.
  */
+import uPlot from 'uplot';
 import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
-import { analyse, Choice, PenaltyChoice, View } from './analysis';
+import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
+import { analyseWith, Choice, PenaltyChoice, splitSelection } from './analysis';
 import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
-import { drawCurve, drawFit } from './chart';
-import { CellBlock, ExcelWorkbook, PageWorkbook, Workbook, isEmptyBlock } from './workbook';
+import { axisFontSizes, axisFor, drawCurve, drawFit, resizeCharts } from './chart';
+import { readOwnTable } from './ownData';
+import { reportStart, sharePlan } from './share';
+import { View, viewOf } from './view';
+import { CellBlock, ExcelWorkbook, PageWorkbook, WriteBlock, WriteError, Workbook } from './workbook';
+
+declare const KNOTWISE_VERSION: string;
+const VERSION = typeof KNOTWISE_VERSION === 'string' ? KNOTWISE_VERSION : 'development';
 
 const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as T;
 
@@ -32,11 +41,24 @@ function showStatus(text: string, kind: 'info' | 'error' = 'info'): void {
   s.className = kind;
 }
 
+function fillTable(el: HTMLElement, t: PresentTable): void {
+  el.replaceChildren();
+  const head = document.createElement('tr');
+  for (const h of t.header) { const th = document.createElement('th'); th.textContent = h; head.append(th); }
+  el.append(head);
+  for (const row of t.rows) {
+    const tr = document.createElement('tr');
+    for (const c of row) { const td = document.createElement('td'); td.textContent = c.text; tr.append(td); }
+    el.append(tr);
+  }
+}
+
 function renderView(v: View): void {
   $('result-title').textContent = v.title;
-  drawFit($('chart') as unknown as SVGSVGElement, v);
+  $('results').hidden = false;
+  drawFit($('chart'), v);
   const curveBox = $('curve-box');
-  if (v.curve) { curveBox.hidden = false; drawCurve($('curve') as unknown as SVGSVGElement, v.curve); } else curveBox.hidden = true;
+  if (v.curve) { curveBox.hidden = false; drawCurve($('curve'), v.curve); } else curveBox.hidden = true;
   const dl = $('summary');
   dl.replaceChildren();
   for (const [k, val] of v.summary) {
@@ -53,70 +75,167 @@ function renderView(v: View): void {
     li.append(code, document.createTextNode(' ' + w.message));
     ul.append(li);
   }
-  const table = $('table');
-  table.replaceChildren();
-  v.table.forEach((row, i) => {
-    const tr = document.createElement('tr');
-    for (const c of row) {
-      const td = document.createElement(i === 0 ? 'th' : 'td');
-      td.textContent = typeof c === 'number' ? String(Number(c.toPrecision(6))) : String(c);
-      tr.append(td);
-    }
-    table.append(tr);
-  });
-  $('table-box').hidden = v.table.length <= 1;
-  $('results').hidden = false;
+  if (!v.warnings.length) { const li = document.createElement('li'); li.textContent = 'none'; ul.append(li); }
+  const main = v.tables.find((t) => t.id === 'table')!;
+  $('table-title').textContent = main.title;
+  fillTable($('table'), main.table);
+  $('table-box').hidden = main.table.rows.length === 0;
+  const seg = v.tables.find((t) => t.id === 'segments');
+  $('segments-box').hidden = !seg;
+  if (seg) fillTable($('segments'), seg.table);
 }
 
+/** A sheet cell as the sheet shows it: dates by their format, numbers at their format's decimals. */
+function cellText(v: unknown, format: string | undefined): string {
+  if (typeof v !== 'number') return String(v ?? '');
+  if (format && /^yyyy-mm-dd/.test(format)) return serialToIso(v, format.includes('hh') ? 'auto' : 'never') ?? String(v);
+  const m = format ? /^0(?:\.(0+))?$/.exec(format) : null;
+  if (m) return formatFixed(v, m[1]?.length ?? 0);
+  return formatNumber(v, 6);
+}
+
+/** Rows of the preview sheet drawn as a table. */
+const SHEET_ROWS_SHOWN = 2000;
+
 function renderSheet(wb: PageWorkbook): void {
+  $('sheet-name').textContent = wb.name;
   const t = $('sheet-table');
   t.replaceChildren();
-  const head = document.createElement('tr');
-  wb.header.forEach((h, j) => {
+  const width = wb.width;
+  const letters = document.createElement('tr');
+  letters.append(Object.assign(document.createElement('th'), { className: 'rownum' }));
+  for (let j = 0; j < width; j++) {
     const th = document.createElement('th');
-    th.textContent = `${String.fromCharCode(65 + j)}: ${h}`;
+    th.textContent = columnLetters(j);
     if (j === wb.selection.x || j === wb.selection.y) th.className = 'selected';
-    head.append(th);
-  });
-  t.append(head);
-  for (const r of wb.rows) {
+    letters.append(th);
+  }
+  t.append(letters);
+  // A preview sheet shows its first rows only: a page of 1e5 table rows would take seconds to lay out.
+  const shown = Math.min(wb.cells.length, SHEET_ROWS_SHOWN);
+  wb.cells.slice(0, shown).forEach((r, i) => {
     const tr = document.createElement('tr');
-    wb.header.forEach((_, j) => {
-      const td = document.createElement('td');
-      const v = r[j];
-      td.textContent = typeof v === 'number' ? String(Number(v.toPrecision(6))) : String(v ?? '');
-      if (j === wb.selection.x || j === wb.selection.y) td.className = 'selected';
+    const num = document.createElement('th');
+    num.className = 'rownum';
+    num.textContent = String(i + 1);
+    tr.append(num);
+    for (let j = 0; j < width; j++) {
+      const td = document.createElement(i === 0 ? 'th' : 'td');
+      td.textContent = cellText(r[j], wb.formats[i]?.[j]);
+      if (td.textContent.length > 24) td.title = td.textContent;
+      if (j === wb.selection.x || j === wb.selection.y) td.classList.add('selected');
+      if (typeof r[j] === 'string') td.classList.add('text');
       tr.append(td);
-    });
+    }
     t.append(tr);
+  });
+  if (shown < wb.cells.length) {
+    const tr = document.createElement('tr');
+    const td = document.createElement('td');
+    td.colSpan = width + 1;
+    td.className = 'text';
+    td.textContent = `Rows ${shown + 1} to ${wb.cells.length} are not shown here; the pane reads them all.`;
+    tr.append(td);
+    t.append(tr);
+  }
+  renderSheetCharts(wb);
+}
+
+/** Charts written to the preview sheet, drawn from the values read back from their ranges. */
+function renderSheetCharts(wb: PageWorkbook): void {
+  const box = $('sheet-charts');
+  box.replaceChildren();
+  for (const c of wb.charts) {
+    const el = document.createElement('div');
+    el.className = 'sheet-chart';
+    const cap = document.createElement('div');
+    cap.className = 'note';
+    cap.textContent = `Chart at ${columnLetters(c.spec.col)}${c.spec.row}: ${c.spec.title} (series: ${[c.spec.names.data, c.spec.names.fit, c.spec.names.markers].filter(Boolean).join(', ')})`;
+    el.append(cap);
+    box.append(el);
+    el.dataset.series = String(2 + (c.markers.length ? 1 : 0));
+    el.dataset.markers = String(c.markers.length);
+    const order = c.x.map((_, i) => i).filter((i) => Number.isFinite(c.x[i])).sort((a, b) => c.x[a] - c.x[b]);
+    const xs = order.map((i) => c.x[i]);
+    const at = new Map(c.markers.map((m) => [m.x, m.y]));
+    new uPlot({
+      width: Math.max(240, (box.clientWidth || 320) - 12), height: 180, legend: { show: false }, cursor: { show: false }, scales: { x: { time: false } },
+      axes: [axisFor(!!wb.dateColumns[wb.selection.x], (v) => serialToIso(v, 'never') ?? formatNumber(v, 4), el), { font: '11px system-ui, sans-serif', size: 44 }],
+      series: [{}, { stroke: '#7b8fa1', paths: () => null, points: { show: true, size: 3, fill: '#7b8fa1' } }, { stroke: '#0f7c7a', width: 2, spanGaps: true, points: { show: false } },
+        { stroke: '#c8611a', paths: () => null, points: { show: true, size: 8, width: 2, fill: '#fff' } }],
+    }, [xs, order.map((i) => c.data[i]), order.map((i) => c.fit[i]), xs.map((x) => at.get(x) ?? null)] as uPlot.AlignedData, el);
   }
 }
 
-function pageWorkbook(): PageWorkbook {
+function demoWorkbook(onChange: () => void): PageWorkbook {
   const rows = weeklyOrders().map((r) => [r.weekStart, r.orders ?? '', r.returns, r.unitCost]);
-  const wb: PageWorkbook = new PageWorkbook(['week_start', 'orders', 'returns', 'unit_cost'], rows, { x: 0, y: 1 }, () => renderSheet(wb));
+  return new PageWorkbook('Demo', ['week_start', 'orders', 'returns', 'unit_cost'], rows, [true, false, false, false], { x: 0, y: 1 }, onChange);
+}
+
+function pageWorkbook(): PageWorkbook {
+  const wb: PageWorkbook = demoWorkbook(() => renderSheet(wb));
   const xs = $<HTMLSelectElement>('pick-x'), ys = $<HTMLSelectElement>('pick-y');
-  const fill = () => {
-    for (const [sel, withNone] of [[xs, true], [ys, false]] as const) {
-      const keep = sel.value;
-      sel.replaceChildren();
-      if (withNone) sel.append(new Option('(row numbers)', '-1'));
-      wb.header.forEach((h, j) => sel.append(new Option(h, String(j))));
-      if (keep) sel.value = keep;
-    }
+  const fill = (x: number, y: number) => {
+    xs.replaceChildren(new Option('(row numbers)', '-1'));
+    ys.replaceChildren();
+    wb.header.forEach((h, j) => { xs.append(new Option(`${columnLetters(j)}: ${h}`, String(j))); ys.append(new Option(`${columnLetters(j)}: ${h}`, String(j))); });
+    xs.value = String(x); ys.value = String(y);
+    wb.selection = { x, y };
   };
-  fill();
-  xs.value = '0'; ys.value = '1';
+  fill(0, 1);
   const update = () => { wb.selection = { x: Number(xs.value), y: Number(ys.value) }; renderSheet(wb); };
   xs.onchange = update; ys.onchange = update;
+  const useTable = (name: string, text: string) => {
+    try {
+      const t = readOwnTable(text);
+      wb.load(name, t.header, t.rows, t.dateColumns);
+      const x = t.dateColumns.indexOf(true) >= 0 ? t.dateColumns.indexOf(true) : t.header.length > 1 ? 0 : -1;
+      const y = t.header.findIndex((_, j) => j !== x && t.rows.some((r) => typeof r[j] === 'number'));
+      fill(x, y >= 0 ? y : Math.min(1, t.header.length - 1));
+      $('sheet-note').textContent = `${t.rows.length} rows read${t.dateColumns.some(Boolean) ? `; dates in ${t.header.filter((_, j) => t.dateColumns[j]).join(', ')}` : ''}. Choose the x and y columns, then fit.`;
+      renderSheet(wb);
+      showStatus(t.notes.length ? `Read ${name}, but ${t.notes.join(' ')}` : `Read ${t.rows.length} rows into the sheet "${name}".`, t.notes.length ? 'error' : 'info');
+    } catch (e) {
+      showStatus(`Could not read ${name}: ${(e as Error).message}`, 'error');
+    }
+  };
+  $('paste-use').onclick = () => useTable('Pasted', $<HTMLTextAreaElement>('paste').value);
+  $<HTMLInputElement>('csv-file').onchange = async () => {
+    const f = $<HTMLInputElement>('csv-file').files?.[0];
+    if (f) useTable(f.name.replace(/\.[^.]*$/, '').replace(/[^A-Za-z0-9_ ]/g, '_').slice(0, 31) || 'File', await f.text());
+  };
+  $('demo-use').onclick = () => {
+    const d = demoWorkbook(() => {});
+    wb.load('Demo', d.header, d.cells.slice(1), d.dateColumns);
+    fill(0, 1);
+    renderSheet(wb);
+    showStatus('Back to the demo sheet.');
+  };
   renderSheet(wb);
   return wb;
+}
+
+/** An engine error's "row N" (1-based data rows) named as sheet rows, when the selection's place is known. */
+function errorText(e: unknown, block: CellBlock | null): string {
+  const msg = isKnotwiseError(e) || e instanceof Error ? (e as Error).message : String(e);
+  if (!block) return msg;
+  try {
+    const m = /!?\$?[A-Z]+\$?(\d+)/.exec(block.address.slice(block.address.lastIndexOf('!') + 1));
+    const hasHeader = splitSelection(block).header !== null;
+    if (!m) return msg;
+    const first = Number(m[1]) + (hasHeader ? 1 : 0);
+    return msg.replace(/\b(in )?row (\d+)\b/g, (_a, inWord: string | undefined, r: string) => `${inWord ?? ''}sheet row ${first + Number(r) - 1}`);
+  } catch {
+    return msg;
+  }
 }
 
 async function boot(inExcel: boolean): Promise<void> {
   document.body.classList.toggle('in-excel', inExcel);
   const wb: Workbook = inExcel ? new ExcelWorkbook() : pageWorkbook();
   let last: { block: CellBlock; view: View } | null = null;
+  // For tests and for checking the pane from the browser console.
+  (window as unknown as { knotwise: unknown }).knotwise = { workbook: wb, axisFonts: () => [...axisFontSizes($('chart')), ...axisFontSizes($('curve'))] };
 
   $('rule').onchange = () => {
     const r = $<HTMLSelectElement>('rule').value;
@@ -126,35 +245,57 @@ async function boot(inExcel: boolean): Promise<void> {
   pageRuntime().pool?.warm(1); // load one analysis worker now, so the first fit does not wait for it
   $('run').onclick = async () => {
     const run = progress.start();
+    let block: CellBlock | null = null;
     try {
-      const block = await wb.readSelection();
+      block = await wb.readSelection();
       showStatus(`Fitting ${block.address} ...`);
       // The fit runs in a worker: the pane stays responsive, shows progress and can cancel.
-      const view = await analyse(block, choiceFrom($<HTMLSelectElement>('method').value), penaltyFrom(), (r) => compute(r, run));
+      const analysis = await analyseWith(block, choiceFrom($<HTMLSelectElement>('method').value), penaltyFrom(), (r) => compute(r, run));
+      const view = viewOf(analysis, block, { version: VERSION, date: new Date().toISOString().slice(0, 10) });
       last = { block, view };
       renderView(view);
       showStatus(`Fitted ${block.address}.`);
     } catch (e) {
       if (isCancelled(e)) { if (!run.superseded) showStatus('Fit cancelled: nothing new was fitted.'); return; }
       $('results').hidden = true;
-      showStatus(isKnotwiseError(e) || e instanceof Error ? (e as Error).message : String(e), 'error');
+      showStatus(errorText(e, block), 'error');
     } finally {
       run.done();
     }
   };
+  let resizeTimer = 0;
+  window.addEventListener('resize', () => { clearTimeout(resizeTimer); resizeTimer = window.setTimeout(() => resizeCharts(document), 150); });
+
   const confirmBox = $('confirm');
+  let pending: WriteBlock[] = [];
   const doWrite = async () => {
-    if (!last) return;
-    const header = last.block.values.length > last.view.column.length ? [last.view.columnHeader] : [];
-    const address = await wb.writeBeside(last.block, [...header, ...last.view.column]);
     confirmBox.hidden = true;
-    showStatus(`Wrote ${last.view.column.length} values to ${address}.`);
+    if (!last) return;
+    const v = last.view;
+    const plan = sharePlan(v);
+    try {
+      const written = await wb.write(v.sheet, pending);
+      let chartAt = '';
+      if ($<HTMLInputElement>('share-chart').checked) {
+        chartAt = await wb.addChart(v.sheet, plan.chart);
+      }
+      showStatus(`Wrote ${written.join(', ')}${chartAt ? `; chart at ${chartAt}` : ''}.`);
+    } catch (e) {
+      showStatus(e instanceof WriteError ? e.message : `Writing failed: ${(e as Error).message}`, 'error');
+    }
   };
   $('write').onclick = async () => {
     if (!last) return;
-    const target = await wb.readBeside(last.block);
-    if (isEmptyBlock(target)) return doWrite();
-    $('confirm-text').textContent = `${target.address} already holds values. Replace them with the fitted column?`;
+    const plan = sharePlan(last.view);
+    pending = [
+      ...($<HTMLInputElement>('share-fit').checked ? [plan.fitted] : []),
+      ...($<HTMLInputElement>('share-report').checked ? plan.report : []),
+    ];
+    if (!pending.length && !$<HTMLInputElement>('share-chart').checked) { showStatus('Nothing chosen to write.'); return; }
+    if ($<HTMLInputElement>('share-chart').checked && !$<HTMLInputElement>('share-fit').checked) { showStatus('The chart draws the fitted column from the sheet: tick "fitted column" too.', 'error'); return; }
+    const taken = await wb.occupied(last.view.sheet, pending);
+    if (!taken.length) return doWrite();
+    $('confirm-text').textContent = `${taken.join(', ')} already ${taken.length > 1 ? 'hold' : 'holds'} values. Replace them with the ${pending.map((b) => b.what).join(', ')} (report from ${reportStart(plan)})?`;
     confirmBox.hidden = false;
   };
   $('confirm-yes').onclick = () => void doWrite();

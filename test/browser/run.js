@@ -2,7 +2,8 @@
 /**
  * Browser tests: the built add-in (dist/web) in Debian's headless Chromium via
  * playwright-core. Checks the standalone preview pane end to end (fit, chart,
- * warnings, confirmation before overwriting cells) and that the custom-functions
+ * dates, cell addresses, warnings, writing results with confirmation before
+ * overwriting cells, pasted data, the content policy) and that the custom-functions
  * bundle associates every function that functions.json declares.
  * Run after `npm run build`. Prints "N passed, N failed".
  */
@@ -17,43 +18,79 @@ const tests = [];
 const test = (name, fn) => tests.push({ name, fn });
 const assert = (cond, msg) => { if (!cond) throw new Error(msg); };
 
-test('the preview shows the demo sheet', async (page) => {
+/** Counts pixels of one colour (within a tolerance) on a chart's canvas: evidence that something was drawn in it. */
+const countColour = (page, sel, rgb) => page.$eval(sel, (box, rgb) => {
+  const c = box.querySelector('canvas');
+  const d = c.getContext('2d').getImageData(0, 0, c.width, c.height).data;
+  let k = 0;
+  for (let i = 0; i < d.length; i += 4) if (Math.abs(d[i] - rgb[0]) < 8 && Math.abs(d[i + 1] - rgb[1]) < 8 && Math.abs(d[i + 2] - rgb[2]) < 8 && d[i + 3] > 200) k++;
+  return k;
+}, rgb);
+const FIT_RGB = [15, 124, 122], POINT_RGB = [123, 143, 161];
+
+test('the preview shows the demo sheet with column letters, row numbers and dates', async (page) => {
   const rows = await page.$$eval('#sheet-table tr', (r) => r.length);
-  assert(rows === 157, `expected 156 data rows and a header, got ${rows}`);
+  assert(rows === 158, `expected a letters row, a header and 156 data rows, got ${rows}`);
+  const a2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(2)', (t) => t.textContent);
+  assert(a2 === '2023-01-02', `A2 shows ${a2}, not the date 2023-01-02`);
 });
 
 test('fitting the spline draws the data, the fit, end zones and the criterion curve', async (page) => {
   await page.selectOption('#method', 'spline');
   await page.click('#run');
   await page.waitForSelector('#results:not([hidden])');
-  const circles = await page.$$eval('#chart .points circle', (c) => c.length);
-  assert(circles === 153, `expected 153 points (156 rows less 3 unusable), got ${circles}`);
-  assert(await page.$('#chart path.fit'), 'no fitted curve');
-  assert((await page.$$('#chart rect.zone-boundary')).length === 2, 'end zones missing');
-  assert((await page.$$('#chart rect.zone-extrapolation')).length === 2, 'extrapolation zones missing');
+  const drawn = await page.$eval('#chart', (b) => ({ points: b.dataset.points, fit: b.dataset.fit }));
+  assert(drawn.points === '153' && drawn.fit === '153', `expected 153 points and fitted values (156 rows less 3 unusable), got ${JSON.stringify(drawn)}`);
+  assert(await countColour(page, '#chart', POINT_RGB) > 300, 'no data points on the canvas');
+  assert(await countColour(page, '#chart', FIT_RGB) > 300, 'no fitted curve on the canvas');
+  assert((await page.$$('#chart .zone-boundary')).length === 2, 'end zones missing');
+  const zones = await page.$$eval('#chart .zone-extrapolation, #chart .zone-boundary', (z) => z.map((e) => [e.className, e.getBoundingClientRect().left, e.getBoundingClientRect().right]));
+  const ex = zones.filter((z) => z[0].includes('extrapolation'));
+  const ends = zones.filter((z) => z[0].includes('boundary'));
+  assert(ex.length === 1, `expected one extrapolation zone (after the data only), got ${ex.length}`);
+  assert(ex[0][1] >= ends[1][2] - 1, `extrapolation zone starts at ${ex[0][1]}, before the end of the data at ${ends[1][2]}`);
   assert(await page.isVisible('#curve-box'), 'criterion curve hidden');
+  const legend = await page.$$eval('#chart .legend-item', (l) => l.map((x) => x.textContent));
+  assert(!legend.some((t) => /knot|break/.test(t)), `legend lists markers that are not drawn: ${legend}`);
+  assert(legend.some((t) => /band/.test(t)), `legend misses the band: ${legend}`);
   const codes = await page.$$eval('#warnings li', (l) => l.map((x) => x.dataset.code));
   for (const c of ['dropped-cells', 'boundary']) assert(codes.includes(c), `warning ${c} missing: ${codes}`);
+  const dropped = await page.$eval('#warnings li[data-code="dropped-cells"]', (l) => l.textContent);
+  assert(/cells B35, B36\).*cell B122\)/.test(dropped), `blank cells not named by address: ${dropped}`);
+  const summary = await page.$eval('#summary', (d) => d.textContent);
+  assert(/smoothness [\d.e]+, about \d+ degrees of freedom/.test(summary) && !/\d{7}/.test(summary), `penalty not in words: ${summary}`);
+  assert(/solved exactly/.test(summary), `solver status not in words: ${summary}`);
 });
 
-test('trend filtering marks its knots on the chart and lists them', async (page) => {
+test('trend filtering marks its knots on the chart with dated tooltips and lists them', async (page) => {
   await page.selectOption('#method', 'trend1');
   await page.click('#run');
   await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Trend'));
-  const marks = await page.$$eval('#chart .markers line', (l) => l.length);
+  const titles = await page.$$eval('#chart .markers .marker', (l) => l.map((m) => m.title));
   const rows = await page.$$eval('#table tr', (r) => r.length);
-  assert(marks >= 1, 'no knot markers');
-  assert(rows === marks + 1, `knots table has ${rows - 1} rows for ${marks} markers`);
+  assert(titles.length >= 1, 'no knot markers');
+  assert(titles.every((t) => /^knot at \d{4}-\d{2}-\d{2} \(B\d+\)/.test(t)), `marker tooltips without dates and cells: ${titles[0]}`);
+  assert(rows === titles.length + 1, `knots table has ${rows - 1} rows for ${titles.length} markers`);
+  const first = await page.$$eval('#table tr:nth-child(2) td', (t) => t.map((x) => x.textContent));
+  assert(/^\d{4}-\d{2}-\d{2}$/.test(first[0]) && /^B\d+$/.test(first[1]), `knots table row: ${first}`);
+  const ticks = await page.$eval('#chart', (b) => b.dataset.xTicks);
+  assert(/^\d{4}(\b|-\d{2}| Q\d)/.test(ticks) && !/4\d{4}/.test(ticks), `x axis not labelled with dates: ${ticks}`);
 });
 
-test('changepoints carry the warning that a break is not proof of its cause', async (page) => {
-  await page.selectOption('#method', 'breaks-mean');
+test('changepoints carry the warning that a break is not proof of its cause, and the segments table', async (page) => {
+  await page.selectOption('#method', 'breaks-meanvar');
   await page.click('#run');
   await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints'));
   const codes = await page.$$eval('#warnings li', (l) => l.map((x) => x.dataset.code));
   assert(codes.includes('break-cause'), `break-cause missing: ${codes}`);
   assert(await page.isVisible('#curve-box'), 'penalty path (changes against cost) not shown');
-  assert((await page.$$('#chart .markers line')).length >= 1, 'no break markers');
+  const marks = (await page.$$('#chart .markers .marker')).length;
+  assert(marks >= 1, 'no break markers');
+  const head = await page.$$eval('#table tr:first-child th', (t) => t.map((x) => x.textContent));
+  assert(head.includes('sd before') && head.includes('sd after'), `volatility model's table lacks sd before/after: ${head}`);
+  assert(await page.isVisible('#segments-box'), 'segments table hidden');
+  const segs = await page.$$eval('#segments tr', (r) => r.length);
+  assert(segs === marks + 2, `segments table has ${segs - 1} rows for ${marks} breaks`);
 });
 
 test('a bad penalty shows the engine message instead of a result', async (page) => {
@@ -65,24 +102,139 @@ test('a bad penalty shows the engine message instead of a result', async (page) 
   assert(/penalty \(spline\) must be a number from 0; got -2/.test(status), `status was: ${status}`);
   assert(await page.isHidden('#results'), 'results still shown after an error');
   await page.selectOption('#rule', 'auto');
+  // An engine error about a row names the sheet row: unit costs in D are not counts, the first is in D2.
+  await page.selectOption('#pick-y', '3');
+  await page.selectOption('#method', 'breaks-poisson');
+  await page.click('#run');
+  const err = await page.textContent('#status');
+  await page.selectOption('#pick-y', '1');
+  assert(/sheet row 2 holds 3\.17/.test(err), `error does not name the sheet row: ${err}`);
 });
 
-test('writing beside the data asks before replacing cells, and Cancel leaves them', async (page) => {
+test('chart labels are at least 11 px', async (page) => {
+  await page.selectOption('#method', 'trend1');
+  await page.click('#run');
+  await page.waitForSelector('#results:not([hidden])');
+  const sizes = await page.$$eval('#chart .legend, #chart .readout, #table td, #summary dd', (els) => els.map((e) => parseFloat(getComputedStyle(e).fontSize)));
+  assert(sizes.length > 3 && sizes.every((s) => s >= 11), `text below 11 px: ${sizes}`);
+  const axisFonts = await page.evaluate(() => window.knotwise.axisFonts());
+  assert(axisFonts.length >= 4 && axisFonts.every((f) => f >= 11), `axis label sizes: ${axisFonts}`);
+});
+
+test('writing to the sheet asks before replacing cells, names them, and Cancel leaves them', async (page) => {
   await page.selectOption('#method', 'spline');
   await page.click('#run');
   await page.waitForSelector('#results:not([hidden])');
-  const before = await page.$$eval('#sheet-table tr td:nth-child(3)', (t) => t.slice(0, 5).map((x) => x.textContent));
+  const colC = () => page.$$eval('#sheet-table tr td:nth-child(4)', (t) => t.slice(0, 5).map((x) => x.textContent));
+  const before = await colC();
   await page.click('#write');
   assert(await page.isVisible('#confirm'), 'no confirmation before overwriting column C');
+  const text = await page.textContent('#confirm-text');
+  assert(text.startsWith('Demo!C1:C157 already holds values'), `confirmation does not name the range: ${text}`);
   await page.click('#confirm-no');
-  const same = await page.$$eval('#sheet-table tr td:nth-child(3)', (t) => t.slice(0, 5).map((x) => x.textContent));
-  assert(JSON.stringify(same) === JSON.stringify(before), 'cells changed after Cancel');
+  assert(JSON.stringify(await colC()) === JSON.stringify(before), 'cells changed after Cancel');
   await page.click('#write');
   await page.click('#confirm-yes');
-  const head = await page.$eval('#sheet-table tr th:nth-child(3)', (t) => t.textContent);
+  await page.waitForFunction(() => /^Wrote /.test(document.querySelector('#status').textContent));
+  const head = await page.$eval('#sheet-table tr:nth-child(2) th:nth-child(4)', (t) => t.textContent);
   assert(head.includes('orders (spline)'), `header after write: ${head}`);
-  const blank = await page.$eval('#sheet-table tr:nth-child(35) td:nth-child(3)', (t) => t.textContent);
-  assert(blank === '', `row 34 (blank input) should stay empty, got "${blank}"`);
+  const c2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(4)', (t) => t.textContent);
+  assert(/^\d{3}\.\d$/.test(c2), `fitted value not rounded to one decimal more than whole orders: ${c2}`);
+  const blank = await page.$eval('#sheet-table tr:nth-child(36) td:nth-child(4)', (t) => t.textContent);
+  assert(blank === '', `C35 (blank input) should stay empty, got "${blank}"`);
+  const note = await page.$eval('#sheet-table tr:nth-child(2) th:nth-child(6)', (t) => t.textContent);
+  assert(/^Knotwise \d+\.\d+\.\d+, \d{4}-\d{2}-\d{2}: smoothing spline of Demo!A1:B157; penalty by generalised cross-validation: smoothness/.test(note), `settings note in E1: ${note}`);
+  assert((await page.$$('#sheet-charts .sheet-chart')).length === 1, 'no chart added to the preview sheet');
+});
+
+test('a pasted series with dates is read, fitted, shown with dates and cell addresses, and written with its settings note', async (page) => {
+  await page.click('#own-data summary');
+  await page.click('#demo-use');
+  // 40 invented weekly values with a level shift after week 20 and a blank in week 11 (sheet row 12).
+  const lines = ['week\tsales'];
+  for (let i = 0; i < 40; i++) {
+    const d = new Date(Date.UTC(2024, 0, 1 + 7 * i)).toISOString().slice(0, 10);
+    lines.push(`${d}\t${i === 10 ? '' : (i < 20 ? 100 : 130) + ((i * 37) % 11) - 5}`);
+  }
+  await page.fill('#paste', lines.join('\n'));
+  await page.click('#paste-use');
+  const a2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(2)', (t) => t.textContent);
+  assert(a2 === '2024-01-01', `pasted date shows as ${a2}`);
+  await page.selectOption('#method', 'breaks-mean');
+  await page.click('#run');
+  await page.waitForFunction(() => document.querySelector('#status')?.textContent?.startsWith('Fitted Pasted!'));
+  const row = await page.$$eval('#table tr:nth-child(2) td', (t) => t.map((x) => x.textContent));
+  assert(row[0] === '2024-05-20' && row[1] === 'B22', `break not dated 2024-05-20 at B22: ${row}`);
+  const ticks = await page.$eval('#chart', (b) => b.dataset.xTicks);
+  assert(/^2024-\d{2}/.test(ticks) && !/4\d{4}/.test(ticks), `axis ticks are not dates: ${ticks}`);
+  const dropped = await page.$eval('#warnings li[data-code="dropped-cells"]', (l) => l.textContent);
+  assert(/cell B12\b/.test(dropped), `blank not named B12: ${dropped}`);
+  const marker = await page.$eval('#chart .markers .marker', (m) => m.title);
+  assert(/^break at 2024-05-20 \(B22\): level before [\d.]+, level after [\d.]+/.test(marker), `marker tooltip: ${marker}`);
+  await page.click('#write');
+  await page.waitForFunction(() => /^Wrote /.test(document.querySelector('#status').textContent));
+  const cells = await page.$$eval('#sheet-table tr', (trs) => trs.map((tr) => [...tr.children].map((c) => c.textContent)));
+  // Report in column E (index 5 with the row-number column): note in E1, then summary, warnings and the breaks table.
+  assert(/^Knotwise .*changepoints in the level of Pasted!A1:B41/.test(cells[1][5]), `no settings note in E1: ${cells[1][5]}`);
+  const breaksAt = cells.findIndex((r) => r[5] === 'Breaks');
+  assert(breaksAt > 0, 'no breaks table written');
+  assert(cells[breaksAt + 1].slice(5, 9).join('|') === 'date|cell|level before|level after', `breaks table header: ${cells[breaksAt + 1].slice(5, 9)}`);
+  assert(cells[breaksAt + 2][5] === '2024-05-20' && cells[breaksAt + 2][6] === 'B22', `written break row: ${cells[breaksAt + 2]}`);
+  assert(cells.some((r) => r[5] === 'Segments'), 'no segments table written');
+  assert(cells.some((r) => r[5] === 'dropped-cells' && /cell B12/.test(r[6])), 'warnings not written with cell addresses');
+  const chart = await page.$eval('#sheet-charts .sheet-chart', (c) => ({ series: c.dataset.series, markers: c.dataset.markers }));
+  assert(chart.series === '3' && chart.markers === '1', `preview chart: ${JSON.stringify(chart)}`);
+});
+
+test('a write that fails part way says which cells were written', async (page) => {
+  await page.evaluate(() => { window.knotwise.workbook.failAt = 2; });
+  await page.click('#write');
+  if (await page.isVisible('#confirm')) await page.click('#confirm-yes');
+  await page.waitForFunction(() => document.querySelector('#status').className === 'error');
+  const status = await page.textContent('#status');
+  await page.evaluate(() => { window.knotwise.workbook.failAt = -1; });
+  assert(/^Wrote Pasted!C1:C41, Pasted!E1; then writing summary \(Pasted!E3:F\d+\) failed: .* Nothing else was written\.$/.test(status), `status: ${status}`);
+});
+
+test('a CSV file opened in the preview becomes the sheet; dates in another layout are named', async (page) => {
+  const rows = ['day,cost'];
+  for (let i = 0; i < 30; i++) rows.push(`${new Date(Date.UTC(2024, 2, 1 + i)).toISOString().slice(0, 10)},${(3 + 0.01 * i).toFixed(2)}`);
+  await page.setInputFiles('#csv-file', { name: 'unit-costs.csv', mimeType: 'text/csv', buffer: Buffer.from(rows.join('\n')) });
+  await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'unit_costs');
+  const a2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(2)', (t) => t.textContent);
+  assert(a2 === '2024-03-01', `A2 of the opened file shows ${a2}`);
+  await page.setInputFiles('#csv-file', { name: 'other.csv', mimeType: 'text/csv', buffer: Buffer.from('day,cost\n01/03/2024,3\n02/03/2024,4\n') });
+  await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'other');
+  const status = await page.textContent('#status');
+  assert(/column "day" holds 2 dates that could not be read \(first in sheet row 2: "01\/03\/2024"\)/.test(status), `status: ${status}`);
+  await page.click('#demo-use');
+});
+
+test('every control fits at 320 px and the tables scroll inside their box', async (page, base, browser) => {
+  const p = await browser.newPage({ viewport: { width: 320, height: 800 } });
+  await p.goto(`${base}/preview.html`);
+  await p.waitForSelector('#sheet-table tr');
+  await p.selectOption('#method', 'trend1');
+  await p.click('#run');
+  await p.waitForSelector('#results:not([hidden])');
+  const over = await p.$$eval('#pane select, #pane button, #pane input, #pane .chart-box, #pane .table-scroll', (els) => els.filter((e) => e.offsetParent !== null && e.getBoundingClientRect().right > document.documentElement.clientWidth + 0.5).map((e) => e.id || e.className));
+  assert(!over.length, `controls wider than 320 px: ${over}`);
+  const scroll = await p.$eval('#table-box .table-scroll', (e) => getComputedStyle(e).overflow);
+  assert(scroll === 'auto', `table box overflow is ${scroll}`);
+  await p.close();
+});
+
+test('the pane pages carry a Content-Security-Policy, and no request leaves the local server', async (page, base, browser, requests) => {
+  for (const f of ['preview.html', 'taskpane.html']) {
+    const html = await (await fetch(`${base}/${f}`)).text();
+    const csp = /<meta http-equiv="?Content-Security-Policy"? content="([^"]+)"/.exec(html);
+    assert(csp, `${f} has no Content-Security-Policy meta tag`);
+    assert(/default-src 'none'/.test(csp[1]) && /connect-src 'none'/.test(csp[1]) && !/unsafe-eval|unsafe-inline/.test(csp[1]), `${f} policy: ${csp[1]}`);
+    const office = /appsforoffice\.microsoft\.com/.test(csp[1]);
+    assert(office === (f === 'taskpane.html'), `${f}: Office's CDN ${office ? 'allowed' : 'missing'}`);
+  }
+  const outside = requests.filter((u) => !u.startsWith(base));
+  assert(requests.length > 3 && !outside.length, `requests outside ${base}: ${outside}`);
 });
 
 const poolStats = (page) => page.evaluate(() => { const rt = globalThis[Symbol.for('knotwise.pageRuntime')]; return rt && rt.pool ? { ...rt.pool.stats, running: rt.pool.running } : null; });
@@ -196,8 +348,8 @@ test('the functions bundle associates every function that functions.json declare
 });
 
 test('the manifest is well-formed and points at the built pages, the functions and the KNOTWISE namespace', async (page, base) => {
-  const info = await page.evaluate(async () => {
-    const text = await (await fetch('manifest.xml')).text();
+  const manifest = await (await fetch(`${base}/manifest.xml`)).text();
+  const info = await page.evaluate((text) => {
     const doc = new DOMParser().parseFromString(text, 'application/xml');
     if (doc.getElementsByTagName('parsererror').length) return { error: doc.getElementsByTagName('parsererror')[0].textContent };
     const urls = [...doc.getElementsByTagName('bt:Url'), ...doc.getElementsByTagName('bt:Image')].map((e) => e.getAttribute('DefaultValue')).filter((u) => u !== null);
@@ -216,7 +368,7 @@ test('the manifest is well-formed and points at the built pages, the functions a
       set: [...doc.getElementsByTagName('Set')].filter((e) => e.getAttribute('Name') === 'SharedRuntime').map((e) => e.getAttribute('MinVersion')),
     };
     return { urls, ns, cf, shared };
-  });
+  }, manifest);
   const sh = info.shared;
   assert(sh.runtimes === 1 && sh.runtime.length === 1, `expected one <Runtimes><Runtime> under the Workbook host: ${JSON.stringify(sh)}`);
   const [rid, lifetime] = sh.runtime[0];
@@ -229,7 +381,7 @@ test('the manifest is well-formed and points at the built pages, the functions a
   assert(info.urls.length >= 7 && info.urls.every((u) => typeof u === 'string'), `manifest URLs: ${JSON.stringify(info.urls)}`);
   for (const u of info.urls) {
     const rel = u.replace(/^https:\/\/localhost:3000/, '');
-    const res = await page.evaluate(async (r) => (await fetch(r)).status, rel);
+    const res = (await fetch(`${base}${rel}`)).status;
     assert(res === 200, `${rel} named in the manifest is not served (status ${res})`);
   }
 });
@@ -245,13 +397,16 @@ test('the manifest is well-formed and points at the built pages, the functions a
   const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: FLAGS });
   const page = await browser.newPage({ viewport: { width: 1280, height: 1000 } });
   const pageErrors = [];
+  const requests = [];
   page.on('pageerror', (e) => pageErrors.push(String(e)));
+  page.on('request', (r) => requests.push(r.url()));
+  page.on('console', (m) => { if (/Content Security Policy|Refused to/.test(m.text())) pageErrors.push(`CSP: ${m.text()}`); });
   await page.goto(`${base}/preview.html`);
   await page.waitForSelector('#sheet-table tr');
   let passed = 0, failed = 0;
   for (const t of tests) {
     try {
-      await t.fn(page, base, browser);
+      await t.fn(page, base, browser, requests);
       if (pageErrors.length) throw new Error(`page error: ${pageErrors.splice(0).join('; ')}`);
       passed++;
       console.log(`  ok  ${t.name}`);

@@ -1,0 +1,73 @@
+/**
+ * What "write to sheet" puts where, so a colleague without the add-in sees
+ * what was done: the fitted column just right of the data; one column
+ * further on, a report (the settings note, the summary, the warnings, the
+ * knots or breaks table and, for changepoints, the segments table); and a
+ * native chart of data, fit and markers below the report. Pure: a plan of
+ * blocks and ranges that a Workbook then writes.
+ */
+import { PresentTable, cellName, rangeName } from '../present';
+import type { View } from './view';
+import type { ChartSpec, WriteBlock } from './workbook';
+
+export interface SharePlan {
+  fitted: WriteBlock;
+  /** Note, summary, warnings, tables: in writing order. */
+  report: WriteBlock[];
+  chart: ChartSpec;
+}
+
+function tableBlock(what: string, title: string, t: PresentTable, col: number, row: number): WriteBlock {
+  const width = t.header.length;
+  const pad = (r: (number | string)[]) => [...r, ...Array<string>(Math.max(0, width - r.length)).fill('')];
+  return {
+    what, col, row,
+    values: [pad([title]), t.header, ...t.rows.map((r) => r.map((c) => c.value))],
+    formats: [Array(width).fill(undefined), Array(width).fill('@'), ...t.rows.map((r) => r.map((c) => c.format))],
+  };
+}
+
+/** The blocks and chart for one view, placed from the selection's position on its sheet. */
+export function sharePlan(v: View): SharePlan {
+  const nRows = v.column.length;
+  const fitCol = v.lastCol + 1;
+  const fitted: WriteBlock = {
+    what: 'fitted column', col: fitCol, row: v.topRow,
+    values: [...(v.hasHeader ? [[v.columnHeader]] : []), ...v.column.map((c) => [c])],
+    formats: [...(v.hasHeader ? [['@']] : []), ...v.column.map(() => [v.columnFormat])],
+  };
+  const col = fitCol + 2;
+  let row = v.topRow;
+  const report: WriteBlock[] = [];
+  const add = (b: WriteBlock) => { report.push(b); row += b.values.length + 1; };
+  add({ what: 'settings note', col, row, values: [[v.note]], formats: [['@']] });
+  add({ what: 'summary', col, row, values: [['Summary', ''], ...v.summary.map(([k, t]) => [k, t])], formats: [['@', '@'], ...v.summary.map(() => ['@', '@'])] });
+  const warnings = v.warnings.length ? v.warnings.map((w) => [w.code, w.message]) : [['none', '']];
+  add({ what: 'warnings', col, row, values: [['Warnings', ''], ...warnings], formats: [['@', '@'], ...warnings.map(() => ['@', '@'])] });
+  let markersX: string | undefined, markersY: string | undefined;
+  for (const t of v.tables) {
+    const b = tableBlock(`${t.title.toLowerCase()} table`, t.title, t.table, col, row);
+    if (t.id === 'table' && t.table.rows.length) {
+      const first = row + 2, last = row + 1 + t.table.rows.length;
+      markersX = rangeName(null, col, first, col, last);
+      markersY = rangeName(null, col + t.table.header.length - 1, first, col + t.table.header.length - 1, last);
+    }
+    add(b);
+  }
+  const first = v.place.firstRow, last = v.place.firstRow + nRows - 1;
+  const chart: ChartSpec = {
+    title: `${v.yName}: ${v.title.toLowerCase()}`,
+    x: v.xCol >= 0 ? rangeName(null, v.xCol, first, v.xCol, last) : undefined,
+    data: rangeName(null, v.place.yCol, first, v.place.yCol, last),
+    fit: rangeName(null, fitCol, first, fitCol, last),
+    markersX, markersY,
+    names: { data: v.yName, fit: v.columnHeader, markers: markersX ? `${v.markerName}s` : undefined },
+    col, row,
+  };
+  return { fitted, report, chart };
+}
+
+/** The cell where the report starts, for messages. */
+export function reportStart(p: SharePlan): string {
+  return cellName(p.report[0].col, p.report[0].row);
+}

@@ -1,0 +1,51 @@
+#!/usr/bin/env node
+/**
+ * Screenshots of the preview pane in Debian's headless Chromium at task-pane
+ * widths (320 and 420 px), for looking at layouts and for the README.
+ * Run after `npm run build`: node test/browser/screenshots.js [outdir]
+ * Writes pane-<method>-<width>.png to outdir (default dist/screenshots) and
+ * assets/screenshots/pane-dates.png (the trend fit of the demo with its date axis, 420 px).
+ */
+const path = require('path');
+const fs = require('fs');
+const http = require('http');
+const { chromium } = require('playwright-core');
+const { handler } = require('../../scripts/serve.js');
+
+const FLAGS = ['--no-sandbox', '--disable-gpu', '--disable-background-networking', '--disable-component-update', '--disable-sync', '--no-first-run'];
+const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screenshots');
+
+(async () => {
+  fs.mkdirSync(out, { recursive: true });
+  const server = http.createServer(handler);
+  await new Promise((r) => server.listen(0, '127.0.0.1', r));
+  const base = `http://127.0.0.1:${server.address().port}`;
+  const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: FLAGS });
+  for (const width of [320, 420]) {
+    const page = await browser.newPage({ viewport: { width, height: 900 }, deviceScaleFactor: 1 });
+    page.on('pageerror', (e) => console.error(`page error: ${e}`));
+    await page.goto(`${base}/preview.html`);
+    await page.waitForSelector('#sheet-table tr');
+    for (const method of ['trend1', 'spline', 'breaks-meanvar']) {
+      await page.selectOption('#method', method);
+      await page.click('#run');
+      await page.waitForSelector('#results:not([hidden])');
+      await page.waitForTimeout(200);
+      const file = path.join(out, `pane-${method}-${width}.png`);
+      await page.locator('#pane').screenshot({ path: file });
+      console.log(`wrote ${file}`);
+      if (method === 'trend1' && width === 420) {
+        const readme = path.join(__dirname, '..', '..', 'assets', 'screenshots', 'pane-dates.png');
+        await page.locator('#pane').screenshot({ path: readme, clip: undefined });
+        console.log(`wrote ${readme}`);
+      }
+    }
+    await page.click('#own-data summary');
+    const sheet = path.join(out, `sheet-${width}.png`);
+    await page.locator('#sheet-panel').screenshot({ path: sheet });
+    console.log(`wrote ${sheet}`);
+    await page.close();
+  }
+  await browser.close();
+  server.close();
+})().catch((e) => { console.error(e); process.exit(1); });
