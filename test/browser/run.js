@@ -259,7 +259,7 @@ test('Cancel stops a fit running in the worker: the status says so, the worker i
   const idle = await page.evaluate(async () => { const t = performance.now(); await globalThis[Symbol.for('knotwise.pageRuntime')].pool.whenIdle(); return performance.now() - t; });
   console.log(`      (click to progress shown ${tShown - t0} ms; Cancel to status ${tCancelled - tShown} ms; replacement worker ready ${idle.toFixed(0)} ms later)`);
   await page.click('#run');
-  await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints (slope)') && /^Fitted/.test(document.querySelector('#status')?.textContent || ''));
+  await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints: slope') && /^Fitted/.test(document.querySelector('#status')?.textContent || ''));
 });
 
 test('while a long fit runs the page has no long task over 100 ms (PerformanceObserver "longtask")', async (page) => {
