@@ -131,6 +131,33 @@ function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cel
   };
 }
 
+function decomposeOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null): Record<string, unknown> {
+  const result: AnalysisResult = runAnalysis({ analysis: 'decompose', family: 'decomposition', y, x, w, options: declaredOptions(p, spec) });
+  const { series } = result;
+  const d = result.decomposition!;
+  const c = d.components;
+  const seasons = d.seasons as { label: string; length: number; strength: number; kept: boolean }[];
+  return {
+    column: name, method: d.method, options: result.options, n: series.n, nRows: series.nRows,
+    period: d.period, seasonal: d.seasonal,
+    seasons: seasons.map((q) => ({ label: q.label, length: q.length, strength: q.strength, kept: q.kept })),
+    trend: toRows(series, c.trend, null), season: toRows(series, c.season, null), spikes: toRows(series, c.spikes, null),
+    remainder: toRows(series, c.remainder, null), adjusted: toRows(series, c.adjusted, null),
+    knots: (d.knots as { x: number; row: number; change: number }[]).map((k) => ({ x: k.x, row: k.row + 1, change: Number.isFinite(k.change) ? k.change : null })),
+    spikeRows: (d.spikeIndex as number[]).map((i) => series.firstRow[i] + 1),
+    penalty: Number.isFinite(d.penalty as number) ? d.penalty : null, spikePenalty: Number.isFinite(d.spikePenalty as number) ? d.spikePenalty : null,
+    warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
+    solver: result.solver,
+  };
+}
+
+function textDecompose(o: Record<string, any>): string {
+  const lines = [`${o.column}: ${o.method} decomposition, ${o.n} points, season ${o.seasonal ? o.period.map(fmt).join(' and ') : 'none'}, ${o.knots.length} knots, ${o.spikeRows.length} spikes`];
+  for (const q of o.seasons) lines.push(`  season ${q.label} (${fmt(q.length)} steps): strength ${fmt(q.strength)}${q.kept ? ', kept' : ', not kept'}`);
+  for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
+  return lines.join('\n');
+}
+
 const fmt = (v: unknown): string => (typeof v === 'number' ? formatNumber(v, 4) : String(v));
 
 /**
@@ -188,9 +215,11 @@ function textBreaks(o: Record<string, any>, st: TextStyle): string {
   return lines.join('\n');
 }
 
+type Command = 'fit' | 'breaks' | 'decompose';
+
 /** One column's analysis: what the command line runs per --y, here in order or spread over worker threads (threads.ts). */
 export interface ColumnJob {
-  command: 'fit' | 'breaks';
+  command: Command;
   parsed: Parsed;
   name: string;
   y: Cell[];
@@ -202,11 +231,12 @@ export interface ColumnJob {
 /** Runs one column's analysis and shapes its output record. */
 export function runColumn(j: ColumnJob): Record<string, unknown> {
   const spec = commands().find((c) => c.name === j.command)!;
-  return j.command === 'fit' ? fitOne(j.parsed, spec, j.name, j.y, j.x, j.w, j.evalX) : breaksOne(j.parsed, spec, j.name, j.y, j.x, j.w);
+  if (j.command === 'fit') return fitOne(j.parsed, spec, j.name, j.y, j.x, j.w, j.evalX);
+  return j.command === 'breaks' ? breaksOne(j.parsed, spec, j.name, j.y, j.x, j.w) : decomposeOne(j.parsed, spec, j.name, j.y, j.x, j.w);
 }
 
 interface Plan {
-  command: 'fit' | 'breaks';
+  command: Command;
   p: Parsed;
   jobs: ColumnJob[];
   xDates: boolean;
@@ -217,8 +247,8 @@ interface Plan {
 function prepare(argv: string[], io: CliIO): number | Plan {
   const [command, ...rest] = argv;
   if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText(rest[0])); return command ? 0 : 2; }
-  if (command !== 'fit' && command !== 'breaks') fail(`unknown command "${command}"; use fit, breaks or help.`);
-  const cmd = command as 'fit' | 'breaks';
+  if (command !== 'fit' && command !== 'breaks' && command !== 'decompose') fail(`unknown command "${command}"; use fit, breaks, decompose or help.`);
+  const cmd = command as Command;
   const spec = commands().find((c) => c.name === cmd)!;
   const p = parseArgs(rest, spec, fail);
   if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
@@ -233,7 +263,7 @@ function print(io: CliIO, plan: Plan, computed: Record<string, unknown>[]): numb
   const { command, p, xDates, x, jobs } = plan;
   const results = xDates ? computed.map(withDates) : computed;
   if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
-  else io.out(results.map((r, i) => { const st = textStyle(xDates, x, jobs[i].y); return command === 'fit' ? textFit(r, st) : textBreaks(r, st); }).join('\n'));
+  else io.out(results.map((r, i) => { const st = textStyle(xDates, x, jobs[i].y); return command === 'fit' ? textFit(r, st) : command === 'breaks' ? textBreaks(r, st) : textDecompose(r); }).join('\n'));
   return 0;
 }
 
