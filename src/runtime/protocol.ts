@@ -7,6 +7,13 @@
  * Errors cross as plain {code, message} (structured clone keeps neither the
  * class nor extra fields of an Error) and are rebuilt on the other side: a
  * KnotwiseError stays a KnotwiseError with its code.
+ *
+ * Written out rather than built on comlink (4.4): the protocol is one message
+ * in and a few out; comlink's error transfer keeps only message, name and
+ * stack (the code would be lost without a custom handler), a call pending on a
+ * terminated worker never settles (the pool has to keep every job's resolve
+ * and reject anyway, to cancel by terminating), and a progress callback would
+ * need a proxy with its own message channel per call.
  */
 import { ErrorCode, KnotwiseError } from '../engine/errors';
 import type { Progress } from './engineEntry';
