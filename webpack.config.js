@@ -1,11 +1,19 @@
 /* Builds the add-in into dist/: the task pane (and its standalone preview),
  * the custom-functions bundle with functions.json generated from JSDoc, the
- * manifest and the icons. */
+ * analysis worker, the manifest and the icons.
+ *
+ * In Excel the pane's page is the shared runtime of the pane and the worksheet
+ * functions (manifest.xml), so the taskpane bundle registers the functions too.
+ * The analysis worker is its own entry, analysis-worker.js, which both pages
+ * start from the URL of the bundle that loaded them (src/runtime/browser/pageRuntime.ts);
+ * a separate entry keeps import.meta out of the sources, which jest and the
+ * type checks compile as CommonJS. */
 const path = require('path');
 const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
-const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
-const { DefinePlugin } = require('webpack');
+const webpack = require('webpack');
+const { DefinePlugin } = webpack;
+const { generateCustomFunctionsMetadata } = require('custom-functions-metadata');
 const { version } = require('./package.json');
 
 // Content-Security-Policy of the pane's pages: scripts and styles from the add-in's own origin only (and, inside
@@ -15,12 +23,29 @@ const csp = (office) => ["default-src 'none'", `script-src 'self'${office ? ' ht
 
 const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts', './src/functions/options.ts', './src/functions/decompose.ts'];
 
+/** Writes functions.json from the functions' JSDoc (as custom-functions-metadata-plugin does) but adds no
+ * unguarded CustomFunctions.associate calls to their modules: those modules are also in the pane's bundle,
+ * which runs outside Excel in the preview, and src/functions/register.ts associates them when CustomFunctions exists. */
+class FunctionsMetadataPlugin {
+  apply(compiler) {
+    let generated;
+    compiler.hooks.beforeCompile.tapPromise('FunctionsMetadataPlugin', async () => {
+      generated = await generateCustomFunctionsMetadata(FUNCTION_FILES.map((f) => path.resolve(f)), true);
+    });
+    compiler.hooks.thisCompilation.tap('FunctionsMetadataPlugin', (compilation) => {
+      if (generated.errors.length) for (const e of generated.errors) compilation.errors.push(new webpack.WebpackError(`functions metadata: ${e}`));
+      else compilation.emitAsset('functions.json', new webpack.sources.RawSource(generated.metadataJson));
+    });
+  }
+}
+
 module.exports = (env, argv) => ({
   mode: argv.mode || 'production',
   devtool: 'source-map',
   entry: {
-    taskpane: './src/taskpane/main.ts',
+    taskpane: ['./src/functions/register.ts', './src/taskpane/main.ts'],
     functions: './src/functions/register.ts',
+    'analysis-worker': './src/runtime/browser/analysisWorker.ts',
   },
   output: { path: path.resolve(__dirname, 'dist/web'), filename: '[name].js', clean: true },
   resolve: { extensions: ['.ts', '.js'] },
@@ -31,7 +56,7 @@ module.exports = (env, argv) => ({
     ],
   },
   plugins: [
-    new CustomFunctionsMetadataPlugin({ output: 'functions.json', input: FUNCTION_FILES }),
+    new FunctionsMetadataPlugin(),
     new HtmlWebpackPlugin({
       filename: 'taskpane.html', template: './src/taskpane/taskpane.html', chunks: ['taskpane'],
       officeScript: '<script src="https://appsforoffice.microsoft.com/lib/1/hosted/office.js"></script>', csp: csp(true),

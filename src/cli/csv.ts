@@ -145,13 +145,13 @@ export function guessDelimiter(text: string): string {
  * number, and refuses it when it holds dates that could not be read
  * ({@link checkDates}).
  */
-export function columnIndex(table: Table, spec: string): number {
+export function columnIndex(table: Table | NumericTable, spec: string): number {
   const found = findColumn(table, spec);
-  checkDates(table, found);
+  if ('rows' in table) checkDates(table, found); // an all-numeric file holds no dates
   return found;
 }
 
-function findColumn(table: Table, spec: string): number {
+function findColumn(table: { header: string[] }, spec: string): number {
   const exact = table.header.indexOf(spec);
   if (exact >= 0) return exact;
   const lower = table.header.findIndex((h) => h.toLowerCase() === spec.toLowerCase());
@@ -169,4 +169,101 @@ export class CliError extends Error {
     super(message);
     this.name = 'CliError';
   }
+}
+
+/** A CSV whose every data field is a plain decimal number, read column by column. */
+export interface NumericTable {
+  header: string[];
+  /** One array per column, one value per data row. */
+  columns: Float64Array[];
+}
+
+const enum Ch { Tab = 9, Lf = 10, Cr = 13, Space = 32, Quote = 34, Plus = 43, Comma = 44, Minus = 45, Dot = 46, D0 = 48, D9 = 57, E = 69, e = 101 }
+
+/** 10^k for k = 0..22: exact in binary64, so m * 10^k and m / 10^k round once (Clinger's fast path). */
+const POW10 = Array.from({ length: 23 }, (_, k) => Number(`1e${k}`));
+
+/**
+ * The fast path for the common numeric file: reads each field straight into a
+ * Float64Array, with no per-cell strings or row arrays. Returns null as soon as
+ * the file is anything else (a quote, a blank or text field, rows of unequal
+ * length), and the caller reads it with {@link parseCsv}, which reports such
+ * cells by row. A field counts as a number exactly when `numberFromText`
+ * would take it (the same plain-decimal rule, spaces around allowed), and its
+ * value equals `Number(field)`: digits that fit in 2^53 with a power of ten up
+ * to 22 are converted in one correctly rounded step, anything else by Number().
+ */
+export function parseNumericCsv(text: string): NumericTable | null {
+  let i = text.charCodeAt(0) === 0xfeff ? 1 : 0;
+  const n = text.length;
+  // Header: up to the first line end; quotes send the file to the general reader.
+  let lineEnd = i;
+  while (lineEnd < n && text.charCodeAt(lineEnd) !== Ch.Lf && text.charCodeAt(lineEnd) !== Ch.Cr) lineEnd++;
+  const headLine = text.slice(i, lineEnd);
+  if (headLine.includes('"') || headLine.trim() === '') return null;
+  const header = headLine.split(',').map((h) => h.trim());
+  const nc = header.length;
+  i = lineEnd;
+  let cap = 1024;
+  let cols = header.map(() => new Float64Array(cap));
+  let rows = 0;
+  // after the header and after each row: exactly one line end (CRLF, LF or CR)
+  const lineEnd1 = (k: number) => (text.charCodeAt(k) === Ch.Cr && text.charCodeAt(k + 1) === Ch.Lf ? k + 2 : k + 1);
+  if (i < n) i = lineEnd1(i);
+  while (i < n) {
+    let c = text.charCodeAt(i);
+    if (c === Ch.Lf || c === Ch.Cr) {
+      // an empty line: trailing ones end the file; one inside the data is a row of blanks, for the general reader
+      let k = i;
+      while (k < n && ((c = text.charCodeAt(k)) === Ch.Lf || c === Ch.Cr || c === Ch.Space || c === Ch.Tab)) k++;
+      if (k === n) break;
+      return null;
+    }
+    if (rows === cap) {
+      cap *= 2;
+      cols = cols.map((a) => { const b = new Float64Array(cap); b.set(a); return b; });
+    }
+    for (let j = 0; j < nc; j++) {
+      // One field: [sign] digits [. digits] [e [sign] digits], nothing around it (a padded number is text,
+      // left out as a number stored as text, by the general reader's rule)
+      const start = i;
+      let neg = false;
+      c = text.charCodeAt(i);
+      if (c === Ch.Minus || c === Ch.Plus) { neg = c === Ch.Minus; i++; }
+      let mant = 0, digits = 0, intDigits = 0, fracDigits = 0, sig = 0;
+      while (i < n && (c = text.charCodeAt(i)) >= Ch.D0 && c <= Ch.D9) { if (mant !== 0 || c !== Ch.D0) sig++; mant = mant * 10 + (c - Ch.D0); intDigits++; i++; }
+      if (c === Ch.Dot && i < n) {
+        i++;
+        while (i < n && (c = text.charCodeAt(i)) >= Ch.D0 && c <= Ch.D9) { if (mant !== 0 || c !== Ch.D0) sig++; mant = mant * 10 + (c - Ch.D0); fracDigits++; i++; }
+      }
+      digits = intDigits + fracDigits;
+      if (digits === 0) return null;
+      let exp = 0;
+      if (i < n && ((c = text.charCodeAt(i)) === Ch.E || c === Ch.e)) {
+        i++;
+        let eneg = false;
+        c = text.charCodeAt(i);
+        if (c === Ch.Minus || c === Ch.Plus) { eneg = c === Ch.Minus; i++; }
+        let ed = 0;
+        while (i < n && (c = text.charCodeAt(i)) >= Ch.D0 && c <= Ch.D9) { exp = exp * 10 + (c - Ch.D0); ed++; i++; if (exp > 1e6) exp = 1e6; }
+        if (ed === 0) return null;
+        if (eneg) exp = -exp;
+      }
+      const end = i;
+      // The field must end here: a comma between fields, a line end (or the end) after the last.
+      const last = j === nc - 1;
+      if (i < n) {
+        c = text.charCodeAt(i);
+        if (last ? c !== Ch.Lf && c !== Ch.Cr : c !== Ch.Comma) return null;
+        i = last ? lineEnd1(i) : i + 1;
+      } else if (!last) return null;
+      const e10 = exp - fracDigits;
+      if (sig <= 15 && e10 >= -22 && e10 <= 22) {
+        const v = e10 < 0 ? mant / POW10[-e10] : mant * POW10[e10];
+        cols[j][rows] = neg ? -v : v;
+      } else cols[j][rows] = Number(text.slice(start, end));
+    }
+    rows++;
+  }
+  return { header, columns: cols.map((a) => a.slice(0, rows)) };
 }

@@ -4,7 +4,7 @@
  * worksheet functions, and prints what comes back.
  */
 import { AnalysisResult, Cell, evaluateAnalysis, isKnotwiseError, runAnalysis, toRows } from '../engine';
-import { CliError, Table, columnIndex, parseCsv } from './csv';
+import { CliError, NumericTable, Table, columnIndex, parseCsv, parseNumericCsv } from './csv';
 import { CommandSpec, Parsed, commands, helpText, parseArgs } from './options';
 import { dataDecimals, formatFixed, formatNumber, roundForData, serialToIso, smoothPenaltyInWords, ruleInWords, fitSolverInWords, breaksSolverInWords } from '../present';
 
@@ -25,7 +25,7 @@ function one(p: Parsed, flag: string): string | undefined {
   return p.values.get(flag)?.[0];
 }
 
-function readTable(io: CliIO, path: string | undefined): Table {
+function readTable(io: CliIO, path: string | undefined): Table | NumericTable {
   if (!path) fail('give a CSV file; see knotwise help.');
   let text: string;
   try {
@@ -33,20 +33,26 @@ function readTable(io: CliIO, path: string | undefined): Table {
   } catch (e) {
     throw new CliError(`cannot read ${path}: ${(e as Error).message}`);
   }
-  const t = parseCsv(text);
+  // All-numeric files (the common case) are read straight into typed arrays; anything else cell by cell.
+  const t = parseNumericCsv(text) ?? parseCsv(text);
   if (!t.header.length) fail(`${path} is empty.`);
   return t;
 }
 
-function columns(p: Parsed, t: Table): { x: Cell[] | null; w: Cell[] | null; ys: { name: string; cells: Cell[] }[]; xDates: boolean } {
-  const col = (i: number): Cell[] => t.rows.map((r) => (i < r.length ? r[i] : null));
+/** Column i of a table as engine cells (from an all-numeric file, one packed array of numbers copied from its typed array). */
+function tableColumn(t: Table | NumericTable, i: number): Cell[] {
+  return 'columns' in t ? Array.from(t.columns[i]) : t.rows.map((r) => (i < r.length ? r[i] : null));
+}
+
+function columns(p: Parsed, t: Table | NumericTable): { x: Cell[] | null; w: Cell[] | null; ys: { name: string; cells: Cell[] }[]; xDates: boolean } {
+  const col = (i: number): Cell[] => tableColumn(t, i);
   const xSpec = one(p, '--x');
   const wSpec = one(p, '--w');
   const xi = xSpec !== undefined ? columnIndex(t, xSpec) : -1;
   const wi = wSpec !== undefined ? columnIndex(t, wSpec) : -1;
   const ySpecs = p.values.get('--y') ?? [String(t.header.length)];
   const ys = ySpecs.map((s) => { const i = columnIndex(t, s.trim()); return { name: t.header[i], cells: col(i) }; });
-  return { x: xi >= 0 ? col(xi) : null, w: wi >= 0 ? col(wi) : null, ys, xDates: xi >= 0 && t.dateColumns[xi] };
+  return { x: xi >= 0 ? col(xi) : null, w: wi >= 0 ? col(wi) : null, ys, xDates: xi >= 0 && 'rows' in t && t.dateColumns[xi] };
 }
 
 /** The engine options named on the command line: each declared flag's text, passed as typed (the engine checks it). */
@@ -99,8 +105,7 @@ function readEval(io: CliIO, path: string): number[] {
   const i = t.header.findIndex((h) => h.toLowerCase() === 'x');
   const k = i >= 0 ? i : 0;
   const xs: number[] = [];
-  t.rows.forEach((r, j) => {
-    const v = r[k];
+  tableColumn(t, k).forEach((v, j) => {
     if (typeof v !== 'number' || !Number.isFinite(v)) {
       const what = v === null || v === undefined ? 'blank' : typeof v === 'object' ? `the error value ${v.error}` : typeof v === 'boolean' ? (v ? 'TRUE' : 'FALSE') : typeof v === 'number' ? String(v) : JSON.stringify(v);
       throw new CliError(`${path}: row ${j + 1} of column "${t.header[k]}" is not a finite number (${what}); give one plain number per row.`, 1);
@@ -236,34 +241,95 @@ function textBreaks(o: Record<string, any>, st: TextStyle): string {
   return lines.join('\n');
 }
 
+type Command = 'fit' | 'breaks' | 'decompose';
+
+/** One column's analysis: what the command line runs per --y, here in order or spread over worker threads (threads.ts). */
+export interface ColumnJob {
+  command: Command;
+  parsed: Parsed;
+  name: string;
+  y: Cell[];
+  x: Cell[] | null;
+  w: Cell[] | null;
+  evalX: number[] | null;
+}
+
+/** Runs one column's analysis and shapes its output record. */
+export function runColumn(j: ColumnJob): Record<string, unknown> {
+  const spec = commands().find((c) => c.name === j.command)!;
+  if (j.command === 'fit') return fitOne(j.parsed, spec, j.name, j.y, j.x, j.w, j.evalX);
+  return j.command === 'breaks' ? breaksOne(j.parsed, spec, j.name, j.y, j.x, j.w) : decomposeOne(j.parsed, spec, j.name, j.y, j.x, j.w);
+}
+
+interface Plan {
+  command: Command;
+  p: Parsed;
+  jobs: ColumnJob[];
+  xDates: boolean;
+  x: Cell[] | null;
+  /** Where to write instead of printing (--out). */
+  outPath?: string;
+}
+
+/** Reads the arguments and the file: the help's exit code, or the columns to run. */
+function prepare(argv: string[], io: CliIO): number | Plan {
+  const [command, ...rest] = argv;
+  if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText(rest[0])); return command ? 0 : 2; }
+  if (command !== 'fit' && command !== 'breaks' && command !== 'decompose') fail(`unknown command "${command}"; use fit, breaks, decompose or help.`);
+  const cmd = command as Command;
+  const spec = commands().find((c) => c.name === cmd)!;
+  const p = parseArgs(rest, spec, fail);
+  if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
+  const outPath = one(p, '--out');
+  if (p.switches.has('--force') && outPath === undefined) fail('--force only applies with --out FILE.');
+  if (outPath !== undefined) checkOut(io, outPath, p.switches.has('--force'));
+  const t = readTable(io, p.positional[0]);
+  const { x, w, ys, xDates } = columns(p, t);
+  const evalPath = one(p, '--eval');
+  const evalX = cmd === 'fit' && evalPath ? readEval(io, evalPath) : null;
+  return { command: cmd, p, xDates, x, outPath, jobs: ys.map((c) => ({ command: cmd, parsed: p, name: c.name, y: c.cells, x, w, evalX })) };
+}
+
+function print(io: CliIO, plan: Plan, computed: Record<string, unknown>[]): number {
+  const { command, p, xDates, x, jobs, outPath } = plan;
+  const results = xDates ? computed.map(withDates) : computed;
+  const text = p.switches.has('--json')
+    ? JSON.stringify(results.length === 1 ? results[0] : results)
+    : results.map((r, i) => { const st = textStyle(xDates, x, jobs[i].y); return command === 'fit' ? textFit(r, st) : command === 'breaks' ? textBreaks(r, st) : textDecompose(r); }).join('\n');
+  if (outPath === undefined) io.out(text);
+  else writeOut(io, outPath, text + '\n', p.switches.has('--force'));
+  return 0;
+}
+
+function report(io: CliIO, e: unknown): number {
+  if (e instanceof CliError) { io.err(`knotwise: ${e.message}`); return e.exitCode; }
+  if (isKnotwiseError(e)) { io.err(`knotwise: ${e.message}`); return 1; }
+  io.err(`knotwise: unexpected failure: ${e instanceof Error ? e.message : String(e)}`);
+  return 1;
+}
+
 /** Runs the command line; returns the exit code (0 done, 1 data or option refused, 2 usage). */
 export function runCli(argv: string[], io: CliIO): number {
   try {
-    const [command, ...rest] = argv;
-    if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText(rest[0])); return command ? 0 : 2; }
-    if (command !== 'fit' && command !== 'breaks' && command !== 'decompose') fail(`unknown command "${command}"; use fit, breaks, decompose or help.`);
-    const spec = commands().find((c) => c.name === command)!;
-    const p = parseArgs(rest, spec, fail);
-    if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
-    const outPath = one(p, '--out');
-    if (p.switches.has('--force') && outPath === undefined) fail('--force only applies with --out FILE.');
-    if (outPath !== undefined) checkOut(io, outPath, p.switches.has('--force'));
-    const t = readTable(io, p.positional[0]);
-    const { x, w, ys, xDates } = columns(p, t);
-    const evalPath = one(p, '--eval');
-    const evalX = command === 'fit' && evalPath ? readEval(io, evalPath) : null;
-    const computed = ys.map((c) => (command === 'fit' ? fitOne(p, spec, c.name, c.cells, x, w, evalX) : command === 'breaks' ? breaksOne(p, spec, c.name, c.cells, x, w) : decomposeOne(p, spec, c.name, c.cells, x, w)));
-    const results = xDates ? computed.map(withDates) : computed;
-    const text = p.switches.has('--json')
-      ? JSON.stringify(results.length === 1 ? results[0] : results)
-      : results.map((r, i) => { const st = textStyle(xDates, x, ys[i].cells); return command === 'fit' ? textFit(r, st) : command === 'breaks' ? textBreaks(r, st) : textDecompose(r); }).join('\n');
-    if (outPath === undefined) io.out(text);
-    else writeOut(io, outPath, text + '\n', p.switches.has('--force'));
-    return 0;
+    const plan = prepare(argv, io);
+    if (typeof plan === 'number') return plan;
+    return print(io, plan, plan.jobs.map(runColumn));
   } catch (e) {
-    if (e instanceof CliError) { io.err(`knotwise: ${e.message}`); return e.exitCode; }
-    if (isKnotwiseError(e)) { io.err(`knotwise: ${e.message}`); return 1; }
-    io.err(`knotwise: unexpected failure: ${e instanceof Error ? e.message : String(e)}`);
-    return 1;
+    return report(io, e);
+  }
+}
+
+/**
+ * The command line with the columns run by `runColumns` (e.g. spread over
+ * worker threads): same output, same order, same exit codes as {@link runCli}.
+ * `runColumns` rejects with the error of the first failing column in order.
+ */
+export async function runCliWith(argv: string[], io: CliIO, runColumns: (jobs: ColumnJob[]) => Promise<Record<string, unknown>[]>): Promise<number> {
+  try {
+    const plan = prepare(argv, io);
+    if (typeof plan === 'number') return plan;
+    return print(io, plan, await runColumns(plan.jobs));
+  } catch (e) {
+    return report(io, e);
   }
 }

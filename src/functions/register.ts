@@ -1,8 +1,13 @@
 /**
  * Entry of the custom-functions bundle: associates every worksheet function
  * with the id its JSDoc `@customfunction` tag declares (functions.json is
- * generated from those tags at build time).
+ * generated from those tags at build time), and on a page with Web Workers
+ * (Excel's shared runtime of pane and functions, the preview) sends their
+ * requests to the page's worker pool, so no calculation blocks Excel and the
+ * pane and the functions share one cache and one pool.
  */
+import { pageRuntime } from '../runtime/browser/pageRuntime';
+import { useCompute } from './compute';
 import { smooth, penalty, summary, knots, evaluateAt } from './smoothing';
 import { breaks, segments, breakScan, breakPath } from './breaks';
 import { options } from './options';
@@ -21,6 +26,9 @@ export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   OPTIONS: options,
   DECOMPOSE: decompose,
 };
+
+const runtime = pageRuntime();
+if (runtime.pool) useCompute((request, signal) => runtime.client.compute(request, { signal }));
 
 if (typeof CustomFunctions !== 'undefined') {
   for (const [id, fn] of Object.entries(worksheetFunctions)) CustomFunctions.associate(id, fn);

@@ -4,9 +4,35 @@
  * returned results by view.ts. No numerics here: the engine fits, checks and
  * warns.
  */
-import { Cell, FitOptions, FitResult, Series, breaksFromCells, evaluate, fitCells, numberFromText, ruleOptions } from '../engine';
+import { Cell, FitOptions, FitResult, Series, SeriesBreaks, SeriesFit, evaluate, findAnalysis, numberFromText, ruleOptions } from '../engine';
+import { AnalysisRequest, AnalysisResult, runAnalysis } from '../runtime/engineEntry';
 import type { BreaksModel, BreaksOptions, BreaksResult, CropsRow } from '../engine/breaks/types';
 import type { CellBlock } from './workbook';
+
+/** Runs one analysis request: the page's worker pool in the pane, or this thread by default. */
+export type Compute = (request: AnalysisRequest) => Promise<AnalysisResult>;
+const asFit = (o: AnalysisResult): SeriesFit => ({ series: o.series, result: o.smooth! });
+const asBreaks = (o: AnalysisResult): SeriesBreaks => ({ series: o.series, result: o.breaks! });
+
+/** The pane's smoother options as a request with the declared option names (as fitCells translates them). */
+function smoothRequest(sel: { y: Cell[]; x: Cell[] | null; w: Cell[] | null }, options: FitOptions): AnalysisRequest {
+  const { method = 'spline', oneSE, select, relaxed, gridSize, ...rest } = options;
+  const o: Record<string, unknown> = { ...rest };
+  if (select !== undefined) o.rule = oneSE && String(select).toLowerCase() === 'cv' ? 'cv-simpler' : select;
+  else if (oneSE) o.rule = 'cv-simpler';
+  if (relaxed !== undefined) o.refit = relaxed;
+  if (gridSize !== undefined) o.searchPoints = gridSize;
+  return { analysis: method, family: 'smoother', y: sel.y, x: sel.x, w: sel.w, options: o };
+}
+
+/** The pane's changepoint options as a request: a number is the penalty, a word the rule, a range the penalty path. */
+function breaksRequest(sel: { y: Cell[]; x: Cell[] | null; w: Cell[] | null }, bo: BreaksOptions): AnalysisRequest {
+  const o: Record<string, unknown> = {};
+  if (typeof bo.penalty === 'number') o.penalty = bo.penalty;
+  else if (bo.penalty !== undefined) o.rule = bo.penalty;
+  if (bo.crops) o.penaltyRange = bo.crops;
+  return { analysis: findAnalysis(bo.model, 'changepoints').def.name, family: 'changepoints', y: sel.y, x: sel.x, w: sel.w, options: o };
+}
 
 export type Choice =
   | { kind: 'smooth'; method: 'spline' | 'trend'; order?: number }
@@ -64,12 +90,17 @@ export type Analysis =
       path?: CropsRow[] };
 
 /** Runs the chosen analysis on a selection. Throws the engine's errors unchanged. */
-export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): Analysis {
+/**
+ * The chosen analysis as a sequence of engine requests: it yields each request
+ * and receives its result, so one description runs on this thread
+ * ({@link analyse}) or through the page's worker pool ({@link analyseWith}).
+ */
+function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice): Generator<AnalysisRequest, Analysis, AnalysisResult> {
   const sel = splitSelection(block);
   if (choice.kind === 'smooth') {
     const options: FitOptions = { method: choice.method, ...penaltyOptions(pen) };
     if (choice.method === 'trend') options.order = choice.order ?? 1;
-    const { series, result } = fitCells(sel.y, sel.x, sel.w, options);
+    const { series, result } = asFit(yield smoothRequest(sel, options));
     const n = series.n;
     const span = series.x[n - 1] - series.x[0];
     const from = series.x[n - 1], to = from + 0.08 * span;
@@ -78,13 +109,29 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): A
     return { kind: 'smooth', choice, sel, series, result, beyond };
   }
   const bo: BreaksOptions = { model: choice.model, ...breaksPenalty(pen) };
-  const { series, result } = breaksFromCells(sel.y, sel.x, sel.w, bo);
+  const { series, result } = asBreaks(yield breaksRequest(sel, bo));
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
   // The slope model's exact search is costly, so its path is drawn on shorter series only.
   let path: CropsRow[] | undefined;
   if (choice.model !== 'slope' || series.n <= 2000) {
     const beta = result.penalty.value;
-    path = breaksFromCells(sel.y, sel.x, sel.w, { ...bo, crops: [beta / 10, beta * 10] }).result.crops ?? [];
+    path = asBreaks(yield breaksRequest(sel, { ...bo, crops: [beta / 10, beta * 10] })).result.crops ?? [];
   }
   return { kind: 'breaks', choice, sel, series, result, path };
+}
+
+/** Runs the chosen analysis on a selection on this thread. Throws the engine's errors unchanged. */
+export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): Analysis {
+  const it = steps(block, choice, pen);
+  let step = it.next();
+  while (!step.done) step = it.next(runAnalysis(step.value));
+  return step.value;
+}
+
+/** Runs the chosen analysis with each engine request answered by `compute` (the page's worker pool in the pane). */
+export async function analyseWith(block: CellBlock, choice: Choice, pen: PenaltyChoice, compute: Compute): Promise<Analysis> {
+  const it = steps(block, choice, pen);
+  let step = it.next();
+  while (!step.done) step = it.next(await compute(step.value));
+  return step.value;
 }

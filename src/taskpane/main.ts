@@ -8,7 +8,10 @@ import uPlot from 'uplot';
 import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
-import { analyse, Choice, PenaltyChoice, splitSelection } from './analysis';
+import { analyseWith, Choice, PenaltyChoice, splitSelection } from './analysis';
+import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
+import { isCancelled } from '../runtime/engineEntry';
+import { ProgressBox } from './progress';
 import { axisFontSizes, axisFor, drawCurve, drawFit, resizeCharts } from './chart';
 import { readOwnTable } from './ownData';
 import { reportStart, sharePlan } from './share';
@@ -238,19 +241,26 @@ async function boot(inExcel: boolean): Promise<void> {
     const r = $<HTMLSelectElement>('rule').value;
     $('rule-value').hidden = !(r === 'df' || r === 'value');
   };
+  const progress = new ProgressBox($('status'));
+  pageRuntime().pool?.warm(1); // load one analysis worker now, so the first fit does not wait for it
   $('run').onclick = async () => {
+    const run = progress.start();
     let block: CellBlock | null = null;
     try {
       block = await wb.readSelection();
       showStatus(`Fitting ${block.address} ...`);
-      const analysis = analyse(block, choiceFrom($<HTMLSelectElement>('method').value), penaltyFrom());
+      // The fit runs in a worker: the pane stays responsive, shows progress and can cancel.
+      const analysis = await analyseWith(block, choiceFrom($<HTMLSelectElement>('method').value), penaltyFrom(), (r) => compute(r, run));
       const view = viewOf(analysis, block, { version: VERSION, date: new Date().toISOString().slice(0, 10) });
       last = { block, view };
       renderView(view);
       showStatus(`Fitted ${block.address}.`);
     } catch (e) {
+      if (isCancelled(e)) { if (!run.superseded) showStatus('Fit cancelled: nothing new was fitted.'); return; }
       $('results').hidden = true;
       showStatus(errorText(e, block), 'error');
+    } finally {
+      run.done();
     }
   };
   let resizeTimer = 0;
