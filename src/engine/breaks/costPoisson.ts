@@ -13,7 +13,9 @@ const { log } = Math;
  * twice the Poisson negative log-likelihood at the segment's rate S / W, up to the
  * constant sum log(y_i!) (Killick et al. 2012; Killick & Eckley 2014, J Stat Softw 58(3)).
  * Weights are case weights (a weight of 2 counts the row twice), not exposures.
- * Unchecked: y are non-negative integers, w > 0.
+ * Segment sums come from two sets of prefix sums, one for values up to 2^53 / n and
+ * one for larger ones, so a single huge count (1e155) cannot wipe out the small counts
+ * of every later segment by cancellation. Unchecked: y >= 0, w > 0.
  *
  * @param y - counts
  * @param w - case weights
@@ -26,14 +28,18 @@ export function poissonCost(y: Float64Array, w: Float64Array): SegmentCost {
   const n = y.length;
   const sw = new Float64Array(n + 1);
   const sy = new Float64Array(n + 1);
+  const big = new Float64Array(n + 1);
+  const limit = 2 ** 53 / Math.max(1, n);
   for (let i = 0; i < n; i++) {
     sw[i + 1] = sw[i] + w[i];
-    sy[i + 1] = sy[i] + w[i] * y[i];
+    const v = w[i] * y[i];
+    sy[i + 1] = sy[i] + (v <= limit ? v : 0);
+    big[i + 1] = big[i] + (v <= limit ? 0 : v);
   }
   return {
     n,
     cost(s: number, t: number): number {
-      const S = sy[t] - sy[s];
+      const S = (big[t] - big[s]) + (sy[t] - sy[s]);
       if (!(S > 0)) return 0;
       return 2 * (S - S * log(S / (sw[t] - sw[s])));
     },

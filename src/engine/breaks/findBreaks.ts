@@ -5,6 +5,7 @@ import { KnotwiseError } from '../errors';
 import type { Series } from '../series';
 import { slopeBreaks } from './slopeBreaks';
 import { stepBreaks } from './stepBreaks';
+import { levelBreaks } from './levelBreaks';
 import type { BreaksOptions, BreaksResult } from './types';
 import { validateBreaksOptions } from './validateBreaksOptions';
 
@@ -58,5 +59,5 @@ export function findBreaks(series: Series, options: BreaksOptions): BreaksResult
   if (series.n < Math.max(2, o.minSegment)) {
     throw new KnotwiseError('too-few-points', `changepoints need at least ${Math.max(2, o.minSegment)} usable points (minSegment ${o.minSegment}); got ${series.n}.`);
   }
-  return o.model === 'slope' ? slopeBreaks(series, o) : stepBreaks(series, o);
+  return o.model === 'slope' ? slopeBreaks(series, o) : o.model === 'mean' ? levelBreaks(series, o) : stepBreaks(series, o);
 }

@@ -1,10 +1,10 @@
 /**
- * Piecewise-constant models ('mean', 'meanvar', 'poisson', 'distribution') by PELT.
+ * Piecewise-constant models ('meanvar', 'poisson', 'distribution') by PELT; 'mean' has
+ * its own FPOP search ({@link levelBreaks}).
  */
 import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
 import { warning, listRows, type Warning } from '../warnings';
-import { meanCost } from './costMean';
 import { meanVarCost, MEANVAR_FLOOR } from './costMeanVar';
 import { recordingResolution } from './recordingResolution';
 import { poissonCost } from './costPoisson';
@@ -13,11 +13,11 @@ import { cropsWithCounts } from './crops';
 import { pelt } from './pelt';
 import { parametersPerChange, penaltyValue } from './penaltyValue';
 import { noiseScale } from '../robustSigma';
-import { median } from '../median';
 import { weightedMoments } from '../weightedMoments';
 import type { SegmentCost } from './segmentCost';
-import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation, summariseSegment } from './summariseSegment';
-import type { Break, BreaksResult, SegmentSummary } from './types';
+import { breakCauseWarning, summariseSegment } from './summariseSegment';
+import type { Break, BreaksResult, NoiseTreatment, SegmentSummary } from './types';
+import { correlationNote, noiseTreatment } from './noiseCorrelation';
 import type { ResolvedBreaksOptions } from './validateBreaksOptions';
 
 const NO_INTERVAL = { given: false as const, note: 'PELT returns the optimal location only; no confidence interval is computed.' };
@@ -40,15 +40,11 @@ export function givenOrEstimatedSigma(given: number | undefined, y: ArrayLike<nu
   return { value: est.value, source: 'estimated' };
 }
 
-/** Builds the segment cost of a piecewise-constant model, with its scale notes. Unchecked options (validated). */
-export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; sigma?: { value: number; source: 'given' | 'estimated' }; notes: Warning[]; floorNote?: string } {
+/** Builds the segment cost of a PELT model ('meanvar', 'poisson', 'distribution'), with its notes. Unchecked options (validated). */
+export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; notes: Warning[]; floorNote?: string } {
   const { y, w } = series;
   const notes: Warning[] = [];
   switch (o.model) {
-    case 'mean': {
-      const sigma = givenOrEstimatedSigma(o.sigma, y, 1, notes);
-      return { cost: meanCost(y, w, sigma.value, median(y)), sigma, notes };
-    }
     case 'meanvar': {
       const { mean: m, sd: scale } = weightedMoments(y, w);
       const q = recordingResolution(y);
@@ -56,11 +52,16 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
       return { cost: meanVarCost(y, w, m, scale, floor), notes, floorNote: q > 0 && floor > MEANVAR_FLOOR ? `the rounding variance (${showNumber(q)})^2 / 12 of values recorded to ${showNumber(q)}` : `${MEANVAR_FLOOR} times the series variance` };
     }
     case 'poisson': {
+      const fractional: number[] = [];
       for (let i = 0; i < series.n; i++) {
         const v = y[i];
-        if (v < 0 || !Number.isInteger(v)) {
+        if (v < 0) {
           throw new KnotwiseError('bad-data', `model 'poisson' needs counts (whole numbers >= 0); row ${series.firstRow[i] + 1} holds ${showNumber(v)}. Use model 'mean' for measurements.`);
         }
+        if (!Number.isInteger(v)) fractional.push(series.firstRow[i]);
+      }
+      if (fractional.length) {
+        notes.push(warning('note', `model 'poisson' is meant for counts, but ${fractional.length} value${fractional.length === 1 ? ' is' : 's are'} not whole (row${fractional.length === 1 ? '' : 's'} ${listRows(fractional)}, e.g. ${showNumber(y[series.rowOf[fractional[0]]])}); the rate model still runs, but its penalty assumes count noise (variance equal to the mean). For measurements or rates use model 'mean' or 'meanvar'.`, fractional));
       }
       return { cost: poissonCost(y, w), notes };
     }
@@ -77,10 +78,11 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
  */
 export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResult {
   const n = series.n;
-  const { cost, sigma, notes, floorNote } = stepCost(series, o);
+  const { cost, notes, floorNote } = stepCost(series, o);
   const allowed = changeAllowed(series.x);
   const p = parametersPerChange(o.model);
-  const beta = penaltyValue(o.penalty, n, p);
+  const noise: NoiseTreatment | undefined = o.model === 'meanvar' ? noiseTreatment(series.y, o) : undefined;
+  const beta = penaltyValue(o.penalty, n, p) * (noise ? noise.penaltyFactor : 1);
   const seg = pelt(cost, beta, o.minSegment, allowed);
   let runs = 1;
   let evaluations = seg.evaluations;
@@ -114,18 +116,24 @@ export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResu
   const breaks: Break[] = seg.changes.map((c, k) => {
     const before = segments[k], after = segments[k + 1];
     const change = o.model === 'poisson' ? after.rate - before.rate : o.model === 'distribution' ? after.median - before.median : after.mean - before.mean;
-    return { index: c, row: series.firstRow[c], x: series.x[c], before, after, change, uncertainty: NO_INTERVAL };
+    return { index: c, row: series.firstRow[c], x: series.x[c], before, after, change, changeSd: after.sd - before.sd, uncertainty: NO_INTERVAL };
   });
-  if (o.model === 'mean') {
-    const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted), n);
-    if (aw) warnings.push(aw);
+  if (noise) {
+    const cn = correlationNote(noise);
+    if (cn) warnings.push(cn);
+  }
+  if (o.model === 'poisson') {
+    const ow = overdispersionWarning(series, fitted, breaks.length);
+    if (ow) warnings.push(ow);
   }
   warnings.push(breakCauseWarning(breaks.length));
   return {
     model: o.model,
     penalty: { rule: typeof o.penalty === 'number' ? 'manual' : o.penalty, value: beta, parametersPerChange: p },
-    ...(sigma ? { sigma } : {}),
-    breaks, segments, fitted,
+    breaks, spikes: [],
+    ...(noise ? { noise: { assumption: noise.assumption, correlation: noise.correlation, penaltyFactor: noise.penaltyFactor } } : {}),
+    season: { adjusted: false, request: 'none', period: NaN, strength: NaN, note: '' },
+    segments, fitted,
     cost: seg.cost, penalisedCost: seg.penalisedCost,
     ...(table ? { crops: table } : {}),
     warnings,
@@ -134,4 +142,24 @@ export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResu
       stoppingRule: 'exact dynamic programme: one pass over the points, pruning candidates that can no longer be optimal (no tolerance).',
     },
   };
+}
+
+/**
+ * A note when counts vary far more than Poisson counts would about the fitted rates:
+ * the Pearson dispersion sum w (y - rate)^2 / rate / (n - segments) above 2 (common
+ * practice for over-dispersion; no single source). Over-dispersed counts (day-of-week
+ * swings, clustered events) make the Poisson penalty too small, so some breaks may be
+ * noise. Unchecked.
+ */
+export function overdispersionWarning(series: Series, fitted: Float64Array, breaks: number): Warning | null {
+  let chi = 0;
+  for (let i = 0; i < series.n; i++) {
+    const r = fitted[i];
+    if (r > 0) { const d = series.y[i] - r; chi += (series.w[i] * d * d) / r; }
+  }
+  const dof = series.n - breaks - 1;
+  if (dof < 10) return null;
+  const dispersion = chi / dof;
+  if (!(dispersion > 2)) return null;
+  return warning('note', `the counts vary about ${dispersion.toFixed(1)} times as much as Poisson counts would about the fitted rates (over-dispersion), so some of the ${breaks} break${breaks === 1 ? '' : 's'} may be noise: consider model 'mean' (or 'meanvar'), a season setting if there is a weekly or yearly pattern, or a higher penalty.`);
 }
