@@ -8,6 +8,8 @@ import { stepBreaks } from './stepBreaks';
 import { levelBreaks } from './levelBreaks';
 import type { BreaksOptions, BreaksResult } from './types';
 import { validateBreaksOptions } from './validateBreaksOptions';
+import { seasonForBreaks, seasonTreatment } from './seasonForBreaks';
+import { warning } from '../warnings';
 
 /**
  * Finds the exact optimal segmentation of a series under a per-change penalty:
@@ -59,5 +61,18 @@ export function findBreaks(series: Series, options: BreaksOptions): BreaksResult
   if (series.n < Math.max(2, o.minSegment)) {
     throw new KnotwiseError('too-few-points', `changepoints need at least ${Math.max(2, o.minSegment)} usable points (minSegment ${o.minSegment}); got ${series.n}.`);
   }
-  return o.model === 'slope' ? slopeBreaks(series, o) : o.model === 'mean' ? levelBreaks(series, o) : stepBreaks(series, o);
+  const multiplicative = o.model === 'poisson';
+  const season = o.season === 'none' ? null : seasonForBreaks(series, o.season, multiplicative);
+  const treatment = seasonTreatment(o.season, season);
+  const comp = season && season.seasonal ? season.component! : null;
+  let r: BreaksResult;
+  if (comp && multiplicative) r = stepBreaks(series, o, comp);
+  else {
+    const s = comp ? { ...series, y: Float64Array.from(series.y, (v, i) => v - comp[i]) } : series;
+    r = o.model === 'slope' ? slopeBreaks(s, o) : o.model === 'mean' ? levelBreaks(s, o) : stepBreaks(s, o);
+    if (comp) for (let i = 0; i < series.n; i++) r.fitted[i] += comp[i];
+  }
+  r.season = treatment;
+  if (treatment.adjusted) r.warnings.splice(r.warnings.length - 1, 0, warning('note', treatment.note));
+  return r;
 }

@@ -41,7 +41,7 @@ export function givenOrEstimatedSigma(given: number | undefined, y: ArrayLike<nu
 }
 
 /** Builds the segment cost of a PELT model ('meanvar', 'poisson', 'distribution'), with its notes. Unchecked options (validated). */
-export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; notes: Warning[]; floorNote?: string } {
+export function stepCost(series: Series, o: ResolvedBreaksOptions, exposure?: Float64Array): { cost: SegmentCost & { floored?(s: number, t: number): boolean }; notes: Warning[]; floorNote?: string } {
   const { y, w } = series;
   const notes: Warning[] = [];
   switch (o.model) {
@@ -63,7 +63,7 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
       if (fractional.length) {
         notes.push(warning('note', `model 'poisson' is meant for counts, but ${fractional.length} value${fractional.length === 1 ? ' is' : 's are'} not whole (row${fractional.length === 1 ? '' : 's'} ${listRows(fractional)}, e.g. ${showNumber(y[series.rowOf[fractional[0]]])}); the rate model still runs, but its penalty assumes count noise (variance equal to the mean). For measurements or rates use model 'mean' or 'meanvar'.`, fractional));
       }
-      return { cost: poissonCost(y, w), notes };
+      return { cost: poissonCost(y, w, exposure), notes };
     }
     default:
       if (series.weighted) notes.push(warning('note', "model 'distribution' ignores weights: its cost compares empirical distributions of the values."));
@@ -76,9 +76,9 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions): { cost: Segm
  * summarises the result (see {@link findBreaks} for the public contract). Unchecked
  * options (validated by the caller).
  */
-export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResult {
+export function stepBreaks(series: Series, o: ResolvedBreaksOptions, exposure?: Float64Array): BreaksResult {
   const n = series.n;
-  const { cost, notes, floorNote } = stepCost(series, o);
+  const { cost, notes, floorNote } = stepCost(series, o, exposure);
   const allowed = changeAllowed(series.x);
   const p = parametersPerChange(o.model);
   const noise: NoiseTreatment | undefined = o.model === 'meanvar' ? noiseTreatment(series.y, o) : undefined;
@@ -105,9 +105,15 @@ export function stepBreaks(series: Series, o: ResolvedBreaksOptions): BreaksResu
   for (let k = 0; k + 1 < bounds.length; k++) {
     const s = bounds[k], e = bounds[k + 1];
     const sum = summariseSegment(series, s, e - 1, o.model);
+    if (exposure) {
+      // rate per unit of the seasonal factor: sum w y / sum w e
+      let S = 0, E = 0;
+      for (let i = s; i < e; i++) { S += series.w[i] * series.y[i]; E += series.w[i] * exposure[i]; }
+      sum.rate = S / E; sum.level = sum.rate;
+    }
     if (cost.floored?.(s, e)) flooredRows.push(series.firstRow[s]);
-    const level = o.model === 'distribution' ? sum.median : sum.mean;
-    for (let i = s; i < e; i++) fitted[i] = level;
+    const level = o.model === 'distribution' ? sum.median : o.model === 'poisson' ? sum.rate : sum.mean;
+    for (let i = s; i < e; i++) fitted[i] = exposure ? level * exposure[i] : level;
     segments.push(sum);
   }
   if (flooredRows.length) {
