@@ -39,7 +39,7 @@ const DAY_MS = 86400000;
 const UNIX_EPOCH_SERIAL = 25569;
 
 /** Calendar phases of serial dates x for a given spacing, or null when the spacing is not a calendar one. Unchecked. */
-function calendarPhases(x: Float64Array): { phases: Int32Array; period: number; how: string } | null {
+function calendarPhases(x: Float64Array): { phases: Int32Array; period: number; how: string; angle?: Float64Array } | null {
   const n = x.length;
   if (n < 3) return null;
   const gaps = new Float64Array(n - 1);
@@ -52,12 +52,14 @@ function calendarPhases(x: Float64Array): { phases: Int32Array; period: number; 
     return { phases, period: 7, how: 'daily dates: the weekday pattern (period 7)' };
   }
   if (d >= 6.9 && d <= 7.1) {
+    const angle = new Float64Array(n);
     for (let i = 0; i < n; i++) {
       const t = date(Math.floor(x[i]));
       const day = Math.floor((t.getTime() - Date.UTC(t.getUTCFullYear(), 0, 1)) / DAY_MS);
       phases[i] = Math.min(51, Math.floor(day / 7));
+      angle[i] = (2 * Math.PI * day) / 365.25;
     }
-    return { phases, period: 52, how: 'weekly dates: the yearly pattern by week of the year (52 phases; the 52.18 weeks of a year are absorbed by placing each week by its calendar date, the last day or two of a year joining week 52)' };
+    return { phases, period: 52, angle, how: 'weekly dates: the yearly pattern as a function of the calendar day of the year (a year holds 52.18 weeks, so each week is placed by its date, not by a count of 52)' };
   }
   if (d >= 27.5 && d <= 31.5) {
     for (let i = 0; i < n; i++) phases[i] = date(Math.floor(x[i])).getUTCMonth();
@@ -133,42 +135,112 @@ export function seasonForBreaks(series: Series, request: 'auto' | number, multip
     phases = Int32Array.from({ length: n }, (_, i) => i % request);
     how = `period ${request} given, counted by position`;
   }
+  let angle: Float64Array | undefined;
+  if (request === 'auto') angle = calendarPhases(series.x)?.angle;
   const counts = new Int32Array(period);
   for (let i = 0; i < n; i++) counts[phases[i]]++;
-  for (let p = 0; p < period; p++) {
-    if (counts[p] < 2) return { seasonal: false, period, strength: NaN, multiplicative, how: `${how}; too short to estimate it (fewer than two points at some phase)` };
-  }
+  let fewest = n;
+  for (let p = 0; p < period; p++) fewest = Math.min(fewest, counts[p]);
+  if (fewest < 2) return { seasonal: false, period, strength: NaN, multiplicative, how: `${how}; too short to estimate it (fewer than two points at some phase)` };
+  // few cycles: a smooth pattern of a few harmonics instead of one free value per phase
+  const harmonics = fewest < 5 && period >= 4 ? Math.min(4, Math.floor((period - 1) / 2)) : 0;
+  if (harmonics && !angle) angle = Float64Array.from(phases, (p) => (2 * Math.PI * p) / period);
+  if (harmonics) how += `; ${harmonics} harmonics (too few cycles for a free value per phase)`;
   const width = period % 2 ? period : period + 1;
-  const byPhase: number[][] = Array.from({ length: period }, () => []);
-  const index = new Float64Array(period);
   const d = new Float64Array(n);
-  let raw = new Float64Array(period);
+  let fit: Float64Array = new Float64Array(n);
+  let df = period - 1;
   // two passes: the level from the series, then from the series without the first season estimate
   for (let pass = 0; pass < 2; pass++) {
-    const base = pass === 0 ? y : Float64Array.from(y, (v, i) => (multiplicative ? v / (index[phases[i]] || 1) : v - index[phases[i]]));
+    const base = pass === 0 ? y : Float64Array.from(y, (v, i) => (multiplicative ? (fit[i] > 0 ? v / fit[i] : v) : v - fit[i]));
     const level = runningMedian(base, width);
     for (let i = 0; i < n; i++) d[i] = multiplicative ? (level[i] > 0 ? y[i] / level[i] : 1) : y[i] - level[i];
-    for (const b of byPhase) b.length = 0;
-    for (let i = 0; i < n; i++) byPhase[phases[i]].push(d[i]);
-    raw = new Float64Array(period);
+    if (harmonics) { fit = harmonicFit(d, angle!, harmonics); df = 2 * harmonics; } else fit = phaseMedians(d, phases, period);
+    // centre: average 0 (additive) or 1 (multiplicative) over the points
     let mean = 0;
-    for (let p = 0; p < period; p++) { raw[p] = median(byPhase[p]); mean += raw[p] / period; }
-    for (let p = 0; p < period; p++) index[p] = multiplicative ? (mean > 0 ? raw[p] / mean : 1) : raw[p] - mean;
+    for (let i = 0; i < n; i++) mean += fit[i] / n;
+    for (let i = 0; i < n; i++) fit[i] = multiplicative ? (mean > 0 ? fit[i] / mean : 1) : fit[i] - mean;
+    if (multiplicative) for (let i = 0; i < n; i++) d[i] = mean > 0 ? d[i] / mean : d[i];
   }
-  const R = Float64Array.from(d, (v, i) => v - raw[phases[i]]);
-  const sd = madScale(d), sr = madScale(R);
+  const season = multiplicative ? Float64Array.from(fit, (v) => v - 1) : fit;
+  const dd = multiplicative ? Float64Array.from(d, (v) => v - 1) : d;
+  const R = Float64Array.from(dd, (v, i) => v - season[i]);
+  const sd = madScale(dd), sr = madScale(R);
   const strength = sd > 0 ? Math.max(0, 1 - (sr * sr) / (sd * sd)) : 0;
-  // no-season test: phase medians have variance about (pi / 2) sr^2 / n_p, so
-  // T = sum n_p (raw_p - mean)^2 / ((pi / 2) sr^2) is roughly chi-squared with P - 1 df
+  // no-season test: the fitted season's sum of squares against noise, roughly chi-squared
+  // with df degrees of freedom when there is none (phase medians carry the factor pi / 2)
   let T = 0;
-  let rawMean = 0;
-  for (let p = 0; p < period; p++) rawMean += raw[p] / period;
-  for (let p = 0; p < period; p++) T += (counts[p] * (raw[p] - rawMean) ** 2) / ((Math.PI / 2) * sr * sr);
-  const significant = sr > 0 ? T > chiSquaredUpper(period - 1, 3.09) : sd > 0;
+  for (let i = 0; i < n; i++) T += season[i] * season[i];
+  T /= (harmonics ? 1 : Math.PI / 2) * sr * sr;
+  const significant = sr > 0 ? T > chiSquaredUpper(df, 3.09) : sd > 0;
   const seasonal = request !== 'auto' || significant;
   if (!seasonal) return { seasonal, period, strength, multiplicative, how };
-  const component = Float64Array.from({ length: n }, (_, i) => index[phases[i]]);
-  return { seasonal, period, strength, component, multiplicative, how };
+  return { seasonal, period, strength, component: fit, multiplicative, how };
+}
+
+/** Median of d at each phase, per point. Unchecked. */
+function phaseMedians(d: Float64Array, phases: Int32Array, period: number): Float64Array {
+  const byPhase: number[][] = Array.from({ length: period }, () => []);
+  for (let i = 0; i < d.length; i++) byPhase[phases[i]].push(d[i]);
+  const m = byPhase.map((b) => median(b));
+  return Float64Array.from(phases, (p) => m[p]);
+}
+
+/**
+ * Least-squares fit of d on 1, cos(k a), sin(k a) for k = 1..K, refitted once with
+ * values beyond 3 robust sds of the first fit clipped (so spikes do not shape the
+ * season). Returns the fitted values without the constant. Unchecked.
+ */
+function harmonicFit(d: Float64Array, a: Float64Array, K: number): Float64Array {
+  const n = d.length, m = 2 * K + 1;
+  const row = (i: number, out: Float64Array): void => {
+    out[0] = 1;
+    for (let k = 1; k <= K; k++) { out[2 * k - 1] = Math.cos(k * a[i]); out[2 * k] = Math.sin(k * a[i]); }
+  };
+  const r = new Float64Array(m);
+  let target: Float64Array = d;
+  let coef: Float64Array = new Float64Array(m);
+  for (let pass = 0; pass < 2; pass++) {
+    const A = new Float64Array(m * m), b = new Float64Array(m);
+    for (let i = 0; i < n; i++) {
+      row(i, r);
+      for (let j = 0; j < m; j++) { b[j] += r[j] * target[i]; for (let k = 0; k < m; k++) A[j * m + k] += r[j] * r[k]; }
+    }
+    coef = solveSmall(A, b, m);
+    const fitted = Float64Array.from({ length: n }, (_, i) => { row(i, r); let v = 0; for (let j = 0; j < m; j++) v += coef[j] * r[j]; return v; });
+    const res = Float64Array.from(d, (v, i) => v - fitted[i]);
+    const lim = 3 * madScale(res);
+    target = Float64Array.from(d, (v, i) => fitted[i] + Math.max(-lim, Math.min(lim, v - fitted[i])));
+  }
+  return Float64Array.from({ length: n }, (_, i) => { row(i, r); let v = 0; for (let j = 1; j < m; j++) v += coef[j] * r[j]; return v; });
+}
+
+/** Gaussian elimination with partial pivoting for a small dense system. Unchecked. */
+function solveSmall(A: Float64Array, b: Float64Array, m: number): Float64Array {
+  const M = Float64Array.from(A), v = Float64Array.from(b);
+  for (let c = 0; c < m; c++) {
+    let piv = c;
+    for (let r = c + 1; r < m; r++) if (Math.abs(M[r * m + c]) > Math.abs(M[piv * m + c])) piv = r;
+    if (piv !== c) {
+      for (let k = 0; k < m; k++) { const t = M[c * m + k]; M[c * m + k] = M[piv * m + k]; M[piv * m + k] = t; }
+      const t = v[c]; v[c] = v[piv]; v[piv] = t;
+    }
+    const p = M[c * m + c];
+    if (p === 0) continue;
+    for (let r = c + 1; r < m; r++) {
+      const f = M[r * m + c] / p;
+      if (f === 0) continue;
+      for (let k = c; k < m; k++) M[r * m + k] -= f * M[c * m + k];
+      v[r] -= f * v[c];
+    }
+  }
+  const x = new Float64Array(m);
+  for (let c = m - 1; c >= 0; c--) {
+    let s = v[c];
+    for (let k = c + 1; k < m; k++) s -= M[c * m + k] * x[k];
+    x[c] = M[c * m + c] !== 0 ? s / M[c * m + c] : 0;
+  }
+  return x;
 }
 
 /** The season field of a result, with its plain-words note. Unchecked. */
