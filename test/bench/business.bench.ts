@@ -14,7 +14,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
   const seeds = quick ? 10 : 50;
   let detected = 0, planted = 0, falseTotal = 0, series = 0, controls = 0, clean = 0, spikesFound = 0, spikesPlanted = 0;
   for (const sc of BUSINESS_SCENARIOS) {
-    let d = 0, p = 0, f = 0, c = 0, errors = 0, sf = 0, sp = 0;
+    let d = 0, p = 0, f = 0, c = 0, errors = 0, sf = 0, sp = 0, d10 = 0;
     const t0 = performance.now();
     for (let seed = 1; seed <= seeds; seed++) {
       const s = sc.make(seed * 7919 + 13);
@@ -30,6 +30,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
       }
       const score = scoreChanges(found, s.truth);
       d += score.detected; p += s.truth.length; f += score.falseChanges;
+      d10 += scoreChanges(found, s.truth, 10).detected;
       if (sc.control && found.length === 0) c++;
       sp += s.spikes.length;
       sf += s.spikes.filter((k) => spikes.includes(k)).length;
@@ -38,6 +39,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
     emit({
       bench: 'business', scenario: sc.name, model: sc.model, series: seeds, errors,
       detection: sc.control ? undefined : d / Math.max(1, p),
+      detectionWithin10: sc.control ? undefined : d10 / Math.max(1, p),
       falsePerSeries: f / Math.max(1, ran),
       controlsClean: sc.control ? c / Math.max(1, ran) : undefined,
       spikesReported: sp ? sf / sp : undefined,

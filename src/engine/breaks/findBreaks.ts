@@ -62,7 +62,7 @@ export function findBreaks(series: Series, options: BreaksOptions): BreaksResult
     throw new KnotwiseError('too-few-points', `changepoints need at least ${Math.max(2, o.minSegment)} usable points (minSegment ${o.minSegment}); got ${series.n}.`);
   }
   const multiplicative = o.model === 'poisson';
-  const season = o.season === 'none' ? null : seasonForBreaks(series, o.season, multiplicative);
+  const season = o.season === 'none' ? null : seasonForBreaks(series, o.season, multiplicative, o.model === 'slope');
   const treatment = seasonTreatment(o.season, season);
   const comp = season && season.seasonal ? season.component! : null;
   let r: BreaksResult;

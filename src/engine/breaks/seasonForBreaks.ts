@@ -83,7 +83,7 @@ function madScale(v: Float64Array): number {
  * full width against the ends (a truncated window at the ends would follow one part
  * of a seasonal cycle). Unchecked.
  */
-export function runningMedian(y: Float64Array, width: number): Float64Array {
+export function runningMedian(y: Float64Array, width: number, trend = false): Float64Array {
   const n = y.length, h = Math.floor(width / 2);
   const out = new Float64Array(n);
   const buf = new Float64Array(2 * h + 1);
@@ -95,6 +95,12 @@ export function runningMedian(y: Float64Array, width: number): Float64Array {
     for (let k = 0; k < m; k++) buf[k] = y[a + k];
     const s = buf.subarray(0, m).sort();
     out[i] = m % 2 ? s[(m - 1) >> 1] : 0.5 * (s[m / 2 - 1] + s[m / 2]);
+  }
+  if (trend && n >= 2 * h + 1 + width) {
+    // a trend: the ends follow the line through the first (last) two full-window medians one period apart
+    const b0 = (out[h + width] - out[h]) / width, b1 = (out[n - 1 - h] - out[n - 1 - h - width]) / width;
+    for (let i = 0; i < h; i++) out[i] = out[h] - (h - i) * b0;
+    for (let i = n - h; i < n; i++) out[i] = out[n - 1 - h] + (i - (n - 1 - h)) * b1;
   }
   return out;
 }
@@ -118,12 +124,13 @@ export function runningMedian(y: Float64Array, width: number): Float64Array {
  * @param series - clean series
  * @param request - 'auto' or a period in points
  * @param multiplicative - the season multiplies the level (counts) rather than adds to it
+ * @param trend - the level may trend (the slope model): the running median's ends are extended along the trend
  * @example
  * ```ts
  * seasonForBreaks(weeklySeries, 'auto', false).period; // 52
  * ```
  */
-export function seasonForBreaks(series: Series, request: 'auto' | number, multiplicative: boolean): SeasonForBreaks {
+export function seasonForBreaks(series: Series, request: 'auto' | number, multiplicative: boolean, trend = false): SeasonForBreaks {
   const n = series.n, y = series.y;
   let phases: Int32Array, period: number, how: string;
   if (request === 'auto') {
@@ -153,7 +160,7 @@ export function seasonForBreaks(series: Series, request: 'auto' | number, multip
   // two passes: the level from the series, then from the series without the first season estimate
   for (let pass = 0; pass < 2; pass++) {
     const base = pass === 0 ? y : Float64Array.from(y, (v, i) => (multiplicative ? (fit[i] > 0 ? v / fit[i] : v) : v - fit[i]));
-    const level = runningMedian(base, width);
+    const level = runningMedian(base, width, trend);
     for (let i = 0; i < n; i++) d[i] = multiplicative ? (level[i] > 0 ? y[i] / level[i] : 1) : y[i] - level[i];
     if (harmonics) { fit = harmonicFit(d, angle!, harmonics); df = 2 * harmonics; } else fit = phaseMedians(d, phases, period);
     // centre: average 0 (additive) or 1 (multiplicative) over the points
