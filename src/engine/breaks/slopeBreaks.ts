@@ -68,6 +68,11 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
   const sigma = est.source === 'given' ? est.value : est.value / Math.sqrt(((1 - phi) * (3 - phi)) / 3);
   const source = est.source;
   const P = mergePositions(series, centre, sigma);
+  let ss = 0;
+  for (let k = 0; k < P.wyy.length; k++) ss += P.wyy[k];
+  if (!Number.isFinite(ss)) {
+    throw new KnotwiseError('bad-data', `the values span more than about 1e150 noise scales (noise scale ${showNumber(sigma)}), so the squared-error cost overflows; remove the far-off values, or use model 'mean', which sets single far-off values aside as spikes.`);
+  }
   const x0 = P.x[0], span = P.x[m - 1] - P.x[0];
   const u = new Float64Array(m);
   for (let k = 0; k < m; k++) u[k] = (P.x[k] - x0) / span;

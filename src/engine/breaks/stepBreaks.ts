@@ -13,6 +13,7 @@ import { cropsWithCounts } from './crops';
 import { pelt } from './pelt';
 import { parametersPerChange, penaltyValue } from './penaltyValue';
 import { noiseScale } from '../robustSigma';
+import { median } from '../median';
 import { weightedMoments } from '../weightedMoments';
 import type { SegmentCost } from './segmentCost';
 import { breakCauseWarning, summariseSegment } from './summariseSegment';
@@ -46,7 +47,15 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions, exposure?: Fl
   const notes: Warning[] = [];
   switch (o.model) {
     case 'meanvar': {
-      const { mean: m, sd: scale } = weightedMoments(y, w);
+      // a robust centre and spread (one far-off value must not set the scale of all others)
+      const m = median(y);
+      const mad = 1.4826 * median(Float64Array.from(y, (v) => Math.abs(v - m)));
+      const scale = mad > 0 ? mad : weightedMoments(y, w).sd;
+      let ss = 0;
+      for (let i = 0; i < y.length; i++) { const z = (y[i] - m) / scale; ss += w[i] * z * z; }
+      if (!Number.isFinite(ss)) {
+        throw new KnotwiseError('bad-data', `the values span more than about 1e150 times their typical spread (${showNumber(scale)}), so the variance cost overflows; remove the far-off values, or use model 'mean', which sets single far-off values aside as spikes.`);
+      }
       const q = recordingResolution(y);
       const floor = q > 0 ? (q / scale) ** 2 / 12 : MEANVAR_FLOOR;
       return { cost: meanVarCost(y, w, m, scale, floor), notes, floorNote: q > 0 && floor > MEANVAR_FLOOR ? `the rounding variance (${showNumber(q)})^2 / 12 of values recorded to ${showNumber(q)}` : `${MEANVAR_FLOOR} times the series variance` };
@@ -77,6 +86,58 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions, exposure?: Fl
  * options (validated by the caller).
  */
 export function stepBreaks(series: Series, o: ResolvedBreaksOptions, exposure?: Float64Array): BreaksResult {
+  const first = stepBreaksOnce(series, o, exposure);
+  if (o.minSegment !== 1 || o.crops || typeof o.penalty === 'number') return first;
+  // with a named penalty rule, a segment of one point between two changes is a spike,
+  // not two breaks: set such points aside, search again without them, and report them in
+  // spikes (a manual penalty or CROPS gives the exact optimum of the stated cost instead)
+  const single: number[] = [];
+  for (const seg of first.segments) if (seg.n === 1 && seg.start > 0 && seg.end < series.n - 1) single.push(seg.start);
+  if (!single.length || series.n - single.length < 2) return first;
+  const keep: number[] = [];
+  const drop = new Set(single);
+  for (let i = 0; i < series.n; i++) if (!drop.has(i)) keep.push(i);
+  const sub = subSeries(series, keep);
+  const r = stepBreaksOnce(sub, o, exposure ? Float64Array.from(keep, (i) => exposure[i]) : undefined);
+  return withSpikesBack(r, series, keep, single, exposure);
+}
+
+/** The points `keep` of a series, as a series of their own. Unchecked. */
+export function subSeries(series: Series, keep: readonly number[]): Series {
+  const rowOf = new Int32Array(series.rowOf.length).fill(-1);
+  keep.forEach((i, k) => { rowOf[series.firstRow[i]] = k; });
+  return {
+    ...series,
+    x: Float64Array.from(keep, (i) => series.x[i]), y: Float64Array.from(keep, (i) => series.y[i]), w: Float64Array.from(keep, (i) => series.w[i]),
+    firstRow: Int32Array.from(keep, (i) => series.firstRow[i]), rowOf, n: keep.length,
+  };
+}
+
+/** Maps a result on the kept points back to the full series, the dropped points reported as spikes of their segment. Unchecked. */
+function withSpikesBack(r: BreaksResult, series: Series, keep: readonly number[], dropped: readonly number[], exposure?: Float64Array): BreaksResult {
+  const n = series.n;
+  const starts = r.segments.map((sg, k) => (k === 0 ? 0 : keep[sg.start]));
+  const segments = r.segments.map((sg, k) => {
+    const start = starts[k], end = k + 1 < starts.length ? starts[k + 1] - 1 : n - 1;
+    return { ...sg, start, end, xStart: series.x[start], xEnd: series.x[end], rowStart: series.firstRow[start], rowEnd: series.firstRow[end], n: end - start + 1 };
+  });
+  const fitted = new Float64Array(n);
+  let k = 0;
+  for (let i = 0; i < n; i++) {
+    while (k + 1 < segments.length && i > segments[k].end) k++;
+    const lv = r.model === 'poisson' ? segments[k].rate : r.model === 'distribution' ? segments[k].median : segments[k].mean;
+    fitted[i] = exposure ? lv * exposure[i] : lv;
+  }
+  const breaks = r.breaks.map((b, j) => ({ ...b, index: keep[b.index], before: segments[j], after: segments[j + 1] }));
+  const spikes = dropped.map((i) => ({ index: i, row: series.firstRow[i], x: series.x[i], size: series.y[i] - fitted[i] }));
+  const rows = spikes.map((sp) => sp.row);
+  const warnings = [...r.warnings];
+  warnings.splice(warnings.length - 1, 0, warning('note', `${spikes.length} spike${spikes.length === 1 ? '' : 's'} (row${spikes.length === 1 ? '' : 's'} ${listRows(rows)}): single values that formed a segment of their own, set aside and listed in spikes, not counted as breaks. Check them for entry errors or one-off events.`, rows));
+  return { ...r, breaks, spikes, segments, fitted, warnings };
+}
+
+/** One PELT search and its summary. Unchecked. */
+function stepBreaksOnce(series: Series, o: ResolvedBreaksOptions, exposure?: Float64Array): BreaksResult {
   const n = series.n;
   const { cost, notes, floorNote } = stepCost(series, o, exposure);
   const allowed = changeAllowed(series.x);
