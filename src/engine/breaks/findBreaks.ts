@@ -7,6 +7,7 @@ import { slopeBreaks } from './slopeBreaks';
 import { stepBreaks } from './stepBreaks';
 import { levelBreaks } from './levelBreaks';
 import type { BreaksOptions, BreaksResult } from './types';
+import type { ResolvedBreaksOptions } from './validateBreaksOptions';
 import { validateBreaksOptions } from './validateBreaksOptions';
 import { seasonForBreaks, seasonTreatment } from './seasonForBreaks';
 import { warning } from '../warnings';
@@ -61,6 +62,7 @@ export function findBreaks(series: Series, options: BreaksOptions): BreaksResult
   if (series.n < Math.max(2, o.minSegment)) {
     throw new KnotwiseError('too-few-points', `changepoints need at least ${Math.max(2, o.minSegment)} usable points (minSegment ${o.minSegment}); got ${series.n}.`);
   }
+  refuseLongSearch(series.n, o);
   const multiplicative = o.model === 'poisson';
   const season = o.season === 'none' ? null : seasonForBreaks(series, o.season, multiplicative, o.model === 'slope');
   const treatment = seasonTreatment(o.season, season);
@@ -75,4 +77,30 @@ export function findBreaks(series: Series, options: BreaksOptions): BreaksResult
   r.season = treatment;
   if (treatment.adjusted) r.warnings.splice(r.warnings.length - 1, 0, warning('note', treatment.note));
   return r;
+}
+
+/**
+ * Largest series each model searches, so that no search runs much beyond 30 s: PELT
+ * ('meanvar', 'poisson', 'distribution') and CPOP ('slope') take time growing with the
+ * square of the segment lengths when changes are few. Limits from the benchmark on a
+ * series with no change (the slowest case), on a shared 2-core machine: meanvar 40,000
+ * points 6 s; poisson and distribution 15,000 points 3 s; slope 15,000 points 9.5 s.
+ * 'mean' uses functional pruning (near linear): no limit (a full column of 1,048,576
+ * rows takes about 1.5 to 3 s per search).
+ */
+export const LONGEST_SEARCH: Readonly<Record<string, number>> = { meanvar: 60000, poisson: 30000, distribution: 30000, slope: 20000 };
+
+/** Refuses, at once and saying what to do, a search that could run for minutes. Unchecked. */
+function refuseLongSearch(n: number, o: ResolvedBreaksOptions): void {
+  const limit = LONGEST_SEARCH[o.model];
+  if (limit !== undefined && n > limit) {
+    throw new KnotwiseError('bad-data', `model '${o.model}' on ${n.toLocaleString('en-US')} points is refused: its exact search can take time growing with the square of the series length when there are few changes (minutes at this size). Use at most ${limit.toLocaleString('en-US')} points (a shorter range, or the series aggregated to a coarser time step), or model 'mean' for changes in level, which handles a full column in seconds.`);
+  }
+  if (o.model === 'mean' && o.crops) {
+    // about 3 microseconds per point per search (biweight, measured): keep CROPS under ~30 s
+    const runs = Math.max(2, Math.floor(30 / (3e-6 * n)));
+    if (o.maxRuns > runs) {
+      throw new KnotwiseError('bad-option', `crops on ${n.toLocaleString('en-US')} points may run up to maxRuns ${o.maxRuns} searches of about ${(3e-6 * n).toFixed(1)} s each; give maxRuns ${runs} or less, or a shorter range.`);
+    }
+  }
 }

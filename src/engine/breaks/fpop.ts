@@ -82,13 +82,28 @@ export function fpop(z: Float64Array, w: Float64Array, loss: LevelLoss, penalty:
     }
   } else {
     let Q: PiecewiseQuadratic | null = null;
-    const pending: { start: number; f: PiecewiseQuadratic }[] = [{ start: 0, f: new PiecewiseQuadratic(lo, hi, 0, 0) }];
+    // pending starts, oldest first, in a ring of minSegment reusable functions
+    const ring: PiecewiseQuadratic[] = [];
+    const ringStart: number[] = [];
+    let head = 0, count = 0;
+    const pool: PiecewiseQuadratic[] = [];
+    const take = (c: number, label: number): PiecewiseQuadratic => {
+      const f = pool.pop();
+      if (f) { f.reset(c, label); return f; }
+      return new PiecewiseQuadratic(lo, hi, c, label);
+    };
+    const push = (start: number, f: PiecewiseQuadratic): void => {
+      const slot = (head + count) % minSegment;
+      ring[slot] = f; ringStart[slot] = start; count++;
+    };
+    push(0, take(0, 0));
     for (let t = 1; t <= n; t++) {
       if (Q) add(Q, t - 1);
-      for (const p of pending) add(p.f, t - 1);
-      while (pending.length && t - pending[0].start >= minSegment) {
-        const p = pending.shift()!;
-        if (Q) Q.minWith(p.f); else Q = p.f;
+      for (let k = 0; k < count; k++) add(ring[(head + k) % minSegment], t - 1);
+      while (count && t - ringStart[head] >= minSegment) {
+        const f = ring[head];
+        head = (head + 1) % minSegment; count--;
+        if (Q) { Q.minWith(f); pool.push(f); } else Q = f;
       }
       if (Q) {
         const best = Q.minimum();
@@ -96,7 +111,7 @@ export function fpop(z: Float64Array, w: Float64Array, loss: LevelLoss, penalty:
         evaluations += Q.size;
         if (Q.size > maxCandidates) maxCandidates = Q.size;
       }
-      if (t < n && F[t] < INF && (!allowed || allowed[t] === 1)) pending.push({ start: t, f: new PiecewiseQuadratic(lo, hi, F[t] + penalty, t) });
+      if (t < n && F[t] < INF && (!allowed || allowed[t] === 1)) push(t, take(F[t] + penalty, t));
     }
   }
   const changes: number[] = [];

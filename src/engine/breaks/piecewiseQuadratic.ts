@@ -43,6 +43,11 @@ export class PiecewiseQuadratic {
     this.left[0] = lo; this.a[0] = 0; this.m[0] = 0; this.c[0] = c; this.label[0] = label; this.size = 1;
   }
 
+  /** Resets to one constant piece c with the given label (reuse without allocation). */
+  reset(c: number, label: number): void {
+    this.left[0] = this.lo; this.a[0] = 0; this.m[0] = 0; this.c[0] = c; this.label[0] = label; this.size = 1;
+  }
+
   /** A copy (for pending candidates). */
   clone(): PiecewiseQuadratic {
     const q = new PiecewiseQuadratic(this.lo, this.hi, 0, 0, Math.max(8, this.size * 2));
