@@ -178,15 +178,21 @@ export class PiecewiseQuadratic {
 
   /** Emits min(p, q) on [l, r), splitting at the crossings. */
   private minPieces(l: number, r: number, a1: number, m1: number, c1: number, lab1: number, a2: number, m2: number, c2: number, lab2: number): void {
+    // quick dominance: q's minimum on [l, r] at or above p's maximum (at an end, p convex) keeps p
+    const e1l = l - m1, e1r = r - m1;
+    const pMax = a1 === 0 ? c1 : a1 * Math.max(e1l * e1l, e1r * e1r) + c1;
+    const at = m2 < l ? l : m2 > r ? r : m2;
+    const qMin = a2 === 0 ? c2 : a2 * (at - m2) * (at - m2) + c2;
+    if (qMin >= pMax) { this.emit(l, a1, m1, c1, lab1); return; }
     // difference p - q in u = mu - l: A u^2 + B u + D
     const d1 = l - m1, d2 = l - m2;
     const A = a1 - a2;
     const B = 2 * (a1 * d1 - a2 * d2);
     const D = (a1 === 0 ? 0 : a1 * d1 * d1) + c1 - (a2 === 0 ? 0 : a2 * d2 * d2) - c2;
     const width = r - l;
-    const cuts: number[] = [];
+    let cut1 = width, cut2 = width;
     if (A === 0) {
-      if (B !== 0) { const u = -D / B; if (u > 0 && u < width) cuts.push(u); }
+      if (B !== 0) { const u = -D / B; if (u > 0 && u < width) cut1 = u; }
     } else {
       const disc = B * B - 4 * A * D;
       if (disc > 0) {
@@ -194,19 +200,20 @@ export class PiecewiseQuadratic {
         const qq = -0.5 * (B + (B >= 0 ? s : -s));
         const u1 = qq / A, u2 = qq !== 0 ? D / qq : u1;
         const lo = u1 < u2 ? u1 : u2, hi = u1 < u2 ? u2 : u1;
-        if (lo > 0 && lo < width) cuts.push(lo);
-        if (hi > 0 && hi < width && hi !== lo) cuts.push(hi);
+        if (lo > 0 && lo < width) { cut1 = lo; if (hi > lo && hi < width) cut2 = hi; } else if (hi > 0 && hi < width) cut1 = hi;
       }
     }
-    let from = 0;
-    cuts.push(width);
-    for (const u of cuts) {
-      const mid = l + (from + u) / 2;
-      const e1 = mid - m1, e2 = mid - m2;
-      const v1 = (a1 === 0 ? 0 : a1 * e1 * e1) + c1, v2 = (a2 === 0 ? 0 : a2 * e2 * e2) + c2;
-      if (v1 <= v2) this.emit(l + from, a1, m1, c1, lab1); else this.emit(l + from, a2, m2, c2, lab2);
-      from = u;
-    }
+    this.emitSmaller(l, 0, cut1, a1, m1, c1, lab1, a2, m2, c2, lab2);
+    if (cut1 < width) this.emitSmaller(l, cut1, cut2, a1, m1, c1, lab1, a2, m2, c2, lab2);
+    if (cut2 < width) this.emitSmaller(l, cut2, width, a1, m1, c1, lab1, a2, m2, c2, lab2);
+  }
+
+  /** Emits whichever of p, q is smaller at the middle of [l + from, l + to). */
+  private emitSmaller(l: number, from: number, to: number, a1: number, m1: number, c1: number, lab1: number, a2: number, m2: number, c2: number, lab2: number): void {
+    const mid = l + (from + to) / 2;
+    const e1 = mid - m1, e2 = mid - m2;
+    const v1 = (a1 === 0 ? 0 : a1 * e1 * e1) + c1, v2 = (a2 === 0 ? 0 : a2 * e2 * e2) + c2;
+    if (v1 <= v2) this.emit(l + from, a1, m1, c1, lab1); else this.emit(l + from, a2, m2, c2, lab2);
   }
 
   /** The minimum over mu: value, label of its piece, and the minimising mu (the smallest on ties). */
