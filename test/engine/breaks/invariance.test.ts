@@ -87,7 +87,8 @@ describe('hard values', () => {
       expect(r.breaks).toEqual([]);
       expect(Number.isFinite(r.penalisedCost)).toBe(true);
       for (const w of r.warnings) expect(w.message).not.toMatch(/raise the penalty/i);
-      expect(r.warnings.some((w) => w.code === 'autocorrelation')).toBe(true);
+      // the Gaussian level and slope models check their residuals: correlated, with advice that fits no break
+      if (model !== 'meanvar') expect(r.warnings.find((w) => w.code === 'autocorrelation')?.message).toMatch(/no change was found/);
     }
   });
 });
