@@ -6,7 +6,7 @@ const HtmlWebpackPlugin = require('html-webpack-plugin');
 const CopyWebpackPlugin = require('copy-webpack-plugin');
 const CustomFunctionsMetadataPlugin = require('custom-functions-metadata-plugin');
 
-const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts'];
+const FUNCTION_FILES = ['./src/functions/smoothing.ts', './src/functions/breaks.ts', './src/functions/options.ts'];
 
 module.exports = (env, argv) => ({
   mode: argv.mode || 'production',

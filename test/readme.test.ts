@@ -31,12 +31,21 @@ function argValue(a: string): unknown {
 describe('README formulas', () => {
   test('the tour lists formulas', () => expect(formulas.length).toBeGreaterThanOrEqual(8));
   for (const f of formulas) {
-    test(`=KNOTWISE.${f.name}(${f.args}) runs on the demo data`, () => {
+    test(`=KNOTWISE.${f.name}(${f.args}) runs on the demo data`, async () => {
       const fn = worksheetFunctions[f.name];
       expect(fn).toBeDefined();
-      const out = fn(...f.args.split(',').map(argValue));
+      const out = await fn(...f.args.split(',').map(argValue));
       expect(Array.isArray(out)).toBe(true);
       expect(out.length).toBeGreaterThan(0);
     });
   }
+});
+
+describe('README option tables', () => {
+  test('the README holds the option tables generated from the declarations (npm run readme:options)', () => {
+    const { optionsMarkdown, OPTIONS_BEGIN, OPTIONS_END } = require('../src/cli/optionsMarkdown');
+    const a = readme.indexOf(OPTIONS_BEGIN), b = readme.indexOf(OPTIONS_END);
+    expect(a).toBeGreaterThan(0);
+    expect(readme.slice(a + OPTIONS_BEGIN.length, b).trim()).toBe(optionsMarkdown());
+  });
 });

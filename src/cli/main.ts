@@ -3,10 +3,9 @@
  * over the engine: it reads columns, calls the same entry points as the
  * worksheet functions, and prints what comes back.
  */
-import { Cell, FitOptions, breaksFromCells, evaluate, fitCells, isKnotwiseError, numberFromText, ruleOptions, toRows } from '../engine';
-import type { BreaksOptions } from '../engine/breaks/types';
+import { AnalysisResult, Cell, evaluateAnalysis, isKnotwiseError, runAnalysis, toRows } from '../engine';
 import { CliError, Table, columnIndex, parseCsv } from './csv';
-import { BREAKS, FIT, Parsed, helpText, parseArgs } from './options';
+import { CommandSpec, Parsed, commands, helpText, parseArgs } from './options';
 
 /** What the command line needs from its host (Node's fs and streams, or a test double). */
 export interface CliIO {
@@ -16,12 +15,6 @@ export interface CliIO {
 }
 
 const fail = (m: string): never => { throw new CliError(m); };
-
-/** A flag's value as a number when it reads as one, else the text (the engine names it in its message). */
-function numberOrText(v: string | undefined): number | string | undefined {
-  if (v === undefined) return undefined;
-  return numberFromText(v) ?? v.trim();
-}
 
 function one(p: Parsed, flag: string): string | undefined {
   return p.values.get(flag)?.[0];
@@ -51,33 +44,46 @@ function columns(p: Parsed, t: Table): { x: Cell[] | null; w: Cell[] | null; ys:
   return { x: xi >= 0 ? col(xi) : null, w: wi >= 0 ? col(wi) : null, ys };
 }
 
-function fitOne(p: Parsed, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null, evalX: number[] | null): Record<string, unknown> {
-  const options: FitOptions = {};
-  const set = (flag: string, key: keyof FitOptions) => { const v = numberOrText(one(p, flag)); if (v !== undefined) (options as Record<string, unknown>)[key] = v; };
-  const method = one(p, '--method');
-  if (method !== undefined) options.method = method;
-  set('--order', 'order');
-  set('--penalty', 'penalty');
-  set('--df', 'df');
-  set('--folds', 'folds');
-  set('--relaxed', 'relaxed');
-  const select = one(p, '--select');
-  if (select !== undefined) Object.assign(options, ruleOptions(select));
-  if (p.switches.has('--one-se')) options.oneSE = true;
-  const { series, result } = fitCells(y, x, w, options);
-  const fitted = toRows(series, result.fitted, null);
+/** The engine options named on the command line: each declared flag's text, passed as typed (the engine checks it). */
+function declaredOptions(p: Parsed, spec: CommandSpec): Record<string, unknown> {
+  const options: Record<string, unknown> = {};
+  for (const o of spec.options) {
+    if (!o.option) continue;
+    const v = o.value ? one(p, o.flag) : p.switches.has(o.flag) ? 'true' : undefined;
+    if (v !== undefined) options[o.option] = v;
+  }
+  // old spellings the declarations cannot express: --one-se and --penalty crops:LOW,HIGH
+  if (p.switches.has('--one-se')) {
+    const r = options.rule ?? options.select;
+    if (r !== undefined && String(r).trim().toLowerCase() !== 'cv') fail(`--one-se goes with the cross-validation rule; got --rule ${String(r)}. Use --rule cv-simpler.`);
+    delete options.select;
+    options.rule = 'cv-simpler';
+  }
+  const pen = options.penalty;
+  if (typeof pen === 'string' && pen.trim().toLowerCase().startsWith('crops:')) {
+    delete options.penalty;
+    options.penaltyRange = pen.trim().slice(6);
+  }
+  return options;
+}
+
+function fitOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null, evalX: number[] | null): Record<string, unknown> {
+  const result = runAnalysis({ analysis: one(p, '--method') ?? 'spline', family: 'smoother', y, x, w, options: declaredOptions(p, spec) });
+  const { series } = result;
+  const fit = result.smooth!;
   const out: Record<string, unknown> = {
-    column: name, method: result.method, n: series.n, nRows: series.nRows, nUsed: series.nUsed,
+    column: name, method: result.analysis, options: result.options, n: series.n, nRows: series.nRows, nUsed: series.nUsed,
     dropped: series.dropped.length, tiesMerged: series.tiesMerged,
-    penalty: result.penalty, df: result.df, sigma: Number.isFinite(result.sigma) ? result.sigma : null,
-    criterion: { name: result.criterion.name, value: Number.isFinite(result.criterion.value) ? result.criterion.value : null, atEdge: result.criterion.atEdge ?? false },
-    fitted,
-    knots: result.knots.map((k) => ({ x: k.x, row: k.row + 1, change: k.change })),
+    penalty: fit.penalty, df: fit.df, sigma: Number.isFinite(fit.sigma) ? fit.sigma : null,
+    criterion: { name: fit.criterion.name, value: Number.isFinite(fit.criterion.value) ? fit.criterion.value : null, atEdge: fit.criterion.atEdge ?? false },
+    fitted: toRows(series, fit.fitted, null),
+    knots: (fit.bends ?? []).map((b) => ({ x: b.x, row: b.row + 1, change: Number.isFinite(b.change) ? b.change : null, shrunkChange: b.shrunkChange, xFrom: b.xFrom, xTo: b.xTo, knotsMerged: b.knots, rank: b.rank })),
+    allKnots: fit.knots.map((k) => ({ x: k.x, row: k.row + 1, change: k.change })),
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
     solver: result.solver,
   };
   if (evalX) {
-    const ev = evaluate(result, evalX);
+    const ev = evaluateAnalysis(result, evalX);
     out.eval = evalX.map((v, i) => ({ x: v, value: ev.value[i], extrapolated: ev.extrapolated[i] === 1 }));
   }
   return out;
@@ -96,44 +102,26 @@ function readEval(io: CliIO, path: string): number[] {
   return xs;
 }
 
-function parseBreaksPenalty(v: string | undefined): Pick<BreaksOptions, 'penalty' | 'crops'> {
-  if (v === undefined) return {};
-  const t = v.trim().toLowerCase();
-  if (t.startsWith('crops:')) {
-    const parts = t.slice(6).split(',').map((s) => numberOrText(s));
-    if (parts.length !== 2 || parts.some((q) => typeof q !== 'number')) fail(`--penalty crops:LOW,HIGH needs two numbers; got "${v}".`);
-    return { crops: [parts[0] as number, parts[1] as number] };
-  }
-  return { penalty: numberOrText(t) as BreaksOptions['penalty'] };
-}
-
-function breaksOne(p: Parsed, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null): Record<string, unknown> {
-  const options = {
-    model: (one(p, '--model') ?? 'mean') as BreaksOptions['model'],
-    ...parseBreaksPenalty(one(p, '--penalty')),
-  } as BreaksOptions;
-  const ms = numberOrText(one(p, '--min-segment'));
-  if (ms !== undefined) options.minSegment = ms as number;
-  const sg = numberOrText(one(p, '--sigma'));
-  if (sg !== undefined) options.sigma = sg as number;
-  const { series, result } = breaksFromCells(y, x, w, options);
-  const fitted = toRows(series, result.fitted, null);
-  const seg = (s: typeof result.segments[number]) => {
+function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null): Record<string, unknown> {
+  const result: AnalysisResult = runAnalysis({ analysis: one(p, '--model') ?? 'level', family: 'changepoints', y, x, w, options: declaredOptions(p, spec) });
+  const { series } = result;
+  const b = result.breaks!;
+  const seg = (s: typeof b.segments[number]) => {
     const o: Record<string, unknown> = { rowStart: s.rowStart + 1, rowEnd: s.rowEnd + 1, xStart: s.xStart, xEnd: s.xEnd, n: s.n };
     for (const k of ['mean', 'sd', 'rate', 'median', 'slope', 'intercept'] as const) if (Number.isFinite(s[k])) o[k] = s[k];
     return o;
   };
   return {
-    column: name, model: result.model, n: series.n, nRows: series.nRows,
-    penalty: result.penalty,
-    ...(result.sigma ? { sigma: result.sigma } : {}),
-    breaks: result.breaks.map((b) => ({ row: b.row + 1, x: b.x, change: b.change, before: seg(b.before), after: seg(b.after), uncertainty: b.uncertainty.note })),
-    segments: result.segments.map(seg),
-    fitted,
-    cost: result.cost,
-    ...(result.crops ? { crops: result.crops.map((c) => ({ penalty: c.penalty, penaltyLow: c.penaltyLow, penaltyHigh: c.penaltyHigh, changes: c.changes, cost: c.cost, rows: c.breaks.map((i) => series.firstRow[i] + 1) })) } : {}),
+    column: name, model: result.analysis, options: result.options, n: series.n, nRows: series.nRows,
+    penalty: b.penalty,
+    ...(b.sigma ? { sigma: b.sigma } : {}),
+    breaks: b.breaks.map((k) => ({ row: k.row + 1, x: k.x, change: k.change, before: seg(k.before), after: seg(k.after), uncertainty: k.uncertainty.note })),
+    segments: b.segments.map(seg),
+    fitted: toRows(series, b.fitted, null),
+    cost: b.cost,
+    ...(b.crops ? { crops: b.crops.map((c) => ({ penalty: c.penalty, penaltyLow: c.penaltyLow, penaltyHigh: c.penaltyHigh, changes: c.changes, cost: c.cost, rows: c.breaks.map((i) => series.firstRow[i] + 1) })) } : {}),
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
-    solver: result.solver,
+    solver: b.solver,
   };
 }
 
@@ -161,16 +149,16 @@ function textBreaks(o: Record<string, any>): string {
 export function runCli(argv: string[], io: CliIO): number {
   try {
     const [command, ...rest] = argv;
-    if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText()); return command ? 0 : 2; }
+    if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText(rest[0])); return command ? 0 : 2; }
     if (command !== 'fit' && command !== 'breaks') fail(`unknown command "${command}"; use fit, breaks or help.`);
-    const spec = command === 'fit' ? FIT : BREAKS;
+    const spec = commands().find((c) => c.name === command)!;
     const p = parseArgs(rest, spec, fail);
     if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
     const t = readTable(io, p.positional[0]);
     const { x, w, ys } = columns(p, t);
     const evalPath = one(p, '--eval');
     const evalX = command === 'fit' && evalPath ? readEval(io, evalPath) : null;
-    const results = ys.map((c) => (command === 'fit' ? fitOne(p, c.name, c.cells, x, w, evalX) : breaksOne(p, c.name, c.cells, x, w)));
+    const results = ys.map((c) => (command === 'fit' ? fitOne(p, spec, c.name, c.cells, x, w, evalX) : breaksOne(p, spec, c.name, c.cells, x, w)));
     if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
     else io.out(results.map((r) => (command === 'fit' ? textFit(r) : textBreaks(r))).join('\n'));
     return 0;

@@ -1,7 +1,10 @@
 /**
- * The command line's options: one table that drives both parsing and the
- * help text, so the two cannot drift apart.
+ * The command line's options: generated from the analyses' declared options,
+ * so parsing and help cannot drift from what the engine accepts. A few flags
+ * belong to the command line itself (columns, output, files).
  */
+import { AnalysisFamily, OptionDeclaration, analysisDefinitions, dashedName } from '../engine';
+
 export interface OptionSpec {
   flag: string;
   /** Name of the value, or undefined for a switch. */
@@ -11,6 +14,10 @@ export interface OptionSpec {
   repeatable?: boolean;
   /** The value may be left out (`--flag` alone means this value; `--flag=V` sets it). */
   implied?: string;
+  /** The declared engine option this flag sets (absent for the command line's own flags). */
+  option?: string;
+  /** Shown in help? (old spellings are accepted but not listed) */
+  hidden?: boolean;
 }
 
 export interface CommandSpec {
@@ -21,53 +28,97 @@ export interface CommandSpec {
 }
 
 const common: OptionSpec[] = [
-  { flag: '--x', value: 'COL', help: 'column of positions (header name or 1-based number); default: row numbers 1..n' },
+  { flag: '--x', value: 'COL', help: 'column of positions (header name or 1-based number); ISO dates are read as dates; default: row numbers 1..n' },
   { flag: '--y', value: 'COL', help: 'column(s) of values; several columns give one result each; default: the last column', repeatable: true },
   { flag: '--w', value: 'COL', help: 'column of positive weights' },
   { flag: '--json', help: 'print JSON (one object, or an array for several --y) instead of a text summary' },
 ];
 
-export const FIT: CommandSpec = {
-  name: 'fit',
-  usage: 'knotwise fit <file.csv> [options]',
-  summary: 'smooth a series: fitted values, penalty, df, knots and warnings',
-  options: [
-    ...common,
-    { flag: '--method', value: 'NAME', help: '"spline" (default) or "trend"' },
-    { flag: '--order', value: 'K', help: 'trend filtering order 0..3 (default 1)' },
-    { flag: '--penalty', value: 'VALUE', help: 'fixed penalty lambda' },
-    { flag: '--df', value: 'D', help: 'target equivalent degrees of freedom' },
-    { flag: '--select', value: 'RULE', help: 'penalty rule: gcv | cv | cv-1se (spline); cv | cv-1se | sure | bic (trend)' },
-    { flag: '--folds', value: 'K', help: 'cross-validation folds' },
-    { flag: '--one-se', help: 'with cv: the largest penalty within one standard error of the best' },
-    { flag: '--relaxed', value: 'R', implied: '1', help: 'trend: refit the pieces without shrinkage (--relaxed), or mix with --relaxed=R, R from 0 to 1' },
-    { flag: '--eval', value: 'FILE', help: 'CSV of new x (column "x" or the first column): adds eval [{x, value, extrapolated}]' },
-  ],
-};
+function valueName(d: OptionDeclaration): string {
+  switch (d.kind) {
+    case 'choice': return d.choices!.join('|').toUpperCase().length > 24 ? 'NAME' : d.choices!.join('|');
+    case 'integer': return 'N';
+    case 'range': return 'LOW,HIGH';
+    default: return 'VALUE';
+  }
+}
 
-export const BREAKS: CommandSpec = {
-  name: 'breaks',
-  usage: 'knotwise breaks <file.csv> [options]',
-  summary: 'find changepoints: breaks table, segments and the segmented fit',
-  options: [
-    ...common,
-    { flag: '--model', value: 'NAME', help: 'mean (default) | meanvar | poisson | distribution | slope' },
-    { flag: '--penalty', value: 'RULE', help: 'bic (default) | mbic | a number | crops:LOW,HIGH (all segmentations for penalties in that range)' },
-    { flag: '--min-segment', value: 'M', help: 'fewest points per segment' },
-    { flag: '--sigma', value: 'S', help: 'known noise standard deviation (mean and slope models)' },
-  ],
-};
+/** One flag per declared option of the family's analyses, naming the analyses that accept it when not all do. */
+function declaredFlags(family: AnalysisFamily): OptionSpec[] {
+  const defs = analysisDefinitions(family);
+  const byName = new Map<string, { d: OptionDeclaration; owners: string[] }>();
+  for (const def of defs) {
+    for (const d of def.options) {
+      const e = byName.get(d.name) ?? { d, owners: [] };
+      e.owners.push(def.name);
+      byName.set(d.name, e);
+    }
+  }
+  const out: OptionSpec[] = [];
+  for (const { d, owners } of byName.values()) {
+    const only = owners.length < defs.length ? ` [${owners.join(', ')}]` : '';
+    const implied = d.implied === undefined ? undefined : String(d.implied);
+    out.push(d.kind === 'switch'
+      ? { flag: `--${dashedName(d.name)}`, help: d.help + only, option: d.name }
+      : { flag: `--${dashedName(d.name)}`, value: valueName(d), help: d.help + only, option: d.name, implied });
+    for (const old of d.oldNames ?? []) {
+      out.push({ flag: `--${dashedName(old)}`, value: valueName(d), help: `old name of --${dashedName(d.name)}`, option: old, implied, hidden: true });
+    }
+  }
+  return out;
+}
 
-export const COMMANDS = [FIT, BREAKS];
+/** The commands, built from the registry (call after the engine is loaded). */
+export function commands(): CommandSpec[] {
+  const smoothers = analysisDefinitions('smoother').map((d) => d.name);
+  const models = analysisDefinitions('changepoints').map((d) => d.name);
+  const fit: CommandSpec = {
+    name: 'fit',
+    usage: 'knotwise fit <file.csv> [options]',
+    summary: 'smooth a series: fitted values, penalty, df, knots and warnings',
+    options: [
+      ...common,
+      { flag: '--method', value: 'NAME', help: `${smoothers.join(' | ')} (default spline); knotwise help NAME lists its options` },
+      ...declaredFlags('smoother'),
+      { flag: '--one-se', help: 'old switch for --rule cv-simpler', hidden: true },
+      { flag: '--eval', value: 'FILE', help: 'CSV of new x (column "x" or the first column): adds eval [{x, value, extrapolated}]' },
+    ],
+  };
+  const breaks: CommandSpec = {
+    name: 'breaks',
+    usage: 'knotwise breaks <file.csv> [options]',
+    summary: 'find changepoints: breaks table, segments and the segmented fit',
+    options: [
+      ...common,
+      { flag: '--model', value: 'NAME', help: `${models.join(' | ')} (default level); knotwise help NAME lists its options` },
+      ...declaredFlags('changepoints'),
+    ],
+  };
+  return [fit, breaks];
+}
 
-/** The help text, generated from the tables above. */
-export function helpText(): string {
+/** The help text, generated from the command tables and, for one method, from its declarations. */
+export function helpText(topic?: string): string {
   const lines = ['knotwise: smoothing, knots and changepoints for series in CSV files', ''];
-  for (const c of COMMANDS) {
+  const defs = analysisDefinitions();
+  const one = topic ? defs.find((d) => d.name === topic.toLowerCase()) : undefined;
+  if (one) {
+    lines.push(`${one.name}: ${one.label}`, `  ${one.summary}`, '');
+    for (const d of one.options) {
+      const flag = `--${dashedName(d.name)}` + (d.kind === 'switch' ? '' : ` ${valueName(d)}`);
+      lines.push(`  ${flag.padEnd(28)} ${d.help}${d.default !== undefined ? ` [default ${Array.isArray(d.default) ? d.default.join(',') : d.default}]` : ''}`);
+      for (const [c, h] of Object.entries(d.choiceHelp ?? {})) lines.push(`      ${c.padEnd(12)} ${h}`);
+    }
+    return lines.join('\n');
+  }
+  for (const c of commands()) {
     lines.push(`${c.usage}`, `  ${c.summary}`);
-    for (const o of c.options) lines.push(`  ${(o.flag + (o.value ? (o.implied !== undefined ? `[=${o.value}]` : ' ' + o.value) : '')).padEnd(22)} ${o.help}`);
+    for (const o of c.options) if (!o.hidden) lines.push(`  ${(o.flag + (o.value ? (o.implied !== undefined ? `[=${o.value}]` : ' ' + o.value) : '')).padEnd(28)} ${o.help}`);
     lines.push('');
   }
+  lines.push('Methods and models:');
+  for (const d of defs) lines.push(`  ${d.name.padEnd(14)} ${d.label}`);
+  lines.push('', 'knotwise help NAME shows one method\'s options with their defaults.');
   lines.push('Rows in the output are numbered as data rows of the file (1 = the first row after the header).');
   lines.push('Exit codes: 0 done; 1 the data or an option was refused (message on stderr); 2 usage error.');
   lines.push('A smoothed trend describes the past and is not a forecast; a statistical break is not proof of its cause.');

@@ -21,7 +21,9 @@ export type ErrorCode =
   /** Data unsuitable for a model (e.g. non-integer counts for a Poisson cost). */
   | 'bad-data'
   /** A numerical failure the user can avoid (e.g. a singular system). */
-  | 'numerical';
+  | 'numerical'
+  /** The caller stopped the analysis before it finished. */
+  | 'cancelled';
 
 /**
  * A problem with the input or options that the user can fix.

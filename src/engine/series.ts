@@ -67,6 +67,12 @@ export interface Series {
   dropped: DroppedRow[];
   /** Rows absorbed into another row's point by tie merging. */
   tiesMerged: number;
+  /**
+   * Weighted scatter of y within merged tie groups, sum_g sum_{i in g} w_i (y_i - ybar_g)^2
+   * (0 without ties): what the merged points no longer show, which criteria on the
+   * original observations (GCV) add back. Accumulated by West's weighted update (1979).
+   */
+  withinTies: number;
   /** Whether usable rows were already in increasing x order. */
   inputSorted: boolean;
   /** Whether x came from the input (false: x = 1..nRows, the row positions). */
@@ -122,6 +128,43 @@ const REASON_TEXT: Record<DropReason, string> = {
   'zero-weight': 'weight 0',
 };
 
+/** Largest |y| accepted: squared errors of larger values overflow the doubles (1e150^2 * n stays below 1.8e308). */
+export const Y_LIMIT = 1e150;
+/** Largest |x| accepted: penalties carry powers of x up to the fourth (lambda of the spline is in units of x^3). */
+export const X_LIMIT = 1e75;
+/** Largest ratio of the largest weight to the smallest: beyond it the light rows carry no information next to the heavy ones. */
+export const WEIGHT_RATIO_LIMIT = 1e15;
+
+/**
+ * Refuses magnitudes whose squares or powers leave the double range, so that
+ * every result is the same fit scaled (fit(c y) = c fit(y)) for every value
+ * accepted, or a clear refusal that says what to do.
+ */
+function checkMagnitudes(x: number[], y: number[], w: number[], rows: number[], xGiven: boolean, wGiven: boolean): void {
+  const at = (arr: number[], pick: (a: number, b: number) => boolean) => { let j = 0; for (let i = 1; i < arr.length; i++) if (pick(Math.abs(arr[i]), Math.abs(arr[j]))) j = i; return j; };
+  if (y.length === 0) return;
+  const big = at(y, (a, b) => a > b);
+  if (Math.abs(y[big]) > Y_LIMIT) {
+    throw new KnotwiseError('bad-data', `y in row ${rows[big] + 1} is ${showNumber(y[big])}: values beyond ${showNumber(Y_LIMIT)} in size cannot be analysed without overflow. Divide the column by a power of ten (e.g. 1e150) and scale the results back, or remove the value if it is an error.`);
+  }
+  if (Math.abs(y[big]) > 0 && Math.abs(y[big]) < 1 / Y_LIMIT) {
+    throw new KnotwiseError('bad-data', `the largest y is ${showNumber(y[big])} (row ${rows[big] + 1}): values all below ${showNumber(1 / Y_LIMIT)} in size underflow in squared errors. Multiply the column by a power of ten (e.g. 1e150) and scale the results back.`);
+  }
+  if (xGiven) {
+    const bx = at(x, (a, b) => a > b);
+    if (Math.abs(x[bx]) > X_LIMIT) throw new KnotwiseError('bad-data', `x in row ${rows[bx] + 1} is ${showNumber(x[bx])}: positions beyond ${showNumber(X_LIMIT)} in size overflow the penalties' units. Subtract an origin or divide x by a power of ten.`);
+    let lo = Infinity, hi = -Infinity;
+    for (const v of x) { if (v < lo) lo = v; if (v > hi) hi = v; }
+    if (hi > lo && hi - lo < 1 / X_LIMIT) throw new KnotwiseError('bad-data', `x spans only ${showNumber(hi - lo)}: positions this close underflow the penalties' units. Multiply x by a power of ten.`);
+  }
+  if (wGiven) {
+    const hw = at(w, (a, b) => a > b), lw = at(w, (a, b) => a < b);
+    if (w[hw] / w[lw] > WEIGHT_RATIO_LIMIT) {
+      throw new KnotwiseError('bad-data', `weights range from ${showNumber(w[lw])} (row ${rows[lw] + 1}) to ${showNumber(w[hw])} (row ${rows[hw] + 1}), a ratio above ${showNumber(WEIGHT_RATIO_LIMIT)}: the lightest rows carry no information next to the heaviest. Give those rows weight 0 (they are then left out) or weights within a ratio of ${showNumber(WEIGHT_RATIO_LIMIT)}.`);
+    }
+  }
+}
+
 /**
  * Turns raw y, optional x and optional weights into a clean {@link Series}.
  *
@@ -130,11 +173,14 @@ const REASON_TEXT: Record<DropReason, string> = {
  * - A row with weight 0 is dropped with its own reason; a negative weight is an error.
  * - Usable rows are sorted by x (stable); `rowOf` maps every input row back to its point.
  * - Rows with exactly equal x are merged (`ties: 'merge'`): weights add, y is the weighted mean.
+ * - Magnitudes the doubles cannot carry through squares and penalties are refused with a
+ *   message saying how to rescale: |y| above 1e150 (or all below 1e-150), |x| above 1e75,
+ *   x spanning less than 1e-75, weights spread by more than a factor 1e15.
  *
  * @param yCells - the series values, one per row
  * @param xCells - the positions (same length as y), or omitted
  * @param wCells - positive weights (same length as y), or omitted for all 1
- * @throws {@link KnotwiseError} `shape-mismatch`, `negative-weight`, `constant-x`, `too-few-points`
+ * @throws {@link KnotwiseError} `shape-mismatch`, `negative-weight`, `constant-x`, `too-few-points`, `bad-data` (magnitudes out of range)
  * @example
  * ```ts
  * const s = prepareSeries([3, '', 5, 4], [1, 2, 3, 3]);
@@ -177,6 +223,7 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
     ux.push(xv); uy.push(cy.value); uw.push(wv); urow.push(r);
   }
   const nUsed = ux.length;
+  checkMagnitudes(ux, uy, uw, urow, !!xCells, !!wCells);
   let inputSorted = true;
   for (let i = 1; i < nUsed; i++) if (ux[i] < ux[i - 1]) { inputSorted = false; break; }
   const order = Array.from({ length: nUsed }, (_, i) => i);
@@ -188,12 +235,15 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
   const pw: number[] = [];
   const pfirst: number[] = [];
   let tiesMerged = 0;
+  let withinTies = 0;
   const tieRows: number[] = [];
   for (const i of order) {
     const k = px.length - 1;
     if (ties === 'merge' && k >= 0 && px[k] === ux[i]) {
       const wn = pw[k] + uw[i];
-      py[k] += (uw[i] / wn) * (uy[i] - py[k]);
+      const delta = uy[i] - py[k];
+      withinTies += ((pw[k] * uw[i]) / wn) * delta * delta;
+      py[k] += (uw[i] / wn) * delta;
       pw[k] = wn;
       if (urow[i] < pfirst[k]) pfirst[k] = urow[i];
       rowOf[urow[i]] = k;
@@ -226,7 +276,7 @@ export function prepareSeries(yCells: readonly Cell[], xCells?: readonly Cell[] 
 
   return {
     x: Float64Array.from(px), y: Float64Array.from(py), w: Float64Array.from(pw), n,
-    nRows, nUsed, rowOf, firstRow: Int32Array.from(pfirst), dropped, tiesMerged, inputSorted,
+    nRows, nUsed, rowOf, firstRow: Int32Array.from(pfirst), dropped, tiesMerged, withinTies, inputSorted,
     xGiven: !!xCells, weighted: !!wCells, warnings,
   };
 }
@@ -241,7 +291,7 @@ export function seriesFromArrays(x: ArrayLike<number>, y: ArrayLike<number>, w?:
   for (let i = 0; i < n; i++) rowOf[i] = i;
   return {
     x: Float64Array.from(x), y: Float64Array.from(y), w: w ? Float64Array.from(w) : new Float64Array(n).fill(1), n,
-    nRows: n, nUsed: n, rowOf, firstRow: Int32Array.from(rowOf), dropped: [], tiesMerged: 0, inputSorted: true,
+    nRows: n, nUsed: n, rowOf, firstRow: Int32Array.from(rowOf), dropped: [], tiesMerged: 0, withinTies: 0, inputSorted: true,
     xGiven: true, weighted: !!w, warnings: [],
   };
 }

@@ -3,6 +3,7 @@
  * them, the methods fill them.
  */
 import type { Warning } from './warnings';
+import type { Bend } from './diagnostics/knotBends';
 
 /** How the penalty is chosen when none is given. */
 export type SelectRule = 'gcv' | 'cv' | 'sure' | 'bic';
@@ -102,6 +103,11 @@ export interface FitResult {
   sigma: number;
   criterion: Criterion;
   knots: Knot[];
+  /**
+   * Adaptive methods: the knots as an analyst reads them, neighbouring knots of one bend
+   * merged and each bend's size measured on the unpenalised refit ({@link knotBends}).
+   */
+  bends?: Bend[];
   /** Pointwise standard error of the fitted value (linear smoothers): sigma * sqrt(h_ii / w_i)-style, as the method documents. */
   se?: Float64Array;
   /** Diagonal of the hat matrix (linear smoothers). */

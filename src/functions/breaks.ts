@@ -1,44 +1,43 @@
 /**
  * Worksheet functions of the changepoint family (namespace KNOTWISE). They
- * share one cached segmentation when called on the same range and options.
+ * share one computation when called on the same range, model and settings.
  */
-import { BreaksOptions } from '../engine/breaks/types';
-import { FitCache, SeriesBreaks, breaksFromCells, cacheKey, toRows } from '../engine';
-import { Matrix, Orientation, cellNumber, optionalNumber, optionalText, readInputs, shapeLike } from './cells';
-import { guarded } from './excelErrors';
-
-const cache = new FitCache<SeriesBreaks & { orientation: Orientation }>(16);
-
-function segment(y: Matrix, x: unknown, model: unknown, penalty: unknown, minSegment: unknown, weights: unknown, crops?: [unknown, unknown]): SeriesBreaks & { orientation: Orientation } {
-  const d = readInputs(y, x, weights);
-  const options = { model: (optionalText(model) ?? 'mean').trim().toLowerCase() } as BreaksOptions;
-  const p = optionalNumber(penalty);
-  if (p !== undefined) options.penalty = (typeof p === 'string' ? (p as string).trim().toLowerCase() : p) as BreaksOptions['penalty'];
-  const m = optionalNumber(minSegment);
-  if (m !== undefined) options.minSegment = m;
-  if (crops) options.crops = [optionalNumber(crops[0]) as number, optionalNumber(crops[1]) as number];
-  return cache.get(cacheKey(['breaks', d.y, d.x, d.w, options]), () => ({ ...breaksFromCells(d.y, d.x, d.w, options), orientation: d.orientation }));
-}
+import { AnalysisResult, SegmentSummary, toRows } from '../engine';
+import { cellNumber, shapeLike } from './cells';
+import { guardedAsync } from './excelErrors';
+import { analyseCells } from './request';
 
 const blank = (v: number) => (Number.isFinite(v) ? v : '');
+
+/** The segment summaries each model is about, as columns of the breaks table. */
+function summaryFields(model: string): (keyof SegmentSummary)[] {
+  switch (model) {
+    case 'counts': return ['rate'];
+    case 'slope': return ['slope'];
+    case 'volatility': return ['mean', 'sd'];
+    case 'distribution': return ['median'];
+    default: return ['mean'];
+  }
+}
 
 /**
  * The changepoints of a series: where its level, volatility, rate or slope changes.
  * @customfunction BREAKS
- * @param y Values: one column (or one row). Blank, text, TRUE/FALSE and error cells are left out.
+ * @param y Values: one column (or one row). Blank, text, TRUE/FALSE and error cells are left out (SUMMARY lists them).
  * @param [x] Positions of the values (dates, times, numbers), same size as y. Omitted: 1, 2, 3, ...
- * @param [model] What changes: "mean" (default), "meanvar" (level and volatility), "poisson" (rate of counts), "distribution" (any change in distribution) or "slope" (a continuous broken line).
- * @param [penalty] Cost of each change: "bic" (default), "mbic", or a number (larger = fewer breaks).
- * @param [minSegment] Fewest points in a segment.
+ * @param [model] What changes: "level" (default), "volatility" (level and volatility), "counts" (rate of counts), "distribution" (any change in distribution) or "slope" (a continuous broken line). KNOTWISE.OPTIONS(model) lists its settings.
+ * @param [settings] Settings as text, e.g. "mbic", "penalty=20" or "shortest-segment=4"; a number alone is the cost of each change (larger = fewer breaks).
  * @param [weights] Positive weights, same size as y.
- * @returns A table with header x, row, change, mean before, mean after (rate, sd or slope for those models): one line per break; row is the position within the y range.
+ * @param invocation Excel's handle to cancel the call.
+ * @returns A table with header x, row, change, then the segment summaries before and after (mean, sd, rate or slope as the model is about): one line per break; row counts from the first cell of y.
+ * @cancelable
  */
-export function breaks(y: any[][], x?: any[][], model?: string, penalty?: any, minSegment?: number, weights?: any[][]): any[][] {
-  return guarded(() => {
-    const { result } = segment(y, x, model, penalty, minSegment, weights);
-    const field = result.model === 'poisson' ? 'rate' : result.model === 'slope' ? 'slope' : result.model === 'meanvar' ? 'sd' : result.model === 'distribution' ? 'median' : 'mean';
-    const head = ['x', 'row', 'change', `${field} before`, `${field} after`];
-    return [head, ...result.breaks.map((b) => [b.x, b.row + 1, blank(b.change), blank(b.before[field]), blank(b.after[field])])];
+export async function breaks(y: any[][], x?: any[][], model?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await analyseCells(y, { x, method: model, settings, weights }, 'changepoints', 'level', invocation);
+    const fields = summaryFields(result.analysis);
+    const head = ['x', 'row', 'change', ...fields.flatMap((f) => [`${f} before`, `${f} after`])];
+    return [head, ...result.breaks!.breaks.map((b) => [b.x, b.row + 1, blank(b.change), ...fields.flatMap((f) => [blank(b.before[f] as number), blank(b.after[f] as number)])])];
   });
 }
 
@@ -47,35 +46,60 @@ export function breaks(y: any[][], x?: any[][], model?: string, penalty?: any, m
  * @customfunction SEGMENTS
  * @param y Values: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
- * @param [model] "mean" (default), "meanvar", "poisson", "distribution" or "slope".
- * @param [penalty] "bic" (default), "mbic", or a number.
- * @param [minSegment] Fewest points in a segment.
+ * @param [model] "level" (default), "volatility", "counts", "distribution" or "slope".
+ * @param [settings] Settings as text, e.g. "mbic" or "penalty=20; shortest-segment=4".
  * @param [weights] Positive weights, same size as y.
- * @returns One value per row of y, in the rows' original order; dropped rows stay empty.
+ * @param invocation Excel's handle to cancel the call.
+ * @returns One value per row of y, in the rows' original order; rows that were not numbers stay empty.
+ * @cancelable
  */
-export function segments(y: any[][], x?: any[][], model?: string, penalty?: any, minSegment?: number, weights?: any[][]): any[][] {
-  return guarded(() => {
-    const { series, result, orientation } = segment(y, x, model, penalty, minSegment, weights);
-    return shapeLike(toRows(series, result.fitted, '' as const).map((v) => (typeof v === 'number' ? cellNumber(v) : v)), orientation);
+export async function segments(y: any[][], x?: any[][], model?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result, orientation } = await analyseCells(y, { x, method: model, settings, weights }, 'changepoints', 'level', invocation);
+    return shapeLike(toRows(result.series, result.fitted, '' as const).map((v) => (typeof v === 'number' ? cellNumber(v) : v)), orientation);
   });
+}
+
+function scanTable(result: AnalysisResult): any[][] {
+  const rows = (result.breaks!.crops ?? []).map((c) => [blank(c.penaltyLow), blank(c.penaltyHigh), c.changes, blank(c.cost)]);
+  return [['penalty from', 'penalty to', 'changes', 'cost'], ...rows];
 }
 
 /**
  * Every optimal segmentation for penalties between low and high (CROPS): number of changes against cost, to pick the elbow.
+ * @customfunction BREAKSCAN
+ * @param y Values: one column (or one row).
+ * @param low Smallest penalty.
+ * @param high Largest penalty.
+ * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
+ * @param [model] "level" (default), "volatility", "counts", "distribution" or "slope".
+ * @param [settings] Settings as text, e.g. "shortest-segment=4".
+ * @param [weights] Positive weights, same size as y.
+ * @param invocation Excel's handle to cancel the call.
+ * @returns A table with header penalty from, penalty to, changes, cost: one line per segmentation, in increasing penalty.
+ * @cancelable
+ */
+export async function breakScan(y: any[][], low: any, high: any, x?: any[][], model?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await analyseCells(y, { x, method: model, settings, weights, extra: { penaltyRange: [low, high] } }, 'changepoints', 'level', invocation);
+    return scanTable(result);
+  });
+}
+
+/**
+ * Old name of BREAKSCAN, kept for workbooks written with it: every optimal segmentation for penalties between low and high.
  * @customfunction BREAKPATH
  * @param y Values: one column (or one row).
  * @param low Smallest penalty.
  * @param high Largest penalty.
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
- * @param [model] "mean" (default), "meanvar", "poisson", "distribution" or "slope".
- * @param [minSegment] Fewest points in a segment.
+ * @param [model] "level" (default), "volatility", "counts", "distribution" or "slope".
+ * @param [settings] Settings as text, e.g. "shortest-segment=4".
  * @param [weights] Positive weights, same size as y.
- * @returns A table with header penalty from, penalty to, changes, cost: one line per segmentation, in increasing penalty.
+ * @param invocation Excel's handle to cancel the call.
+ * @returns The same table as BREAKSCAN.
+ * @cancelable
  */
-export function breakPath(y: any[][], low: number, high: number, x?: any[][], model?: string, minSegment?: number, weights?: any[][]): any[][] {
-  return guarded(() => {
-    const { result } = segment(y, x, model, undefined, minSegment, weights, [low, high]);
-    const rows = (result.crops ?? []).map((c) => [blank(c.penaltyLow), blank(c.penaltyHigh), c.changes, blank(c.cost)]);
-    return [['penalty from', 'penalty to', 'changes', 'cost'], ...rows];
-  });
+export async function breakPath(y: any[][], low: any, high: any, x?: any[][], model?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return breakScan(y, low, high, x, model, settings, weights, invocation);
 }

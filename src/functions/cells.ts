@@ -3,7 +3,7 @@
  * decides anything about the data: the engine's intake drops, sorts and
  * merges; this only maps Excel's value kinds and the output shape.
  */
-import { Cell, toColumn } from '../engine';
+import { Cell, KnotwiseError, toColumn } from '../engine';
 
 /** A range as Excel passes it: rows of values. */
 export type Matrix = unknown[][];
@@ -31,6 +31,7 @@ function toCell(v: unknown): Cell {
 
 /** Flattens a single row or column range into engine cells; `name` is used in messages. */
 export function readColumn(m: Matrix, name: string): { cells: Cell[]; orientation: Orientation } {
+  if (!Array.isArray(m)) throw new KnotwiseError('shape-mismatch', `${name} must be a range of cells (a column or a row); got the single value ${JSON.stringify(m)}.`);
   const cells = toColumn(m.map((r) => r.map(toCell)), name);
   const orientation: Orientation = m.length === 1 && (m[0]?.length ?? 0) > 1 ? 'row' : 'column';
   return { cells, orientation };

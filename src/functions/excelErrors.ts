@@ -25,3 +25,12 @@ export function guarded<T>(body: () => T): T {
     throw toExcelError(e);
   }
 }
+
+/** Runs an asynchronous worksheet function body; any failure becomes an Excel error. */
+export async function guardedAsync<T>(body: () => Promise<T>): Promise<T> {
+  try {
+    return await body();
+  } catch (e) {
+    throw toExcelError(e);
+  }
+}

@@ -4,7 +4,8 @@
  * generated from those tags at build time).
  */
 import { smooth, penalty, summary, knots, evaluateAt } from './smoothing';
-import { breaks, segments, breakPath } from './breaks';
+import { breaks, segments, breakScan, breakPath } from './breaks';
+import { options } from './options';
 
 export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   SMOOTH: smooth,
@@ -14,9 +15,10 @@ export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   EVALUATE: evaluateAt,
   BREAKS: breaks,
   SEGMENTS: segments,
+  BREAKSCAN: breakScan,
   BREAKPATH: breakPath,
+  OPTIONS: options,
 };
-
 
 if (typeof CustomFunctions !== 'undefined') {
   for (const [id, fn] of Object.entries(worksheetFunctions)) CustomFunctions.associate(id, fn);

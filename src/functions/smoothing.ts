@@ -1,129 +1,127 @@
 /**
  * Worksheet functions of the smoothing family (namespace KNOTWISE). Each takes
- * y first, x optional, then the method and its options, and shares one cached
- * fit with the others when called on the same range and options.
+ * y first, x optional, then the method and its settings, and shares one
+ * computation with the others called on the same range and settings. They
+ * return promises: Excel shows #BUSY! while the engine works off Excel's thread,
+ * and cancels the call when an input changes.
  */
-import { KnotwiseError, evaluate, toRows } from '../engine';
+import { AnalysisResult, KnotwiseError, evaluateAnalysis, toRows } from '../engine';
 import { Matrix, cellNumber, omitted, optionalText, readColumn, scalar, shapeLike } from './cells';
-import { guarded } from './excelErrors';
-import { fitFromCells } from './fitArgs';
+import { guardedAsync } from './excelErrors';
+import { analyseCells } from './request';
+
+const smoothOf = (r: AnalysisResult) => r.smooth!;
 
 /**
- * Smoothed values of a series, one per input row (dropped rows stay empty).
+ * Smoothed values of a series, one per input row (rows that were not numbers stay empty).
  * @customfunction SMOOTH
- * @param y Values to smooth: one column (or one row). Blank, text, TRUE/FALSE and error cells are left out and reported.
+ * @param y Values to smooth: one column (or one row). Blank, text, TRUE/FALSE and error cells are left out and reported by SUMMARY.
  * @param [x] Positions of the values (dates, times, any numbers), same size as y. Omitted: 1, 2, 3, ...
- * @param [method] "spline" (default: natural cubic smoothing spline) or "trend" (L1 trend filtering, knots chosen by the data).
- * @param [order] Trend filtering order: 0 level shifts, 1 kinks (default), 2 or 3 smooth bends.
- * @param [rule] How to choose the penalty: "gcv" (spline default), "cv" (trend default), "cv-1se", "sure" or "bic" (trend); or settings such as "df=8", "penalty=500" or "cv; folds=10".
- * @param [penalty] A fixed penalty lambda instead of a rule (units: see the README).
- * @param [df] A target equivalent degrees of freedom instead of a rule.
- * @param [weights] Positive weights, same size as y (e.g. number of orders behind each value).
- * @param [folds] Number of cross-validation folds for rule "cv".
- * @param [relaxed] Trend filtering only: 0 plain fit (default), 1 unpenalised refit on the knots, or a mix in between.
+ * @param [method] "spline" (default: a smooth curve) or "trend" (pieces joined at knots the data choose). KNOTWISE.OPTIONS(method) lists each method's settings.
+ * @param [settings] Settings as text, e.g. "order=2; cv; folds=10", "df=8" or "penalty=500"; a number alone is the penalty.
+ * @param [weights] Positive weights, same size as y (e.g. the number of orders behind each value).
  * @param [output] "fitted" (default), "se" (pointwise standard error), "residual" or "leverage".
+ * @param invocation Excel's handle to cancel the call.
  * @returns One value per row of y, in the rows' original order.
+ * @cancelable
  */
-export function smooth(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, output?: string): any[][] {
-  return guarded(() => {
-    const { series, result, orientation } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
+export async function smooth(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], output?: string, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
     const what = (optionalText(output) ?? 'fitted').trim().toLowerCase();
-    let perPoint: ArrayLike<number>;
-    if (what === 'fitted') perPoint = result.fitted;
-    else if (what === 'residual') perPoint = Float64Array.from(series.y, (v, i) => v - result.fitted[i]);
+    if (!['fitted', 'se', 'residual', 'leverage'].includes(what)) throw new KnotwiseError('bad-option', `output must be "fitted", "se", "residual" or "leverage"; got "${what}".`);
+    const { result, orientation } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'spline', invocation);
+    const fit = smoothOf(result);
+    let perPoint: ArrayLike<number> = fit.fitted;
+    if (what === 'residual') perPoint = Float64Array.from(result.series.y, (v, i) => v - fit.fitted[i]);
     else if (what === 'se' || what === 'leverage') {
-      const v = what === 'se' ? result.se : result.leverage;
-      if (!v) throw new KnotwiseError('bad-option', `output "${what}" is not available for method "${result.method}": it is not a linear smoother.`);
+      const v = what === 'se' ? fit.se : fit.leverage;
+      if (!v) throw new KnotwiseError('bad-option', `output "${what}" is not available for method "${result.analysis}": it is not a linear smoother.`);
       perPoint = v;
-    } else throw new KnotwiseError('bad-option', `output must be "fitted", "se", "residual" or "leverage"; got "${what}".`);
-    const rows = toRows(series, perPoint, '' as const).map((v) => (typeof v === 'number' ? cellNumber(v) : v));
-    return shapeLike(rows, orientation);
+    }
+    return shapeLike(toRows(result.series, perPoint, '' as const).map((v) => (typeof v === 'number' ? cellNumber(v) : v)), orientation);
   });
 }
 
 /**
- * The penalty lambda chosen for a series, or the whole criterion curve as a table.
+ * The penalty lambda chosen for a series, or the whole criterion table behind the choice.
  * @customfunction PENALTY
  * @param y Values to smooth: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "spline" (default) or "trend".
- * @param [order] Trend filtering order 0 to 3 (default 1).
- * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic"; or settings such as "df=8" or "cv; folds=10".
- * @param [penalty] A fixed penalty (returned as given, with its df in the curve).
- * @param [df] A target equivalent degrees of freedom.
+ * @param [settings] Settings as text, e.g. "cv; folds=10" or "order=1; sure".
  * @param [weights] Positive weights, same size as y.
- * @param [folds] Number of cross-validation folds for rule "cv".
- * @param [relaxed] Trend filtering only: 0 to 1.
- * @param [curve] TRUE: return the table penalty, score, df, se, knots, converged for every penalty tried (with a header row).
+ * @param [table] TRUE: the table penalty, score, df, se, knots, converged for every penalty tried (with a header row).
+ * @param invocation Excel's handle to cancel the call.
  * @returns The chosen lambda, or the criterion table.
+ * @cancelable
  */
-export function penalty(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number, curve?: boolean): any[][] {
-  return guarded(() => {
-    const { result } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
-    if (scalar(curve) !== true) return [[result.penalty]];
-    const head = ['penalty', `score (${result.criterion.name})`, 'df', 'se', 'knots', 'converged'];
-    const pts = result.criterion.curve ?? [{ penalty: result.penalty, score: result.criterion.value, df: result.df }];
+export async function penalty(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], table?: any, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'spline', invocation);
+    const fit = smoothOf(result);
+    const t = scalar(table);
+    const wantTable = t === true || (typeof t === 'string' && t.trim().toUpperCase() === 'TRUE') || t === 1;
+    if (!omitted(t) && !wantTable && !(t === false || t === 0 || (typeof t === 'string' && t.trim().toUpperCase() === 'FALSE'))) {
+      throw new KnotwiseError('bad-option', `table must be TRUE or FALSE; got ${JSON.stringify(t)}.`);
+    }
+    if (!wantTable) return [[cellNumber(fit.penalty)]];
+    const head = ['penalty', `score (${fit.criterion.name})`, 'df', 'se', 'knots', 'converged'];
+    const pts = fit.criterion.curve ?? [{ penalty: fit.penalty, score: fit.criterion.value, df: fit.df }];
     return [head, ...pts.map((p) => [cellNumber(p.penalty), cellNumber(p.score), cellNumber(p.df), p.se === undefined ? '' : cellNumber(p.se), p.knots === undefined ? '' : p.knots, p.converged === undefined ? '' : p.converged])];
   });
 }
 
 /**
- * A two-column summary of a fit: method, lambda, df, sigma, points used and dropped, ties merged, warnings.
+ * A two-column summary of a fit or a segmentation: method, penalty, df, points used and dropped, and every warning.
  * @customfunction SUMMARY
- * @param y Values to smooth: one column (or one row).
+ * @param y Values: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
- * @param [method] "spline" (default) or "trend".
- * @param [order] Trend filtering order 0 to 3 (default 1).
- * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic"; or settings such as "df=8" or "cv; folds=10".
- * @param [penalty] A fixed penalty lambda.
- * @param [df] A target equivalent degrees of freedom.
+ * @param [method] A smoothing method ("spline", the default, or "trend") or a changepoint model ("level", "volatility", "counts", "distribution", "slope").
+ * @param [settings] Settings as text, e.g. "order=1; cv" or "mbic; shortest-segment=4".
  * @param [weights] Positive weights, same size as y.
- * @param [folds] Number of cross-validation folds for rule "cv".
- * @param [relaxed] Trend filtering only: 0 to 1.
+ * @param invocation Excel's handle to cancel the call.
  * @returns Label and value pairs, then one row per warning.
+ * @cancelable
  */
-export function summary(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number): any[][] {
-  return guarded(() => {
-    const { series, result } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
-    const rows: any[][] = [
-      ['method', result.method + (result.options.order !== undefined ? ` (order ${result.options.order})` : '')],
-      ['lambda', cellNumber(result.penalty)],
-      ['df', cellNumber(result.df)],
-      ['sigma', cellNumber(result.sigma)],
-      ['criterion', result.criterion.name],
-      ['criterion value', cellNumber(result.criterion.value)],
-      ['n used', series.nUsed],
-      ['n dropped', series.dropped.length],
-      ['ties merged', series.tiesMerged],
-      ['knots', result.knots.length],
-      ['converged', result.solver.converged],
-      ['warnings', result.warnings.length],
-    ];
+export async function summary(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await analyseCells(y, { x, method, settings, weights }, undefined, 'spline', invocation);
+    const s = result.series;
+    const rows: any[][] = [['method', result.analysis + (result.options.order !== undefined ? ` (order ${result.options.order})` : '')]];
+    if (result.smooth) {
+      const f = result.smooth;
+      rows.push(['lambda', cellNumber(f.penalty)], ['df', cellNumber(f.df)], ['sigma', cellNumber(f.sigma)], ['criterion', f.criterion.name], ['criterion value', cellNumber(f.criterion.value)], ['knots', f.knots.length]);
+    } else if (result.breaks) {
+      const b = result.breaks;
+      rows.push(['penalty', `${b.penalty.rule} ${b.penalty.value}`], ['breaks', b.breaks.length], ['segments', b.segments.length]);
+    }
+    rows.push(['n used', s.nUsed], ['n dropped', s.dropped.length], ['ties merged', s.tiesMerged], ['converged', result.solver.converged], ['warnings', result.warnings.length]);
     result.warnings.forEach((w, i) => rows.push([`warning ${i + 1} (${w.code})`, w.message]));
     return rows;
   });
 }
 
 /**
- * The knots of a fit: where the fitted curve changes form, with the size of the change.
+ * The knots of a fit: where the fitted curve changes form. Neighbouring knots of one bend are merged and each bend's change is measured on the unshrunk refit, ranked by size; "all" lists every knot of the fit.
  * @customfunction KNOTS
  * @param y Values to smooth: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "trend" (default here) or "spline" (which has no data-chosen knots).
- * @param [order] Trend filtering order: 0 jumps, 1 slope changes (default), 2 or 3 changes in curvature.
- * @param [rule] "cv" (default), "cv-1se", "sure" or "bic"; or settings such as "df=12" or "cv; folds=10".
- * @param [penalty] A fixed penalty lambda.
- * @param [df] A target equivalent degrees of freedom.
+ * @param [settings] Settings as text, e.g. "order=1" (slope changes, default), "order=0" (jumps), "df=12" or "cv; folds=10".
  * @param [weights] Positive weights, same size as y.
- * @param [folds] Number of cross-validation folds for rule "cv".
- * @param [relaxed] 0 plain fit (default) to 1 unpenalised refit on the knots.
- * @returns A table with header x, row, change: one line per knot; row is the position within the y range (1 = first cell).
+ * @param [detail] "bends" (default: merged, sized on the refit, ranked) or "all" (every knot of the fit with its shrunk change).
+ * @param invocation Excel's handle to cancel the call.
+ * @returns A table with a header row: x, row, change, from, to, knots merged, rank (or x, row, change for "all"); row counts from the first cell of y (1 = first cell).
+ * @cancelable
  */
-export function knots(y: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number): any[][] {
-  return guarded(() => {
-    const m = omitted(method) ? 'trend' : method;
-    const { result } = fitFromCells(y, x, { method: m, order, rule, penalty, df, weights, folds, relaxed });
-    return [['x', 'row', 'change'], ...result.knots.map((k) => [k.x, k.row + 1, cellNumber(k.change)])];
+export async function knots(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], detail?: string, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const what = (optionalText(detail) ?? 'bends').trim().toLowerCase();
+    if (what !== 'bends' && what !== 'all') throw new KnotwiseError('bad-option', `detail must be "bends" or "all"; got "${what}".`);
+    const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'trend', invocation);
+    const fit = smoothOf(result);
+    if (what === 'all' || !fit.bends) return [['x', 'row', 'change'], ...fit.knots.map((k) => [k.x, k.row + 1, cellNumber(k.change)])];
+    return [['x', 'row', 'change', 'from', 'to', 'knots merged', 'rank'], ...fit.bends.map((b) => [b.x, b.row + 1, cellNumber(Number.isFinite(b.change) ? b.change : b.shrunkChange), b.xFrom, b.xTo, b.knots, b.rank])];
   });
 }
 
@@ -134,23 +132,20 @@ export function knots(y: any[][], x?: any[][], method?: string, order?: number, 
  * @param at Positions where the fitted curve is wanted: one column or row.
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
  * @param [method] "spline" (default) or "trend".
- * @param [order] Trend filtering order 0 to 3 (default 1).
- * @param [rule] "gcv", "cv", "cv-1se", "sure" or "bic"; or settings such as "df=8" or "cv; folds=10".
- * @param [penalty] A fixed penalty lambda.
- * @param [df] A target equivalent degrees of freedom.
+ * @param [settings] Settings as text, e.g. "order=1; cv".
  * @param [weights] Positive weights, same size as y.
- * @param [folds] Number of cross-validation folds for rule "cv".
- * @param [relaxed] Trend filtering only: 0 to 1.
+ * @param invocation Excel's handle to cancel the call.
  * @returns Two columns per position: the value, and TRUE where it is extrapolated beyond the data.
+ * @cancelable
  */
-export function evaluateAt(y: any[][], at: any[][], x?: any[][], method?: string, order?: number, rule?: string, penalty?: number, df?: number, weights?: any[][], folds?: number, relaxed?: number): any[][] {
-  return guarded(() => {
-    const { result } = fitFromCells(y, x, { method, order, rule, penalty, df, weights, folds, relaxed });
+export async function evaluateAt(y: any[][], at: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
     const cells = readColumn(at as Matrix, 'at').cells;
+    const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'spline', invocation);
     const ok: number[] = [];
     const where: number[] = [];
     cells.forEach((c, i) => { if (typeof c === 'number' && Number.isFinite(c)) { ok.push(c); where.push(i); } });
-    const ev = evaluate(result, ok);
+    const ev = evaluateAnalysis(result, ok);
     const out: any[][] = cells.map(() => ['', '']);
     where.forEach((i, k) => { out[i] = [cellNumber(ev.value[k]), ev.extrapolated[k] === 1]; });
     return out;

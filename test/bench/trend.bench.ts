@@ -15,9 +15,8 @@
  * `quick` keeps n <= 1e4 (CI smoke).
  */
 import { fitTrend, trendPenaltyMax } from '../../src/engine/smoothers/trend';
-import { getMethod } from '../../src/engine/registry';
+import { fitSpline } from '../../src/engine/smoothers/spline';
 import { seriesFromArrays, Series } from '../../src/engine/series';
-import '../../src/engine/methods';
 import { doppler, blocks, seededNormal, noisyTestFunction } from '../engine/smoothers/trendTestFunctions';
 import { execFileSync } from 'child_process';
 
@@ -52,7 +51,7 @@ export function adaptivityTable(name: 'doppler' | 'blocks', n: number, dfs: numb
   const { x, y, truth, sigma } = noisyTestFunction(f, n, seed);
   const s = seriesFromArrays(x, y);
   const mse = (fit: Float64Array) => { let e = 0; for (let i = 0; i < n; i++) e += (fit[i] - truth[i]) ** 2; return e / n; };
-  const spline = getMethod('spline');
+  const spline = { fit: fitSpline };
   const rows: Record<string, unknown>[] = [];
   for (const df of dfs) {
     const row: Record<string, unknown> = { bench: 'trend-adaptivity', function: name, n, sigma, targetDf: df };

@@ -102,9 +102,9 @@ test('the functions bundle associates every function that functions.json declare
   await p2.addScriptTag({ url: `${base}/functions.js` });
   const got = (await p2.evaluate(() => Object.keys(window.__assoc))).sort();
   assert(JSON.stringify(got) === JSON.stringify(ids), `associated ${got} but metadata declares ${ids}`);
-  const out = await p2.evaluate(() => window.__assoc.SMOOTH([[1], [3], [2], [5], [4], [6]], null, 'spline', null, null, null, 3));
+  const out = await p2.evaluate(() => window.__assoc.SMOOTH([[1], [3], [2], [5], [4], [6]], null, 'spline', 'df=3', null, null, {}));
   assert(out.length === 6 && typeof out[0][0] === 'number', `SMOOTH returned ${JSON.stringify(out)}`);
-  const err = await p2.evaluate(() => { try { window.__assoc.SMOOTH([[1], [2]], [[1]]); return null; } catch (e) { return [e.code, e.message]; } });
+  const err = await p2.evaluate(async () => { try { await window.__assoc.SMOOTH([[1], [2]], [[1]], null, null, null, null, {}); return null; } catch (e) { return [e.code, e.message]; } });
   assert(err && err[0] === '#VALUE!' && /x has 1 rows but y has 2/.test(err[1]), `error was ${JSON.stringify(err)}`);
   await ctx.close();
 });

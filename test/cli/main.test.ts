@@ -1,3 +1,4 @@
+import { analysisDefinitions, dashedName } from '../../src/engine';
 import { runCli, CliIO } from '../../src/cli/main';
 import { weeklyOrdersCsv } from '../../src/demo/weeklyOrders';
 import { fitCells, prepareSeries } from '../../src/engine';
@@ -55,16 +56,32 @@ describe('knotwise fit', () => {
     expect(err[0]).toMatch(/no column "nope"/);
     const b = io({ 'd.csv': demo });
     expect(runCli(['fit', 'd.csv', '--y', 'orders', '--df', 'lots'], b.host)).toBe(1);
-    expect(b.err[0]).toMatch(/df must be a finite number > 0; got "lots"/);
+    expect(b.err[0]).toMatch(/df \(spline\) must be a number greater than 0; got "lots"/);
+    const d = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--y', 'orders', '--order', '2'], d.host)).toBe(1);
+    expect(d.err[0]).toMatch(/unknown option "order" for spline; spline accepts: rule, penalty, df/);
     const c = io({});
     expect(runCli(['fit', 'missing.csv'], c.host)).toBe(2);
     expect(runCli(['fit', 'd.csv', '--bogus'], io({ 'd.csv': demo }).host)).toBe(2);
   });
 
-  test('help lists every option of every command', () => {
+  test('help lists every declared option of every method, and old flags still work', () => {
     const { host, out } = io({});
     expect(runCli(['help'], host)).toBe(0);
-    for (const flag of ['--x', '--y', '--method', '--order', '--df', '--penalty', '--select', '--folds', '--eval', '--model', '--min-segment']) expect(out.join('\n')).toContain(flag);
+    const text = out.join('\n');
+    for (const def of analysisDefinitions()) {
+      for (const o of def.options) expect(text).toContain(`--${dashedName(o.name)}`);
+      expect(text).toContain(def.name);
+    }
+    for (const flag of ['--x', '--y', '--method', '--eval', '--model']) expect(text).toContain(flag);
+    const t = io({});
+    expect(runCli(['help', 'trend'], t.host)).toBe(0);
+    expect(t.out.join('\n')).toMatch(/--order N +shape of the pieces/);
+    const old = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--y', 'orders', '--method', 'trend', '--select', 'cv', '--one-se', '--relaxed', '--json'], old.host)).toBe(0);
+    const o = JSON.parse(old.out.join(''));
+    expect(o.options.rule).toBe('cv-simpler');
+    expect(o.options.refit).toBe(1);
   });
 });
 
@@ -74,7 +91,8 @@ describe('knotwise breaks', () => {
     expect(runCli(['breaks', 'd.csv', '--x', 'week_start', '--y', 'returns', '--model', 'poisson', '--json'], host)).toBe(0);
     const o = JSON.parse(out.join(''));
     for (const k of ['model', 'penalty', 'breaks', 'segments', 'fitted', 'warnings']) expect(o).toHaveProperty(k);
-    expect(o.model).toBe('poisson');
+    expect(o.model).toBe('counts');
+    expect(o.warnings.map((w: any) => w.message).join(' ')).toMatch(/"poisson" is now called "counts"/);
     expect(o.fitted).toHaveLength(156);
     expect(o.warnings.map((w: any) => w.code)).toContain('break-cause');
     for (const b of o.breaks) expect(b.row).toBeGreaterThanOrEqual(1);

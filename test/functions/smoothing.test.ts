@@ -1,6 +1,8 @@
 import { smooth, penalty, summary, knots, evaluateAt } from '../../src/functions/smoothing';
-import { clearFitCache, fitCacheSize } from '../../src/functions/fitArgs';
-import { fitCells } from '../../src/engine';
+import { breaks, segments, breakScan } from '../../src/functions/breaks';
+import { options } from '../../src/functions/options';
+import { clearComputeCache, computeCacheSize, compute, useCompute, computeHere } from '../../src/functions/compute';
+import { fitCells, breaksFromCells } from '../../src/engine';
 
 const col = (a: unknown[]) => a.map((v) => [v]);
 
@@ -9,10 +11,10 @@ const xs = [5, 1, 3, 2, 4, 6, 8, 7, 9, 10, 11, 12];
 const ys: unknown[] = [14, 10, '', 11, 13, 15, 'n/a', 18, 21, 20, 24, 25];
 
 describe('SMOOTH', () => {
-  beforeEach(() => clearFitCache());
+  beforeEach(() => clearComputeCache());
 
-  test('returns one value per input row in the original order, empty where a row was dropped', () => {
-    const out = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4);
+  test('SMOOTH returns one value per input row in the original order, empty where a row was dropped', async () => {
+    const out = await smooth(col(ys), col(xs), 'spline', 'df=4');
     expect(out).toHaveLength(ys.length);
     expect(out[2][0]).toBe('');
     expect(out[6][0]).toBe('');
@@ -23,71 +25,107 @@ describe('SMOOTH', () => {
     }
   });
 
-  test('a row of values gives a row of results', () => {
-    const out = smooth([[1, 3, 2, 5, 4, 6, 8]], undefined, 'spline', undefined, undefined, 1);
+  test('SMOOTH on a row of values gives a row of results', async () => {
+    const out = await smooth([[1, 3, 2, 5, 4, 6, 8]], undefined, 'spline', 1);
     expect(out).toHaveLength(1);
     expect(out[0]).toHaveLength(7);
   });
 
-  test('bad options come back as an error carrying the engine message', () => {
-    expect(() => smooth(col(ys), col(xs), 'spline', undefined, undefined, -3)).toThrow(/penalty must be a finite number >= 0; got -3/);
-    expect(() => smooth(col(ys), col(xs), 'wavy')).toThrow(/unknown method "wavy"/);
-    expect(() => smooth(col(ys), col([1, 2]))).toThrow(/x has 2 rows but y has 12/);
+  test('SMOOTH turns bad options into an error carrying the engine message', async () => {
+    await expect(smooth(col(ys), col(xs), 'spline', -3)).rejects.toThrow(/penalty \(spline\) must be a number from 0; got -3/);
+    await expect(smooth(col(ys), col(xs), 'wavy')).rejects.toThrow(/unknown method "wavy"/);
+    await expect(smooth(col(ys), col([1, 2]))).rejects.toThrow(/x has 2 rows but y has 12/);
+    await expect(smooth(col(ys), col(xs), 'level')).rejects.toThrow(/unknown method "level"; use one of: spline, trend/);
+    await expect(smooth(5 as any)).rejects.toThrow(/y must be a range of cells/);
   });
 
-  test('output "se" and "residual" are aligned like the fitted values', () => {
-    const se = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4, undefined, undefined, undefined, 'se');
-    const res = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4, undefined, undefined, undefined, 'residual');
+  test('SMOOTH output "se" and "residual" are aligned like the fitted values', async () => {
+    const se = await smooth(col(ys), col(xs), 'spline', 'df=4', undefined, 'se');
+    const res = await smooth(col(ys), col(xs), 'spline', 'df=4', undefined, 'residual');
     expect(se[2][0]).toBe('');
     expect(typeof se[0][0]).toBe('number');
     expect(se[0][0]).toBeGreaterThan(0);
-    const fit = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4);
+    const fit = await smooth(col(ys), col(xs), 'spline', 'df=4');
     expect((res[0][0] as number) + (fit[0][0] as number)).toBeCloseTo(14, 12);
   });
 });
 
-describe('settings in the rule argument', () => {
-  test('"df=8" equals the df argument, and "cv; folds=5" sets both', () => {
-    const a = smooth(col(ys), col(xs), 'spline', undefined, 'df=4');
-    const b = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 4);
-    expect(a).toEqual(b);
-    const s = summary(col(ys), col(xs), 'spline', undefined, 'cv; folds=5');
-    expect(s.find((r) => r[0] === 'criterion')?.[1]).toBe('cv');
+describe('settings', () => {
+  test('settings "order=2; sure" equal the engine options order 2 and rule sure', async () => {
+    const a = await smooth(col(ys), col(xs), 'trend', 'order=2; sure');
+    const { series, result } = fitCells(ys as any, xs, null, { method: 'trend', order: 2, select: 'sure' });
+    expect(a[0][0]).toBeCloseTo(result.fitted[series.rowOf[0]], 12);
   });
-  test('an unknown setting is refused with the allowed names', () => {
-    expect(() => smooth(col(ys), col(xs), 'spline', undefined, 'smoothness=3')).toThrow(/unknown setting "smoothness" in "smoothness=3"; use rule, df, penalty, folds, relaxed or order/);
+
+  test('settings refuse an unknown name with the names the method accepts', async () => {
+    await expect(smooth(col(ys), col(xs), 'spline', 'smoothness=3')).rejects.toThrow(/unknown option "smoothness" for spline; spline accepts: rule, penalty, df, folds, search-points/);
   });
-  test('a positional argument wins over the same setting', () => {
-    const a = smooth(col(ys), col(xs), 'spline', undefined, 'df=4', undefined, 6);
-    const b = smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 6);
-    expect(a).toEqual(b);
+
+  test('settings refuse folds with the spline default GCV and a rule together with a penalty', async () => {
+    await expect(smooth(col(ys), col(xs), 'spline', 'folds=5')).rejects.toThrow(/folds applies only when rule is "cv" or "cv-simpler"/);
+    await expect(smooth(col(ys), col(xs), 'spline', 'cv; penalty=5')).rejects.toThrow(/give only one of rule or penalty/);
+  });
+
+  test('settings take a lone word only when one option has it as a value', async () => {
+    await expect(smooth(col(ys), col(xs), 'spline', 'wiggly')).rejects.toThrow(/"wiggly" in the settings "wiggly" is not a value this method knows on its own/);
   });
 });
 
-describe('the fit cache', () => {
-  test('several functions on the same range and options fit once', () => {
-    clearFitCache();
-    smooth(col(ys), col(xs), 'spline');
-    penalty(col(ys), col(xs), 'spline');
-    summary(col(ys), col(xs), 'spline');
-    expect(fitCacheSize()).toBe(1);
-    smooth(col(ys), col(xs), 'spline', undefined, undefined, undefined, 5);
-    expect(fitCacheSize()).toBe(2);
+describe('the shared computation', () => {
+  beforeEach(() => clearComputeCache());
+
+  test('several functions on the same range and settings compute once, even when called together', async () => {
+    let runs = 0;
+    useCompute(async (req, signal) => { runs++; return computeHere(req, signal); });
+    try {
+      await Promise.all([smooth(col(ys), col(xs), 'spline'), penalty(col(ys), col(xs), 'spline'), summary(col(ys), col(xs), 'spline')]);
+      expect(runs).toBe(1);
+      expect(computeCacheSize()).toBe(1);
+      await smooth(col(ys), col(xs), 'spline', 'df=5');
+      expect(runs).toBe(2);
+    } finally {
+      useCompute(computeHere);
+    }
+  });
+
+  test('a cancelled call stops the job only when no other call waits on it', async () => {
+    const seen: AbortSignal[] = [];
+    useCompute((req, signal) => { seen.push(signal); return new Promise(() => undefined); });
+    try {
+      const a: { onCanceled?: () => void } = {}, b: { onCanceled?: () => void } = {};
+      void compute({ analysis: 'spline', y: [1, 2, 3, 5] }, a);
+      void compute({ analysis: 'spline', y: [1, 2, 3, 5] }, b);
+      await Promise.resolve();
+      expect(seen).toHaveLength(1);
+      a.onCanceled!();
+      expect(seen[0].aborted).toBe(false);
+      b.onCanceled!();
+      expect(seen[0].aborted).toBe(true);
+      expect(computeCacheSize()).toBe(0);
+    } finally {
+      useCompute(computeHere);
+    }
+  });
+
+  test('a failed computation is not kept, so a recalculation tries again', async () => {
+    await expect(smooth(col(ys), col(xs), 'spline', 'df=-1')).rejects.toThrow();
+    expect(computeCacheSize()).toBe(0);
   });
 });
 
 describe('PENALTY and SUMMARY', () => {
-  test('PENALTY returns the chosen lambda, or the criterion table with a header', () => {
-    const one = penalty(col(ys), col(xs));
+  test('PENALTY returns the chosen lambda, or the criterion table with a header', async () => {
+    const one = await penalty(col(ys), col(xs));
     const { result } = fitCells(ys as any, xs, null, {});
     expect(one[0][0]).toBeCloseTo(result.penalty, 12);
-    const table = penalty(col(ys), col(xs), undefined, undefined, undefined, undefined, undefined, undefined, undefined, undefined, true);
+    const table = await penalty(col(ys), col(xs), undefined, undefined, undefined, true);
     expect(table[0]).toEqual(['penalty', 'score (gcv)', 'df', 'se', 'knots', 'converged']);
     expect(table.length).toBe(result.criterion.curve!.length + 1);
+    await expect(penalty(col(ys), col(xs), undefined, undefined, undefined, 'maybe')).rejects.toThrow(/table must be TRUE or FALSE; got "maybe"/);
   });
 
-  test('SUMMARY reports counts of used, dropped and merged rows and every warning', () => {
-    const t = summary(col(ys), col(xs));
+  test('SUMMARY reports counts of used, dropped and merged rows and every warning', async () => {
+    const t = await summary(col(ys), col(xs));
     const get = (k: string) => t.find((r) => r[0] === k)?.[1];
     expect(get('n used')).toBe(10);
     expect(get('n dropped')).toBe(2);
@@ -96,16 +134,63 @@ describe('PENALTY and SUMMARY', () => {
     expect(t.filter((r) => String(r[0]).startsWith('warning ')).length).toBe(nWarn);
     expect(t.some((r) => String(r[0]).includes('dropped-cells'))).toBe(true);
   });
+
+  test('SUMMARY shows a changepoint model its warnings, which BREAKS has no room for', async () => {
+    const t = await summary(col(ys), col(xs), 'level');
+    expect(t.find((r) => r[0] === 'breaks')).toBeDefined();
+    expect(t.some((r) => String(r[0]).includes('break-cause'))).toBe(true);
+    expect(t.some((r) => String(r[0]).includes('dropped-cells'))).toBe(true);
+  });
 });
 
 describe('KNOTS and EVALUATE', () => {
-  test('KNOTS has a header and no rows for the spline, which has no data-chosen knots', () => {
-    expect(knots(col(ys), col(xs), 'spline')).toEqual([['x', 'row', 'change']]);
+  test('KNOTS lists bends with their refit sizes, every knot on request, and none for the spline', async () => {
+    expect(await knots(col(ys), col(xs), "spline", undefined, undefined, "all")).toEqual([["x", "row", "change"]]);
+    const t = await knots(col(ys), col(xs), "trend", "order=1; penalty=0.5");
+    expect(t[0]).toEqual(["x", "row", "change", "from", "to", "knots merged", "rank"]);
+    await expect(knots(col(ys), col(xs), "trend", undefined, undefined, "some")).rejects.toThrow(/detail must be "bends" or "all"; got "some"/);
   });
 
-  test('EVALUATE flags positions outside the data', () => {
-    const out = evaluateAt(col(ys), col([0, 6.5, 13, 'text']), col(xs), 'spline', undefined, undefined, undefined, 4);
+  test('EVALUATE flags positions outside the data', async () => {
+    const out = await evaluateAt(col(ys), col([0, 6.5, 13, 'text']), col(xs), 'spline', 'df=4');
     expect(out.map((r) => r[1])).toEqual([true, false, true, '']);
     expect(out[3][0]).toBe('');
+  });
+});
+
+describe('BREAKS, SEGMENTS and BREAKSCAN', () => {
+  const steps = [1, 1.2, 0.9, 1.1, 1, 5, 5.2, 4.9, 5.1, 5, 5.1, 4.8];
+
+  test('BREAKS lists each break with the segment summaries of its model, matching the engine', async () => {
+    const t = await breaks(col(steps), undefined, 'volatility', 'penalty=10');
+    expect(t[0]).toEqual(['x', 'row', 'change', 'mean before', 'mean after', 'sd before', 'sd after']);
+    const d = breaksFromCells(steps, null, null, { model: 'meanvar', penalty: 10 }).result;
+    expect(t.length - 1).toBe(d.breaks.length);
+    d.breaks.forEach((b, i) => expect(t[i + 1][6]).toBeCloseTo(b.after.sd, 12));
+  });
+
+  test('BREAKS accepts the old model names and a number alone as the penalty', async () => {
+    const a = await breaks(col(steps), undefined, 'mean', 3);
+    const b = await breaks(col(steps), undefined, 'level', 'penalty=3');
+    expect(a).toEqual(b);
+  });
+
+  test('SEGMENTS gives one value per row, and BREAKSCAN one row per segmentation', async () => {
+    const s = await segments(col(steps));
+    expect(s).toHaveLength(steps.length);
+    const scan = await breakScan(col(steps), 0.5, 50);
+    expect(scan[0]).toEqual(['penalty from', 'penalty to', 'changes', 'cost']);
+    expect(scan.length).toBeGreaterThan(2);
+  });
+});
+
+describe('OPTIONS', () => {
+  test('OPTIONS lists every method, and a method its declared settings', () => {
+    const all = options();
+    expect(all.map((r) => r[0])).toEqual(expect.arrayContaining(['spline', 'trend', 'level', 'volatility', 'counts', 'distribution', 'slope']));
+    const trend = options('trend');
+    expect(trend[0]).toEqual(['setting', 'allowed', 'default', 'what it does']);
+    expect(trend.find((r) => r[0] === 'order')).toEqual(['order', 'whole number >= 0 and <= 3', 1, expect.stringMatching(/kinks/)]);
+    expect(() => options('wavy')).toThrow(/unknown method "wavy"/);
   });
 });

@@ -30,6 +30,11 @@ export class FitCache<V> {
   clear(): void {
     this.map.clear();
   }
+
+  /** Forgets one key (a failed computation). */
+  delete(key: string): void {
+    this.map.delete(key);
+  }
 }
 
 /** cyrb53-style string/number hashing (public-domain mixing constants), two 32-bit lanes. */

@@ -13,7 +13,10 @@
  *
  * Penalty choice: a given lambda; a target equivalent df = trace of the hat
  * matrix; generalised cross-validation (Craven & Wahba 1979),
- *   GCV(lambda) = n * sum w_i (y_i - f_i)^2 / (n - tr S)^2 ,
+ *   GCV(lambda) = [ sum_rows w_r (y_r - f(x_r))^2 / sum_rows w_r ] / (1 - tr S / N)^2 ,
+ * over the N original rows (so tied x count as the observations they are, and the
+ * scatter within a tie group counts, as in R's smooth.spline; without ties and with
+ * unit weights this is n RSS / (n - tr S)^2),
  * with tr S exact from the band of the inverse (Hutchinson & de Hoog 1985);
  * or K-fold cross-validation with deterministic folds ({@link foldOf}).
  *
@@ -24,7 +27,6 @@
  * pointwise standard error sigma * sqrt(h_ii / w_i)).
  */
 import { KnotwiseError, showNumber } from '../errors';
-import type { MethodDefinition } from '../registry';
 import type { Series } from '../series';
 import type { CriterionPoint, Evaluation, FitOptions, FitResult } from '../types';
 import { Warning, warning } from '../warnings';
@@ -33,10 +35,14 @@ import { reinschScore, reinschSolve, reinschSystem, ReinschSystem } from './spli
 import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
 import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
 import { solveForDf } from '../select/solveForDf';
-import { foldOf } from '../select/foldOf';
-import { oneStandardError } from '../select/oneStandardError';
+import { crossValidate } from '../select/crossValidate';
+import { choosePenalty, edgeWarning } from '../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { weightedMoments } from '../weightedMoments';
+import { QUIET, RunContext } from '../analysis/runContext';
+import type { AnalysisDefinition } from '../analysis/analysisDefinition';
+import type { ResolvedOptions } from '../analysis/optionDeclaration';
+import { PENALTY_OPTIONS, fitOptionsOf } from '../analysis/penaltyOptions';
 
 /** State kept for evaluation at new x (original units). */
 export interface SplineModel {
@@ -107,35 +113,30 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
   return out;
 }
 
-/** K-fold CV score of the spline at scaled lambda: the mean over folds of the held-out weighted mean squared error (as trend filtering reports it), with its standard error. */
+/**
+ * K-fold CV score of the spline at scaled lambda through the shared
+ * {@link crossValidate} (the same folds and score as every method), with each
+ * fold's banded system built once and reused for every penalty tried.
+ * Scores are in scaled units of y (the caller converts).
+ */
 function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: number } {
-  const n = s.t.length;
-  const fold = foldOf(n, k);
-  const systems: { sys: ReinschSystem; t: Float64Array; held: number[] }[] = [];
-  for (let f = 0; f < k; f++) {
-    const keep: number[] = [];
-    const held: number[] = [];
-    for (let i = 0; i < n; i++) (fold[i] === f ? held : keep).push(i);
-    const t = Float64Array.from(keep, (i) => s.t[i]);
-    systems.push({ sys: reinschSystem(t, Float64Array.from(keep, (i) => s.y[i]), Float64Array.from(keep, (i) => s.w[i])), t, held });
-  }
-  return (lt) => {
-    const foldScores: number[] = [];
-    for (const { sys, t, held } of systems) {
-      const sol = reinschSolve(sys, lt, false);
-      let e = 0, ww = 0;
-      for (const i of held) {
-        const r = s.y[i] - evaluateNaturalCubic(t, sol.g, sol.gamma, s.t[i]);
-        e += s.w[i] * r * r;
-        ww += s.w[i];
-      }
-      foldScores.push(e / ww);
+  const systems = new Map<number, { sys: ReinschSystem; t: Float64Array }>();
+  const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {
+    let f = systems.get(held[0]);
+    if (!f) {
+      const t = Float64Array.from(train, (i) => s.t[i]);
+      f = { sys: reinschSystem(t, Float64Array.from(train, (i) => s.y[i]), Float64Array.from(train, (i) => s.w[i])), t };
+      systems.set(held[0], f);
     }
-    const mean = foldScores.reduce((a, b) => a + b, 0) / k;
-    let v = 0;
-    for (const f of foldScores) v += (f - mean) * (f - mean);
-    const se = Math.sqrt(v / (k - 1) / k);
-    return { score: mean, se };
+    const { sys, t } = f;
+    return Array.from(pens, (lt) => {
+      const sol = reinschSolve(sys, lt, false);
+      return Float64Array.from(held, (i) => evaluateNaturalCubic(t, sol.g, sol.gamma, s.t[i]));
+    });
+  };
+  return (lt) => {
+    const cv = crossValidate(s.y, s.w, k, Float64Array.of(lt), predict);
+    return { score: cv.score[0], se: cv.se[0] };
   };
 }
 
@@ -156,7 +157,7 @@ function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: nu
  * r.penalty; r.df; r.fitted;
  * ```
  */
-export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
+export function fitSpline(series: Series, options: FitOptions = {}, context: RunContext = QUIET): FitResult {
   const n = series.n;
   if (n < 3) throw new KnotwiseError('too-few-points', `the spline needs at least 3 distinct x values; got ${n}.`);
   const opts = resolveOptions(options, n);
@@ -191,16 +192,27 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
     stoppingRule = 'root of df(lambda) = target on log(lambda): |df - target| <= tolerance * max(1, target)';
     criterion = { name: 'df', value: r.df };
   } else {
+    // GCV of the original observations (as R's smooth.spline computes it with ties): the weighted mean squared
+    // residual over all N rows used, including the scatter within tie groups, over (1 - df / N)^2. Without ties
+    // and with unit weights this is the usual n RSS / (n - df)^2.
+    const N = series.nUsed;
+    const within = series.withinTies / (s.ys * s.ys * s.wm);
     const gcv = (l: number): PenaltyScore => {
       const sol = reinschScore(sys, l);
-      const denom = n - sol.df;
-      return { score: denom > 0 ? (n * sol.rss) / (denom * denom) : Infinity, df: sol.df };
+      const denom = 1 - sol.df / N;
+      return { score: denom > 0 ? ((sol.rss + within) / n) / (denom * denom) : Infinity, df: sol.df };
     };
-    let score: (l: number) => PenaltyScore = gcv;
+    let plain: (l: number) => PenaltyScore = gcv;
     if (opts.select === 'cv') {
       const cv = cvScorer(s, opts.folds!);
-      score = (l) => { const c = cv(l); return { score: c.score, se: c.se, df: dfAt(l) }; };
+      plain = (l) => { const c = cv(l); return { score: c.score, se: c.se, df: dfAt(l) }; };
     }
+    let evaluations = 0;
+    const expected = opts.gridSize! + 20;
+    const score = (l: number): PenaltyScore => {
+      context.step(Math.min(0.95, evaluations++ / expected), `trying penalties (${opts.select === 'cv' ? 'cross-validation' : 'GCV'})`);
+      return plain(l);
+    };
     tolerance = 1e-4;
     const r = searchLogPenalty(score, lo, hi, opts.gridSize, tolerance);
     lt = r.penalty;
@@ -208,9 +220,7 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
     stoppingRule = `grid of ${opts.gridSize} log-spaced penalties, then Brent's method until the bracket is below ${tolerance} in log10(lambda)`;
     let value = r.score;
     if (opts.select === 'cv' && opts.oneSE) {
-      let best = 0;
-      r.curve.forEach((p, j) => { if (p.score < r.curve[best].score) best = j; });
-      const pick = r.curve[oneStandardError(r.curve.map((p) => p.score), r.curve.map((p) => p.se ?? 0), best)];
+      const pick = r.curve[choosePenalty(r.curve, 'simpler')];
       lt = pick.penalty; value = pick.score;
     }
     // criterion values are on the scaled y; report them in (units of y)^2
@@ -218,7 +228,7 @@ export function fitSpline(series: Series, options: FitOptions = {}): FitResult {
     const curve: CriterionPoint[] = r.curve.map((p) => ({ ...p, penalty: fromScaled(p.penalty, s), score: p.score * yv, ...(p.se !== undefined ? { se: p.se * yv } : {}) }));
     criterion = { name: opts.select!, value: value * yv, curve, atEdge: r.atEdge };
     if (r.atEdge) {
-      warnings.push(warning('penalty-at-edge', `The ${opts.select === 'cv' ? 'cross-validation' : 'GCV'} minimum is at the ${lt <= lo * 1.0001 ? 'rough (small-penalty)' : 'smooth (large-penalty)'} end of the searched range: the data may not support a choice by this rule. Consider giving a df target.`));
+      warnings.push(edgeWarning(opts.select === 'cv' ? 'cross-validation' : 'GCV', lt <= lo * 1.0001 ? 'rough' : 'smooth', fromScaled(lt, s), 'a straight line'));
     }
   }
 
@@ -260,11 +270,24 @@ export function evaluateSpline(result: FitResult, xNew: Float64Array): Evaluatio
   return { x: xNew, value, extrapolated };
 }
 
-/** The spline as a registered method. */
-export const splineMethod: MethodDefinition = {
+/**
+ * The spline as a declared analysis: its options (a penalty rule, a fixed
+ * penalty or a df target, folds for cross-validation, the search grid) and
+ * its run. The registration line is in `analyses.ts`.
+ */
+export const splineAnalysis: AnalysisDefinition = {
   name: 'spline',
-  summary: 'natural cubic smoothing spline (knots at every x; penalty by GCV, CV, df or value)',
+  family: 'smoother',
+  label: 'Smooth curve (smoothing spline)',
+  summary: 'natural cubic smoothing spline: a smooth curve with a knot at every x; penalty by GCV, cross-validation, a df target or a value (Reinsch 1967; Craven & Wahba 1979)',
+  options: PENALTY_OPTIONS({ rules: ['gcv', 'cv', 'cv-simpler'], defaultRule: 'gcv', folds: 10, searchPoints: 25 }),
+  ties: 'merge',
   minPoints: () => 3,
-  fit: fitSpline,
-  evaluate: evaluateSpline,
+  autoVariants: [{ label: 'a smooth curve (spline)', options: {}, simplicity: 1 }],
+  run(series: Series, options: ResolvedOptions, context: RunContext) {
+    const smooth = fitSpline(series, fitOptionsOf(options), context);
+    return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
+  },
+  evaluate: (result, x) => evaluateSpline(result.smooth!, x),
 };
+

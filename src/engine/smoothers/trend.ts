@@ -41,14 +41,18 @@
  * A trend describes the past; its end values are revised as data arrive and
  * it is not a forecast (every result carries the 'boundary' note).
  */
+import { QUIET, RunContext } from './../analysis/runContext';
+import type { AnalysisDefinition } from '../analysis/analysisDefinition';
+import type { ResolvedOptions } from '../analysis/optionDeclaration';
+import { PENALTY_OPTIONS, fitOptionsOf } from '../analysis/penaltyOptions';
 import { KnotwiseError, showNumber } from '../errors';
-import type { MethodDefinition } from '../registry';
 import type { Series } from '../series';
 import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot, SolverStatus } from '../types';
 import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
-import { oneStandardError } from '../select/oneStandardError';
+import { choosePenalty, edgeWarning } from '../select/choosePenalty';
+import { knotBends } from '../diagnostics/knotBends';
 import { differenceOperator } from '../linalg/difference';
 import { trendScaling, toScaledPenalty, toDataPenalty, TrendScaling } from './trend/trendScaling';
 import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
@@ -195,7 +199,7 @@ function cvPossible(n: number, folds: number, k: number): boolean {
  * r.knots.map((k) => k.x);
  * ```
  */
-export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
+export function fitTrend(series: Series, options: FitOptions = {}, context: RunContext = QUIET): FitResult {
   const s = trendSettings(options);
   const k = s.order;
   checkSize(series, k);
@@ -216,7 +220,7 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
     criterion = { name: 'fixed', value: NaN };
   } else if (options.df !== undefined) {
     const target = checkPositive(options.df, 'df');
-    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: 0, relaxed: 0, tolerance: s.tolerance, maxIterations: s.maxIterations });
+    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: 0, relaxed: 0, tolerance: s.tolerance, maxIterations: s.maxIterations, context });
     sc = path.scaling;
     const r = searchDf(path.problem, path, target, s);
     fit = r.fit;
@@ -231,20 +235,15 @@ export function fitTrend(series: Series, options: FitOptions = {}): FitResult {
       warnings.push(warning('note', `${n} points are too few for ${s.folds}-fold cross-validation at order ${k}; the penalty was chosen by SURE instead.`));
       rule = 'sure';
     }
-    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations });
+    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations, context });
     const pts = path.points;
-    const score = (p: (typeof pts)[number]) => (rule === 'cv' ? p.cv : rule === 'sure' ? p.sure : p.bic);
-    // minimum of the score; on ties the larger penalty (the simpler fit)
-    let best = pts.length - 1;
-    for (let j = pts.length - 2; j >= 0; j--) if (score(pts[j]) < score(pts[best])) best = j;
-    let chosen = best;
-    if (rule === 'cv' && s.oneSE) chosen = oneStandardError(pts.map((p) => p.cv), pts.map((p) => p.cvSe), best);
+    const curve = curveOf(path, rule);
+    const chosen = choosePenalty(curve, rule === 'cv' && s.oneSE ? 'simpler' : 'minimum');
     const atEdge = chosen === 0 || chosen === pts.length - 1;
-    criterion = { name: rule, value: score(pts[chosen]), curve: curveOf(path, rule), atEdge };
+    criterion = { name: rule, value: curve[chosen].score, curve, atEdge };
     if (atEdge) {
-      warnings.push(warning('penalty-at-edge', chosen === 0
-        ? `The ${rule.toUpperCase()} choice is the smallest penalty searched (${showNumber(pts[0].penalty)}): the fit may follow noise; consider a larger penalty or a df target.`
-        : `The ${rule.toUpperCase()} choice is the largest penalty searched (lambda_max = ${showNumber(pts[chosen].penalty)}): the data show no trend beyond a polynomial of degree ${k}.`));
+      const ruleName = rule === 'cv' ? 'cross-validation' : rule.toUpperCase();
+      warnings.push(edgeWarning(ruleName, chosen === 0 ? 'rough' : 'smooth', pts[chosen].penalty, `a polynomial of degree ${k}`));
     }
     sc = path.scaling;
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
@@ -363,7 +362,7 @@ function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: Trend
   return {
     method: 'trend',
     options: { ...options, method: 'trend', order: k, relaxed: s.relaxed, gridSize: s.gridSize, folds: s.folds, tolerance: s.tolerance, maxIterations: s.maxIterations, ...(options.penalty === undefined && options.df === undefined ? { select: criterion.name as 'cv' | 'sure' | 'bic', oneSE: s.oneSE } : {}) },
-    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, warnings, solver: status, model,
+    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, bends: knotBends(series, k, knots), warnings, solver: status, model,
   };
 }
 
@@ -384,7 +383,7 @@ function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: Trend
  */
 export function evaluateTrend(result: FitResult, at: Float64Array): Evaluation {
   const m = result.model as TrendModel | undefined;
-  if (!m || !(m.l1 instanceof Float64Array)) throw new KnotwiseError('bad-option', 'this result does not come from trend filtering; evaluate it with its own method.');
+  if (!m || !ArrayBuffer.isView(m.l1)) throw new KnotwiseError('bad-option', 'this result does not come from trend filtering; evaluate it with its own method.');
   const { value, extrapolated } = interpolateTrend(m.x, m.l1, m.order, at);
   if (m.relaxed > 0 && m.refit) {
     const r = evaluateRegressionSpline(m.refit, at);
@@ -393,11 +392,41 @@ export function evaluateTrend(result: FitResult, at: Float64Array): Evaluation {
   return { x: Float64Array.from(at), value, extrapolated };
 }
 
-/** The method definition registered as 'trend'. */
-export const trendMethod: MethodDefinition = {
+/**
+ * Trend filtering as a declared analysis: order, penalty rule (or a fixed
+ * penalty, or a df target), folds, refit, grid, solver tolerance and
+ * iteration limit. Registered in `analyses.ts`.
+ */
+export const trendAnalysis: AnalysisDefinition = {
   name: 'trend',
-  summary: 'L1 trend filtering: piecewise constant, linear, quadratic or cubic trend with data-chosen knots.',
-  minPoints: (options: FitOptions) => (options.order === undefined ? TREND_DEFAULT_ORDER : typeof options.order === 'number' && options.order >= 0 && options.order <= 3 ? Math.floor(options.order) : TREND_DEFAULT_ORDER) + 2,
-  fit: fitTrend,
-  evaluate: evaluateTrend,
+  family: 'smoother',
+  label: 'Pieces joined at knots the data choose (trend filtering)',
+  summary: 'L1 trend filtering: piecewise constant, linear, quadratic or cubic trend with knots chosen by the data (Kim, Koh, Boyd & Gorinevsky 2009; Tibshirani 2014)',
+  options: [
+    {
+      name: 'order', kind: 'integer', min: 0, max: 3, default: TREND_DEFAULT_ORDER,
+      help: 'shape of the pieces: 0 level shifts, 1 straight pieces with kinks (default), 2 or 3 smooth bends',
+    },
+    ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler', 'sure', 'bic'], defaultRule: 'cv', folds: 5, searchPoints: 30 }),
+    {
+      name: 'refit', kind: 'number', min: 0, max: 1, default: 0, implied: 1, oldNames: ['relaxed'],
+      help: 'refit the pieces between the knots without shrinking their jumps: 0 plain fit (default), 1 full refit, between a mix (relaxed trend filtering)',
+    },
+    { name: 'tolerance', kind: 'number', above: 0, max: 0.01, help: 'relative duality gap the solver must reach (default 1e-8)' },
+    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'iteration limit of the solver (default 200)' },
+  ],
+  ties: 'merge',
+  minPoints: (o: ResolvedOptions) => (o.order as number) + 2,
+  autoVariants: [
+    { label: 'level shifts (trend filtering, order 0)', options: { order: 0 }, simplicity: 0 },
+    { label: 'straight pieces with kinks (trend filtering, order 1)', options: { order: 1 }, simplicity: 1 },
+    { label: 'smooth bends (trend filtering, order 2)', options: { order: 2 }, simplicity: 2 },
+    { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3 },
+  ],
+  run(series: Series, options: ResolvedOptions, context: RunContext) {
+    const smooth = fitTrend(series, fitOptionsOf(options), context);
+    return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
+  },
+  evaluate: (result, x) => evaluateTrend(result.smooth!, x),
 };
+

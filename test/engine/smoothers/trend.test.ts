@@ -3,8 +3,8 @@ import * as path from 'path';
 import { fitTrend, evaluateTrend, trendCriterionPath, trendPenaltyMax } from '../../../src/engine/smoothers/trend';
 import { seriesFromArrays, prepareSeries } from '../../../src/engine/series';
 import { KnotwiseError } from '../../../src/engine/errors';
-import { getMethod } from '../../../src/engine/registry';
-import '../../../src/engine/methods';
+import { runAnalysis } from '../../../src/engine/analysis/runAnalysis';
+import { trendAnalysis } from '../../../src/engine/smoothers/trend';
 import { checkTrendKkt } from './trendKkt';
 import { totalVariationDenoise } from '../../../src/engine/smoothers/trend/totalVariationDenoise';
 
@@ -279,13 +279,11 @@ describe('evaluateTrend', () => {
 });
 
 describe('trend method definition', () => {
-  test('is registered as "trend" and fits through the registry', () => {
-    const m = getMethod('trend');
-    const s = prepareSeries([1, 1, 1, 10, 10, 10, 10, 20], [1, 2, 3, 4, 5, 6, 7, 8]);
-    const r = m.fit(s, { order: 0, penalty: 0.5 });
+  test('is registered as "trend" and fits through runAnalysis', () => {
+    const r = runAnalysis({ analysis: 'trend', y: [1, 1, 1, 10, 10, 10, 10, 20], x: [1, 2, 3, 4, 5, 6, 7, 8], options: { order: 0, penalty: 0.5 } }).smooth!;
     expect(r.method).toBe('trend');
     expect(r.knots.map((k) => k.row)).toEqual([3, 7]);
-    expect(m.minPoints({ order: 3 })).toBe(5);
+    expect(trendAnalysis.minPoints({ order: 3 })).toBe(5);
   });
 
   test.each([

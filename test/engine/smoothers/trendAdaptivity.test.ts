@@ -8,9 +8,8 @@
  * filtering's df is knots + k + 1.
  */
 import { fitTrend } from '../../../src/engine/smoothers/trend';
-import { getMethod } from '../../../src/engine/registry';
+import { fitSpline } from '../../../src/engine/smoothers/spline';
 import { seriesFromArrays } from '../../../src/engine/series';
-import '../../../src/engine/methods';
 import { doppler, blocks, noisyTestFunction } from './trendTestFunctions';
 
 function noisy(f: (t: number) => number, n: number, seed: number) {
@@ -21,7 +20,7 @@ function noisy(f: (t: number) => number, n: number, seed: number) {
 const mse = (fit: Float64Array, truth: Float64Array) => fit.reduce((s, v, i) => s + (v - truth[i]) ** 2, 0) / truth.length;
 
 describe('trend filtering versus the smoothing spline at matched df', () => {
-  const spline = getMethod('spline');
+  const spline = { fit: fitSpline };
 
   test('Doppler: cubic trend filtering has the lower error at most df from 20 to 100', () => {
     const { series, truth } = noisy(doppler, 512, 11);

@@ -5,12 +5,13 @@
  */
 import type { Series } from '../../series';
 import type { SolverStatus } from '../../types';
-import { foldOf } from '../../select/foldOf';
 import { trendScaling, toDataPenalty, TrendScaling } from './trendScaling';
 import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } from './solveTrend';
 import { interpolateTrend } from './interpolateTrend';
 import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSplineRefit';
 import { differenceSigma } from '../../robustSigma';
+import { crossValidate } from '../../select/crossValidate';
+import type { RunContext } from '../../analysis/runContext';
 
 /** Settings of {@link trendPath} (already validated). */
 export interface TrendPathSettings {
@@ -26,6 +27,8 @@ export interface TrendPathSettings {
   maxIterations: number;
   /** Smallest grid penalty as a fraction of lambda_max (default {@link defaultGridRatio}). */
   ratio?: number;
+  /** Progress and cancellation, checked at every penalty of the path and of each fold. */
+  context?: RunContext;
 }
 
 /** One penalty of the path, in the data's units. */
@@ -130,7 +133,9 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   const sigmaNoise = differenceSigma(series.y, 1, series.w);
   const pts: TrendPathPoint[] = [];
   let warm: TrendFit | undefined;
+  const stages = 1 + (s.folds >= 2 ? s.folds : 0);
   for (let j = 0; j < G; j++) {
+    s.context?.step(j / G / stages, 'solving along the penalty path');
     const fit = solveTrend(prob, grid[j], s.tolerance, s.maxIterations, warm);
     warm = fit;
     const { b } = relaxFit(sc.xs, sc.ys, sc.ws, k, fit, s.relaxed);
@@ -140,32 +145,30 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
     pts.push({
       penalty: toDataPenalty(grid[j], sc), df, knots: fit.knotRows.length, rss, cv: NaN, cvSe: NaN,
       sure: (rss + 2 * sigmaNoise * sigmaNoise * df) / n,
-      bic: n * Math.log(Math.max(rss, 1e-300) / n) + df * Math.log(n),
+      // BIC with the noise variance known (estimated robustly, as for SURE): RSS / sigma^2 + df log n. The form
+      // n log(RSS / n) + df log n has no floor as the fit approaches interpolation (RSS -> 0) and chose it on short series.
+      bic: rss / (sigmaNoise > 0 ? sigmaNoise * sigmaNoise : Number.MIN_VALUE) + df * Math.log(n),
       status: fit.status,
       seed: seedOf(fit),
     });
   }
   if (s.folds >= 2) {
     const K = s.folds;
-    const fold = foldOf(n, K);
-    const err = new Float64Array(K * G);
     let swAll = 0;
     for (let i = 0; i < n; i++) swAll += sc.ws[i];
-    for (let f = 0; f < K; f++) {
-      const tr: number[] = [], te: number[] = [];
-      for (let i = 0; i < n; i++) (fold[i] === f ? te : tr).push(i);
-      if (te.length === 0) continue;
+    // one fold: the warm-started path on its training points, predicted at the held-out x
+    const predict = (tr: Int32Array, te: Int32Array, pens: Float64Array): Float64Array[] => {
       const xt = Float64Array.from(tr, (i) => sc.xs[i]);
       const yt = Float64Array.from(tr, (i) => sc.ys[i]);
       const wt = Float64Array.from(tr, (i) => sc.ws[i]);
       const xh = Float64Array.from(te, (i) => sc.xs[i]);
-      let swt = 0, swh = 0;
+      let swt = 0;
       for (const i of tr) swt += sc.ws[i];
-      for (const i of te) swh += series.w[i];
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
       let wf: TrendFit | undefined;
-      for (let j = 0; j < G; j++) {
-        const fit = solveTrend(sub, grid[j] * (swt / swAll), Math.max(s.tolerance, CV_TOLERANCE), s.maxIterations, wf, false);
+      const out: Float64Array[] = [];
+      for (let j = 0; j < pens.length; j++) {
+        const fit = solveTrend(sub, pens[j] * (swt / swAll), Math.max(s.tolerance, CV_TOLERANCE), s.maxIterations, wf, false);
         wf = fit;
         const pred = interpolateTrend(xt, fit.b, k, xh).value;
         if (s.relaxed > 0) {
@@ -173,19 +176,18 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
           const pr = evaluateRegressionSpline(refit!.spline, xh);
           for (let i = 0; i < pred.length; i++) pred[i] = s.relaxed * pr[i] + (1 - s.relaxed) * pred[i];
         }
-        let e = 0;
-        for (let t = 0; t < te.length; t++) e += series.w[te[t]] * (sc.c * (sc.ys[te[t]] - pred[t])) ** 2;
-        err[f * G + j] = e / swh;
+        // back to the units of y, as every method's cross-validation reports
+        for (let i = 0; i < pred.length; i++) pred[i] = sc.y0 + sc.c * pred[i];
+        out.push(pred);
       }
-    }
+      return out;
+    };
+    const cv = s.context
+      ? s.context.part(1 / stages, 1, () => crossValidate(series.y, series.w, K, grid, predict, s.context))
+      : crossValidate(series.y, series.w, K, grid, predict);
     for (let j = 0; j < G; j++) {
-      let mean = 0;
-      for (let f = 0; f < K; f++) mean += err[f * G + j];
-      mean /= K;
-      let v = 0;
-      for (let f = 0; f < K; f++) v += (err[f * G + j] - mean) ** 2;
-      pts[j].cv = mean;
-      pts[j].cvSe = Math.sqrt(v / (K - 1) / K);
+      pts[j].cv = cv.score[j];
+      pts[j].cvSe = cv.se[j];
     }
   }
   pts.reverse();

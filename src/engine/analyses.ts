@@ -1,0 +1,14 @@
+/**
+ * Registers the built-in analyses. One line per analysis; the fronts, the
+ * resolver and the cache pick them up by name.
+ */
+import { registerAnalysis } from './analysis/analysisRegistry';
+import { splineAnalysis } from './smoothers/spline';
+import { trendAnalysis } from './smoothers/trend';
+import { autoAnalysis } from './smoothers/auto';
+import { CHANGEPOINT_ANALYSES } from './breaks/changepointAnalyses';
+
+registerAnalysis(splineAnalysis);
+registerAnalysis(trendAnalysis);
+registerAnalysis(autoAnalysis);
+for (const a of CHANGEPOINT_ANALYSES) registerAnalysis(a);

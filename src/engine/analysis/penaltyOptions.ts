@@ -1,0 +1,59 @@
+/**
+ * The penalty options every smoother declares alike: a rule, a fixed penalty
+ * or a df target (alternatives), cross-validation folds and the size of the
+ * search grid. One builder so the words and ranges are the same everywhere.
+ */
+import type { FitOptions, SelectRule } from '../types';
+import type { OptionDeclaration, ResolvedOptions } from './optionDeclaration';
+
+/** Plain-language help for each penalty rule a smoother may accept. */
+export const RULE_HELP: Readonly<Record<string, string>> = {
+  gcv: 'generalised cross-validation (Craven & Wahba 1979): fast, for smoothers that are linear in y',
+  cv: 'K-fold cross-validation: the penalty whose fits best predict held-out points',
+  'cv-simpler': 'the simplest fit whose cross-validation error is within one standard error of the best (the one-standard-error rule)',
+  sure: "Stein's unbiased risk estimate with a robust noise estimate",
+  bic: 'Bayesian information criterion',
+};
+
+/**
+ * Declarations of rule, penalty, df, folds and searchPoints for a smoother.
+ *
+ * @param o - the rules it accepts, its default rule, default folds and grid size
+ */
+export function PENALTY_OPTIONS(o: { rules: readonly string[]; defaultRule: string; folds: number; searchPoints: number }): OptionDeclaration[] {
+  const cvRules = o.rules.filter((r) => r === 'cv' || r === 'cv-simpler');
+  return [
+    {
+      name: 'rule', kind: 'choice', choices: o.rules, default: o.defaultRule, group: 'penalty',
+      choiceHelp: Object.fromEntries(o.rules.map((r) => [r, RULE_HELP[r]])),
+      oldValues: { 'cv-1se': 'cv-simpler' }, oldNames: ['select'],
+      help: `how to choose the penalty when none is given: ${o.rules.join(', ')} (default ${o.defaultRule})`,
+    },
+    { name: 'penalty', kind: 'number', min: 0, group: 'penalty', oldNames: ['lambda'], help: 'a fixed penalty lambda instead of a rule (units: see the method)' },
+    { name: 'df', kind: 'number', above: 0, group: 'penalty', help: 'a target equivalent degrees of freedom instead of a rule' },
+    ...(cvRules.length ? [{
+      name: 'folds', kind: 'integer', min: 2, max: 50, onlyWith: { option: 'rule', values: cvRules },
+      help: `number of cross-validation folds (default ${o.folds}, fewer on short series)`,
+    } as OptionDeclaration] : []),
+    { name: 'searchPoints', kind: 'integer', min: 5, max: 400, default: o.searchPoints, oldNames: ['gridSize'], help: `number of penalties tried on the search grid (default ${o.searchPoints})` },
+  ];
+}
+
+/** Resolved options as the smoothers' {@link FitOptions}. Unchecked: the resolver has validated them. */
+export function fitOptionsOf(r: ResolvedOptions): FitOptions {
+  const o: FitOptions = {};
+  if (r.penalty !== undefined) o.penalty = r.penalty as number;
+  else if (r.df !== undefined) o.df = r.df as number;
+  else if (r.rule !== undefined) {
+    const rule = r.rule as string;
+    o.select = (rule === 'cv-simpler' ? 'cv' : rule) as SelectRule;
+    if (rule === 'cv-simpler') o.oneSE = true;
+  }
+  if (r.folds !== undefined) o.folds = r.folds as number;
+  if (r.searchPoints !== undefined) o.gridSize = r.searchPoints as number;
+  if (r.order !== undefined) o.order = r.order as number;
+  if (r.refit !== undefined) o.relaxed = r.refit as number;
+  if (r.tolerance !== undefined) o.tolerance = r.tolerance as number;
+  if (r.maxIterations !== undefined) o.maxIterations = r.maxIterations as number;
+  return o;
+}

@@ -1,0 +1,99 @@
+/**
+ * The one entry every front calls: a plain request in, a plain result out.
+ * It validates the request once (shape, analysis name, options against the
+ * analysis's declarations), takes the data in ({@link prepareSeries}), runs
+ * the analysis and returns a structured-clone-able {@link AnalysisResult}, so
+ * the same call runs in Node, in a browser page, in a Web Worker and in a
+ * Node worker thread.
+ */
+import '../analyses';
+import { KnotwiseError } from '../errors';
+import { describeValue } from '../options';
+import { Cell, prepareSeries, toColumn } from '../series';
+import { warning } from '../warnings';
+import { cacheKey } from '../cache/fitCache';
+import type { AnalysisFamily, AnalysisResult } from './analysisDefinition';
+import type { Evaluation } from '../types';
+import { findAnalysis } from './analysisRegistry';
+import type { RunControl } from './optionDeclaration';
+import { resolveOptions } from './resolveOptions';
+import { RunContext } from './runContext';
+
+/** What to analyse: the data as cells (numbers, text, blanks, errors, booleans) and the options as typed. */
+export interface AnalysisRequest {
+  /** A registered analysis name: 'spline', 'trend', 'level', ... (case-insensitive). */
+  analysis: string;
+  /** The values, one cell per row (a single row or column; a 1-column 2-D block is accepted). */
+  y: readonly Cell[] | readonly (readonly Cell[])[];
+  /** Positions, same length as y; omitted: 1, 2, 3, ... */
+  x?: readonly Cell[] | readonly (readonly Cell[])[] | null;
+  /** Positive weights, same length as y; omitted: all 1. */
+  w?: readonly Cell[] | readonly (readonly Cell[])[] | null;
+  /** Options by declared name (any spelling; see resolveOptions). */
+  options?: Readonly<Record<string, unknown>>;
+  /** Refuse an analysis of another family (a changepoint model asked of a smoothing function). */
+  family?: AnalysisFamily;
+}
+
+function column(v: unknown, name: string): Cell[] {
+  if (!Array.isArray(v)) throw new KnotwiseError('shape-mismatch', `${name} must be a range of cells (a column or a row); got ${describeValue(v)}.`);
+  return toColumn(v as Cell[] | Cell[][], name);
+}
+
+/**
+ * Runs one analysis.
+ *
+ * @param request - see {@link AnalysisRequest}
+ * @param control - `onProgress` receives {fraction, stage} at most every 50 ms; `signal.aborted` stops the run with a `cancelled` error
+ * @throws {@link KnotwiseError} for unknown analyses, bad options, unusable data, or cancellation
+ * @example
+ * ```ts
+ * const r = runAnalysis({ analysis: 'trend', y: orders, x: weeks, options: { order: 1, rule: 'cv' } });
+ * r.smooth!.knots; r.fitted; r.warnings;
+ * ```
+ */
+export function runAnalysis(request: AnalysisRequest, control: RunControl = {}): AnalysisResult {
+  if (typeof request !== 'object' || request === null) throw new KnotwiseError('bad-option', `a request must name an analysis and give y; got ${describeValue(request)}.`);
+  const { def, renamedFrom } = findAnalysis(request.analysis, request.family);
+  const { options, notes } = resolveOptions(def.options, request.options, def.name);
+  if (renamedFrom) notes.unshift(warning('note', `"${renamedFrom}" is now called "${def.name}"; the old name is still accepted for now.`));
+  const context = new RunContext(control);
+  context.step(0, 'reading the data');
+  const y = column(request.y, 'y');
+  const x = request.x === undefined || request.x === null ? null : column(request.x, 'x');
+  const w = request.w === undefined || request.w === null ? null : column(request.w, 'weights');
+  const series = prepareSeries(y, x, w, { ties: def.ties, minPoints: def.minPoints(options), method: def.name });
+  const core = def.run(series, options, context);
+  context.step(1, 'done');
+  return { ...core, warnings: [...notes, ...core.warnings], analysis: def.name, family: def.family, options, series };
+}
+
+/**
+ * A key naming a request's answer: equal keys, equal results (up to a 53-bit
+ * hash collision). Analyses are keyed by their current name (old names alike);
+ * `family` is not part of the key, since it only restricts which names are
+ * accepted (callers check it before looking up a shared answer). Options are
+ * keyed as given, so spellings that resolve alike may still get different
+ * keys; that only costs a recomputation.
+ */
+export function analysisKey(request: AnalysisRequest): string {
+  let name = String(request.analysis).trim().toLowerCase();
+  try { name = findAnalysis(name).def.name; } catch { /* an unknown name keys as typed; running it reports the error */ }
+  return cacheKey(['analysis', name, request.y, request.x ?? null, request.w ?? null, request.options ?? {}]);
+}
+
+/**
+ * Values of a smoother's fit at new x, flagged where they lie beyond the data
+ * (an extrapolation, not a forecast).
+ *
+ * @throws {@link KnotwiseError} `bad-option` when the analysis has no curve to evaluate (changepoint models)
+ * @example
+ * ```ts
+ * evaluateAnalysis(runAnalysis({ analysis: 'spline', y }), [2.5, 40]).value;
+ * ```
+ */
+export function evaluateAnalysis(result: AnalysisResult, at: ArrayLike<number>): Evaluation {
+  const { def } = findAnalysis(result.analysis);
+  if (!def.evaluate) throw new KnotwiseError('bad-option', `"${def.name}" gives no curve to evaluate at new x; use a smoothing method.`);
+  return def.evaluate(result, Float64Array.from(at));
+}

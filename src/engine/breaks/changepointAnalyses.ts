@@ -1,0 +1,66 @@
+/**
+ * The changepoint models as declared analyses, one per model, sharing the
+ * declarations of the options they have in common. Registered in
+ * `analyses.ts`; {@link findBreaks} does the work.
+ */
+import type { AnalysisDefinition } from '../analysis/analysisDefinition';
+import type { OptionDeclaration, ResolvedOptions } from '../analysis/optionDeclaration';
+import type { RunContext } from '../analysis/runContext';
+import type { Series } from '../series';
+import { findBreaks } from './findBreaks';
+import type { BreaksModel, BreaksOptions } from './types';
+
+const RULE: OptionDeclaration = {
+  name: 'rule', kind: 'choice', choices: ['bic', 'mbic'], default: 'bic', group: 'penalty',
+  choiceHelp: { bic: 'Bayesian information criterion: parameters per change x log n', mbic: 'modified BIC (Zhang & Siegmund 2007): stricter, fewer false changes on long series' },
+  help: 'how the cost of one more change is set when no penalty is given: bic (default) or mbic',
+};
+const PENALTY: OptionDeclaration = {
+  name: 'penalty', kind: 'number', min: 0, group: 'penalty', textGoesTo: 'rule',
+  help: 'a fixed cost per change (on the scale of twice the log-likelihood) instead of a rule',
+};
+const RANGE: OptionDeclaration = {
+  name: 'penaltyRange', kind: 'range', min: 0, oldNames: ['crops'],
+  help: 'low, high: also list every optimal segmentation for penalties in this range (CROPS), to read changes against cost',
+};
+const MAX_RUNS: OptionDeclaration = { name: 'maxRuns', kind: 'integer', min: 2, max: 10000, help: 'most penalised searches a penalty range may run (default 200)' };
+const shortest = (min: number): OptionDeclaration => ({
+  name: 'shortestSegment', kind: 'integer', min, default: min, oldNames: ['minSegment'],
+  help: `fewest points in a segment (default ${min})`,
+});
+const SIGMA: OptionDeclaration = { name: 'sigma', kind: 'number', above: 0, help: 'known noise standard deviation in units of y (default: estimated robustly)' };
+const QUANTILES: OptionDeclaration = { name: 'quantiles', kind: 'integer', min: 2, max: 100, default: 10, help: 'number of quantiles the distribution cost compares (default 10)' };
+
+function changepointAnalysis(name: string, model: BreaksModel, label: string, summary: string, extra: OptionDeclaration[], minSegment = 1): AnalysisDefinition {
+  return {
+    name, oldNames: name === model ? [] : [model], family: 'changepoints', label, summary,
+    options: [RULE, PENALTY, shortest(minSegment), ...extra, RANGE, MAX_RUNS],
+    ties: 'keep',
+    minPoints: (o: ResolvedOptions) => Math.max(2, o.shortestSegment as number),
+    run(series: Series, o: ResolvedOptions, context: RunContext) {
+      context.step(0, 'searching for the optimal segmentation');
+      const options: BreaksOptions = { model, minSegment: o.shortestSegment as number, penalty: (o.penalty ?? o.rule) as BreaksOptions['penalty'] };
+      if (o.sigma !== undefined) options.sigma = o.sigma as number;
+      if (model === 'distribution') options.quantiles = o.quantiles as number;
+      if (o.penaltyRange !== undefined) options.crops = [...(o.penaltyRange as [number, number])];
+      if (o.maxRuns !== undefined) options.maxRuns = o.maxRuns as number;
+      const breaks = findBreaks(series, options);
+      return {
+        fitted: breaks.fitted, warnings: breaks.warnings, breaks,
+        solver: {
+          converged: breaks.solver.converged, iterations: breaks.solver.iterations, tolerance: 0, achieved: 0,
+          stoppingRule: breaks.solver.stoppingRule,
+        },
+      };
+    },
+  };
+}
+
+/** The changepoint models, in the order fronts list them. */
+export const CHANGEPOINT_ANALYSES: AnalysisDefinition[] = [
+  changepointAnalysis('level', 'mean', 'Jumps in level', 'changes in mean, Gaussian cost with a robust noise scale; exact by PELT (Killick, Fearnhead & Eckley 2012)', [SIGMA]),
+  changepointAnalysis('volatility', 'meanvar', 'Jumps in level and volatility', 'changes in mean and variance, Gaussian cost; exact by PELT', [], 2),
+  changepointAnalysis('counts', 'poisson', 'Changes in the rate of counts', 'changes in a Poisson rate; exact by PELT', []),
+  changepointAnalysis('distribution', 'distribution', 'Any change in distribution', 'nonparametric empirical-distribution cost (Haynes, Fearnhead & Eckley 2017); exact by PELT', [QUANTILES]),
+  changepointAnalysis('slope', 'slope', 'Changes in growth rate (a continuous broken line)', 'continuous piecewise-linear trend with an L0 penalty; exact by CPOP (Fearnhead, Maidstone & Letchford 2019)', [SIGMA]),
+];

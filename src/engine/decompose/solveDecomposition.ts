@@ -1,0 +1,208 @@
+/**
+ * Solver of the adaptive decomposition (trend filtering + season + spikes as one
+ * convex problem; S.-J. Kim, K. Koh, S. Boyd and D. Gorinevsky, "l1 trend
+ * filtering", SIAM Review 51 (2009) 339-360, section 6 extensions):
+ *
+ *   minimise 1/2 sum_i w_i (y_i - t_i - s_i - o_i)^2 + lambda ||D(x, k+1) t||_1 + rho ||o||_1
+ *   over t, o in R^n and s = A theta (seasonDesign.ts), each cycle of s summing to zero.
+ *
+ * With theta and o minimised out, the objective is H(t) + lambda ||D t||_1 with H convex
+ * and its gradient -W r*(t) 1-Lipschitz in the W-norm (r* is the residual of the exact
+ * (theta, o) solve, a composition of a projection and a soft threshold), so the map
+ * F(t) = the exact trend-filtering fit of y - s*(t) - o*(t) is a proximal-gradient step
+ * of unit length, i.e. block coordinate descent over t and (theta, o) (P. Tseng,
+ * J. Optim. Theory Appl. 109 (2001) 475-494), whose fixed points are the minimisers.
+ * Its fixed-point iteration is slow when the trend and a smooth season trade off
+ * (a yearly Fourier season against a trend with knots), so it is accelerated by
+ * Anderson mixing of the last 5 steps (D. G. Anderson, J. ACM 12 (1965) 547-560; as a
+ * safeguarded scheme for such maps, J. Zhang, B. O'Donoghue and S. Boyd, SIAM J. Optim.
+ * 30 (2020) 3170-3197): a mixed point is kept only while the step length ||F(t) - t||
+ * keeps falling, otherwise the memory is cleared and the plain step taken.
+ * The (theta, o) block for a given trend: the weighted least-squares season and the
+ * soft-threshold of the spikes o_i = sign(r_i) max(0, |r_i| - rho / w_i), alternated
+ * until they settle (block coordinate descent on a problem whose non-smooth part is
+ * separable). The trend step is solved exactly by the trend-filtering solver, its
+ * refinement seeded with the previous knots.
+ * Works in scaled units (x to unit spacing, y to sd 1, w to mean 1). Unchecked.
+ */
+import type { SolverStatus } from '../types';
+import { solveTrend, seedOf, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
+import { SeasonDesign, fitSeason } from './seasonDesign';
+
+/** Solution of {@link solveDecomposition} in the scaled units it was given. */
+export interface DecompositionFit {
+  trend: Float64Array;
+  season: Float64Array;
+  /** Season per term. */
+  parts: Float64Array[];
+  spikes: Float64Array;
+  theta: Float64Array;
+  /** The last trend-filtering fit (knot rows, exact differences at the knots, dual). */
+  trendFit: TrendFit;
+  status: SolverStatus;
+}
+
+/** Relative duality gap asked of each trend step: an exact active-set refinement (seeded with the last knots) certifies at this level in a round or two. */
+export const TREND_STEP_TOLERANCE = 1e-10;
+
+export const DECOMPOSITION_RULE = 'block coordinate descent on the trend and (season, spikes), Anderson-accelerated (memory 5, safeguarded): each step an exact trend-filtering solve after the season (weighted least squares) and the spikes (soft threshold) are alternated until they settle; stops when a plain step changes the trend by at most the tolerance times the sd of y; returns the last exact trend step with the season and spikes it was taken for';
+
+/** Anderson memory (number of past steps mixed). */
+export const ANDERSON_MEMORY = 5;
+
+/** Starting values and settings of {@link solveDecomposition}. Unchecked. */
+export interface DecompositionStart {
+  trend?: Float64Array;
+  season?: Float64Array;
+  spikes?: Float64Array;
+}
+
+/**
+ * Solves the scaled problem. `lambda` and `rho` are in scaled units; `design` null
+ * means no season (trend and spikes only). `tolerance` bounds the largest change of
+ * the trend in a plain step (scaled units: sd of y = 1). Unchecked.
+ */
+export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rho: number, design: SeasonDesign | null,
+  tolerance: number, maxCycles: number, start: DecompositionStart = {}): DecompositionFit {
+  const n = x.length;
+  let t: Float64Array = start.trend ? Float64Array.from(start.trend) : new Float64Array(n);
+  const s = start.season ? Float64Array.from(start.season) : new Float64Array(n);
+  const o = start.spikes ? Float64Array.from(start.spikes) : new Float64Array(n);
+  const parts = design ? design.terms.map(() => new Float64Array(n)) : [];
+  const theta = { value: new Float64Array(design ? design.q : 0) };
+  const z = new Float64Array(n);
+  const work = { r: new Float64Array(n), s: new Float64Array(n) };
+  let prob: TrendProblem | undefined;
+  let fit: TrendFit | undefined;
+  let cycles = 0;
+  let change = Infinity;
+  let trendIterations = 0;
+  let trendOk = true;
+  let resets = 0;
+  // the map F: trend -> exact trend step after the exact (season, spikes) step
+  const F = (tIn: Float64Array): Float64Array => {
+    seasonAndSpikes(y, tIn, w, rho, design, s, o, parts, theta, work, tolerance * 0.01);
+    for (let i = 0; i < n; i++) z[i] = y[i] - s[i] - o[i];
+    // operator and scaled x depend on x and w only: carried over; the polynomial fit depends on y and is rebuilt
+    prob = { x, y: Float64Array.from(z), w, k, op: prob?.op, x01: prob?.x01, admmRows: prob?.admmRows };
+    fit = solveTrend(prob, lambda, TREND_STEP_TOLERANCE, 400, fit, true, fit ? seedOf(fit) : undefined);
+    trendIterations += fit.status.iterations;
+    trendOk = fit.status.converged;
+    return Float64Array.from(fit.b);
+  };
+  const sw = Float64Array.from(w, Math.sqrt);
+  const dG: Float64Array[] = [], dF: Float64Array[] = [];
+  let gPrev: Float64Array | null = null, fPrev: Float64Array | null = null;
+  let fNormPrev = Infinity;
+  while (cycles < maxCycles) {
+    cycles++;
+    const g = F(t);
+    const f = new Float64Array(n);
+    let fmax = 0, fNorm = 0;
+    for (let i = 0; i < n; i++) {
+      f[i] = g[i] - t[i];
+      fmax = Math.max(fmax, Math.abs(f[i]));
+      fNorm += w[i] * f[i] * f[i];
+    }
+    change = fmax;
+    if (change <= tolerance) { t = g; break; }
+    if (fNorm > fNormPrev) {
+      // safeguard: the mixed point did worse than the last one; drop the memory, take the plain step
+      dG.length = 0;
+      dF.length = 0;
+      gPrev = null;
+      fPrev = null;
+      resets++;
+    }
+    fNormPrev = fNorm;
+    if (gPrev && fPrev) {
+      dG.push(Float64Array.from(g, (v, i) => v - gPrev![i]));
+      dF.push(Float64Array.from(f, (v, i) => v - fPrev![i]));
+      if (dG.length > ANDERSON_MEMORY) { dG.shift(); dF.shift(); }
+    }
+    gPrev = g;
+    fPrev = f;
+    const m = dF.length;
+    if (m === 0) { t = g; continue; }
+    // gamma = argmin || W^1/2 (f - dF gamma) ||: normal equations with a small ridge for stability
+    const M = new Float64Array(m * m), b = new Float64Array(m);
+    for (let a = 0; a < m; a++) {
+      for (let c = 0; c <= a; c++) {
+        let v = 0;
+        for (let i = 0; i < n; i++) v += sw[i] * dF[a][i] * sw[i] * dF[c][i];
+        M[a * m + c] = v;
+        M[c * m + a] = v;
+      }
+      let v = 0;
+      for (let i = 0; i < n; i++) v += w[i] * dF[a][i] * f[i];
+      b[a] = v;
+    }
+    let tr = 0;
+    for (let a = 0; a < m; a++) tr += M[a * m + a];
+    for (let a = 0; a < m; a++) M[a * m + a] += 1e-10 * tr / m;
+    const gamma = solveSmall(M, b, m);
+    const next = Float64Array.from(g);
+    for (let a = 0; a < m; a++) for (let i = 0; i < n; i++) next[i] -= gamma[a] * dG[a][i];
+    t = next;
+  }
+  if (change <= tolerance) {
+    // one more plain step from the converged point
+    const g = F(t);
+    let d = 0;
+    for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(g[i] - t[i]));
+    change = Math.max(change, d);
+  }
+  // returned: the last exact trend step and the season and spikes it was taken for, so that the
+  // trend's optimality conditions hold exactly and those of the season and spikes within the
+  // last step's change of the trend (reported as `achieved`)
+  t = Float64Array.from(fit!.b);
+  const converged = change <= tolerance && trendOk;
+  return {
+    trend: t, season: s, parts, spikes: o, theta: theta.value, trendFit: fit!,
+    status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations and ${resets} memory resets in all` },
+  };
+}
+
+/** Solves a small symmetric positive definite system by Cholesky (NaN-free: a failing pivot gives gamma = 0). Unchecked. */
+function solveSmall(M: Float64Array, b: Float64Array, m: number): Float64Array {
+  const L = new Float64Array(m * m);
+  for (let j = 0; j < m; j++) {
+    let d = M[j * m + j];
+    for (let p = 0; p < j; p++) d -= L[j * m + p] * L[j * m + p];
+    if (!(d > 0)) return new Float64Array(m);
+    L[j * m + j] = Math.sqrt(d);
+    for (let i = j + 1; i < m; i++) {
+      let v = M[i * m + j];
+      for (let p = 0; p < j; p++) v -= L[i * m + p] * L[j * m + p];
+      L[i * m + j] = v / L[j * m + j];
+    }
+  }
+  const yv = new Float64Array(m);
+  for (let i = 0; i < m; i++) { let v = b[i]; for (let p = 0; p < i; p++) v -= L[i * m + p] * yv[p]; yv[i] = v / L[i * m + i]; }
+  const xv = new Float64Array(m);
+  for (let i = m - 1; i >= 0; i--) { let v = yv[i]; for (let p = i + 1; p < m; p++) v -= L[p * m + i] * xv[p]; xv[i] = v / L[i * m + i]; }
+  return xv;
+}
+
+/** The (theta, o) block for trend t: season and spikes alternated until neither moves by more than tol. Updates s, o, parts, theta. Unchecked. */
+function seasonAndSpikes(y: Float64Array, t: Float64Array, w: Float64Array, rho: number, design: SeasonDesign | null, s: Float64Array, o: Float64Array,
+  parts: Float64Array[], theta: { value: Float64Array }, work: { r: Float64Array; s: Float64Array }, tol: number): void {
+  const n = y.length;
+  const { r, s: sNew } = work;
+  for (let inner = 0; inner < 10000; inner++) {
+    let d = 0;
+    if (design) {
+      for (let i = 0; i < n; i++) r[i] = y[i] - t[i] - o[i];
+      theta.value = Float64Array.from(fitSeason(design, r, w, sNew, parts));
+      for (let i = 0; i < n; i++) { d = Math.max(d, Math.abs(sNew[i] - s[i])); s[i] = sNew[i]; }
+    }
+    for (let i = 0; i < n; i++) {
+      const ri = y[i] - t[i] - s[i];
+      const th = rho / w[i];
+      const val = ri > th ? ri - th : ri < -th ? ri + th : 0;
+      d = Math.max(d, Math.abs(val - o[i]));
+      o[i] = val;
+    }
+    if (d <= tol || !design) break;
+  }
+}

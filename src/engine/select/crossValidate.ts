@@ -1,0 +1,80 @@
+/**
+ * K-fold cross-validation for any smoother, on the same deterministic folds
+ * ({@link foldOf}) for every method, so scores of different methods on one
+ * series compare honestly. The method supplies only predictions: fits on the
+ * training points along a list of penalties (decreasing, so it may warm-start
+ * from the previous one) evaluated at the held-out x.
+ *
+ * Score at each penalty: the mean over folds of the held-out weighted mean
+ * squared error, sum_{i in fold} w_i (y_i - yhat_i)^2 / sum_{i in fold} w_i,
+ * in (units of y)^2; its standard error is sd(fold errors) / sqrt(K)
+ * (common practice; Hastie, Tibshirani & Friedman 2009, section 7.10).
+ */
+import type { RunContext } from '../analysis/runContext';
+import { foldOf } from './foldOf';
+
+/**
+ * Predictions at held-out points for each penalty of `penalties`.
+ * `train` and `held` are indices into the clean series (increasing x).
+ */
+export type FoldPredictor = (train: Int32Array, held: Int32Array, penalties: Float64Array) => Float64Array[];
+
+/** Scores per penalty, in the order the penalties were given. */
+export interface CrossValidation {
+  score: Float64Array;
+  se: Float64Array;
+  /** Fold errors, K x G row-major (fold f, penalty j at f * G + j). */
+  foldErrors: Float64Array;
+  folds: number;
+}
+
+/**
+ * Cross-validates a smoother.
+ *
+ * @param y - values per clean point (the scale the predictions are in)
+ * @param w - weights per clean point
+ * @param folds - K, 2 <= K <= n - 2 (unchecked)
+ * @param penalties - the penalties to score, in the order the predictor wants them
+ * @param predict - the method's fold predictor
+ * @param context - progress per fold (optional)
+ * @example
+ * ```ts
+ * const cv = crossValidate(y, w, 5, grid, (tr, te, pens) => pens.map((p) => fitAndPredict(tr, te, p)));
+ * ```
+ */
+export function crossValidate(y: ArrayLike<number>, w: ArrayLike<number>, folds: number, penalties: Float64Array, predict: FoldPredictor, context?: RunContext, stage = 'cross-validation'): CrossValidation {
+  const n = y.length;
+  const K = folds;
+  const G = penalties.length;
+  const fold = foldOf(n, K);
+  const err = new Float64Array(K * G);
+  for (let f = 0; f < K; f++) {
+    context?.step(f / K, `${stage}, fold ${f + 1} of ${K}`);
+    let nh = 0;
+    for (let i = 0; i < n; i++) if (fold[i] === f) nh++;
+    const held = new Int32Array(nh);
+    const train = new Int32Array(n - nh);
+    for (let i = 0, a = 0, b = 0; i < n; i++) { if (fold[i] === f) held[a++] = i; else train[b++] = i; }
+    if (nh === 0) continue;
+    let sw = 0;
+    for (let t = 0; t < nh; t++) sw += w[held[t]];
+    const preds = predict(train, held, penalties);
+    for (let j = 0; j < G; j++) {
+      const p = preds[j];
+      let e = 0;
+      for (let t = 0; t < nh; t++) { const r = y[held[t]] - p[t]; e += w[held[t]] * r * r; }
+      err[f * G + j] = e / sw;
+    }
+  }
+  const score = new Float64Array(G), se = new Float64Array(G);
+  for (let j = 0; j < G; j++) {
+    let mean = 0;
+    for (let f = 0; f < K; f++) mean += err[f * G + j];
+    mean /= K;
+    let v = 0;
+    for (let f = 0; f < K; f++) v += (err[f * G + j] - mean) ** 2;
+    score[j] = mean;
+    se[j] = Math.sqrt(v / (K - 1) / K);
+  }
+  return { score, se, foldErrors: err, folds: K };
+}

@@ -1,0 +1,129 @@
+/**
+ * The automatic choice among smoothers: every registered smoother's variants
+ * (the spline; trend filtering of orders 0 to 3; any method that declares
+ * `autoVariants`) choose their own penalty by K-fold cross-validation on the
+ * same deterministic folds ({@link crossValidate}), so their scores are the
+ * same quantity on the same held-out points. The winner is the candidate with
+ * the lowest cross-validation error or, with the default rule, the simplest
+ * candidate (fewest degrees of freedom) whose error is within one standard
+ * error of the lowest (the one-standard-error rule applied across methods;
+ * Hastie, Tibshirani & Friedman 2009, section 7.10).
+ *
+ * Caveat, stated in the result: each candidate's score is the minimum of its
+ * own cross-validation curve, so it is slightly optimistic (the penalty was
+ * chosen on the same folds); the comparison favours no method by this, since
+ * every candidate gets the same treatment.
+ */
+import type { AnalysisCore, AnalysisDefinition, CandidateRow } from '../analysis/analysisDefinition';
+import { analysisDefinitions, findAnalysis } from '../analysis/analysisRegistry';
+import type { ResolvedOptions } from '../analysis/optionDeclaration';
+import { resolveOptions } from '../analysis/resolveOptions';
+import type { RunContext } from '../analysis/runContext';
+import { KnotwiseError, isKnotwiseError, showNumber } from '../errors';
+import type { Series } from '../series';
+import { warning } from '../warnings';
+
+const pct = (v: number) => `${Math.round(100 * v)}%`;
+
+/** The plain sentence: what won, against what, by how much. */
+function explain(rows: CandidateRow[], chosen: number, best: number, rule: string): string {
+  const c = rows[chosen];
+  const ok = rows.filter((r) => !r.skipped);
+  if (ok.length === 1) return `Only ${c.label} could be fitted to these data, so it was used.`;
+  const others = ok.filter((r) => r !== c).sort((a, b) => a.cv - b.cv);
+  const runnerUp = others[0];
+  const spline = ok.find((r) => r.method === 'spline');
+  if (chosen !== best) {
+    return `${cap(c.label)} was chosen: its cross-validation error is within one standard error of the best (${rows[best].label}) with fewer degrees of freedom (${showNumber(round(c.df))} against ${showNumber(round(rows[best].df))}), so the simpler fit is preferred.`;
+  }
+  const vs = spline && spline !== c ? spline : runnerUp;
+  const gain = 1 - c.cv / vs.cv;
+  const shape = c.method === 'trend' && c.options.order === 0 ? 'the series moves in steps'
+    : c.method === 'trend' && c.options.order === 1 ? 'the series has sharp bends'
+      : c.method === 'spline' ? 'the series bends smoothly'
+        : 'its shape fits the series';
+  return `${cap(c.label)} predicted held-out points best: ${shape}; its cross-validation error is ${pct(gain)} lower than ${vs.label}'s${rule === 'cv-simpler' ? ', and no simpler fit came within one standard error' : ''}.`;
+}
+
+const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+const round = (v: number) => Number(v.toPrecision(3));
+
+/**
+ * Runs every candidate and picks one.
+ *
+ * @param series - clean series (ties merged)
+ * @param options - resolved: `rule` 'cv-simpler' (default) or 'cv'; `folds` (default 5)
+ * @param context - progress: one part per candidate
+ * @returns the winner's fit (its `smooth`, `criterion`, warnings) with `comparison`
+ * @throws {@link KnotwiseError} `too-few-points` when no candidate can be cross-validated
+ */
+export function chooseSmoother(series: Series, options: ResolvedOptions, context: RunContext): AnalysisCore {
+  const folds = options.folds as number;
+  const rule = options.rule as string;
+  const variants = analysisDefinitions('smoother').flatMap((def) => (def.autoVariants ?? []).map((v) => ({ def, v })));
+  const rows: CandidateRow[] = [];
+  const fits: (AnalysisCore | null)[] = [];
+  variants.forEach(({ def, v }, i) => {
+    const t0 = Date.now();
+    const row: CandidateRow = { method: def.name, options: { ...v.options }, label: v.label, penalty: NaN, df: NaN, cv: NaN, se: NaN, milliseconds: 0 };
+    try {
+      const opts = resolveOptions(def.options, { ...v.options, rule: 'cv', folds }, def.name).options;
+      if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
+      const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
+      const fit = core.smooth!;
+      if (fit.criterion.name !== 'cv') throw new KnotwiseError('too-few-points', `${v.label} could not be cross-validated on these data (${fit.criterion.name} was used instead).`);
+      const point = fit.criterion.curve?.find((p) => p.penalty === fit.penalty);
+      row.penalty = fit.penalty; row.df = fit.df; row.cv = fit.criterion.value; row.se = point?.se ?? NaN;
+      fits.push(core);
+    } catch (e) {
+      if (!isKnotwiseError(e) || e.code === 'cancelled') throw e;
+      row.skipped = e.message;
+      fits.push(null);
+    }
+    row.milliseconds = Date.now() - t0;
+    rows.push(row);
+  });
+  const ok = rows.map((r, i) => i).filter((i) => !rows[i].skipped);
+  if (ok.length === 0) throw new KnotwiseError('too-few-points', `no method could be cross-validated with ${folds} folds on ${series.n} points; choose a method and a penalty yourself, or use fewer folds.`);
+  let best = ok[0];
+  for (const i of ok) if (rows[i].cv < rows[best].cv) best = i;
+  let chosen = best;
+  if (rule === 'cv-simpler') {
+    const limit = rows[best].cv + (Number.isFinite(rows[best].se) ? rows[best].se : 0);
+    for (const i of ok) {
+      if (rows[i].cv > limit) continue;
+      const simpler = rows[i].df < rows[chosen].df || (rows[i].df === rows[chosen].df && variants[i].v.simplicity < variants[chosen].v.simplicity);
+      if (simpler) chosen = i;
+    }
+  }
+  const win = fits[chosen]!;
+  const reason = explain(rows, chosen, best, rule);
+  const notes = [
+    warning('note', `Automatic choice among ${ok.length} fits by ${folds}-fold cross-validation on the same held-out points: ${reason} Each score is the minimum of its own curve, so all are slightly optimistic alike.`),
+  ];
+  for (const r of rows) if (r.skipped) notes.push(warning('note', `Not compared: ${r.label}: ${r.skipped}`));
+  return { ...win, warnings: [...notes, ...win.warnings], comparison: { rows, chosen, best, folds, reason } };
+}
+
+/** The automatic choice as a declared analysis. */
+export const autoAnalysis: AnalysisDefinition = {
+  name: 'auto',
+  family: 'smoother',
+  label: 'Let the data choose the method (compares every smoother by cross-validation)',
+  summary: 'every smoother and order chooses its penalty by K-fold cross-validation on the same folds; the lowest error wins, or the simplest within one standard error of it',
+  options: [
+    {
+      name: 'rule', kind: 'choice', choices: ['cv-simpler', 'cv'], default: 'cv-simpler', oldValues: { 'cv-1se': 'cv-simpler' },
+      choiceHelp: { 'cv-simpler': 'the simplest fit within one standard error of the best (default)', cv: 'the lowest cross-validation error' },
+      help: 'how the winner is picked: cv-simpler (default) or cv',
+    },
+    { name: 'folds', kind: 'integer', min: 2, max: 20, default: 5, help: 'number of cross-validation folds shared by every candidate (default 5)' },
+  ],
+  ties: 'merge',
+  minPoints: () => 3,
+  run: chooseSmoother,
+  evaluate(result, x) {
+    const m = result.smooth!.method;
+    return findAnalysis(m).def.evaluate!(result, x);
+  },
+};

@@ -1,0 +1,33 @@
+/**
+ * Worksheet arguments into one engine request, and the request's answer
+ * through the shared {@link compute}. Values are passed as typed: the engine
+ * validates them once and its messages name what to fix.
+ */
+import { AnalysisFamily, AnalysisResult, findAnalysis } from '../engine';
+import { Matrix, Orientation, optionalText, readInputs } from './cells';
+import { Cancel, compute } from './compute';
+import { parseSettings } from './settings';
+
+/** What a worksheet function was given after y: positions, method (or model), settings and weights. */
+export interface SheetArgs {
+  x?: unknown;
+  method?: unknown;
+  settings?: unknown;
+  weights?: unknown;
+  /** Extra options a function sets itself (e.g. the penalty range of the penalty scan). */
+  extra?: Record<string, unknown>;
+}
+
+/**
+ * Builds the request (y, x, weights as cells; the method's settings) and
+ * returns its result with the orientation of y (a row in, a row out).
+ */
+export async function analyseCells(y: Matrix, a: SheetArgs, family: AnalysisFamily | undefined, defaultMethod: string, cancel?: Cancel): Promise<{ result: AnalysisResult; orientation: Orientation }> {
+  const d = readInputs(y, a.x, a.weights);
+  const method = optionalText(a.method)?.trim() || defaultMethod;
+  const { def } = findAnalysis(method, family);
+  const settings = a.settings === undefined || a.settings === null ? undefined : Array.isArray(a.settings) ? (a.settings as unknown[][])[0]?.[0] : a.settings;
+  const options = { ...parseSettings(settings, def.options), ...(a.extra ?? {}) };
+  const result = await compute({ analysis: method, family, y: d.y, x: d.x, w: d.w, options }, cancel);
+  return { result, orientation: d.orientation };
+}

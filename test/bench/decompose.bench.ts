@@ -1,0 +1,126 @@
+/**
+ * Benchmark of the seasonal decomposition on five years of invented daily data
+ * (1,826 points: a weekday pattern, a yearly swing, a slope change, a level step,
+ * two spikes and noise; seeded). Times, as medians of repeats (the machine is
+ * shared, so single timings are noisy): STL with one period (7), the engine's
+ * STL/MSTL decomposition (weekday + yearly), and the adaptive decomposition at a
+ * given penalty and with its default penalty choice. In the same run, when
+ * installed, R's stats::stl and statsmodels' STL are timed on the same data with
+ * the same settings (time inside each, excluding start-up and file reading).
+ */
+import * as fs from 'fs';
+import * as os from 'os';
+import * as path from 'path';
+import { execFileSync } from 'child_process';
+import { stl } from '../../src/engine/decompose/stl';
+import { decompose } from '../../src/engine/decompose/decompose';
+import { seriesFromArrays } from '../../src/engine/series';
+import { normalStream } from '../helpers/random';
+
+/** Five years of invented daily sales from 2019-01-01 (Excel serial 43466). */
+export function dailySales(seed: number, days = 1826): { x: Float64Array; y: Float64Array } {
+  const z = normalStream(seed);
+  const weekday = [-9, 2, 3, 3, 4, 6, -9];
+  const x = new Float64Array(days), y = new Float64Array(days);
+  for (let i = 0; i < days; i++) {
+    x[i] = 43466 + i;
+    const dow = (x[i] + 6) % 7; // 0 = Sunday for Excel serials
+    y[i] = 200 + 0.02 * i + (i > 900 ? 0.05 * (i - 900) : 0) + (i > 1300 ? 12 : 0) + weekday[dow] + 10 * Math.sin((2 * Math.PI * x[i]) / 365.2425) + 3 * z();
+  }
+  y[400] += 40;
+  y[1000] -= 35;
+  return { x, y };
+}
+
+function median(a: number[]): number {
+  const b = a.slice().sort((p, q) => p - q);
+  const m = b.length >> 1;
+  return b.length % 2 ? b[m] : 0.5 * (b[m - 1] + b[m]);
+}
+
+function timeMedian(f: () => void, repeats: number): { ms: number; all: number[] } {
+  const all: number[] = [];
+  for (let r = 0; r < repeats; r++) {
+    const t0 = process.hrtime.bigint();
+    f();
+    all.push(Number(process.hrtime.bigint() - t0) / 1e6);
+  }
+  return { ms: Number(median(all).toFixed(2)), all: all.map((v) => Number(v.toFixed(1))) };
+}
+
+function writeData(y: Float64Array): { dir: string; file: string } {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'knotwise-bench-'));
+  const file = path.join(dir, 'y.txt');
+  fs.writeFileSync(file, Array.from(y, (v) => v.toPrecision(17)).join('\n'));
+  return { dir, file };
+}
+
+/** R's stl(ts(y, frequency = 7), s.window = 13, l.window = 9, robust = TRUE) (statsmodels needs a low-pass window above the period, so 9 rather than R's 7 everywhere): median ms over `reps` runs inside R. */
+function rStl(file: string, reps: number): number | string {
+  try {
+    execFileSync('Rscript', ['--version'], { stdio: 'ignore' });
+  } catch {
+    return 'R not installed';
+  }
+  const code = `y <- scan('${file}', quiet = TRUE); x <- ts(y, frequency = 7); ms <- numeric(${reps});
+for (i in 1:${reps}) ms[i] <- system.time(stl(x, s.window = 13, l.window = 9, robust = TRUE))[['elapsed']] * 1000; cat(median(ms))`;
+  try {
+    return Number(execFileSync('Rscript', ['--vanilla', '-e', code], { encoding: 'utf8' }).trim());
+  } catch (e) {
+    return `R failed: ${String(e).slice(0, 80)}`;
+  }
+}
+
+/** statsmodels' STL with R's settings (degree 0, jumps ceiling(window / 10), inner 1, outer 15). */
+function statsmodelsStl(file: string, reps: number, p: { trendWindow: number; lowPassWindow: number; seasonalJump: number; trendJump: number; lowPassJump: number }): number | string {
+  const py = '/usr/bin/python3';
+  if (!fs.existsSync(py)) return 'python3 not installed';
+  const code = `
+import time, statistics, numpy as np
+from statsmodels.tsa.seasonal import STL
+y = np.loadtxt('${file}')
+ms = []
+for i in range(${reps}):
+    t0 = time.perf_counter()
+    STL(y, period=7, seasonal=13, trend=${p.trendWindow}, low_pass=${p.lowPassWindow}, seasonal_deg=0, trend_deg=1, low_pass_deg=1, robust=True,
+        seasonal_jump=${p.seasonalJump}, trend_jump=${p.trendJump}, low_pass_jump=${p.lowPassJump}).fit(inner_iter=1, outer_iter=15)
+    ms.append((time.perf_counter() - t0) * 1000)
+print(statistics.median(ms))`;
+  try {
+    return Number(execFileSync(py, ['-c', code], { encoding: 'utf8' }).trim());
+  } catch {
+    return 'statsmodels not installed';
+  }
+}
+
+export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+  const reps = quick ? 3 : 7;
+  const { x, y } = dailySales(20190101);
+  const n = y.length;
+  const series = seriesFromArrays(x, y);
+  // warm-up of the JIT (full size: the first calls are several times slower)
+  for (let r = 0; r < 3; r++) stl(y, { period: 7, seasonalWindow: 13, lowPassWindow: 9, robust: true });
+  decompose(series, { method: 'stl' });
+  const one = timeMedian(() => stl(y, { period: 7, seasonalWindow: 13, lowPassWindow: 9, robust: true }), reps);
+  const p = stl(y, { period: 7, seasonalWindow: 13, lowPassWindow: 9, robust: true }).parameters;
+  const { dir, file } = writeData(y);
+  try {
+    const r = rStl(file, reps);
+    const sm = statsmodelsStl(file, reps, p);
+    emit({
+      bench: 'decompose', n, op: 'stl-period-7-robust', ms: one.ms, repeats: one.all, r_stl_ms: r, statsmodels_stl_ms: sm,
+      ratio_to_r: typeof r === 'number' ? Number((one.ms / Math.max(r, 1e-3)).toFixed(3)) : null,
+      ratio_to_statsmodels: typeof sm === 'number' ? Number((one.ms / Math.max(sm, 1e-3)).toFixed(3)) : null,
+    });
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+  const mstl = timeMedian(() => decompose(series, { method: 'stl' }), reps);
+  emit({ bench: 'decompose', n, op: 'stl-weekday-and-yearly', ms: mstl.ms, repeats: mstl.all, target_ms: 200 });
+  const def = decompose(series);
+  const lam = def.penalty;
+  const fixed = timeMedian(() => decompose(series, { penalty: lam }), quick ? 1 : 3);
+  emit({ bench: 'decompose', n, op: 'adaptive-given-penalty', ms: fixed.ms, repeats: fixed.all, target_ms: 200, cycles: def.solver.iterations, knots: def.knots.length, spikes: def.spikeIndex.length });
+  const auto = timeMedian(() => decompose(series), quick ? 1 : 3);
+  emit({ bench: 'decompose', n, op: 'adaptive-default', ms: auto.ms, repeats: auto.all, target_ms: 200, select: def.criterion.name, penalty: Number(lam.toPrecision(4)) });
+}
