@@ -9,7 +9,7 @@ import { levelBreaks } from './levelBreaks';
 import type { BreaksOptions, BreaksResult } from './types';
 import type { ResolvedBreaksOptions } from './validateBreaksOptions';
 import { validateBreaksOptions } from './validateBreaksOptions';
-import { seasonForBreaks, seasonTreatment } from './seasonForBreaks';
+import { seasonFor, seasonTreatment } from './seasonForBreaks';
 import { warning } from '../warnings';
 
 /**
@@ -64,7 +64,7 @@ export function findBreaks(series: Series, options: BreaksOptions): BreaksResult
   }
   refuseLongSearch(series.n, o);
   const multiplicative = o.model === 'poisson';
-  const season = o.season === 'none' ? null : seasonForBreaks(series, o.season, multiplicative, o.model === 'slope');
+  const season = o.season === 'none' ? null : seasonFor(series, o.season, multiplicative, o.model === 'slope');
   const treatment = seasonTreatment(o.season, season);
   const comp = season && season.seasonal ? season.component! : null;
   let r: BreaksResult;

@@ -4,6 +4,28 @@
 import type { Series } from '../series';
 import { median } from '../median';
 import type { SeasonTreatment } from './types';
+import { seasonalAdjustment } from '../decompose/seasonalAdjustment';
+
+/** Longest series handed to the full decomposition (it runs trend filtering; about 20 s at 20,000 points, measured). */
+export const DECOMPOSITION_LIMIT = 5000;
+
+/**
+ * The season changepoints remove: the adaptive decomposition's seasonal adjustment
+ * ({@link seasonalAdjustment}: trend filtering + season + spikes, season kept when its
+ * strength reaches 0.64) for additive models on series of up to {@link DECOMPOSITION_LIMIT}
+ * points whose x are calendar dates or whose period is given; otherwise, and for counts
+ * (whose season multiplies the rate, as a factor the Poisson cost takes), the robust
+ * phase estimate {@link seasonForBreaks}. Unchecked.
+ */
+export function seasonFor(series: Series, request: 'auto' | number, multiplicative: boolean, trend: boolean): SeasonForBreaks {
+  const dated = request !== 'auto' || (series.xGiven && calendarPhases(series.x) !== null);
+  if (multiplicative || !dated || series.n > DECOMPOSITION_LIMIT) return seasonForBreaks(series, request, multiplicative, trend);
+  const a = seasonalAdjustment(series, request === 'auto' ? {} : { period: request });
+  const period = a.period.length ? a.period[0] : NaN;
+  const how = `${a.note.replace(/\.$/, '')}; adaptive decomposition: trend filtering, season and spikes`;
+  if (!a.seasonal) return { seasonal: false, period, strength: a.strength, multiplicative: false, how };
+  return { seasonal: true, period, strength: a.strength, component: Float64Array.from(series.y, (v, i) => v - a.adjusted[i]), multiplicative: false, how };
+}
 
 /**
  * What a seasonal adjustment hands to the changepoint search: the small internal
@@ -39,7 +61,7 @@ const DAY_MS = 86400000;
 const UNIX_EPOCH_SERIAL = 25569;
 
 /** Calendar phases of serial dates x for a given spacing, or null when the spacing is not a calendar one. Unchecked. */
-function calendarPhases(x: Float64Array): { phases: Int32Array; period: number; how: string; angle?: Float64Array } | null {
+export function calendarPhases(x: Float64Array): { phases: Int32Array; period: number; how: string; angle?: Float64Array } | null {
   const n = x.length;
   if (n < 3) return null;
   const gaps = new Float64Array(n - 1);
