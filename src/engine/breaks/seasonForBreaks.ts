@@ -20,7 +20,14 @@ export const DECOMPOSITION_LIMIT = 5000;
 export function seasonFor(series: Series, request: 'auto' | number, multiplicative: boolean, trend: boolean): SeasonForBreaks {
   const dated = request !== 'auto' || (series.xGiven && calendarPhases(series.x) !== null);
   if (multiplicative || !dated || series.n > DECOMPOSITION_LIMIT) return seasonForBreaks(series, request, multiplicative, trend);
-  const a = seasonalAdjustment(series, request === 'auto' ? {} : { period: request });
+  let a;
+  try {
+    a = seasonalAdjustment(series, request === 'auto' ? {} : { period: request });
+  } catch (e) {
+    // e.g. two rows on one date: the robust phase estimate copes with ties
+    const r = seasonForBreaks(series, request, multiplicative, trend);
+    return { ...r, how: `${r.how} (the adaptive decomposition declined: ${(e as Error).message})` };
+  }
   const period = a.period.length ? a.period[0] : NaN;
   const how = `${a.note.replace(/\.$/, '')}; adaptive decomposition: trend filtering, season and spikes`;
   if (!a.seasonal) return { seasonal: false, period, strength: a.strength, multiplicative: false, how };
@@ -67,6 +74,8 @@ export function calendarPhases(x: Float64Array): { phases: Int32Array; period: n
   const gaps = new Float64Array(n - 1);
   for (let i = 1; i < n; i++) gaps[i - 1] = x[i] - x[i - 1];
   const d = median(gaps);
+  // spreadsheet dates: serial numbers from 10,000 (1927) to 2,958,465 (9999-12-31)
+  if (!(x[0] >= 10000 && x[n - 1] <= 2958465)) return null;
   const date = (v: number): Date => new Date((v - UNIX_EPOCH_SERIAL) * DAY_MS);
   const phases = new Int32Array(n);
   if (d >= 0.99 && d <= 1.01) {
