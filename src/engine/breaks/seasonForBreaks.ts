@@ -29,8 +29,10 @@ export function seasonFor(series: Series, request: 'auto' | number, multiplicati
     return { ...r, how: `${r.how} (the adaptive decomposition declined: ${(e as Error).message})` };
   }
   const period = a.period.length ? a.period[0] : NaN;
-  const how = `${a.note.replace(/\.$/, '')}; adaptive decomposition: trend filtering, season and spikes`;
-  if (!a.seasonal) return { seasonal: false, period, strength: a.strength, multiplicative: false, how };
+  if (!a.seasonal) {
+    return { seasonal: false, period, strength: a.strength, multiplicative: false, how: `adaptive decomposition: largest seasonal strength ${a.strength.toFixed(2)}, below 0.64` };
+  }
+  const how = `a season of ${a.period.map((p) => String(p)).join(' and ')} steps, found by the adaptive decomposition (trend filtering, season and spikes)`;
   return { seasonal: true, period, strength: a.strength, component: Float64Array.from(series.y, (v, i) => v - a.adjusted[i]), multiplicative: false, how };
 }
 
@@ -212,7 +214,7 @@ export function seasonForBreaks(series: Series, request: 'auto' | number, multip
   T /= (harmonics ? 1 : Math.PI / 2) * sr * sr;
   const significant = sr > 0 ? T > chiSquaredUpper(df, 3.09) : sd > 0;
   const seasonal = request !== 'auto' || significant;
-  if (!seasonal) return { seasonal, period, strength, multiplicative, how };
+  if (!seasonal) return { seasonal, period, strength, multiplicative, how: `${how}; seasonal strength ${strength.toFixed(2)}, phase differences within what noise explains` };
   return { seasonal, period, strength, component: fit, multiplicative, how };
 }
 
@@ -292,5 +294,5 @@ export function seasonTreatment(request: 'auto' | 'none' | number, s: SeasonForB
       note: `changes were looked for in the series without its season (${s.how}; seasonal strength ${st}${s.multiplicative ? '; the season multiplies the rate' : ''}). Segment levels describe the seasonally adjusted series; fitted values include the season. Set season 'none' to look in the raw series.`,
     };
   }
-  return { adjusted: false, request: req, period: s.period, strength: s.strength, note: `no season removed (${s.how}${Number.isFinite(s.strength) ? `; seasonal strength ${st}, phase differences within what noise explains` : ''}).` };
+  return { adjusted: false, request: req, period: s.period, strength: s.strength, note: `no season removed (${s.how}).` };
 }
