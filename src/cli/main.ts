@@ -125,6 +125,33 @@ function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cel
   };
 }
 
+function decomposeOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null): Record<string, unknown> {
+  const result: AnalysisResult = runAnalysis({ analysis: 'decompose', family: 'decomposition', y, x, w, options: declaredOptions(p, spec) });
+  const { series } = result;
+  const d = result.decomposition!;
+  const c = d.components;
+  const seasons = d.seasons as { label: string; length: number; strength: number; kept: boolean }[];
+  return {
+    column: name, method: d.method, options: result.options, n: series.n, nRows: series.nRows,
+    period: d.period, seasonal: d.seasonal,
+    seasons: seasons.map((q) => ({ label: q.label, length: q.length, strength: q.strength, kept: q.kept })),
+    trend: toRows(series, c.trend, null), season: toRows(series, c.season, null), spikes: toRows(series, c.spikes, null),
+    remainder: toRows(series, c.remainder, null), adjusted: toRows(series, c.adjusted, null),
+    knots: (d.knots as { x: number; row: number; change: number }[]).map((k) => ({ x: k.x, row: k.row + 1, change: Number.isFinite(k.change) ? k.change : null })),
+    spikeRows: (d.spikeIndex as number[]).map((i) => series.firstRow[i] + 1),
+    penalty: Number.isFinite(d.penalty as number) ? d.penalty : null, spikePenalty: Number.isFinite(d.spikePenalty as number) ? d.spikePenalty : null,
+    warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
+    solver: result.solver,
+  };
+}
+
+function textDecompose(o: Record<string, any>): string {
+  const lines = [`${o.column}: ${o.method} decomposition, ${o.n} points, season ${o.seasonal ? o.period.map(fmt).join(' and ') : 'none'}, ${o.knots.length} knots, ${o.spikeRows.length} spikes`];
+  for (const q of o.seasons) lines.push(`  season ${q.label} (${fmt(q.length)} steps): strength ${fmt(q.strength)}${q.kept ? ', kept' : ', not kept'}`);
+  for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
+  return lines.join('\n');
+}
+
 const fmt = (v: unknown): string => (typeof v === 'number' ? Number(v.toPrecision(6)).toString() : String(v));
 
 function textFit(o: Record<string, any>): string {
@@ -150,7 +177,7 @@ export function runCli(argv: string[], io: CliIO): number {
   try {
     const [command, ...rest] = argv;
     if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText(rest[0])); return command ? 0 : 2; }
-    if (command !== 'fit' && command !== 'breaks') fail(`unknown command "${command}"; use fit, breaks or help.`);
+    if (command !== 'fit' && command !== 'breaks' && command !== 'decompose') fail(`unknown command "${command}"; use fit, breaks, decompose or help.`);
     const spec = commands().find((c) => c.name === command)!;
     const p = parseArgs(rest, spec, fail);
     if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
@@ -158,9 +185,9 @@ export function runCli(argv: string[], io: CliIO): number {
     const { x, w, ys } = columns(p, t);
     const evalPath = one(p, '--eval');
     const evalX = command === 'fit' && evalPath ? readEval(io, evalPath) : null;
-    const results = ys.map((c) => (command === 'fit' ? fitOne(p, spec, c.name, c.cells, x, w, evalX) : breaksOne(p, spec, c.name, c.cells, x, w)));
+    const results = ys.map((c) => (command === 'fit' ? fitOne(p, spec, c.name, c.cells, x, w, evalX) : command === 'breaks' ? breaksOne(p, spec, c.name, c.cells, x, w) : decomposeOne(p, spec, c.name, c.cells, x, w)));
     if (p.switches.has('--json')) io.out(JSON.stringify(results.length === 1 ? results[0] : results));
-    else io.out(results.map((r) => (command === 'fit' ? textFit(r) : textBreaks(r))).join('\n'));
+    else io.out(results.map((r) => (command === 'fit' ? textFit(r) : command === 'breaks' ? textBreaks(r) : textDecompose(r))).join('\n'));
     return 0;
   } catch (e) {
     if (e instanceof CliError) { io.err(`knotwise: ${e.message}`); return e.exitCode; }

@@ -94,7 +94,13 @@ export function commands(): CommandSpec[] {
       ...declaredFlags('changepoints'),
     ],
   };
-  return [fit, breaks];
+  const decompose: CommandSpec = {
+    name: 'decompose',
+    usage: 'knotwise decompose <file.csv> [options]',
+    summary: 'take a series apart: trend, season, spikes and remainder per row, with the season found from dates',
+    options: [...common, ...declaredFlags('decomposition')],
+  };
+  return [fit, breaks, decompose];
 }
 
 /** The help text, generated from the command tables and, for one method, from its declarations. */

@@ -7,8 +7,10 @@ import { splineAnalysis } from './smoothers/spline';
 import { trendAnalysis } from './smoothers/trend';
 import { autoAnalysis } from './smoothers/auto';
 import { CHANGEPOINT_ANALYSES } from './breaks/changepointAnalyses';
+import { decomposeAnalysis } from './decompose/decomposeAnalysis';
 
 registerAnalysis(splineAnalysis);
 registerAnalysis(trendAnalysis);
 registerAnalysis(autoAnalysis);
 for (const a of CHANGEPOINT_ANALYSES) registerAnalysis(a);
+registerAnalysis(decomposeAnalysis);

@@ -62,22 +62,29 @@ export function seasonDesign(x: Float64Array, grid: Int32Array, w: Float64Array,
   }
   const nCycle = terms.filter((t) => t.kind === 'cycle').length;
   const size = q + nCycle;
+  const M = borderedNormal(terms, offset, present, fourier, n, q, size, w);
+  const piv = new Int32Array(size);
+  luFactor(M, size, piv);
+  return { terms, q, offset, present, fourier, lu: M, piv, size, n };
+}
+
+/** The normal equations A^T diag(v) A bordered by the zero-sum constraints (absent phases fixed at 0). Unchecked. */
+function borderedNormal(terms: SeasonTerm[], offset: number[], present: (Uint8Array | null)[], fourier: (Float64Array | null)[], n: number, q: number, size: number, v: Float64Array): Float64Array {
   const M = new Float64Array(size * size);
-  // normal equations A^T W A, via each point's nonzero columns
   const cols: number[] = [];
   const vals: number[] = [];
   for (let i = 0; i < n; i++) {
+    const wi = v[i];
+    if (wi === 0) continue;
     cols.length = 0;
     vals.length = 0;
     rowOf(terms, offset, fourier, i, cols, vals);
-    const wi = w[i];
     for (let a = 0; a < cols.length; a++) {
       const ra = cols[a] * size;
       const va = wi * vals[a];
       for (let b = 0; b < cols.length; b++) M[ra + cols[b]] += va * vals[b];
     }
   }
-  // constraints: each cycle's present effects sum to zero; absent phases fixed at zero
   let c = q;
   for (let tIdx = 0; tIdx < terms.length; tIdx++) {
     const t = terms[tIdx];
@@ -88,13 +95,91 @@ export function seasonDesign(x: Float64Array, grid: Int32Array, w: Float64Array,
       if (pr[p]) {
         M[c * size + col] = 1;
         M[col * size + c] = 1;
-      } else M[col * size + col] = 1; // no data: effect 0
+      } else M[col * size + col] = 1;
     }
     c++;
   }
-  const piv = new Int32Array(size);
-  luFactor(M, size, piv);
-  return { terms, q, offset, present, fourier, lu: M, piv, size, n };
+  return M;
+}
+
+/**
+ * The (season, spikes) block exactly: theta and o minimising
+ *   1/2 sum w_i (r_i - (A theta)_i - o_i)^2 + rho sum |o_i|,  each cycle summing to zero,
+ * i.e. a Huber regression of r on A (threshold rho / w_i), by iteratively reweighted least squares
+ * (points inside the threshold weigh w_i, those outside rho / |e_i|: each step minimises a quadratic
+ * majorant, so the Huber objective never rises; P. J. Huber, Robust Statistics, 1981, section 7.8),
+ * until theta moves by less than 1e-14 of its size; then o_i = sign(e_i) max(0, |e_i| - rho / w_i),
+ * e = r - A theta. Starts from `theta0`.
+ * Writes the season into `out` (and per term into `parts`). Returns theta. Unchecked.
+ */
+export function fitSeasonAndSpikes(d: SeasonDesign, r: Float64Array, w: Float64Array, rho: number, theta0: Float64Array, out: Float64Array, o: Float64Array, parts?: Float64Array[]): Float64Array {
+  const { n, q, size } = d;
+  let theta = Float64Array.from(theta0);
+  const e = new Float64Array(n);
+  const huber = (th: Float64Array): number => {
+    evaluateSeason(d, th, out);
+    let J = 0;
+    for (let i = 0; i < n; i++) {
+      const ei = r[i] - out[i];
+      const c = rho / w[i];
+      const a = Math.abs(ei);
+      J += a <= c ? 0.5 * w[i] * ei * ei : rho * a - 0.5 * rho * c;
+    }
+    return J;
+  };
+  let J = huber(theta);
+  const vq = new Float64Array(n);
+  const psi = new Float64Array(n);
+  for (let it = 0; it < 1000; it++) {
+    evaluateSeason(d, theta, out);
+    for (let i = 0; i < n; i++) {
+      e[i] = r[i] - out[i];
+      const c = rho / w[i];
+      const inside = Math.abs(e[i]) <= c;
+      // outside the threshold the Huber loss is majorised by a quadratic of weight rho / |e_i|
+      // (iteratively reweighted least squares, a majorise-minimise step: never uphill)
+      vq[i] = inside ? w[i] : rho / Math.abs(e[i]);
+      psi[i] = inside ? w[i] * e[i] : rho * Math.sign(e[i]);
+    }
+    const g = seasonGradient(d, psi);
+    const M = borderedNormal(d.terms, d.offset, d.present, d.fourier, n, q, size, vq);
+    // a small ridge keeps phases whose every point is outside the threshold solvable
+    let tr = 0;
+    for (let a = 0; a < q; a++) tr += M[a * size + a];
+    for (let a = 0; a < q; a++) M[a * size + a] += 1e-12 * (tr / q || 1);
+    const rhs = new Float64Array(size);
+    for (let a = 0; a < q; a++) rhs[a] = g[a];
+    for (let t = 0; t < d.terms.length; t++) {
+      const term = d.terms[t];
+      if (term.kind === 'cycle') for (let p = 0; p < term.period; p++) if (!d.present[t]![p]) rhs[d.offset[t] + p] = 0;
+    }
+    const piv = new Int32Array(size);
+    luFactor(M, size, piv);
+    luSolve(M, size, piv, rhs);
+    let step = 1;
+    let next = theta;
+    let Jn = J;
+    for (let h = 0; h < 40; h++) {
+      next = Float64Array.from(theta, (v, a) => v + step * rhs[a]);
+      Jn = huber(next);
+      if (Jn <= J) break;
+      step /= 2;
+    }
+    let dmax = 0;
+    for (let a = 0; a < q; a++) dmax = Math.max(dmax, Math.abs(step * rhs[a]));
+    const improved = Jn <= J;
+    if (improved) { theta = next; J = Jn; }
+    let tmax = 0;
+    for (let a = 0; a < q; a++) tmax = Math.max(tmax, Math.abs(theta[a]));
+    if (!improved || dmax <= 1e-14 * (1 + tmax)) break;
+  }
+  evaluateSeason(d, theta, out, parts);
+  for (let i = 0; i < n; i++) {
+    const ei = r[i] - out[i];
+    const c = rho / w[i];
+    o[i] = ei > c ? ei - c : ei < -c ? ei + c : 0;
+  }
+  return theta;
 }
 
 /** Nonzero columns of point i's design row. Unchecked. */

@@ -98,9 +98,7 @@ export function seasonPlan(x: Float64Array, period: number[] | undefined, dates:
   if (spacing === 'daily' || spacing === 'weekly') {
     stepDays = spacing === 'daily' ? 1 : 7;
     for (let i = 0; i < n; i++) grid[i] = Math.round((x[i] - x[0]) / stepDays);
-    if (spacing === 'weekly') {
-      for (let i = 0; i < n; i++) if (Math.abs(x[i] - x[0] - 7 * grid[i]) > 3) throw new KnotwiseError('bad-data', `weekly dates must keep to one weekday (within 3 days); row date ${showNumber(x[i])} is ${showNumber(x[i] - x[0] - 7 * grid[i])} days off the weekly grid started at ${showNumber(x[0])}.`);
-    }
+    // weekly: each date goes to the nearest week of the grid started at the first date (at most 3 days off)
   } else if (spacing === 'monthly' || spacing === 'quarterly') {
     const per = spacing === 'monthly' ? 1 : 3;
     const d0 = serialDate(x[0]);

@@ -16,18 +16,19 @@
  * (a yearly Fourier season against a trend with knots), so it is accelerated by
  * Anderson mixing of the last 5 steps (D. G. Anderson, J. ACM 12 (1965) 547-560; as a
  * safeguarded scheme for such maps, J. Zhang, B. O'Donoghue and S. Boyd, SIAM J. Optim.
- * 30 (2020) 3170-3197): a mixed point is kept only while the step length ||F(t) - t||
- * keeps falling, otherwise the memory is cleared and the plain step taken.
- * The (theta, o) block for a given trend: the weighted least-squares season and the
- * soft-threshold of the spikes o_i = sign(r_i) max(0, |r_i| - rho / w_i), alternated
- * until they settle (block coordinate descent on a problem whose non-smooth part is
- * separable). The trend step is solved exactly by the trend-filtering solver, its
+ * 30 (2020) 3170-3197): the step from a mixed point is kept only when it does not raise
+ * the objective above the last kept one; otherwise the memory is cleared and a plain step
+ * taken from that one (plain steps never raise the objective, so this cannot cycle).
+ * The (theta, o) block for a given trend is a Huber regression of y - t on the season
+ * (seasonDesign.ts, fitSeasonAndSpikes: Newton on the active set, exact), the spikes then
+ * o_i = sign(e_i) max(0, |e_i| - rho / w_i) of its residual e. The trend step is solved exactly by the trend-filtering solver, its
  * refinement seeded with the previous knots.
  * Works in scaled units (x to unit spacing, y to sd 1, w to mean 1). Unchecked.
  */
 import type { SolverStatus } from '../types';
 import { solveTrend, seedOf, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
-import { SeasonDesign, fitSeason } from './seasonDesign';
+import { SeasonDesign, fitSeasonAndSpikes } from './seasonDesign';
+import { differenceOperator } from '../linalg/difference';
 
 /** Solution of {@link solveDecomposition} in the scaled units it was given. */
 export interface DecompositionFit {
@@ -45,7 +46,7 @@ export interface DecompositionFit {
 /** Relative duality gap asked of each trend step: an exact active-set refinement (seeded with the last knots) certifies at this level in a round or two. */
 export const TREND_STEP_TOLERANCE = 1e-10;
 
-export const DECOMPOSITION_RULE = 'block coordinate descent on the trend and (season, spikes), Anderson-accelerated (memory 5, safeguarded): each step an exact trend-filtering solve after the season (weighted least squares) and the spikes (soft threshold) are alternated until they settle; stops when a plain step changes the trend by at most the tolerance times the sd of y; returns the last exact trend step with the season and spikes it was taken for';
+export const DECOMPOSITION_RULE = 'block coordinate descent on the trend and (season, spikes), Anderson-accelerated (memory 5, safeguarded by the objective): each step an exact trend-filtering solve after the exact (season, spikes) block (a Huber regression on the season); stops when a plain step changes the trend by at most the tolerance times the sd of y; returns the last exact trend step with the season and spikes it was taken for';
 
 /** Anderson memory (number of past steps mixed). */
 export const ANDERSON_MEMORY = 5;
@@ -63,7 +64,7 @@ export interface DecompositionStart {
  * the trend in a plain step (scaled units: sd of y = 1). Unchecked.
  */
 export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rho: number, design: SeasonDesign | null,
-  tolerance: number, maxCycles: number, start: DecompositionStart = {}): DecompositionFit {
+  tolerance: number, maxCycles: number, start: DecompositionStart = {}, onCycle?: (cycle: number) => void): DecompositionFit {
   const n = x.length;
   let t: Float64Array = start.trend ? Float64Array.from(start.trend) : new Float64Array(n);
   const s = start.season ? Float64Array.from(start.season) : new Float64Array(n);
@@ -93,28 +94,42 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
   const sw = Float64Array.from(w, Math.sqrt);
   const dG: Float64Array[] = [], dF: Float64Array[] = [];
   let gPrev: Float64Array | null = null, fPrev: Float64Array | null = null;
-  let fNormPrev = Infinity;
+  let best: { g: Float64Array; J: number } | null = null;
+  const objective = (tr: Float64Array): number => {
+    let J = 0;
+    for (let i = 0; i < n; i++) {
+      const r = y[i] - tr[i] - s[i] - o[i];
+      J += 0.5 * w[i] * r * r + (o[i] !== 0 ? rho * Math.abs(o[i]) : 0);
+    }
+    const d = differenceOperator(x, k + 1, tr);
+    for (let j = 0; j < d.length; j++) J += lambda * Math.abs(d[j]);
+    return J;
+  };
   while (cycles < maxCycles) {
     cycles++;
+    onCycle?.(cycles);
     const g = F(t);
-    const f = new Float64Array(n);
-    let fmax = 0, fNorm = 0;
-    for (let i = 0; i < n; i++) {
-      f[i] = g[i] - t[i];
-      fmax = Math.max(fmax, Math.abs(f[i]));
-      fNorm += w[i] * f[i] * f[i];
-    }
-    change = fmax;
-    if (change <= tolerance) { t = g; break; }
-    if (fNorm > fNormPrev) {
-      // safeguard: the mixed point did worse than the last one; drop the memory, take the plain step
+    const J = objective(g);
+    if (best && J > best.J * (1 + 1e-12) + 1e-300) {
+      // safeguard: the mixed point did worse than the last accepted one; drop the memory and take a
+      // plain step from that one (plain steps never increase the objective, so this cannot cycle)
       dG.length = 0;
       dF.length = 0;
       gPrev = null;
       fPrev = null;
       resets++;
+      t = best.g;
+      continue;
     }
-    fNormPrev = fNorm;
+    best = { g, J };
+    const f = new Float64Array(n);
+    let fmax = 0;
+    for (let i = 0; i < n; i++) {
+      f[i] = g[i] - t[i];
+      fmax = Math.max(fmax, Math.abs(f[i]));
+    }
+    change = fmax;
+    if (change <= tolerance) { t = g; break; }
     if (gPrev && fPrev) {
       dG.push(Float64Array.from(g, (v, i) => v - gPrev![i]));
       dF.push(Float64Array.from(f, (v, i) => v - fPrev![i]));
@@ -146,11 +161,17 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     t = next;
   }
   if (change <= tolerance) {
-    // one more plain step from the converged point
-    const g = F(t);
-    let d = 0;
-    for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(g[i] - t[i]));
-    change = Math.max(change, d);
+    // plain steps from the converged point until one moves the trend by at most the tolerance
+    // (the point reached by mixing is close to, but not itself, a plain step's output)
+    for (let extra = 0; extra < 20; extra++) {
+      const g = F(t);
+      let d = 0;
+      for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(g[i] - t[i]));
+      change = d;
+      t = g;
+      cycles++;
+      if (d <= tolerance) break;
+    }
   }
   // returned: the last exact trend step and the season and spikes it was taken for, so that the
   // trend's optimality conditions hold exactly and those of the season and spikes within the
@@ -184,25 +205,19 @@ function solveSmall(M: Float64Array, b: Float64Array, m: number): Float64Array {
   return xv;
 }
 
-/** The (theta, o) block for trend t: season and spikes alternated until neither moves by more than tol. Updates s, o, parts, theta. Unchecked. */
+/** The (theta, o) block for trend t: exact Huber regression (with a season) or soft threshold (without). Updates s, o, parts, theta. Unchecked. */
 function seasonAndSpikes(y: Float64Array, t: Float64Array, w: Float64Array, rho: number, design: SeasonDesign | null, s: Float64Array, o: Float64Array,
   parts: Float64Array[], theta: { value: Float64Array }, work: { r: Float64Array; s: Float64Array }, tol: number): void {
   const n = y.length;
-  const { r, s: sNew } = work;
-  for (let inner = 0; inner < 10000; inner++) {
-    let d = 0;
-    if (design) {
-      for (let i = 0; i < n; i++) r[i] = y[i] - t[i] - o[i];
-      theta.value = Float64Array.from(fitSeason(design, r, w, sNew, parts));
-      for (let i = 0; i < n; i++) { d = Math.max(d, Math.abs(sNew[i] - s[i])); s[i] = sNew[i]; }
-    }
-    for (let i = 0; i < n; i++) {
-      const ri = y[i] - t[i] - s[i];
-      const th = rho / w[i];
-      const val = ri > th ? ri - th : ri < -th ? ri + th : 0;
-      d = Math.max(d, Math.abs(val - o[i]));
-      o[i] = val;
-    }
-    if (d <= tol || !design) break;
+  const { r } = work;
+  void tol;
+  for (let i = 0; i < n; i++) r[i] = y[i] - t[i];
+  if (design) {
+    theta.value = fitSeasonAndSpikes(design, r, w, rho, theta.value, s, o, parts);
+    return;
+  }
+  for (let i = 0; i < n; i++) {
+    const th = rho / w[i];
+    o[i] = r[i] > th ? r[i] - th : r[i] < -th ? r[i] + th : 0;
   }
 }
