@@ -225,3 +225,14 @@ describe('findBreaks options', () => {
     expect(() => findBreaks(s, { model: 'mean', minSegment: 40 })).toThrow(/at least 40 usable points/);
   });
 });
+
+describe('findBreaks on long series', () => {
+  test('models whose search grows with the square of the length refuse at once above their limit, saying what to do', () => {
+    const y = Array.from({ length: 60001 }, (_, i) => i % 3);
+    const s = prepareSeries(y, null, null, { ties: 'keep' });
+    for (const model of ['meanvar', 'poisson', 'distribution', 'slope'] as const) {
+      expect(() => findBreaks(s, { model })).toThrow(/is refused: .* Use at most [\d,]+ points .* or model 'mean'/);
+    }
+    expect(() => findBreaks(s, { model: 'mean', crops: [1, 100], maxRuns: 10000 })).toThrow(/give maxRuns \d+ or less/);
+  });
+});
