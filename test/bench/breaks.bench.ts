@@ -1,7 +1,9 @@
 /**
- * Benchmark of changepoint segmentation: PELT (mean model) and CPOP (slope model)
+ * Benchmark of changepoint segmentation: FPOP (mean model) and CPOP (slope model)
  * on seeded series with a change every ~1000 points, plus the fitted growth
- * exponent of time against n (least squares on log time vs log n).
+ * exponent of time against n (least squares on log time vs log n); every model on a
+ * full column (1,048,576 rows, 5 changes) with peak memory; FPOP against PELT where
+ * PELT is slowest (no change).
  *
  * No changepoint library is among the installed reference packages (R's base
  * install has none, and Debian's python3-scipy/statsmodels have no PELT), so the
@@ -13,6 +15,10 @@ import { pelt } from '../../src/engine/breaks/pelt';
 import { optimalPartitioning } from '../../src/engine/breaks/optimalPartitioning';
 import { meanCost } from '../../src/engine/breaks/costMean';
 import { prepareSeries, type Series } from '../../src/engine/series';
+import { fpop } from '../../src/engine/breaks/fpop';
+import type { BreaksModel } from '../../src/engine/breaks/types';
+import { spawnSync } from 'child_process';
+import * as path from 'path';
 import { mulberry32, normalStream } from '../helpers/random';
 
 const SPACING = 1000;
@@ -82,9 +88,77 @@ function exponent(ns: number[], ts: number[]): number {
   return sxy / sxx;
 }
 
+/** A full column (1,048,576 rows) with 5 changes and a slow swing, for every model. */
+function fullColumn(model: BreaksModel, n: number): Series {
+  const z = normalStream(2024);
+  const u = mulberry32(2025);
+  const y = new Array<number>(n);
+  const at = [0.15, 0.3, 0.5, 0.7, 0.85].map((f) => Math.round(f * n));
+  let k = 0, level = 0, sd = 1;
+  for (let i = 0; i < n; i++) {
+    if (k < at.length && i === at[k]) { level += u() < 0.5 ? -2 : 2; sd = model === 'meanvar' ? 0.5 + u() : 1; k++; }
+    const v = level + 0.5 * Math.sin(i / 40000) + sd * z();
+    y[i] = model === 'poisson' ? Math.max(0, Math.round(10 + 2 * v)) : model === 'slope' ? v + 1e-5 * i : v;
+  }
+  return prepareSeries(y, null, null, { ties: 'keep' });
+}
+
+/** Peak resident memory of this process so far, MB (process.resourceUsage().maxRSS is in kB). */
+const peakMb = (): number => process.resourceUsage().maxRSS / 1024;
+
+/**
+ * Every model on a full column: finished (time, breaks) or refused (time to the
+ * refusal, message), with the process's peak resident memory before and after and the
+ * heap in use after. Then a probe: the 'mean' search on a full column in a child
+ * process whose heap is capped at 256 MB.
+ */
+function fullColumns(emit: (record: Record<string, unknown>) => void): void {
+  const n = 1048576;
+  for (const [model, extra] of [['mean', {}], ['mean', { robust: false }], ['mean', { minSegment: 5 }], ['meanvar', {}], ['poisson', {}], ['distribution', {}], ['slope', {}]] as [BreaksModel, Record<string, unknown>][]) {
+    const series = fullColumn(model, n);
+    const before = peakMb();
+    const t0 = performance.now();
+    let record: Record<string, unknown>;
+    try {
+      const r = findBreaks(series, { model, ...extra });
+      record = { outcome: 'finished', breaks: r.breaks.length, spikes: r.spikes.length, algorithm: r.solver.algorithm, maxCandidates: r.solver.maxCandidates, meanCandidates: r.solver.meanCandidates };
+    } catch (e) {
+      record = { outcome: 'refused', message: (e as Error).message };
+    }
+    const seconds = (performance.now() - t0) / 1000;
+    emit({ bench: 'breaks', measure: 'full-column', model, options: extra, n, seconds, ...record, peakRssMbBefore: Math.round(before), peakRssMbAfter: Math.round(peakMb()), heapUsedMbAfter: Math.round(process.memoryUsage().heapUsed / 2 ** 20), target: 'finish within 30 s with memory linear in n, or refuse at once' });
+  }
+  // heap-capped probe in a child process (this file, compiled, exports fullColumnProbe)
+  const code = `const b = require(${JSON.stringify(path.join(__dirname, 'breaks.bench.js'))}); const t0 = Date.now(); const r = b.fullColumnProbe(); console.log(JSON.stringify({ seconds: (Date.now() - t0) / 1000, breaks: r, peakRssMb: Math.round(process.resourceUsage().maxRSS / 1024) }));`;
+  for (const heap of [256, 128]) {
+    const out = spawnSync(process.execPath, [`--max-old-space-size=${heap}`, '-e', code], { encoding: 'utf8' });
+    const line = out.stdout.trim().split('\n').pop() ?? '';
+    emit({ bench: 'breaks', measure: 'full-column-heap-probe', model: 'mean', n, maxOldSpaceMb: heap, ok: out.status === 0, ...(out.status === 0 ? JSON.parse(line) : { error: out.stderr.split('\n').slice(0, 2).join(' ') }) });
+  }
+}
+
+/** The 'mean' model at defaults on a full column: number of breaks (for the heap probe). */
+export function fullColumnProbe(): number {
+  return findBreaks(fullColumn('mean', 1048576), { model: 'mean' }).breaks.length;
+}
+
 export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+  if (!quick) fullColumns(emit);
+  // FPOP against PELT on series with no change (PELT's slowest case): same result, time ratio
+  for (const n of quick ? [5e3] : [1e4, 3e4, 1e5]) {
+    const z = normalStream(n);
+    const y = Float64Array.from({ length: n }, () => z());
+    const w = new Float64Array(n).fill(1);
+    const cost = meanCost(y, w, 1, 0);
+    const beta = 2 * Math.log(n);
+    let a = fpop(y, w, { kind: 'square' }, beta, 1), b = pelt(cost, beta, 1);
+    const tf = time(() => { a = fpop(y, w, { kind: 'square' }, beta, 1); }, 3);
+    const tp = time(() => { b = pelt(cost, beta, 1); }, n > 3e4 ? 1 : 3);
+    const tr = time(() => fpop(y, w, { kind: 'biweight', K: 3 }, beta, 1), 3);
+    emit({ bench: 'breaks', model: 'mean', measure: 'fpop-vs-pelt-no-change', n, fpopSeconds: tf, fpopBiweightSeconds: tr, peltSeconds: tp, speedup: tp / tf, sameChanges: JSON.stringify(a.changes) === JSON.stringify(b.changes), fpopMeanPieces: a.meanCandidates, peltMeanCandidates: b.meanCandidates });
+  }
   const meanSizes = quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
-  const slopeSizes = quick ? [1e3, 3e3] : [1e3, 1e4, 1e5];
+  const slopeSizes = quick ? [1e3, 3e3] : [1e3, 3e3, 1e4];
   const meanTimes: number[] = [];
   for (const n of meanSizes) {
     const { series, truth } = meanSeries(n, 7);
@@ -93,13 +167,13 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
     const seconds = time(() => { r = findBreaks(series, { model: 'mean', penalty: 'bic' }); }, reps);
     meanTimes.push(seconds);
     emit({
-      bench: 'breaks', model: 'mean', algorithm: 'pelt', n, seconds, reps,
+      bench: 'breaks', model: 'mean', algorithm: r.solver.algorithm, n, seconds, reps,
       trueChanges: truth.length, foundChanges: r.breaks.length, hitRateWithin5: hitRate(r.breaks.map((b) => b.index), truth, 5),
       meanCandidates: r.solver.meanCandidates, maxCandidates: r.solver.maxCandidates, evaluations: r.solver.evaluations,
       target: n === 1e5 ? 'under 0.5 s' : undefined,
     });
   }
-  emit({ bench: 'breaks', model: 'mean', algorithm: 'pelt', measure: 'time-exponent', sizes: meanSizes, exponent: exponent(meanSizes, meanTimes), target: 'close to 1 (linear)' });
+  emit({ bench: 'breaks', model: 'mean', algorithm: 'fpop', measure: 'time-exponent', sizes: meanSizes, exponent: exponent(meanSizes, meanTimes), target: 'close to 1 (linear)' });
 
   // PELT against exhaustive optimal partitioning on the same cost, same run
   for (const n of quick ? [3e3] : [5e3, 2e4]) {

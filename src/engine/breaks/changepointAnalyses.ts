@@ -29,6 +29,24 @@ const shortest = (min: number): OptionDeclaration => ({
   help: `fewest points in a segment (default ${min})`,
 });
 const SIGMA: OptionDeclaration = { name: 'sigma', kind: 'number', above: 0, help: 'known noise standard deviation in units of y (default: estimated robustly)' };
+const ROBUST: OptionDeclaration = {
+  name: 'robust', kind: 'switch', default: true, implied: true,
+  help: 'true (default): single far-off values are set aside as spikes by an outlier-robust cost (biweight, Fearnhead & Rigaill 2019); false: plain squared errors',
+};
+const NOISE: OptionDeclaration = {
+  name: 'noise', kind: 'choice', choices: ['correlated', 'independent'], default: 'correlated',
+  choiceHelp: { correlated: 'estimate the lag-one correlation of the noise and raise the penalty by the long-run variance ratio (default)', independent: 'assume independent noise' },
+  help: 'how the penalty treats the noise: correlated (default) or independent',
+};
+const SEASON: OptionDeclaration = {
+  name: 'season', kind: 'choice', choices: ['auto', 'none'], default: 'auto',
+  choiceHelp: { auto: 'remove a season when the series has one, period from the dates (default)', none: 'look for changes in the series as given' },
+  help: 'whether changes are looked for in the series without its season: auto (default) or none; give period to set the season length',
+};
+const PERIOD: OptionDeclaration = {
+  name: 'period', kind: 'integer', min: 2, max: 100000, onlyWith: { option: 'season', values: ['auto'] },
+  help: 'season length in points (e.g. 7, 12, 52): removes that season before the search, counted by position',
+};
 const QUANTILES: OptionDeclaration = { name: 'quantiles', kind: 'integer', min: 2, max: 100, default: 10, help: 'number of quantiles the distribution cost compares (default 10)' };
 
 function changepointAnalysis(name: string, model: BreaksModel, label: string, summary: string, extra: OptionDeclaration[], minSegment = 1): AnalysisDefinition {
@@ -44,6 +62,10 @@ function changepointAnalysis(name: string, model: BreaksModel, label: string, su
       if (model === 'distribution') options.quantiles = o.quantiles as number;
       if (o.penaltyRange !== undefined) options.crops = [...(o.penaltyRange as [number, number])];
       if (o.maxRuns !== undefined) options.maxRuns = o.maxRuns as number;
+      if (o.robust !== undefined) options.robust = o.robust as boolean;
+      if (o.noise !== undefined) options.noise = o.noise as BreaksOptions['noise'];
+      if (o.period !== undefined) options.season = o.period as number;
+      else if (o.season !== undefined) options.season = o.season as 'auto' | 'none';
       const breaks = findBreaks(series, options);
       return {
         fitted: breaks.fitted, warnings: breaks.warnings, breaks,
@@ -58,9 +80,9 @@ function changepointAnalysis(name: string, model: BreaksModel, label: string, su
 
 /** The changepoint models, in the order fronts list them. */
 export const CHANGEPOINT_ANALYSES: AnalysisDefinition[] = [
-  changepointAnalysis('level', 'mean', 'Jumps in level', 'changes in mean, Gaussian cost with a robust noise scale; exact by PELT (Killick, Fearnhead & Eckley 2012)', [SIGMA]),
-  changepointAnalysis('volatility', 'meanvar', 'Jumps in level and volatility', 'changes in mean and variance, Gaussian cost; exact by PELT', [], 2),
-  changepointAnalysis('counts', 'poisson', 'Changes in the rate of counts', 'changes in a Poisson rate; exact by PELT', []),
-  changepointAnalysis('distribution', 'distribution', 'Any change in distribution', 'nonparametric empirical-distribution cost (Haynes, Fearnhead & Eckley 2017); exact by PELT', [QUANTILES]),
-  changepointAnalysis('slope', 'slope', 'Changes in growth rate (a continuous broken line)', 'continuous piecewise-linear trend with an L0 penalty; exact by CPOP (Fearnhead, Maidstone & Letchford 2019)', [SIGMA]),
+  changepointAnalysis('level', 'mean', 'Jumps in level', 'changes in level, outlier-robust biweight cost (spikes set aside), penalty allowing for correlated noise, season removed when present; exact by FPOP (Maidstone, Hocking, Rigaill & Fearnhead 2017)', [SIGMA, ROBUST, NOISE, SEASON, PERIOD]),
+  changepointAnalysis('volatility', 'meanvar', 'Jumps in level and volatility', 'changes in mean and variance, Gaussian cost; exact by PELT (up to 60,000 points)', [NOISE, SEASON, PERIOD], 2),
+  changepointAnalysis('counts', 'poisson', 'Changes in the rate of counts', 'changes in a Poisson rate, a season as a rate factor; exact by PELT (up to 30,000 points)', [SEASON, PERIOD]),
+  changepointAnalysis('distribution', 'distribution', 'Any change in distribution', 'nonparametric empirical-distribution cost (Haynes, Fearnhead & Eckley 2017); exact by PELT (up to 30,000 points)', [QUANTILES, SEASON, PERIOD]),
+  changepointAnalysis('slope', 'slope', 'Changes in growth rate (a continuous broken line)', 'continuous piecewise-linear trend with an L0 penalty; exact by CPOP (Fearnhead, Maidstone & Letchford 2019; up to 12,000 points)', [SIGMA, NOISE, SEASON, PERIOD]),
 ];

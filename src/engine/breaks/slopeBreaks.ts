@@ -9,6 +9,7 @@ import { cropsWithCounts } from './crops';
 import { givenOrEstimatedSigma } from './stepBreaks';
 import { parametersPerChange, penaltyValue } from './penaltyValue';
 import { median } from '../median';
+import { correlationNote, noiseTreatment } from './noiseCorrelation';
 import { autocorrelationWarning, breakCauseWarning, residualAutocorrelation } from './summariseSegment';
 import type { Break, BreaksResult, CropsRow, SegmentSummary } from './types';
 import type { ResolvedBreaksOptions } from './validateBreaksOptions';
@@ -59,13 +60,24 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
   const m = raw.x.length;
   if (m < 2) throw new KnotwiseError('too-few-points', `model 'slope' needs at least 2 distinct x values; got ${m}.`);
   if (m - 1 < o.minSegment) throw new KnotwiseError('too-few-points', `model 'slope' with minSegment ${o.minSegment} needs at least ${o.minSegment + 1} distinct x values; got ${m}.`);
-  const { value: sigma, source } = givenOrEstimatedSigma(o.sigma, raw.y, 2, notes);
+  const noise = noiseTreatment(raw.y, o);
+  const est = givenOrEstimatedSigma(o.sigma, raw.y, 2, notes);
+  // second differences of AR(1) noise have variance 2 s^2 (1 - phi)(3 - phi): their
+  // scale sqrt(var / 6) is turned back into the marginal noise sd s
+  const phi = noise.correlation;
+  const sigma = est.source === 'given' ? est.value : est.value / Math.sqrt(((1 - phi) * (3 - phi)) / 3);
+  const source = est.source;
   const P = mergePositions(series, centre, sigma);
+  let ss = 0;
+  for (let k = 0; k < P.wyy.length; k++) ss += P.wyy[k];
+  if (!Number.isFinite(ss)) {
+    throw new KnotwiseError('bad-data', `the values span more than about 1e150 noise scales (noise scale ${showNumber(sigma)}), so the squared-error cost overflows; remove the far-off values, or use model 'mean', which sets single far-off values aside as spikes.`);
+  }
   const x0 = P.x[0], span = P.x[m - 1] - P.x[0];
   const u = new Float64Array(m);
   for (let k = 0; k < m; k++) u[k] = (P.x[k] - x0) / span;
   const p = parametersPerChange('slope');
-  const beta = penaltyValue(o.penalty, n, p);
+  const beta = penaltyValue(o.penalty, n, p) * noise.penaltyFactor;
   const solve = (b: number): SlopeSegmentation => cpop(u, P.y, P.w, P.wyy, b, o.minSegment);
   const seg = solve(beta);
   let runs = 1, evaluations = seg.evaluations, maxCandidates = seg.maxCandidates;
@@ -109,21 +121,27 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
     }
     segments.push({
       start, end, xStart: series.x[start], xEnd: series.x[end], rowStart: series.firstRow[start], rowEnd: series.firstRow[end],
-      n: end - start + 1, mean: S / W, sd: Math.sqrt(R / W), rate: NaN, median: NaN, slope, intercept,
+      n: end - start + 1, mean: S / W, sd: Math.sqrt(R / W), level: NaN, rate: NaN, median: NaN, slope, intercept,
     });
   }
   const breaks: Break[] = seg.changes.map((g, k) => {
     const idx = P.first[g];
-    return { index: idx, row: series.firstRow[idx], x: series.x[idx], before: segments[k], after: segments[k + 1], change: segments[k + 1].slope - segments[k].slope, uncertainty: NO_INTERVAL };
+    return { index: idx, row: series.firstRow[idx], x: series.x[idx], before: segments[k], after: segments[k + 1], change: segments[k + 1].slope - segments[k].slope, changeSd: segments[k + 1].sd - segments[k].sd, uncertainty: NO_INTERVAL };
   });
-  const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted), n);
-  if (aw) warnings.push(aw);
+  const cn = correlationNote(noise);
+  if (cn) warnings.push(cn);
+  if (noise.assumption === 'independent') {
+    const aw = autocorrelationWarning(residualAutocorrelation(series.y, fitted), n, breaks.length);
+    if (aw) warnings.push(aw);
+  }
   warnings.push(breakCauseWarning(breaks.length));
   return {
     model: 'slope',
     penalty: { rule: typeof o.penalty === 'number' ? 'manual' : o.penalty, value: beta, parametersPerChange: p },
     sigma: { value: sigma, source },
-    breaks, segments, fitted,
+    breaks, spikes: [], noise: { assumption: noise.assumption, correlation: noise.correlation, penaltyFactor: noise.penaltyFactor },
+    season: { adjusted: false, request: 'none', period: NaN, strength: NaN, note: '' },
+    segments, fitted,
     cost: seg.cost, penalisedCost: seg.penalisedCost,
     ...(table ? { crops: table } : {}),
     warnings,

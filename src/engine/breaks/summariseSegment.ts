@@ -23,6 +23,7 @@ export function summariseSegment(series: Series, start: number, end: number, mod
     start, end, xStart: series.x[start], xEnd: series.x[end],
     rowStart: series.firstRow[start], rowEnd: series.firstRow[end], n: end - start + 1,
     mean, sd: Math.sqrt(V / W),
+    level: model === 'distribution' ? median(series.y.subarray(start, end + 1)) : mean,
     rate: model === 'poisson' ? mean : NaN,
     median: model === 'distribution' ? median(series.y.subarray(start, end + 1)) : NaN,
     slope: NaN, intercept: NaN,
@@ -43,8 +44,16 @@ export function residualAutocorrelation(y: Float64Array, fitted: Float64Array): 
   return lagOneAutocorrelation(Float64Array.from(y, (v, i) => v - fitted[i]));
 }
 
-/** An 'autocorrelation' warning when the residual lag-1 autocorrelation of n points passes {@link isAutocorrelated}, else null. */
-export function autocorrelationWarning(rho: number, n: number): Warning | null {
+/**
+ * An 'autocorrelation' warning when the residual lag-1 autocorrelation of n points passes
+ * {@link isAutocorrelated}, else null. With no break found the advice differs: residual
+ * correlation then points at a change, trend or season the fit left in the data, and
+ * raising the penalty cannot help.
+ */
+export function autocorrelationWarning(rho: number, n: number, breaks = 1): Warning | null {
   if (!isAutocorrelated(rho, n)) return null;
-  return warning('autocorrelation', `residuals have lag-1 autocorrelation ${rho.toFixed(2)}: the models assume independent noise, so slow swings may be split into extra breaks. Raise the penalty (see the CROPS table) or treat marginal breaks with caution.`);
+  if (breaks === 0) {
+    return warning('autocorrelation', `residuals have lag-1 autocorrelation ${rho.toFixed(2)} and no change was found: a trend, a season or a change too small for this penalty may be left in the data. Look at the CROPS table over lower penalties, or try model 'slope' for a trend.`);
+  }
+  return warning('autocorrelation', `residuals have lag-1 autocorrelation ${rho.toFixed(2)}: the models assume independent noise here, so slow swings may be split into extra breaks. Use noise 'correlated', raise the penalty (see the CROPS table) or treat marginal breaks with caution.`);
 }

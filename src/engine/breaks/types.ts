@@ -36,6 +36,61 @@ export interface BreaksOptions {
   quantiles?: number;
   /** Largest number of CROPS penalty evaluations before stopping (default 200). */
   maxRuns?: number;
+  /**
+   * 'mean' only: true (default) uses the outlier-robust biweight cost, so single far-off
+   * values are reported in `spikes` instead of as breaks; false uses plain squared errors.
+   */
+  robust?: boolean;
+  /**
+   * Gaussian models ('mean', 'meanvar', 'slope'): 'correlated' (default) estimates the
+   * lag-one correlation of the noise and multiplies a named penalty rule by the long-run
+   * variance ratio (1 + phi) / (1 - phi); 'independent' assumes independent noise.
+   */
+  noise?: NoiseAssumption;
+  /**
+   * Seasonal pattern: 'auto' (default) removes a season when the series has one (period
+   * inferred), 'none' leaves the series as it is, a whole number >= 2 gives the period in
+   * points. Changes are then looked for in the seasonally adjusted series.
+   */
+  season?: 'auto' | 'none' | number;
+}
+
+/** How the noise is treated by the penalty: see {@link BreaksOptions.noise}. */
+export type NoiseAssumption = 'correlated' | 'independent';
+
+/** A single value far from its segment's level, set aside rather than reported as breaks. */
+export interface Spike {
+  /** Clean-point index. */
+  index: number;
+  /** 0-based input row. */
+  row: number;
+  /** x of that point. */
+  x: number;
+  /** y - fitted level (y units). */
+  size: number;
+}
+
+/** What the noise treatment did ({@link BreaksResult.noise}). */
+export interface NoiseTreatment {
+  assumption: NoiseAssumption;
+  /** Estimated lag-one noise correlation used (0 with 'independent'). */
+  correlation: number;
+  /** Factor applied to the named penalty rule (1 with 'independent' or a manual penalty). */
+  penaltyFactor: number;
+}
+
+/** What was done about a seasonal pattern ({@link BreaksResult.season}). */
+export interface SeasonTreatment {
+  /** True when changes were looked for in the seasonally adjusted series. */
+  adjusted: boolean;
+  /** 'auto', 'none' or 'given' (a period was given). */
+  request: 'auto' | 'none' | 'given';
+  /** Period in points used or found (NaN when none). */
+  period: number;
+  /** Seasonal strength in [0, 1] when measured (NaN otherwise). */
+  strength: number;
+  /** Plain-words account for the tables and text. */
+  note: string;
 }
 
 /** Summary of one segment. Fields not relevant to the model are NaN. */
@@ -52,14 +107,19 @@ export interface SegmentSummary {
   rowEnd: number;
   /** Number of points. */
   n: number;
-  /** Weighted mean of y over the segment. */
+  /** Weighted mean of y over the segment (robust 'mean' model: spikes left out). */
   mean: number;
-  /** Weighted standard deviation of y about the segment's mean ('meanvar': the fitted one). */
+  /** Weighted standard deviation of y about the segment's mean ('meanvar': the fitted one; robust 'mean': spikes left out). */
   sd: number;
   /** Count rate per point ('poisson'), else NaN. */
   rate: number;
   /** Median of y ('distribution'), else NaN. */
   median: number;
+  /**
+   * Fitted level of the segment: the robust (biweight) level for the robust 'mean' model,
+   * else the mean ('distribution': the median); NaN for 'slope'.
+   */
+  level: number;
   /** Slope per x unit ('slope'), else NaN. */
   slope: number;
   /** Intercept at x = 0 ('slope'), else NaN. */
@@ -76,8 +136,10 @@ export interface Break {
   x: number;
   before: SegmentSummary;
   after: SegmentSummary;
-  /** Size of the change: after.mean - before.mean, after.rate - before.rate, after.slope - before.slope, ... */
+  /** Size of the change: after.level - before.level, after.rate - before.rate, after.slope - before.slope, ... */
   change: number;
+  /** Change in standard deviation after.sd - before.sd (y units): the volatility change of 'meanvar'; descriptive for the other models. */
+  changeSd: number;
   /**
    * Uncertainty of the location. PELT and CPOP return a point estimate only; no
    * interval is given here (published intervals need extra modelling assumptions).
@@ -122,11 +184,17 @@ export interface BreaksSolver {
 /** The result of {@link findBreaks}. */
 export interface BreaksResult {
   model: BreaksModel;
-  /** The penalty used: rule name ('bic', 'mbic', 'manual') and its value on the cost's scale. */
+  /** The penalty used: rule name ('bic', 'mbic', 'manual') and its value on the cost's scale (after any noise factor). */
   penalty: { rule: string; value: number; parametersPerChange: number };
   /** The noise scale used ('mean', 'slope'), and how it was obtained. */
   sigma?: { value: number; source: 'given' | 'estimated' };
   breaks: Break[];
+  /** Single far-off values set aside by the robust 'mean' model (empty for the other models). */
+  spikes: Spike[];
+  /** How the noise was treated by the penalty (Gaussian models). */
+  noise?: NoiseTreatment;
+  /** What was done about a seasonal pattern. */
+  season: SeasonTreatment;
   segments: SegmentSummary[];
   /** Fitted value per clean point: a step function, or the continuous broken line for 'slope'. */
   fitted: Float64Array;

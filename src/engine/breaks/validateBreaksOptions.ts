@@ -3,12 +3,12 @@
  */
 import { KnotwiseError } from '../errors';
 import { checkChoice, checkInteger, checkPositive, describeValue } from '../options';
-import type { BreaksModel, BreaksOptions } from './types';
+import type { BreaksModel, BreaksOptions, NoiseAssumption } from './types';
 
 /** The models {@link findBreaks} accepts. */
 export const BREAKS_MODELS: readonly BreaksModel[] = ['mean', 'meanvar', 'poisson', 'distribution', 'slope'];
 
-const KEYS = ['model', 'penalty', 'crops', 'minSegment', 'sigma', 'quantiles', 'maxRuns'];
+const KEYS = ['model', 'penalty', 'crops', 'minSegment', 'sigma', 'quantiles', 'maxRuns', 'robust', 'noise', 'season'];
 
 /** Options with defaults filled in. */
 export interface ResolvedBreaksOptions {
@@ -19,13 +19,20 @@ export interface ResolvedBreaksOptions {
   sigma?: number;
   quantiles: number;
   maxRuns: number;
+  /** Biweight cost ('mean' only; false for the other models). */
+  robust: boolean;
+  /** Noise assumption ('independent' for the models it does not apply to). */
+  noise: NoiseAssumption;
+  /** 'auto', 'none' or a period in points. */
+  season: 'auto' | 'none' | number;
 }
 
 const show = describeValue;
 
 /**
  * Checks every option of {@link findBreaks} and fills defaults: penalty 'bic',
- * minSegment 1 (2 for 'meanvar'), quantiles 10, maxRuns 200.
+ * minSegment 1 (2 for 'meanvar'), quantiles 10, maxRuns 200, robust true ('mean'),
+ * noise 'correlated' ('mean', 'meanvar', 'slope'), season 'auto'.
  *
  * @throws {@link KnotwiseError} `bad-option` naming the option and printing the offending value
  * @example
@@ -80,5 +87,24 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
     if (!crops) throw new KnotwiseError('bad-option', `maxRuns applies only with crops [low, high]; got maxRuns ${show(options.maxRuns)} without crops.`);
     maxRuns = checkInteger(options.maxRuns, 'maxRuns', 2, 10000);
   }
-  return { model, penalty, crops, minSegment, sigma, quantiles, maxRuns };
+  let robust = model === 'mean';
+  if (options.robust !== undefined) {
+    if (typeof options.robust !== 'boolean') throw new KnotwiseError('bad-option', `robust must be true or false; got ${show(options.robust)}.`);
+    if (model !== 'mean' && options.robust) throw new KnotwiseError('bad-option', `robust applies to model 'mean' only; model is '${model}' (remove robust).`);
+    robust = options.robust;
+  }
+  const gaussian = model === 'mean' || model === 'meanvar' || model === 'slope';
+  let noise: NoiseAssumption = gaussian ? 'correlated' : 'independent';
+  if (options.noise !== undefined) {
+    noise = checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
+    if (!gaussian && noise === 'correlated') throw new KnotwiseError('bad-option', `noise 'correlated' applies to models 'mean', 'meanvar' and 'slope' only; model is '${model}' (remove noise).`);
+  }
+  let season: 'auto' | 'none' | number = 'auto';
+  if (options.season !== undefined) {
+    const v = options.season as unknown;
+    if (v === 'auto' || v === 'none') season = v;
+    else if (typeof v === 'number' && Number.isInteger(v) && v >= 2 && v <= 100000) season = v;
+    else throw new KnotwiseError('bad-option', `season must be 'auto', 'none' or a whole number of points per cycle from 2 to 100000; got ${show(v)}.`);
+  }
+  return { model, penalty, crops, minSegment, sigma, quantiles, maxRuns, robust, noise, season };
 }

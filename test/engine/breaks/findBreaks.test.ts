@@ -25,9 +25,10 @@ describe('findBreaks on the Nile flow (R datasets::Nile, fixture from test/refer
     expect(main.row).toBe(main.x - 1871);
   });
 
+  // The reference is the plain Gaussian cost with independent noise: robust false and noise 'independent'.
   test('agrees with base R: the sigma estimate, and optimal partitioning under BIC and MBIC', () => {
     for (const rule of ['bic', 'mbic'] as const) {
-      const r = findBreaks(series, { model: 'mean', penalty: rule });
+      const r = findBreaks(series, { model: 'mean', penalty: rule, robust: false, noise: 'independent' });
       const ref = nile.optimalPartitioning[rule];
       expect(r.sigma!.source).toBe('estimated');
       expect(r.sigma!.value).toBeCloseTo(nile.sigma.value, 10);
@@ -38,7 +39,7 @@ describe('findBreaks on the Nile flow (R datasets::Nile, fixture from test/refer
   });
 
   test('a single forced change (CROPS row with one change) sits where exhaustive least squares in base R puts it', () => {
-    const r = findBreaks(series, { model: 'mean', penalty: 'bic', crops: [1, 200] });
+    const r = findBreaks(series, { model: 'mean', penalty: 'bic', crops: [1, 200], robust: false, noise: 'independent' });
     const one = r.crops!.find((row) => row.changes === 1)!;
     expect(one.breaks).toEqual([nile.singleChange.firstIndexOfSecondSegment]);
     // unpenalised cost = RSS / sigma^2 of that split
@@ -118,9 +119,10 @@ describe('findBreaks with the Poisson model', () => {
     expect(r.breaks[0].change).toBe(7);
   });
 
-  test('rejects non-integer and negative counts naming the row', () => {
+  test('warns about non-integer counts naming the row, rejects negative ones', () => {
     const s = prepareSeries([1, 2, 2.5, 3], null, null, { ties: 'keep' });
-    expect(() => findBreaks(s, { model: 'poisson' })).toThrow(/row 3 holds 2\.5/);
+    const r = findBreaks(s, { model: 'poisson' });
+    expect(r.warnings.find((w) => /not whole \(row 3, e\.g\. 2\.5\)/.test(w.message))?.rows).toEqual([2]);
     const t = prepareSeries([1, 2, 'x', -1], null, null, { ties: 'keep' });
     expect(() => findBreaks(t, { model: 'poisson' })).toThrow(/row 4 holds -1/);
     try { findBreaks(t, { model: 'poisson' }); } catch (e) { expect((e as KnotwiseError).code).toBe('bad-data'); }
@@ -221,5 +223,16 @@ describe('findBreaks options', () => {
 
   test('too few points for minSegment is an error saying how many are needed', () => {
     expect(() => findBreaks(s, { model: 'mean', minSegment: 40 })).toThrow(/at least 40 usable points/);
+  });
+});
+
+describe('findBreaks on long series', () => {
+  test('models whose search grows with the square of the length refuse at once above their limit, saying what to do', () => {
+    const y = Array.from({ length: 60001 }, (_, i) => i % 3);
+    const s = prepareSeries(y, null, null, { ties: 'keep' });
+    for (const model of ['meanvar', 'poisson', 'distribution', 'slope'] as const) {
+      expect(() => findBreaks(s, { model })).toThrow(/is refused: .* Use at most [\d,]+ points .* or model 'mean'/);
+    }
+    expect(() => findBreaks(s, { model: 'mean', crops: [1, 100], maxRuns: 10000 })).toThrow(/give maxRuns \d+ or less/);
   });
 });

@@ -26,3 +26,19 @@ describe('meanvar on rounded data', () => {
     expect(r.breaks.some((b) => Math.abs(b.index - 120) <= 10)).toBe(true);
   });
 });
+
+describe('recordingResolution is free of scale and offset', () => {
+  test('prices near 1e9 recorded to the cent, and the same prices scaled', () => {
+    const z = normalStream(9);
+    const cents = Array.from({ length: 300 }, () => Math.round(100 * 5 * z()));
+    // values near 1e9 carry a rounding of about 1e-7, so q is found to about 1e-9 relative
+    expect(recordingResolution(Float64Array.from(cents, (c) => 1e9 + c / 100)) / 0.01).toBeCloseTo(1, 6);
+    expect(recordingResolution(Float64Array.from(cents, (c) => c / 100))).toBeCloseTo(0.01, 12);
+    expect(recordingResolution(Float64Array.from(cents, (c) => (1e9 + c / 100) * 1e-9)) / 1e-11).toBeCloseTo(1, 6);
+    expect(recordingResolution(Float64Array.from(cents, (c) => (1e9 + c / 100) * 1e15)) / 1e13).toBeCloseTo(1, 6);
+  });
+  test('1e9 + 0.13 is not a whole number', () => {
+    expect(recordingResolution(Float64Array.of(1e9 + 0.13, 1e9 + 0.14, 1e9 + 1.13, 1e9 + 2.26, 1e9 + 3)) / 0.01).toBeCloseTo(1, 6);
+    expect(recordingResolution(Float64Array.of(1e9 + 0.13, 1e9 + 2, 1e9 + 3, 1e9 + 5))).toBe(0);
+  });
+});

@@ -67,12 +67,19 @@ describe('findBreaks with the mean model and weights', () => {
     expect(a.segments.map((s) => s.mean)).toEqual(b.segments.map((s) => expect.closeTo(s.mean, 10)));
   });
 
-  test('warns when residuals are autocorrelated', () => {
+  test('assuming independent noise, warns when residuals are autocorrelated; by default the penalty allows for it and says so', () => {
     const z = normalStream(4);
     let e = 0;
     const y = Array.from({ length: 300 }, () => (e = 0.9 * e + z()));
-    const r = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'mean', sigma: 3 });
+    const s = prepareSeries(y, null, null, { ties: 'keep' });
+    const r = findBreaks(s, { model: 'mean', sigma: 3, noise: 'independent' });
     expect(r.warnings.some((w) => w.code === 'autocorrelation')).toBe(true);
+    const d = findBreaks(s, { model: 'mean' });
+    expect(d.noise!.correlation).toBeGreaterThan(0.6);
+    expect(d.noise!.penaltyFactor).toBeCloseTo((1 + d.noise!.correlation) / (1 - d.noise!.correlation), 12);
+    expect(d.penalty.value).toBeCloseTo(2 * Math.log(300) * d.noise!.penaltyFactor, 10);
+    expect(d.warnings.some((w) => w.code === 'note' && /autocorrelated/.test(w.message))).toBe(true);
+    expect(d.warnings.some((w) => w.code === 'autocorrelation')).toBe(false);
   });
 });
 

@@ -1,0 +1,16 @@
+/** The selection median equals the middle of the sorted values (odd and even lengths, ties). */
+import { median } from '../../../src/engine/median';
+import { mulberry32 } from '../../helpers/random';
+
+test('median by selection equals the sorted middle', () => {
+  const u = mulberry32(12);
+  for (let rep = 0; rep < 300; rep++) {
+    const n = 1 + Math.floor(u() * 60);
+    const ties = u() < 0.5;
+    const a = Array.from({ length: n }, () => (ties ? Math.floor(u() * 5) : u() * 100 - 50));
+    const s = [...a].sort((p, q) => p - q);
+    const want = n % 2 ? s[(n - 1) / 2] : (s[n / 2 - 1] + s[n / 2]) / 2;
+    expect(median(a)).toBe(want);
+  }
+  expect(median([])).toBeNaN();
+});
