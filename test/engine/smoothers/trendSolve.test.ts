@@ -28,10 +28,10 @@ describe('solveTrend', () => {
   test.each([1, 2, 3])('order %i: a seed (knots and signs of an exact fit) rebuilds that fit in at most two rounds', (k) => {
     const p = problem(200, k, 40 + k);
     const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
-    const fit = solveTrend(p, lam, 1e-10, 200);
+    const fit = solveTrend(p, lam, { tolerance: 1e-10, maxIterations: 200 });
     expect(fit.status.converged).toBe(true);
     expect(fit.knotRows.length).toBeGreaterThan(2);
-    const again = solveTrend({ x: p.x, y: p.y, w: p.w, k }, lam, 1e-10, 200, undefined, true, seedOf(fit));
+    const again = solveTrend({ x: p.x, y: p.y, w: p.w, k }, lam, { tolerance: 1e-10, maxIterations: 200, seed: seedOf(fit) });
     expect(again.status.iterations).toBeLessThanOrEqual(2);
     expect(again.knotRows).toEqual(fit.knotRows);
     let diff = 0;
@@ -43,7 +43,7 @@ describe('solveTrend', () => {
     const k = 2;
     const p = problem(150, k, 51);
     const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
-    const r = solveTrend(p, lam, 1e-10, 200, undefined, true, { rows: [10, 70, 120], signs: [1, 1, 1] });
+    const r = solveTrend(p, lam, { tolerance: 1e-10, maxIterations: 200, seed: { rows: [10, 70, 120], signs: [1, 1, 1] } });
     expect(r.status.converged).toBe(true);
     const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, k, lam);
     expect(kkt.boxExcess).toBeLessThan(1e-6);
@@ -54,7 +54,7 @@ describe('solveTrend', () => {
     const k = 1;
     const p = problem(300, k, 61);
     const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
-    const r = solveTrend(p, lam, 1e-8, 3, undefined, false);
+    const r = solveTrend(p, lam, { tolerance: 1e-8, maxIterations: 3, refine: false });
     expect(r.status.converged).toBe(true);
     expect(r.status.achieved).toBeLessThanOrEqual(1e-8);
     const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, k, lam);

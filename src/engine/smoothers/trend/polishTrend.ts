@@ -1,6 +1,7 @@
-import { dualFromResidual } from './dualFromResidual';
-import { weightedPolynomialFit } from './weightedPolynomialFit';
-import { restrictedSplineFit } from './restrictedSplineFit';
+import { dualFromResidual } from '../../linalg/dualFromResidual';
+import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
+import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
+import type { BasisCache } from '../../basis/discreteBSplines';
 
 /** Result of {@link polishTrend}. */
 export interface PolishResult {
@@ -53,9 +54,9 @@ export function boxRelative(n: number, k: number): number {
  * D b off the knots. At most `maxRounds` restricted solves, each O(n k^2); stops if an
  * active set repeats.
  *
- * Works on x scaled to [0, 1]. Unchecked.
+ * Works on x scaled to [0, 1]. `cache` ({@link BasisCache}) keeps the basis between rounds and calls on the same x. Unchecked.
  */
-export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>): PolishResult {
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>, cache?: BasisCache): PolishResult {
   const n = x.length;
   const m = n - k - 1;
   const act = new Map<number, number>();
@@ -86,7 +87,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     seen.add(key);
     const rowsA = [...act.keys()].sort((a, c) => a - c);
     const sA = rowsA.map((r) => act.get(r)!);
-    const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA);
+    const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA, cache);
     if (!sol) break;
     const bnew = sol.b;
     // D bnew: (D b)_A from the solve, exact zeros elsewhere

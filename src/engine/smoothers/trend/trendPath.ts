@@ -131,7 +131,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   const pts: TrendPathPoint[] = [];
   let warm: TrendFit | undefined;
   for (let j = 0; j < G; j++) {
-    const fit = solveTrend(prob, grid[j], s.tolerance, s.maxIterations, warm);
+    const fit = solveTrend(prob, grid[j], { tolerance: s.tolerance, maxIterations: s.maxIterations, warm });
     warm = fit;
     const { b } = relaxFit(sc.xs, sc.ys, sc.ws, k, fit, s.relaxed);
     let rss = 0;
@@ -165,7 +165,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
       let wf: TrendFit | undefined;
       for (let j = 0; j < G; j++) {
-        const fit = solveTrend(sub, grid[j] * (swt / swAll), Math.max(s.tolerance, CV_TOLERANCE), s.maxIterations, wf, false);
+        const fit = solveTrend(sub, grid[j] * (swt / swAll), { tolerance: Math.max(s.tolerance, CV_TOLERANCE), maxIterations: s.maxIterations, warm: wf, refine: false });
         wf = fit;
         const pred = interpolateTrend(xt, fit.b, k, xh).value;
         if (s.relaxed > 0) {
