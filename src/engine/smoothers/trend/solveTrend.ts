@@ -5,6 +5,7 @@ import { polishTrend, PolishResult } from './polishTrend';
 import { polynomialDual, PolynomialDual } from './trendLambdaMax';
 import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } from './trendAdmm';
 import { basisCache, BasisCache } from '../../basis/discreteBSplines';
+import { activeSetNewton } from './activeSetNewton';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -59,13 +60,16 @@ const ADMM_STABLE_ITERATIONS = 2;
 /** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
 const CONTINUATION_STEPS_PER_DECADE = 4;
 
+/** Rounds of the active-set Newton method started from a converged interior point's knots. */
+const NEWTON_ROUNDS = 8;
+
 export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weighted polynomial fit of degree k is the solution (max |u| <= lambda)';
 
 export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations or tolerance';
 
 export const ACTIVE_SET_RULE = 'exact active-set refinement from a known knot set, kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots';
 
-export const TREND_RULE = `${INTERIOR_POINT_RULE}; for order 1 where that stalls, ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations; then, or else, an exact active-set refinement whose result is kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
+export const TREND_RULE = `${INTERIOR_POINT_RULE}; from its knots, at most ${NEWTON_ROUNDS} rounds of an active-set Newton method, whose settled knots are kept only with a duality-gap certificate (else the interior point's answer stands); where the interior point stalls, for order 1 ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations, then an exact active-set refinement kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
 /** Relative size below which an entry of D b counts as zero for k >= 1 without refinement: the interior-point error in D b off the knots is of order gap / (m * distance of u to the bound), far below this. */
 export const KNOT_RELATIVE = 1e-8;
@@ -110,10 +114,15 @@ interface SolveContext {
  *    polynomial fit (exact).
  * 2. {@link fromSeed}: with `seed` (an exact fit's knots and signs at this penalty) the
  *    refinement rebuilds it in a round or two.
- * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}),
- *    its knots refined exactly; for k = 1 where it stalls (long series) the ADMM of
- *    {@link trendAdmm} proposes the knots; further restarts (cold interior point, the previous
- *    penalty's knots, a continuation from lambda_max in 4 steps per decade).
+ * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}).
+ *    When it converges, the active-set Newton method ({@link activeSetNewton}, at most
+ *    {@link NEWTON_ROUNDS} rounds) starts from its knots and a settled knot set is certified by
+ *    one refinement round; otherwise the interior point's own certified answer is returned
+ *    (dense knots of order 3, where the refinement's certificate is limited by the precision
+ *    of the recovered dual and further rounds were measured to be wasted). When it stalls: for
+ *    k = 1 the ADMM of {@link trendAdmm} proposes the knots; then the refinement of
+ *    {@link polishTrend} and restarts (cold interior point, the previous penalty's knots, a
+ *    continuation from lambda_max in 4 steps per decade).
  *
  * Every refinement on x mapped to [0, 1] shares one discrete B-spline basis cache on the
  * problem ({@link BasisCache}). `status.iterations` counts interior-point iterations, ADMM
@@ -214,7 +223,21 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
   let pol: PolishResult = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
-  if (sol.status.converged) pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, poly.b, knotRowsOf(prob, sol.b, sol.u, lambda), cache));
+  if (sol.status.converged) {
+    // a converged interior point knows the knots (the rows where D b is non-zero and u is on the
+    // bound); from them the active-set Newton method settles in a few rounds and one refinement
+    // round certifies the exact fit. When it does not settle (dense knots of order 3, where the
+    // refinement's certificate is also limited by the precision of the recovered dual), the
+    // interior point's own certified answer stands: no further refinement rounds
+    const rows = knotRowsOf(prob, sol.b, sol.u, lambda);
+    const asn = activeSetNewton(x01, y, w, k, lambda / f, rows, rows.map((r) => (sol.u[r] >= 0 ? 1 : -1)), NEWTON_ROUNDS, cache);
+    ctx.iterations += asn.rounds;
+    if (asn.settled) {
+      pol = refineFromKnots(ctx, asn.rows, asn.signs);
+      if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations);
+    }
+    return { b: sol.b, u: sol.u, lambda, knotRows: rows, status: { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE } };
+  }
   let admmIterations = 0;
   let admm: AdmmResult | undefined;
   if (!sol.status.converged && k === 1) {
