@@ -217,12 +217,12 @@ function median(v: number[]): number {
   return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
-/** Knotwise beside glmgen: one record per (order, n, penalty); nothing when glmgen is not installed. */
-export function sideBySide(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+/** Knotwise beside glmgen: one record per (order, n, penalty); nothing when glmgen is not installed. `orders` and `only` (sizes) narrow a run by hand. */
+export function sideBySide(emit: (record: Record<string, unknown>) => void, quick: boolean, orders = [1, 3], only?: number[]): void {
   const lib = glmgenLibrary();
   if (!lib) return;
-  const sizes = quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
-  for (const k of [1, 3]) {
+  const sizes = only ?? (quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]);
+  for (const k of orders) {
     for (const n of sizes) {
       const base = k === 1 ? n / 1000 : n / 1e5;
       for (const mult of n >= 1e6 ? [1] : [1, 10, 100]) {
