@@ -115,7 +115,8 @@ interface SolveContext {
  * 2. {@link fromSeed}: with `seed` (an exact fit's knots and signs at this penalty) the
  *    refinement rebuilds it in a round or two.
  * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}).
- *    When it converges, the active-set Newton method ({@link activeSetNewton}, at most
+ *    With `refine` false (cross-validation folds) a converged one is returned as it is. Else,
+ *    when it converges, the active-set Newton method ({@link activeSetNewton}, at most
  *    {@link NEWTON_ROUNDS} rounds) starts from its knots and a settled knot set is certified by
  *    one refinement round; otherwise the interior point's own certified answer is returned
  *    (dense knots of order 3, where the refinement's certificate is limited by the precision
