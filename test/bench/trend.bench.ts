@@ -1,8 +1,19 @@
 /**
  * Benchmark of trend filtering: one JSON record per measurement.
  *
- * - single penalty (1e-3 lambda_max, penalty given) for k = 1 and 3 at n = 1e3 .. 1e6:
- *   time of the first call and median of 3 repeats (n <= 1e5), iterations (interior-point iterations + ADMM iterations + refinement rounds),
+ * - side by side with glmgen (R package of the authors of trend filtering, C ADMM; public
+ *   repository glmgen/glmgen), when it is installed in the R library named by
+ *   KNOTWISE_GLMGEN_LIB (default /work/glmgen-lib; skipped quietly when absent): x = 1..n,
+ *   a chirp plus a kinked ramp with noise sd 0.2, orders 1 and 3, n = 1e3 .. 1e6, three
+ *   penalties two decades apart (n/1000 x {1, 10, 100} for order 1, n/1e5 x {1, 10, 100} for
+ *   order 3). Knotwise is timed in a fresh Node process per fit (first call, compilation
+ *   included), glmgen by R's system.time around trendfilter() with its default control;
+ *   medians of repeats, wall-clock and CPU seconds (the machine is shared: CPU time is the steadier
+ *   measure), and the process's peak resident memory per point. Both objectives 1/2 sum (y - b)^2 + lambda sum |D b| are computed here
+ *   from the fitted values by the same code, with their relative excess over the smaller, so
+ *   a faster answer short of the optimum cannot pass for a win;
+ * - single penalty (1e-3 lambda_max, penalty given, uneven x) for k = 1 and 3 at n = 1e3 .. 1e5:
+ *   time of the first call and median of 3 repeats (n <= 1e5; 1e6 is in the side-by-side), iterations (interior-point iterations + ADMM iterations + refinement rounds),
  *   relative duality gap reached, knots, heap growth;
  * - full 5-fold cross-validation over 30 penalties with warm starts at n = 1e3, 1e4, orders 1 to 3
  *   (with how many of the curve's full-data fits converged);
@@ -18,16 +29,17 @@ import { fitTrend, trendPenaltyMax } from '../../src/engine/smoothers/trend';
 import { fitSpline } from '../../src/engine/smoothers/spline';
 import { seriesFromArrays, Series } from '../../src/engine/series';
 import { doppler, blocks, seededNormal, noisyTestFunction } from '../engine/smoothers/trendTestFunctions';
-import { execFileSync } from 'child_process';
-
-declare const process: { memoryUsage(): { heapUsed: number; arrayBuffers: number } } | undefined;
+import { execFileSync, spawnSync } from 'child_process';
+import * as fs from 'fs';
+import * as os from 'os';
+import * as path from 'path';
+import { differenceOperator } from '../../src/engine/linalg/difference';
 
 function now(): number {
   return typeof performance !== 'undefined' ? performance.now() : Date.now();
 }
 
 function memory(): number {
-  if (typeof process === 'undefined' || !process.memoryUsage) return NaN;
   const m = process.memoryUsage();
   return m.heapUsed + m.arrayBuffers;
 }
@@ -113,12 +125,141 @@ export function scipyReference(n: number, k: number): Record<string, unknown> | 
   };
 }
 
+/** The side-by-side data: x = 1..n, a chirp plus a kinked ramp with noise sd 0.2 (seeded). */
+export function sideBySideSeries(n: number): { x: Float64Array; y: Float64Array } {
+  const rnorm = seededNormal(1000 + n);
+  const x = new Float64Array(n), y = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const t = i / (n - 1);
+    x[i] = i + 1;
+    y[i] = Math.sin(2 * Math.PI * 3 * t * t * t) + (t > 0.6 ? 2 * (t - 0.6) : 0) + 0.2 * rnorm();
+  }
+  return { x, y };
+}
+
+/** 1/2 sum (y - b)^2 + lambda sum |D(x, k+1) b|, from fitted values. */
+export function trendObjective(x: Float64Array, y: Float64Array, b: ArrayLike<number>, k: number, lambda: number): number {
+  let rss = 0;
+  for (let i = 0; i < y.length; i++) rss += 0.5 * (y[i] - b[i]) ** 2;
+  const d = differenceOperator(x, k + 1, b);
+  let l1 = 0;
+  for (let r = 0; r < d.length; r++) l1 += Math.abs(d[r]);
+  return rss + lambda * l1;
+}
+
+/**
+ * One fit in this (fresh) process, written to stdout as JSON: called by {@link knotwiseFresh}
+ * through `node -e`, so that the time includes compiling the solver on the first call.
+ */
+export function childFit(n: number, k: number, lambda: number): void {
+  const { x, y } = sideBySideSeries(n);
+  const s = seriesFromArrays(x, y);
+  const c0 = process.cpuUsage();
+  const t0 = now();
+  const r = fitTrend(s, { order: k, penalty: lambda });
+  const seconds = (now() - t0) / 1000;
+  const cu = process.cpuUsage(c0);
+  // peak resident memory of the whole process (Node itself is about 40 MB)
+  const out = { seconds, cpuSeconds: (cu.user + cu.system) / 1e6, maxRssBytes: process.resourceUsage().maxRSS * 1024, objective: trendObjective(x, y, r.fitted, k, lambda), achieved: r.solver.achieved, converged: r.solver.converged, iterations: r.solver.iterations, knots: r.knots.length };
+  process.stdout.write(JSON.stringify(out) + '\n');
+}
+
+/** {@link childFit} in a fresh Node process; null when it fails or passes `timeoutSeconds`. */
+function knotwiseFresh(n: number, k: number, lambda: number, timeoutSeconds: number): { seconds: number; cpuSeconds: number; maxRssBytes: number; objective: number; achieved: number; converged: boolean; iterations: number; knots: number } | null {
+  const code = `require(${JSON.stringify(__filename)}).childFit(${n}, ${k}, ${lambda})`;
+  const r = spawnSync(process.execPath, ['--max-old-space-size=8192', '-e', code], { encoding: 'utf8', timeout: timeoutSeconds * 1000, maxBuffer: 1 << 20 });
+  if (r.status !== 0) return null;
+  try { return JSON.parse(r.stdout.trim().split('\n').pop()!); } catch { return null; }
+}
+
+/** The R library holding glmgen (KNOTWISE_GLMGEN_LIB, default /work/glmgen-lib), or null when it is not installed. */
+export function glmgenLibrary(): string | null {
+  const lib = process.env.KNOTWISE_GLMGEN_LIB || '/work/glmgen-lib';
+  if (!fs.existsSync(path.join(lib, 'glmgen', 'DESCRIPTION'))) return null;
+  try { execFileSync('Rscript', ['--version'], { stdio: 'ignore' }); } catch { return null; }
+  return lib;
+}
+
+/**
+ * glmgen's trendfilter() with its default control on x = 1..n (thinning off), `repeats` times in one
+ * R process; returns the median elapsed seconds (system.time), the fitted values of the last
+ * run and its iteration count, or null when R fails.
+ */
+function glmgenFit(lib: string, y: Float64Array, k: number, lambda: number, repeats: number, timeoutSeconds: number): { seconds: number; cpuSeconds: number; fitted: Float64Array; iterations: number; version: string } | null {
+  const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'knotwise-glmgen-'));
+  try {
+    const yf = path.join(dir, 'y.txt'), bf = path.join(dir, 'b.txt');
+    fs.writeFileSync(yf, Array.from(y, (v) => v.toPrecision(17)).join('\n'));
+    const code = [
+      `.libPaths(c(${JSON.stringify(lib)}, .libPaths()))`,
+      'suppressMessages(library(glmgen))',
+      `y <- scan(${JSON.stringify(yf)}, quiet = TRUE); x <- seq_along(y)`,
+      `ts <- sapply(seq_len(${repeats}), function(i) { st <- system.time(f <<- suppressWarnings(trendfilter(x, y, k = ${k}, lambda = ${lambda}, thinning = FALSE))); c(st[["elapsed"]], st[["user.self"]] + st[["sys.self"]]) })`,
+      `writeLines(format(as.numeric(f$beta), digits = 17), ${JSON.stringify(bf)})`,
+      'cat(median(ts[1, ]), median(ts[2, ]), f$iter, as.character(packageVersion("glmgen")), "\\n")',
+    ].join('\n');
+    const out = execFileSync('Rscript', ['-e', code], { encoding: 'utf8', timeout: timeoutSeconds * 1000, stdio: ['ignore', 'pipe', 'ignore'], maxBuffer: 1 << 26 }).trim().split(/\s+/);
+    const fitted = Float64Array.from(fs.readFileSync(bf, 'utf8').trim().split('\n'), Number);
+    if (fitted.length !== y.length) return null;
+    return { seconds: Number(out[0]), cpuSeconds: Number(out[1]), iterations: Number(out[2]), version: out[3], fitted };
+  } catch {
+    return null;
+  } finally {
+    fs.rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/** Median of a non-empty list. */
+function median(v: number[]): number {
+  const s = [...v].sort((a, b) => a - b);
+  const h = s.length >> 1;
+  return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
+}
+
+/** Knotwise beside glmgen: one record per (order, n, penalty); nothing when glmgen is not installed. `orders` and `only` (sizes) narrow a run by hand. */
+export function sideBySide(emit: (record: Record<string, unknown>) => void, quick: boolean, orders = [1, 3], only?: number[]): void {
+  const lib = glmgenLibrary();
+  if (!lib) return;
+  const sizes = only ?? (quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]);
+  for (const k of orders) {
+    for (const n of sizes) {
+      const base = k === 1 ? n / 1000 : n / 1e5;
+      for (const mult of n >= 1e6 ? [1] : [1, 10, 100]) {
+        const lambda = base * mult;
+        const repeats = quick || n >= 1e6 ? 1 : n >= 1e5 ? 3 : 5;
+        const { x, y } = sideBySideSeries(n);
+        const g = glmgenFit(lib, y, k, lambda, repeats, 1200);
+        const ours: NonNullable<ReturnType<typeof knotwiseFresh>>[] = [];
+        for (let r = 0; r < repeats; r++) {
+          const o = knotwiseFresh(n, k, lambda, 1200);
+          if (o) ours.push(o);
+        }
+        const rec: Record<string, unknown> = { bench: 'trend-vs-glmgen', order: k, n, penalty: lambda, repeats };
+        if (ours.length) {
+          const o = ours[ours.length - 1];
+          Object.assign(rec, { seconds: median(ours.map((v) => v.seconds)), cpuSeconds: median(ours.map((v) => v.cpuSeconds)), secondsAll: ours.map((v) => v.seconds), maxRssBytesPerPoint: o.maxRssBytes / n, objective: o.objective, achieved: o.achieved, converged: o.converged, iterations: o.iterations, knots: o.knots });
+        } else rec.error = 'Knotwise fit failed or timed out';
+        if (g) {
+          const gObj = trendObjective(x, y, g.fitted, k, lambda);
+          Object.assign(rec, { glmgenVersion: g.version, glmgenSeconds: g.seconds, glmgenCpuSeconds: g.cpuSeconds, glmgenIterations: g.iterations, glmgenObjective: gObj });
+          if (ours.length) {
+            const best = Math.min(gObj, rec.objective as number);
+            Object.assign(rec, { ratioOursOverGlmgen: (rec.seconds as number) / g.seconds, cpuRatioOursOverGlmgen: (rec.cpuSeconds as number) / g.cpuSeconds, excessOurs: ((rec.objective as number) - best) / best, excessGlmgen: (gObj - best) / best });
+          }
+        } else rec.glmgenError = 'glmgen failed or timed out';
+        emit(rec);
+      }
+    }
+  }
+}
+
 export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+  sideBySide(emit, quick);
   for (const [n, k] of (quick ? [[100, 1]] : [[100, 1], [200, 1], [150, 2], [400, 2]]) as [number, number][]) {
     const rec = scipyReference(n, k);
     if (rec) emit(rec);
   }
-  const sizes = quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6];
+  const sizes = quick ? [1e3, 1e4] : [1e3, 1e4, 1e5];
   for (const k of [1, 3]) {
     for (const n of sizes) {
       const s = benchSeries(n, 1000 + n);
@@ -154,9 +295,11 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
   for (const n of quick ? [1e3] : [1e3, 1e4]) {
     for (const k of quick ? [1] : [1, 2, 3]) {
       const s = benchSeries(n, 77 + n);
+      const c0 = process.cpuUsage();
       const t0 = now();
       const r = fitTrend(s, { order: k, select: 'cv', folds: 5, gridSize: 30 });
       const t1 = now();
+      const cu = process.cpuUsage(c0);
       // the repeat (steady time, after compiling) only where it is cheap
       let repeatSeconds: number | null = null;
       if (k === 1) {
@@ -165,7 +308,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
         repeatSeconds = (now() - ta) / 1000;
       }
       const converged = r.criterion.curve!.filter((p) => p.converged).length;
-      emit({ bench: 'trend-cv', order: k, n, folds: 5, gridSize: 30, seconds: (t1 - t0) / 1000, repeatSeconds, curvePointsConverged: converged, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged });
+      emit({ bench: 'trend-cv', order: k, n, folds: 5, gridSize: 30, seconds: (t1 - t0) / 1000, cpuSeconds: (cu.user + cu.system) / 1e6, repeatSeconds, curvePointsConverged: converged, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged });
     }
   }
   const dfs = quick ? [10, 30] : [15, 25, 40, 60, 80, 100, 130, 160];

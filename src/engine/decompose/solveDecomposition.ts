@@ -86,7 +86,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     for (let i = 0; i < n; i++) z[i] = y[i] - s[i] - o[i];
     // operator and scaled x depend on x and w only: carried over; the polynomial fit depends on y and is rebuilt
     prob = { x, y: Float64Array.from(z), w, k, op: prob?.op, x01: prob?.x01, admmRows: prob?.admmRows };
-    fit = solveTrend(prob, lambda, TREND_STEP_TOLERANCE, 400, fit, true, fit ? seedOf(fit) : undefined);
+    fit = solveTrend(prob, lambda, { tolerance: TREND_STEP_TOLERANCE, maxIterations: 400, warm: fit, refine: true, seed: fit ? seedOf(fit) : undefined });
     trendIterations += fit.status.iterations;
     trendOk = fit.status.converged;
     return Float64Array.from(fit.b);

@@ -216,7 +216,7 @@ export function fitTrend(series: Series, options: FitOptions = {}, context: RunC
     sc = trendScaling(series, k);
     const prob: TrendProblem = { x: sc.xs, y: sc.ys, w: sc.ws, k };
     lamScaled = toScaledPenalty(lam, sc);
-    fit = lamScaled > 0 ? solveTrend(prob, lamScaled, s.tolerance, s.maxIterations) : interpolatingFit(prob);
+    fit = lamScaled > 0 ? solveTrend(prob, lamScaled, { tolerance: s.tolerance, maxIterations: s.maxIterations }) : interpolatingFit(prob);
     criterion = { name: 'fixed', value: NaN };
   } else if (options.df !== undefined) {
     const target = checkPositive(options.df, 'df');
@@ -247,7 +247,7 @@ export function fitTrend(series: Series, options: FitOptions = {}, context: RunC
     }
     sc = path.scaling;
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
-    fit = solveTrend(path.problem, lamScaled, s.tolerance, s.maxIterations, undefined, true, pts[chosen].seed);
+    fit = solveTrend(path.problem, lamScaled, { tolerance: s.tolerance, maxIterations: s.maxIterations, seed: pts[chosen].seed });
   }
   return assemble(series, s, sc, fit, lamScaled, criterion, warnings, dataDriven, options);
 }
@@ -287,14 +287,14 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
   let best = 0;
   for (let j = 1; j < G; j++) if (Math.abs(dfs[j] - target) < Math.abs(dfs[best] - target)) best = j;
   let lam = grid[best];
-  let fit = solveTrend(prob, lam, s.tolerance, s.maxIterations, undefined, true, path.points[G - 1 - best].seed);
+  let fit = solveTrend(prob, lam, { tolerance: s.tolerance, maxIterations: s.maxIterations, seed: path.points[G - 1 - best].seed });
   let maxDfReached = maxDf;
   let loGrid = grid[G - 1];
   let loFit: TrendFit | undefined;
   // extend the grid downwards (two decades at a time, to 1e-8 of its low end) when the target lies beyond it
   for (let ext = 0; ext < 4 && target > maxDfReached; ext++) {
     loGrid /= 100;
-    loFit = solveTrend(prob, loGrid, s.tolerance, s.maxIterations, loFit);
+    loFit = solveTrend(prob, loGrid, { tolerance: s.tolerance, maxIterations: s.maxIterations, warm: loFit });
     maxDfReached = Math.max(maxDfReached, loFit.knotRows.length + k + 1);
   }
   const clamped = target < k + 1 || target > maxDfReached;
@@ -307,7 +307,7 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
     let bestFit = fit, bestLam = lam;
     for (let it = 0; it < 30 && b - a > 1e-9; it++) {
       const mid = 0.5 * (a + b);
-      const f = solveTrend(prob, Math.exp(mid), s.tolerance, s.maxIterations, bestFit);
+      const f = solveTrend(prob, Math.exp(mid), { tolerance: s.tolerance, maxIterations: s.maxIterations, warm: bestFit });
       const d = f.knotRows.length + k + 1;
       if (Math.abs(d - target) < Math.abs(bestFit.knotRows.length + k + 1 - target)) { bestFit = f; bestLam = Math.exp(mid); }
       if (d === target) { bestFit = f; bestLam = Math.exp(mid); break; }

@@ -3,7 +3,7 @@ import { seasonalAdjustment } from '../../../src/engine/decompose/seasonalAdjust
 import { seriesFromArrays, prepareSeries } from '../../../src/engine/series';
 import { KnotwiseError } from '../../../src/engine/errors';
 import { differenceOperator } from '../../../src/engine/linalg/difference';
-import { dualFromResidual } from '../../../src/engine/smoothers/trend/dualFromResidual';
+import { dualFromResidual } from '../../../src/engine/linalg/dualFromResidual';
 import { loadFixture, maxAbsDiff } from '../../helpers/fixtures';
 import { normalStream } from '../../helpers/random';
 

@@ -1,8 +1,8 @@
 /** Unit checks of the trend-filtering kernels against dense or closed-form answers. */
 import { Matrix, solve } from 'ml-matrix';
-import { restrictedSplineFit } from '../../../src/engine/smoothers/trend/restrictedSplineFit';
+import { restrictedSplineFit } from '../../../src/engine/basis/restrictedSplineFit';
 import { interpolateTrend } from '../../../src/engine/smoothers/trend/interpolateTrend';
-import { dualFromResidual } from '../../../src/engine/smoothers/trend/dualFromResidual';
+import { dualFromResidual } from '../../../src/engine/linalg/dualFromResidual';
 import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/engine/smoothers/trend/regressionSplineRefit';
 import { differenceTranspose } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';

@@ -4,8 +4,8 @@
  * basis and against the defining property of the space (D b = 0 off the knots).
  */
 import { Matrix, solve, QrDecomposition } from 'ml-matrix';
-import { discreteBSplines } from '../../../src/engine/smoothers/trend/discreteBSplines';
-import { restrictedSplineFit } from '../../../src/engine/smoothers/trend/restrictedSplineFit';
+import { discreteBSplines, basisCache } from '../../../src/engine/basis/discreteBSplines';
+import { restrictedSplineFit } from '../../../src/engine/basis/restrictedSplineFit';
 import { differenceOperator } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
 
@@ -27,6 +27,27 @@ function denseBasis(x: Float64Array, k: number, rows: number[]): Matrix {
 }
 
 describe('discreteBSplines', () => {
+  test.each([1, 2, 3])('order %i: a build that reuses the windows of an earlier one (basis cache) equals a fresh build exactly', (k) => {
+    const n = 60;
+    const x = Float64Array.from({ length: n }, (_, i) => i + 0.4 * Math.sin(1.3 * i));
+    const cache = basisCache();
+    // an active-set method changes a few knots per round: one added, one removed, one moved
+    const sets = [[3, 9, 10, 20, 31, 44], [3, 9, 10, 15, 20, 31, 44], [3, 10, 15, 20, 31, 44], [3, 10, 15, 20, 33, 44, n - k - 2]];
+    for (const rows of sets) {
+      const cached = discreteBSplines(x, k, rows, cache)!;
+      const fresh = discreteBSplines(x, k, rows)!;
+      expect(Array.from(cached.first)).toEqual(Array.from(fresh.first));
+      expect(Array.from(cached.values)).toEqual(Array.from(fresh.values));
+      expect(Array.from(cached.penalty)).toEqual(Array.from(fresh.penalty));
+    }
+    // the cache is really used: with its coefficients spoilt, a build of the same knots shows it
+    cache.coef.fill(NaN);
+    expect(discreteBSplines(x, k, sets[3], cache)).toBeNull();
+    // a cache built on other design points is not used
+    const x2 = Float64Array.from(x, (v) => v * 1.5);
+    expect(Array.from(discreteBSplines(x2, k, sets[0], cache)!.values)).toEqual(Array.from(discreteBSplines(x2, k, sets[0])!.values));
+  });
+
   test.each([1, 2, 3])('order %i: every basis function lies in the space (D B_e = 0 off the knots, D B_e matches the stored penalty on them)', (k) => {
     const n = 30;
     const x = Float64Array.from({ length: n }, (_, i) => i + 0.3 * Math.sin(1.7 * i));

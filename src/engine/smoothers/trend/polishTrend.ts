@@ -1,6 +1,7 @@
-import { dualFromResidual } from './dualFromResidual';
-import { weightedPolynomialFit } from './weightedPolynomialFit';
-import { restrictedSplineFit } from './restrictedSplineFit';
+import { dualFromResidual } from '../../linalg/dualFromResidual';
+import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
+import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
+import type { BasisCache } from '../../basis/discreteBSplines';
 
 /** Result of {@link polishTrend}. */
 export interface PolishResult {
@@ -53,22 +54,23 @@ export function boxRelative(n: number, k: number): number {
  * D b off the knots. At most `maxRounds` restricted solves, each O(n k^2); stops if an
  * active set repeats.
  *
- * Works on x scaled to [0, 1]. Unchecked.
+ * Works on x scaled to [0, 1]. `cache` ({@link BasisCache}) keeps the basis between rounds and calls on the same x. Unchecked.
  */
-export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>): PolishResult {
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>, cache?: BasisCache): PolishResult {
   const n = x.length;
   const m = n - k - 1;
-  const act = new Map<number, number>();
+  // the active set: sgn[r] = sign of u on knot row r, 0 off the knots
+  const sgn = new Int8Array(m);
   // initial guess: the given rows with the signs of u0, else of each run of consecutive rows
   // with |u0_r| >= lambda (1 - 1e-6), the largest (a smooth dual is flat near its peaks, and
   // adjacent knots would be nearly collinear columns)
   const near = lambda * (1 - 1e-6);
-  if (initial) for (let j = 0; j < initial.length; j++) { const r = initial[j]; if (u0[r] !== 0) act.set(r, Math.sign(u0[r])); }
+  if (initial) for (let j = 0; j < initial.length; j++) { const r = initial[j]; if (u0[r] !== 0) sgn[r] = u0[r] > 0 ? 1 : -1; }
   for (let r = 0; r < m && !initial; ) {
     if (!(Math.abs(u0[r]) >= near)) { r++; continue; }
     let best = r, e = r;
     while (e < m && Math.abs(u0[e]) >= near && Math.sign(u0[e]) === Math.sign(u0[r])) { if (Math.abs(u0[e]) > Math.abs(u0[best])) best = e; e++; }
-    act.set(best, Math.sign(u0[best]));
+    sgn[best] = u0[best] > 0 ? 1 : -1;
     r = e;
   }
   // a feasible start in the span of any active set: the weighted polynomial fit (D b = 0)
@@ -76,17 +78,28 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   // D bcur, kept up to date along the steps (zero for the polynomial start)
   let dcur: Float64Array = new Float64Array(m);
   let u: Float64Array = new Float64Array(m);
+  // active sets met so far, by two 32-bit hashes of the signed rows and their count (a repeat
+  // means the method cycles)
   const seen = new Set<string>();
   let last: Certifiable | undefined;
   const lim = lambda * (1 + boxRelative(n, k));
+  const g = new Float64Array(n);
   let rounds = 0;
   for (; rounds < maxRounds; rounds++) {
-    const key = [...act.entries()].sort((a, c) => a[0] - c[0]).map(([r, sg]) => r * sg).join(',');
+    const rowsA: number[] = [], sA: number[] = [];
+    let h1 = 0x811c9dc5 | 0, h2 = 17;
+    for (let r = 0; r < m; r++) {
+      if (sgn[r] === 0) continue;
+      rowsA.push(r);
+      sA.push(sgn[r]);
+      const v = 2 * r + (sgn[r] > 0 ? 1 : 0);
+      h1 = Math.imul(h1 ^ v, 0x01000193);
+      h2 = (Math.imul(h2, 31) + v) | 0;
+    }
+    const key = `${rowsA.length}:${h1}:${h2}`;
     if (seen.has(key)) break; // the active set cycles: give up
     seen.add(key);
-    const rowsA = [...act.keys()].sort((a, c) => a - c);
-    const sA = rowsA.map((r) => act.get(r)!);
-    const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA);
+    const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA, cache);
     if (!sol) break;
     const bnew = sol.b;
     // D bnew: (D b)_A from the solve, exact zeros elsewhere
@@ -96,8 +109,8 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     for (const r of rowsA) dmax = Math.max(dmax, Math.abs(dnew[r]), Math.abs(dcur[r]));
     // sign feasibility: move from bcur towards bnew until the first active row changes sign
     let tau = 1, drop = -1;
-    for (const r of rowsA) {
-      const sg = act.get(r)!;
+    for (let j = 0; j < rowsA.length; j++) {
+      const r = rowsA[j], sg = sA[j];
       const a0 = sg * dcur[r], a1 = sg * dnew[r];
       if (a1 < -1e-12 * dmax) {
         const t = a0 > 0 ? a0 / (a0 - a1) : 0;
@@ -111,31 +124,31 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       for (let r = 0; r < m; r++) nd[r] = dcur[r] + tau * (dnew[r] - dcur[r]);
       bcur = nb;
       dcur = nd;
-      act.delete(drop);
+      sgn[drop] = 0;
       if (tau <= 1e-12) {
         // a zero step: every row that is at zero now and would change sign leaves together
         for (const r of rowsA) {
-          const sg = act.get(r);
-          if (sg === undefined) continue;
-          if (sg * dnew[r] < -1e-12 * dmax && Math.abs(dcur[r]) <= 1e-12 * dmax) act.delete(r);
+          const sg = sgn[r];
+          if (sg === 0) continue;
+          if (sg * dnew[r] < -1e-12 * dmax && Math.abs(dcur[r]) <= 1e-12 * dmax) sgn[r] = 0;
         }
       }
       continue;
     }
     bcur = bnew;
     dcur = dnew;
-    const g = new Float64Array(n);
-    for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - bcur[i]);
-    u = dualFromResidual(x, k + 1, g).u;
-    last = { b: bcur, u, g, db: dnew, rows: rowsA.slice(), dmax };
+    const gr = new Float64Array(n);
+    for (let i = 0; i < n; i++) gr[i] = w[i] * (y[i] - bcur[i]);
+    u = dualFromResidual(x, k + 1, gr, g).u;
+    last = { b: bcur, u, g: gr, db: dnew, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
     let added = false;
     for (let r = 0; r < m; ) {
-      if (act.has(r) || !(Math.abs(u[r]) > lim)) { r++; continue; }
+      if (sgn[r] !== 0 || !(Math.abs(u[r]) > lim)) { r++; continue; }
       let best = r;
       let e = r;
-      while (e < m && !act.has(e) && Math.abs(u[e]) > lim) { if (Math.abs(u[e]) > Math.abs(u[best])) best = e; e++; }
-      act.set(best, Math.sign(u[best]));
+      while (e < m && sgn[e] === 0 && Math.abs(u[e]) > lim) { if (Math.abs(u[e]) > Math.abs(u[best])) best = e; e++; }
+      sgn[best] = u[best] > 0 ? 1 : -1;
       added = true;
       r = e;
     }

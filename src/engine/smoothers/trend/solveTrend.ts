@@ -4,6 +4,8 @@ import { trendDualInteriorPoint, trendOperator, TrendOperator, INTERIOR_POINT_RU
 import { polishTrend, PolishResult } from './polishTrend';
 import { polynomialDual, PolynomialDual } from './trendLambdaMax';
 import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } from './trendAdmm';
+import { basisCache, BasisCache } from '../../basis/discreteBSplines';
+import { activeSetNewton } from './activeSetNewton';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -19,6 +21,8 @@ export interface TrendProblem {
   poly?: PolynomialDual;
   /** Rows of the ADMM split operator ({@link scaledDifferenceRows}), built on first use. */
   admmRows?: Float64Array;
+  /** Discrete B-spline basis kept between refinement rounds and solves on x01 ({@link BasisCache}). */
+  basis?: BasisCache;
 }
 
 /** Knot rows and the signs of D b on them: all an exact fit needs to be rebuilt in one refinement round. */
@@ -56,11 +60,16 @@ const ADMM_STABLE_ITERATIONS = 2;
 /** Penalty steps per decade of the continuation used when the interior point fails from a cold start. */
 const CONTINUATION_STEPS_PER_DECADE = 4;
 
+/** Rounds of the active-set Newton method started from a converged interior point's knots. */
+const NEWTON_ROUNDS = 8;
+
 export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weighted polynomial fit of degree k is the solution (max |u| <= lambda)';
 
 export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations or tolerance';
 
-export const TREND_RULE = `${INTERIOR_POINT_RULE}; for order 1 where that stalls, ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations; then, or else, an exact active-set refinement whose result is kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
+export const ACTIVE_SET_RULE = 'exact active-set refinement from a known knot set, kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots';
+
+export const TREND_RULE = `${INTERIOR_POINT_RULE}; from its knots, at most ${NEWTON_ROUNDS} rounds of an active-set Newton method, whose settled knots are kept only with a duality-gap certificate (else the interior point's answer stands); where the interior point stalls, for order 1 ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations, then an exact active-set refinement kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
 /** Relative size below which an entry of D b counts as zero for k >= 1 without refinement: the interior-point error in D b off the knots is of order gap / (m * distance of u to the bound), far below this. */
 export const KNOT_RELATIVE = 1e-8;
@@ -68,32 +77,72 @@ export const KNOT_RELATIVE = 1e-8;
 /** Relative distance of |u_r| to lambda within which row r counts as on the bound. */
 export const DUAL_BOUND_RELATIVE = 1e-6;
 
+/** Options of {@link solveTrend}: one object, read by every strategy. */
+export interface SolveTrendOptions {
+  /** Relative duality gap to reach. */
+  tolerance: number;
+  /** Iteration limit of the interior point. */
+  maxIterations: number;
+  /** The fit at a nearby penalty (the previous point of a path): warm start of the interior point and of its restarts. */
+  warm?: TrendFit;
+  /**
+   * False for cross-validation folds, which only need predictions: a converged interior point is
+   * then returned without the exact refinement (default true).
+   */
+  refine?: boolean;
+  /** Knots and signs of an exact fit at this penalty (a path point): rebuilt first. */
+  seed?: KnotSeed;
+}
+
+/** What the strategies of {@link solveTrend} share for one solve. Unchecked. */
+interface SolveContext {
+  prob: TrendProblem;
+  lambda: number;
+  opt: SolveTrendOptions;
+  poly: PolynomialDual;
+  /** N^k: D(x01) = N^k D(x), so on x01 lambda and u are divided by it. */
+  f: number;
+  /** Work spent so far (interior-point and ADMM iterations, restricted solves). */
+  iterations: number;
+}
+
 /**
- * Solves trend filtering of order k at one (scaled) penalty: the exact dynamic
- * programme for k = 0; for k >= 1 the dual interior-point method (warm-started
- * from `warm`), followed by the exact active-set refinement of
- * {@link polishTrend} (O(n k^2) per round). With `refine` false
- * (cross-validation folds, which only need predictions) a converged interior point is returned
- * without refinement; one that stalled goes on as below. A converged interior
- * point seeds the refinement with its knots. For k = 1, when the interior point does not converge (long
- * series: its Newton matrix is ill-conditioned), the ADMM of {@link trendAdmm}, started from the interior
- * point's iterate, runs until its knots are unchanged for {@link ADMM_STABLE_ITERATIONS} iterations (at most 1000) and seeds the
- * refinement with them; the ADMM's own certified iterate is kept when the refinement does no better.
- * When the interior point does not converge and the refinement fails, the refinement is restarted from the
- * previous penalty's knots, else run as a continuation from lambda_max
- * (4 geometric steps per decade, each started from the last one's knots).
+ * Solves trend filtering of order k at one (scaled) penalty by a short chain of strategies,
+ * each tried only when the ones before it did not certify a fit:
  *
- * With a `seed` (the knots and signs of an exact fit at this penalty, e.g. a path point) the
- * refinement starts from it first and, when it certifies, nothing else runs.
+ * 1. {@link exactFit}: k = 0 by exact dynamic programming; lambda >= lambda_max by the weighted
+ *    polynomial fit (exact).
+ * 2. {@link fromSeed}: with `seed` (an exact fit's knots and signs at this penalty) the
+ *    refinement rebuilds it in a round or two.
+ * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}).
+ *    With `refine` false (cross-validation folds) a converged one is returned as it is. Else,
+ *    when it converges, the active-set Newton method ({@link activeSetNewton}, at most
+ *    {@link NEWTON_ROUNDS} rounds) starts from its knots and a settled knot set is certified by
+ *    one refinement round; otherwise the interior point's own certified answer is returned
+ *    (dense knots of order 3, where the refinement's certificate is limited by the precision
+ *    of the recovered dual and further rounds were measured to be wasted). When it stalls: for
+ *    k = 1 the ADMM of {@link trendAdmm} proposes the knots; then the refinement of
+ *    {@link polishTrend} and restarts (cold interior point, the previous penalty's knots, a
+ *    continuation from lambda_max in 4 steps per decade).
  *
- * `status.iterations` counts interior-point iterations, ADMM iterations and refinement rounds together.
+ * Every refinement on x mapped to [0, 1] shares one discrete B-spline basis cache on the
+ * problem ({@link BasisCache}). `status.iterations` counts interior-point iterations, ADMM
+ * iterations and restricted solves together.
  *
- * Knot rows: k = 0, the rows where b jumps (exact); k >= 1 after a successful
- * refinement, the rows where D b is non-zero (exact zeros elsewhere); otherwise
- * rows with |u_r| >= lambda (1 - 1e-6) and |(D b)_r| > 1e-8 max |D b|.
+ * Knot rows: k = 0, the rows where b jumps (exact); k >= 1 after a successful refinement, the
+ * rows where D b is non-zero (exact zeros elsewhere); otherwise rows with
+ * |u_r| >= lambda (1 - 1e-6) and |(D b)_r| > 1e-8 max |D b|.
  * Unchecked.
  */
-export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number, maxIterations: number, warm?: TrendFit, refine = true, seed?: KnotSeed): TrendFit {
+export function solveTrend(prob: TrendProblem, lambda: number, opt: SolveTrendOptions): TrendFit {
+  const exact = exactFit(prob, lambda, opt.tolerance);
+  if (exact) return exact;
+  const ctx: SolveContext = { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 };
+  return fromSeed(ctx) ?? interiorPointThenRefine(ctx);
+}
+
+/** Exact answers without iterations: k = 0 (dynamic programming) and lambda >= lambda_max (the polynomial). Unchecked. */
+function exactFit(prob: TrendProblem, lambda: number, tolerance: number): TrendFit | undefined {
   const { x, y, w, k } = prob;
   const n = x.length;
   if (k === 0) {
@@ -110,40 +159,86 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     }
     return { b, u, lambda, knotRows, status: { converged: true, iterations: 1, tolerance: 0, achieved: 0, stoppingRule: DP_RULE } };
   }
-  if (!prob.op) prob.op = trendOperator(x, w, k);
   // at or above lambda_max the weighted polynomial fit is the exact solution
   const poly = polynomialOf(prob);
   if (lambda >= poly.lambdaMax) {
     return { b: Float64Array.from(poly.b), u: Float64Array.from(poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
   }
-  // refinement on x in [0, 1]: D(x01) = N^k D(x), so lambda and u scale by N^-k
-  const N = x[n - 1] - x[0];
+  return undefined;
+}
+
+/** x mapped to [0, 1], the refinement's coordinates (built once). Unchecked. */
+function x01Of(prob: TrendProblem): Float64Array {
   if (!prob.x01) {
+    const x = prob.x, n = x.length, N = x[n - 1] - x[0];
     prob.x01 = new Float64Array(n);
     for (let i = 0; i < n; i++) prob.x01[i] = (x[i] - x[0]) / N;
   }
-  const f = Math.pow(N, k);
-  // the refinement started from given knots, with their signs (adjacent knots kept apart)
-  const fromKnots = (rows: number[], sign: (j: number) => number): PolishResult => {
-    const start = new Float64Array(n - k - 1);
-    for (let j = 0; j < rows.length; j++) start[rows[j]] = sign(j) * (lambda / f);
-    return polishTrend(prob.x01!, y, w, k, lambda / f, start, undefined, poly.b, rows);
-  };
-  if (seed && refine) {
-    // an exact fit known by its knots (a path point): rebuilt in a round or two
-    const pol = fromKnots(seed.rows, (j) => seed.signs[j]);
-    if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, 0);
-  }
+  return prob.x01;
+}
+
+/** The discrete B-spline cache of the problem's refinements (built once). Unchecked. */
+function cacheOf(prob: TrendProblem): BasisCache {
+  if (!prob.basis) prob.basis = basisCache();
+  return prob.basis;
+}
+
+/** The refinement of {@link polishTrend} on x01 started from given knot rows and signs (dual on the bound there). Unchecked. */
+function refineFromKnots(ctx: SolveContext, rows: ArrayLike<number>, signs: ArrayLike<number>): PolishResult {
+  const { prob, lambda, f } = ctx;
+  const n = prob.x.length;
+  const start = new Float64Array(n - prob.k - 1);
+  for (let j = 0; j < rows.length; j++) start[rows[j]] = (signs[j] >= 0 ? 1 : -1) * (lambda / f);
+  const pol = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, undefined, ctx.poly.b, rows, cacheOf(prob));
+  ctx.iterations += pol.rounds;
+  return pol;
+}
+
+/** Strategy 2: an exact fit known by its knots (a path point), rebuilt in a round or two. Unchecked. */
+function fromSeed(ctx: SolveContext): TrendFit | undefined {
+  const { seed, refine = true, tolerance } = ctx.opt;
+  if (!seed || !refine) return undefined;
+  const pol = refineFromKnots(ctx, seed.rows, seed.signs);
+  return pol.ok && pol.achieved <= tolerance ? refinedFit(pol, ctx.f, ctx.lambda, tolerance, ctx.iterations - pol.rounds, undefined, ACTIVE_SET_RULE) : undefined;
+}
+
+/**
+ * Strategy 3: the dual interior point, its knots refined exactly; the ADMM for k = 1 where the
+ * interior point stalls; restarts (cold interior point, the previous penalty's knots, a
+ * continuation from lambda_max). The best certified answer is returned. Unchecked.
+ */
+function interiorPointThenRefine(ctx: SolveContext): TrendFit {
+  const { prob, lambda, f, poly } = ctx;
+  const { tolerance, maxIterations, warm, refine = true } = ctx.opt;
+  const { x, y, w, k } = prob;
+  const n = x.length;
+  if (!prob.op) prob.op = trendOperator(x, w, k);
+  const x01 = x01Of(prob);
+  const cache = cacheOf(prob);
   let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
   // without refinement (cross-validation folds) a converged interior point is enough; one that
   // stalled is not, and goes on to the refinement like any other
-  if (!refine && sol.status.converged) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, stoppingRule: TREND_RULE } };
+  if (!refine && sol.status.converged) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE } };
   const u01 = new Float64Array(sol.u.length);
   for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
   let pol: PolishResult = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
-  if (sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, poly.b, knotRowsOf(prob, sol.b, sol.u, lambda));
+  if (sol.status.converged) {
+    // a converged interior point knows the knots (the rows where D b is non-zero and u is on the
+    // bound); from them the active-set Newton method settles in a few rounds and one refinement
+    // round certifies the exact fit. When it does not settle (dense knots of order 3, where the
+    // refinement's certificate is also limited by the precision of the recovered dual), the
+    // interior point's own certified answer stands: no further refinement rounds
+    const rows = knotRowsOf(prob, sol.b, sol.u, lambda);
+    const asn = activeSetNewton(x01, y, w, k, lambda / f, rows, rows.map((r) => (sol.u[r] >= 0 ? 1 : -1)), NEWTON_ROUNDS, cache);
+    ctx.iterations += asn.rounds;
+    if (asn.settled) {
+      pol = refineFromKnots(ctx, asn.rows, asn.signs);
+      if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations);
+    }
+    return { b: sol.b, u: sol.u, lambda, knotRows: rows, status: { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE } };
+  }
   let admmIterations = 0;
   let admm: AdmmResult | undefined;
   if (!sol.status.converged && k === 1) {
@@ -163,10 +258,10 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     admmIterations = admm.status.iterations;
     const ua = new Float64Array(admm.u.length);
     for (let r = 0; r < ua.length; r++) ua[r] = admm.u[r] / f;
-    pol = polishTrend(prob.x01, y, w, k, lambda / f, ua, undefined, poly.b, admm.knots);
-    if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, sol.status.iterations + admmIterations, admm.state);
+    pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, ua, undefined, poly.b, admm.knots, cache));
+    if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations + admmIterations, admm.state);
   }
-  if (!pol.ok && !sol.status.converged) pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, poly.b);
+  if (!pol.ok && !sol.status.converged) pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, poly.b, undefined, cache));
   if (!pol.ok && !sol.status.converged && warm) {
     // a warm start can stall where a cold one does not
     const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
@@ -175,53 +270,64 @@ export function solveTrend(prob: TrendProblem, lambda: number, tolerance: number
     sol = { ...sol, status: { ...sol.status, iterations: iters } };
     if (!sol.status.converged) {
       for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-      pol = polishTrend(prob.x01, y, w, k, lambda / f, u01, undefined, poly.b);
+      pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, poly.b, undefined, cache));
     }
   }
   if (!pol.ok && !sol.status.converged) {
     // the interior-point dual is unreliable here (see its limitation note): restart the
     // active-set refinement from the previous penalty's knots, else from the polynomial fit
     if (warm && warm.knotRows.length) {
-      const pol2 = fromKnots(warm.knotRows, (j) => Math.sign(warm.u[warm.knotRows[j]] || 1));
+      const pol2 = refineFromKnots(ctx, warm.knotRows, warm.knotRows.map((r) => (warm.u[r] >= 0 ? 1 : -1)));
       if (pol2.ok) pol = pol2;
     }
-    if (!pol.ok) {
-      // continuation from lambda_max (where the active set is empty) down to lambda in
-      // geometric steps, each refinement started from the knots of the step before
-      // (on x01 the polynomial's dual is u / N^k, as D(x01) = N^k D(x))
-      const lmax = poly.lambdaMax / f;
-      const target = lambda / f;
-      if (lmax > target) {
-        const steps = Math.max(2, Math.ceil(Math.log10(lmax / target) * CONTINUATION_STEPS_PER_DECADE));
-        let cur: Float64Array = Float64Array.from(poly.u, (v) => v / f);
-        let curLam = lmax;
-        let ok = true;
-        let rounds = 0;
-        let last: PolishResult | undefined;
-        for (let j = 1; j <= steps && ok; j++) {
-          const lj = lmax * Math.pow(target / lmax, j / steps);
-          const st = Float64Array.from(cur, (v) => (v * lj) / curLam);
-          last = polishTrend(prob.x01, y, w, k, lj, st, undefined, poly.b);
-          rounds += last.rounds;
-          ok = last.ok;
-          cur = last.u;
-          curLam = lj;
-        }
-        if (ok && last) pol = { ...last, rounds };
-      }
-    }
+    if (!pol.ok) pol = continuationFromPolynomial(ctx) ?? pol;
   }
+  const spent = ctx.iterations + sol.status.iterations + admmIterations;
   if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved) && !(admm && admm.achieved < pol.achieved)) {
-    return refinedFit(pol, f, lambda, tolerance, sol.status.iterations + admmIterations, admm?.state);
+    return refinedFit(pol, f, lambda, tolerance, spent - pol.rounds, admm?.state);
   }
   if (admm && admm.achieved < sol.status.achieved) {
     return {
       b: admm.b, u: admm.u, lambda, knotRows: knotRowsOf(prob, admm.b, admm.u, lambda), admm: admm.state,
-      status: { converged: admm.achieved <= tolerance, iterations: sol.status.iterations + admmIterations, tolerance, achieved: admm.achieved, stoppingRule: TREND_RULE },
+      status: { converged: admm.achieved <= tolerance, iterations: spent, tolerance, achieved: admm.achieved, stoppingRule: TREND_RULE },
     };
   }
   const knotRows = knotRowsOf(prob, sol.b, sol.u, lambda);
-  return { b: sol.b, u: sol.u, lambda, knotRows, status: { ...sol.status, stoppingRule: TREND_RULE } };
+  return { b: sol.b, u: sol.u, lambda, knotRows, status: { ...sol.status, iterations: spent, stoppingRule: TREND_RULE } };
+}
+
+/** Adds a refinement's rounds to the work count of the solve. Unchecked. */
+function counted(ctx: SolveContext, pol: PolishResult): PolishResult {
+  ctx.iterations += pol.rounds;
+  return pol;
+}
+
+/**
+ * Continuation from lambda_max (where the active set is empty) down to lambda in geometric
+ * steps ({@link CONTINUATION_STEPS_PER_DECADE} per decade), each refinement started from the
+ * knots of the step before (on x01 the polynomial's dual is u / N^k). Unchecked.
+ */
+function continuationFromPolynomial(ctx: SolveContext): PolishResult | undefined {
+  const { prob, lambda, f, poly } = ctx;
+  const lmax = poly.lambdaMax / f;
+  const target = lambda / f;
+  if (!(lmax > target)) return undefined;
+  const steps = Math.max(2, Math.ceil(Math.log10(lmax / target) * CONTINUATION_STEPS_PER_DECADE));
+  let cur: Float64Array = Float64Array.from(poly.u, (v) => v / f);
+  let curLam = lmax;
+  let rounds = 0;
+  let last: PolishResult | undefined;
+  for (let j = 1; j <= steps; j++) {
+    const lj = lmax * Math.pow(target / lmax, j / steps);
+    const st = Float64Array.from(cur, (v) => (v * lj) / curLam);
+    last = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lj, st, undefined, poly.b, undefined, cacheOf(prob));
+    rounds += last.rounds;
+    if (!last.ok) return undefined;
+    cur = last.u;
+    curLam = lj;
+  }
+  ctx.iterations += rounds;
+  return last ? { ...last, rounds } : undefined;
 }
 
 /** The weighted polynomial fit of degree k, its dual and lambda_max for `prob`, computed once. Unchecked. */
@@ -234,10 +340,10 @@ export function polynomialOf(prob: TrendProblem): PolynomialDual {
  * A {@link TrendFit} from a refinement on x in [0, 1]: u and D b scale back by N^k (`f`),
  * D(x01) = N^k D(x). `before` counts the iterations spent before the refinement. Unchecked.
  */
-function refinedFit(pol: PolishResult, f: number, lambda: number, tolerance: number, before: number, admm?: AdmmState): TrendFit {
+function refinedFit(pol: PolishResult, f: number, lambda: number, tolerance: number, before: number, admm?: AdmmState, rule = TREND_RULE): TrendFit {
   return {
     b: pol.b, u: Float64Array.from(pol.u, (v) => v * f), lambda, knotRows: pol.knots, knotDifferences: Float64Array.from(pol.dKnots, (v) => v / f), admm,
-    status: { converged: pol.achieved <= tolerance, iterations: before + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: TREND_RULE },
+    status: { converged: pol.achieved <= tolerance, iterations: before + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: rule },
   };
 }
 

@@ -31,7 +31,7 @@ import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky
 import { differenceRows } from '../../linalg/differenceRows';
 import { differenceOperator, differenceTranspose } from '../../linalg/difference';
 import type { SolverStatus } from '../../types';
-import { differenceGram, applyDifferenceGram } from './differenceGram';
+import { differenceGram, applyDifferenceGram } from '../../linalg/differenceGram';
 import { constantFitObjective } from './constantFitObjective';
 
 /** Result of a trend-filtering solve on the (scaled) problem. */

@@ -1,5 +1,5 @@
-import { dualFromResidual } from './dualFromResidual';
-import { weightedPolynomialFit } from './weightedPolynomialFit';
+import { dualFromResidual } from '../../linalg/dualFromResidual';
+import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
 
 /** The weighted least-squares polynomial of degree k, its dual and lambda_max ({@link polynomialDual}). */
 export interface PolynomialDual {

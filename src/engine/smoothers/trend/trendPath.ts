@@ -136,7 +136,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   const stages = 1 + (s.folds >= 2 ? s.folds : 0);
   for (let j = 0; j < G; j++) {
     s.context?.step(j / G / stages, 'solving along the penalty path');
-    const fit = solveTrend(prob, grid[j], s.tolerance, s.maxIterations, warm);
+    const fit = solveTrend(prob, grid[j], { tolerance: s.tolerance, maxIterations: s.maxIterations, warm });
     warm = fit;
     const { b } = relaxFit(sc.xs, sc.ys, sc.ws, k, fit, s.relaxed);
     let rss = 0;
@@ -168,7 +168,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       let wf: TrendFit | undefined;
       const out: Float64Array[] = [];
       for (let j = 0; j < pens.length; j++) {
-        const fit = solveTrend(sub, pens[j] * (swt / swAll), Math.max(s.tolerance, CV_TOLERANCE), s.maxIterations, wf, false);
+        const fit = solveTrend(sub, pens[j] * (swt / swAll), { tolerance: Math.max(s.tolerance, CV_TOLERANCE), maxIterations: s.maxIterations, warm: wf, refine: false });
         wf = fit;
         const pred = interpolateTrend(xt, fit.b, k, xh).value;
         if (s.relaxed > 0) {

@@ -50,11 +50,28 @@ export interface DiscreteBSplines {
 }
 
 /**
+ * Local coefficients of the basis functions of one build, kept so that the next build on the
+ * same x and k (an active-set method changes a few knots per round) solves the local system
+ * only for windows of knots it has not seen: a window's function depends on its k + 2 knots
+ * alone, so a reused one is identical to a recomputed one. Memory O(p k^2). Unchecked.
+ */
+export interface BasisCache {
+  /** The design points of the last build (the cache is used only for the same array). */
+  x: Float64Array | null;
+  k: number;
+  /** Extended knot rows of the last build. */
+  ext: Int32Array;
+  /** (k + 1)^2 local coefficients per basis function of the last build. */
+  coef: Float64Array;
+}
+
+/**
  * Builds the discrete B-splines of degree k (1..3) for knot rows A.
  *
  * @param x - strictly increasing design points (length n > k + 1)
  * @param k - degree
  * @param rowsA - knot rows, strictly increasing, in 0 .. n - k - 2
+ * @param cache - optional {@link BasisCache} of an earlier build on the same x and k; updated in place
  * @returns the basis, or null when a local system is singular (numerically coincident knots)
  * @example
  * ```ts
@@ -62,7 +79,7 @@ export interface DiscreteBSplines {
  * ```
  * Unchecked.
  */
-export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<number>): DiscreteBSplines | null {
+export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<number>, cache?: BasisCache): DiscreteBSplines | null {
   const n = x.length;
   const m = n - k - 1;
   const K = rowsA.length;
@@ -90,6 +107,9 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const perm = new Int32Array(nu), z = new Float64Array(nu); // work space of nullVector
   const cen = new Float64Array(k + 1), half = new Float64Array(k + 1);
   const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
+  const allCoef = new Float64Array(p * nu);
+  const old = cache && cache.k === k && cache.x === x ? cache : undefined;
+  let eo = 0; // walks the old windows: both knot lists increase
   for (let e = 0; e < p; e++) {
     // piece l (l = 0..k) holds the points rho_l < i <= rho_{l+1}; it is one polynomial Q_l on
     // x_{rho_l + 1} .. x_{rho_{l+1} + k}, written in its own coordinate t = (x - cen_l) / half_l
@@ -97,21 +117,34 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       const a = X(E[e + l] + 1), b = X(E[e + l + 1] + k);
       cen[l] = 0.5 * (a + b); half[l] = 0.5 * (b - a);
     }
-    // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
-    M.fill(0);
-    let row = 0;
-    for (let l = 0; l <= k + 1; l++) {
-      for (let d = 1; d <= k; d++) {
-        const xv = X(E[e + l] + d);
-        const o = row * nu;
-        let big = 0;
-        if (l <= k) { const t = (xv - cen[l]) / half[l]; let v = 1; for (let q = 0; q <= k; q++) { M[o + l * (k + 1) + q] = v; big = Math.max(big, Math.abs(v)); v *= t; } }
-        if (l >= 1) { const t = (xv - cen[l - 1]) / half[l - 1]; let v = 1; for (let q = 0; q <= k; q++) { M[o + (l - 1) * (k + 1) + q] -= v; big = Math.max(big, Math.abs(v)); v *= t; } }
-        for (let j = 0; j < nu; j++) M[o + j] /= big;
-        row++;
+    let reused = false;
+    if (old) {
+      const oe = old.ext, op = oe.length - k - 1;
+      while (eo < op && oe[eo] < E[e]) eo++;
+      if (eo < op && oe[eo] === E[e]) {
+        reused = true;
+        for (let q = 1; q <= k + 1; q++) if (oe[eo + q] !== E[e + q]) { reused = false; break; }
+        if (reused) for (let j = 0; j < nu; j++) coef[j] = old.coef[eo * nu + j];
       }
     }
-    if (!nullVector(M, nu - 1, nu, coef, perm, z)) return null;
+    if (!reused) {
+      // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
+      M.fill(0);
+      let row = 0;
+      for (let l = 0; l <= k + 1; l++) {
+        for (let d = 1; d <= k; d++) {
+          const xv = X(E[e + l] + d);
+          const o = row * nu;
+          let big = 0;
+          if (l <= k) { const t = (xv - cen[l]) / half[l]; let v = 1; for (let q = 0; q <= k; q++) { M[o + l * (k + 1) + q] = v; big = Math.max(big, Math.abs(v)); v *= t; } }
+          if (l >= 1) { const t = (xv - cen[l - 1]) / half[l - 1]; let v = 1; for (let q = 0; q <= k; q++) { M[o + (l - 1) * (k + 1) + q] -= v; big = Math.max(big, Math.abs(v)); v *= t; } }
+          for (let j = 0; j < nu; j++) M[o + j] /= big;
+          row++;
+        }
+      }
+      if (!nullVector(M, nu - 1, nu, coef, perm, z)) return null;
+    }
+    allCoef.set(coef, e * nu);
     // values on the support
     let vmax = 0;
     let l = 0;
@@ -135,7 +168,13 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       penalty[e * (k + 2) + q] = (fact * (after - before)) / vmax;
     }
   }
+  if (cache) { cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; }
   return { k, p, first, values, penalty };
+}
+
+/** An empty {@link BasisCache}. */
+export function basisCache(): BasisCache {
+  return { x: null, k: -1, ext: new Int32Array(0), coef: new Float64Array(0) };
 }
 
 /**

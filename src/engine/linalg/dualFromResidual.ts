@@ -10,11 +10,15 @@
  *
  * @returns u and `inconsistency`: the largest unmatched equation of each
  *   level relative to the largest |g| (0 for g exactly in the range).
+ * `work` (length >= n, optional) is used as work space instead of a new array.
  * Unchecked.
  */
-export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number>): { u: Float64Array; inconsistency: number } {
+export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number>, work?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
-  let v = Float64Array.from(g as ArrayLike<number>);
+  // one buffer, updated in place level by level: entry i of a level depends on entries 0..i of
+  // the level before, read before they are overwritten
+  const v = work && work.length >= n ? work : new Float64Array(n);
+  for (let i = 0; i < n; i++) v[i] = g[i];
   let gmax = 0;
   for (let i = 0; i < n; i++) gmax = Math.max(gmax, Math.abs(v[i]));
   let worst = 0;
@@ -24,25 +28,24 @@ export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number
     // compensated running sum (A. Neumaier, ZAMM 54 (1974)): a plain one loses about
     // n eps of the partial sums' size at each level, which on long series of order 3
     // is more than the distance of u to the bound that the refinement must resolve
-    const z = new Float64Array(len - 1);
     let acc = 0, comp = 0;
     let zmax = 0;
     for (let i = 0; i < len - 1; i++) {
-      const t = acc - v[i];
-      comp += Math.abs(acc) >= Math.abs(v[i]) ? (acc - t) - v[i] : (-v[i] - t) + acc;
+      const vi = v[i];
+      const t = acc - vi;
+      comp += Math.abs(acc) >= Math.abs(vi) ? (acc - t) - vi : (-vi - t) + acc;
       acc = t;
       const zi = acc + comp;
-      z[i] = zi;
+      v[i] = zi;
       zmax = Math.max(zmax, Math.abs(zi));
     }
-    const miss = Math.abs(z[len - 2] - v[len - 1]);
+    const miss = Math.abs(v[len - 2] - v[len - 1]);
     worst = Math.max(worst, miss / Math.max(gmax, zmax, 1e-300));
     len--;
     if (s < q) {
       // divide by S_s: entries s / (x_{i+s} - x_i)
-      for (let i = 0; i < len; i++) z[i] *= (x[i + s] - x[i]) / s;
+      for (let i = 0; i < len; i++) v[i] *= (x[i + s] - x[i]) / s;
     }
-    v = z;
   }
-  return { u: v, inconsistency: worst };
+  return { u: v.slice(0, n - q), inconsistency: worst };
 }

@@ -1,5 +1,5 @@
-import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
-import { discreteBSplines } from './discreteBSplines';
+import { bandedCholesky, bandedCholeskySolve } from '../linalg/bandedCholesky';
+import { discreteBSplines, BasisCache } from './discreteBSplines';
 
 /**
  * The restricted trend-filtering problem of order k (1..3) in O(n k^2):
@@ -16,12 +16,13 @@ import { discreteBSplines } from './discreteBSplines';
  *
  * @param rowsA - knot rows, strictly increasing, in 0 .. n - k - 2
  * @param sA - their signs
+ * @param cache - optional basis cache shared by solves on the same x and k ({@link BasisCache})
  * @returns fitted values and (D b) on the rows of A, or null when the system is singular
  * Unchecked.
  */
-export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>): { b: Float64Array; dA: Float64Array } | null {
+export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache): { b: Float64Array; dA: Float64Array } | null {
   const n = x.length;
-  const B = discreteBSplines(x, k, rowsA);
+  const B = discreteBSplines(x, k, rowsA, cache);
   if (!B) return null;
   const { p, first, values, penalty } = B;
   const wd = k + 1;
