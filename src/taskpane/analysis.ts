@@ -4,44 +4,31 @@
  * returned results by view.ts. No numerics here: the engine fits, checks and
  * warns.
  */
-import { Cell, FitOptions, FitResult, Series, SeriesBreaks, SeriesFit, evaluate, findAnalysis, numberFromText, ruleOptions } from '../engine';
+import { Cell, FitResult, Series, SeriesBreaks, SeriesFit, evaluateAnalysis, numberFromText } from '../engine';
 import { AnalysisRequest, AnalysisResult, runAnalysis } from '../runtime/engineEntry';
-import type { BreaksModel, BreaksOptions, BreaksResult, CropsRow } from '../engine/breaks/types';
+import type { BreaksResult, CropsRow } from '../engine/breaks/types';
 import type { CellBlock } from './workbook';
+import { MethodChoice, methodChoices, ruleOptions } from './methodChoices';
 
 /** Runs one analysis request: the page's worker pool in the pane, or this thread by default. */
 export type Compute = (request: AnalysisRequest) => Promise<AnalysisResult>;
-const asFit = (o: AnalysisResult): SeriesFit => ({ series: o.series, result: o.smooth! });
+const asFit = (o: AnalysisResult): SeriesFit & { result: FitResult } => ({ series: o.series, result: o.smooth! });
 const asBreaks = (o: AnalysisResult): SeriesBreaks => ({ series: o.series, result: o.breaks! });
 
-/** The pane's smoother options as a request with the declared option names (as fitCells translates them). */
-function smoothRequest(sel: { y: Cell[]; x: Cell[] | null; w: Cell[] | null }, options: FitOptions): AnalysisRequest {
-  const { method = 'spline', oneSE, select, relaxed, gridSize, ...rest } = options;
-  const o: Record<string, unknown> = { ...rest };
-  if (select !== undefined) o.rule = oneSE && String(select).toLowerCase() === 'cv' ? 'cv-simpler' : select;
-  else if (oneSE) o.rule = 'cv-simpler';
-  if (relaxed !== undefined) o.refit = relaxed;
-  if (gridSize !== undefined) o.searchPoints = gridSize;
-  return { analysis: method, family: 'smoother', y: sel.y, x: sel.x, w: sel.w, options: o };
-}
+/** A method of the pane's list ({@link methodChoices}): generated from the engine's declarations. */
+export type Choice = MethodChoice;
 
-/** The pane's changepoint options as a request: a number is the penalty, a word the rule, a range the penalty path. */
-function breaksRequest(sel: { y: Cell[]; x: Cell[] | null; w: Cell[] | null }, bo: BreaksOptions): AnalysisRequest {
-  const o: Record<string, unknown> = {};
-  if (typeof bo.penalty === 'number') o.penalty = bo.penalty;
-  else if (bo.penalty !== undefined) o.rule = bo.penalty;
-  if (bo.crops) o.penaltyRange = bo.crops;
-  return { analysis: findAnalysis(bo.model, 'changepoints').def.name, family: 'changepoints', y: sel.y, x: sel.x, w: sel.w, options: o };
-}
-
-export type Choice =
-  | { kind: 'smooth'; method: 'spline' | 'trend'; order?: number }
-  | { kind: 'breaks'; model: BreaksModel };
-
-/** How the penalty is set: a rule, a df target or a fixed value. */
+/** How the penalty is set: 'auto' (the method's default), one of its declared rules, 'df' or 'value'. */
 export interface PenaltyChoice {
-  rule: 'auto' | 'gcv' | 'cv' | 'cv-1se' | 'sure' | 'bic' | 'mbic' | 'df' | 'value';
+  rule: string;
   value?: number;
+}
+
+/** The list entry with this value (e.g. 'trend1', 'spline', 'breaks-level'). */
+export function choiceOf(value: string): Choice {
+  const c = methodChoices().find((m) => m.value === value);
+  if (!c) throw new Error(`no method "${value}" in the list.`);
+  return c;
 }
 
 /** Splits a selection into an optional header and the x, y columns (1 column: y; 2: x, y; 3: x, y, weights). */
@@ -63,29 +50,15 @@ export function splitSelection(block: CellBlock): { header: string[] | null; x: 
   };
 }
 
-/** The pane's penalty choice as smoother options; rules a smoother lacks go to the engine, which refuses them by name. */
-function penaltyOptions(p: PenaltyChoice): FitOptions {
-  if (p.rule === 'auto') return {};
-  if (p.rule === 'df') return { df: p.value };
-  if (p.rule === 'value') return { penalty: p.value };
-  return ruleOptions(p.rule);
-}
-
-/** The pane's penalty choice as changepoint options; rules segmentation lacks go to the engine, which refuses them by name. */
-function breaksPenalty(p: PenaltyChoice): Pick<BreaksOptions, 'penalty'> {
-  if (p.rule === 'auto') return {};
-  return { penalty: p.rule === 'value' ? p.value : (p.rule as BreaksOptions['penalty']) };
-}
-
 /** The selection as the analysis read it. */
 export type Selection = ReturnType<typeof splitSelection>;
 
 /** What the engine returned for one run: results in the engine's own shapes, with the series they refer to. */
 export type Analysis =
-  | { kind: 'smooth'; choice: Extract<Choice, { kind: 'smooth' }>; sel: Selection; series: Series; result: FitResult;
+  | { kind: 'smooth'; choice: Choice; sel: Selection; series: Series; result: FitResult;
       /** The fitted curve continued after the last point (an extrapolation), when the method defines it. */
       beyond?: { x: number[]; y: number[] } }
-  | { kind: 'breaks'; choice: Extract<Choice, { kind: 'breaks' }>; sel: Selection; series: Series; result: BreaksResult;
+  | { kind: 'breaks'; choice: Choice; sel: Selection; series: Series; result: BreaksResult;
       /** The optimal segmentations for penalties around the chosen one (CROPS), for "why this penalty". */
       path?: CropsRow[] };
 
@@ -97,25 +70,32 @@ export type Analysis =
  */
 function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice): Generator<AnalysisRequest, Analysis, AnalysisResult> {
   const sel = splitSelection(block);
+  const request = (extra: Record<string, unknown> = {}): AnalysisRequest => ({
+    analysis: choice.analysis, family: choice.kind === 'smooth' ? 'smoother' : 'changepoints', y: sel.y, x: sel.x, w: sel.w,
+    options: { ...choice.options, ...ruleOptions(pen.rule, pen.value), ...extra },
+  });
   if (choice.kind === 'smooth') {
-    const options: FitOptions = { method: choice.method, ...penaltyOptions(pen) };
-    if (choice.method === 'trend') options.order = choice.order ?? 1;
-    const { series, result } = asFit(yield smoothRequest(sel, options));
+    const answer = yield request();
+    const { series, result } = asFit(answer);
     const n = series.n;
     const span = series.x[n - 1] - series.x[0];
     const from = series.x[n - 1], to = from + 0.08 * span;
     const xs = Array.from({ length: 12 }, (_, i) => from + ((to - from) * i) / 11);
-    const beyond = span > 0 ? { x: xs, y: Array.from(evaluate(result, xs).value) } : undefined;
+    let beyond: { x: number[]; y: number[] } | undefined;
+    try {
+      beyond = span > 0 ? { x: xs, y: Array.from(evaluateAnalysis(answer, xs).value) } : undefined;
+    } catch {
+      beyond = undefined; // a method without values beyond the data (wavelets): nothing drawn there
+    }
     return { kind: 'smooth', choice, sel, series, result, beyond };
   }
-  const bo: BreaksOptions = { model: choice.model, ...breaksPenalty(pen) };
-  const { series, result } = asBreaks(yield breaksRequest(sel, bo));
+  const { series, result } = asBreaks(yield request());
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
   // The slope model's exact search is costly, so its path is drawn on shorter series only.
   let path: CropsRow[] | undefined;
-  if (choice.model !== 'slope' || series.n <= 2000) {
+  if (choice.analysis !== 'slope' || series.n <= 2000) {
     const beta = result.penalty.value;
-    path = asBreaks(yield breaksRequest(sel, { ...bo, crops: [beta / 10, beta * 10] })).result.crops ?? [];
+    if (beta > 0 && Number.isFinite(beta)) path = asBreaks(yield request({ penaltyRange: [beta / 10, beta * 10] })).result.crops ?? [];
   }
   return { kind: 'breaks', choice, sel, series, result, path };
 }

@@ -8,7 +8,8 @@ import uPlot from 'uplot';
 import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
-import { analyseWith, Choice, PenaltyChoice, splitSelection } from './analysis';
+import { analyseWith, choiceOf, PenaltyChoice, splitSelection } from './analysis';
+import { methodChoices, ruleChoices } from './methodChoices';
 import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
@@ -23,14 +24,8 @@ const VERSION = typeof KNOTWISE_VERSION === 'string' ? KNOTWISE_VERSION : 'devel
 
 const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as T;
 
-function choiceFrom(value: string): Choice {
-  if (value === 'spline') return { kind: 'smooth', method: 'spline' };
-  if (value.startsWith('trend')) return { kind: 'smooth', method: 'trend', order: Number(value.slice(5)) };
-  return { kind: 'breaks', model: value.slice(7) as any };
-}
-
 function penaltyFrom(): PenaltyChoice {
-  const rule = $<HTMLSelectElement>('rule').value as PenaltyChoice['rule'];
+  const rule = $<HTMLSelectElement>('rule').value;
   const raw = $<HTMLInputElement>('rule-value').value.trim();
   return rule === 'df' || rule === 'value' ? { rule, value: raw === '' ? NaN : Number(raw) } : { rule };
 }
@@ -237,8 +232,22 @@ async function boot(inExcel: boolean): Promise<void> {
   // For tests and for checking the pane from the browser console.
   (window as unknown as { knotwise: unknown }).knotwise = { workbook: wb, axisFonts: () => [...axisFontSizes($('chart')), ...axisFontSizes($('curve'))] };
 
-  $('rule').onchange = () => {
-    const r = $<HTMLSelectElement>('rule').value;
+  // The lists come from the engine's declarations: every method it registers, and per method only its own rules.
+  const methodSel = $<HTMLSelectElement>('method'), ruleSel = $<HTMLSelectElement>('rule');
+  const picked = methodSel.value;
+  methodSel.replaceChildren(...methodChoices().map((m) => new Option(m.label, m.value)));
+  methodSel.value = methodChoices().some((m) => m.value === picked) ? picked : 'trend1';
+  const fillRules = () => {
+    const keep = ruleSel.value;
+    const rules = ruleChoices(choiceOf(methodSel.value).analysis);
+    ruleSel.replaceChildren(...rules.map((r) => new Option(r.label, r.value)));
+    ruleSel.value = rules.some((r) => r.value === keep) ? keep : 'auto';
+    $('rule-value').hidden = !(ruleSel.value === 'df' || ruleSel.value === 'value');
+  };
+  fillRules();
+  methodSel.addEventListener('change', fillRules);
+  ruleSel.onchange = () => {
+    const r = ruleSel.value;
     $('rule-value').hidden = !(r === 'df' || r === 'value');
   };
   const progress = new ProgressBox($('status'));
@@ -250,7 +259,7 @@ async function boot(inExcel: boolean): Promise<void> {
       block = await wb.readSelection();
       showStatus(`Fitting ${block.address} ...`);
       // The fit runs in a worker: the pane stays responsive, shows progress and can cancel.
-      const analysis = await analyseWith(block, choiceFrom($<HTMLSelectElement>('method').value), penaltyFrom(), (r) => compute(r, run));
+      const analysis = await analyseWith(block, choiceOf($<HTMLSelectElement>('method').value), penaltyFrom(), (r) => compute(r, run));
       const view = viewOf(analysis, block, { version: VERSION, date: new Date().toISOString().slice(0, 10) });
       last = { block, view };
       renderView(view);

@@ -118,11 +118,11 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
     }));
     return {
       ...common,
-      title: choice.method === 'spline' ? 'Smoothing spline' : `Trend filtering, order ${result.options.order ?? 1}`,
+      title: choice.label,
       beyond: a.beyond, band, curve, markers, markerName: 'knot',
       boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), Math.round(n / Math.max(result.df, 1)))),
       summary: fitSummary(result, series),
-      columnHeader: `${sel.yName} (${choice.method === 'spline' ? 'spline' : `trend ${result.options.order ?? 1}`})`,
+      columnHeader: `${sel.yName} (${result.method}${result.options.order !== undefined ? ` ${result.options.order}` : ''})`,
       tables: [{ id: 'table', title: 'Knots', table: withFitted(knots, result.knots.map((k) => result.fitted[k.index]), fit.format, showY) }],
       note: fitSettingsNote(result, { ...facts, source }),
     };

@@ -78,7 +78,7 @@ test('trend filtering marks its knots on the chart with dated tooltips and lists
 });
 
 test('changepoints carry the warning that a break is not proof of its cause, and the segments table', async (page) => {
-  await page.selectOption('#method', 'breaks-meanvar');
+  await page.selectOption('#method', 'breaks-volatility');
   await page.click('#run');
   await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints'));
   const codes = await page.$$eval('#warnings li', (l) => l.map((x) => x.dataset.code));
@@ -104,7 +104,7 @@ test('a bad penalty shows the engine message instead of a result', async (page) 
   await page.selectOption('#rule', 'auto');
   // An engine error about a row names the sheet row: unit costs in D are not counts, the first is in D2.
   await page.selectOption('#pick-y', '3');
-  await page.selectOption('#method', 'breaks-poisson');
+  await page.selectOption('#method', 'breaks-counts');
   await page.click('#run');
   await page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? ''));
   const err = await page.textContent('#status');
@@ -161,7 +161,7 @@ test('a pasted series with dates is read, fitted, shown with dates and cell addr
   await page.click('#paste-use');
   const a2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(2)', (t) => t.textContent);
   assert(a2 === '2024-01-01', `pasted date shows as ${a2}`);
-  await page.selectOption('#method', 'breaks-mean');
+  await page.selectOption('#method', 'breaks-level');
   await page.click('#run');
   await page.waitForFunction(() => document.querySelector('#status')?.textContent?.startsWith('Fitted Pasted!'));
   const row = await page.$$eval('#table tr:nth-child(2) td', (t) => t.map((x) => x.textContent));

@@ -4,7 +4,7 @@
  * rounding in what is written, and a chart that points at the written cells.
  */
 import { weeklyOrders } from '../../src/demo/weeklyOrders';
-import { analyse } from '../../src/taskpane/analysis';
+import { analyse, choiceOf } from '../../src/taskpane/analysis';
 import { sharePlan } from '../../src/taskpane/share';
 import { viewOf } from '../../src/taskpane/view';
 import type { CellBlock } from '../../src/taskpane/workbook';
@@ -20,7 +20,7 @@ function block(address: string, header: boolean, cols: 'xy' | 'y' = 'xy'): CellB
 
 describe('the demo in Sheet1!A1:B157 (header in row 1)', () => {
   const b = block('Sheet1!A1:B157', true);
-  const v = viewOf(analyse(b, { kind: 'smooth', method: 'trend', order: 1 }, { rule: 'auto' }), b, FACTS);
+  const v = viewOf(analyse(b, choiceOf('trend1'), { rule: 'auto' }), b, FACTS);
   const plan = sharePlan(v);
 
   test('warnings name the blank cells B35, B36 and the text in B122, as the README says', () => {
@@ -72,7 +72,7 @@ describe('the demo in Sheet1!A1:B157 (header in row 1)', () => {
 describe('other places on the sheet', () => {
   test('a selection D10:E166 with its header in row 10 names E44, E45 and E131 (data from row 11), and writes to F and H', () => {
     const b = block("'Depot data'!D10:E166", true);
-    const v = viewOf(analyse(b, { kind: 'smooth', method: 'spline' }, { rule: 'auto' }), b, FACTS);
+    const v = viewOf(analyse(b, choiceOf('spline'), { rule: 'auto' }), b, FACTS);
     expect(v.warnings.find((w) => w.code === 'dropped-cells')!.message).toContain('(cells E44, E45); 1 text (cell E131)');
     const plan = sharePlan(v);
     expect([plan.fitted.col, plan.report[0].col, plan.chart.x, plan.chart.fit]).toEqual([5, 7, 'D11:D166', 'F11:F166']);
@@ -81,7 +81,7 @@ describe('other places on the sheet', () => {
 
   test('without a header the data start on the selection\'s first row', () => {
     const b = block('Sheet1!A2:B157', false);
-    const v = viewOf(analyse(b, { kind: 'breaks', model: 'mean' }, { rule: 'auto' }), b, FACTS);
+    const v = viewOf(analyse(b, choiceOf('breaks-level'), { rule: 'auto' }), b, FACTS);
     expect(v.warnings.find((w) => w.code === 'dropped-cells')!.message).toContain('(cells B35, B36)');
     const plan = sharePlan(v);
     expect(plan.fitted.values).toHaveLength(156);
@@ -90,7 +90,7 @@ describe('other places on the sheet', () => {
 
   test('one column (y only): no x range in the chart, row numbers as x and no dates', () => {
     const b = block('Sheet1!B1:B157', true, 'y');
-    const v = viewOf(analyse(b, { kind: 'smooth', method: 'spline' }, { rule: 'auto' }), b, FACTS);
+    const v = viewOf(analyse(b, choiceOf('spline'), { rule: 'auto' }), b, FACTS);
     expect(v.xDates).toBe(false);
     const plan = sharePlan(v);
     expect(plan.chart.x).toBeUndefined();
@@ -102,7 +102,7 @@ describe('other places on the sheet', () => {
 describe('the level-and-volatility model', () => {
   test('its breaks table shows the standard deviation before and after, matching the engine\'s segments', () => {
     const b = block('Sheet1!A1:B157', true);
-    const a = analyse(b, { kind: 'breaks', model: 'meanvar' }, { rule: 'auto' });
+    const a = analyse(b, choiceOf('breaks-volatility'), { rule: 'auto' });
     const v = viewOf(a, b, FACTS);
     const t = v.tables.find((x) => x.id === 'table')!.table;
     expect(t.header.slice(0, 4)).toEqual(['date', 'cell', 'sd before', 'sd after']);

@@ -118,7 +118,7 @@ export const LONGEST_SEARCH: Readonly<Record<string, number>> = { meanvar: 60000
 function refuseLongSearch(n: number, o: ResolvedBreaksOptions): void {
   const limit = LONGEST_SEARCH[o.model];
   if (limit !== undefined && n > limit) {
-    throw new KnotwiseError('bad-data', `model '${o.model}' on ${n.toLocaleString('en-US')} points is refused: its exact search can take time growing with the square of the series length when there are few changes (minutes at this size). Use at most ${limit.toLocaleString('en-US')} points (a shorter range, or the series aggregated to a coarser time step), or model 'mean' for changes in level, which handles a full column in seconds.`);
+    throw new KnotwiseError('bad-data', `the ${({ mean: 'level', meanvar: 'volatility', poisson: 'counts' } as Record<string, string>)[o.model] ?? o.model} model on ${n.toLocaleString('en-US')} points is refused: its exact search can take time growing with the square of the series length when there are few changes (minutes at this size). Use at most ${limit.toLocaleString('en-US')} points (a shorter range, or the series aggregated to a coarser time step), or the level model for changes in level, which handles a full column in seconds.`);
   }
   if (o.model === 'mean' && o.crops) {
     // about 3 microseconds per point per search (biweight, measured): keep CROPS under ~30 s

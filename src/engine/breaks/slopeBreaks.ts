@@ -71,7 +71,7 @@ export function slopeBreaks(series: Series, o: ResolvedBreaksOptions): BreaksRes
   let ss = 0;
   for (let k = 0; k < P.wyy.length; k++) ss += P.wyy[k];
   if (!Number.isFinite(ss)) {
-    throw new KnotwiseError('bad-data', `the values span more than about 1e150 noise scales (noise scale ${showNumber(sigma)}), so the squared-error cost overflows; remove the far-off values, or use model 'mean', which sets single far-off values aside as spikes.`);
+    throw new KnotwiseError('bad-data', `the values span more than about 1e150 noise scales (noise scale ${showNumber(sigma)}), so the squared-error cost overflows; remove the far-off values, or use the level model, which sets single far-off values aside as spikes.`);
   }
   const x0 = P.x[0], span = P.x[m - 1] - P.x[0];
   const u = new Float64Array(m);

@@ -54,7 +54,7 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions, exposure?: Fl
       let ss = 0;
       for (let i = 0; i < y.length; i++) { const z = (y[i] - m) / scale; ss += w[i] * z * z; }
       if (!Number.isFinite(ss)) {
-        throw new KnotwiseError('bad-data', `the values span more than about 1e150 times their typical spread (${showNumber(scale)}), so the variance cost overflows; remove the far-off values, or use model 'mean', which sets single far-off values aside as spikes.`);
+        throw new KnotwiseError('bad-data', `the values span more than about 1e150 times their typical spread (${showNumber(scale)}), so the variance cost overflows; remove the far-off values, or use the level model, which sets single far-off values aside as spikes.`);
       }
       const q = recordingResolution(y);
       const floor = q > 0 ? (q / scale) ** 2 / 12 : MEANVAR_FLOOR;
@@ -65,12 +65,12 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions, exposure?: Fl
       for (let i = 0; i < series.n; i++) {
         const v = y[i];
         if (v < 0) {
-          throw new KnotwiseError('bad-data', `model 'poisson' needs counts (whole numbers >= 0); row ${series.firstRow[i] + 1} holds ${showNumber(v)}. Use model 'mean' for measurements.`);
+          throw new KnotwiseError('bad-data', `the counts model needs counts (whole numbers >= 0); row ${series.firstRow[i] + 1} holds ${showNumber(v)}. Use the level model for measurements.`);
         }
         if (!Number.isInteger(v)) fractional.push(series.firstRow[i]);
       }
       if (fractional.length) {
-        notes.push(warning('note', `model 'poisson' is meant for counts, but ${fractional.length} value${fractional.length === 1 ? ' is' : 's are'} not whole (row${fractional.length === 1 ? '' : 's'} ${listRows(fractional)}, e.g. ${showNumber(y[series.rowOf[fractional[0]]])}); the rate model still runs, but its penalty assumes count noise (variance equal to the mean). For measurements or rates use model 'mean' or 'meanvar'.`, fractional));
+        notes.push(warning('note', `the counts model is meant for counts, but ${fractional.length} value${fractional.length === 1 ? ' is' : 's are'} not whole (row${fractional.length === 1 ? '' : 's'} ${listRows(fractional)}, e.g. ${showNumber(y[series.rowOf[fractional[0]]])}); the rate model still runs, but its penalty assumes count noise (variance equal to the mean). For measurements or rates use the level or volatility model.`, fractional));
       }
       return { cost: poissonCost(y, w, exposure), notes };
     }
@@ -178,7 +178,7 @@ function stepBreaksOnce(series: Series, o: ResolvedBreaksOptions, exposure?: Flo
     segments.push(sum);
   }
   if (flooredRows.length) {
-    warnings.push(warning('note', `${flooredRows.length} segment${flooredRows.length === 1 ? '' : 's'} starting at row ${listRows(flooredRows)} ${flooredRows.length === 1 ? 'has' : 'have'} (near-)zero spread; the variance was floored at ${floorNote}. Such segments often come from rounded or repeated values; consider model 'mean' or a larger minSegment.`, flooredRows));
+    warnings.push(warning('note', `${flooredRows.length} segment${flooredRows.length === 1 ? '' : 's'} starting at row ${listRows(flooredRows)} ${flooredRows.length === 1 ? 'has' : 'have'} (near-)zero spread; the variance was floored at ${floorNote}. Such segments often come from rounded or repeated values; consider the level model or a larger shortest-segment.`, flooredRows));
   }
   const breaks: Break[] = seg.changes.map((c, k) => {
     const before = segments[k], after = segments[k + 1];
@@ -228,5 +228,5 @@ export function overdispersionWarning(series: Series, fitted: Float64Array, brea
   if (dof < 10) return null;
   const dispersion = chi / dof;
   if (!(dispersion > 2)) return null;
-  return warning('note', `the counts vary about ${dispersion.toFixed(1)} times as much as Poisson counts would about the fitted rates (over-dispersion), so some of the ${breaks} break${breaks === 1 ? '' : 's'} may be noise: consider model 'mean' (or 'meanvar'), a season setting if there is a weekly or yearly pattern, or a higher penalty.`);
+  return warning('note', `the counts vary about ${dispersion.toFixed(1)} times as much as Poisson counts would about the fitted rates (over-dispersion), so some of the ${breaks} break${breaks === 1 ? '' : 's'} may be noise: consider the level (or volatility) model, a season setting if there is a weekly or yearly pattern, or a higher penalty.`);
 }

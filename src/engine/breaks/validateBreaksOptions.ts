@@ -68,7 +68,7 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
     throw new KnotwiseError('bad-option', `minSegment must be a whole number >= 1; got ${show(minSegment)}.`);
   }
   if (model === 'meanvar' && minSegment < 2) {
-    throw new KnotwiseError('bad-option', `minSegment must be at least 2 for model 'meanvar' (a variance needs two points); got ${show(minSegment)}.`);
+    throw new KnotwiseError('bad-option', `shortest-segment must be at least 2 for the volatility model (a variance needs two points); got ${show(minSegment)}.`);
   }
   let sigma: number | undefined;
   if (options.sigma !== undefined) {
@@ -90,14 +90,14 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
   let robust = model === 'mean';
   if (options.robust !== undefined) {
     if (typeof options.robust !== 'boolean') throw new KnotwiseError('bad-option', `robust must be true or false; got ${show(options.robust)}.`);
-    if (model !== 'mean' && options.robust) throw new KnotwiseError('bad-option', `robust applies to model 'mean' only; model is '${model}' (remove robust).`);
+    if (model !== 'mean' && options.robust) throw new KnotwiseError('bad-option', `robust applies to the level model only (remove robust).`);
     robust = options.robust;
   }
   const gaussian = model === 'mean' || model === 'meanvar' || model === 'slope';
   let noise: NoiseAssumption = gaussian ? 'correlated' : 'independent';
   if (options.noise !== undefined) {
     noise = checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
-    if (!gaussian && noise === 'correlated') throw new KnotwiseError('bad-option', `noise 'correlated' applies to models 'mean', 'meanvar' and 'slope' only; model is '${model}' (remove noise).`);
+    if (!gaussian && noise === 'correlated') throw new KnotwiseError('bad-option', `noise 'correlated' applies to the level, volatility and slope models only (remove noise).`);
   }
   let season: 'auto' | 'none' | number = 'auto';
   if (options.season !== undefined) {

@@ -4,6 +4,7 @@
  * See decompose.ts for the model, the rules and the references.
  */
 import type { Series } from '../series';
+import { KnotwiseError } from '../errors';
 import type { AnalysisDefinition } from '../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import type { RunContext } from '../analysis/runContext';
@@ -30,6 +31,9 @@ export function decomposeOptionsOf(r: ResolvedOptions): DecomposeOptions {
   }
   return o;
 }
+
+/** Longest series the adaptive decomposition takes (about a minute there on a 2-core machine). */
+export const ADAPTIVE_LIMIT = 10000;
 
 /** The analysis registered as 'decompose'. */
 export const decomposeAnalysis: AnalysisDefinition = {
@@ -69,6 +73,11 @@ export const decomposeAnalysis: AnalysisDefinition = {
   ties: 'merge',
   minPoints: (o: ResolvedOptions) => (o.method === 'stl' ? 5 : (typeof o.order === 'number' ? o.order : 1) + 3),
   run(series: Series, options: ResolvedOptions, context: RunContext) {
+    // the adaptive decomposition alternates exact trend solves (seconds at a few thousand points):
+    // refused at once beyond ADAPTIVE_LIMIT rather than left running for minutes
+    if ((options.method ?? 'adaptive') === 'adaptive' && series.n > ADAPTIVE_LIMIT) {
+      throw new KnotwiseError('bad-data', `the adaptive decomposition takes at most ${ADAPTIVE_LIMIT.toLocaleString('en-US')} points; this series has ${series.n.toLocaleString('en-US')}, which would take minutes. Use method=stl (LOESS trend and season, fast at any length) or a shorter range of rows.`);
+    }
     const r = decompose(series, decomposeOptionsOf(options), context);
     return {
       fitted: r.trend, warnings: r.warnings, solver: r.solver, criterion: r.criterion,

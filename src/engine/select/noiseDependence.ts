@@ -71,9 +71,13 @@ const LAGS = 4;
 export function variogramPhi(y: ArrayLike<number>): number {
   const n = y.length;
   const V = new Float64Array(LAGS + 1);
+  // squares of differences overflow for |y| near the ends of the double range: work in units of max |y|
+  let a = 0;
+  for (let i = 0; i < n; i++) a = Math.max(a, Math.abs(y[i]));
+  if (!(a > 0) || !Number.isFinite(a)) return 0;
   for (let L = 1; L <= LAGS; L++) {
     const d = new Float64Array(n - L);
-    for (let i = 0; i + L < n; i++) d[i] = y[i + L] - y[i];
+    for (let i = 0; i + L < n; i++) d[i] = y[i + L] / a - y[i] / a;
     const m = median(d);
     const dev = Float64Array.from(d, (v) => Math.abs(v - m));
     const s = 1.4826 * median(dev);

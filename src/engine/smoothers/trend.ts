@@ -393,6 +393,34 @@ export function evaluateTrend(result: FitResult, at: Float64Array): Evaluation {
 }
 
 /**
+ * Longest series on which trend filtering chooses its penalty from the data,
+ * by order: cross-validation, and the rules that need only the penalty path
+ * (SURE, BIC, a df target). Beyond them the choice would take minutes (about
+ * a minute at the limits on a 2-core machine; measured by `npm run bench`),
+ * so it is refused at once with what to do instead; a given penalty has no
+ * limit (order 1 and 3 fit a million points in seconds).
+ */
+export const TREND_DATA_DRIVEN_LIMITS: readonly { cv: number; path: number }[] = [
+  { cv: 500000, path: 1000000 },
+  { cv: 100000, path: 300000 },
+  { cv: 30000, path: 100000 },
+  { cv: 5000, path: 30000 },
+];
+
+function checkTrendWork(n: number, o: ResolvedOptions): void {
+  if (o.penalty !== undefined) return;
+  const k = o.order as number;
+  const lim = TREND_DATA_DRIVEN_LIMITS[k];
+  const rule = o.df !== undefined ? 'df' : (o.rule as string);
+  const cv = rule === 'cv' || rule === 'cv-simpler';
+  const limit = cv ? lim.cv : lim.path;
+  if (n <= limit) return;
+  const how = cv ? 'by cross-validation' : rule === 'df' ? 'for a df target' : `by ${rule.toUpperCase()}`;
+  const alt = cv ? `the rule sure or bic (up to ${lim.path.toLocaleString('en-US')} points), ` : '';
+  throw new KnotwiseError('bad-data', `trend filtering of order ${k} chooses its penalty ${how} on at most ${limit.toLocaleString('en-US')} points; this series has ${n.toLocaleString('en-US')}, which would take minutes. Give a penalty (penalty=...), use ${alt}${k > 1 ? 'a lower order, ' : ''}or a shorter range of rows.`);
+}
+
+/**
  * Trend filtering as a declared analysis: order, penalty rule (or a fixed
  * penalty, or a df target), folds, refit, grid, solver tolerance and
  * iteration limit. Registered in `analyses.ts`.
@@ -424,6 +452,7 @@ export const trendAnalysis: AnalysisDefinition = {
     { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3 },
   ],
   run(series: Series, options: ResolvedOptions, context: RunContext) {
+    checkTrendWork(series.n, options);
     const smooth = fitTrend(series, fitOptionsOf(options), context);
     return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
   },

@@ -1,0 +1,62 @@
+/**
+ * The pane's method and penalty lists, generated from the engine's declared
+ * analyses: every smoother variant (the ones the automatic choice compares,
+ * plus methods without variants), the automatic choice, and every changepoint
+ * model, each labelled in the words its declaration gives; and for each method
+ * only the penalty rules it declares, so no method can be paired with a rule
+ * it does not accept. Pure: no DOM.
+ */
+import { analysisDefinitions, findAnalysis, RULE_HELP } from '../engine';
+import type { AnalysisDefinition, OptionValue } from '../engine';
+
+/** One entry of the method list. */
+export interface MethodChoice {
+  /** Stable value of the list entry (e.g. 'trend1', 'spline', 'breaks-level'). */
+  value: string;
+  /** What the analyst reads. */
+  label: string;
+  kind: 'smooth' | 'breaks';
+  /** The registered analysis and the options the entry fixes (e.g. order 1). */
+  analysis: string;
+  options: Record<string, OptionValue>;
+}
+
+/** One entry of the penalty list: a declared rule, a df target, a fixed penalty, or the method's default. */
+export interface RuleChoice {
+  value: string;
+  label: string;
+}
+
+const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+
+function variantsOf(def: AnalysisDefinition): MethodChoice[] {
+  if (def.family === 'changepoints') return [{ value: `breaks-${def.name}`, label: `Changepoints: ${def.label.charAt(0).toLowerCase()}${def.label.slice(1)}`, kind: 'breaks', analysis: def.name, options: {} }];
+  if (def.family !== 'smoother') return [];
+  const vs = def.autoVariants ?? [];
+  if (vs.length === 0) return [{ value: def.name, label: def.label, kind: 'smooth', analysis: def.name, options: {} }];
+  return vs.map((v) => ({ value: def.name + Object.values(v.options).join(''), label: cap(v.label), kind: 'smooth' as const, analysis: def.name, options: { ...v.options } }));
+}
+
+/** The method list, in registration order (smoothers, the automatic choice, changepoint models). */
+export function methodChoices(): MethodChoice[] {
+  return analysisDefinitions().flatMap(variantsOf);
+}
+
+/** The penalty list of one method: its default first, then the rules it declares, a df target and a fixed penalty when declared. */
+export function ruleChoices(analysis: string): RuleChoice[] {
+  const { def } = findAnalysis(analysis);
+  const rule = def.options.find((o) => o.name === 'rule');
+  const out: RuleChoice[] = [{ value: 'auto', label: `Automatic (${rule?.default !== undefined ? String(rule.default).toUpperCase() : 'the method\'s default'})` }];
+  for (const c of rule?.choices ?? []) out.push({ value: c, label: cap(rule?.choiceHelp?.[c] ?? RULE_HELP[c] ?? c).replace(/:.*$/, '') });
+  if (def.options.some((o) => o.name === 'df')) out.push({ value: 'df', label: 'Target degrees of freedom' });
+  if (def.options.some((o) => o.name === 'penalty')) out.push({ value: 'value', label: 'Fixed penalty' });
+  return out;
+}
+
+/** The options a penalty choice adds to a request. */
+export function ruleOptions(rule: string, value?: number): Record<string, unknown> {
+  if (rule === 'auto') return {};
+  if (rule === 'df') return { df: value };
+  if (rule === 'value') return { penalty: value };
+  return { rule };
+}
