@@ -78,7 +78,7 @@ export function cellOfRow(place: DataPlace, row: number): string {
  * @example cellsInMessage('2 blank (row 34, 35).', { firstRow: 2, yCol: 1 }) === '2 blank (cells B35, B36).'
  */
 export function cellsInMessage(message: string, place: DataPlace): string {
-  return message.replace(/\brow (\d+(?:, \d+)*)( and \d+ more)?/g, (_all, list: string, more: string | undefined) => {
+  return message.replace(/\brows? (\d+(?:, \d+)*)( and \d+ more)?/g, (_all, list: string, more: string | undefined) => {
     const names = list.split(', ').map((r) => cellOfRow(place, Number(r) - 1));
     return `${names.length > 1 || more ? 'cells' : 'cell'} ${names.join(', ')}${more ?? ''}`;
   });

@@ -65,7 +65,7 @@ test('fitting the spline draws the data, the fit, end zones and the criterion cu
 test('trend filtering marks its knots on the chart with dated tooltips and lists them', async (page) => {
   await page.selectOption('#method', 'trend1');
   await page.click('#run');
-  await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Trend'));
+  await page.waitForFunction(() => /trend filtering, order 1/.test(document.querySelector('#result-title')?.textContent ?? ''));
   const titles = await page.$$eval('#chart .markers .marker', (l) => l.map((m) => m.title));
   const rows = await page.$$eval('#table tr', (r) => r.length);
   assert(titles.length >= 1, 'no knot markers');
@@ -102,14 +102,14 @@ test('a bad penalty shows the engine message instead of a result', async (page) 
   assert(/penalty \(spline\) must be a number from 0; got -2/.test(status), `status was: ${status}`);
   assert(await page.isHidden('#results'), 'results still shown after an error');
   await page.selectOption('#rule', 'auto');
-  // An engine error about a row names the sheet row: unit costs in D are not counts, the first is in D2.
+  // A warning about rows names the sheet cells: unit costs in D are not counts (they are set aside in a note naming cells).
   await page.selectOption('#pick-y', '3');
   await page.selectOption('#method', 'breaks-counts');
   await page.click('#run');
   await page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? ''));
-  const err = await page.textContent('#status');
+  const notes = await page.$$eval('#warnings li', (l) => l.map((x) => x.textContent).join(' | '));
   await page.selectOption('#pick-y', '1');
-  assert(/sheet row 2 holds 3\.17/.test(err), `error does not name the sheet row: ${err}`);
+  assert(/not whole/.test(notes) && /\bD2\b/.test(notes), `the counts warning does not name sheet cells: ${notes}`);
 });
 
 test('chart labels are at least 11 px', async (page) => {
