@@ -93,6 +93,11 @@ function fitOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[]
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
     solver: result.solver,
   };
+  if (result.comparison) {
+    const c = result.comparison;
+    out.candidates = c.rows.map((r, i) => ({ method: r.method, options: r.options, label: r.label, penalty: Number.isFinite(r.penalty) ? r.penalty : null, df: Number.isFinite(r.df) ? r.df : null, cv: Number.isFinite(r.cv) ? r.cv : null, se: Number.isFinite(r.se) ? r.se : null, milliseconds: r.milliseconds, chosen: i === c.chosen, ...(r.skipped ? { skipped: r.skipped } : {}) }));
+    out.reason = c.reason;
+  }
   if (evalX) {
     const ev = evaluateAnalysis(result, evalX);
     out.eval = evalX.map((v, i) => ({ x: v, value: ev.value[i], extrapolated: ev.extrapolated[i] === 1 }));
@@ -224,6 +229,10 @@ function textFit(o: Record<string, any>, st: TextStyle): string {
     `  ${smoothPenaltyInWords(o as any)}; chosen by ${ruleInWords(o.criterion.name)}${o.criterion.value === null ? '' : ` (score ${fmt(o.criterion.value)})`}; noise sd ${o.sigma === null ? 'not estimated' : st.value(o.sigma)}`,
     `  solver: ${fitSolverInWords(o as any)}`,
   ];
+  if (o.candidates) {
+    lines.push(`  ${o.reason}`);
+    for (const c of o.candidates) lines.push(`    ${c.chosen ? '*' : ' '} ${c.label}: ${c.skipped ? `not compared (${c.skipped})` : `df ${fmt(c.df)}, CV error ${fmt(c.cv)} (se ${fmt(c.se)}), ${c.milliseconds} ms`}`);
+  }
   if (o.knots.length) lines.push(`  bends (${o.knots.length}, largest first): ` + [...o.knots].sort((a: any, b: any) => a.rank - b.rank).slice(0, 12).map((k: any) => `${st.x(k.x)} (row ${k.row}, change ${fmt(k.change ?? k.shrunkChange)})`).join('; ') + (o.knots.length > 12 ? ' ...' : ''));
   for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
   return lines.join('\n');

@@ -36,7 +36,7 @@ export { differenceSigma } from './robustSigma';
 export { suffixLowerBound, brokenLineFit } from './breaks/slopeBounds';
 export { runAnalysis, analysisKey, evaluateAnalysis } from './analysis/runAnalysis';
 export type { AnalysisRequest } from './analysis/runAnalysis';
-export type { AnalysisDefinition, AnalysisResult, AnalysisCore, AnalysisFamily } from './analysis/analysisDefinition';
+export type { AnalysisDefinition, AnalysisResult, AnalysisCore, AnalysisFamily, Comparison, CandidateRow } from './analysis/analysisDefinition';
 export type { OptionDeclaration, OptionValue, ResolvedOptions, Progress, RunControl } from './analysis/optionDeclaration';
 export { analysisDefinitions, findAnalysis, registerAnalysis } from './analysis/analysisRegistry';
 export { resolveOptions, optionKey, dashedName } from './analysis/resolveOptions';

@@ -8,7 +8,7 @@
  */
 import { pageRuntime } from '../runtime/browser/pageRuntime';
 import { useCompute } from './compute';
-import { smooth, penalty, summary, knots, evaluateAt } from './smoothing';
+import { smooth, penalty, summary, knots, evaluateAt, compare } from './smoothing';
 import { breaks, segments, breakScan, breakPath } from './breaks';
 import { options } from './options';
 import { decompose } from './decompose';
@@ -24,6 +24,7 @@ export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   BREAKSCAN: breakScan,
   BREAKPATH: breakPath,
   OPTIONS: options,
+  COMPARE: compare,
   DECOMPOSE: decompose,
 };
 

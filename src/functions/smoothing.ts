@@ -17,7 +17,7 @@ const smoothOf = (r: AnalysisResult) => r.smooth!;
  * @customfunction SMOOTH
  * @param y Values to smooth: one column (or one row). Blank, text, TRUE/FALSE and error cells are left out and reported by SUMMARY.
  * @param [x] Positions of the values (dates, times, any numbers), same size as y. Omitted: 1, 2, 3, ...
- * @param [method] "spline" (default: a smooth curve) or "trend" (pieces joined at knots the data choose). KNOTWISE.OPTIONS(method) lists each method's settings.
+ * @param [method] "spline" (default: a smooth curve), "trend" (pieces joined at knots the data choose), "whittaker" (Hodrick-Prescott and relatives), "loess", "wavelet", or "auto" (compare them all by cross-validation). KNOTWISE.OPTIONS() lists them, KNOTWISE.OPTIONS(method) each one's settings.
  * @param [settings] Settings as text, e.g. "order=2; cv; folds=10", "df=8" or "penalty=500"; a number alone is the penalty.
  * @param [weights] Positive weights, same size as y (e.g. the number of orders behind each value).
  * @param [output] "fitted" (default), "se" (pointwise standard error), "residual" or "leverage".
@@ -95,6 +95,7 @@ export async function summary(y: any[][], x?: any[][], method?: string, settings
       const b = result.breaks;
       rows.push(['penalty', `${b.penalty.rule} ${b.penalty.value}`], ['breaks', b.breaks.length], ['segments', b.segments.length]);
     }
+    if (result.comparison) rows.push(['why this method', result.comparison.reason]);
     rows.push(['n used', s.nUsed], ['n dropped', s.dropped.length], ['ties merged', s.tiesMerged], ['converged', result.solver.converged], ['warnings', result.warnings.length]);
     result.warnings.forEach((w, i) => rows.push([`warning ${i + 1} (${w.code})`, w.message]));
     return rows;
@@ -149,5 +150,25 @@ export async function evaluateAt(y: any[][], at: any[][], x?: any[][], method?: 
     const out: any[][] = cells.map(() => ['', '']);
     where.forEach((i, k) => { out[i] = [cellNumber(ev.value[k]), ev.extrapolated[k] === 1]; });
     return out;
+  });
+}
+
+/**
+ * Every smoothing method and order compared on the series by cross-validation on the same held-out points: the table behind the automatic choice, the chosen one marked, and why.
+ * @customfunction COMPARE
+ * @param y Values to smooth: one column (or one row).
+ * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
+ * @param [settings] Settings of the automatic choice, e.g. "cv" (the lowest error outright) or "folds=10".
+ * @param [weights] Positive weights, same size as y.
+ * @param invocation Excel's handle to cancel the call.
+ * @returns A header row (method, df, CV error, se, milliseconds, chosen), one row per method, then a row with the reason for the choice.
+ * @cancelable
+ */
+export async function compare(y: any[][], x?: any[][], settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
+  return guardedAsync(async () => {
+    const { result } = await analyseCells(y, { x, method: 'auto', settings, weights }, 'smoother', 'auto', invocation);
+    const c = result.comparison!;
+    const rows = c.rows.map((r, i) => [r.label, cellNumber(r.df), cellNumber(r.cv), cellNumber(r.se), r.milliseconds, i === c.chosen ? 'chosen' : r.skipped ? `not compared: ${r.skipped}` : '']);
+    return [['method', 'df', 'CV error', 'se', 'milliseconds', 'chosen'], ...rows, [c.reason, '', '', '', '', '']];
   });
 }

@@ -4,7 +4,7 @@
  * returned results by view.ts. No numerics here: the engine fits, checks and
  * warns.
  */
-import { Cell, FitResult, Series, SeriesBreaks, SeriesFit, evaluateAnalysis, numberFromText } from '../engine';
+import { Cell, Comparison, FitResult, Series, SeriesBreaks, SeriesFit, evaluateAnalysis, numberFromText } from '../engine';
 import { AnalysisRequest, AnalysisResult, runAnalysis } from '../runtime/engineEntry';
 import type { BreaksResult, CropsRow } from '../engine/breaks/types';
 import type { CellBlock } from './workbook';
@@ -57,7 +57,9 @@ export type Selection = ReturnType<typeof splitSelection>;
 export type Analysis =
   | { kind: 'smooth'; choice: Choice; sel: Selection; series: Series; result: FitResult;
       /** The fitted curve continued after the last point (an extrapolation), when the method defines it. */
-      beyond?: { x: number[]; y: number[] } }
+      beyond?: { x: number[]; y: number[] };
+      /** The automatic choice's comparison of methods, when the method was 'auto'. */
+      comparison?: Comparison }
   | { kind: 'breaks'; choice: Choice; sel: Selection; series: Series; result: BreaksResult;
       /** The optimal segmentations for penalties around the chosen one (CROPS), for "why this penalty". */
       path?: CropsRow[] };
@@ -87,7 +89,7 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice): Generator
     } catch {
       beyond = undefined; // a method without values beyond the data (wavelets): nothing drawn there
     }
-    return { kind: 'smooth', choice, sel, series, result, beyond };
+    return { kind: 'smooth', choice, sel, series, result, beyond, comparison: answer.comparison };
   }
   const { series, result } = asBreaks(yield request());
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.

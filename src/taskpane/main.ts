@@ -78,6 +78,9 @@ function renderView(v: View): void {
   const seg = v.tables.find((t) => t.id === 'segments');
   $('segments-box').hidden = !seg;
   if (seg) fillTable($('segments'), seg.table);
+  const cmp = v.tables.find((t) => t.id === 'compare');
+  $('compare-box').hidden = !cmp;
+  if (cmp) { fillTable($('compare'), cmp.table); $('compare-reason').textContent = v.compareReason ?? ''; }
 }
 
 /** A sheet cell as the sheet shows it: dates by their format, numbers at their format's decimals. */

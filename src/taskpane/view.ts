@@ -4,6 +4,7 @@
  * dates, cells by their sheet address, numbers at the data's precision.
  * No engine calls here.
  */
+import type { Comparison } from '../engine';
 import {
   DataPlace, PresentTable, breaksSettingsNote, breaksSummary, breaksTable, cellsInMessage, fitSettingsNote, fitSummary,
   formatNumber, knotsTable, parseRangeAddress, rangeName, roundedFit, segmentsTable, xPresenter,
@@ -46,7 +47,9 @@ export interface View {
   columnFormat: string;
   columnHeader: string;
   /** The knots or breaks table, then (changepoints) the segments table. */
-  tables: { id: 'table' | 'segments'; title: string; table: PresentTable }[];
+  tables: { id: 'table' | 'segments' | 'compare'; title: string; table: PresentTable }[];
+  /** The automatic choice's reason, in one sentence. */
+  compareReason?: string;
   /** One line recording method, rule, penalty, df, date and version. */
   note: string;
   /** Where the data rows sit on the sheet. */
@@ -123,7 +126,11 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
       boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), Math.round(n / Math.max(result.df, 1)))),
       summary: fitSummary(result, series),
       columnHeader: `${sel.yName} (${result.method}${result.options.order !== undefined ? ` ${result.options.order}` : ''})`,
-      tables: [{ id: 'table', title: 'Knots', table: withFitted(knots, result.knots.map((k) => result.fitted[k.index]), fit.format, showY) }],
+      tables: [
+        { id: 'table', title: 'Knots', table: withFitted(knots, result.knots.map((k) => result.fitted[k.index]), fit.format, showY) },
+        ...(a.comparison ? [{ id: 'compare' as const, title: 'Methods compared', table: comparisonTable(a.comparison) }] : []),
+      ],
+      compareReason: a.comparison?.reason,
       note: fitSettingsNote(result, { ...facts, source }),
     };
   }
@@ -144,5 +151,18 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
       { id: 'segments', title: 'Segments', table: segmentsTable(result, series, ctx) },
     ],
     note: breaksSettingsNote(result, { ...facts, source }),
+  };
+}
+
+/** The automatic choice's candidates: what each fits, its df, cross-validation error and standard error; the chosen one marked. */
+function comparisonTable(c: Comparison): PresentTable {
+  const num = (v: number) => ({ value: Number.isFinite(v) ? Number(v.toPrecision(4)) : '', text: Number.isFinite(v) ? formatNumber(v) : '' });
+  return {
+    header: ['method', 'df', 'CV error', 'se', ''],
+    rows: c.rows.map((r, i) => [
+      { value: r.label, text: r.label },
+      ...(r.skipped ? [num(NaN), num(NaN), num(NaN)] : [num(r.df), num(r.cv), num(r.se)]),
+      { value: i === c.chosen ? 'chosen' : r.skipped ? 'not compared' : '', text: i === c.chosen ? 'chosen' : r.skipped ? 'not compared' : '' },
+    ]),
   };
 }

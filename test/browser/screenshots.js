@@ -26,7 +26,7 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
     page.on('pageerror', (e) => console.error(`page error: ${e}`));
     await page.goto(`${base}/preview.html`);
     await page.waitForSelector('#sheet-table tr');
-    for (const method of ['trend1', 'spline', 'breaks-meanvar']) {
+    for (const method of ['trend1', 'spline', 'auto', 'breaks-volatility']) {
       await page.selectOption('#method', method);
       await page.click('#run');
       await page.waitForSelector('#results:not([hidden])');

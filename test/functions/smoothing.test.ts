@@ -212,3 +212,16 @@ describe('DECOMPOSE', () => {
     }
   });
 });
+
+describe('COMPARE', () => {
+  test('COMPARE spills every candidate with its cross-validation error, marks the chosen one and gives the reason', async () => {
+    const { compare } = require('../../src/functions/smoothing');
+    const y = Array.from({ length: 60 }, (_, i) => (i < 30 ? 0.2 * i : 6 - 0.1 * (i - 30)) + 0.3 * Math.sin(i * 7.7));
+    const t = await compare(col(y));
+    expect(t[0]).toEqual(['method', 'df', 'CV error', 'se', 'milliseconds', 'chosen']);
+    const body = t.slice(1, -1);
+    expect(body.filter((r: unknown[]) => r[5] === 'chosen')).toHaveLength(1);
+    expect(String(t[t.length - 1][0])).toMatch(/\.$/);
+    for (const r of body) if (r[5] !== 'not compared' && typeof r[2] === 'number') expect(r[2]).toBeGreaterThan(0);
+  });
+});
