@@ -9,7 +9,7 @@ import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
 import { analyseWith, choiceOf, PenaltyChoice, splitSelection } from './analysis';
-import { methodChoices, ruleChoices } from './methodChoices';
+import { defaultRuleNote, methodChoices, ruleChoices } from './methodChoices';
 import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
@@ -245,6 +245,7 @@ async function boot(inExcel: boolean): Promise<void> {
     const rules = ruleChoices(choiceOf(methodSel.value).analysis);
     ruleSel.replaceChildren(...rules.map((r) => new Option(r.label, r.value)));
     ruleSel.value = rules.some((r) => r.value === keep) ? keep : 'auto';
+    $('rule-note').textContent = defaultRuleNote(choiceOf(methodSel.value).analysis);
     $('rule-value').hidden = !(ruleSel.value === 'df' || ruleSel.value === 'value');
   };
   fillRules();

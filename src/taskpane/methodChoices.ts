@@ -46,7 +46,7 @@ export function methodChoices(): MethodChoice[] {
 export function ruleChoices(analysis: string): RuleChoice[] {
   const { def } = findAnalysis(analysis);
   const rule = def.options.find((o) => o.name === 'rule');
-  const out: RuleChoice[] = [{ value: 'auto', label: `Automatic (${rule?.default !== undefined ? String(rule.default).toUpperCase() : 'the method\'s default'})` }];
+  const out: RuleChoice[] = [{ value: 'auto', label: `Automatic (${rule?.default !== undefined ? String(rule.default) : 'the method\'s default'})` }];
   for (const c of rule?.choices ?? []) out.push({ value: c, label: cap(rule?.choiceHelp?.[c] ?? RULE_HELP[c] ?? c).replace(/:.*$/, '') });
   if (def.options.some((o) => o.name === 'df')) out.push({ value: 'df', label: 'Target degrees of freedom' });
   if (def.options.some((o) => o.name === 'penalty')) out.push({ value: 'value', label: 'Fixed penalty' });
@@ -59,4 +59,13 @@ export function ruleOptions(rule: string, value?: number): Record<string, unknow
   if (rule === 'df') return { df: value };
   if (rule === 'value') return { penalty: value };
   return { rule };
+}
+
+/** One sentence on what the method does when the penalty is left to it. */
+export function defaultRuleNote(analysis: string): string {
+  const { def } = findAnalysis(analysis);
+  const rule = def.options.find((o) => o.name === 'rule');
+  if (!rule || rule.default === undefined) return 'Automatic: the method sets its own smoothing.';
+  const d = String(rule.default);
+  return `Automatic: ${d} - ${rule.choiceHelp?.[d] ?? RULE_HELP[d] ?? d}.`;
 }

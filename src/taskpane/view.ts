@@ -121,7 +121,7 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
     }));
     return {
       ...common,
-      title: choice.label,
+      title: a.comparison ? `Automatic choice: ${a.comparison.rows[a.comparison.chosen].label}` : choice.label,
       beyond: a.beyond, band, curve, markers, markerName: 'knot',
       boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), Math.round(n / Math.max(result.df, 1)))),
       summary: fitSummary(result, series),
@@ -157,10 +157,11 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
 /** The automatic choice's candidates: what each fits, its df, cross-validation error and standard error; the chosen one marked. */
 function comparisonTable(c: Comparison): PresentTable {
   const num = (v: number) => ({ value: Number.isFinite(v) ? Number(v.toPrecision(4)) : '', text: Number.isFinite(v) ? formatNumber(v) : '' });
+  const short = (r: Comparison['rows'][number]) => [r.method, ...Object.values(r.options)].join(' ');
   return {
     header: ['method', 'df', 'CV error', 'se', ''],
     rows: c.rows.map((r, i) => [
-      { value: r.label, text: r.label },
+      { value: short(r), text: short(r) },
       ...(r.skipped ? [num(NaN), num(NaN), num(NaN)] : [num(r.df), num(r.cv), num(r.se)]),
       { value: i === c.chosen ? 'chosen' : r.skipped ? 'not compared' : '', text: i === c.chosen ? 'chosen' : r.skipped ? 'not compared' : '' },
     ]),

@@ -29,6 +29,8 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
     for (const method of ['trend1', 'spline', 'auto', 'breaks-volatility']) {
       await page.selectOption('#method', method);
       await page.click('#run');
+      // the fit runs in a worker: wait until the status no longer says it is fitting
+      await page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? ''), null, { timeout: 120000 });
       await page.waitForSelector('#results:not([hidden])');
       await page.waitForTimeout(200);
       const file = path.join(out, `pane-${method}-${width}.png`);
