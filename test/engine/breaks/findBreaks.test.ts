@@ -201,7 +201,7 @@ describe('findBreaks options', () => {
     [{ model: 'mean', penalty: 'aic' }, /penalty must be 'bic', 'mbic' or a number >= 0; got "aic"/],
     [{ model: 'mean', penalty: -1 }, /got -1/],
     [{ model: 'mean', minSegment: 1.5 }, /minSegment must be a whole number >= 1; got 1.5/],
-    [{ model: 'meanvar', minSegment: 1 }, /at least 2 for model 'meanvar'/],
+    [{ model: 'meanvar', minSegment: 1 }, /at least 2 for the volatility model/],
     [{ model: 'mean', sigma: 0 }, /sigma \(noise standard deviation in y units\) must be a finite number > 0; got 0/],
     [{ model: 'poisson', sigma: 1 }, /sigma applies to models 'mean' and 'slope' only/],
     [{ model: 'mean', crops: [5, 1] }, /crops must be \[low, high\].*got \[5, 1\]/],
@@ -231,7 +231,7 @@ describe('findBreaks on long series', () => {
     const y = Array.from({ length: 60001 }, (_, i) => i % 3);
     const s = prepareSeries(y, null, null, { ties: 'keep' });
     for (const model of ['meanvar', 'poisson', 'distribution', 'slope'] as const) {
-      expect(() => findBreaks(s, { model })).toThrow(/is refused: .* Use at most [\d,]+ points .* or model 'mean'/);
+      expect(() => findBreaks(s, { model })).toThrow(/is refused: .* Use at most [\d,]+ points .* or the level model/);
     }
     expect(() => findBreaks(s, { model: 'mean', crops: [1, 100], maxRuns: 10000 })).toThrow(/give maxRuns \d+ or less/);
   });

@@ -1,3 +1,4 @@
+import { median } from '../../median';
 import { KnotwiseError, showNumber } from '../../errors';
 import type { SolverStatus } from '../../types';
 import { periodicDwt, periodicIdwt } from './periodicDwt';
@@ -168,35 +169,9 @@ function mirrorIndex(i: number, n: number): number {
   return p < n ? p : 2 * n - 1 - p;
 }
 
-/** Median of |v| by quickselect (Hoare's FIND), O(m) on average. Unchecked. */
+/** Median of |v| (the engine's selection median, O(m) expected). Unchecked. */
 function medianAbs(v: Float64Array): number {
-  const m = v.length;
-  const a = new Float64Array(m);
-  for (let i = 0; i < m; i++) a[i] = Math.abs(v[i]);
-  const hi = selectKth(a, m >> 1);
-  if (m % 2) return hi;
-  // the largest of the lower half, which selectKth left in a[0 .. m/2)
-  let lo = -Infinity;
-  for (let i = 0; i < m >> 1; i++) if (a[i] > lo) lo = a[i];
-  return 0.5 * (lo + hi);
-}
-
-/** k-th smallest (0-based) of a, partially reordering a so that a[0..k) <= a[k]. Unchecked. */
-function selectKth(a: Float64Array, k: number): number {
-  let l = 0, r = a.length - 1;
-  while (r > l) {
-    const t = a[(l + r) >> 1];
-    let i = l, j = r;
-    while (i <= j) {
-      while (a[i] < t) i++;
-      while (a[j] > t) j--;
-      if (i <= j) { const s = a[i]; a[i] = a[j]; a[j] = s; i++; j--; }
-    }
-    if (k <= j) r = j;
-    else if (k >= i) l = i;
-    else break;
-  }
-  return a[k];
+  return median(Float64Array.from(v, Math.abs));
 }
 
 /** Refuses unevenly spaced or non-finite x, with the worst spacing printed. */
