@@ -39,6 +39,16 @@ export function PENALTY_OPTIONS(o: { rules: readonly string[]; defaultRule: stri
   ];
 }
 
+/**
+ * The season setting of smoothers: 'auto' (default) fits the series without a
+ * strong season found from the dates ({@link seasonForSmoothing}), 'none' fits it as given.
+ */
+export const SEASON_OPTION: OptionDeclaration = {
+  name: 'season', kind: 'choice', choices: ['auto', 'none'], default: 'auto',
+  choiceHelp: { auto: 'when x are dates and the series has a strong yearly, weekly or weekday season, smooth the series without it (default)', none: 'smooth the series as given' },
+  help: 'what to do with a season: auto (default: take a strong season found from the dates out first) or none',
+};
+
 /** Resolved options as the smoothers' {@link FitOptions}. Unchecked: the resolver has validated them. */
 export function fitOptionsOf(r: ResolvedOptions): FitOptions {
   const o: FitOptions = {};

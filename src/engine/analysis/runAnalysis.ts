@@ -18,6 +18,7 @@ import { findAnalysis } from './analysisRegistry';
 import type { RunControl } from './optionDeclaration';
 import { resolveOptions } from './resolveOptions';
 import { RunContext } from './runContext';
+import { seasonForSmoothing } from '../decompose/seasonForSmoothing';
 
 /** What to analyse: the data as cells (numbers, text, blanks, errors, booleans) and the options as typed. */
 export interface AnalysisRequest {
@@ -62,7 +63,13 @@ export function runAnalysis(request: AnalysisRequest, control: RunControl = {}):
   const y = column(request.y, 'y');
   const x = request.x === undefined || request.x === null ? null : column(request.x, 'x');
   const w = request.w === undefined || request.w === null ? null : column(request.w, 'weights');
-  const series = prepareSeries(y, x, w, { ties: def.ties, minPoints: def.minPoints(options), method: def.name });
+  let series = prepareSeries(y, x, w, { ties: def.ties, minPoints: def.minPoints(options), method: def.name });
+  if (def.family === 'smoother' && options.season === 'auto') {
+    context.step(0, 'checking for a season');
+    const adj = seasonForSmoothing(series);
+    series = adj.series;
+    notes.push(...adj.notes);
+  }
   const core = def.run(series, options, context);
   context.step(1, 'done');
   return { ...core, warnings: [...notes, ...core.warnings], analysis: def.name, family: def.family, options, series };

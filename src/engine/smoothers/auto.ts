@@ -18,6 +18,7 @@ import type { AnalysisCore, AnalysisDefinition, CandidateRow } from '../analysis
 import { analysisDefinitions, findAnalysis } from '../analysis/analysisRegistry';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import { resolveOptions } from '../analysis/resolveOptions';
+import { SEASON_OPTION } from '../analysis/penaltyOptions';
 import type { RunContext } from '../analysis/runContext';
 import { KnotwiseError, isKnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
@@ -67,7 +68,8 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
     const t0 = Date.now();
     const row: CandidateRow = { method: def.name, options: { ...v.options }, label: v.label, penalty: NaN, df: NaN, cv: NaN, se: NaN, milliseconds: 0 };
     try {
-      const opts = resolveOptions(def.options, { ...v.options, rule: 'cv', folds }, def.name).options;
+      // the season (if any) was taken out once, before the candidates: they smooth the series as it is now
+      const opts = resolveOptions(def.options, { ...v.options, rule: 'cv', folds, ...(def.options.some((o) => o.name === 'season') ? { season: 'none' } : {}) }, def.name).options;
       if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
       const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
       const fit = core.smooth!;
@@ -118,6 +120,7 @@ export const autoAnalysis: AnalysisDefinition = {
       help: 'how the winner is picked: cv-simpler (default) or cv',
     },
     { name: 'folds', kind: 'integer', min: 2, max: 20, default: 5, help: 'number of cross-validation folds shared by every candidate (default 5)' },
+    SEASON_OPTION,
   ],
   ties: 'merge',
   minPoints: () => 3,

@@ -42,7 +42,7 @@ import { weightedMoments } from '../weightedMoments';
 import { QUIET, RunContext } from '../analysis/runContext';
 import type { AnalysisDefinition } from '../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
-import { PENALTY_OPTIONS, fitOptionsOf } from '../analysis/penaltyOptions';
+import { PENALTY_OPTIONS, SEASON_OPTION, fitOptionsOf } from '../analysis/penaltyOptions';
 
 /** State kept for evaluation at new x (original units). */
 export interface SplineModel {
@@ -280,7 +280,7 @@ export const splineAnalysis: AnalysisDefinition = {
   family: 'smoother',
   label: 'Smooth curve (smoothing spline)',
   summary: 'natural cubic smoothing spline: a smooth curve with a knot at every x; penalty by GCV, cross-validation, a df target or a value (Reinsch 1967; Craven & Wahba 1979)',
-  options: PENALTY_OPTIONS({ rules: ['gcv', 'cv', 'cv-simpler'], defaultRule: 'gcv', folds: 10, searchPoints: 25 }),
+  options: [...PENALTY_OPTIONS({ rules: ['gcv', 'cv', 'cv-simpler'], defaultRule: 'gcv', folds: 10, searchPoints: 25 }), SEASON_OPTION],
   ties: 'merge',
   minPoints: () => 3,
   autoVariants: [{ label: 'a smooth curve (spline)', options: {}, simplicity: 1 }],

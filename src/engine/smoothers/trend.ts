@@ -44,7 +44,7 @@
 import { QUIET, RunContext } from './../analysis/runContext';
 import type { AnalysisDefinition } from '../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
-import { PENALTY_OPTIONS, fitOptionsOf } from '../analysis/penaltyOptions';
+import { PENALTY_OPTIONS, SEASON_OPTION, fitOptionsOf } from '../analysis/penaltyOptions';
 import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
 import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot, SolverStatus } from '../types';
@@ -436,6 +436,7 @@ export const trendAnalysis: AnalysisDefinition = {
       help: 'shape of the pieces: 0 level shifts, 1 straight pieces with kinks (default), 2 or 3 smooth bends',
     },
     ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler', 'sure', 'bic'], defaultRule: 'cv', folds: 5, searchPoints: 30 }),
+    SEASON_OPTION,
     {
       name: 'refit', kind: 'number', min: 0, max: 1, default: 0, implied: 1, oldNames: ['relaxed'],
       help: 'refit the pieces between the knots without shrinking their jumps: 0 plain fit (default), 1 full refit, between a mix (relaxed trend filtering)',
