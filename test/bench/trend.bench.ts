@@ -3,7 +3,8 @@
  *
  * - side by side with glmgen (R package of the authors of trend filtering, C ADMM; public
  *   repository glmgen/glmgen), when it is installed in the R library named by
- *   KNOTWISE_GLMGEN_LIB (default /work/glmgen-lib; skipped quietly when absent): x = 1..n,
+ *   the environment variable KNOTWISE_GLMGEN_LIB (or found by R in its own libraries; skipped
+ *   quietly when absent): x = 1..n,
  *   a chirp plus a kinked ramp with noise sd 0.2, orders 1 and 3, n = 1e3 .. 1e6, three
  *   penalties two decades apart (n/1000 x {1, 10, 100} for order 1, n/1e5 x {1, 10, 100} for
  *   order 3). Knotwise is timed in a fresh Node process per fit (first call, compilation
@@ -172,12 +173,18 @@ function knotwiseFresh(n: number, k: number, lambda: number, timeoutSeconds: num
   try { return JSON.parse(r.stdout.trim().split('\n').pop()!); } catch { return null; }
 }
 
-/** The R library holding glmgen (KNOTWISE_GLMGEN_LIB, default /work/glmgen-lib), or null when it is not installed. */
+/**
+ * The R library holding glmgen: KNOTWISE_GLMGEN_LIB when set, else '' when R finds glmgen in its own
+ * libraries; null when it is not installed (or R is missing).
+ */
 export function glmgenLibrary(): string | null {
-  const lib = process.env.KNOTWISE_GLMGEN_LIB || '/work/glmgen-lib';
-  if (!fs.existsSync(path.join(lib, 'glmgen', 'DESCRIPTION'))) return null;
-  try { execFileSync('Rscript', ['--version'], { stdio: 'ignore' }); } catch { return null; }
-  return lib;
+  const lib = process.env.KNOTWISE_GLMGEN_LIB;
+  if (lib && !fs.existsSync(path.join(lib, 'glmgen', 'DESCRIPTION'))) return null;
+  try {
+    const probe = `${lib ? `.libPaths(c(${JSON.stringify(lib)}, .libPaths())); ` : ''}quit(status = if (requireNamespace("glmgen", quietly = TRUE)) 0 else 1)`;
+    execFileSync('Rscript', ['-e', probe], { stdio: 'ignore' });
+  } catch { return null; }
+  return lib ?? '';
 }
 
 /**
@@ -191,7 +198,7 @@ function glmgenFit(lib: string, y: Float64Array, k: number, lambda: number, repe
     const yf = path.join(dir, 'y.txt'), bf = path.join(dir, 'b.txt');
     fs.writeFileSync(yf, Array.from(y, (v) => v.toPrecision(17)).join('\n'));
     const code = [
-      `.libPaths(c(${JSON.stringify(lib)}, .libPaths()))`,
+      lib ? `.libPaths(c(${JSON.stringify(lib)}, .libPaths()))` : '',
       'suppressMessages(library(glmgen))',
       `y <- scan(${JSON.stringify(yf)}, quiet = TRUE); x <- seq_along(y)`,
       `ts <- sapply(seq_len(${repeats}), function(i) { st <- system.time(f <<- suppressWarnings(trendfilter(x, y, k = ${k}, lambda = ${lambda}, thinning = FALSE))); c(st[["elapsed"]], st[["user.self"]] + st[["sys.self"]]) })`,
@@ -219,7 +226,7 @@ function median(v: number[]): number {
 /** Knotwise beside glmgen: one record per (order, n, penalty); nothing when glmgen is not installed. `orders` and `only` (sizes) narrow a run by hand. */
 export function sideBySide(emit: (record: Record<string, unknown>) => void, quick: boolean, orders = [1, 3], only?: number[]): void {
   const lib = glmgenLibrary();
-  if (!lib) return;
+  if (lib === null) return;
   const sizes = only ?? (quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]);
   for (const k of orders) {
     for (const n of sizes) {
