@@ -73,7 +73,16 @@ function dataCell(v: number, rounding: ReturnType<typeof roundForData>): Present
 
 const ORDER_CHANGE = ['level jump', 'slope change', 'curvature change', 'change in 3rd derivative'];
 
-/** The knots table: where the fitted curve changes form, and by how much. */
+/**
+ * The knots an analyst reads: the fit's bends (neighbouring knots of one bend merged, each sized on the
+ * unshrunk refit) when the method gives them, else its knots.
+ */
+export function shownKnots(result: FitResult): { x: number; index: number; row: number; change: number }[] {
+  if (!result.bends) return result.knots;
+  return result.bends.map((b) => ({ x: b.x, index: b.index, row: b.row, change: Number.isFinite(b.change) ? b.change : b.shrunkChange }));
+}
+
+/** The knots table: where the fitted curve changes form, and by how much (bends when the method gives them). */
 export function knotsTable(result: FitResult, series: Series, ctx: PresentContext): PresentTable {
   const xp = xPresenter(series.x, ctx.xDates);
   const order = result.method === 'trend' ? Number((result.options as { order?: number }).order ?? 1) : 3;
@@ -82,7 +91,7 @@ export function knotsTable(result: FitResult, series: Series, ctx: PresentContex
   const rounding = roundForData(series.y);
   return {
     header: [xp.label, rowHeader(ctx), change],
-    rows: result.knots.map((k) => [xp.cell(k.x), rowCell(k.row, ctx), order === 0 ? dataCell(k.change, rounding) : sig3(k.change)]),
+    rows: shownKnots(result).map((k) => [xp.cell(k.x), rowCell(k.row, ctx), order === 0 ? dataCell(k.change, rounding) : sig3(k.change)]),
   };
 }
 
@@ -144,7 +153,7 @@ export function fitSummary(result: FitResult, series: Series): [string, string][
     ['chosen by', ruleInWords(result.criterion.name, result.options)],
     ['noise sd', Number.isFinite(result.sigma) ? rounding.format(result.sigma) : 'not estimated'],
     ['points used', `${series.n} of ${series.nRows} rows${series.tiesMerged ? ` (${series.tiesMerged} merged as ties)` : ''}`],
-    ['knots', String(result.knots.length)],
+    ['knots', result.bends ? `${result.bends.length} bends (from ${result.knots.length} knots; neighbouring knots of one bend merged)` : String(result.knots.length)],
     ['solver', fitSolverInWords(result)],
   ];
 }
@@ -178,7 +187,7 @@ export interface NoteFacts {
 /** One line that tells a colleague without the add-in what was done. */
 export function fitSettingsNote(result: FitResult, facts: NoteFacts): string {
   const order = result.method === 'trend' ? ` of order ${(result.options as { order?: number }).order ?? 1}` : '';
-  return `Knotwise ${facts.version}, ${facts.date}: ${METHOD_WORDS[result.method] ?? result.method}${order} of ${facts.source}; penalty by ${ruleInWords(result.criterion.name, result.options)}: ${smoothPenaltyInWords(result)}; ${result.knots.length} knots; ${fitSolverInWords(result)}. A smoothed trend describes the past; it is not a forecast, and values near the ends get revised as data arrive.`;
+  return `Knotwise ${facts.version}, ${facts.date}: ${METHOD_WORDS[result.method] ?? result.method}${order} of ${facts.source}; penalty by ${ruleInWords(result.criterion.name, result.options)}: ${smoothPenaltyInWords(result)}; ${result.bends ? `${result.bends.length} bends (${result.knots.length} knots)` : `${result.knots.length} knots`}; ${fitSolverInWords(result)}. A smoothed trend describes the past; it is not a forecast, and values near the ends get revised as data arrive.`;
 }
 
 /** One line that tells a colleague without the add-in what was done. */

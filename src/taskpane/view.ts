@@ -7,7 +7,7 @@
 import type { Comparison } from '../engine';
 import {
   DataPlace, PresentTable, breaksSettingsNote, breaksSummary, breaksTable, cellsInMessage, fitSettingsNote, fitSummary,
-  formatNumber, knotsTable, parseRangeAddress, rangeName, roundedFit, segmentsTable, xPresenter,
+  formatNumber, knotsTable, shownKnots, parseRangeAddress, rangeName, roundedFit, segmentsTable, xPresenter,
 } from '../present';
 import type { Analysis } from './analysis';
 import type { CellBlock } from './workbook';
@@ -115,7 +115,8 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
     } : undefined;
     const knots = knotsTable(result, series, ctx);
     const changeName = knots.header[2];
-    const markers = result.knots.map((k, i) => ({
+    const shown = shownKnots(result);
+    const markers = shown.map((k, i) => ({
       x: k.x, y: result.fitted[k.index],
       label: `knot at ${xp.text(k.x)} (${knots.rows[i][1].text}): ${changeName} ${formatNumber(k.change)}`,
     }));
@@ -127,7 +128,7 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
       summary: fitSummary(result, series),
       columnHeader: `${sel.yName} (${result.method}${result.options.order !== undefined ? ` ${result.options.order}` : ''})`,
       tables: [
-        { id: 'table', title: 'Knots', table: withFitted(knots, result.knots.map((k) => result.fitted[k.index]), fit.format, showY) },
+        { id: 'table', title: 'Knots', table: withFitted(knots, shown.map((k) => result.fitted[k.index]), fit.format, showY) },
         ...(a.comparison ? [{ id: 'compare' as const, title: 'Methods compared', table: comparisonTable(a.comparison) }] : []),
       ],
       compareReason: a.comparison?.reason,

@@ -42,7 +42,7 @@ describe('the demo in Sheet1!A1:B157 (header in row 1)', () => {
   test('the report starts in E1 with the settings note, and the knots table holds dates formatted as dates', () => {
     const [note, summary, warnings, knots] = plan.report;
     expect([note.col, note.row]).toEqual([4, 1]);
-    expect(note.values[0][0]).toMatch(/^Knotwise 9\.9\.9, 2026-12-02: trend filtering of order 1 of Sheet1!A1:B157; penalty by 5-fold cross-validation: penalty [\d.]+, about \d+ degrees of freedom; \d+ knots; /);
+    expect(note.values[0][0]).toMatch(/^Knotwise 9\.9\.9, 2026-12-02: trend filtering of order 1 of Sheet1!A1:B157; penalty by 5-fold cross-validation: penalty [\d.]+, about \d+ degrees of freedom; \d+ bends \(\d+ knots\); /);
     expect(summary.values[0]).toEqual(['Summary', '']);
     expect(warnings.values.some((r) => r[0] === 'dropped-cells' && String(r[1]).includes('cells B35, B36'))).toBe(true);
     expect(knots.values[1]).toEqual(['date', 'cell', 'slope change per day', 'fitted']);
