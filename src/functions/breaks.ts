@@ -7,7 +7,7 @@ import { cellNumber, required, shapeLike } from './cells';
 import { guardedAsync } from './excelErrors';
 import { analyseCells } from './request';
 
-const blank = (v: number) => (Number.isFinite(v) ? v : '');
+const blank = cellNumber;
 
 /** The segment summaries each model is about, as columns of the breaks table. */
 function summaryFields(model: string): (keyof SegmentSummary)[] {

@@ -6,8 +6,6 @@
  * requests to the page's worker pool, so no calculation blocks Excel and the
  * pane and the functions share one cache and one pool.
  */
-import { pageRuntime } from '../runtime/browser/pageRuntime';
-import { useCompute } from './compute';
 import { smooth, penalty, summary, knots, evaluateAt, compare } from './smoothing';
 import { breaks, segments, breakScan, breakPath } from './breaks';
 import { options } from './options';
@@ -27,9 +25,6 @@ export const worksheetFunctions: Record<string, (...args: any[]) => any> = {
   COMPARE: compare,
   DECOMPOSE: decompose,
 };
-
-const runtime = pageRuntime();
-if (runtime.pool) useCompute((request, signal) => runtime.client.compute(request, { signal }));
 
 if (typeof CustomFunctions !== 'undefined') {
   for (const [id, fn] of Object.entries(worksheetFunctions)) CustomFunctions.associate(id, fn);

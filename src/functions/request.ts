@@ -4,7 +4,7 @@
  * validates them once and its messages name what to fix.
  */
 import { AnalysisFamily, AnalysisResult, findAnalysis } from '../engine';
-import { Matrix, Orientation, optionalText, readInputs } from './cells';
+import { Matrix, Orientation, optionalText, readInputs, scalar } from './cells';
 import { Cancel, compute } from './compute';
 import { parseSettings } from './settings';
 
@@ -26,7 +26,7 @@ export async function analyseCells(y: Matrix, a: SheetArgs, family: AnalysisFami
   const d = readInputs(y, a.x, a.weights);
   const method = optionalText(a.method)?.trim() || defaultMethod;
   const { def } = findAnalysis(method, family);
-  const settings = a.settings === undefined || a.settings === null ? undefined : Array.isArray(a.settings) ? (a.settings as unknown[][])[0]?.[0] : a.settings;
+  const settings = scalar(a.settings);
   const options = { ...parseSettings(settings, def.options), ...(a.extra ?? {}) };
   const result = await compute({ analysis: method, family, y: d.y, x: d.x, w: d.w, options }, cancel);
   return { result, orientation: d.orientation };

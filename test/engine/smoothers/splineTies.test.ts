@@ -16,8 +16,8 @@ describe('spline GCV with tied x', () => {
     test(`GCV on ${c.name} (${c.n_obs} rows, ${c.n_distinct} distinct x) chooses R's df`, () => {
       const r = runAnalysis({ analysis: 'spline', y: c.y, x: c.x });
       expect(r.series.tiesMerged).toBe(c.n_obs - c.n_distinct);
-      expect(Math.abs(r.smooth!.df - c.df)).toBeLessThan(2e-3);
-      expect(Math.abs(r.smooth!.criterion.value - c.cv_crit) / c.cv_crit).toBeLessThan(1e-4);
+      expect(Math.abs(r.smooth!.df - c.df)).toBeLessThan(5e-4);
+      expect(Math.abs(r.smooth!.criterion.value - c.cv_crit) / c.cv_crit).toBeLessThan(2e-5);
     });
   }
 
