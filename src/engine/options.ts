@@ -3,7 +3,6 @@
  * offending value and the allowed range.
  */
 import { KnotwiseError, showNumber } from './errors';
-import type { FitOptions, SelectRule } from './types';
 
 /** A finite number >= 0 (a penalty). */
 export function checkPenalty(v: unknown, name = 'penalty'): number {
@@ -37,15 +36,6 @@ export function checkChoice<T extends string>(v: unknown, name: string, allowed:
   return hit;
 }
 
-/**
- * Options for a penalty rule as users write it: "cv-1se" is cross-validation
- * with the one-standard-error rule; any other name is passed as `select`,
- * where the method checks it. The one translation every front uses.
- */
-export function ruleOptions(rule: string): Pick<FitOptions, 'select' | 'oneSE'> {
-  const r = rule.trim().toLowerCase();
-  return r === 'cv-1se' ? { select: 'cv', oneSE: true } : { select: r as SelectRule };
-}
 
 /** An option value as printed in messages: numbers short, text quoted, arrays bracketed. */
 export function describeValue(v: unknown): string {

@@ -19,7 +19,7 @@ export function boundaryWarning(): Warning {
  * fit is that constant whatever the penalty, and there is no noise to follow
  * (the intake's note says the values are all equal).
  */
-export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string): Warning[] {
+export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string, folds = 5): Warning[] {
   const out: Warning[] = [];
   if (y && isConstant(y)) return out;
   if (df > n / 3 && n > 6) {
@@ -27,7 +27,8 @@ export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dat
   }
   if (dataDriven && n >= 20) {
     const r1 = lagOneAutocorrelation(resid);
-    const dep = y ? noiseDependence(y, 5) : undefined;
+    // the same plan cross-validation used (same y, same folds), so the message describes the folds it ran
+    const dep = y ? noiseDependence(y, folds) : undefined;
     // warn only on clear dependence (about three standard errors of the estimate, and at least 0.25); below that the
     // cross-validation plan still leaves neighbours out, quietly, since doing so costs little either way
     if (dep && dep.buffer > 0 && dep.phi > Math.max(0.25, 3 / Math.sqrt(n))) {

@@ -14,7 +14,6 @@
  * (common practice; Hastie, Tibshirani & Friedman 2009, section 7.10).
  */
 import type { RunContext } from '../analysis/runContext';
-import { foldOf } from './foldOf';
 import { blockFolds, noiseDependence, NoiseDependence } from './noiseDependence';
 
 /**
@@ -43,17 +42,18 @@ export interface CrossValidation {
  * @param penalties - the penalties to score, in the order the predictor wants them
  * @param predict - the method's fold predictor
  * @param context - progress per fold (optional)
+ * @param plan - the fold plan ({@link noiseDependence} of y with these folds, computed when not given);
+ *   callers that score one penalty at a time compute it once and pass it
  * @example
  * ```ts
  * const cv = crossValidate(y, w, 5, grid, (tr, te, pens) => pens.map((p) => fitAndPredict(tr, te, p)));
  * ```
  */
-export function crossValidate(y: ArrayLike<number>, w: ArrayLike<number>, folds: number, penalties: Float64Array, predict: FoldPredictor, context?: RunContext, stage = 'cross-validation'): CrossValidation {
+export function crossValidate(y: ArrayLike<number>, w: ArrayLike<number>, folds: number, penalties: Float64Array, predict: FoldPredictor, context?: RunContext, stage = 'cross-validation', plan: NoiseDependence = noiseDependence(y, folds)): CrossValidation {
   const n = y.length;
   const K = folds;
   const G = penalties.length;
-  const plan = noiseDependence(y, K);
-  const fold = plan.buffer > 0 ? blockFolds(n, K, plan) : foldOf(n, K);
+  const fold = blockFolds(n, K, plan);
   const err = new Float64Array(K * G);
   const keep = new Uint8Array(n);
   for (let f = 0; f < K; f++) {

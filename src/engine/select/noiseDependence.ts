@@ -109,9 +109,10 @@ export function variogramPhi(y: ArrayLike<number>): number {
 }
 
 /**
- * Fold of each point under a plan: ordinary interleaved folds without a
- * buffer ({@link foldOf}), else blocks of `block` points dealt to the folds in
- * turn; the first and last points are never held out. Unchecked.
+ * Fold of each point under a plan: blocks of `block` points dealt to the folds
+ * in turn (with block 1, the plan without a buffer, these are the ordinary
+ * interleaved folds of {@link foldOf}); the first and last points are never
+ * held out. Unchecked.
  */
 export function blockFolds(n: number, folds: number, plan: NoiseDependence): Int32Array {
   const f = new Int32Array(n);

@@ -36,6 +36,7 @@ import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
 import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
 import { solveForDf } from '../select/solveForDf';
 import { crossValidate } from '../select/crossValidate';
+import { noiseDependence } from '../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { weightedMoments } from '../weightedMoments';
@@ -121,6 +122,7 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
  */
 function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: number } {
   const systems = new Map<number, { sys: ReinschSystem; t: Float64Array }>();
+  const plan = noiseDependence(s.y, k); // once: the folds are the same for every penalty tried
   const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {
     let f = systems.get(held[0]);
     if (!f) {
@@ -135,7 +137,7 @@ function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: nu
     });
   };
   return (lt) => {
-    const cv = crossValidate(s.y, s.w, k, Float64Array.of(lt), predict);
+    const cv = crossValidate(s.y, s.w, k, Float64Array.of(lt), predict, undefined, undefined, plan);
     return { score: cv.score[0], se: cv.se[0] };
   };
 }
@@ -247,7 +249,7 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
   for (let i = 0; i < n; i++) se[i] = sigma * Math.sqrt(Math.max(0, sol.leverage![i]) / series.w[i]);
   const gx = ys / (s.xs * s.xs);
   const gamma = sol.gamma.map((v) => v * gx);
-  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined, series.y, opts.select));
+  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined, series.y, opts.select, opts.folds));
   warnings.push(boundaryWarning());
   const model: SplineModel = { x: series.x, g: fitted, gamma };
   return {

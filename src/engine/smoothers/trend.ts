@@ -356,7 +356,7 @@ function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: Trend
     }
     warnings.push(warning('not-converged', `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum (||fit - optimum||_W <= sqrt(2 gap)). Increase maxIterations or use a smaller penalty.`));
   }
-  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name));
+  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name, s.folds));
   warnings.push(boundaryWarning());
   const model: TrendModel = { x, l1, order: k, relaxed: s.relaxed, refit };
   return {

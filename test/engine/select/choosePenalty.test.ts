@@ -62,3 +62,22 @@ describe('penalty rules on the demo orders', () => {
     expect(bic.df).toBeLessThan(153 / 4);
   });
 });
+
+describe('crossValidate with a buffer', () => {
+  test('crossValidate leaves the neighbours of held-out points out of training, and holds out blocks', () => {
+    const n = 60;
+    const y = Array.from({ length: n }, (_, i) => Math.sin(i));
+    const seen: { train: Int32Array; held: Int32Array }[] = [];
+    crossValidate(y, y.map(() => 1), 5, Float64Array.of(1), (train, held, pens) => {
+      seen.push({ train: Int32Array.from(train), held: Int32Array.from(held) });
+      return Array.from(pens, () => new Float64Array(held.length));
+    }, undefined, undefined, { phi: 0.5, buffer: 2, block: 6 });
+    expect(seen).toHaveLength(5);
+    for (const { train, held } of seen) {
+      for (const t of train) for (const h of held) expect(Math.abs(t - h)).toBeGreaterThan(2);
+      // blocks of 6 consecutive interior points (the first and last points are never held out)
+      const h0 = held[0];
+      expect(Array.from(held.slice(0, 6))).toEqual(Array.from({ length: 6 }, (_, j) => h0 + j));
+    }
+  });
+});

@@ -16,6 +16,7 @@ import { QUIET, RunContext } from '../../analysis/runContext';
 import { searchLogPenalty, PenaltyScore } from '../../select/searchLogPenalty';
 import { solveForDf } from '../../select/solveForDf';
 import { crossValidate } from '../../select/crossValidate';
+import { noiseDependence } from '../../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
 import { whittakerFit } from './whittakerFit';
@@ -104,9 +105,10 @@ export function fitWhittaker(series: Series, s: WhittakerSettings, context: RunC
         for (let t = 0; t < train.length; t++) w[train[t]] = series.w[train[t]];
         return Array.from(pens, (l) => { const f = whittakerFit(series.x, series.y, w, l, d).fitted; return Float64Array.from(held, (i) => f[i]); });
       };
+      const plan = noiseDependence(series.y, k); // once: the folds are the same for every penalty tried
       score = (l) => {
         context.step(Math.min(0.95, evaluations++ / expected), 'trying penalties (cross-validation)');
-        const cv = crossValidate(series.y, series.w, k, Float64Array.of(l), predict);
+        const cv = crossValidate(series.y, series.w, k, Float64Array.of(l), predict, undefined, undefined, plan);
         return { score: cv.score[0], se: cv.se[0], df: gcv(l).df };
       };
     }
