@@ -69,7 +69,9 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
     const row: CandidateRow = { method: def.name, options: { ...v.options }, label: v.label, penalty: NaN, df: NaN, cv: NaN, se: NaN, milliseconds: 0 };
     try {
       // the season (if any) was taken out once, before the candidates: they smooth the series as it is now
-      const opts = resolveOptions(def.options, { ...v.options, rule: 'cv', folds, ...(def.options.some((o) => o.name === 'season') ? { season: 'none' } : {}) }, def.name).options;
+      // every candidate chooses by cross-validation: through its rule, or through its variant's options (wavelet: threshold=cv)
+      const declares = (name: string) => def.options.some((o) => o.name === name);
+      const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...(declares('season') ? { season: 'none' } : {}) }, def.name).options;
       if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
       const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
       const fit = core.smooth!;

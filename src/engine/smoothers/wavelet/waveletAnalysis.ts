@@ -10,7 +10,18 @@ import { Warning, warning } from '../../warnings';
 import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../../analysis/optionDeclaration';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
-import { waveletShrink, type WaveletShrinkOptions } from './waveletShrink';
+import { waveletShrink, type WaveletShrinkOptions, type WaveletShrinkResult } from './waveletShrink';
+import { waveletCrossValidate, waveletDf } from './waveletCrossValidate';
+import type { Criterion } from '../../types';
+import { QUIET, type RunContext } from '../../analysis/runContext';
+
+/** Settings of {@link fitWavelet}: the shrinkage's shape, and the threshold rule including cross-validation. */
+export interface WaveletSettings extends Omit<WaveletShrinkOptions, 'threshold' | 'x' | 'fixedThreshold'> {
+  /** 'sure', 'universal', or chosen by cross-validation ('cv', 'cv-simpler'). */
+  threshold?: 'sure' | 'universal' | 'cv' | 'cv-simpler';
+  /** Folds for 'cv' and 'cv-simpler' (default 10, fewer on short series). */
+  folds?: number;
+}
 import { WAVELET_FILTER_NAMES, type WaveletFilterName } from './waveletFilters';
 import { interpolateFit } from '../whittaker/interpolateFit';
 
@@ -25,11 +36,24 @@ import { interpolateFit } from '../whittaker/interpolateFit';
  * fitWavelet(series, { filter: 'sym8', threshold: 'sure' }).fitted;
  * ```
  */
-export function fitWavelet(series: Series, o: WaveletShrinkOptions): FitResult {
+export function fitWavelet(series: Series, o: WaveletSettings, context: RunContext = QUIET): FitResult {
   const n = series.n;
-  const r = waveletShrink(series.y, { ...o, x: series.x });
+  const { folds, ...shape } = o;
+  let r: WaveletShrinkResult;
+  let criterion: Criterion;
   const warnings: Warning[] = [...series.warnings];
-  const df = ((r.kept + (r.transformLength >> r.levels)) * n) / r.transformLength;
+  if (o.threshold === 'cv' || o.threshold === 'cv-simpler') {
+    const k = Math.max(2, Math.min(folds ?? 10, n - 2));
+    const choice = waveletCrossValidate(series, { ...shape, threshold: undefined, x: series.x }, k, o.threshold === 'cv' ? 'minimum' : 'simpler', context);
+    r = choice.shrink;
+    criterion = choice.criterion;
+    if (choice.side === 'rough') warnings.push(warning('penalty-at-edge', `The cross-validation choice is the smallest wavelet threshold tried (${showNumber(choice.threshold)}): nearly every detail is kept, so the fit may follow noise.`));
+    if (choice.side === 'smooth') warnings.push(warning('penalty-at-edge', `The cross-validation choice removes every wavelet detail (threshold ${showNumber(choice.threshold)}): the fit is the coarsest approximation of ${r.levels} levels; the data show no detail above the noise at finer scales.`));
+  } else {
+    r = waveletShrink(series.y, { ...shape, threshold: o.threshold, x: series.x });
+    criterion = { name: o.threshold ?? 'universal', value: r.thresholds[0] };
+  }
+  const df = waveletDf(r, n);
   const resid = new Float64Array(n);
   let rss = 0;
   for (let i = 0; i < n; i++) { resid[i] = series.y[i] - r.fitted[i]; rss += series.w[i] * resid[i] * resid[i]; }
@@ -41,7 +65,7 @@ export function fitWavelet(series: Series, o: WaveletShrinkOptions): FitResult {
   return {
     method: 'wavelet', options: { method: 'wavelet' }, x: series.x, fitted: r.fitted, penalty: r.thresholds[0], df,
     sigma: n > df + 1e-9 ? Math.sqrt(rss / (n - df)) : NaN,
-    criterion: { name: o.threshold ?? 'universal', value: r.thresholds[0] },
+    criterion,
     knots: [], warnings, solver: r.status,
     model: { x: series.x, fitted: r.fitted, sigma: r.sigma, thresholds: r.thresholds, levels: r.levels, note: `noise ${showNumber(r.sigma)} from the finest details` },
   };
@@ -57,25 +81,33 @@ export const waveletAnalysis: AnalysisDefinition = {
     { name: 'filter', kind: 'choice', choices: WAVELET_FILTER_NAMES, default: 'sym8', help: 'wavelet: db1 (Haar, blocky) to db10, or the more symmetric sym4 to sym10 (default sym8)' },
     { name: 'levels', kind: 'integer', min: 1, max: 30, help: 'number of detail levels shrunk (default: as many as the filter length allows)' },
     {
-      name: 'threshold', kind: 'choice', choices: ['sure', 'universal'], default: 'sure',
-      choiceHelp: { sure: "a threshold per level from Stein's unbiased risk estimate (SureShrink)", universal: 'one threshold sigma * sqrt(2 log n) for all levels (VisuShrink): smoother, removes more' },
-      help: 'how the threshold is set: sure (default) or universal',
+      name: 'threshold', kind: 'choice', choices: ['sure', 'universal', 'cv', 'cv-simpler'], default: 'sure',
+      choiceHelp: {
+        sure: "a threshold per level from Stein's unbiased risk estimate (SureShrink)",
+        universal: 'one threshold sigma * sqrt(2 log n) for all levels (VisuShrink): smoother, removes more',
+        cv: 'one threshold for all levels that best predicts held-out points (cross-validation)',
+        'cv-simpler': 'the largest threshold within one standard error of the best cross-validated one',
+      },
+      help: 'how the threshold is set: sure (default), universal, cv or cv-simpler',
     },
+    { name: 'folds', kind: 'integer', min: 2, max: 50, onlyWith: { option: 'threshold', values: ['cv', 'cv-simpler'] }, help: 'number of cross-validation folds (default 10, fewer on short series)' },
     { name: 'shrink', kind: 'choice', choices: ['soft', 'hard'], default: 'soft', help: 'soft (default) pulls every kept coefficient toward zero by the threshold; hard keeps it whole (universal threshold only)' },
     { name: 'boundary', kind: 'choice', choices: ['reflect', 'periodic'], default: 'reflect', help: 'how the ends are treated: reflect (default) mirrors the series, periodic wraps the end to the start' },
     { name: 'shifts', kind: 'integer', min: 1, max: 64, default: 1, help: 'average over this many shifted copies (cycle spinning) to remove the blockiness of one transform (default 1)' },
   ],
   ties: 'merge',
   minPoints: () => 8,
-  run(series: Series, o: ResolvedOptions) {
+  autoVariants: [{ label: 'a denoised curve that keeps jumps and spikes (wavelet shrinkage)', options: { threshold: 'cv' }, simplicity: 2 }],
+  run(series: Series, o: ResolvedOptions, context: RunContext) {
     const smooth = fitWavelet(series, {
       filter: o.filter as WaveletFilterName,
       ...(o.levels !== undefined ? { levels: o.levels as number } : {}),
-      threshold: o.threshold as 'sure' | 'universal',
+      threshold: o.threshold as WaveletSettings['threshold'],
+      ...(o.folds !== undefined ? { folds: o.folds as number } : {}),
       shrink: o.shrink as 'soft' | 'hard',
       boundary: o.boundary as 'reflect' | 'periodic',
       shifts: o.shifts as number,
-    });
+    }, context);
     return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
   },
   evaluate: (result, x) => {

@@ -22,6 +22,11 @@ export interface WaveletShrinkOptions {
   shifts?: number;
   /** Positions; when given they must be equally spaced (the transform assumes it). */
   x?: ArrayLike<number>;
+  /**
+   * One threshold for every level, in units of y (>= 0), instead of the `threshold` rule:
+   * the value a cross-validated choice hands in ({@link waveletCrossValidate}).
+   */
+  fixedThreshold?: number;
 }
 
 /** Result of {@link waveletShrink}. */
@@ -38,6 +43,8 @@ export interface WaveletShrinkResult {
   transformLength: number;
   /** Nonzero detail coefficients kept (first shift), of transformLength - (approximation length). */
   kept: number;
+  /** Largest |detail coefficient| of the unshifted transform: any threshold from here on removes every detail (units of y). */
+  maxDetail: number;
   status: SolverStatus;
 }
 
@@ -109,6 +116,10 @@ export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOption
     if (!Number.isFinite(ys[i])) throw new KnotwiseError('bad-data', `y at position ${i + 1} is not a finite number: ${showNumber(ys[i])}.`);
   }
   if (options.x !== undefined) checkEqualSpacing(options.x, n);
+  const fixed = options.fixedThreshold;
+  if (fixed !== undefined && !(typeof fixed === 'number' && fixed >= 0 && fixed < Infinity)) {
+    throw new KnotwiseError('bad-option', `the threshold must be a finite number from 0; got ${typeof fixed === 'number' ? showNumber(fixed) : String(fixed)}.`);
+  }
 
   // extended series
   const block = boundary === 'reflect' ? 1 << (levels - 1) : 1 << levels;
@@ -125,13 +136,16 @@ export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOption
   const sigma = medianAbs(finest) / 0.6745;
   const thresholds: number[] = [];
   for (let j = 1; j <= levels; j++) {
-    if (rule === 'universal') thresholds.push(sigma * Math.sqrt(2 * Math.log(n)));
+    if (fixed !== undefined) thresholds.push(fixed);
+    else if (rule === 'universal') thresholds.push(sigma * Math.sqrt(2 * Math.log(n)));
     else if (!(sigma > 0)) thresholds.push(0);
     else {
       const dj = c0.subarray(M >> j, M >> (j - 1));
       thresholds.push(sigma * sureThreshold(Float64Array.from(dj, (v) => v / sigma)).threshold);
     }
   }
+  let maxDetail = 0;
+  for (let i = M >> levels; i < M; i++) maxDetail = Math.max(maxDetail, Math.abs(c0[i]));
   const out = new Float64Array(n);
   let kept = 0;
   const shifted = new Float64Array(M);
@@ -158,7 +172,7 @@ export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOption
   }
   if (shifts > 1) for (let i = 0; i < n; i++) out[i] /= shifts;
   return {
-    fitted: out, sigma, thresholds, levels, filter, boundary, transformLength: M, kept,
+    fitted: out, sigma, thresholds, levels, filter, boundary, transformLength: M, kept, maxDetail,
     status: { converged: true, iterations: shifts, tolerance: 0, achieved: 0, stoppingRule: 'direct: one transform, shrinkage and inverse per shift' },
   };
 }
