@@ -16,6 +16,7 @@ import { loessFit, type LoessFit } from './loessFit';
 import { loessSelectSpan } from './loessSelectSpan';
 import { loessPredict } from './loessPredict';
 import { crossValidate } from '../../select/crossValidate';
+import { interpolateFit } from '../whittaker/interpolateFit';
 import { choosePenalty } from '../../select/choosePenalty';
 import type { CriterionPoint } from '../../types';
 
@@ -62,6 +63,10 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
       const hx = Float64Array.from(held, (i) => series.x[i]);
       return Array.from(pens, (sp) => {
         const f = loessFit(tx, ty, tw, { span: sp, ...common });
+        // when the training fit is itself interpolated between anchor points (long series), its curve is the
+        // straight line between neighbouring training points, exactly; held-out points (never the first or last)
+        // lie between training points, so they are predicted on that curve, as the fit would be evaluated
+        if (f.anchors < tx.length) return interpolateFit(tx, f.fitted, hx).value;
         return loessPredict(tx, ty, tw, f.robustnessWeights, sp, s.degree, hx);
       });
     };
