@@ -190,7 +190,8 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       const below = new Int32Array(n);
       for (let i = 0, t = -1, a = 0; i < n; i++) { if (a < tr.length && tr[a] === i) { t++; a++; } below[i] = t; }
       for (let j = 0; j < pens.length; j++) {
-        const guess = foldGuess(pts[j].seed, below, k, tr.length);
+        // the full-data fit at this penalty (the folds are scored on the path's own grid)
+        const guess = pens[j] === grid[j] ? foldGuess(pts[j].seed, below, k, tr.length) : undefined;
         const fit = solveTrend(sub, pens[j] * (swt / swAll), { tolerance: Math.max(s.tolerance, CV_TOLERANCE), maxIterations: s.maxIterations, warm: wf, refine: false, guess });
         wf = fit;
         const pred = interpolateTrend(xt, fit.b, k, xh).value;
