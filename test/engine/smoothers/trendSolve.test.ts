@@ -3,10 +3,10 @@
  * knots (a path point's seed), and cross-validation solves that do not stop at a stalled
  * interior point. Optimality is checked by the dense KKT checker of trendKkt.ts.
  */
-import { solveTrend, seedOf, TrendProblem } from '../../../src/engine/smoothers/trend/solveTrend';
+import { solveTrend, seedOf, TrendProblem, WARM_RULE } from '../../../src/engine/smoothers/trend/solveTrend';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
-import { checkTrendKkt } from './trendKkt';
+import { checkTrendKkt, denseDifference } from './trendKkt';
 import { seededNormal } from './trendTestFunctions';
 
 function problem(n: number, k: number, seed: number): TrendProblem {
@@ -86,5 +86,45 @@ describe('solveTrend', () => {
     expect(again.settled).toBe(true);
     expect(again.rows).toEqual(rows);
     expect(again.signs).toEqual(signs);
+  });
+
+  test('order 1 along a path: the active-set method from the previous penalty\'s knots meets the KKT conditions at each penalty, with its gap certified', () => {
+    const k = 1;
+    const p = problem(300, k, 81);
+    const lmax = trendLambdaMax(p.x, p.y, p.w, k);
+    let warm = solveTrend(p, 1e-2 * lmax, { tolerance: 1e-8, maxIterations: 200 });
+    let warmStarted = 0;
+    for (const ratio of [6e-3, 3e-3, 1.5e-3, 7e-4]) {
+      const lam = ratio * lmax;
+      const r = solveTrend(p, lam, { tolerance: 1e-8, maxIterations: 200, warm });
+      if (r.status.stoppingRule === WARM_RULE) warmStarted++;
+      expect(r.status.converged).toBe(true);
+      expect(r.status.achieved).toBeLessThanOrEqual(1e-8);
+      const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, k, lam);
+      expect(kkt.boxExcess).toBeLessThan(1e-6);
+      expect(kkt.signError).toBeLessThan(1e-6);
+      expect(kkt.stationarity).toBeLessThan(1e-8);
+      warm = r;
+    }
+    // the strategy under test ran (not only the interior point behind it)
+    expect(warmStarted).toBeGreaterThan(0);
+  });
+
+  test('order 1 with a guess of the knots (a fold started from the full-data fit): a wrong guess still ends at the optimum', () => {
+    const k = 1;
+    const p = problem(250, k, 91);
+    const lam = 2e-3 * trendLambdaMax(p.x, p.y, p.w, k);
+    for (const guess of [{ rows: [5, 100, 200], signs: [1, -1, 1] }, { rows: [], signs: [] }]) {
+      const r = solveTrend(p, lam, { tolerance: 1e-5, maxIterations: 200, refine: false, guess });
+      expect(r.status.converged).toBe(true);
+      expect(r.status.achieved).toBeLessThanOrEqual(1e-5);
+      // the certified gap bounds the distance to the optimum: ||b - b*||_W <= sqrt(2 gap), gap = achieved P(b)
+      const exact = solveTrend(p, lam, { tolerance: 1e-12, maxIterations: 200 });
+      const D = denseDifference(p.x, k + 1);
+      let d2 = 0, P = 0;
+      for (let i = 0; i < p.y.length; i++) { d2 += p.w[i] * (r.b[i] - exact.b[i]) ** 2; P += 0.5 * p.w[i] * (p.y[i] - r.b[i]) ** 2; }
+      for (const row of D) P += lam * Math.abs(row.reduce((acc, v, i) => acc + v * r.b[i], 0));
+      expect(Math.sqrt(d2)).toBeLessThanOrEqual(Math.sqrt(2 * r.status.achieved * P) * 1.01 + 1e-9);
+    }
   });
 });

@@ -1,7 +1,7 @@
 import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
 import type { BasisCache } from '../../basis/discreteBSplines';
 import { dualFromResidual } from '../../linalg/dualFromResidual';
-import { boxRelative } from './polishTrend';
+import { boxRelative, certify, PolishResult } from './polishTrend';
 
 /** Result of {@link activeSetNewton}. */
 export interface ActiveSetNewtonResult {
@@ -14,6 +14,11 @@ export interface ActiveSetNewtonResult {
   rounds: number;
   /** Rows changed (left or joined) in each round. */
   changes: number[];
+  /**
+   * The certified fit (as the refinement of {@link polishTrend} reports it) of the last round when
+   * the method settled, or of the first round whose certified relative gap was at most `stopGap`.
+   */
+  fit?: PolishResult;
 }
 
 /**
@@ -34,9 +39,15 @@ export interface ActiveSetNewtonResult {
  * stops unsettled after `maxRounds`, or as soon as a round changes more than twice as many rows
  * (plus 2) as the one before.
  *
+ * With `stopOnRepeat` it also stops unsettled when an active set repeats (the method cycles
+ * among a few rows: a monotone method such as {@link polishTrend} finishes from there). With `stopGap` each round's restricted solution is certified ({@link certify}: its relative
+ * duality gap after scaling u into the box, valid for any round, settled or not) and the method
+ * stops at the first round at or below `stopGap`; a settled round is certified in any case, so
+ * no further refinement round is needed to confirm it.
+ *
  * Works on x scaled to [0, 1]; O(n k^2) per round. Unchecked.
  */
-export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache): ActiveSetNewtonResult {
+export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache, stopGap = 0, stopOnRepeat = false): ActiveSetNewtonResult {
   const n = x.length;
   const m = n - k - 1;
   const lim = lambda * (1 + boxRelative(n, k));
@@ -45,6 +56,8 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const g = new Float64Array(n), work = new Float64Array(n);
   let rounds = 0;
   const changes: number[] = [];
+  // active sets met so far (by two 32-bit hashes of the signed rows and their count)
+  const seen = new Set<string>();
   while (rounds < maxRounds) {
     const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache);
     rounds++;
@@ -70,11 +83,31 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       r = e;
     }
     changes.push(changed);
-    if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes };
+    if (changed === 0 || stopGap > 0) {
+      // the round's solution: D b is (D b)_A on A and exactly zero elsewhere
+      const db = new Float64Array(m);
+      let dmax = 0;
+      for (let i = 0; i < A.length; i++) { db[A[i]] = sol.dA[i]; dmax = Math.max(dmax, Math.abs(sol.dA[i])); }
+      const fit = certify(y, w, lambda, { b: sol.b, u, g: Float64Array.from(g), db, rows: A, dmax }, changed === 0, rounds);
+      if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
+      if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };
+    }
     A = nA;
     S = nS;
     // more than twice the changes of the round before: diverging from this start
     if (changes.length >= 2 && changed > 2 * changes[changes.length - 2] + 2) break;
+    // an active set met before: the method cycles
+    if (stopOnRepeat) {
+      let h1 = 0x811c9dc5 | 0, h2 = 17;
+      for (let i = 0; i < A.length; i++) {
+        const v = 2 * A[i] + (S[i] > 0 ? 1 : 0);
+        h1 = Math.imul(h1 ^ v, 0x01000193);
+        h2 = (Math.imul(h2, 31) + v) | 0;
+      }
+      const key = `${A.length}:${h1}:${h2}`;
+      if (seen.has(key)) break;
+      seen.add(key);
+    }
   }
   return { settled: false, rows: A, signs: S, rounds, changes };
 }

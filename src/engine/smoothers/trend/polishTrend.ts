@@ -171,9 +171,9 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
  * lambda ||D b||_1 - u.D b over the active rows plus the cost of scaling u into the box
  * (no cancellation of P against G). D b is exactly zero off the active rows (the
  * restricted solve's space). Unless `optimal` (no row violates by more than
- * {@link boxRelative}), accepted only when delta <= 1e-4.
+ * {@link boxRelative}), accepted only when delta <= 1e-4. Unchecked.
  */
-function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number): PolishResult {
+export function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number): PolishResult {
   const fail: PolishResult = { ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
   if (!last) return fail;
   const { b, u, g, db, rows, dmax } = last;
@@ -202,4 +202,5 @@ function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifi
   return { ok: true, b, u: Float64Array.from(u, (v) => v * scale), knots, dKnots: Float64Array.from(knots, (r) => db[r]), achieved: obj > 0 ? gap / obj : 0, rounds };
 }
 
-interface Certifiable { b: Float64Array; u: Float64Array; g: Float64Array; db: Float64Array; rows: number[]; dmax: number }
+/** A restricted solution with its recovered dual, as {@link certify} takes it. Unchecked. */
+export interface Certifiable { b: Float64Array; u: Float64Array; g: Float64Array; db: Float64Array; rows: number[]; dmax: number }

@@ -69,6 +69,8 @@ export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations 
 
 export const ACTIVE_SET_RULE = 'exact active-set refinement from a known knot set, kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots';
 
+export const WARM_RULE = 'primal-dual active-set rounds (Hintermueller, Ito & Kunisch 2002) from the previous penalty\'s knots, kept only with a duality-gap certificate at most the tolerance: u from D^T u = W (y - b) scaled into the box |u| <= lambda, gap = lambda ||D b||_1 - u.D b plus the cost of the scaling';
+
 export const TREND_RULE = `${INTERIOR_POINT_RULE}; from its knots, at most ${NEWTON_ROUNDS} rounds of an active-set Newton method, whose settled knots are kept only with a duality-gap certificate (else the interior point's answer stands); where the interior point stalls, for order 1 ${ADMM_RULE}, stopping early once its knots are unchanged for ${ADMM_STABLE_ITERATIONS} iterations, then an exact active-set refinement kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
 /** Relative size below which an entry of D b counts as zero for k >= 1 without refinement: the interior-point error in D b off the knots is of order gap / (m * distance of u to the bound), far below this. */
@@ -92,6 +94,11 @@ export interface SolveTrendOptions {
   refine?: boolean;
   /** Knots and signs of an exact fit at this penalty (a path point): rebuilt first. */
   seed?: KnotSeed;
+  /**
+   * A guess of the knots and signs (a fit of nearby data at this penalty, such as the full-data
+   * fit for a cross-validation fold): the active-set method starts from it instead of `warm`'s knots.
+   */
+  guess?: KnotSeed;
 }
 
 /** What the strategies of {@link solveTrend} share for one solve. Unchecked. */
@@ -114,6 +121,10 @@ interface SolveContext {
  *    polynomial fit (exact).
  * 2. {@link fromSeed}: with `seed` (an exact fit's knots and signs at this penalty) the
  *    refinement rebuilds it in a round or two.
+ * 2b. {@link fromWarmActiveSet} (order 1): with `guess` (a fold's start from the full-data
+ *    fit) or a converged `warm` fit, the primal-dual active-set method (Hintermueller, Ito &
+ *    Kunisch 2002) from those knots, finished if it cycles by the monotone refinement, each
+ *    result kept only with its duality-gap certificate.
  * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}).
  *    With `refine` false (cross-validation folds) a converged one is returned as it is. Else,
  *    when it converges, the active-set Newton method ({@link activeSetNewton}, at most
@@ -138,7 +149,43 @@ export function solveTrend(prob: TrendProblem, lambda: number, opt: SolveTrendOp
   const exact = exactFit(prob, lambda, opt.tolerance);
   if (exact) return exact;
   const ctx: SolveContext = { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 };
-  return fromSeed(ctx) ?? interiorPointThenRefine(ctx);
+  return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
+}
+
+/** Rounds of the active-set Newton method started from the previous penalty's knots. */
+const WARM_NEWTON_ROUNDS = 30;
+
+/** Round limit of that refinement. */
+const WARM_POLISH_ROUNDS = 60;
+
+/**
+ * Strategy 2b: along a path (or a fold's path) the previous penalty's knots are a near-right
+ * active set. The primal-dual active-set method of {@link activeSetNewton} (M. Hintermueller,
+ * K. Ito and K. Kunisch, "The primal-dual active set strategy as a semismooth Newton method",
+ * SIAM J. Optim. 13 (2002) 865-888) starts from them, one banded solve per round; its settled
+ * round carries the duality-gap certificate. Without refinement (cross-validation folds) the
+ * first round certified at the tolerance is enough. When the rounds cycle (an active set repeats)
+ * or run out, the monotone refinement of {@link polishTrend} finishes from the last active set.
+ * Not certified: undefined, and the interior point takes over.
+ *
+ * Order 1 only: measured on cross-validation (5 folds x 30 penalties, n = 3000 to 5000) it halves
+ * the work of order 1, while for orders 2 and 3 (duals of third and fourth differences, far worse
+ * conditioned) the rounds mostly cycle or run out and the interior point alone was faster. Unchecked.
+ */
+function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
+  const { warm, guess, refine = true, tolerance } = ctx.opt;
+  const { prob, lambda, f } = ctx;
+  if (prob.k !== 1) return undefined;
+  let rows: ArrayLike<number>, signs: ArrayLike<number>;
+  if (guess) { rows = guess.rows; signs = guess.signs; }
+  else if (warm && warm.status.converged) { rows = warm.knotRows; signs = warm.knotRows.map((r) => (warm.u[r] >= 0 ? 1 : -1)); }
+  else return undefined;
+  const asn = activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true);
+  ctx.iterations += asn.rounds;
+  let pol = asn.fit;
+  // cycling among a few rows: the monotone refinement finishes from the last active set
+  if (!(pol && pol.ok && pol.achieved <= tolerance)) pol = refineFromKnots(ctx, asn.rows, asn.signs, WARM_POLISH_ROUNDS);
+  return pol && pol.ok && pol.achieved <= tolerance ? refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds, undefined, WARM_RULE) : undefined;
 }
 
 /** Exact answers without iterations: k = 0 (dynamic programming) and lambda >= lambda_max (the polynomial). Unchecked. */
@@ -184,12 +231,12 @@ function cacheOf(prob: TrendProblem): BasisCache {
 }
 
 /** The refinement of {@link polishTrend} on x01 started from given knot rows and signs (dual on the bound there). Unchecked. */
-function refineFromKnots(ctx: SolveContext, rows: ArrayLike<number>, signs: ArrayLike<number>): PolishResult {
+function refineFromKnots(ctx: SolveContext, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds?: number): PolishResult {
   const { prob, lambda, f } = ctx;
   const n = prob.x.length;
   const start = new Float64Array(n - prob.k - 1);
   for (let j = 0; j < rows.length; j++) start[rows[j]] = (signs[j] >= 0 ? 1 : -1) * (lambda / f);
-  const pol = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, undefined, ctx.poly.b, rows, cacheOf(prob));
+  const pol = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, maxRounds, ctx.poly.b, rows, cacheOf(prob));
   ctx.iterations += pol.rounds;
   return pol;
 }
@@ -234,7 +281,8 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     const asn = activeSetNewton(x01, y, w, k, lambda / f, rows, rows.map((r) => (sol.u[r] >= 0 ? 1 : -1)), NEWTON_ROUNDS, cache);
     ctx.iterations += asn.rounds;
     if (asn.settled) {
-      pol = refineFromKnots(ctx, asn.rows, asn.signs);
+      // the settled round comes certified; a refinement round only when its certificate failed
+      pol = asn.fit ?? refineFromKnots(ctx, asn.rows, asn.signs);
       if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations);
     }
     return { b: sol.b, u: sol.u, lambda, knotRows: rows, status: { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE } };

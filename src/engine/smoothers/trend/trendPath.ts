@@ -96,6 +96,24 @@ export function relaxFit(x: Float64Array, y: Float64Array, w: Float64Array, k: n
   return { b, refit };
 }
 
+/**
+ * The full-data fit's knots mapped to a fold's training points (knot row r sits at point r + k;
+ * its training row is the last training point at or before it, minus k), duplicates dropped:
+ * the start of the fold's active-set method at the same penalty. Unchecked.
+ */
+function foldGuess(seed: KnotSeed, below: Int32Array, k: number, nt: number): KnotSeed {
+  const rows: number[] = [], signs: number[] = [];
+  const off = k === 0 ? 1 : k;
+  const mt = nt - k - 1;
+  for (let j = 0; j < seed.rows.length; j++) {
+    const r = below[seed.rows[j] + off] - off;
+    if (r < 0 || r >= mt || (rows.length && rows[rows.length - 1] >= r)) continue;
+    rows.push(r);
+    signs.push(seed.signs[j]);
+  }
+  return { rows, signs };
+}
+
 /** x position of each knot row: point r + k for k >= 1, point r + 1 (first point of the new level) for k = 0. Unchecked. */
 export function knotPositions(x: Float64Array, k: number, rows: ArrayLike<number>): Float64Array {
   const out = new Float64Array(rows.length);
@@ -111,7 +129,8 @@ export function knotPositions(x: Float64Array, k: number, rows: ArrayLike<number
  * section 6): interior point i is held out in fold (i - 1) mod K, the ends never
  * ({@link foldOf}); each training fit uses lambda * (training weight / total
  * weight), so the balance of fit and penalty per point matches the full fit;
- * training fits stop at relative gap max(tolerance, 1e-5) without refinement;
+ * training fits stop at relative gap max(tolerance, 1e-5) without refinement (for order 1
+ * they start from the full-data fit's knots at the same penalty, mapped to the training points);
  * held-out points are predicted by the fit's interpolant ({@link interpolateTrend},
  * mixed with the relaxed refit when relaxed > 0).
  *
@@ -167,8 +186,13 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
       let wf: TrendFit | undefined;
       const out: Float64Array[] = [];
+      // training position of each point: below[i] = training points with index <= i, minus 1
+      const below = new Int32Array(n);
+      for (let i = 0, t = -1, a = 0; i < n; i++) { if (a < tr.length && tr[a] === i) { t++; a++; } below[i] = t; }
       for (let j = 0; j < pens.length; j++) {
-        const fit = solveTrend(sub, pens[j] * (swt / swAll), { tolerance: Math.max(s.tolerance, CV_TOLERANCE), maxIterations: s.maxIterations, warm: wf, refine: false });
+        // the full-data fit at this penalty (the folds are scored on the path's own grid)
+        const guess = pens[j] === grid[j] ? foldGuess(pts[j].seed, below, k, tr.length) : undefined;
+        const fit = solveTrend(sub, pens[j] * (swt / swAll), { tolerance: Math.max(s.tolerance, CV_TOLERANCE), maxIterations: s.maxIterations, warm: wf, refine: false, guess });
         wf = fit;
         const pred = interpolateTrend(xt, fit.b, k, xh).value;
         if (s.relaxed > 0) {
