@@ -30,10 +30,11 @@ import { warning } from '../warnings';
  *   changes are looked for in the seasonally adjusted series and `season` says what was
  *   done. Counts take the season as a rate factor (Poisson offset). See {@link seasonFor}.
  * - noise ('correlated', Gaussian models): the lag-one noise correlation phi is estimated
- *   robustly from lag-1 and lag-2 differences (the DeCAFS idea, Romano et al. 2022, JASA
- *   117:2147-2162) and a named penalty rule is multiplied by the long-run variance ratio
- *   (1 + phi) / (1 - phi) (Lavielle & Moulines 2000, J Time Ser Anal 21:33-59). With AR(1)
- *   noise up to phi 0.5 and no change, 92% of the benchmark's series report none.
+ *   robustly from the variogram of the series at lags 1 to 4, with a term for a trend
+ *   (the DeCAFS idea, Romano et al. 2022, JASA 117:2147-2162; the same estimator as
+ *   cross-validation's fold plan, see noiseCorrelation.ts) and a named penalty rule is
+ *   multiplied by the long-run variance ratio (1 + phi) / (1 - phi) (Lavielle & Moulines
+ *   2000, J Time Ser Anal 21:33-59).
  *
  * - 'mean': change in level. Default robust: the biweight loss min((y - mu)^2 / sigma^2, 9)
  *   (Fearnhead & Rigaill 2019, JASA 114:169-183), so a single far-off value costs at most

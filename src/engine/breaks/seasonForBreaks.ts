@@ -15,14 +15,21 @@ export const DECOMPOSITION_LIMIT = 5000;
  * strength reaches 0.64) for additive models on series of up to {@link DECOMPOSITION_LIMIT}
  * points whose x are calendar dates or whose period is given; otherwise, and for counts
  * (whose season multiplies the rate, as a factor the Poisson cost takes), the robust
- * phase estimate {@link seasonForBreaks}. Unchecked.
+ * phase estimate {@link seasonForBreaks}.
+ *
+ * The decomposition's trend takes the shape of the change looked for, so the season is
+ * not bent to absorb it: steps (trend filtering of order 0, piecewise constant) for the
+ * level and volatility models, kinks (order 1) for the slope model. With an order-1
+ * trend a level step is drawn as a ramp over several points and the season takes up the
+ * rest, one year's worth of phases raised or lowered, which then reappeared as false
+ * changes a year before or after the step. Unchecked.
  */
 export function seasonFor(series: Series, request: 'auto' | number, multiplicative: boolean, trend: boolean): SeasonForBreaks {
   const dated = request !== 'auto' || (series.xGiven && calendarPhases(series.x) !== null);
   if (multiplicative || !dated || series.n > DECOMPOSITION_LIMIT) return seasonForBreaks(series, request, multiplicative, trend);
   let a;
   try {
-    a = seasonalAdjustment(series, request === 'auto' ? {} : { period: request });
+    a = seasonalAdjustment(series, { order: trend ? 1 : 0, ...(request === 'auto' ? {} : { period: request }) });
   } catch (e) {
     // e.g. two rows on one date: the robust phase estimate copes with ties
     const r = seasonForBreaks(series, request, multiplicative, trend);
