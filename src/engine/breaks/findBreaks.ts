@@ -93,9 +93,21 @@ export function findBreaks(series: Series, options: BreaksOptions): BreaksResult
   let r: BreaksResult;
   if (comp && multiplicative) r = stepBreaks(series, o, comp);
   else {
-    const s = comp ? { ...series, y: Float64Array.from(series.y, (v, i) => v - comp[i]) } : series;
-    r = o.model === 'slope' ? slopeBreaks(s, o) : o.model === 'mean' ? levelBreaks(s, o) : stepBreaks(s, o);
-    if (comp) for (let i = 0; i < series.n; i++) r.fitted[i] += comp[i];
+    const search = (c: Float64Array | null): BreaksResult => {
+      const s = c ? { ...series, y: Float64Array.from(series.y, (v, i) => v - c[i]) } : series;
+      return o.model === 'slope' ? slopeBreaks(s, o) : o.model === 'mean' ? levelBreaks(s, o) : stepBreaks(s, o);
+    };
+    let c = comp;
+    r = search(c);
+    if (c && season!.refit) {
+      // one backfitting step (Hastie & Tibshirani 1990, Generalized Additive Models, ch. 4): the
+      // season estimated again from the series minus the fitted changes, so that a trend the
+      // decomposition drew smoothly round a kink or step does not bend the season, then the
+      // changes searched again without it
+      c = season!.refit(Float64Array.from(series.y, (v, i) => v - r.fitted[i]));
+      r = search(c);
+    }
+    if (c) for (let i = 0; i < series.n; i++) r.fitted[i] += c[i];
   }
   r.season = treatment;
   if (treatment.adjusted) r.warnings.splice(r.warnings.length - 1, 0, warning('note', treatment.note));

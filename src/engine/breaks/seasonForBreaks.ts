@@ -52,7 +52,9 @@ export function seasonFor(series: Series, request: 'auto' | number, multiplicati
     const r = Float64Array.from(series.y, (v, i) => v - d.trend[i] - d.spikes[i]);
     const h = harmonicsByBic(r, angle, YEARLY_HARMONICS);
     component = h.fit;
-    how += `; the yearly pattern refitted with ${h.harmonics} harmonic${h.harmonics === 1 ? '' : 's'} (chosen by BIC)`;
+    how += `; the yearly pattern refitted with ${h.harmonics} harmonic${h.harmonics === 1 ? '' : 's'} (chosen by BIC), then once more against the fitted changes`;
+    const refit = (partial: Float64Array): Float64Array => harmonicsByBic(partial, angle, YEARLY_HARMONICS).fit;
+    return { seasonal: true, period, strength, component, multiplicative: false, how, refit };
   }
   return { seasonal: true, period, strength, component, multiplicative: false, how };
 }
@@ -99,6 +101,11 @@ export interface SeasonForBreaks {
   multiplicative: boolean;
   /** How the period was found, for the note. */
   how: string;
+  /**
+   * The season estimated again from a partial residual (the series minus the fitted
+   * changes), for one backfitting step; absent when the season is not refitted.
+   */
+  refit?: (partial: Float64Array) => Float64Array;
 }
 
 /**

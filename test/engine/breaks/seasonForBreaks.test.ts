@@ -4,6 +4,7 @@
  */
 import { harmonicsByBic, seasonFor } from '../../../src/engine/breaks/seasonForBreaks';
 import { prepareSeries } from '../../../src/engine/series';
+import { findBreaks } from '../../../src/engine/breaks/findBreaks';
 import { normalStream } from '../../helpers/random';
 
 /** Serial date of Monday 6 January 2020. */
@@ -48,5 +49,23 @@ describe('seasonFor on weekly dates', () => {
     let worst = 0;
     for (let i = at; i < n; i++) worst = Math.max(worst, Math.abs(c[i] - c[i - 52]));
     expect(worst).toBeLessThan(20); // one noise sd; the step is 80
+  });
+});
+
+describe('findBreaks with a refitted season', () => {
+  test('weekly sales with a yearly swing and one kink: the season refitted against the fitted line, the kink found within 3 weeks', () => {
+    const z = normalStream(31);
+    const n = 156, at = 70;
+    const x = Array.from({ length: n }, (_, i) => START + 7 * i);
+    const y = Array.from({ length: n }, (_, i) => 2000 + (i > at ? 4 * (i - at) : 0) + 80 * Math.sin((2 * Math.PI * 7 * i) / 365.25 + 0.5) + 20 * z());
+    const r = findBreaks(prepareSeries(y, x, null, { ties: 'keep' }), { model: 'slope' });
+    expect(r.season.adjusted).toBe(true);
+    expect(r.season.note).toMatch(/then once more against the fitted changes/);
+    expect(r.breaks.length).toBe(1);
+    expect(Math.abs(r.breaks[0].index - at)).toBeLessThanOrEqual(3);
+    // fitted values include the season used by the last search: residuals without a yearly swing left
+    let ss = 0;
+    for (let i = 0; i < n; i++) ss += (y[i] - r.fitted[i]) ** 2;
+    expect(Math.sqrt(ss / n)).toBeLessThan(25);
   });
 });
