@@ -28,7 +28,11 @@ import { warning } from '../warnings';
  * - season ('auto'): when x are spreadsheet dates (daily, weekly, monthly, quarterly) or
  *   a period is given, a seasonal pattern is estimated and, when present, removed; the
  *   changes are looked for in the seasonally adjusted series and `season` says what was
- *   done. Counts take the season as a rate factor (Poisson offset). See {@link seasonFor}.
+ *   done. Counts take the season as a rate factor (Poisson offset). The decomposition's
+ *   trend has the shape of the change looked for (steps for level models, kinks for
+ *   'slope'); the yearly season of weekly dates is refitted with as many harmonics as BIC
+ *   supports, and once more against the fitted changes before a second search (one
+ *   backfitting step). See {@link seasonFor}.
  * - noise ('correlated', Gaussian models): the lag-one noise correlation phi is estimated
  *   robustly from the variogram of the series at lags 1 to 4, with a term for a trend
  *   (the DeCAFS idea, Romano et al. 2022, JASA 117:2147-2162; the same estimator as
