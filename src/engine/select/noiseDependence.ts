@@ -15,7 +15,8 @@
  * lags 1 to 4, where correlated noise rises and saturates (1 - phi^L) while a
  * trend grows with the square of the lag, so the two are told apart without a
  * pilot fit (a pilot chosen by the data would itself have absorbed the
- * correlated noise).
+ * correlated noise). The changepoint models scale their penalties by the same
+ * estimate (breaks/noiseCorrelation.ts).
  */
 import { median } from '../median';
 
