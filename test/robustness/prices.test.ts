@@ -14,7 +14,7 @@ const col = (a: number[]) => a.map((v) => [v]);
 describe('prices near 1e9 with cents', () => {
   test.each(['level', 'volatility', 'distribution', 'slope'])('%s: the same break rows as the unshifted series', async (model) => {
     clearComputeCache();
-    // independent noise, so the comparison has breaks to compare (see the known weakness below)
+    // independent noise, as before the swing stopped hiding the step at default settings (see below)
     const settings = model === 'distribution' ? undefined : 'noise=independent';
     const a = await breaks(col(cents), undefined, model, settings);
     const b = await breaks(col(cents.map((v) => v + 1e9)), undefined, model, settings);
@@ -22,13 +22,14 @@ describe('prices near 1e9 with cents', () => {
     expect(b.slice(1).map((r) => r[1])).toEqual(a.slice(1).map((r) => r[1]));
   });
 
-  // Known weakness, kept visible: at default settings the smooth swing 3 sin(i / 3) of this series raises the
-  // estimated noise correlation (the ratio of lag-2 to lag-1 difference spreads) and with it the penalty, so the
-  // step of 10 at row 21 is missed. These tests fail while that is so, and will flag when it is mended.
-  test.failing.each(['level', 'volatility', 'slope'])('%s at default settings finds the step at row 21 despite the swing', async (model) => {
+  // Once a known weakness: the smooth swing 3 sin(i / 3) of this series widened lag-2 differences more than lag-1
+  // ones, which the former ratio estimator of the noise correlation read as correlated noise, raising the penalty
+  // until the step of 10 at row 21 was missed. The variogram estimator fits the swing's growth with the lag apart
+  // from the noise, so the step is found at default settings (the slope model draws it as a steep rise over one step).
+  test.each(['level', 'volatility', 'slope'])('%s at default settings finds the step at row 21 despite the swing', async (model) => {
     clearComputeCache();
     const a = await breaks(col(cents), undefined, model);
-    expect(a.length).toBeGreaterThan(1);
+    expect(a.slice(1).some((r) => Math.abs((r[1] as number) - 21) <= 1)).toBe(true);
   });
 
   test.each(['spline', 'trend'])('%s: the smooth shifted by 1e9', async (method) => {

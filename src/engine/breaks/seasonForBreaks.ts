@@ -4,7 +4,8 @@
 import type { Series } from '../series';
 import { median } from '../median';
 import type { SeasonTreatment } from './types';
-import { seasonalAdjustment } from '../decompose/seasonalAdjustment';
+import { decompose } from '../decompose/decompose';
+import { YEARLY_HARMONICS } from '../decompose/seasonPlan';
 
 /** Longest series handed to the full decomposition (it runs trend filtering; about 20 s at 20,000 points, measured). */
 export const DECOMPOSITION_LIMIT = 5000;
@@ -15,25 +16,71 @@ export const DECOMPOSITION_LIMIT = 5000;
  * strength reaches 0.64) for additive models on series of up to {@link DECOMPOSITION_LIMIT}
  * points whose x are calendar dates or whose period is given; otherwise, and for counts
  * (whose season multiplies the rate, as a factor the Poisson cost takes), the robust
- * phase estimate {@link seasonForBreaks}. Unchecked.
+ * phase estimate {@link seasonForBreaks}.
+ *
+ * The decomposition's trend takes the shape of the change looked for, so the season is
+ * not bent to absorb it: steps (trend filtering of order 0, piecewise constant) for the
+ * level and volatility models, kinks (order 1) for the slope model. With an order-1
+ * trend a level step is drawn as a ramp over several points and the season takes up the
+ * rest, one year's worth of phases raised or lowered, which then reappeared as false
+ * changes a year before or after the step. Unchecked.
  */
 export function seasonFor(series: Series, request: 'auto' | number, multiplicative: boolean, trend: boolean): SeasonForBreaks {
   const dated = request !== 'auto' || (series.xGiven && calendarPhases(series.x) !== null);
   if (multiplicative || !dated || series.n > DECOMPOSITION_LIMIT) return seasonForBreaks(series, request, multiplicative, trend);
-  let a;
+  let d;
   try {
-    a = seasonalAdjustment(series, request === 'auto' ? {} : { period: request });
+    d = decompose(series, { method: 'adaptive', order: trend ? 1 : 0, ...(request === 'auto' ? {} : { period: request }) });
   } catch (e) {
     // e.g. two rows on one date: the robust phase estimate copes with ties
     const r = seasonForBreaks(series, request, multiplicative, trend);
     return { ...r, how: `${r.how} (the adaptive decomposition declined: ${(e as Error).message})` };
   }
-  const period = a.period.length ? a.period[0] : NaN;
-  if (!a.seasonal) {
-    return { seasonal: false, period, strength: a.strength, multiplicative: false, how: `adaptive decomposition: largest seasonal strength ${a.strength.toFixed(2)}, below 0.64` };
+  const kept = d.seasons.filter((t) => t.kept);
+  const strength = d.seasons.reduce((m, t) => Math.max(m, t.strength), 0);
+  const period = kept.length ? Number(kept[0].length.toFixed(2)) : d.seasons.length ? Number(d.seasons[0].length.toFixed(2)) : NaN;
+  if (!kept.length) {
+    return { seasonal: false, period, strength, multiplicative: false, how: `adaptive decomposition: largest seasonal strength ${strength.toFixed(2)}, below 0.64` };
   }
-  const how = `a season of ${a.period.map((p) => String(p)).join(' and ')} steps, found by the adaptive decomposition (trend filtering, season and spikes)`;
-  return { seasonal: true, period, strength: a.strength, component: Float64Array.from(series.y, (v, i) => v - a.adjusted[i]), multiplicative: false, how };
+  let component: Float64Array = Float64Array.from(d.season);
+  let how = `a season of ${kept.map((t) => String(Number(t.length.toFixed(2)))).join(' and ')} steps, found by the adaptive decomposition (trend filtering, season and spikes)`;
+  const angle = request === 'auto' ? calendarPhases(series.x)?.angle : undefined;
+  if (angle && kept.length === 1 && kept[0].label === 'yearly') {
+    // weekly dates: the yearly Fourier season refitted to the series without trend and spikes
+    // with as many harmonics as BIC supports (the decomposition's fixed 10 harmonics, 20
+    // coefficients, are noisy on a few years of weeks, and their noise reads as changes)
+    const r = Float64Array.from(series.y, (v, i) => v - d.trend[i] - d.spikes[i]);
+    const h = harmonicsByBic(r, angle, YEARLY_HARMONICS);
+    component = h.fit;
+    how += `; the yearly pattern refitted with ${h.harmonics} harmonic${h.harmonics === 1 ? '' : 's'} (chosen by BIC), then once more against the fitted changes`;
+    const refit = (partial: Float64Array): Float64Array => harmonicsByBic(partial, angle, YEARLY_HARMONICS).fit;
+    return { seasonal: true, period, strength, component, multiplicative: false, how, refit };
+  }
+  return { seasonal: true, period, strength, component, multiplicative: false, how };
+}
+
+/**
+ * The harmonic fit of r on angle with K = 1..maxK harmonics that minimises BIC,
+ * n log(RSS / n) + 2 K log n (Schwarz 1978; choosing the number of Fourier terms of a
+ * season by an information criterion is common practice, e.g. Hyndman & Athanasopoulos,
+ * Forecasting: Principles and Practice, section on dynamic harmonic regression).
+ * Returns the fitted season without its constant, centred to average 0. Unchecked.
+ */
+export function harmonicsByBic(r: Float64Array, angle: Float64Array, maxK: number): { fit: Float64Array; harmonics: number } {
+  const n = r.length;
+  let best: Float64Array = new Float64Array(n), bestK = 0, bestC = Infinity;
+  for (let K = 1; K <= Math.min(maxK, Math.floor((n - 2) / 4)); K++) {
+    const fit = harmonicFit(r, angle, K);
+    let m = 0;
+    for (let i = 0; i < n; i++) m += (r[i] - fit[i]) / n;
+    let rss = 0;
+    for (let i = 0; i < n; i++) rss += (r[i] - fit[i] - m) ** 2;
+    const c = n * Math.log(Math.max(rss, Number.MIN_VALUE) / n) + 2 * K * Math.log(n);
+    if (c < bestC) { bestC = c; best = fit; bestK = K; }
+  }
+  let mean = 0;
+  for (let i = 0; i < n; i++) mean += best[i] / n;
+  return { fit: Float64Array.from(best, (v) => v - mean), harmonics: bestK };
 }
 
 /**
@@ -54,6 +101,11 @@ export interface SeasonForBreaks {
   multiplicative: boolean;
   /** How the period was found, for the note. */
   how: string;
+  /**
+   * The season estimated again from a partial residual (the series minus the fitted
+   * changes), for one backfitting step; absent when the season is not refitted.
+   */
+  refit?: (partial: Float64Array) => Float64Array;
 }
 
 /**

@@ -15,7 +15,8 @@
  * lags 1 to 4, where correlated noise rises and saturates (1 - phi^L) while a
  * trend grows with the square of the lag, so the two are told apart without a
  * pilot fit (a pilot chosen by the data would itself have absorbed the
- * correlated noise).
+ * correlated noise). The changepoint models scale their penalties by the same
+ * estimate (breaks/noiseCorrelation.ts).
  */
 import { median } from '../median';
 
@@ -75,14 +76,18 @@ export function variogramPhi(y: ArrayLike<number>): number {
   let a = 0;
   for (let i = 0; i < n; i++) a = Math.max(a, Math.abs(y[i]));
   if (!(a > 0) || !Number.isFinite(a)) return 0;
+  // squares are taken in units of the lag-1 spread, so they stay near 1 whatever the values' magnitude
+  // (in units of max |y| alone, a single huge value would make them underflow and the weights overflow)
+  let unit = 0;
   for (let L = 1; L <= LAGS; L++) {
     const d = new Float64Array(n - L);
     for (let i = 0; i + L < n; i++) d[i] = y[i + L] / a - y[i] / a;
     const m = median(d);
     const dev = Float64Array.from(d, (v) => Math.abs(v - m));
     const s = 1.4826 * median(dev);
+    if (L === 1) unit = s > 0 ? s : 1;
     let acc = 0;
-    for (let i = 0; i < d.length; i++) { const v = s > 0 ? Math.max(-4 * s, Math.min(4 * s, d[i] - m)) + m : d[i]; acc += v * v; }
+    for (let i = 0; i < d.length; i++) { const v = (s > 0 ? Math.max(-4 * s, Math.min(4 * s, d[i] - m)) + m : d[i]) / unit; acc += v * v; }
     V[L] = acc / d.length;
   }
   if (!(V[1] > 0)) return 0;
