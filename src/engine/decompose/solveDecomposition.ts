@@ -29,6 +29,8 @@ import type { SolverStatus } from '../types';
 import { solveTrend, seedOf, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
 import { SeasonDesign, fitSeasonAndSpikes } from './seasonDesign';
 import { differenceOperator } from '../linalg/difference';
+import { basisCache } from '../basis/discreteBSplines';
+import { activeSetDecomposition } from './polishDecomposition';
 
 /** Solution of {@link solveDecomposition} in the scaled units it was given. */
 export interface DecompositionFit {
@@ -48,6 +50,15 @@ export const TREND_STEP_TOLERANCE = 1e-10;
 
 export const DECOMPOSITION_RULE = 'block coordinate descent on the trend and (season, spikes), Anderson-accelerated (memory 5, safeguarded by the objective): each step an exact trend-filtering solve after the exact (season, spikes) block (a Huber regression on the season); stops when a plain step changes the trend by at most the tolerance times the sd of y; returns the last exact trend step with the season and spikes it was taken for';
 
+/** Largest relative violation of the optimality conditions at which an exact solve on the current knots and spikes is taken as the next point. */
+export const POLISH_VIOLATION = 1e-9;
+
+/** Number of first steps after which the active-set method is tried whatever the knots and spikes did; afterwards only when a step left them unchanged. */
+export const POLISH_EAGER = 3;
+
+/** Rounds of the active-set method started from a step's knots and spikes. */
+export const ACTIVE_SET_ROUNDS = 12;
+
 /** Anderson memory (number of past steps mixed). */
 export const ANDERSON_MEMORY = 5;
 
@@ -64,7 +75,7 @@ export interface DecompositionStart {
  * the trend in a plain step (scaled units: sd of y = 1). Unchecked.
  */
 export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rho: number, design: SeasonDesign | null,
-  tolerance: number, maxCycles: number, start: DecompositionStart = {}, onCycle?: (cycle: number) => void): DecompositionFit {
+  tolerance: number, maxCycles: number, start: DecompositionStart = {}, onCycle?: (cycle: number) => void, tryPolish = true): DecompositionFit {
   const n = x.length;
   let t: Float64Array = start.trend ? Float64Array.from(start.trend) : new Float64Array(n);
   const s = start.season ? Float64Array.from(start.season) : new Float64Array(n);
@@ -80,6 +91,11 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
   let trendIterations = 0;
   let trendOk = true;
   let resets = 0;
+  let polishes = 0, jumps = 0, polishRounds = 0;
+  // active set (knot rows and signs, spike points and signs) of the last plain step, and those already polished
+  let lastKey = '';
+  const tried = new Set<string>();
+  const cache = basisCache();
   // the map F: trend -> exact trend step after the exact (season, spikes) step
   const F = (tIn: Float64Array): Float64Array => {
     seasonAndSpikes(y, tIn, w, rho, design, s, o, parts, theta, work, tolerance * 0.01);
@@ -122,6 +138,32 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
       continue;
     }
     best = { g, J };
+    // once a step leaves the knots and spikes as they were, solve exactly on them: when the optimality
+    // conditions hold there, jump to that point (the next plain step then confirms it)
+    if (k >= 1 && tryPolish) {
+      const seed = seedOf(fit!);
+      const spikeRows: number[] = [], spikeSigns: number[] = [];
+      for (let i = 0; i < n; i++) if (o[i] !== 0) { spikeRows.push(i); spikeSigns.push(Math.sign(o[i])); }
+      const key = `${seed.rows.join(',')}|${seed.signs.join(',')}|${spikeRows.join(',')}|${spikeSigns.join(',')}`;
+      if (!tried.has(key) && (polishes < POLISH_EAGER || key === lastKey)) {
+        tried.add(key);
+        polishes++;
+        const pol = activeSetDecomposition(x, y, w, k, lambda, rho, design, seed.rows, seed.signs, spikeRows, spikeSigns, ACTIVE_SET_ROUNDS, POLISH_VIOLATION, cache);
+        if (pol) polishRounds += pol.rounds;
+        if (pol) {
+          jumps++;
+          dG.length = 0;
+          dF.length = 0;
+          gPrev = null;
+          fPrev = null;
+          theta.value = Float64Array.from(pol.theta);
+          t = pol.trend;
+          lastKey = key;
+          continue;
+        }
+      }
+      lastKey = key;
+    }
     const f = new Float64Array(n);
     let fmax = 0;
     for (let i = 0; i < n; i++) {
@@ -180,7 +222,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
   const converged = change <= tolerance && trendOk;
   return {
     trend: t, season: s, parts, spikes: o, theta: theta.value, trendFit: fit!,
-    status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations and ${resets} memory resets in all` },
+    status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations, ${resets} memory resets, ${polishes} exact solves on the knots and spikes of a step (${jumps} taken, ${polishRounds} rounds) in all` },
   };
 }
 
