@@ -230,6 +230,7 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   let lambda: number;
   let criterion: Criterion;
   let startTrend: Float64Array | undefined;
+  let startKnots: { rows: number[]; signs: number[] } | undefined;
   if (o.penalty !== undefined) {
     lambda = o.penalty;
     criterion = { name: 'fixed', value: NaN };
@@ -257,6 +258,15 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
     }
     for (let i = 0; i < keep[0]; i++) startTrend[i] = f.fitted[0];
     for (let i = keep[keep.length - 1] + 1; i < n; i++) startTrend[i] = f.fitted[keep.length - 1];
+    // its knots as rows of the full series' difference operator, where the solver's active-set method starts
+    const off = o.order === 0 ? 1 : o.order;
+    startKnots = { rows: [], signs: [] };
+    for (const kn of f.knots) {
+      const r = keep[kn.index] - off;
+      if (r < 0 || r > n - o.order - 2 || (startKnots.rows.length && r <= startKnots.rows[startKnots.rows.length - 1])) continue;
+      startKnots.rows.push(r);
+      startKnots.signs.push(kn.change < 0 ? -1 : 1);
+    }
   }
   const sc = trendScaling(series, o.order);
   // the design's normal equations use the solver's (scaled) weights
@@ -267,6 +277,7 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   const start = {
     trend: startTrend ? Float64Array.from(startTrend, (v) => (v - sc.y0) / sc.c) : Float64Array.from(deseason, (v) => (v - sc.y0) / sc.c),
     season: Float64Array.from(sPre, (v) => v / sc.c),
+    knots: startKnots,
   };
   context?.step(0.7, 'solving the decomposition');
   const sol = solveDecomposition(sc.xs, ys, sc.ws, o.order, lam, rhoS, design, o.tolerance, o.maxIterations, start, (c) => context?.step(0.7 + 0.3 * Math.min(1, c / 50), 'solving the decomposition'));

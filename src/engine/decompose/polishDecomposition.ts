@@ -189,7 +189,7 @@ export function polishDecomposition(x: Float64Array, y: Float64Array, w: Float64
  * rounds, or when the set repeats. Returns the certified solution or null. Unchecked.
  */
 export function activeSetDecomposition(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rho: number, design: SeasonDesign | null,
-  rows: number[], signs: number[], spikeRows: number[], spikeSigns: number[], rounds: number, within: number, cache?: BasisCache): (PolishedDecomposition & { rounds: number }) | null {
+  rows: number[], signs: number[], spikeRows: number[], spikeSigns: number[], rounds: number, within: number, cache?: BasisCache): (PolishedDecomposition & { rounds: number; rows: number[]; signs: number[] }) | null {
   const seen = new Set<string>();
   for (let round = 1; round <= rounds; round++) {
     const key = `${rows.join(',')}|${signs.join(',')}|${spikeRows.join(',')}|${spikeSigns.join(',')}`;
@@ -197,7 +197,7 @@ export function activeSetDecomposition(x: Float64Array, y: Float64Array, w: Floa
     seen.add(key);
     const pol = polishDecomposition(x, y, w, k, lambda, rho, design, rows, signs, spikeRows, spikeSigns, cache);
     if (!pol) return null;
-    if (pol.violation <= within) return { ...pol, rounds: round };
+    if (pol.violation <= within) return { ...pol, rounds: round, rows, signs };
     const { u, v, knotChanges } = pol;
     const m = u.length;
     // kept knots (sign as guessed and as D t came out) and their signs

@@ -26,7 +26,7 @@
  * Works in scaled units (x to unit spacing, y to sd 1, w to mean 1). Unchecked.
  */
 import type { SolverStatus } from '../types';
-import { solveTrend, seedOf, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
+import { solveTrend, seedOf, KnotSeed, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
 import { SeasonDesign, fitSeasonAndSpikes } from './seasonDesign';
 import { differenceOperator } from '../linalg/difference';
 import { basisCache } from '../basis/discreteBSplines';
@@ -67,6 +67,8 @@ export interface DecompositionStart {
   trend?: Float64Array;
   season?: Float64Array;
   spikes?: Float64Array;
+  /** Knot rows and signs of a trend near the answer (the penalty search's fit): the active-set method starts from them. */
+  knots?: KnotSeed;
 }
 
 /**
@@ -96,13 +98,21 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
   let lastKey = '';
   const tried = new Set<string>();
   const cache = basisCache();
+  // knots of an exact solution found by the active-set method: the next trend step starts from them
+  let seedNext: KnotSeed | undefined;
+  const spikeSet = (): { rows: number[]; signs: number[] } => {
+    const rows: number[] = [], signs: number[] = [];
+    for (let i = 0; i < n; i++) if (o[i] !== 0) { rows.push(i); signs.push(Math.sign(o[i])); }
+    return { rows, signs };
+  };
   // the map F: trend -> exact trend step after the exact (season, spikes) step
   const F = (tIn: Float64Array): Float64Array => {
     seasonAndSpikes(y, tIn, w, rho, design, s, o, parts, theta, work, tolerance * 0.01);
     for (let i = 0; i < n; i++) z[i] = y[i] - s[i] - o[i];
     // operator and scaled x depend on x and w only: carried over; the polynomial fit depends on y and is rebuilt
     prob = { x, y: Float64Array.from(z), w, k, op: prob?.op, x01: prob?.x01, admmRows: prob?.admmRows };
-    fit = solveTrend(prob, lambda, { tolerance: TREND_STEP_TOLERANCE, maxIterations: 400, warm: fit, refine: true, seed: fit ? seedOf(fit) : undefined });
+    fit = solveTrend(prob, lambda, { tolerance: TREND_STEP_TOLERANCE, maxIterations: 400, warm: fit, refine: true, seed: seedNext ?? (fit ? seedOf(fit) : undefined) });
+    seedNext = undefined;
     trendIterations += fit.status.iterations;
     trendOk = fit.status.converged;
     return Float64Array.from(fit.b);
@@ -121,9 +131,27 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     for (let j = 0; j < d.length; j++) J += lambda * Math.abs(d[j]);
     return J;
   };
+  if (k >= 1 && tryPolish && start.knots && start.knots.rows.length) {
+    // the active-set method from the given knots and the spikes of the exact (season, spikes) step at the start trend
+    seasonAndSpikes(y, t, w, rho, design, s, o, parts, theta, work, 0);
+    const sp = spikeSet();
+    polishes++;
+    const pol = activeSetDecomposition(x, y, w, k, lambda, rho, design, start.knots.rows.slice(), start.knots.signs.slice(), sp.rows, sp.signs, ACTIVE_SET_ROUNDS, POLISH_VIOLATION, cache);
+    if (pol) {
+      polishRounds += pol.rounds;
+      jumps++;
+      theta.value = Float64Array.from(pol.theta);
+      t = pol.trend;
+      seedNext = { rows: pol.rows, signs: pol.signs };
+    }
+  }
+  // whether the point the last plain step started from was a mixed one (then the answer needs one more plain step)
+  let mixedInput = false;
   while (cycles < maxCycles) {
     cycles++;
     onCycle?.(cycles);
+    const inputMixed = mixedInput;
+    mixedInput = false;
     const g = F(t);
     const J = objective(g);
     if (best && J > best.J * (1 + 1e-12) + 1e-300) {
@@ -142,8 +170,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     // conditions hold there, jump to that point (the next plain step then confirms it)
     if (k >= 1 && tryPolish) {
       const seed = seedOf(fit!);
-      const spikeRows: number[] = [], spikeSigns: number[] = [];
-      for (let i = 0; i < n; i++) if (o[i] !== 0) { spikeRows.push(i); spikeSigns.push(Math.sign(o[i])); }
+      const { rows: spikeRows, signs: spikeSigns } = spikeSet();
       const key = `${seed.rows.join(',')}|${seed.signs.join(',')}|${spikeRows.join(',')}|${spikeSigns.join(',')}`;
       if (!tried.has(key) && (polishes < POLISH_EAGER || key === lastKey)) {
         tried.add(key);
@@ -158,6 +185,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
           fPrev = null;
           theta.value = Float64Array.from(pol.theta);
           t = pol.trend;
+          seedNext = { rows: pol.rows, signs: pol.signs };
           lastKey = key;
           continue;
         }
@@ -171,7 +199,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
       fmax = Math.max(fmax, Math.abs(f[i]));
     }
     change = fmax;
-    if (change <= tolerance) { t = g; break; }
+    if (change <= tolerance) { t = g; mixedInput = inputMixed; break; }
     if (gPrev && fPrev) {
       dG.push(Float64Array.from(g, (v, i) => v - gPrev![i]));
       dF.push(Float64Array.from(f, (v, i) => v - fPrev![i]));
@@ -201,8 +229,9 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     const next = Float64Array.from(g);
     for (let a = 0; a < m; a++) for (let i = 0; i < n; i++) next[i] -= gamma[a] * dG[a][i];
     t = next;
+    mixedInput = true;
   }
-  if (change <= tolerance) {
+  if (change <= tolerance && mixedInput) {
     // plain steps from the converged point until one moves the trend by at most the tolerance
     // (the point reached by mixing is close to, but not itself, a plain step's output)
     for (let extra = 0; extra < 20; extra++) {
