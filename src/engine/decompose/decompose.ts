@@ -33,7 +33,11 @@
  * - lambda: chosen by the trend-filtering criteria (fitTrend, `select`, default 'cv') on the
  *   deseasonalised series (preliminary season removed) without the points the preliminary
  *   robust STL gives zero weight (|remainder| > 6 median |remainder|), so that neither the
- *   season nor a spike is taken for a trend change. Cross-validation by default (the trend's own
+ *   season nor a spike is taken for a trend change. The grid has 3 penalties per decade (factor 2.15
+ *   between neighbours; the trend's own default has 6): near its minimum the cross-validation curve
+ *   changes between such neighbours by far less than its standard error (on the bench's five years
+ *   of daily data the 16-point grid's choice scores 6.2476 against the 30-point grid's 6.2472, with a
+ *   standard error of 0.21), and the search costs half as much. Cross-validation by default (the trend's own
  *   default): on invented monthly and daily series with planted kinks it kept a few knots at the
  *   kinks, while BIC chose near-interpolating trends (84 knots on 93 points) and SURE was erratic.
  *
@@ -54,7 +58,7 @@ import { boundaryWarning } from '../diagnostics/commonWarnings';
 import { differenceSigma } from '../robustSigma';
 import { fitTrend } from '../smoothers/trend';
 import { trendScaling, toScaledPenalty } from '../smoothers/trend/trendScaling';
-import { knotPositions } from '../smoothers/trend/trendPath';
+import { knotPositions, defaultGridRatio } from '../smoothers/trend/trendPath';
 import { seasonPlan, Spacing } from './seasonPlan';
 import { seasonDesign, SeasonTerm } from './seasonDesign';
 import { preliminaryDecomposition, seasonalStrength } from './preliminaryDecomposition';
@@ -136,6 +140,14 @@ export interface DecomposeResult {
   criterion: Criterion;
   warnings: Warning[];
   solver: SolverStatus;
+}
+
+/** Penalties per decade of the trend penalty search (the trend's own default has about 6). */
+export const PENALTY_SEARCH_PER_DECADE = 3;
+
+/** Grid size of the trend penalty search: {@link PENALTY_SEARCH_PER_DECADE} per decade over the trend's default range (5 decades for orders 0 and 1, 7 for 2, 9 for 3). Unchecked. */
+export function penaltySearchGrid(order: number): number {
+  return Math.round(PENALTY_SEARCH_PER_DECADE * -Math.log10(defaultGridRatio(order))) + 1;
 }
 
 function resolve(options: DecomposeOptions) {
@@ -242,9 +254,8 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
       rowOf: new Int32Array(0), firstRow: Int32Array.from(keep, (i) => series.firstRow[i]), dropped: [], warnings: [],
     };
     context?.step(0.3, 'choosing the trend penalty');
-    const f = context
-      ? context.part(0.3, 0.7, () => fitTrend(sub, { order: o.order, select: o.select === 'cv-simpler' ? 'cv' : o.select, oneSE: o.select === 'cv-simpler' }, context))
-      : fitTrend(sub, { order: o.order, select: o.select === 'cv-simpler' ? 'cv' : o.select, oneSE: o.select === 'cv-simpler' });
+    const trendOptions = { order: o.order, select: o.select === 'cv-simpler' ? 'cv' as const : o.select, oneSE: o.select === 'cv-simpler', gridSize: penaltySearchGrid(o.order) };
+    const f = context ? context.part(0.3, 0.7, () => fitTrend(sub, trendOptions, context)) : fitTrend(sub, trendOptions);
     lambda = f.penalty;
     criterion = f.criterion;
     // start from that trend, linear across the left-out points
