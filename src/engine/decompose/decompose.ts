@@ -9,7 +9,8 @@
  *     minimise 1/2 sum w_i (y_i - t_i - s_i - o_i)^2 + lambda ||D(x, k+1) t||_1 + rho ||o||_1,
  *   t a trend-filtering trend of order k (knots chosen by the data), s a fixed seasonal
  *   pattern (per-phase effects summing to zero over a cycle, or a yearly Fourier series),
- *   o sparse spikes. Solved exactly by block coordinate descent (solveDecomposition.ts).
+ *   o sparse spikes. Solved exactly by block coordinate descent finished by an active-set method
+ *   (solveDecomposition.ts).
  * - 'stl': STL (Cleveland et al. 1990; several seasons as in MSTL), robust by default.
  *
  * The period: given (in steps), or read from x when x are Excel dates (seasonPlan.ts):
@@ -41,10 +42,10 @@
  *   default): on invented monthly and daily series with planted kinks it kept a few knots at the
  *   kinks, while BIC chose near-interpolating trends (84 knots on 93 points) and SURE was erratic.
  *
- * Cost: the adaptive method runs one exact trend-filtering solve per step of its solver (tens of
- * steps where a smooth yearly season and a trend with many knots trade off), plus the penalty
- * search; on five years of daily data that is seconds, against tens of milliseconds for 'stl'
- * (npm run bench -- --only=decompose).
+ * Cost: the solver's first-order steps mostly serve to find the knots and spikes; from the penalty
+ * search's knots an active-set method (polishDecomposition.ts) usually finds the exact solution at
+ * once, and one or two exact trend steps confirm it. Most of the time then goes to the penalty search
+ * (cross-validated trend filtering) and the preliminary robust STL/MSTL (npm run bench -- --only=decompose).
  *
  * A trend describes the past: its last values are revised as data arrive, and it is not a
  * forecast. A knot or spike is a statistical finding, not proof of its cause.
