@@ -65,14 +65,22 @@ function median(a: number[]): number {
   return b.length % 2 ? b[m] : 0.5 * (b[m - 1] + b[m]);
 }
 
-function timeMedian(f: () => void, repeats: number): { ms: number; all: number[] } {
-  const all: number[] = [];
+/**
+ * Median wall time of `repeats` runs, and the median CPU time of this process over the same runs
+ * (user + system from process.cpuUsage, garbage collection included): on a shared machine the wall
+ * time also counts the waits for a core, the CPU time does not.
+ */
+function timeMedian(f: () => void, repeats: number): { ms: number; all: number[]; cpuMs: number; cpuAll: number[] } {
+  const all: number[] = [], cpu: number[] = [];
   for (let r = 0; r < repeats; r++) {
+    const c0 = process.cpuUsage();
     const t0 = process.hrtime.bigint();
     f();
     all.push(Number(process.hrtime.bigint() - t0) / 1e6);
+    const c = process.cpuUsage(c0);
+    cpu.push((c.user + c.system) / 1000);
   }
-  return { ms: Number(median(all).toFixed(2)), all: all.map((v) => Number(v.toFixed(1))) };
+  return { ms: Number(median(all).toFixed(2)), all: all.map((v) => Number(v.toFixed(1))), cpuMs: Number(median(cpu).toFixed(2)), cpuAll: cpu.map((v) => Number(v.toFixed(1))) };
 }
 
 function writeData(y: Float64Array): { dir: string; file: string } {
@@ -143,13 +151,13 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
     fs.rmSync(dir, { recursive: true, force: true });
   }
   const mstl = timeMedian(() => decompose(series, { method: 'stl' }), reps);
-  emit({ bench: 'decompose', n, op: 'stl-weekday-and-yearly', ms: mstl.ms, repeats: mstl.all, target_ms: 200 });
+  emit({ bench: 'decompose', n, op: 'stl-weekday-and-yearly', ms: mstl.ms, repeats: mstl.all, cpu_ms: mstl.cpuMs, target_ms: 200 });
   const def = decompose(series);
   const lam = def.penalty;
-  const fixed = timeMedian(() => decompose(series, { penalty: lam }), quick ? 1 : 3);
-  emit({ bench: 'decompose', n, op: 'adaptive-given-penalty', ms: fixed.ms, repeats: fixed.all, target_ms: 200, cycles: def.solver.iterations, knots: def.knots.length, spikes: def.spikeIndex.length });
+  const fixed = timeMedian(() => decompose(series, { penalty: lam }), quick ? 3 : 9);
+  emit({ bench: 'decompose', n, op: 'adaptive-given-penalty', ms: fixed.ms, repeats: fixed.all, cpu_ms: fixed.cpuMs, cpu_repeats: fixed.cpuAll, target_ms: 200, cycles: def.solver.iterations, knots: def.knots.length, spikes: def.spikeIndex.length });
   const auto = timeMedian(() => decompose(series), quick ? 3 : 9);
-  emit({ bench: 'decompose', n, op: 'adaptive-default', ms: auto.ms, repeats: auto.all, target_ms: 200, select: def.criterion.name, penalty: Number(lam.toPrecision(4)), cycles: def.solver.iterations, solver: def.solver.stoppingRule.split('; ').pop() });
+  emit({ bench: 'decompose', n, op: 'adaptive-default', ms: auto.ms, repeats: auto.all, cpu_ms: auto.cpuMs, cpu_repeats: auto.cpuAll, target_ms: 200, select: def.criterion.name, penalty: Number(lam.toPrecision(4)), cycles: def.solver.iterations, solver: def.solver.stoppingRule.split('; ').pop() });
   // other spacings and lengths at default settings (the penalty search included)
   const cases: { spacing: string; data: { x: Float64Array; y: Float64Array }; repeats: number }[] = [
     { spacing: 'monthly', data: monthlyCosts(2015, 96), repeats: quick ? 3 : 9 },
@@ -163,7 +171,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
     const t = timeMedian(() => decompose(sr), c.repeats);
     const given = timeMedian(() => decompose(sr, { penalty: first.penalty }), c.repeats);
     emit({
-      bench: 'decompose', n: sr.n, op: `adaptive-default-${c.spacing}`, ms: t.ms, repeats: t.all, given_penalty_ms: given.ms,
+      bench: 'decompose', n: sr.n, op: `adaptive-default-${c.spacing}`, ms: t.ms, repeats: t.all, cpu_ms: t.cpuMs, given_penalty_ms: given.ms, given_penalty_cpu_ms: given.cpuMs,
       seasons: first.seasons.filter((q) => q.kept).map((q) => q.label), knots: first.knots.length, spikes: first.spikeIndex.length, cycles: first.solver.iterations, converged: first.solver.converged,
     });
   }

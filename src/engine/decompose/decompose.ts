@@ -62,9 +62,9 @@ import { trendScaling, toScaledPenalty } from '../smoothers/trend/trendScaling';
 import { knotPositions, defaultGridRatio } from '../smoothers/trend/trendPath';
 import { seasonPlan, Spacing } from './seasonPlan';
 import { seasonDesign, SeasonTerm } from './seasonDesign';
-import { preliminaryDecomposition, seasonalStrength } from './preliminaryDecomposition';
+import { preliminaryDecomposition, seasonalStrength, mstlOnGrid } from './preliminaryDecomposition';
 import { solveDecomposition } from './solveDecomposition';
-import { stlParameters, stlUnchecked, StlOptions } from './stl';
+import { stlParameters, StlOptions } from './stl';
 import type { RunContext } from '../analysis/runContext';
 
 /** Seasonal strength at or above which a seasonal term is kept ('auto'). */
@@ -324,45 +324,10 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   };
 }
 
-/** STL / MSTL with the user's settings on the grid (blank steps filled by linear interpolation). Unchecked. */
+/** STL / MSTL with the user's settings on the grid (blank steps filled by linear interpolation; robust unless told otherwise). Unchecked. */
 function stlDecomposition(y: Float64Array, grid: Int32Array, G: number, lengths: number[], opts: Omit<StlOptions, 'period'>) {
-  const n = y.length;
-  const filled = new Float64Array(G);
-  for (let i = 0; i < n; i++) {
-    filled[grid[i]] = y[i];
-    if (i > 0 && grid[i] - grid[i - 1] > 1) {
-      const a = grid[i - 1], b = grid[i];
-      for (let g = a + 1; g < b; g++) filled[g] = y[i - 1] + ((y[i] - y[i - 1]) * (g - a)) / (b - a);
-    }
-  }
   const robustDefault = opts.robust === undefined ? { robust: true } : {};
-  const order = lengths.map((_, j) => j).sort((a, b) => lengths[a] - lengths[b]);
-  const seasons: Float64Array[] = lengths.map(() => new Float64Array(G));
-  const deseason = Float64Array.from(filled);
-  let trend: Float64Array = new Float64Array(G);
-  let weights: Float64Array = new Float64Array(G).fill(1);
-  const passes = lengths.length > 1 ? 2 : 1;
-  const params = lengths.map((L) => stlParameters(G, { ...opts, ...robustDefault, period: Math.round(L) }));
-  for (let pass = 0; pass < passes; pass++) {
-    for (const j of order) {
-      for (let g = 0; g < G; g++) deseason[g] += seasons[j][g];
-      const r = stlUnchecked(Float64Array.from(deseason), params[j]);
-      seasons[j] = r.seasonal;
-      for (let g = 0; g < G; g++) deseason[g] -= r.seasonal[g];
-      trend = r.trend;
-      weights = r.weights;
-    }
-  }
-  const at = (a: Float64Array) => Float64Array.from(grid, (g) => a[g]);
-  const seasonal = seasons.map(at);
-  const tr = at(trend);
-  const remainder = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    let s = 0;
-    for (const sj of seasonal) s += sj[i];
-    remainder[i] = y[i] - s - tr[i];
-  }
-  return { seasonal, trend: tr, remainder, weights: at(weights), filledSteps: G - n, params };
+  return mstlOnGrid(y, grid, G, lengths, (L) => stlParameters(G, { ...opts, ...robustDefault, period: Math.round(L) }));
 }
 
 function stlResult(series: Series, plan: NonNullable<ReturnType<typeof seasonPlan>>, reports: SeasonReport[], out: ReturnType<typeof stlDecomposition>, warnings: Warning[]): DecomposeResult {
