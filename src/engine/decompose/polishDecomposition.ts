@@ -95,8 +95,9 @@ export function polishDecomposition(x: Float64Array, y: Float64Array, w: Float64
   bandedCholeskySolve(band, p, k, c);
   if (design) {
     const size = design.size;
-    // BA = B^T W' A_s (q x p: row a holds season column a against every basis function), and A_s^T g
-    const BA = new Float64Array(q * p);
+    // BA = B^T W' A_s, gathered basis-function-major (p x q: the writes of one point are contiguous),
+    // then turned season-column-major (q x p) for the banded solves; and A_s^T g
+    const BP = new Float64Array(p * q);
     const rt = new Float64Array(size);
     rt.set(seasonGradient(design, g));
     const M = Float64Array.from(design.gram);
@@ -110,10 +111,12 @@ export function polishDecomposition(x: Float64Array, y: Float64Array, w: Float64
       for (let a = 0; a <= k && e0 + a < p; a++) {
         const va = wi * values[o + a];
         if (va === 0) continue;
-        const e = e0 + a;
-        for (let b = 0; b < nnz; b++) BA[rowCols[ro + b] * p + e] += va * rowVals[ro + b];
+        const eq = (e0 + a) * q;
+        for (let b = 0; b < nnz; b++) BP[eq + rowCols[ro + b]] += va * rowVals[ro + b];
       }
     }
+    const BA = new Float64Array(q * p);
+    for (let e = 0; e < p; e++) for (let a = 0; a < q; a++) BA[a * p + e] = BP[e * q + a];
     // Schur complement: M -= BA^T G^-1 BA, rhs -= BA^T G^-1 rc
     const Z = new Float64Array(q * p);
     for (let a = 0; a < q; a++) {
