@@ -177,6 +177,14 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
       continue;
     }
     best = { g, J };
+    const f = new Float64Array(n);
+    let fmax = 0;
+    for (let i = 0; i < n; i++) {
+      f[i] = g[i] - t[i];
+      fmax = Math.max(fmax, Math.abs(f[i]));
+    }
+    change = fmax;
+    if (change <= tolerance) { t = g; mixedInput = inputMixed; break; }
     // once a step leaves the knots and spikes as they were, solve exactly on them: when the optimality
     // conditions hold there, jump to that point (the next plain step then confirms it)
     if (k >= 1 && tryPolish) {
@@ -203,14 +211,6 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
       }
       lastKey = key;
     }
-    const f = new Float64Array(n);
-    let fmax = 0;
-    for (let i = 0; i < n; i++) {
-      f[i] = g[i] - t[i];
-      fmax = Math.max(fmax, Math.abs(f[i]));
-    }
-    change = fmax;
-    if (change <= tolerance) { t = g; mixedInput = inputMixed; break; }
     if (gPrev && fPrev) {
       dG.push(Float64Array.from(g, (v, i) => v - gPrev![i]));
       dF.push(Float64Array.from(f, (v, i) => v - fPrev![i]));
