@@ -15,7 +15,8 @@
  *
  * (W' = W without the spike points; theta bordered by the zero-sum constraints) are solved by
  * block elimination: the banded Cholesky factor of B^T W' B (half-bandwidth k), q banded solves for
- * the season's columns, and the small bordered Schur complement. O(n (k + q) + q^2 (n_S + k) + q^3).
+ * the season's columns, and the small bordered Schur complement: O(n k r + q^2 p + q^3), with r the
+ * non-zeros of a season row, p = k + 1 + (knots) and q the season's coefficients.
  *
  * The result is the optimum when the guessed sets are right, which is checked here from the
  * optimality conditions themselves (not from the solve): with v = W (y - t - s - o),
