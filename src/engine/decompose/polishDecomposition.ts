@@ -208,6 +208,7 @@ export function activeSetDecomposition(x: Float64Array, y: Float64Array, w: Floa
     const keep = new Int8Array(m);
     for (let j = 0; j < rows.length; j++) if (knotChanges[j] * signs[j] > 0) keep[rows[j]] = signs[j] > 0 ? 1 : -1;
     const nr: number[] = [], ns: number[] = [];
+    const cand: number[] = [];
     const tol = lambda * (1 + within);
     for (let r = 0; r < m; ) {
       if (keep[r]) { nr.push(r); ns.push(keep[r]); r++; continue; }
@@ -215,10 +216,16 @@ export function activeSetDecomposition(x: Float64Array, y: Float64Array, w: Floa
       // a run of violating rows outside the set: its largest joins
       let best = r, e = r;
       while (e < m && !keep[e] && Math.abs(u[e]) > tol) { if (Math.abs(u[e]) > Math.abs(u[best])) best = e; e++; }
-      nr.push(best);
-      ns.push(u[best] > 0 ? 1 : -1);
+      cand.push(best);
       r = e;
     }
+    // at most a quarter of the knots (and at least 2) join per round, the largest violations first:
+    // adding every violating run at once was seen to make the set swing instead of settle
+    cand.sort((a, b) => Math.abs(u[b]) - Math.abs(u[a]));
+    for (const r of cand.slice(0, Math.max(2, Math.ceil(rows.length / 4)))) { nr.push(r); ns.push(u[r] > 0 ? 1 : -1); }
+    const order = nr.map((_, j) => j).sort((a, b) => nr[a] - nr[b]);
+    const nrs = order.map((j) => nr[j]), nss = order.map((j) => ns[j]);
+    nr.length = 0; ns.length = 0; nr.push(...nrs); ns.push(...nss);
     const spikeAt = new Int8Array(y.length);
     for (let j = 0; j < spikeRows.length; j++) spikeAt[spikeRows[j]] = spikeSigns[j] > 0 ? 1 : -1;
     const sr: number[] = [], ss: number[] = [];
