@@ -21,8 +21,26 @@ export interface Preliminary {
 /** Number of MSTL passes over the seasonal terms. */
 export const MSTL_PASSES = 2;
 
-/** Unchecked: grid strictly increasing from 0, every length >= 2 with gridLength > 2 length. */
-export function preliminaryDecomposition(y: Float64Array, grid: Int32Array, gridLength: number, lengths: number[]): Preliminary {
+/** STL parameters as {@link stlParameters} returns them. */
+export type StlSettings = ReturnType<typeof stlParameters>;
+
+/** STL/MSTL components at the clean points, and what the grid needed. */
+export interface MstlOnGrid extends Preliminary {
+  /** Blank steps filled by linear interpolation. */
+  filledSteps: number;
+  /** STL parameters of each term. */
+  params: StlSettings[];
+}
+
+/**
+ * STL (one seasonal term) or MSTL (several: one STL per term in increasing length, the whole
+ * iterated {@link MSTL_PASSES} times; K. Bandara, R. J. Hyndman and C. Bergmeir 2021,
+ * arXiv:2107.13462) of y laid on its grid, blank steps filled by linear interpolation between
+ * their neighbours; components returned at the clean points. `settings(L)` gives the STL
+ * parameters of a term of length L steps (rounded to whole steps by the caller). Without terms the
+ * trend is the data. Unchecked: grid strictly increasing from 0, gridLength > 2 max length.
+ */
+export function mstlOnGrid(y: Float64Array, grid: Int32Array, gridLength: number, lengths: number[], settings: (length: number) => StlSettings): MstlOnGrid {
   const n = y.length;
   const G = gridLength;
   const filled = new Float64Array(G);
@@ -36,23 +54,19 @@ export function preliminaryDecomposition(y: Float64Array, grid: Int32Array, grid
   const order = lengths.map((_, j) => j).sort((a, b) => lengths[a] - lengths[b]);
   const seasons: Float64Array[] = lengths.map(() => new Float64Array(G));
   const deseason = Float64Array.from(filled);
-  let trend: Float64Array = new Float64Array(G);
+  let trend: Float64Array = lengths.length ? new Float64Array(G) : Float64Array.from(filled);
   let weights: Float64Array = new Float64Array(G).fill(1);
   const passes = lengths.length > 1 ? MSTL_PASSES : 1;
+  const params = lengths.map((L) => settings(L));
   for (let pass = 0; pass < passes; pass++) {
     for (const j of order) {
-      const P = Math.round(lengths[j]);
       for (let g = 0; g < G; g++) deseason[g] += seasons[j][g];
-      const r = stlUnchecked(Float64Array.from(deseason), stlParameters(G, { period: P, seasonalWindow: 13, robust: true }));
+      const r = stlUnchecked(Float64Array.from(deseason), params[j]);
       seasons[j] = r.seasonal;
       for (let g = 0; g < G; g++) deseason[g] -= r.seasonal[g];
       trend = r.trend;
       weights = r.weights;
     }
-  }
-  if (lengths.length === 0) {
-    // no season: a robust LOESS-free fallback is not needed; the trend is left at the data
-    trend = Float64Array.from(filled);
   }
   const at = (a: Float64Array) => Float64Array.from(grid, (g) => a[g]);
   const seasonal = seasons.map(at);
@@ -63,7 +77,13 @@ export function preliminaryDecomposition(y: Float64Array, grid: Int32Array, grid
     for (const sj of seasonal) s += sj[i];
     remainder[i] = y[i] - s - tr[i];
   }
-  return { seasonal, trend: tr, remainder, weights: at(weights) };
+  return { seasonal, trend: tr, remainder, weights: at(weights), filledSteps: G - n, params };
+}
+
+/** Unchecked: grid strictly increasing from 0, every length >= 2 with gridLength > 2 length. */
+export function preliminaryDecomposition(y: Float64Array, grid: Int32Array, gridLength: number, lengths: number[]): Preliminary {
+  const { seasonal, trend, remainder, weights } = mstlOnGrid(y, grid, gridLength, lengths, (L) => stlParameters(gridLength, { period: Math.round(L), seasonalWindow: 13, robust: true }));
+  return { seasonal, trend, remainder, weights };
 }
 
 /**

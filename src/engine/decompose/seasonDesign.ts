@@ -22,12 +22,21 @@ export interface SeasonDesign {
   present: (Uint8Array | null)[];
   /** Fourier columns, point-major (n x 2K per Fourier term, in term order). */
   fourier: (Float64Array | null)[];
+  /** The bordered normal equations A^T W A (with the zero-sum constraints), unfactored: the start of every Huber Newton step. */
+  gram: Float64Array;
   /** LU factors of the bordered normal equations and pivots. */
   lu: Float64Array;
   piv: Int32Array;
   /** Size of the bordered system. */
   size: number;
   n: number;
+  /** Non-zero entries per design row (one per cycle term, 2K per Fourier term). */
+  nnz: number;
+  /** Start of each term's entries within a row (length terms + 1). */
+  termStart: Int32Array;
+  /** Row i's columns and values at i * nnz .. (i + 1) * nnz - 1, in term order. */
+  rowCols: Int32Array;
+  rowVals: Float64Array;
 }
 
 /** Builds and factors the season design for points x with weights w. Unchecked. */
@@ -62,29 +71,33 @@ export function seasonDesign(x: Float64Array, grid: Int32Array, w: Float64Array,
   }
   const nCycle = terms.filter((t) => t.kind === 'cycle').length;
   const size = q + nCycle;
-  const M = borderedNormal(terms, offset, present, fourier, n, q, size, w);
-  const piv = new Int32Array(size);
-  luFactor(M, size, piv);
-  return { terms, q, offset, present, fourier, lu: M, piv, size, n };
+  // the rows in compressed form: every point has the same number of entries
+  const termStart = new Int32Array(terms.length + 1);
+  terms.forEach((t, j) => { termStart[j + 1] = termStart[j] + (t.kind === 'cycle' ? 1 : 2 * t.harmonics); });
+  const nnz = termStart[terms.length];
+  const rowCols = new Int32Array(n * nnz), rowVals = new Float64Array(n * nnz);
+  for (let i = 0; i < n; i++) {
+    for (let t = 0; t < terms.length; t++) {
+      const term = terms[t], at = i * nnz + termStart[t];
+      if (term.kind === 'cycle') { rowCols[at] = offset[t] + term.phase[i]; rowVals[at] = 1; } else {
+        const K2 = 2 * term.harmonics, f = fourier[t]!;
+        for (let j = 0; j < K2; j++) { rowCols[at + j] = offset[t] + j; rowVals[at + j] = f[i * K2 + j]; }
+      }
+    }
+  }
+  const d: SeasonDesign = { terms, q, offset, present, fourier, gram: new Float64Array(0), lu: new Float64Array(0), piv: new Int32Array(size), size, n, nnz, termStart, rowCols, rowVals };
+  const M = borderedNormal(d, w);
+  d.gram = Float64Array.from(M);
+  luFactor(M, size, d.piv);
+  d.lu = M;
+  return d;
 }
 
 /** The normal equations A^T diag(v) A bordered by the zero-sum constraints (absent phases fixed at 0). Unchecked. */
-function borderedNormal(terms: SeasonTerm[], offset: number[], present: (Uint8Array | null)[], fourier: (Float64Array | null)[], n: number, q: number, size: number, v: Float64Array): Float64Array {
+function borderedNormal(d: SeasonDesign, v: Float64Array): Float64Array {
+  const { terms, offset, present, n, q, size } = d;
   const M = new Float64Array(size * size);
-  const cols: number[] = [];
-  const vals: number[] = [];
-  for (let i = 0; i < n; i++) {
-    const wi = v[i];
-    if (wi === 0) continue;
-    cols.length = 0;
-    vals.length = 0;
-    rowOf(terms, offset, fourier, i, cols, vals);
-    for (let a = 0; a < cols.length; a++) {
-      const ra = cols[a] * size;
-      const va = wi * vals[a];
-      for (let b = 0; b < cols.length; b++) M[ra + cols[b]] += va * vals[b];
-    }
-  }
+  for (let i = 0; i < n; i++) if (v[i] !== 0) addRowOuter(d, M, i, v[i]);
   let c = q;
   for (let tIdx = 0; tIdx < terms.length; tIdx++) {
     const t = terms[tIdx];
@@ -102,73 +115,117 @@ function borderedNormal(terms: SeasonTerm[], offset: number[], present: (Uint8Ar
   return M;
 }
 
+/** M += scale a_i a_i^T for design row i (M is size x size). Unchecked. */
+export function addRowOuter(d: SeasonDesign, M: Float64Array, i: number, scale: number): void {
+  const { nnz, rowCols, rowVals, size } = d;
+  const o = i * nnz;
+  for (let a = 0; a < nnz; a++) {
+    const ra = rowCols[o + a] * size, va = scale * rowVals[o + a];
+    for (let b = 0; b < nnz; b++) M[ra + rowCols[o + b]] += va * rowVals[o + b];
+  }
+}
+
 /**
  * The (season, spikes) block exactly: theta and o minimising
  *   1/2 sum w_i (r_i - (A theta)_i - o_i)^2 + rho sum |o_i|,  each cycle summing to zero,
- * i.e. a Huber regression of r on A (threshold rho / w_i), by iteratively reweighted least squares
- * (points inside the threshold weigh w_i, those outside rho / |e_i|: each step minimises a quadratic
- * majorant, so the Huber objective never rises; P. J. Huber, Robust Statistics, 1981, section 7.8),
- * until theta moves by less than 1e-14 of its size; then o_i = sign(e_i) max(0, |e_i| - rho / w_i),
- * e = r - A theta. Starts from `theta0`.
+ * i.e. a Huber regression of r on A (threshold c_i = rho / w_i; P. J. Huber, Robust Statistics,
+ * 1981, section 7.8), by Newton's method on the active set: with the points outside the threshold
+ * fixed, the Huber loss is quadratic (weight w_i inside, the linear term rho sign(e_i) outside),
+ * and one Newton step (Hessian A^T W_inside A, bordered by the constraints) reaches its minimiser;
+ * a backtracking line search on the Huber objective keeps every step downhill. Where that Hessian is
+ * singular (a phase whose every point is outside) or its step finds no descent, the step is that of
+ * the quadratic majorant instead (outside points weigh rho / |e_i|: iteratively reweighted least
+ * squares, never uphill). It stops when a full Newton step leaves the set of outside points
+ * unchanged (then theta is the exact minimiser), or when theta moves by less than 1e-14 of its size. The Hessian is the design's A^T W A less the outside points'
+ * rank-one terms (few: the spikes), so a step costs O(n q + (outside points) q^2 + q^3).
+ * Then o_i = sign(e_i) max(0, |e_i| - rho / w_i), e = r - A theta. Starts from `theta0`.
  * Writes the season into `out` (and per term into `parts`). Returns theta. Unchecked.
  */
 export function fitSeasonAndSpikes(d: SeasonDesign, r: Float64Array, w: Float64Array, rho: number, theta0: Float64Array, out: Float64Array, o: Float64Array, parts?: Float64Array[]): Float64Array {
   const { n, q, size } = d;
   let theta = Float64Array.from(theta0);
-  const e = new Float64Array(n);
-  const huber = (th: Float64Array): number => {
-    evaluateSeason(d, th, out);
+  const trial = new Float64Array(n);
+  const huber = (s: Float64Array): number => {
     let J = 0;
     for (let i = 0; i < n; i++) {
-      const ei = r[i] - out[i];
+      const ei = r[i] - s[i];
       const c = rho / w[i];
       const a = Math.abs(ei);
       J += a <= c ? 0.5 * w[i] * ei * ei : rho * a - 0.5 * rho * c;
     }
     return J;
   };
-  let J = huber(theta);
-  const vq = new Float64Array(n);
+  evaluateSeason(d, theta, out);
+  let J = huber(out);
   const psi = new Float64Array(n);
-  for (let it = 0; it < 1000; it++) {
-    evaluateSeason(d, theta, out);
+  const pattern = new Int8Array(n), lastPattern = new Int8Array(n);
+  const M = new Float64Array(size * size);
+  const rhs = new Float64Array(size);
+  const piv = new Int32Array(size);
+  let fullStep = false;
+  let majorise = false;
+  for (let it = 0; it < 200; it++) {
+    let same = true;
     for (let i = 0; i < n; i++) {
-      e[i] = r[i] - out[i];
+      const ei = r[i] - out[i];
       const c = rho / w[i];
-      const inside = Math.abs(e[i]) <= c;
-      // outside the threshold the Huber loss is majorised by a quadratic of weight rho / |e_i|
-      // (iteratively reweighted least squares, a majorise-minimise step: never uphill)
-      vq[i] = inside ? w[i] : rho / Math.abs(e[i]);
-      psi[i] = inside ? w[i] * e[i] : rho * Math.sign(e[i]);
+      const p = ei > c ? 1 : ei < -c ? -1 : 0;
+      pattern[i] = p;
+      if (p !== lastPattern[i]) same = false;
+      psi[i] = p === 0 ? w[i] * ei : rho * p;
     }
+    // a full Newton step for this set of outside points was taken and the set did not change: exact
+    if (it > 0 && fullStep && same) break;
+    lastPattern.set(pattern);
     const g = seasonGradient(d, psi);
-    const M = borderedNormal(d.terms, d.offset, d.present, d.fourier, n, q, size, vq);
-    // a small ridge keeps phases whose every point is outside the threshold solvable
-    let tr = 0;
-    for (let a = 0; a < q; a++) tr += M[a * size + a];
-    for (let a = 0; a < q; a++) M[a * size + a] += 1e-12 * (tr / q || 1);
-    const rhs = new Float64Array(size);
+    // Newton's Hessian (outside points weigh 0) when it is well posed; else, or after a Newton step
+    // that found no descent, the majorant's (outside points weigh rho / |e_i|: iteratively reweighted
+    // least squares, a majorise-minimise step that never goes uphill)
+    let newton: boolean = !majorise;
+    for (let attempt = 0; attempt < 2; attempt++) {
+      M.set(d.gram);
+      for (let i = 0; i < n; i++) {
+        if (pattern[i] === 0 || !(w[i] > 0)) continue;
+        const ei = Math.abs(r[i] - out[i]);
+        addRowOuter(d, M, i, newton ? -w[i] : rho / ei - w[i]);
+      }
+      // a small ridge keeps phases whose every point is outside the threshold solvable
+      let tr = 0;
+      for (let a = 0; a < q; a++) tr += M[a * size + a];
+      for (let a = 0; a < q; a++) M[a * size + a] += 1e-12 * (tr / q || 1);
+      luFactor(M, size, piv);
+      if (!newton) break;
+      // a direction in which no point is inside leaves Newton's model unbounded: take the majorant's step
+      let pmin = Infinity, pmax = 0;
+      for (let a = 0; a < size; a++) { const v = Math.abs(M[a * size + a]); pmin = Math.min(pmin, v); pmax = Math.max(pmax, v); }
+      if (pmin > 1e-8 * pmax) break;
+      newton = false;
+    }
+    rhs.fill(0);
     for (let a = 0; a < q; a++) rhs[a] = g[a];
     for (let t = 0; t < d.terms.length; t++) {
       const term = d.terms[t];
       if (term.kind === 'cycle') for (let p = 0; p < term.period; p++) if (!d.present[t]![p]) rhs[d.offset[t] + p] = 0;
     }
-    const piv = new Int32Array(size);
-    luFactor(M, size, piv);
     luSolve(M, size, piv, rhs);
     let step = 1;
     let next = theta;
     let Jn = J;
     for (let h = 0; h < 40; h++) {
       next = Float64Array.from(theta, (v, a) => v + step * rhs[a]);
-      Jn = huber(next);
+      evaluateSeason(d, next, trial);
+      Jn = huber(trial);
       if (Jn <= J) break;
       step /= 2;
     }
     let dmax = 0;
     for (let a = 0; a < q; a++) dmax = Math.max(dmax, Math.abs(step * rhs[a]));
     const improved = Jn <= J;
-    if (improved) { theta = next; J = Jn; }
+    if (improved) { theta = next; J = Jn; out.set(trial); }
+    fullStep = improved && step === 1 && newton;
+    // a Newton step that found no descent is followed by the majorant's step
+    majorise = newton && !improved;
+    if (majorise) continue;
     let tmax = 0;
     for (let a = 0; a < q; a++) tmax = Math.max(tmax, Math.abs(theta[a]));
     if (!improved || dmax <= 1e-14 * (1 + tmax)) break;
@@ -182,19 +239,24 @@ export function fitSeasonAndSpikes(d: SeasonDesign, r: Float64Array, w: Float64A
   return theta;
 }
 
-/** Nonzero columns of point i's design row. Unchecked. */
-function rowOf(terms: SeasonTerm[], offset: number[], fourier: (Float64Array | null)[], i: number, cols: number[], vals: number[]): void {
-  for (let t = 0; t < terms.length; t++) {
-    const term = terms[t];
-    if (term.kind === 'cycle') {
-      cols.push(offset[t] + term.phase[i]);
-      vals.push(1);
-    } else {
-      const K2 = 2 * term.harmonics;
-      const f = fourier[t]!;
-      for (let j = 0; j < K2; j++) { cols.push(offset[t] + j); vals.push(f[i * K2 + j]); }
-    }
+/**
+ * Solves a bordered system shaped like the design's normal equations (size x size: the q
+ * coefficients, then one zero-sum constraint per cycle term; absent phases fixed at 0) for the
+ * right-hand side `rhs` of the q coefficients (the rest is set here). Returns theta. Unchecked.
+ */
+export function solveBordered(d: SeasonDesign, M: Float64Array, rhs: Float64Array): Float64Array {
+  const { size, q } = d;
+  const b = new Float64Array(size);
+  for (let a = 0; a < q; a++) b[a] = rhs[a];
+  for (let t = 0; t < d.terms.length; t++) {
+    const term = d.terms[t];
+    if (term.kind === 'cycle') for (let p = 0; p < term.period; p++) if (!d.present[t]![p]) b[d.offset[t] + p] = 0;
   }
+  const lu = Float64Array.from(M);
+  const piv = new Int32Array(size);
+  luFactor(lu, size, piv);
+  luSolve(lu, size, piv, b);
+  return b.subarray(0, q);
 }
 
 /**
@@ -203,45 +265,38 @@ function rowOf(terms: SeasonTerm[], offset: number[], fourier: (Float64Array | n
  * point into `out` (and per term into `parts` when given). Returns theta. Unchecked.
  */
 export function fitSeason(d: SeasonDesign, r: Float64Array, w: Float64Array, out: Float64Array, parts?: Float64Array[]): Float64Array {
-  const { terms, offset, fourier, n, size } = d;
-  const rhs = new Float64Array(size);
-  for (let i = 0; i < n; i++) {
-    const v = w[i] * r[i];
-    for (let t = 0; t < terms.length; t++) {
-      const term = terms[t];
-      if (term.kind === 'cycle') rhs[offset[t] + term.phase[i]] += v;
-      else {
-        const K2 = 2 * term.harmonics;
-        const f = fourier[t]!;
-        for (let j = 0; j < K2; j++) rhs[offset[t] + j] += v * f[i * K2 + j];
-      }
-    }
-  }
+  const v = new Float64Array(d.n);
+  for (let i = 0; i < d.n; i++) v[i] = w[i] * r[i];
+  const g = seasonGradient(d, v);
+  const rhs = new Float64Array(d.size);
+  rhs.set(g);
   // absent phases: rhs 0 (their row is the identity)
-  for (let t = 0; t < terms.length; t++) {
-    const term = terms[t];
-    if (term.kind === 'cycle') for (let p = 0; p < term.period; p++) if (!d.present[t]![p]) rhs[offset[t] + p] = 0;
+  for (let t = 0; t < d.terms.length; t++) {
+    const term = d.terms[t];
+    if (term.kind === 'cycle') for (let p = 0; p < term.period; p++) if (!d.present[t]![p]) rhs[d.offset[t] + p] = 0;
   }
-  luSolve(d.lu, size, d.piv, rhs);
+  luSolve(d.lu, d.size, d.piv, rhs);
   evaluateSeason(d, rhs, out, parts);
   return rhs.subarray(0, d.q);
 }
 
 /** s = A theta per point (and per term). Unchecked. */
 export function evaluateSeason(d: SeasonDesign, theta: Float64Array, out: Float64Array, parts?: Float64Array[]): void {
-  const { terms, offset, fourier, n } = d;
+  const { n, nnz, rowCols, rowVals, termStart } = d;
+  const T = d.terms.length;
   for (let i = 0; i < n; i++) {
+    const o = i * nnz;
+    if (!parts) {
+      let s = 0;
+      for (let a = 0; a < nnz; a++) s += theta[rowCols[o + a]] * rowVals[o + a];
+      out[i] = s;
+      continue;
+    }
     let s = 0;
-    for (let t = 0; t < terms.length; t++) {
-      const term = terms[t];
+    for (let t = 0; t < T; t++) {
       let v = 0;
-      if (term.kind === 'cycle') v = theta[offset[t] + term.phase[i]];
-      else {
-        const K2 = 2 * term.harmonics;
-        const f = fourier[t]!;
-        for (let j = 0; j < K2; j++) v += theta[offset[t] + j] * f[i * K2 + j];
-      }
-      if (parts) parts[t][i] = v;
+      for (let a = termStart[t]; a < termStart[t + 1]; a++) v += theta[rowCols[o + a]] * rowVals[o + a];
+      parts[t][i] = v;
       s += v;
     }
     out[i] = s;
@@ -250,18 +305,13 @@ export function evaluateSeason(d: SeasonDesign, theta: Float64Array, out: Float6
 
 /** A^T v: the gradient of the season's least-squares term (zero at the optimum, given the zero-sum constraints). Unchecked. */
 export function seasonGradient(d: SeasonDesign, v: Float64Array): Float64Array {
-  const { terms, offset, fourier, n } = d;
+  const { n, nnz, rowCols, rowVals } = d;
   const g = new Float64Array(d.q);
   for (let i = 0; i < n; i++) {
-    for (let t = 0; t < terms.length; t++) {
-      const term = terms[t];
-      if (term.kind === 'cycle') g[offset[t] + term.phase[i]] += v[i];
-      else {
-        const K2 = 2 * term.harmonics;
-        const f = fourier[t]!;
-        for (let j = 0; j < K2; j++) g[offset[t] + j] += v[i] * f[i * K2 + j];
-      }
-    }
+    const vi = v[i];
+    if (vi === 0) continue;
+    const o = i * nnz;
+    for (let a = 0; a < nnz; a++) g[rowCols[o + a]] += vi * rowVals[o + a];
   }
   return g;
 }

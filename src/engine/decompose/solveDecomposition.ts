@@ -23,12 +23,21 @@
  * (seasonDesign.ts, fitSeasonAndSpikes: Newton on the active set, exact), the spikes then
  * o_i = sign(e_i) max(0, |e_i| - rho / w_i) of its residual e. The trend step is solved exactly by the trend-filtering solver, its
  * refinement seeded with the previous knots.
+ * These steps find the knots and spikes long before their values settle (the trend and a smooth
+ * season trade off slowly), so an active-set method on the joint problem (polishDecomposition.ts:
+ * exact solves on a guessed set of knots and spikes, the set corrected from the optimality
+ * conditions) is started from the given knots (the penalty search's) and then from each new set of
+ * knots and spikes (the first 3, later only a set a step left unchanged); a solution meeting the
+ * optimality conditions becomes the next point, and the plain step from it decides convergence as
+ * for any other point.
  * Works in scaled units (x to unit spacing, y to sd 1, w to mean 1). Unchecked.
  */
 import type { SolverStatus } from '../types';
-import { solveTrend, seedOf, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
+import { solveTrend, seedOf, KnotSeed, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
 import { SeasonDesign, fitSeasonAndSpikes } from './seasonDesign';
 import { differenceOperator } from '../linalg/difference';
+import { basisCache } from '../basis/discreteBSplines';
+import { activeSetDecomposition } from './polishDecomposition';
 
 /** Solution of {@link solveDecomposition} in the scaled units it was given. */
 export interface DecompositionFit {
@@ -46,7 +55,20 @@ export interface DecompositionFit {
 /** Relative duality gap asked of each trend step: an exact active-set refinement (seeded with the last knots) certifies at this level in a round or two. */
 export const TREND_STEP_TOLERANCE = 1e-10;
 
-export const DECOMPOSITION_RULE = 'block coordinate descent on the trend and (season, spikes), Anderson-accelerated (memory 5, safeguarded by the objective): each step an exact trend-filtering solve after the exact (season, spikes) block (a Huber regression on the season); stops when a plain step changes the trend by at most the tolerance times the sd of y; returns the last exact trend step with the season and spikes it was taken for';
+export const DECOMPOSITION_RULE = 'block coordinate descent on the trend and (season, spikes), Anderson-accelerated (memory 5, safeguarded by the objective), with an exact active-set solve on the knots and spikes found, taken as the next point where the optimality conditions hold: each step an exact trend-filtering solve after the exact (season, spikes) block (a Huber regression on the season); stops when a plain step changes the trend by at most the tolerance times the sd of y; returns the last exact trend step with the season and spikes it was taken for';
+
+/**
+ * Largest relative violation of the optimality conditions at which an exact solve on the current knots
+ * and spikes is taken as the next point. It only proposes the point: the plain step taken from it decides
+ * convergence. Loose enough for the precision of the recovered dual on long series (about 3e-9 at n = 20,000).
+ */
+export const POLISH_VIOLATION = 1e-6;
+
+/** Number of first steps after which the active-set method is tried whatever the knots and spikes did; afterwards only when a step left them unchanged. */
+export const POLISH_EAGER = 3;
+
+/** Rounds of the active-set method started from a step's knots and spikes. */
+export const ACTIVE_SET_ROUNDS = 12;
 
 /** Anderson memory (number of past steps mixed). */
 export const ANDERSON_MEMORY = 5;
@@ -56,6 +78,8 @@ export interface DecompositionStart {
   trend?: Float64Array;
   season?: Float64Array;
   spikes?: Float64Array;
+  /** Knot rows and signs of a trend near the answer (the penalty search's fit): the active-set method starts from them. */
+  knots?: KnotSeed;
 }
 
 /**
@@ -64,7 +88,7 @@ export interface DecompositionStart {
  * the trend in a plain step (scaled units: sd of y = 1). Unchecked.
  */
 export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rho: number, design: SeasonDesign | null,
-  tolerance: number, maxCycles: number, start: DecompositionStart = {}, onCycle?: (cycle: number) => void): DecompositionFit {
+  tolerance: number, maxCycles: number, start: DecompositionStart = {}, onCycle?: (cycle: number) => void, tryPolish = true): DecompositionFit {
   const n = x.length;
   let t: Float64Array = start.trend ? Float64Array.from(start.trend) : new Float64Array(n);
   const s = start.season ? Float64Array.from(start.season) : new Float64Array(n);
@@ -80,13 +104,26 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
   let trendIterations = 0;
   let trendOk = true;
   let resets = 0;
+  let polishes = 0, jumps = 0, polishRounds = 0;
+  // active set (knot rows and signs, spike points and signs) of the last plain step, and those already polished
+  let lastKey = '';
+  const tried = new Set<string>();
+  const cache = basisCache();
+  // knots of an exact solution found by the active-set method: the next trend step starts from them
+  let seedNext: KnotSeed | undefined;
+  const spikeSet = (): { rows: number[]; signs: number[] } => {
+    const rows: number[] = [], signs: number[] = [];
+    for (let i = 0; i < n; i++) if (o[i] !== 0) { rows.push(i); signs.push(Math.sign(o[i])); }
+    return { rows, signs };
+  };
   // the map F: trend -> exact trend step after the exact (season, spikes) step
   const F = (tIn: Float64Array): Float64Array => {
     seasonAndSpikes(y, tIn, w, rho, design, s, o, parts, theta, work, tolerance * 0.01);
     for (let i = 0; i < n; i++) z[i] = y[i] - s[i] - o[i];
     // operator and scaled x depend on x and w only: carried over; the polynomial fit depends on y and is rebuilt
     prob = { x, y: Float64Array.from(z), w, k, op: prob?.op, x01: prob?.x01, admmRows: prob?.admmRows };
-    fit = solveTrend(prob, lambda, { tolerance: TREND_STEP_TOLERANCE, maxIterations: 400, warm: fit, refine: true, seed: fit ? seedOf(fit) : undefined });
+    fit = solveTrend(prob, lambda, { tolerance: TREND_STEP_TOLERANCE, maxIterations: 400, warm: fit, refine: true, seed: seedNext ?? (fit ? seedOf(fit) : undefined) });
+    seedNext = undefined;
     trendIterations += fit.status.iterations;
     trendOk = fit.status.converged;
     return Float64Array.from(fit.b);
@@ -105,9 +142,27 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     for (let j = 0; j < d.length; j++) J += lambda * Math.abs(d[j]);
     return J;
   };
+  if (k >= 1 && tryPolish && start.knots && start.knots.rows.length) {
+    // the active-set method from the given knots and the spikes of the exact (season, spikes) step at the start trend
+    seasonAndSpikes(y, t, w, rho, design, s, o, parts, theta, work, 0);
+    const sp = spikeSet();
+    polishes++;
+    const pol = activeSetDecomposition(x, y, w, k, lambda, rho, design, start.knots.rows.slice(), start.knots.signs.slice(), sp.rows, sp.signs, ACTIVE_SET_ROUNDS, POLISH_VIOLATION, cache);
+    if (pol) {
+      polishRounds += pol.rounds;
+      jumps++;
+      theta.value = Float64Array.from(pol.theta);
+      t = pol.trend;
+      seedNext = { rows: pol.rows, signs: pol.signs };
+    }
+  }
+  // whether the point the last plain step started from was a mixed one (then the answer needs one more plain step)
+  let mixedInput = false;
   while (cycles < maxCycles) {
     cycles++;
     onCycle?.(cycles);
+    const inputMixed = mixedInput;
+    mixedInput = false;
     const g = F(t);
     const J = objective(g);
     if (best && J > best.J * (1 + 1e-12) + 1e-300) {
@@ -129,7 +184,33 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
       fmax = Math.max(fmax, Math.abs(f[i]));
     }
     change = fmax;
-    if (change <= tolerance) { t = g; break; }
+    if (change <= tolerance) { t = g; mixedInput = inputMixed; break; }
+    // once a step leaves the knots and spikes as they were, solve exactly on them: when the optimality
+    // conditions hold there, jump to that point (the next plain step then confirms it)
+    if (k >= 1 && tryPolish) {
+      const seed = seedOf(fit!);
+      const { rows: spikeRows, signs: spikeSigns } = spikeSet();
+      const key = `${seed.rows.join(',')}|${seed.signs.join(',')}|${spikeRows.join(',')}|${spikeSigns.join(',')}`;
+      if (!tried.has(key) && (polishes < POLISH_EAGER || key === lastKey)) {
+        tried.add(key);
+        polishes++;
+        const pol = activeSetDecomposition(x, y, w, k, lambda, rho, design, seed.rows, seed.signs, spikeRows, spikeSigns, ACTIVE_SET_ROUNDS, POLISH_VIOLATION, cache);
+        if (pol) polishRounds += pol.rounds;
+        if (pol) {
+          jumps++;
+          dG.length = 0;
+          dF.length = 0;
+          gPrev = null;
+          fPrev = null;
+          theta.value = Float64Array.from(pol.theta);
+          t = pol.trend;
+          seedNext = { rows: pol.rows, signs: pol.signs };
+          lastKey = key;
+          continue;
+        }
+      }
+      lastKey = key;
+    }
     if (gPrev && fPrev) {
       dG.push(Float64Array.from(g, (v, i) => v - gPrev![i]));
       dF.push(Float64Array.from(f, (v, i) => v - fPrev![i]));
@@ -159,8 +240,9 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     const next = Float64Array.from(g);
     for (let a = 0; a < m; a++) for (let i = 0; i < n; i++) next[i] -= gamma[a] * dG[a][i];
     t = next;
+    mixedInput = true;
   }
-  if (change <= tolerance) {
+  if (change <= tolerance && mixedInput) {
     // plain steps from the converged point until one moves the trend by at most the tolerance
     // (the point reached by mixing is close to, but not itself, a plain step's output)
     for (let extra = 0; extra < 20; extra++) {
@@ -180,7 +262,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
   const converged = change <= tolerance && trendOk;
   return {
     trend: t, season: s, parts, spikes: o, theta: theta.value, trendFit: fit!,
-    status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations and ${resets} memory resets in all` },
+    status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations, ${resets} memory resets, ${polishes} exact solves on the knots and spikes of a step (${jumps} taken, ${polishRounds} rounds) in all` },
   };
 }
 

@@ -96,6 +96,6 @@ describe('long series', () => {
     const n = 6000;
     const y = Array.from({ length: n }, (_, i) => Math.sin(i / 300));
     expect(() => runAnalysis({ analysis: 'trend', y, options: { order: 3 } })).toThrow(/trend filtering of order 3 chooses its penalty by cross-validation on at most 5,000 points; this series has 6,000.*Give a penalty/);
-    expect(() => runAnalysis({ analysis: 'decompose', y: Array.from({ length: 10001 }, (_, i) => i % 7) })).toThrow(/Use method=stl/);
+    expect(() => runAnalysis({ analysis: 'decompose', y: Array.from({ length: 20001 }, (_, i) => i % 7) })).toThrow(/at most 20,000 points.*Use method=stl/);
   });
 });
