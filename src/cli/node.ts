@@ -2,10 +2,16 @@
 import * as fs from 'fs';
 import { runCliWith } from './main';
 import { runColumnsInThreads } from './threads';
+import type { SheetReader } from './xlsx';
+
+// read-excel-file is loaded when a workbook is read (its CommonJS build), not for every CSV run.
+const readWorkbook: SheetReader = (input, sheet, options) => (require('read-excel-file/node') as { readSheet: SheetReader }).readSheet(input, sheet, options);
 
 // Several --y columns run in worker threads, one per core.
 void runCliWith(process.argv.slice(2), {
   readFile: (p) => fs.readFileSync(p, 'utf8'),
+  readBytes: (p) => fs.readFileSync(p),
+  readWorkbook,
   out: (t) => process.stdout.write(t + '\n'),
   err: (t) => process.stderr.write(t + '\n'),
   exists: (p) => fs.existsSync(p),
