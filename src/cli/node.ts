@@ -5,7 +5,9 @@ import { runColumnsInThreads } from './threads';
 import type { SheetReader } from './xlsx';
 
 // read-excel-file is loaded when a workbook is read (its CommonJS build), not for every CSV run.
-const readWorkbook: SheetReader = (input, sheet, options) => (require('read-excel-file/node') as { readSheet: SheetReader }).readSheet(input, sheet, options);
+// Its Node entry takes a Buffer (a plain Uint8Array would be taken for a path).
+const readWorkbook: SheetReader = (input: Uint8Array, sheet, options) =>
+  (require('read-excel-file/node') as { readSheet: SheetReader }).readSheet(Buffer.isBuffer(input) ? input : Buffer.from(input.buffer, input.byteOffset, input.byteLength), sheet, options);
 
 // Several --y columns run in worker threads, one per core.
 void runCliWith(process.argv.slice(2), {
