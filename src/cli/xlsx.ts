@@ -156,7 +156,7 @@ export function sheetTable(data: WorkbookCell[][], errors: Map<string, string>, 
   let first = 0, last = data.length;
   while (first < last && empty(data[first], first)) first++;
   while (last > first && empty(data[last - 1], last - 1)) last--;
-  if (first === last) throw new CliError(`sheet "${sheet}" is empty; choose another with --sheet.`, 1);
+  if (first === last) throw new CliError(`sheet "${sheet}" is empty; choose another sheet.`, 1);
   let width = 0;
   for (let i = first; i < last; i++) width = Math.max(width, (data[i] ?? []).length);
   for (const k of errors.keys()) { const [i, j] = k.split(',').map(Number); if (i >= first && i < last) width = Math.max(width, j + 1); }

@@ -84,7 +84,7 @@ describe('knotwise on .xlsx workbooks', () => {
     expect(tooFar.err[0]).toMatch(/no sheet "4"; the workbook has 3 sheets/);
     const empty = await run(['fit', XLSX, '--sheet', 'Empty']);
     expect(empty.code).toBe(1);
-    expect(empty.err).toEqual([`knotwise: ${XLSX}: sheet "Empty" is empty; choose another with --sheet.`]);
+    expect(empty.err).toEqual([`knotwise: ${XLSX}: sheet "Empty" is empty; choose another sheet.`]);
     const notXlsx = await run(['fit', 'fake.xlsx'], { 'fake.xlsx': Buffer.from('week,value\n1,2\n') });
     expect(notXlsx.code).toBe(1);
     expect(notXlsx.err).toEqual(['knotwise: fake.xlsx: the file is not an .xlsx workbook (an .xlsx file is a zip archive); save it from Excel as .xlsx, or give a CSV file.']);
