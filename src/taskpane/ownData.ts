@@ -8,6 +8,7 @@
  * date cells) become Excel serials in a date column, as a worksheet holds
  * them; anything else stays text, for the engine to report.
  */
+import { unzipSync, zipSync } from 'fflate';
 import { readSheet } from 'read-excel-file/browser';
 import { Table, guessDelimiter, parseCsv } from '../cli/csv';
 import { SheetReader, readWorkbookTable } from '../cli/xlsx';
@@ -42,8 +43,20 @@ export interface OwnWorkbook {
  */
 export async function readOwnWorkbook(bytes: ArrayBuffer | Uint8Array, sheet?: string): Promise<OwnWorkbook> {
   const data = bytes instanceof Uint8Array ? bytes : new Uint8Array(bytes);
-  const w = await readWorkbookTable(data, sheet, readSheet as unknown as SheetReader);
+  const w = await readWorkbookTable(data, sheet, (input, k, options) => (readSheet as unknown as SheetReader)(storedParts(input as Uint8Array), k, options));
   return { table: ownTable(w.table), sheet: w.sheet, sheets: w.sheets };
+}
+
+/**
+ * The workbook's XML parts in a zip archive without compression. read-excel-file's
+ * browser entry unzips with fflate's asynchronous unzip, which inflates a part
+ * of 512 KB or more (a sheet of some ten thousand rows) in a Worker started from
+ * a blob: URL; the pane's Content-Security-Policy forbids such workers, so the
+ * parts are inflated here on this thread and handed over stored, which it
+ * copies as they are. (The file's own checks, not a zip archive, run before.)
+ */
+function storedParts(bytes: Uint8Array): Uint8Array {
+  return zipSync(unzipSync(bytes, { filter: (f) => /\.(xml|rels)$/i.test(f.name) }), { level: 0 });
 }
 
 /** True when a file name says .xlsx workbook (or its macro-enabled twin, .xlsm). */
