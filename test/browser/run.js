@@ -213,6 +213,16 @@ test('a CSV file opened in the preview becomes the sheet; dates in another layou
 
 test('an .xlsx workbook opened in the preview: its first sheet with date cells is fitted with dates on the axis, other sheets can be chosen, a large sheet opens under the content policy', async (page) => {
   // The seeded workbook of test/cli/fixtures (make_depot_workbook.py, written with Debian's python3-openpyxl)
+  await page.$eval('#own-data', (d) => { d.open = true; });
+  try {
+    await openWorkbooks(page);
+  } finally {
+    // the tests after this one run on the demo sheet
+    await page.click('#demo-use');
+  }
+});
+
+async function openWorkbooks(page) {
   await page.setInputFiles('#csv-file', path.join(__dirname, '..', 'cli', 'fixtures', 'depot-weekly.xlsx'));
   await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'Weekly');
   const a2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(2)', (t) => t.textContent);
@@ -225,7 +235,7 @@ test('an .xlsx workbook opened in the preview: its first sheet with date cells i
   await page.click('#run');
   await page.waitForFunction(() => document.querySelector('#status')?.textContent?.startsWith('Fitted Weekly!'));
   const ticks = await page.$eval('#chart', (b) => b.dataset.xTicks);
-  assert(/^2024-\d{2}/.test(ticks) && !/4\d{4}/.test(ticks), `axis ticks are not dates: ${ticks}`);
+  assert(/^2024(\b|-\d{2}| Q\d)/.test(ticks) && !/4\d{4}/.test(ticks), `axis ticks are not dates: ${ticks}`);
   const drawn = await page.$eval('#chart', (b) => b.dataset.points);
   assert(drawn === '55', `expected 55 points (60 rows less a blank, a text, an error, a boolean and a number stored as text), got ${drawn}`);
   const dropped = await page.$eval('#warnings li[data-code="dropped-cells"]', (l) => l.textContent);
@@ -253,8 +263,7 @@ test('an .xlsx workbook opened in the preview: its first sheet with date cells i
   const note = await page.textContent('#sheet-note');
   assert(/^30000 rows read/.test(note), `large sheet: ${note}; status ${await page.textContent('#status')}`);
   assert(await page.isHidden('#own-sheet'), 'the sheet list is shown for a workbook of one sheet');
-  await page.click('#demo-use');
-});
+}
 
 test('every control fits at 320 px and the tables scroll inside their box', async (page, base, browser) => {
   const p = await browser.newPage({ viewport: { width: 320, height: 800 } });
