@@ -105,7 +105,10 @@ export function fieldToCell(f: string): Cell {
  * with a message that shows one and says which layout is read. A column is
  * refused when a field looks like an ISO date but is not a valid one
  * ("2023-02-30", "2023-1-2"), or when most of its non-blank text fields look
- * like dates in another layout ("02/01/2023", "2 Jan 2023").
+ * like dates in another layout ("02/01/2023", "2 Jan 2023"). A sheet of a
+ * workbook has typed cells (dates are date cells): its column is refused only
+ * when most of its filled cells are text that looks like dates; a few such
+ * text cells are left for the engine to leave out and name, as on a worksheet.
  */
 export function checkDates(table: Table, index: number): void {
   const name = table.header[index];
