@@ -67,4 +67,6 @@ module.exports = (env, argv) => ({
     new CopyWebpackPlugin({ patterns: [{ from: 'assets', to: 'assets' }, { from: 'manifest.xml', to: 'manifest.xml' }, { from: 'src/taskpane/taskpane.css', to: 'taskpane.css' }, { from: 'node_modules/uplot/dist/uPlot.min.css', to: 'uPlot.min.css' }] }),
   ],
   performance: { hints: false },
+  // No shim for Node's `global` (read-excel-file only asks whether it exists): webpack's shim builds a function from text.
+  node: { global: false },
 });

@@ -24,6 +24,8 @@ export interface Table {
   rows: Cell[][];
   /** Per column: true when at least one field was read as an ISO date (its numbers are Excel serials). */
   dateColumns: boolean[];
+  /** Where the cells came from: a CSV file (the default) or a sheet of an .xlsx workbook (dates are date cells there). */
+  source?: 'csv' | 'workbook';
 }
 
 /** Dates in layouts other than ISO 8601 (02/01/2023, 2023/01/02, 2 Jan 2023, 2023-1-2): readable by a person, ambiguous or unsupported here. */
@@ -103,14 +105,18 @@ export function fieldToCell(f: string): Cell {
  * with a message that shows one and says which layout is read. A column is
  * refused when a field looks like an ISO date but is not a valid one
  * ("2023-02-30", "2023-1-2"), or when most of its non-blank text fields look
- * like dates in another layout ("02/01/2023", "2 Jan 2023").
+ * like dates in another layout ("02/01/2023", "2 Jan 2023"). A sheet of a
+ * workbook has typed cells (dates are date cells): its column is refused only
+ * when most of its filled cells are text that looks like dates; a few such
+ * text cells are left for the engine to leave out and name, as on a worksheet.
  */
 export function checkDates(table: Table, index: number): void {
   const name = table.header[index];
-  let text = 0, dateLike = 0;
+  let text = 0, dateLike = 0, filled = 0;
   let first: { row: number; value: string } | undefined;
   table.rows.forEach((r, i) => {
     const v = r[index];
+    if (v !== null && v !== undefined) filled++;
     if (typeof v !== 'string') return;
     text++;
     const t = v.trim();
@@ -121,6 +127,12 @@ export function checkDates(table: Table, index: number): void {
   });
   if (!first) return;
   const iso = looksLikeIsoDate(first.value);
+  if (table.source === 'workbook') {
+    // A sheet's cells have types: a few dates typed as text among other cells are text rows the engine leaves
+    // out and names, as on a worksheet; a column mostly of dates stored as text is refused here.
+    if (dateLike * 2 > filled) throw new CliError(`column "${name}": row ${first.row} holds the text "${first.value}", a date stored as text${dateLike > 1 ? ` (${dateLike} such rows)` : ''}; store the dates as date cells (or serial numbers), or save the sheet as CSV with dates as YYYY-MM-DD; rows count the sheet's data rows, the first after the header being row 1.`);
+    return;
+  }
   if (table.dateColumns[index] || iso || dateLike * 2 > text) {
     const what = iso ? 'is not a valid ISO 8601 date' : 'looks like a date that cannot be read';
     throw new CliError(`column "${name}": row ${first.row} holds "${first.value}", which ${what}${dateLike > 1 ? ` (${dateLike} such rows)` : ''}. Write dates as YYYY-MM-DD, optionally with a time (YYYY-MM-DD HH:MM or YYYY-MM-DDTHH:MM:SS), or as Excel serial numbers; rows count the file's data rows, the first after the header being row 1.`);

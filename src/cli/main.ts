@@ -1,16 +1,21 @@
 /**
- * The knotwise command line: CSV in, JSON or a text summary out. A thin front
+ * The knotwise command line: CSV or .xlsx in, JSON or a text summary out. A thin front
  * over the engine: it reads columns, calls the same entry points as the
  * worksheet functions, and prints what comes back.
  */
 import { AnalysisResult, Cell, evaluateAnalysis, isKnotwiseError, runAnalysis, toRows } from '../engine';
 import { CliError, NumericTable, Table, columnIndex, parseCsv, parseNumericCsv } from './csv';
+import { SheetReader, isOldOfficeFile, isZip, readWorkbookTable } from './xlsx';
 import { CommandSpec, Parsed, commands, helpText, parseArgs } from './options';
 import { dataDecimals, formatFixed, formatNumber, roundForData, serialToIso, smoothPenaltyInWords, ruleInWords, fitSolverInWords, breaksSolverInWords } from '../present';
 
 /** What the command line needs from its host (Node's fs and streams, or a test double). */
 export interface CliIO {
   readFile(path: string): string;
+  /** The file's bytes (to tell an .xlsx workbook from CSV text; absent: CSV only). */
+  readBytes?(path: string): Uint8Array;
+  /** read-excel-file's readSheet (its Node entry), which reads a sheet of an .xlsx workbook (absent: CSV only). */
+  readWorkbook?: SheetReader;
   out(text: string): void;
   err(text: string): void;
   /** Whether a file exists (for --out; absent: the command line cannot write files). */
@@ -25,18 +30,53 @@ function one(p: Parsed, flag: string): string | undefined {
   return p.values.get(flag)?.[0];
 }
 
-function readTable(io: CliIO, path: string | undefined): Table | NumericTable {
-  if (!path) fail('give a CSV file; see knotwise help.');
+/** A file name that says workbook (.xlsx, .xlsm, or the old .xls). */
+const WORKBOOK_NAME = /\.xls[xmb]?$/i;
+
+function csvTable(path: string, text: string, sheet: string | undefined): Table | NumericTable {
+  if (sheet !== undefined) fail(`--sheet applies to .xlsx workbooks; ${path} is read as CSV.`);
+  // All-numeric files (the common case) are read straight into typed arrays; anything else cell by cell.
+  const t = parseNumericCsv(text) ?? parseCsv(text);
+  if (!t.header.length) fail(`${path} is empty.`);
+  return t;
+}
+
+function readTable(io: CliIO, path: string | undefined, sheet?: string): Table | NumericTable {
+  if (!path) fail('give a CSV or .xlsx file; see knotwise help.');
+  if (WORKBOOK_NAME.test(path!)) fail(`${path}: this host reads CSV files only; the knotwise command reads .xlsx workbooks.`);
   let text: string;
   try {
     text = io.readFile(path!);
   } catch (e) {
     throw new CliError(`cannot read ${path}: ${(e as Error).message}`);
   }
-  // All-numeric files (the common case) are read straight into typed arrays; anything else cell by cell.
-  const t = parseNumericCsv(text) ?? parseCsv(text);
-  if (!t.header.length) fail(`${path} is empty.`);
-  return t;
+  return csvTable(path!, text, sheet);
+}
+
+/**
+ * Reads the data file: an .xlsx workbook (told by its content, a zip
+ * archive, or by its name) through the host's workbook reader, anything
+ * else as CSV text.
+ */
+async function loadTable(io: CliIO, path: string | undefined, sheet: string | undefined): Promise<Table | NumericTable> {
+  if (!io.readBytes || !io.readWorkbook) return readTable(io, path, sheet);
+  if (!path) fail('give a CSV or .xlsx file; see knotwise help.');
+  let bytes: Uint8Array;
+  try {
+    bytes = io.readBytes(path!);
+  } catch (e) {
+    throw new CliError(`cannot read ${path}: ${(e as Error).message}`);
+  }
+  if (isZip(bytes) || isOldOfficeFile(bytes) || WORKBOOK_NAME.test(path!)) {
+    try {
+      return (await readWorkbookTable(bytes, sheet, io.readWorkbook)).table;
+    } catch (e) {
+      if (e instanceof CliError) throw new CliError(`${path}: ${e.message}`, e.exitCode);
+      throw e;
+    }
+  }
+  // the same text readFile gives (a byte-order mark is kept for the CSV reader, which skips it)
+  return csvTable(path!, new TextDecoder('utf-8', { ignoreBOM: true }).decode(bytes), sheet);
 }
 
 /** Column i of a table as engine cells (from an all-numeric file, one packed array of numbers copied from its typed array). */
@@ -280,19 +320,42 @@ interface Plan {
   outPath?: string;
 }
 
-/** Reads the arguments and the file: the help's exit code, or the columns to run. */
-function prepare(argv: string[], io: CliIO): number | Plan {
+interface Request {
+  cmd: Command;
+  p: Parsed;
+  outPath?: string;
+}
+
+/** Reads the arguments: the help's exit code, or the command to run on which file. */
+function parseCommand(argv: string[], io: CliIO): number | Request {
   const [command, ...rest] = argv;
   if (!command || command === 'help' || command === '--help' || command === '-h') { io.out(helpText(rest[0])); return command ? 0 : 2; }
   if (command !== 'fit' && command !== 'breaks' && command !== 'decompose') fail(`unknown command "${command}"; use fit, breaks, decompose or help.`);
   const cmd = command as Command;
   const spec = commands().find((c) => c.name === cmd)!;
   const p = parseArgs(rest, spec, fail);
-  if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV file (got ${p.positional.length}).`);
+  if (p.positional.length !== 1) fail(`${spec.usage}: give exactly one CSV or .xlsx file (got ${p.positional.length}).`);
   const outPath = one(p, '--out');
   if (p.switches.has('--force') && outPath === undefined) fail('--force only applies with --out FILE.');
   if (outPath !== undefined) checkOut(io, outPath, p.switches.has('--force'));
-  const t = readTable(io, p.positional[0]);
+  return { cmd, p, outPath };
+}
+
+/** Reads the arguments and the file (CSV only: this entry is synchronous): the help's exit code, or the columns to run. */
+function prepare(argv: string[], io: CliIO): number | Plan {
+  const r = parseCommand(argv, io);
+  if (typeof r === 'number') return r;
+  return planFor(io, r, readTable(io, r.p.positional[0], one(r.p, '--sheet')));
+}
+
+/** Reads the arguments and the file, CSV or .xlsx: the help's exit code, or the columns to run. */
+async function prepareAsync(argv: string[], io: CliIO): Promise<number | Plan> {
+  const r = parseCommand(argv, io);
+  if (typeof r === 'number') return r;
+  return planFor(io, r, await loadTable(io, r.p.positional[0], one(r.p, '--sheet')));
+}
+
+function planFor(io: CliIO, { cmd, p, outPath }: Request, t: Table | NumericTable): Plan {
   const { x, w, ys, xDates } = columns(p, t);
   const evalPath = one(p, '--eval');
   const evalX = cmd === 'fit' && evalPath ? readEval(io, evalPath) : null;
@@ -317,7 +380,7 @@ function report(io: CliIO, e: unknown): number {
   return 1;
 }
 
-/** Runs the command line; returns the exit code (0 done, 1 data or option refused, 2 usage). */
+/** Runs the command line on a CSV file; returns the exit code (0 done, 1 data or option refused, 2 usage). */
 export function runCli(argv: string[], io: CliIO): number {
   try {
     const plan = prepare(argv, io);
@@ -330,12 +393,14 @@ export function runCli(argv: string[], io: CliIO): number {
 
 /**
  * The command line with the columns run by `runColumns` (e.g. spread over
- * worker threads): same output, same order, same exit codes as {@link runCli}.
- * `runColumns` rejects with the error of the first failing column in order.
+ * worker threads): same output, same order, same exit codes as {@link runCli};
+ * it also reads .xlsx workbooks when the host gives `readBytes` and
+ * `readWorkbook`. `runColumns` rejects with the error of the first failing
+ * column in order.
  */
 export async function runCliWith(argv: string[], io: CliIO, runColumns: (jobs: ColumnJob[]) => Promise<Record<string, unknown>[]>): Promise<number> {
   try {
-    const plan = prepare(argv, io);
+    const plan = await prepareAsync(argv, io);
     if (typeof plan === 'number') return plan;
     return print(io, plan, await runColumns(plan.jobs));
   } catch (e) {

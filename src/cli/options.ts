@@ -31,6 +31,7 @@ const common: OptionSpec[] = [
   { flag: '--x', value: 'COL', help: 'column of positions (header name or 1-based number); ISO dates are read as dates; default: row numbers 1..n' },
   { flag: '--y', value: 'COL', help: 'column(s) of values; several columns give one result each; default: the last column', repeatable: true },
   { flag: '--w', value: 'COL', help: 'column of positive weights' },
+  { flag: '--sheet', value: 'NAME', help: 'with an .xlsx file: the sheet to read (name or 1-based number); default: the first sheet' },
   { flag: '--json', help: 'print JSON (one object, or an array for several --y) instead of a text summary' },
   { flag: '--out', value: 'FILE', help: 'write the output (JSON or text) to FILE instead of the screen; an existing FILE is never replaced without --force' },
   { flag: '--force', help: 'with --out: replace FILE if it exists' },
@@ -76,7 +77,7 @@ export function commands(): CommandSpec[] {
   const models = analysisDefinitions('changepoints').map((d) => d.name);
   const fit: CommandSpec = {
     name: 'fit',
-    usage: 'knotwise fit <file.csv> [options]',
+    usage: 'knotwise fit <file.csv|file.xlsx> [options]',
     summary: 'smooth a series: fitted values, penalty, df, knots and warnings',
     options: [
       ...common,
@@ -88,7 +89,7 @@ export function commands(): CommandSpec[] {
   };
   const breaks: CommandSpec = {
     name: 'breaks',
-    usage: 'knotwise breaks <file.csv> [options]',
+    usage: 'knotwise breaks <file.csv|file.xlsx> [options]',
     summary: 'find changepoints: breaks table, segments and the segmented fit',
     options: [
       ...common,
@@ -98,7 +99,7 @@ export function commands(): CommandSpec[] {
   };
   const decompose: CommandSpec = {
     name: 'decompose',
-    usage: 'knotwise decompose <file.csv> [options]',
+    usage: 'knotwise decompose <file.csv|file.xlsx> [options]',
     summary: 'take a series apart: trend, season, spikes and remainder per row, with the season found from dates',
     options: [...common, ...declaredFlags('decomposition')],
   };
@@ -107,7 +108,7 @@ export function commands(): CommandSpec[] {
 
 /** The help text, generated from the command tables and, for one method, from its declarations. */
 export function helpText(topic?: string): string {
-  const lines = ['knotwise: smoothing, knots and changepoints for series in CSV files', ''];
+  const lines = ['knotwise: smoothing, knots and changepoints for series in CSV files and .xlsx workbooks', ''];
   const defs = analysisDefinitions();
   const one = topic ? defs.find((d) => d.name === topic.toLowerCase()) : undefined;
   if (one) {
@@ -127,7 +128,8 @@ export function helpText(topic?: string): string {
   lines.push('Methods and models:');
   for (const d of defs) lines.push(`  ${d.name.padEnd(14)} ${d.label}`);
   lines.push('', 'knotwise help NAME shows one method\'s options with their defaults.');
-  lines.push('Rows in the output are numbered as data rows of the file (1 = the first row after the header).');
+  lines.push('Rows in the output are numbered as data rows of the file or sheet (1 = the first row after the header).');
+  lines.push('In an .xlsx sheet, date cells are read as dates; text, booleans and error cells are left out and named, as on a worksheet.');
   lines.push('Exit codes: 0 done; 1 the data or an option was refused (message on stderr); 2 usage error.');
   lines.push('A smoothed trend describes the past and is not a forecast; a statistical break is not proof of its cause.');
   return lines.join('\n');

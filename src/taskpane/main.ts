@@ -14,7 +14,7 @@ import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
 import { axisFontSizes, axisFor, drawCurve, drawFit, resizeCharts } from './chart';
-import { readOwnTable } from './ownData';
+import { OwnTable, openOwnFile, readOwnTable } from './ownData';
 import { reportStart, sharePlan } from './share';
 import { View, viewOf } from './view';
 import { CellBlock, ExcelWorkbook, PageWorkbook, WriteBlock, WriteError, Workbook } from './workbook';
@@ -183,9 +183,9 @@ function pageWorkbook(): PageWorkbook {
   fill(0, 1);
   const update = () => { wb.selection = { x: Number(xs.value), y: Number(ys.value) }; renderSheet(wb); };
   xs.onchange = update; ys.onchange = update;
-  const useTable = (name: string, text: string) => {
+  const useTable = (name: string, text: string | OwnTable) => {
     try {
-      const t = readOwnTable(text);
+      const t = typeof text === 'string' ? readOwnTable(text) : text;
       wb.load(name, t.header, t.rows, t.dateColumns);
       const x = t.dateColumns.indexOf(true) >= 0 ? t.dateColumns.indexOf(true) : t.header.length > 1 ? 0 : -1;
       const y = t.header.findIndex((_, j) => j !== x && t.rows.some((r) => typeof r[j] === 'number'));
@@ -200,7 +200,7 @@ function pageWorkbook(): PageWorkbook {
   $('paste-use').onclick = () => useTable('Pasted', $<HTMLTextAreaElement>('paste').value);
   $<HTMLInputElement>('csv-file').onchange = async () => {
     const f = $<HTMLInputElement>('csv-file').files?.[0];
-    if (f) useTable(f.name.replace(/\.[^.]*$/, '').replace(/[^A-Za-z0-9_ ]/g, '_').slice(0, 31) || 'File', await f.text());
+    if (f) await openOwnFile(f, $<HTMLSelectElement>('own-sheet'), useTable, (m) => showStatus(m, 'error'));
   };
   $('demo-use').onclick = () => {
     const d = demoWorkbook(() => {});

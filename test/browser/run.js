@@ -211,6 +211,60 @@ test('a CSV file opened in the preview becomes the sheet; dates in another layou
   await page.click('#demo-use');
 });
 
+test('an .xlsx workbook opened in the preview: its first sheet with date cells is fitted with dates on the axis, other sheets can be chosen, a large sheet opens under the content policy', async (page) => {
+  // The seeded workbook of test/cli/fixtures (make_depot_workbook.py, written with Debian's python3-openpyxl)
+  await page.$eval('#own-data', (d) => { d.open = true; });
+  try {
+    await openWorkbooks(page);
+  } finally {
+    // the tests after this one run on the demo sheet
+    await page.click('#demo-use');
+  }
+});
+
+async function openWorkbooks(page) {
+  await page.setInputFiles('#csv-file', path.join(__dirname, '..', 'cli', 'fixtures', 'depot-weekly.xlsx'));
+  await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'Weekly');
+  const a2 = await page.$eval('#sheet-table tr:nth-child(3) td:nth-child(2)', (t) => t.textContent);
+  assert(a2 === '2024-01-01', `A2 of the workbook shows ${a2}`);
+  const sheets = await page.$$eval('#own-sheet option', (o) => o.map((x) => x.textContent));
+  assert(JSON.stringify(sheets) === '["Weekly","Monthly","Empty"]' && await page.isVisible('#own-sheet'), `sheet list: ${sheets}`);
+  const picked = [await page.inputValue('#pick-x'), await page.inputValue('#pick-y')];
+  assert(picked.join() === '0,1', `x and y columns picked: ${picked}`);
+  await page.selectOption('#method', 'spline');
+  await page.click('#run');
+  await page.waitForFunction(() => document.querySelector('#status')?.textContent?.startsWith('Fitted Weekly!'));
+  const ticks = await page.$eval('#chart', (b) => b.dataset.xTicks);
+  assert(/^2024(\b|-\d{2}| Q\d)/.test(ticks) && !/4\d{4}/.test(ticks), `axis ticks are not dates: ${ticks}`);
+  const drawn = await page.$eval('#chart', (b) => b.dataset.points);
+  assert(drawn === '55', `expected 55 points (60 rows less a blank, a text, an error, a boolean and a number stored as text), got ${drawn}`);
+  const dropped = await page.$eval('#warnings li[data-code="dropped-cells"]', (l) => l.textContent);
+  for (const cell of ['B11', 'B21', 'B31', 'B41', 'B46']) assert(new RegExp(`\\b${cell}\\b`).test(dropped), `${cell} not named: ${dropped}`);
+  await page.selectOption('#own-sheet', 'Monthly');
+  await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'Monthly');
+  const rows = await page.$$eval('#sheet-table tr', (r) => r.length);
+  assert(rows === 26, `Monthly: expected a letters row, a header and 24 data rows, got ${rows}`);
+  await page.selectOption('#own-sheet', 'Empty');
+  await page.waitForFunction(() => /sheet "Empty" of depot-weekly\.xlsx: sheet "Empty" is empty/.test(document.querySelector('#status').textContent));
+  // 30000 rows: the sheet's XML (about 2 MB) is over the 512 KB that fflate inflates in a blob: worker, which the policy forbids
+  const { zipSync, strToU8 } = require('fflate');
+  const xml = (s) => strToU8(`<?xml version="1.0" encoding="UTF-8"?>${s}`);
+  const rowsXml = ['<row r="1"><c r="A1" t="inlineStr"><is><t>step</t></is></c><c r="B1" t="inlineStr"><is><t>load</t></is></c></row>'];
+  for (let i = 1; i <= 30000; i++) rowsXml.push(`<row r="${i + 1}"><c r="A${i + 1}"><v>${i}</v></c><c r="B${i + 1}"><v>${(50 + 10 * Math.sin(i / 500) + ((i * 7919) % 13) / 10).toFixed(2)}</v></c></row>`);
+  const big = zipSync({
+    '[Content_Types].xml': xml('<Types xmlns="http://schemas.openxmlformats.org/package/2006/content-types"><Default Extension="rels" ContentType="application/vnd.openxmlformats-package.relationships+xml"/><Default Extension="xml" ContentType="application/xml"/><Override PartName="/xl/workbook.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.sheet.main+xml"/><Override PartName="/xl/worksheets/sheet1.xml" ContentType="application/vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"/></Types>'),
+    '_rels/.rels': xml('<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/officeDocument" Target="xl/workbook.xml"/></Relationships>'),
+    'xl/workbook.xml': xml('<workbook xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main" xmlns:r="http://schemas.openxmlformats.org/officeDocument/2006/relationships"><sheets><sheet name="Load" sheetId="1" r:id="rId1"/></sheets></workbook>'),
+    'xl/_rels/workbook.xml.rels': xml('<Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships"><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/worksheet" Target="worksheets/sheet1.xml"/></Relationships>'),
+    'xl/worksheets/sheet1.xml': xml(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData>${rowsXml.join('')}</sheetData></worksheet>`),
+  }, { level: 6 });
+  await page.setInputFiles('#csv-file', { name: 'load.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: Buffer.from(big) });
+  await page.waitForFunction(() => document.querySelector('#sheet-name').textContent === 'Load' || /Could not read/.test(document.querySelector('#status').textContent), null, { timeout: 60000 });
+  const note = await page.textContent('#sheet-note');
+  assert(/^30000 rows read/.test(note), `large sheet: ${note}; status ${await page.textContent('#status')}`);
+  assert(await page.isHidden('#own-sheet'), 'the sheet list is shown for a workbook of one sheet');
+}
+
 test('every control fits at 320 px and the tables scroll inside their box', async (page, base, browser) => {
   const p = await browser.newPage({ viewport: { width: 320, height: 800 } });
   await p.goto(`${base}/preview.html`);

@@ -1,4 +1,4 @@
-import { readOwnTable } from '../../src/taskpane/ownData';
+import { isWorkbookName, readOwnTable, readOwnWorkbook } from '../../src/taskpane/ownData';
 
 describe('pasted cells and CSV files in the preview', () => {
   test('tab-separated cells with ISO dates become serials in a date column', () => {
@@ -22,5 +22,39 @@ describe('pasted cells and CSV files in the preview', () => {
 
   test('a header alone is refused', () => {
     expect(() => readOwnTable('a\tb\n')).toThrow(/no data found/);
+  });
+});
+
+describe('.xlsx workbooks in the preview', () => {
+  // The seeded workbook written by test/cli/fixtures/make_depot_workbook.py (Debian's python3-openpyxl)
+  const fs = require('fs') as typeof import('fs');
+  const path = require('path') as typeof import('path');
+  const bytes = () => new Uint8Array(fs.readFileSync(path.join(__dirname, '../cli/fixtures/depot-weekly.xlsx')));
+
+  test('the first sheet by default: date cells become serials in a date column, the odd cells as the CSV reader gives them', async () => {
+    const w = await readOwnWorkbook(bytes());
+    expect(w.sheets).toEqual(['Weekly', 'Monthly', 'Empty']);
+    expect(w.sheet).toBe('Weekly');
+    expect(w.table.header).toEqual(['week_start', 'parcels', 'returns']);
+    expect(w.table.dateColumns).toEqual([true, false, false]);
+    expect(w.table.rows[0][0]).toBe(45292); // 2024-01-01
+    // the same data as CSV, read by the same preview reader, gives the same sheet
+    const csv = readOwnTable(fs.readFileSync(path.join(__dirname, '../cli/fixtures/depot-weekly.csv'), 'utf8'));
+    expect(w.table.rows).toEqual(csv.rows);
+    expect(w.table.rows.map((r) => r[1]).filter((c) => typeof c !== 'number')).toEqual(['', 'n/a', '#N/A', true, ' 512.5']);
+    expect(w.table.notes).toEqual([]);
+  });
+
+  test('another sheet by name; an empty sheet and a file that is not .xlsx are refused in plain words', async () => {
+    const m = await readOwnWorkbook(bytes(), 'Monthly');
+    expect(m.table.header).toEqual(['month', 'value']);
+    expect(m.table.rows).toHaveLength(24);
+    expect(m.table.dateColumns).toEqual([false, false]);
+    await expect(readOwnWorkbook(bytes(), 'Empty')).rejects.toThrow('sheet "Empty" is empty; choose another sheet.');
+    await expect(readOwnWorkbook(new TextEncoder().encode('a,b\n1,2\n'))).rejects.toThrow(/not an \.xlsx workbook/);
+  });
+
+  test('file names that say workbook', () => {
+    expect(['a.xlsx', 'B.XLSM', 'c.csv', 'd.xls', 'xlsx.txt'].map(isWorkbookName)).toEqual([true, true, false, false, false]);
   });
 });
