@@ -9,7 +9,7 @@ import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
 import { analyseWith, choiceOf, PenaltyChoice, SecondChoice, splitSelection } from './analysis';
-import { defaultRuleNote, methodChoices, ruleChoices } from './methodChoices';
+import { defaultRuleNote, methodChoices, optionChoices, ruleChoices } from './methodChoices';
 import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
@@ -270,6 +270,13 @@ async function boot(inExcel: boolean): Promise<void> {
     ruleSel.value = rules.some((r) => r.value === keep) ? keep : 'auto';
     $('rule-note').textContent = defaultRuleNote(c.analysis, c.options);
     $('rule-value').hidden = !(ruleSel.value === 'df' || ruleSel.value === 'value');
+    // a decomposition's season setting, as its declaration words it
+    const seasons = c.kind === 'decompose' ? optionChoices(c.analysis, 'season') : [];
+    const seasonSel = $<HTMLSelectElement>('season');
+    const keepSeason = seasonSel.value;
+    seasonSel.replaceChildren(...seasons.map((q) => new Option(q.label, q.value)));
+    if (seasons.some((q) => q.value === keepSeason)) seasonSel.value = keepSeason;
+    $('season-box').hidden = seasons.length === 0;
   };
   // A second smoother to draw over the first: offered for smoothers only; for the automatic choice its
   // runner-up is the default. Its rules, like the first's, are only those its declaration accepts.
@@ -322,7 +329,9 @@ async function boot(inExcel: boolean): Promise<void> {
       // The fit runs in a worker: the pane stays responsive, shows progress and can cancel.
       // The comparison fit runs after the first in the same way, under the same Cancel.
       const secondRun = { signal: run.signal, onProgress: (p: { fraction: number; stage: string }) => run.onProgress({ fraction: p.fraction, stage: `compared fit: ${p.stage}` }) };
-      const analysis = await analyseWith(block, choiceOf($<HTMLSelectElement>('method').value), penaltyFrom(), (r, second) => compute(r, second ? secondRun : run), secondFrom());
+      const first = choiceOf($<HTMLSelectElement>('method').value);
+      const chosen = $('season-box').hidden ? first : { ...first, options: { ...first.options, season: $<HTMLSelectElement>('season').value } };
+      const analysis = await analyseWith(block, chosen, penaltyFrom(), (r, second) => compute(r, second ? secondRun : run), secondFrom());
       const view = viewOf(analysis, block, { version: VERSION, date: new Date().toISOString().slice(0, 10) });
       last = { block, view };
       renderView(view);

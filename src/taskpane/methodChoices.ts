@@ -97,3 +97,16 @@ export function defaultRuleNote(analysis: string, fixed: Record<string, OptionVa
   const d = String(rule.default);
   return `Automatic: ${d} - ${rule.choiceHelp?.[d] ?? RULE_HELP[d] ?? d}.`;
 }
+
+/**
+ * The values of a method's declared choice option (e.g. a decomposition's 'season'), each labelled by its
+ * declared help, the default first; empty when the method does not declare it.
+ */
+export function optionChoices(analysis: string, option: string): RuleChoice[] {
+  const { def } = findAnalysis(analysis);
+  const o = def.options.find((p) => p.name === option);
+  if (!o || o.kind !== 'choice' || !o.choices) return [];
+  const words = (c: string) => cap((o.choiceHelp?.[c] ?? c).replace(/\s*\(default\)\s*$/, ''));
+  const first = o.choices.filter((c) => c === o.default);
+  return [...first, ...o.choices.filter((c) => c !== o.default)].map((c) => ({ value: String(c), label: words(String(c)) }));
+}
