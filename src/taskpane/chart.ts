@@ -17,7 +17,7 @@ import type { View } from './view';
 const FONT = '11px system-ui, sans-serif';
 const INK = '#5f7180', GRID = '#eef2f5', FIT = '#0f7c7a', MARK = '#c8611a', POINT = '#7b8fa1';
 /** The second fit drawn for comparison (dashed), and a decomposition's season line and stems. */
-const SECOND = '#7d3c98', SEASON = '#2f5f9e', STEM = '#8a98a6';
+const SECOND = '#c2185b', SEASON = '#2f5f9e', STEM = '#8a98a6';
 /** Width an 11 px label needs, with a gap: a full date (2023-01-02), or a month, quarter or year. */
 const DATE_LABEL_PX = 80, SHORT_LABEL_PX = 58;
 
@@ -123,7 +123,7 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
   if (v.second) {
     // the comparison fit: another colour and dashed, so the two read apart without colour too
     data.push(pad(v.second.fitted));
-    series.push({ label: 'compared', stroke: SECOND, width: 2, dash: [7, 4], points: { show: false } });
+    series.push({ label: 'compared', stroke: SECOND, width: 2.5, dash: [6, 4], points: { show: false } });
   }
   const bands: uPlot.Band[] = [];
   if (bx) {
@@ -193,7 +193,7 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
   if (v.band) items.push(['sw-band', 'approx. 95% band']);
   if (ends) items.push(['sw-edge', 'end zone: values get revised']);
   if (bx) items.push(['sw-beyond', 'after the data: extrapolation, not a forecast']);
-  if (v.markers.length) items.push(['sw-mark', v.markerName === 'knot' ? 'knot' : 'break']);
+  if (v.markers.length) items.push(['sw-mark', `${v.markerName === 'knot' ? 'knot' : 'break'}${v.second ? ' of the fit' : ''}`]);
   legend(box, items);
   box.append(readout);
 }

@@ -298,7 +298,11 @@ function decompositionView(a: Extract<Analysis, { kind: 'decompose' }>, p: Decom
     title: d.method === 'stl' ? 'Decomposition: STL' : 'Decomposition: trend, season and spikes',
     fitted: c.trend, markers: knots.map((k) => ({ x: k.x, y: c.trend[k.index], label: `knot at ${p.xp.text(k.x)} (${cellOfRow(p.place, k.row)}): change ${formatNumber(k.change, 3)}` })),
     markerName: 'knot', summary, curve, panels,
-    boundaryPoints: Math.max(2, Math.min(Math.floor(n / 8), Math.round(n / Math.max(knots.length + 2, 1)))),
+    // about one smoothing window at each end: n / df of the trend where the rule reports it (as for a fit);
+    // for STL half its default trend window, about 1.5 times the longest period kept (Cleveland et al. 1990)
+    boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), d.method === 'stl'
+      ? Math.round(0.75 * Math.max(2, ...kept.map((q) => q.length)))
+      : Math.round(n / Math.max(chosen?.df ?? knots.length + 2, 1)))),
     columnHeader: 'trend',
     components: { header: [...names], rows, format: p.columnFormat },
     tables: [
