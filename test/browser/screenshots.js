@@ -5,7 +5,7 @@
  * Run after `npm run build`: node test/browser/screenshots.js [outdir]
  * Writes pane-<method>-<width>.png to outdir (default dist/screenshots) and
  * assets/screenshots/pane-dates.png (the trend fit of the demo with its date axis, 420 px) and
- * assets/screenshots/pane-decomposition.png (the demo taken apart, 420 px). The automatic choice
+ * assets/screenshots/pane-decomposition.png (the demo taken apart with the season on, 420 px). The automatic choice
  * is drawn with its runner-up (the default comparison), and trend1-vs-spline compares two picked methods.
  */
 const path = require('path');
@@ -28,10 +28,13 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
     page.on('pageerror', (e) => console.error(`page error: ${e}`));
     await page.goto(`${base}/preview.html`);
     await page.waitForSelector('#sheet-table tr');
-    for (const shot of ['trend1', 'spline', 'auto', 'breaks-volatility', 'decompose-adaptive', 'decompose-stl', 'trend1-vs-spline']) {
-      const [method, second] = shot.split('-vs-');
+    // name-vs-other: the second method drawn for comparison; name@season: a decomposition's season setting
+    for (const shot of ['trend1', 'spline', 'auto', 'breaks-volatility', 'decompose-adaptive', 'decompose-adaptive@on', 'decompose-stl@on', 'trend1-vs-spline']) {
+      const [first, second] = shot.split('-vs-');
+      const [method, season] = first.split('@');
       await page.selectOption('#method', method);
       if (second) await page.selectOption('#second', second);
+      if (season) await page.selectOption('#season', season);
       await page.click('#run');
       // the fit runs in a worker: wait until the status no longer says it is fitting
       await page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? ''), null, { timeout: 120000 });
@@ -40,7 +43,7 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
       const file = path.join(out, `pane-${shot}-${width}.png`);
       await page.locator('#pane').screenshot({ path: file });
       console.log(`wrote ${file}`);
-      if ((shot === 'trend1' || shot === 'decompose-adaptive') && width === 420) {
+      if ((shot === 'trend1' || shot === 'decompose-adaptive@on') && width === 420) {
         const readme = path.join(__dirname, '..', '..', 'assets', 'screenshots', shot === 'trend1' ? 'pane-dates.png' : 'pane-decomposition.png');
         await page.locator('#pane').screenshot({ path: readme, clip: undefined });
         console.log(`wrote ${readme}`);
