@@ -253,7 +253,7 @@ function decompositionView(a: Extract<Analysis, { kind: 'decompose' }>, p: Decom
   const panels: Panel[] = [{ id: 'data', label: `${p.yName} with its trend`, dots: series.y, line: c.trend, lineName: 'trend', marked: spikeIndex }];
   for (const q of kept) panels.push({ id: `season-${q.label}`, label: `Season: ${q.label} pattern (${formatNumber(q.length, 4)} ${unit})`, line: q.values, lineName: `${q.label} season` });
   if (spikeIndex.length) panels.push({ id: 'spikes', label: `One-off spikes (${spikeIndex.length})`, stems: c.spikes, marked: spikeIndex, lineName: 'spike' });
-  panels.push({ id: 'remainder', label: 'Remainder: what trend, season and spikes leave', stems: c.remainder, lineName: 'remainder' });
+  panels.push({ id: 'remainder', label: 'Remainder: what is left', stems: c.remainder, lineName: 'remainder' });
 
   // the table written to the sheet: one row per selected data row, as KNOTWISE.DECOMPOSE spills it
   const names = ['trend', 'season', 'spikes', 'remainder', 'adjusted'] as const;
