@@ -58,13 +58,14 @@ export function sharePlan(v: View): SharePlan {
   add({ what: 'summary', col, row, values: [['Summary', ''], ...v.summary.map(([k, t]) => [k, t])], formats: [['@', '@'], ...v.summary.map(() => ['@', '@'])] });
   const warnings = v.warnings.length ? v.warnings.map((w) => [w.code, w.message]) : [['none', '']];
   add({ what: 'warnings', col, row, values: [['Warnings', ''], ...warnings], formats: [['@', '@'], ...warnings.map(() => ['@', '@'])] });
-  let markersX: string | undefined, markersY: string | undefined;
+  let markersX: string | undefined, markersY: string | undefined, markersName: string | undefined;
   for (const t of v.tables) {
     const b = tableBlock(`${t.title.toLowerCase()} table`, t.title, t.table, col, row);
     if (t.id === 'table' && t.table.rows.length) {
       const first = row + 2, last = row + 1 + t.table.rows.length;
       markersX = rangeName(null, col, first, col, last);
       markersY = rangeName(null, col + t.table.header.length - 1, first, col + t.table.header.length - 1, last);
+      markersName = t.title.toLowerCase();
     }
     add(b);
   }
@@ -75,7 +76,7 @@ export function sharePlan(v: View): SharePlan {
     data: rangeName(null, v.place.yCol, first, v.place.yCol, last),
     fit: rangeName(null, fitCol, first, fitCol, last),
     markersX, markersY,
-    names: { data: v.yName, fit: v.columnHeader, markers: markersX ? `${v.markerName}s` : undefined },
+    names: { data: v.yName, fit: v.columnHeader, markers: markersName },
     col, row,
   };
   return { fitted, report, chart };

@@ -265,8 +265,9 @@ function decompositionView(a: Extract<Analysis, { kind: 'decompose' }>, p: Decom
   const dataCell = (v: number) => ({ value: r.round(v), text: r.format(v), format: p.columnFormat });
   const text = (t: string) => ({ value: t, text: t });
   const spikes: PresentTable = {
-    header: [p.xp.label, 'cell', 'spike', p.yName, 'trend'],
-    rows: spikeIndex.map((i) => [p.xp.cell(series.x[i]), text(cellOfRow(p.place, series.firstRow[i])), dataCell(c.spikes[i]), dataCell(series.y[i]), dataCell(c.trend[i])]),
+    // the data value last: a sheet chart marks the spikes there, on the data points
+    header: [p.xp.label, 'cell', 'spike', 'trend', p.yName],
+    rows: spikeIndex.map((i) => [p.xp.cell(series.x[i]), text(cellOfRow(p.place, series.firstRow[i])), dataCell(c.spikes[i]), dataCell(c.trend[i]), dataCell(series.y[i])]),
   };
   const seasonTable: PresentTable = {
     header: ['season', `length (${unit})`, 'strength', 'kept'],

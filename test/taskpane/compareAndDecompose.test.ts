@@ -8,6 +8,7 @@ import { weeklyOrders } from '../../src/demo/weeklyOrders';
 import { analyse, choiceOf, runnerUp } from '../../src/taskpane/analysis';
 import { ruleChoices } from '../../src/taskpane/methodChoices';
 import { sharePlan } from '../../src/taskpane/share';
+import { columnLetters } from '../../src/present';
 import { viewOf } from '../../src/taskpane/view';
 import type { CellBlock } from '../../src/taskpane/workbook';
 
@@ -40,6 +41,7 @@ describe('the decomposition in the pane', () => {
     expect(plan.fitted.values[0]).toEqual(['trend', 'season', 'spikes', 'remainder', 'adjusted']);
     expect(plan.report[0].col).toBe(2 + 5 + 1);
     expect(plan.chart.fit).toBe('C2:C157');
+
     // each written row adds back to the data (each part rounded to 0.1: at most 4 x 0.05 off), and adjusted = y - season
     let checked = 0;
     plan.fitted.values.slice(1).forEach((r, i) => {
@@ -52,6 +54,26 @@ describe('the decomposition in the pane', () => {
     });
     expect(checked).toBe(153);
     expect(plan.report[0].values[0][0]).toMatch(/not a forecast/);
+  });
+
+  test('with the season on, spikes are found; the sheet chart marks them on the data points', () => {
+    const c = choiceOf('decompose-adaptive');
+    const on = analyse(withHeader, { ...c, options: { ...c.options, season: 'on' } }, { rule: 'auto' });
+    const vOn = viewOf(on, withHeader, FACTS);
+    expect(vOn.panels!.map((q) => q.id)).toEqual(['data', 'season-yearly', 'spikes', 'remainder']);
+    const plan = sharePlan(vOn);
+    const spikes = plan.report.find((b) => b.what === 'spikes table')!;
+    expect(spikes.values[1]).toEqual(['date', 'cell', 'spike', 'trend', 'orders']);
+    expect(spikes.values.length).toBeGreaterThan(2);
+    expect(plan.chart.names.markers).toBe('spikes');
+    // each spike row: its date, the cell of that week's orders, and the orders themselves in the last column
+    for (const r of spikes.values.slice(2)) {
+      const k = demo.findIndex((d) => d.weekStart === r[0]);
+      expect(r[1]).toBe(`B${k + 2}`);
+      expect(r[4]).toBe(demo[k].orders);
+    }
+    const last = columnLetters(spikes.col + 4);
+    expect(plan.chart.markersY).toBe(`${last}${spikes.row + 2}:${last}${spikes.row + spikes.values.length - 1}`);
   });
 
   test('without a header row, the header goes on the row above the data', () => {
