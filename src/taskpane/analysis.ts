@@ -5,7 +5,7 @@
  * warns.
  */
 import { Cell, Comparison, FitResult, Series, SeriesBreaks, SeriesFit, evaluateAnalysis, numberFromText } from '../engine';
-import { AnalysisRequest, AnalysisResult, runAnalysis } from '../runtime/engineEntry';
+import { AnalysisRequest, AnalysisResult, isCancelled, runAnalysis } from '../runtime/engineEntry';
 import type { BreaksResult, CropsRow } from '../engine/breaks/types';
 import type { CellBlock } from './workbook';
 import { MethodChoice, methodChoices, ruleOptions } from './methodChoices';
@@ -81,7 +81,9 @@ export type Analysis =
       /** The automatic choice's comparison of methods, when the method was 'auto'. */
       comparison?: Comparison;
       /** A second smoother for comparison, when one was asked for. */
-      second?: SecondFit }
+      second?: SecondFit;
+      /** Why the comparison fit gave no result (the engine's message), when it failed: the first fit stands. */
+      secondError?: string }
   | { kind: 'decompose'; choice: Choice; sel: Selection; series: Series; result: AnalysisResult }
   | { kind: 'breaks'; choice: Choice; sel: Selection; series: Series; result: BreaksResult;
       /** The optimal segmentations for penalties around the chosen one (CROPS), for "why this penalty". */
@@ -137,22 +139,29 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoi
       beyond = undefined; // a method without values beyond the data (wavelets): nothing drawn there
     }
     // the comparison fit: same cells, its own method and rule, run the same way (a worker in the pane)
+    // (a comparison the engine refuses leaves the first fit standing, with the engine's message; Cancel stops both)
     let second: SecondFit | undefined;
-    if (secondChoice?.kind === 'method') {
-      if (secondChoice.choice.kind !== 'smooth') throw new Error(`only a smoother can be drawn over the fit for comparison, not "${secondChoice.choice.label}".`);
-      const other = yield { ...requestFor(secondChoice.choice, secondChoice.pen), second: true };
-      second = { choice: secondChoice.choice, result: other.smooth!, how: 'method' };
-    } else if (secondChoice?.kind === 'runner-up' && answer.comparison) {
-      const k = runnerUp(answer.comparison);
-      const row = k === null ? undefined : answer.comparison.rows[k];
-      const c = row && choiceOfCandidate(row);
-      if (row && c) {
-        // the candidate as it was compared: its own cross-validation on the automatic choice's folds
-        const other = yield { ...requestFor(c, { rule: 'cv' }, { folds: answer.comparison.folds }), second: true };
-        second = { choice: c, result: other.smooth!, how: 'runner-up', row };
+    let secondError: string | undefined;
+    try {
+      if (secondChoice?.kind === 'method') {
+        if (secondChoice.choice.kind !== 'smooth') throw new Error(`only a smoother can be drawn over the fit for comparison, not "${secondChoice.choice.label}".`);
+        const other = yield { ...requestFor(secondChoice.choice, secondChoice.pen), second: true };
+        second = { choice: secondChoice.choice, result: other.smooth!, how: 'method' };
+      } else if (secondChoice?.kind === 'runner-up' && answer.comparison) {
+        const k = runnerUp(answer.comparison);
+        const row = k === null ? undefined : answer.comparison.rows[k];
+        const c = row && choiceOfCandidate(row);
+        if (row && c) {
+          // the candidate as it was compared: its own cross-validation on the automatic choice's folds
+          const other = yield { ...requestFor(c, { rule: 'cv' }, { folds: answer.comparison.folds }), second: true };
+          second = { choice: c, result: other.smooth!, how: 'runner-up', row };
+        } else secondError = 'no other method could be compared, so there is no runner-up to draw.';
       }
+    } catch (e) {
+      if (isCancelled(e)) throw e;
+      secondError = e instanceof Error ? e.message : String(e);
     }
-    return { kind: 'smooth', choice, sel, series, result, beyond, comparison: answer.comparison, second };
+    return { kind: 'smooth', choice, sel, series, result, beyond, comparison: answer.comparison, second, secondError };
   }
   const { series, result } = asBreaks(yield request());
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
@@ -169,7 +178,12 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoi
 export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice, second?: SecondChoice): Analysis {
   const it = steps(block, choice, pen, second);
   let step = it.next();
-  while (!step.done) { const { second: _s, ...request } = step.value; step = it.next(runAnalysis(request)); }
+  while (!step.done) {
+    const { second: isSecond, ...request } = step.value;
+    let answer: AnalysisResult;
+    try { answer = runAnalysis(request); } catch (e) { if (!isSecond) throw e; step = it.throw(e); continue; }
+    step = it.next(answer);
+  }
   return step.value;
 }
 
@@ -177,6 +191,12 @@ export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice, se
 export async function analyseWith(block: CellBlock, choice: Choice, pen: PenaltyChoice, compute: Compute, second?: SecondChoice): Promise<Analysis> {
   const it = steps(block, choice, pen, second);
   let step = it.next();
-  while (!step.done) { const { second: isSecond, ...request } = step.value; step = it.next(await compute(request, !!isSecond)); }
+  while (!step.done) {
+    const { second: isSecond, ...request } = step.value;
+    let answer: AnalysisResult;
+    // a failed comparison fit goes back to the description, which keeps the first fit (a cancel ends both)
+    try { answer = await compute(request, !!isSecond); } catch (e) { if (!isSecond) throw e; step = it.throw(e); continue; }
+    step = it.next(answer);
+  }
   return step.value;
 }

@@ -125,12 +125,13 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
   const ctx = { xDates, place };
   const column = Array.from({ length: series.nRows }, (_, i) => (series.rowOf[i] >= 0 ? fit.values[series.rowOf[i]] : ''));
   const source = rangeName(r.sheet, r.col, r.row, r.lastCol, r.lastRow);
-  const warnings = a.result.warnings.map((w) => ({ code: w.code, message: cellsInMessage(w.message, place) }));
+  const warnings: { code: string; message: string }[] = a.result.warnings.map((w) => ({ code: w.code, message: cellsInMessage(w.message, place) }));
   const common = {
     x: series.x, y: series.y, fitted: a.result.fitted, xDates, place, sheet: r.sheet, xCol: sel.x ? cols[0] : -1, hasHeader, topRow: r.row, lastCol: Math.max(...cols),
     yName: sel.yName, showX: xp.text, showY, column, columnFormat: fit.format, warnings,
   };
   if (a.kind === 'decompose') return decompositionView(a, { ...common, fit, source, facts, ctx, xp });
+  if (a.kind === 'smooth' && a.secondError) common.warnings = [...common.warnings, { code: 'comparison-failed', message: `The comparison fit was not drawn: ${cellsInMessage(a.secondError, place)}` }];
   if (a.kind === 'smooth') {
     const { result, choice } = a;
     const n = series.n;

@@ -119,4 +119,17 @@ describe('two fits on one chart', () => {
     expect(v.second!.label).toMatch(/runner-up/);
     expect(v.tables.find((t) => t.id === 'side')!.note).toMatch(/same held-out points/);
   });
+
+  test('a comparison the engine refuses leaves the first fit standing, with the engine\'s message as a warning', () => {
+    // 6,000 points: cross-validated trend filtering of order 3 is refused beyond 5,000 (the engine's limit)
+    const long: CellBlock = { address: 'Sheet1!A1:B6001', values: [['t', 'v'], ...Array.from({ length: 6000 }, (_, i) => [i + 1, Math.sin(i / 300) * 50 + ((i * 7919) % 13) - 6])] };
+    const a = analyse(long, choiceOf('spline'), { rule: 'auto' }, { kind: 'method', choice: choiceOf('trend3'), pen: { rule: 'cv' } });
+    if (a.kind !== 'smooth') throw new Error('expected a smoother');
+    expect(a.second).toBeUndefined();
+    expect(a.secondError).toMatch(/5,000 points/);
+    const v = viewOf(a, long, FACTS);
+    expect(v.second).toBeUndefined();
+    expect(v.fitted.length).toBe(6000);
+    expect(v.warnings.find((w) => w.code === 'comparison-failed')!.message).toMatch(/^The comparison fit was not drawn: .*5,000 points/);
+  });
 });
