@@ -280,7 +280,7 @@ export function drawPanels(box: HTMLElement, v: View): void {
     const xAxis = axisFor(v.xDates, v.showX, box);
     const axes: uPlot.Axis[] = [
       last ? xAxis : { ...xAxis, values: (_u, splits) => splits.map(() => ''), size: 4, gap: 0 },
-      { ...yAxis(), size: ySize, space: 15 },
+      { ...yAxis(), size: ySize, space: k === 0 ? 24 : 15 },
     ];
     const height = (k === 0 ? 130 : 84) + (last ? 28 : 4);
     const u = new uPlot({
