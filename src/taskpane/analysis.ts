@@ -5,13 +5,16 @@
  * warns.
  */
 import { Cell, Comparison, FitResult, Series, SeriesBreaks, SeriesFit, evaluateAnalysis, numberFromText } from '../engine';
-import { AnalysisRequest, AnalysisResult, runAnalysis } from '../runtime/engineEntry';
+import { AnalysisRequest, AnalysisResult, isCancelled, runAnalysis } from '../runtime/engineEntry';
 import type { BreaksResult, CropsRow } from '../engine/breaks/types';
 import type { CellBlock } from './workbook';
 import { MethodChoice, methodChoices, ruleOptions } from './methodChoices';
 
-/** Runs one analysis request: the page's worker pool in the pane, or this thread by default. */
-export type Compute = (request: AnalysisRequest) => Promise<AnalysisResult>;
+/**
+ * Runs one analysis request: the page's worker pool in the pane, or this thread by default.
+ * `second` is true for the fit drawn over the first for comparison.
+ */
+export type Compute = (request: AnalysisRequest, second?: boolean) => Promise<AnalysisResult>;
 const asFit = (o: AnalysisResult): SeriesFit & { result: FitResult } => ({ series: o.series, result: o.smooth! });
 const asBreaks = (o: AnalysisResult): SeriesBreaks => ({ series: o.series, result: o.breaks! });
 
@@ -22,6 +25,23 @@ export type Choice = MethodChoice;
 export interface PenaltyChoice {
   rule: string;
   value?: number;
+}
+
+/**
+ * A second smoother drawn over the first for comparison: a method of the list with its rule, or the
+ * runner-up of the automatic choice (the candidate with the lowest cross-validation error after the
+ * chosen one, refitted by the same cross-validation on the same folds).
+ */
+export type SecondChoice = { kind: 'method'; choice: Choice; pen: PenaltyChoice } | { kind: 'runner-up' };
+
+/** A second fit for comparison, and how it was asked for. */
+export interface SecondFit {
+  choice: Choice;
+  result: FitResult;
+  /** 'method' (picked by the analyst) or 'runner-up' (of the automatic choice). */
+  how: SecondChoice['kind'];
+  /** For the runner-up: its row of the automatic choice's comparison (CV error and se on the same folds as the winner's). */
+  row?: Comparison['rows'][number];
 }
 
 /** The list entry with this value (e.g. 'trend1', 'spline', 'breaks-level'). */
@@ -59,7 +79,12 @@ export type Analysis =
       /** The fitted curve continued after the last point (an extrapolation), when the method defines it. */
       beyond?: { x: number[]; y: number[] };
       /** The automatic choice's comparison of methods, when the method was 'auto'. */
-      comparison?: Comparison }
+      comparison?: Comparison;
+      /** A second smoother for comparison, when one was asked for. */
+      second?: SecondFit;
+      /** Why the comparison fit gave no result (the engine's message), when it failed: the first fit stands. */
+      secondError?: string }
+  | { kind: 'decompose'; choice: Choice; sel: Selection; series: Series; result: AnalysisResult }
   | { kind: 'breaks'; choice: Choice; sel: Selection; series: Series; result: BreaksResult;
       /** The optimal segmentations for penalties around the chosen one (CROPS), for "why this penalty". */
       path?: CropsRow[] };
@@ -70,12 +95,36 @@ export type Analysis =
  * and receives its result, so one description runs on this thread
  * ({@link analyse}) or through the page's worker pool ({@link analyseWith}).
  */
-function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice): Generator<AnalysisRequest, Analysis, AnalysisResult> {
-  const sel = splitSelection(block);
-  const request = (extra: Record<string, unknown> = {}): AnalysisRequest => ({
-    analysis: choice.analysis, family: choice.kind === 'smooth' ? 'smoother' : 'changepoints', y: sel.y, x: sel.x, w: sel.w,
-    options: { ...choice.options, ...ruleOptions(pen.rule, pen.value), ...extra },
+/** The candidate to offer as the runner-up of an automatic choice: the lowest CV error among the others compared. */
+export function runnerUp(c: Comparison): number | null {
+  let k: number | null = null;
+  c.rows.forEach((r, i) => {
+    if (i === c.chosen || r.skipped || !Number.isFinite(r.cv)) return;
+    if (k === null || r.cv < c.rows[k].cv) k = i;
   });
+  return k;
+}
+
+/** The list entry of a candidate of the automatic choice (same analysis, same options). */
+function choiceOfCandidate(r: Comparison['rows'][number]): Choice | undefined {
+  const same = (a: Record<string, unknown>, b: Record<string, unknown>) => Object.keys(a).length === Object.keys(b).length && Object.keys(a).every((k) => a[k] === b[k]);
+  return methodChoices().find((m) => m.kind === 'smooth' && m.analysis === r.method && same(m.options, r.options));
+}
+
+type Step = AnalysisRequest & { second?: boolean };
+
+function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoice?: SecondChoice): Generator<Step, Analysis, AnalysisResult> {
+  const sel = splitSelection(block);
+  const FAMILY = { smooth: 'smoother', breaks: 'changepoints', decompose: 'decomposition' } as const;
+  const requestFor = (c: Choice, p: PenaltyChoice, extra: Record<string, unknown> = {}): AnalysisRequest => ({
+    analysis: c.analysis, family: FAMILY[c.kind], y: sel.y, x: sel.x, w: sel.w,
+    options: { ...c.options, ...ruleOptions(p.rule, p.value), ...extra },
+  });
+  const request = (extra: Record<string, unknown> = {}) => requestFor(choice, pen, extra);
+  if (choice.kind === 'decompose') {
+    const answer = yield request();
+    return { kind: 'decompose', choice, sel, series: answer.series, result: answer };
+  }
   if (choice.kind === 'smooth') {
     const answer = yield request();
     const { series, result } = asFit(answer);
@@ -89,7 +138,30 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice): Generator
     } catch {
       beyond = undefined; // a method without values beyond the data (wavelets): nothing drawn there
     }
-    return { kind: 'smooth', choice, sel, series, result, beyond, comparison: answer.comparison };
+    // the comparison fit: same cells, its own method and rule, run the same way (a worker in the pane)
+    // (a comparison the engine refuses leaves the first fit standing, with the engine's message; Cancel stops both)
+    let second: SecondFit | undefined;
+    let secondError: string | undefined;
+    try {
+      if (secondChoice?.kind === 'method') {
+        if (secondChoice.choice.kind !== 'smooth') throw new Error(`only a smoother can be drawn over the fit for comparison, not "${secondChoice.choice.label}".`);
+        const other = yield { ...requestFor(secondChoice.choice, secondChoice.pen), second: true };
+        second = { choice: secondChoice.choice, result: other.smooth!, how: 'method' };
+      } else if (secondChoice?.kind === 'runner-up' && answer.comparison) {
+        const k = runnerUp(answer.comparison);
+        const row = k === null ? undefined : answer.comparison.rows[k];
+        const c = row && choiceOfCandidate(row);
+        if (row && c) {
+          // the candidate as it was compared: its own cross-validation on the automatic choice's folds
+          const other = yield { ...requestFor(c, { rule: 'cv' }, { folds: answer.comparison.folds }), second: true };
+          second = { choice: c, result: other.smooth!, how: 'runner-up', row };
+        } else secondError = 'no other method could be compared, so there is no runner-up to draw.';
+      }
+    } catch (e) {
+      if (isCancelled(e)) throw e;
+      secondError = e instanceof Error ? e.message : String(e);
+    }
+    return { kind: 'smooth', choice, sel, series, result, beyond, comparison: answer.comparison, second, secondError };
   }
   const { series, result } = asBreaks(yield request());
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
@@ -103,17 +175,28 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice): Generator
 }
 
 /** Runs the chosen analysis on a selection on this thread. Throws the engine's errors unchanged. */
-export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice): Analysis {
-  const it = steps(block, choice, pen);
+export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice, second?: SecondChoice): Analysis {
+  const it = steps(block, choice, pen, second);
   let step = it.next();
-  while (!step.done) step = it.next(runAnalysis(step.value));
+  while (!step.done) {
+    const { second: isSecond, ...request } = step.value;
+    let answer: AnalysisResult;
+    try { answer = runAnalysis(request); } catch (e) { if (!isSecond) throw e; step = it.throw(e); continue; }
+    step = it.next(answer);
+  }
   return step.value;
 }
 
 /** Runs the chosen analysis with each engine request answered by `compute` (the page's worker pool in the pane). */
-export async function analyseWith(block: CellBlock, choice: Choice, pen: PenaltyChoice, compute: Compute): Promise<Analysis> {
-  const it = steps(block, choice, pen);
+export async function analyseWith(block: CellBlock, choice: Choice, pen: PenaltyChoice, compute: Compute, second?: SecondChoice): Promise<Analysis> {
+  const it = steps(block, choice, pen, second);
   let step = it.next();
-  while (!step.done) step = it.next(await compute(step.value));
+  while (!step.done) {
+    const { second: isSecond, ...request } = step.value;
+    let answer: AnalysisResult;
+    // a failed comparison fit goes back to the description, which keeps the first fit (a cancel ends both)
+    try { answer = await compute(request, !!isSecond); } catch (e) { if (!isSecond) throw e; step = it.throw(e); continue; }
+    step = it.next(answer);
+  }
   return step.value;
 }

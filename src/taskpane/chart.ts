@@ -16,6 +16,8 @@ import type { View } from './view';
 
 const FONT = '11px system-ui, sans-serif';
 const INK = '#5f7180', GRID = '#eef2f5', FIT = '#0f7c7a', MARK = '#c8611a', POINT = '#7b8fa1';
+/** The second fit drawn for comparison (dashed), and a decomposition's season line and stems. */
+const SECOND = '#c2185b', SEASON = '#2f5f9e', STEM = '#8a98a6';
 /** Width an 11 px label needs, with a gap: a full date (2023-01-02), or a month, quarter or year. */
 const DATE_LABEL_PX = 80, SHORT_LABEL_PX = 58;
 
@@ -28,6 +30,20 @@ function ticksFor(u: uPlot, lo: number, hi: number) {
 }
 
 const charts = new WeakMap<HTMLElement, uPlot>();
+/** The stacked panels drawn in a box (a decomposition), so the next drawing removes them. */
+const panelCharts = new WeakMap<HTMLElement, uPlot[]>();
+
+function clear(box: HTMLElement): void {
+  charts.get(box)?.destroy();
+  charts.delete(box);
+  for (const u of panelCharts.get(box) ?? []) u.destroy();
+  panelCharts.delete(box);
+  box.replaceChildren();
+  delete box.dataset.panels;
+  delete box.dataset.panelLabels;
+  delete box.dataset.second;
+  delete box.dataset.xTicks;
+}
 
 /** The x axis: calendar ticks and date labels when x are dates (the labels drawn are recorded in box.dataset.xTicks). */
 export function axisFor(xDates: boolean, show: (v: number) => string, box: HTMLElement): uPlot.Axis {
@@ -87,8 +103,7 @@ function legend(box: HTMLElement, items: [string, string][]): void {
 
 /** Draws a fit into `box` (emptied first), as wide as the box. */
 export function drawFit(box: HTMLElement, v: View, height = 240): void {
-  charts.get(box)?.destroy();
-  box.replaceChildren();
+  clear(box);
   const n = v.x.length;
   const bx = v.beyond && v.beyond.x.length > 1 ? v.beyond : undefined;
   // uPlot wants one increasing x for all series: the data's x, then the extrapolated x after the last point.
@@ -105,6 +120,11 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
     { label: 'data', stroke: POINT, paths: () => null, points: { show: true, size: 4, width: 0, fill: POINT, stroke: POINT } },
     { label: 'fit', stroke: FIT, width: 2, points: { show: false } },
   ];
+  if (v.second) {
+    // the comparison fit: another colour and dashed, so the two read apart without colour too
+    data.push(pad(v.second.fitted));
+    series.push({ label: 'compared', stroke: SECOND, width: 2.5, dash: [6, 4], points: { show: false } });
+  }
   const bands: uPlot.Band[] = [];
   if (bx) {
     data.push([...none(n - 1), v.fitted[n - 1], ...bx.y.slice(1)]);
@@ -138,7 +158,7 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
         const i = u.cursor.idx;
         if (i === null || i === undefined || i >= n) return;
         const mk = v.markers.find((m) => m.x === xs[i]);
-        readout.textContent = `${v.showX(xs[i])}: ${v.yName} ${v.showY(v.y[i])}, fit ${v.showY(v.fitted[i])}${mk ? `; ${mk.label}` : ''}`;
+        readout.textContent = `${v.showX(xs[i])}: ${v.yName} ${v.showY(v.y[i])}, fit ${v.showY(v.fitted[i])}${v.second ? `, compared ${v.showY(v.second.fitted[i])}` : ''}${mk ? `; ${mk.label}` : ''}`;
       }],
       draw: [(u) => layoutOverlays(u, zones)],
     },
@@ -167,11 +187,13 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
   box.dataset.stride = String(stride);
   box.dataset.fit = String(v.fitted.filter(Number.isFinite).length);
   box.dataset.markers = String(v.markers.length);
-  const items: [string, string][] = [['sw-points', stride > 1 ? `data (1 in ${stride} points drawn)` : 'data'], ['sw-fit', 'fit']];
+  if (v.second) box.dataset.second = String(v.second.fitted.filter(Number.isFinite).length);
+  const items: [string, string][] = [['sw-points', stride > 1 ? `data (1 in ${stride} points drawn)` : 'data'], ['sw-fit', v.second ? `fit: ${v.fitLabel ?? 'first method'}` : 'fit']];
+  if (v.second) items.push(['sw-second', `compared: ${v.second.label}`]);
   if (v.band) items.push(['sw-band', 'approx. 95% band']);
   if (ends) items.push(['sw-edge', 'end zone: values get revised']);
   if (bx) items.push(['sw-beyond', 'after the data: extrapolation, not a forecast']);
-  if (v.markers.length) items.push(['sw-mark', v.markerName === 'knot' ? 'knot' : 'break']);
+  if (v.markers.length) items.push(['sw-mark', `${v.markerName === 'knot' ? 'knot' : 'break'}${v.second ? ' of the fit' : ''}`]);
   legend(box, items);
   box.append(readout);
 }
@@ -185,13 +207,153 @@ export function resizeCharts(root: ParentNode): void {
   root.querySelectorAll<HTMLElement>('.chart-box').forEach((box) => {
     const u = charts.get(box);
     if (u && box.clientWidth > 0) u.setSize({ width: Math.max(240, box.clientWidth), height: u.height });
+    for (const p of panelCharts.get(box) ?? []) if (box.clientWidth > 0) p.setSize({ width: Math.max(240, box.clientWidth), height: p.height });
   });
+}
+
+/**
+ * Draws a decomposition into `box` (emptied first): one panel per component, stacked on one x axis
+ * (calendar ticks on the bottom panel, the same grid on all), with a synchronised cursor and one
+ * readout of every component at the pointed x. The top panel shows the data with the trend, its end
+ * zones and knots; spikes are ringed where they occur.
+ */
+export function drawPanels(box: HTMLElement, v: View): void {
+  clear(box);
+  const panels = v.panels ?? [];
+  const n = v.x.length;
+  const xs = Array.from(v.x);
+  const lo = xs[0], hi = xs[n - 1] > xs[0] ? xs[n - 1] : xs[0] + 1;
+  const width = Math.max(240, box.clientWidth || 320);
+  // one y-axis width for every panel, so the plots (and their x positions) line up
+  const rangeText = (a: ArrayLike<number> | undefined) => {
+    if (!a) return 0;
+    let mn = Infinity, mx = -Infinity;
+    for (let i = 0; i < a.length; i++) if (Number.isFinite(a[i])) { mn = Math.min(mn, a[i]); mx = Math.max(mx, a[i]); }
+    return Number.isFinite(mn) ? Math.max(formatNumber(mn, 4).length, formatNumber(mx, 4).length) : 0;
+  };
+  const ySize = Math.max(40, 7 * Math.max(...panels.map((p) => Math.max(rangeText(p.dots), rangeText(p.line), rangeText(p.stems)))) + 22);
+  const readout = document.createElement('div');
+  readout.className = 'readout';
+  readout.textContent = 'Point at a panel to read every component there.';
+  const plots: uPlot[] = [];
+  const key = `panels-${Math.random().toString(36).slice(2)}`;
+  const zones: { el: HTMLElement; x0: number; x1?: number }[] = [];
+  const withZero = (_u: uPlot, mn: number, mx: number): uPlot.Range.MinMax => {
+    const a = Math.min(0, mn), b = Math.max(0, mx);
+    const pad = (b - a) * 0.08 || 1;
+    return [a - pad, b + pad];
+  };
+  panels.forEach((p, k) => {
+    const last = k === panels.length - 1;
+    const wrap = document.createElement('div');
+    wrap.className = 'panel';
+    wrap.dataset.panel = p.id;
+    const label = document.createElement('div');
+    label.className = 'panel-label';
+    label.textContent = p.label;
+    const plot = document.createElement('div');
+    plot.className = 'panel-plot';
+    wrap.append(label, plot);
+    box.append(wrap);
+    const data: (number | null)[][] = [xs];
+    const series: uPlot.Series[] = [{}];
+    if (p.dots) {
+      data.push(Array.from(p.dots));
+      series.push({ label: 'data', stroke: POINT, paths: () => null, points: { show: true, size: 3.5, width: 0, fill: POINT, stroke: POINT } });
+    }
+    if (p.line) {
+      data.push(Array.from(p.line));
+      series.push({ label: p.lineName ?? 'line', stroke: k === 0 ? FIT : SEASON, width: 2, points: { show: false } });
+    }
+    if (p.stems) {
+      // spikes: only the non-zero ones drawn; remainder: every point, a thin stem from zero
+      const isSpikes = p.id === 'spikes';
+      data.push(Array.from(p.stems, (s) => (isSpikes && s === 0 ? null : s)));
+      series.push({ label: p.lineName ?? 'stems', stroke: isSpikes ? MARK : STEM, fill: isSpikes ? MARK : STEM, width: 0, paths: uPlot.paths.bars!({ size: [0.5, isSpikes ? 3 : 2], align: 0 }), points: { show: false } });
+    }
+    if (p.marked && p.marked.length) {
+      const at = new Set(p.marked);
+      const src = p.dots ?? p.stems!;
+      data.push(xs.map((_, i) => (at.has(i) ? src[i] : null)));
+      series.push({ label: 'spike', stroke: MARK, paths: () => null, points: { show: true, size: 9, width: 2, stroke: MARK, fill: 'rgba(255,255,255,0)' } });
+    }
+    const xAxis = axisFor(v.xDates, v.showX, box);
+    const axes: uPlot.Axis[] = [
+      last ? xAxis : { ...xAxis, values: (_u, splits) => splits.map(() => ''), size: 4, gap: 0 },
+      { ...yAxis(), size: ySize, space: k === 0 ? 24 : 15 },
+    ];
+    const height = (k === 0 ? 130 : 84) + (last ? 28 : 4);
+    const u = new uPlot({
+      width, height,
+      legend: { show: false },
+      cursor: { drag: { x: false, y: false }, points: { size: 5 }, sync: { key, setSeries: false } },
+      scales: { x: { time: false, range: [lo, hi] }, ...(p.stems || p.id.startsWith('season') ? { y: { range: withZero } } : {}) },
+      axes, series,
+      hooks: {
+        setCursor: [(u) => {
+          const i = u.cursor.idx;
+          if (i === null || i === undefined || i >= n) return;
+          const parts = panels.flatMap((q) => {
+            const name = q.id === 'data' ? v.yName : q.lineName ?? q.id;
+            const out: string[] = [];
+            if (q.dots) out.push(`${name} ${v.showY(q.dots[i])}`);
+            if (q.line) out.push(`${q.lineName} ${v.showY(q.line[i])}`);
+            if (q.stems) out.push(`${name} ${v.showY(q.stems[i])}`);
+            return out;
+          });
+          const mk = v.markers.find((m) => m.x === xs[i]);
+          readout.textContent = `${v.showX(xs[i])}: ${parts.join(', ')}${mk ? `; ${mk.label}` : ''}`;
+        }],
+        ...(k === 0 ? { draw: [(u: uPlot) => layoutOverlays(u, zones)] } : {}),
+      },
+    }, data as uPlot.AlignedData, plot);
+    plots.push(u);
+  });
+  panelCharts.set(box, plots);
+  // end zones and knots on the top panel, as on a fit's chart
+  const top = plots[0];
+  const ends = top && v.boundaryPoints > 0 && n > 2 * v.boundaryPoints;
+  if (top && ends) {
+    for (const [i0, i1] of [[0, v.boundaryPoints - 1], [n - v.boundaryPoints, n - 1]]) {
+      zones.push({ el: overlay(top, 'zone zone-boundary', `End zone (${v.showX(v.x[i0])} to ${v.showX(v.x[i1])}): the trend here rests on data from one side and will be revised as data arrive.`), x0: v.x[i0], x1: v.x[i1] });
+    }
+  }
+  if (top && v.markers.length) {
+    const marks = document.createElement('div');
+    marks.className = 'markers';
+    top.over.append(marks);
+    for (const m of v.markers) {
+      const el = document.createElement('div');
+      el.className = 'marker';
+      el.title = m.label;
+      el.dataset.x = v.showX(m.x);
+      marks.append(el);
+      zones.push({ el, x0: m.x });
+    }
+  }
+  if (top) layoutOverlays(top, zones);
+  box.dataset.panels = String(panels.length);
+  box.dataset.panelLabels = panels.map((p) => p.label).join('|');
+  box.dataset.points = String(n);
+  box.dataset.fit = String(v.fitted.filter(Number.isFinite).length);
+  box.dataset.markers = String(v.markers.length);
+  const items: [string, string][] = [['sw-points', 'data'], ['sw-fit', 'trend']];
+  if (panels.some((p) => p.id.startsWith('season'))) items.push(['sw-season', 'season']);
+  if (panels.some((p) => p.id === 'spikes')) items.push(['sw-ring', 'spike']);
+  items.push(['sw-stem', 'remainder']);
+  if (v.markers.length) items.push(['sw-mark', 'knot']);
+  if (ends) items.push(['sw-edge', 'end zone: values get revised']);
+  legend(box, items);
+  box.append(readout);
+  const note = document.createElement('div');
+  note.className = 'note panel-note';
+  note.textContent = 'y = trend + season + spikes + remainder. The trend describes the past; it is not a forecast, and its last values will be revised as data arrive.';
+  box.append(note);
 }
 
 /** Draws the criterion against df, marking the chosen fit. */
 export function drawCurve(box: HTMLElement, c: NonNullable<View['curve']>, height = 160): void {
-  charts.get(box)?.destroy();
-  box.replaceChildren();
+  clear(box);
   const order = c.df.map((_, i) => i).filter((i) => Number.isFinite(c.score[i]) && Number.isFinite(c.df[i])).sort((a, b) => c.df[a] - c.df[b]);
   const xs = order.map((i) => c.df[i]), ys = order.map((i) => c.score[i]);
   if (!xs.length) return;
@@ -216,11 +378,10 @@ export function drawCurve(box: HTMLElement, c: NonNullable<View['curve']>, heigh
 
 /** The axis label sizes (CSS px) of the chart drawn in `box`, as uPlot draws them. */
 export function axisFontSizes(box: HTMLElement): number[] {
-  const u = charts.get(box);
-  if (!u) return [];
-  return u.axes.map((a) => {
+  const all = [charts.get(box), ...(panelCharts.get(box) ?? [])].filter((u): u is uPlot => !!u);
+  return all.flatMap((u) => u.axes.map((a) => {
     const f = a.font as unknown;
     const text = Array.isArray(f) ? String(f[0]) : String(f);
     return parseFloat(text) / devicePixelRatio;
-  });
+  }));
 }

@@ -8,12 +8,12 @@ import uPlot from 'uplot';
 import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
-import { analyseWith, choiceOf, PenaltyChoice, splitSelection } from './analysis';
-import { defaultRuleNote, methodChoices, ruleChoices } from './methodChoices';
+import { analyseWith, choiceOf, PenaltyChoice, SecondChoice, splitSelection } from './analysis';
+import { defaultRuleNote, methodChoices, optionChoices, ruleChoices } from './methodChoices';
 import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
-import { axisFontSizes, axisFor, drawCurve, drawFit, resizeCharts } from './chart';
+import { axisFontSizes, axisFor, drawCurve, drawFit, drawPanels, resizeCharts } from './chart';
 import { OwnTable, openOwnFile, readOwnTable } from './ownData';
 import { reportStart, sharePlan } from './share';
 import { View, viewOf } from './view';
@@ -24,10 +24,19 @@ const VERSION = typeof KNOTWISE_VERSION === 'string' ? KNOTWISE_VERSION : 'devel
 
 const $ = <T extends HTMLElement>(id: string) => document.getElementById(id) as T;
 
-function penaltyFrom(): PenaltyChoice {
-  const rule = $<HTMLSelectElement>('rule').value;
-  const raw = $<HTMLInputElement>('rule-value').value.trim();
+function penaltyFrom(ruleId = 'rule', valueId = 'rule-value'): PenaltyChoice {
+  const rule = $<HTMLSelectElement>(ruleId).value;
+  const raw = $<HTMLInputElement>(valueId).value.trim();
   return rule === 'df' || rule === 'value' ? { rule, value: raw === '' ? NaN : Number(raw) } : { rule };
+}
+
+/** The comparison the analyst asked for: nothing, the automatic choice's runner-up, or a method with its rule. */
+function secondFrom(): SecondChoice | undefined {
+  if ($('second-box').hidden) return undefined;
+  const v = $<HTMLSelectElement>('second').value;
+  if (v === '') return undefined;
+  if (v === 'runner-up') return { kind: 'runner-up' };
+  return { kind: 'method', choice: choiceOf(v), pen: penaltyFrom('second-rule', 'second-rule-value') };
 }
 
 function showStatus(text: string, kind: 'info' | 'error' = 'info'): void {
@@ -51,7 +60,9 @@ function fillTable(el: HTMLElement, t: PresentTable): void {
 function renderView(v: View): void {
   $('result-title').textContent = v.title;
   $('results').hidden = false;
-  drawFit($('chart'), v);
+  if (v.panels) drawPanels($('chart'), v); else drawFit($('chart'), v);
+  $('chart').setAttribute('aria-label', v.panels ? 'the components stacked on one x axis' : v.second ? 'data, the fitted curve and a second fit for comparison' : 'data and fitted curve');
+  $('share-fit-text').textContent = v.components ? 'components table (trend, season, spikes, remainder, adjusted)' : 'fitted column';
   const curveBox = $('curve-box');
   if (v.curve) { curveBox.hidden = false; drawCurve($('curve'), v.curve); } else curveBox.hidden = true;
   const dl = $('summary');
@@ -81,6 +92,17 @@ function renderView(v: View): void {
   const cmp = v.tables.find((t) => t.id === 'compare');
   $('compare-box').hidden = !cmp;
   if (cmp) { fillTable($('compare'), cmp.table); $('compare-reason').textContent = v.compareReason ?? ''; }
+  const side = v.tables.find((t) => t.id === 'side');
+  $('side-box').hidden = !side;
+  if (side) { fillTable($('side'), side.table); $('side-note').textContent = side.note ?? ''; }
+  const more = $('more-tables');
+  more.replaceChildren();
+  for (const t of v.tables.filter((x) => x.id === 'more')) {
+    const h = document.createElement('h2'); h.textContent = t.title;
+    const scroll = document.createElement('div'); scroll.className = 'table-scroll';
+    const table = document.createElement('table'); fillTable(table, t.table); scroll.append(table);
+    more.append(h, ...(t.note ? [Object.assign(document.createElement('p'), { className: 'note', textContent: t.note })] : []), scroll);
+  }
 }
 
 /** A sheet cell as the sheet shows it: dates by their format, numbers at their format's decimals. */
@@ -242,14 +264,56 @@ async function boot(inExcel: boolean): Promise<void> {
   methodSel.value = methodChoices().some((m) => m.value === picked) ? picked : 'trend1';
   const fillRules = () => {
     const keep = ruleSel.value;
-    const rules = ruleChoices(choiceOf(methodSel.value).analysis);
+    const c = choiceOf(methodSel.value);
+    const rules = ruleChoices(c.analysis, c.options);
     ruleSel.replaceChildren(...rules.map((r) => new Option(r.label, r.value)));
     ruleSel.value = rules.some((r) => r.value === keep) ? keep : 'auto';
-    $('rule-note').textContent = defaultRuleNote(choiceOf(methodSel.value).analysis);
+    $('rule-note').textContent = defaultRuleNote(c.analysis, c.options);
     $('rule-value').hidden = !(ruleSel.value === 'df' || ruleSel.value === 'value');
+    // a decomposition's season setting, as its declaration words it
+    const seasons = c.kind === 'decompose' ? optionChoices(c.analysis, 'season') : [];
+    const seasonSel = $<HTMLSelectElement>('season');
+    const keepSeason = seasonSel.value;
+    seasonSel.replaceChildren(...seasons.map((q) => new Option(q.label, q.value)));
+    if (seasons.some((q) => q.value === keepSeason)) seasonSel.value = keepSeason;
+    $('season-box').hidden = seasons.length === 0;
+  };
+  // A second smoother to draw over the first: offered for smoothers only; for the automatic choice its
+  // runner-up is the default. Its rules, like the first's, are only those its declaration accepts.
+  const secondSel = $<HTMLSelectElement>('second'), secondRule = $<HTMLSelectElement>('second-rule');
+  const fillSecondRules = () => {
+    const v = secondSel.value;
+    const box = $('second-rule-box');
+    box.hidden = v === '' || v === 'runner-up';
+    if (box.hidden) return;
+    const keep = secondRule.value;
+    const c = choiceOf(v);
+    const rules = ruleChoices(c.analysis, c.options);
+    secondRule.replaceChildren(...rules.map((r) => new Option(r.label, r.value)));
+    secondRule.value = rules.some((r) => r.value === keep) ? keep : 'auto';
+    $('second-rule-value').hidden = !(secondRule.value === 'df' || secondRule.value === 'value');
+  };
+  let lastFirst = '';
+  const fillSecond = () => {
+    const first = choiceOf(methodSel.value);
+    $('second-box').hidden = first.kind !== 'smooth';
+    const keep = secondSel.value;
+    const options = [new Option('(nothing)', '')];
+    if (first.value === 'auto') options.push(new Option('Runner-up of the automatic choice', 'runner-up'));
+    for (const m of methodChoices()) if (m.kind === 'smooth' && m.value !== first.value && m.value !== 'auto') options.push(new Option(m.label, m.value));
+    secondSel.replaceChildren(...options);
+    // the runner-up is the natural comparison when the method is chosen automatically
+    const fresh = first.value !== lastFirst;
+    secondSel.value = first.value === 'auto' && fresh ? 'runner-up' : options.some((o) => o.value === keep) ? keep : '';
+    lastFirst = first.value;
+    fillSecondRules();
   };
   fillRules();
+  fillSecond();
   methodSel.addEventListener('change', fillRules);
+  methodSel.addEventListener('change', fillSecond);
+  secondSel.onchange = fillSecondRules;
+  secondRule.onchange = () => { $('second-rule-value').hidden = !(secondRule.value === 'df' || secondRule.value === 'value'); };
   ruleSel.onchange = () => {
     const r = ruleSel.value;
     $('rule-value').hidden = !(r === 'df' || r === 'value');
@@ -263,7 +327,11 @@ async function boot(inExcel: boolean): Promise<void> {
       block = await wb.readSelection();
       showStatus(`Fitting ${block.address} ...`);
       // The fit runs in a worker: the pane stays responsive, shows progress and can cancel.
-      const analysis = await analyseWith(block, choiceOf($<HTMLSelectElement>('method').value), penaltyFrom(), (r) => compute(r, run));
+      // The comparison fit runs after the first in the same way, under the same Cancel.
+      const secondRun = { signal: run.signal, onProgress: (p: { fraction: number; stage: string }) => run.onProgress({ fraction: p.fraction, stage: `compared fit: ${p.stage}` }) };
+      const first = choiceOf($<HTMLSelectElement>('method').value);
+      const chosen = $('season-box').hidden ? first : { ...first, options: { ...first.options, season: $<HTMLSelectElement>('season').value } };
+      const analysis = await analyseWith(block, chosen, penaltyFrom(), (r, second) => compute(r, second ? secondRun : run), secondFrom());
       const view = viewOf(analysis, block, { version: VERSION, date: new Date().toISOString().slice(0, 10) });
       last = { block, view };
       renderView(view);

@@ -15,7 +15,7 @@ export interface MethodChoice {
   value: string;
   /** What the analyst reads. */
   label: string;
-  kind: 'smooth' | 'breaks';
+  kind: 'smooth' | 'breaks' | 'decompose';
   /** The registered analysis and the options the entry fixes (e.g. order 1). */
   analysis: string;
   options: Record<string, OptionValue>;
@@ -31,25 +31,53 @@ const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
 
 function variantsOf(def: AnalysisDefinition): MethodChoice[] {
   if (def.family === 'changepoints') return [{ value: `breaks-${def.name}`, label: `Changepoints: ${def.label.charAt(0).toLowerCase()}${def.label.slice(1)}`, kind: 'breaks', analysis: def.name, options: {} }];
+  if (def.family === 'decomposition') {
+    // one entry per declared way of taking the series apart (its 'method' choice), worded by the declaration
+    const how = def.options.find((o) => o.name === 'method');
+    const ways = how?.choices ?? [];
+    if (!ways.length) return [{ value: def.name, label: def.label, kind: 'decompose', analysis: def.name, options: {} }];
+    return ways.map((w) => ({
+      value: `${def.name}-${w}`, kind: 'decompose' as const, analysis: def.name, options: { method: w },
+      label: `Decomposition: ${(how?.choiceHelp?.[w] ?? w).replace(/\s*\(default\)\s*$/, '')}`,
+    }));
+  }
   if (def.family !== 'smoother') return [];
   const vs = def.autoVariants ?? [];
   if (vs.length === 0) return [{ value: def.name, label: def.label, kind: 'smooth', analysis: def.name, options: {} }];
   return vs.map((v) => ({ value: def.name + Object.values(v.options).join(''), label: cap(v.label), kind: 'smooth' as const, analysis: def.name, options: { ...v.options } }));
 }
 
-/** The method list, in registration order (smoothers, the automatic choice, changepoint models). */
+/** The method list, in registration order (smoothers, the automatic choice, changepoint models, decompositions). */
 export function methodChoices(): MethodChoice[] {
   return analysisDefinitions().flatMap(variantsOf);
 }
 
-/** The penalty list of one method: its default first, then the rules it declares, a df target and a fixed penalty when declared. */
-export function ruleChoices(analysis: string): RuleChoice[] {
+/**
+ * The options of `def` that apply when the entry fixes `fixed` (an option declared `onlyWith` another
+ * option's values applies only when that option, as fixed or by its default, has one of them).
+ */
+function applicable(def: AnalysisDefinition, fixed: Record<string, OptionValue>): AnalysisDefinition['options'] {
+  return def.options.filter((o) => {
+    if (!o.onlyWith) return true;
+    const other = def.options.find((p) => p.name === o.onlyWith!.option);
+    const v = fixed[o.onlyWith.option] ?? other?.default;
+    return v !== undefined && o.onlyWith.values.includes(v);
+  });
+}
+
+/**
+ * The penalty list of one method: its default first, then the rules it declares, a df target and a fixed
+ * penalty when declared; `fixed` are the options the list entry fixes (a decomposition's method), so a rule
+ * that does not apply with them (STL has no trend penalty) is not offered.
+ */
+export function ruleChoices(analysis: string, fixed: Record<string, OptionValue> = {}): RuleChoice[] {
   const { def } = findAnalysis(analysis);
-  const rule = def.options.find((o) => o.name === 'rule');
+  const opts = applicable(def, fixed);
+  const rule = opts.find((o) => o.name === 'rule');
   const out: RuleChoice[] = [{ value: 'auto', label: `Automatic (${rule?.default !== undefined ? String(rule.default) : 'the method\'s default'})` }];
   for (const c of rule?.choices ?? []) out.push({ value: c, label: cap(rule?.choiceHelp?.[c] ?? RULE_HELP[c] ?? c).replace(/:.*$/, '') });
-  if (def.options.some((o) => o.name === 'df')) out.push({ value: 'df', label: 'Target degrees of freedom' });
-  if (def.options.some((o) => o.name === 'penalty')) out.push({ value: 'value', label: 'Fixed penalty' });
+  if (opts.some((o) => o.name === 'df')) out.push({ value: 'df', label: 'Target degrees of freedom' });
+  if (opts.some((o) => o.name === 'penalty')) out.push({ value: 'value', label: 'Fixed penalty' });
   return out;
 }
 
@@ -62,10 +90,23 @@ export function ruleOptions(rule: string, value?: number): Record<string, unknow
 }
 
 /** One sentence on what the method does when the penalty is left to it. */
-export function defaultRuleNote(analysis: string): string {
+export function defaultRuleNote(analysis: string, fixed: Record<string, OptionValue> = {}): string {
   const { def } = findAnalysis(analysis);
-  const rule = def.options.find((o) => o.name === 'rule');
+  const rule = applicable(def, fixed).find((o) => o.name === 'rule');
   if (!rule || rule.default === undefined) return 'Automatic: the method sets its own smoothing.';
   const d = String(rule.default);
   return `Automatic: ${d} - ${rule.choiceHelp?.[d] ?? RULE_HELP[d] ?? d}.`;
+}
+
+/**
+ * The values of a method's declared choice option (e.g. a decomposition's 'season'), each labelled by its
+ * declared help, the default first; empty when the method does not declare it.
+ */
+export function optionChoices(analysis: string, option: string): RuleChoice[] {
+  const { def } = findAnalysis(analysis);
+  const o = def.options.find((p) => p.name === option);
+  if (!o || o.kind !== 'choice' || !o.choices) return [];
+  const words = (c: string) => cap((o.choiceHelp?.[c] ?? c).replace(/\s*\(default\)\s*$/, ''));
+  const first = o.choices.filter((c) => c === o.default);
+  return [...first, ...o.choices.filter((c) => c !== o.default)].map((c) => ({ value: String(c), label: words(String(c)) }));
 }

@@ -27,16 +27,30 @@ function tableBlock(what: string, title: string, t: PresentTable, col: number, r
   };
 }
 
+/**
+ * A decomposition's components (trend first, so the chart's fit range is the trend) beside the data, with
+ * their header in the selection's header row, or on the row above data without one (none on row 1).
+ */
+function componentsBlock(v: View, col: number): WriteBlock {
+  const c = v.components!;
+  const header = v.hasHeader || v.topRow > 1;
+  return {
+    what: 'components table', col, row: v.hasHeader || !header ? v.topRow : v.topRow - 1,
+    values: [...(header ? [c.header] : []), ...c.rows],
+    formats: [...(header ? [c.header.map(() => '@')] : []), ...c.rows.map((r) => r.map(() => c.format))],
+  };
+}
+
 /** The blocks and chart for one view, placed from the selection's position on its sheet. */
 export function sharePlan(v: View): SharePlan {
   const nRows = v.column.length;
   const fitCol = v.lastCol + 1;
-  const fitted: WriteBlock = {
+  const fitted: WriteBlock = v.components ? componentsBlock(v, fitCol) : {
     what: 'fitted column', col: fitCol, row: v.topRow,
     values: [...(v.hasHeader ? [[v.columnHeader]] : []), ...v.column.map((c) => [c])],
     formats: [...(v.hasHeader ? [['@']] : []), ...v.column.map(() => [v.columnFormat])],
   };
-  const col = fitCol + 2;
+  const col = fitCol + (v.components ? v.components.header.length : 1) + 1;
   let row = v.topRow;
   const report: WriteBlock[] = [];
   const add = (b: WriteBlock) => { report.push(b); row += b.values.length + 1; };
@@ -44,13 +58,14 @@ export function sharePlan(v: View): SharePlan {
   add({ what: 'summary', col, row, values: [['Summary', ''], ...v.summary.map(([k, t]) => [k, t])], formats: [['@', '@'], ...v.summary.map(() => ['@', '@'])] });
   const warnings = v.warnings.length ? v.warnings.map((w) => [w.code, w.message]) : [['none', '']];
   add({ what: 'warnings', col, row, values: [['Warnings', ''], ...warnings], formats: [['@', '@'], ...warnings.map(() => ['@', '@'])] });
-  let markersX: string | undefined, markersY: string | undefined;
+  let markersX: string | undefined, markersY: string | undefined, markersName: string | undefined;
   for (const t of v.tables) {
     const b = tableBlock(`${t.title.toLowerCase()} table`, t.title, t.table, col, row);
     if (t.id === 'table' && t.table.rows.length) {
       const first = row + 2, last = row + 1 + t.table.rows.length;
       markersX = rangeName(null, col, first, col, last);
       markersY = rangeName(null, col + t.table.header.length - 1, first, col + t.table.header.length - 1, last);
+      markersName = t.title.toLowerCase();
     }
     add(b);
   }
@@ -61,7 +76,7 @@ export function sharePlan(v: View): SharePlan {
     data: rangeName(null, v.place.yCol, first, v.place.yCol, last),
     fit: rangeName(null, fitCol, first, fitCol, last),
     markersX, markersY,
-    names: { data: v.yName, fit: v.columnHeader, markers: markersX ? `${v.markerName}s` : undefined },
+    names: { data: v.yName, fit: v.columnHeader, markers: markersName },
     col, row,
   };
   return { fitted, report, chart };

@@ -7,7 +7,7 @@
 import type { Comparison } from '../engine';
 import {
   DataPlace, PresentTable, breaksSettingsNote, breaksSummary, breaksTable, cellsInMessage, fitSettingsNote, fitSummary,
-  formatNumber, knotsTable, shownKnots, parseRangeAddress, rangeName, roundedFit, segmentsTable, xPresenter,
+  formatNumber, knotsTable, shownKnots, parseRangeAddress, rangeName, roundedFit, segmentsTable, xPresenter, cellOfRow, ruleInWords,
 } from '../present';
 import type { Analysis } from './analysis';
 import type { CellBlock } from './workbook';
@@ -46,8 +46,19 @@ export interface View {
   /** Excel number format of the fitted values. */
   columnFormat: string;
   columnHeader: string;
-  /** The knots or breaks table, then (changepoints) the segments table. */
-  tables: { id: 'table' | 'segments' | 'compare'; title: string; table: PresentTable }[];
+  /**
+   * The knots, breaks or spikes table ('table'), then (changepoints) the segments table, the automatic
+   * choice's comparison, two fits side by side ('side'), and further tables of a decomposition ('more').
+   */
+  tables: { id: 'table' | 'segments' | 'compare' | 'side' | 'more'; title: string; table: PresentTable; note?: string }[];
+  /** A decomposition: its components as panels stacked on one x axis, top to bottom. */
+  panels?: Panel[];
+  /** A decomposition: the components table written to the sheet (header, then one row per selected data row). */
+  components?: { header: string[]; rows: (number | string)[][]; format: string };
+  /** A second smoother drawn over the fit for comparison. */
+  second?: { label: string; fitted: Float64Array };
+  /** What the first fit is called in a legend beside a second one. */
+  fitLabel?: string;
   /** The automatic choice's reason, in one sentence. */
   compareReason?: string;
   /** One line recording method, rule, penalty, df, date and version. */
@@ -69,6 +80,22 @@ export interface View {
   showX(x: number): string;
   /** A value on the y scale as shown (at the data's precision). */
   showY(y: number): string;
+}
+
+/** One panel of a decomposition: what it draws, labelled in plain words. */
+export interface Panel {
+  id: string;
+  label: string;
+  /** Data points (the top panel). */
+  dots?: Float64Array;
+  /** A line (trend, season). */
+  line?: Float64Array;
+  /** Vertical stems from zero (spikes, remainder). */
+  stems?: Float64Array;
+  /** Clean-point indices marked with a ring (spikes). */
+  marked?: number[];
+  /** Name of the line, for the readout and the legend. */
+  lineName?: string;
 }
 
 /** Version and date recorded in the settings note. */
@@ -98,11 +125,13 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
   const ctx = { xDates, place };
   const column = Array.from({ length: series.nRows }, (_, i) => (series.rowOf[i] >= 0 ? fit.values[series.rowOf[i]] : ''));
   const source = rangeName(r.sheet, r.col, r.row, r.lastCol, r.lastRow);
-  const warnings = a.result.warnings.map((w) => ({ code: w.code, message: cellsInMessage(w.message, place) }));
+  const warnings: { code: string; message: string }[] = a.result.warnings.map((w) => ({ code: w.code, message: cellsInMessage(w.message, place) }));
   const common = {
     x: series.x, y: series.y, fitted: a.result.fitted, xDates, place, sheet: r.sheet, xCol: sel.x ? cols[0] : -1, hasHeader, topRow: r.row, lastCol: Math.max(...cols),
     yName: sel.yName, showX: xp.text, showY, column, columnFormat: fit.format, warnings,
   };
+  if (a.kind === 'decompose') return decompositionView(a, { ...common, fit, source, facts, ctx, xp });
+  if (a.kind === 'smooth' && a.secondError) common.warnings = [...common.warnings, { code: 'comparison-failed', message: `The comparison fit was not drawn: ${cellsInMessage(a.secondError, place)}` }];
   if (a.kind === 'smooth') {
     const { result, choice } = a;
     const n = series.n;
@@ -120,8 +149,11 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
       x: k.x, y: result.fitted[k.index],
       label: `knot at ${xp.text(k.x)} (${knots.rows[i][1].text}): ${changeName} ${formatNumber(k.change)}`,
     }));
+    const fitLabel = a.comparison ? cap(a.comparison.rows[a.comparison.chosen].label) : choice.label;
+    const second = a.second ? { label: a.second.how === 'runner-up' ? `${a.second.choice.label} (runner-up)` : a.second.choice.label, fitted: a.second.result.fitted } : undefined;
     return {
       ...common,
+      fitLabel, second,
       title: a.comparison ? `Automatic choice: ${a.comparison.rows[a.comparison.chosen].label}` : choice.label,
       beyond: a.beyond, band, curve, markers, markerName: 'knot',
       boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), Math.round(n / Math.max(result.df, 1)))),
@@ -130,6 +162,7 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
       tables: [
         { id: 'table', title: 'Knots', table: withFitted(knots, shown.map((k) => result.fitted[k.index]), fit.format, showY) },
         ...(a.comparison ? [{ id: 'compare' as const, title: 'Methods compared', table: comparisonTable(a.comparison) }] : []),
+        ...(a.second && second ? [sideBySide(a, fitLabel, second.label)] : []),
       ],
       compareReason: a.comparison?.reason,
       note: fitSettingsNote(result, { ...facts, source }),
@@ -166,5 +199,119 @@ function comparisonTable(c: Comparison): PresentTable {
       ...(r.skipped ? [num(NaN), num(NaN), num(NaN)] : [num(r.df), num(r.cv), num(r.se)]),
       { value: i === c.chosen ? 'chosen' : r.skipped ? 'not compared' : '', text: i === c.chosen ? 'chosen' : r.skipped ? 'not compared' : '' },
     ]),
+  };
+}
+
+const cap = (t: string) => t.charAt(0).toUpperCase() + t.slice(1);
+
+/** Two fits side by side: what each is, its degrees of freedom and the score that chose its penalty. */
+function sideBySide(a: Extract<Analysis, { kind: 'smooth' }>, firstLabel: string, secondLabel: string): View['tables'][number] {
+  const r1 = a.result, r2 = a.second!.result;
+  const t = (s: string) => ({ value: s, text: s });
+  const num = (v: number) => (Number.isFinite(v) ? formatNumber(v, 4) : '-');
+  const score = (r: typeof r1) => (Number.isFinite(r.criterion.value) ? `${r.criterion.name.toUpperCase()} ${num(r.criterion.value)}` : r.criterion.name === 'fixed' ? 'none (penalty given)' : r.criterion.name);
+  const rows: string[][] = [
+    ['method', firstLabel, secondLabel],
+    ['degrees of freedom', num(r1.df), num(r2.df)],
+    ['penalty chosen by', ruleInWords(r1.criterion.name, r1.options), ruleInWords(r2.criterion.name, r2.options)],
+    ['criterion', score(r1), score(r2)],
+    ['knots', String(r1.bends?.length ?? r1.knots.length), String(r2.bends?.length ?? r2.knots.length)],
+  ];
+  const c = a.comparison, row2 = a.second!.row;
+  if (c && row2) {
+    const w = c.rows[c.chosen];
+    rows.push([`CV error on the same ${c.folds} folds (se)`, `${num(w.cv)} (${num(w.se)})`, `${num(row2.cv)} (${num(row2.se)})`]);
+  }
+  const same = r1.criterion.name === r2.criterion.name && !!(c && row2);
+  return {
+    id: 'side', title: 'Two fits side by side',
+    table: { header: ['', 'fit', 'compared'], rows: rows.map((r) => r.map(t)) },
+    note: same
+      ? 'Both scores are cross-validation errors on the same held-out points, so they compare like with like.'
+      : 'Each criterion is the score its own rule minimised: scores of different rules (or folds) are different quantities. Compare the curves and degrees of freedom; both describe the past, neither is a forecast.',
+  };
+}
+
+const SPACING_UNIT: Record<string, string> = { daily: 'days', weekly: 'weeks', monthly: 'months', quarterly: 'quarters', steps: 'steps' };
+
+interface DecompositionParts {
+  x: Float64Array; y: Float64Array; xDates: boolean; place: DataPlace; sheet: string | null; xCol: number; hasHeader: boolean; topRow: number; lastCol: number;
+  yName: string; showX(x: number): string; showY(y: number): string; column: (number | string)[]; columnFormat: string; warnings: { code: string; message: string }[];
+  fit: ReturnType<typeof roundedFit>; source: string; facts: RunFacts; ctx: { xDates: boolean; place: DataPlace }; xp: ReturnType<typeof xPresenter>;
+}
+
+/** The components as stacked panels, the components table for the sheet, and the spikes, seasons and knots tables. */
+function decompositionView(a: Extract<Analysis, { kind: 'decompose' }>, p: DecompositionParts): View {
+  const { series, result } = a;
+  const d = result.decomposition!;
+  const c = d.components;
+  const seasons = d.seasons as { label: string; length: number; strength: number; kept: boolean; values: Float64Array }[];
+  const knots = d.knots as { x: number; index: number; row: number; change: number }[];
+  const spikeIndex = d.spikeIndex as number[];
+  const unit = SPACING_UNIT[d.spacing as string] ?? 'steps';
+  const method = d.method === 'stl' ? 'STL (LOESS trend and a slowly changing season)' : 'trend with knots chosen by the data, fixed seasonal pattern and one-off spikes';
+  const kept = seasons.filter((q) => q.kept);
+  const panels: Panel[] = [{ id: 'data', label: `${p.yName} with its trend`, dots: series.y, line: c.trend, lineName: 'trend', marked: spikeIndex }];
+  for (const q of kept) panels.push({ id: `season-${q.label}`, label: `Season: ${q.label} pattern (${formatNumber(q.length, 4)} ${unit})`, line: q.values, lineName: `${q.label} season` });
+  if (spikeIndex.length) panels.push({ id: 'spikes', label: `One-off spikes (${spikeIndex.length})`, stems: c.spikes, marked: spikeIndex, lineName: 'spike' });
+  panels.push({ id: 'remainder', label: 'Remainder: what is left', stems: c.remainder, lineName: 'remainder' });
+
+  // the table written to the sheet: one row per selected data row, as KNOTWISE.DECOMPOSE spills it
+  const names = ['trend', 'season', 'spikes', 'remainder', 'adjusted'] as const;
+  const r = p.fit.rounding;
+  const rows = Array.from({ length: series.nRows }, (_, i) => {
+    const k = series.rowOf[i];
+    return names.map((nm) => (k >= 0 ? r.round(c[nm][k]) : ''));
+  });
+  const dataCell = (v: number) => ({ value: r.round(v), text: r.format(v), format: p.columnFormat });
+  const text = (t: string) => ({ value: t, text: t });
+  const spikes: PresentTable = {
+    // the data value last: a sheet chart marks the spikes there, on the data points
+    header: [p.xp.label, 'cell', 'spike', 'trend', p.yName],
+    rows: spikeIndex.map((i) => [p.xp.cell(series.x[i]), text(cellOfRow(p.place, series.firstRow[i])), dataCell(c.spikes[i]), dataCell(c.trend[i]), dataCell(series.y[i])]),
+  };
+  const seasonTable: PresentTable = {
+    header: ['season', `length (${unit})`, 'strength', 'kept'],
+    rows: seasons.map((q) => [text(q.label), { value: Number(q.length.toPrecision(4)), text: formatNumber(q.length, 4) }, { value: Number(q.strength.toFixed(2)), text: q.strength.toFixed(2) }, text(q.kept ? 'yes' : 'no')]),
+  };
+  const knotTable: PresentTable = {
+    header: [p.xp.label, 'cell', 'change', 'trend'],
+    rows: knots.map((k) => [p.xp.cell(k.x), text(cellOfRow(p.place, k.row)), { value: Number(k.change.toPrecision(3)), text: formatNumber(k.change, 3) }, dataCell(c.trend[k.index])]),
+  };
+  const seasonWords = kept.length ? kept.map((q) => `${q.label} (${formatNumber(q.length, 4)} ${unit}, strength ${q.strength.toFixed(2)})`).join(' and ') : `none kept (strength below ${Number(d.strengthThreshold).toFixed(2)})`;
+  const penalty = d.penalty as number;
+  const summary: [string, string][] = [
+    ['method', method],
+    ['season', seasonWords],
+    ['trend', d.method === 'stl' ? 'LOESS' : `${knots.length} knots; penalty ${Number.isFinite(penalty) ? formatNumber(penalty) : '-'} chosen by ${ruleInWords(result.criterion?.name ?? 'fixed')}`],
+    ['spikes', String(spikeIndex.length)],
+    ['noise sd', r.format(d.noiseScale as number)],
+    ['points used', `${series.n} of ${series.nRows} rows`],
+    ['solver', result.solver.converged ? `converged in ${result.solver.iterations} steps` : `stopped after ${result.solver.iterations} steps without reaching its tolerance`],
+  ];
+  const curvePts = result.criterion?.curve;
+  const chosen = curvePts?.find((q) => q.penalty === penalty);
+  const curve = curvePts && curvePts.length > 1 && chosen
+    ? { df: curvePts.map((q) => q.df), score: curvePts.map((q) => q.score), chosenDf: chosen.df, chosenScore: chosen.score, name: `${result.criterion!.name.toUpperCase()} score`, xLabel: 'degrees of freedom of the trend' }
+    : undefined;
+  const n = series.n;
+  return {
+    ...p,
+    title: d.method === 'stl' ? 'Decomposition: STL' : 'Decomposition: trend, season and spikes',
+    fitted: c.trend, markers: knots.map((k) => ({ x: k.x, y: c.trend[k.index], label: `knot at ${p.xp.text(k.x)} (${cellOfRow(p.place, k.row)}): change ${formatNumber(k.change, 3)}` })),
+    markerName: 'knot', summary, curve, panels,
+    // about one smoothing window at each end: n / df of the trend where the rule reports it (as for a fit);
+    // for STL half its default trend window, about 1.5 times the longest period kept (Cleveland et al. 1990)
+    boundaryPoints: Math.max(2, Math.min(Math.floor(n / 4), d.method === 'stl'
+      ? Math.round(0.75 * Math.max(2, ...kept.map((q) => q.length)))
+      : Math.round(n / Math.max(chosen?.df ?? knots.length + 2, 1)))),
+    columnHeader: 'trend',
+    components: { header: [...names], rows, format: p.columnFormat },
+    tables: [
+      { id: 'table', title: 'Spikes', table: spikes },
+      { id: 'more', title: 'Seasons', table: seasonTable, note: `A season is kept when its strength is at least ${Number(d.strengthThreshold).toFixed(2)} (Wang, Smith & Hyndman 2006).` },
+      ...(knots.length ? [{ id: 'more' as const, title: 'Knots of the trend', table: knotTable }] : []),
+    ],
+    note: `Knotwise ${p.facts.version}, ${p.facts.date}: decomposition of ${p.source} (${method}); season ${seasonWords}; ${knots.length} knots, ${spikeIndex.length} spikes. y = trend + season + spikes + remainder. The trend describes the past; it is not a forecast, and its last values get revised as data arrive.`,
   };
 }

@@ -441,6 +441,128 @@ test('the manifest is well-formed and points at the built pages, the functions a
   }
 });
 
+/** Back to the demo sheet (the own-data box may be closed). */
+const backToDemo = (page) => page.evaluate(() => document.querySelector('#demo-use').click());
+/** Waits for the fit started by #run to end, however it ends. */
+const fitEnds = (page) => page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? '') && document.querySelector('#progress')?.hidden !== false, null, { timeout: 120000 });
+const SECOND_RGB = [194, 24, 91], MARK_RGB = [200, 97, 26];
+
+test('the decomposition shows its components as stacked panels on one date axis, spikes marked, cursor shared', async (page) => {
+  await backToDemo(page);
+  await page.selectOption('#method', 'decompose-adaptive');
+  assert(await page.isVisible('#season'), 'no season setting offered for the decomposition');
+  assert(!(await page.isVisible('#second-box')), 'a comparison offered for a decomposition');
+  const rules = await page.$$eval('#rule option', (o) => o.map((x) => x.value));
+  assert(JSON.stringify(rules) === '["auto","cv","cv-simpler","sure","bic","value"]', `rules offered with the adaptive decomposition: ${rules}`);
+  await page.selectOption('#season', 'on');
+  await page.click('#run');
+  await fitEnds(page);
+  await page.waitForFunction(() => /^Decomposition/.test(document.querySelector('#result-title')?.textContent ?? ''));
+  const info = await page.$eval('#chart', (b) => ({ n: Number(b.dataset.panels), labels: b.dataset.panelLabels, ticks: b.dataset.xTicks, drawn: b.querySelectorAll('.panel').length, canvases: b.querySelectorAll('.panel canvas').length }));
+  const seasonsKept = await page.$$eval('#more-tables table', (ts) => { const t = ts.find((x) => /season/.test(x.rows[0].textContent)); return [...t.rows].slice(1).filter((r) => r.lastChild.textContent === 'yes').length; });
+  const spikes = await page.$$eval('#table tr', (r) => r.length - 1);
+  const expected = 2 + seasonsKept + (spikes > 0 ? 1 : 0);
+  assert(seasonsKept >= 1, 'with the season on, the demo\'s yearly season should be kept');
+  assert(info.n === expected && info.drawn === expected && info.canvases === expected, `expected ${expected} panels (data and trend, ${seasonsKept} season(s), ${spikes ? 'spikes, ' : ''}remainder), got ${JSON.stringify(info)}`);
+  const labels = info.labels.split('|');
+  assert(/orders with its trend/.test(labels[0]) && /^Season: yearly/.test(labels[1]) && /^Remainder/.test(labels[labels.length - 1]), `panel labels: ${labels}`);
+  assert(/^\d{4}(-\d{2})?(\|\d{4}(-\d{2})?)+$/.test(info.ticks), `the shared x axis is not labelled with calendar dates: ${info.ticks}`);
+  const labelPx = await page.$$eval('#chart .panel-label, #chart .legend', (l) => l.map((e) => parseFloat(getComputedStyle(e).fontSize)));
+  assert(labelPx.every((f) => f >= 11), `panel labels or legend below 11 px: ${labelPx}`);
+  const axisFonts = await page.evaluate(() => window.knotwise.axisFonts());
+  assert(axisFonts.length >= 2 * expected && axisFonts.every((f) => f >= 11), `axis label sizes: ${axisFonts}`);
+  // the panels share the x axis: same plot left edge and width in every panel
+  const boxes = await page.$$eval('#chart .panel .u-over', (o) => o.map((e) => { const r = e.getBoundingClientRect(); return [Math.round(r.left), Math.round(r.width)]; }));
+  assert(boxes.every((b) => b[0] === boxes[0][0] && b[1] === boxes[0][1]), `panels not aligned on one x axis: ${JSON.stringify(boxes)}`);
+  const legend = await page.$$eval('#chart .legend-item', (l) => l.map((x) => x.textContent));
+  assert(legend.includes('season') && legend.includes('remainder') && legend.includes('spike') === (spikes > 0), `legend does not list what is drawn: ${legend}`);
+  if (spikes > 0) {
+    assert(await countColour(page, '#chart .panel[data-panel="spikes"]', MARK_RGB) > 20, 'spikes not drawn on their panel');
+    assert(await countColour(page, '#chart .panel[data-panel="data"]', MARK_RGB) > 20, 'spikes not ringed on the data');
+  }
+  // one cursor for all panels: pointing at the top panel moves the bottom panel's cursor to the same x
+  const top = await page.$('#chart .panel[data-panel="data"] .u-over');
+  const tb = await top.boundingBox();
+  await page.mouse.move(tb.x + tb.width * 0.5, tb.y + tb.height * 0.5);
+  await page.waitForTimeout(100);
+  const cursors = await page.$$eval('#chart .panel .u-cursor-x', (c) => c.map((e) => Math.round(e.getBoundingClientRect().left)));
+  assert(cursors.length === expected && cursors.every((x) => Math.abs(x - cursors[0]) <= 1) && cursors[0] > tb.x, `cursors not synchronised: ${cursors}`);
+  const readout = await page.$eval('#chart .readout', (r) => r.textContent);
+  assert(/^\d{4}-\d{2}-\d{2}: orders [\d.]+, trend [\d.]+, yearly season -?[\d.]+.*remainder -?[\d.]+/.test(readout), `readout: ${readout}`);
+  assert(/not a forecast/.test(await page.$eval('#chart .panel-note', (n) => n.textContent)), 'the trend is not said to be no forecast');
+  await page.mouse.move(0, 0);
+});
+
+test('writing a decomposition puts the components table with its header beside the data', async (page) => {
+  assert(/components table/.test(await page.textContent('#share-fit-text')), 'the share choice does not name the components table');
+  await page.click('#write');
+  if (await page.isVisible('#confirm')) {
+    assert(/Demo!C1:G157/.test(await page.textContent('#confirm-text')), `confirmation: ${await page.textContent('#confirm-text')}`);
+    await page.click('#confirm-yes');
+  }
+  await page.waitForFunction(() => /^Wrote /.test(document.querySelector('#status').textContent));
+  const cells = await page.$$eval('#sheet-table tr', (trs) => trs.map((tr) => [...tr.children].map((c) => c.textContent)));
+  assert(cells[1].slice(3, 8).join('|') === 'trend|season|spikes|remainder|adjusted', `header of the components: ${cells[1].slice(3, 8)}`);
+  const [y, t, s, o, e] = [cells[2][2], ...cells[2].slice(3, 7)].map(Number);
+  assert(Math.abs(t + s + o + e - y) <= 0.2 + 1e-9, `row 2 does not add back to the data: ${y} vs ${t} + ${s} + ${o} + ${e}`);
+  assert(/^Knotwise .*decomposition of Demo!A1:B157/.test(cells[1][9]), `settings note not in I1: ${cells[1][9]}`);
+  await backToDemo(page);
+});
+
+test('a second method is drawn over the first in its own style, named in the legend, its df and criterion beside the first', async (page) => {
+  await page.selectOption('#method', 'trend1');
+  assert(await page.isVisible('#second-box'), 'no comparison offered for a smoother');
+  const offered = await page.$$eval('#second option', (o) => o.map((x) => x.value));
+  assert(!offered.includes('trend1') && !offered.includes('runner-up') && !offered.some((v) => v.startsWith('breaks-') || v.startsWith('decompose')), `comparison list: ${offered}`);
+  await page.selectOption('#second', 'spline');
+  const rules = await page.$$eval('#second-rule option', (o) => o.map((x) => x.value));
+  assert(JSON.stringify(rules) === '["auto","gcv","cv","cv-simpler","df","value"]', `rules offered for the compared spline: ${rules}`);
+  await page.selectOption('#second-rule', 'gcv');
+  await page.click('#run');
+  await fitEnds(page);
+  await page.waitForSelector('#results:not([hidden])');
+  const drawn = await page.$eval('#chart', (b) => ({ fit: b.dataset.fit, second: b.dataset.second }));
+  assert(drawn.fit === '153' && drawn.second === '153', `expected two fitted series of 153 points: ${JSON.stringify(drawn)}`);
+  assert(await countColour(page, '#chart', FIT_RGB) > 200, 'first fit not drawn');
+  assert(await countColour(page, '#chart', SECOND_RGB) > 100, 'second fit not drawn in its own colour');
+  const legend = await page.$$eval('#chart .legend-item', (l) => l.map((x) => x.textContent));
+  assert(legend.some((t) => /^fit: Straight pieces with kinks/.test(t)) && legend.some((t) => /^compared: A smooth curve \(spline\)/.test(t)), `legend does not name both: ${legend}`);
+  const side = await page.$$eval('#side tr', (r) => r.map((x) => [...x.children].map((c) => c.textContent)));
+  const df = side.find((r) => r[0] === 'degrees of freedom'), crit = side.find((r) => r[0] === 'criterion');
+  assert(df && Number(df[1]) > 1 && Number(df[2]) > 1, `df side by side: ${df}`);
+  assert(crit && /^CV /.test(crit[1]) && /^GCV /.test(crit[2]), `criteria side by side: ${crit}`);
+  assert(/different quantities/.test(await page.textContent('#side-note')), 'no caution that different rules score different quantities');
+});
+
+test('with the automatic choice the runner-up is the default comparison, and Cancel stops the comparison fit too', async (page) => {
+  await page.selectOption('#method', 'auto');
+  assert(await page.$eval('#second', (s) => s.value) === 'runner-up', 'the runner-up is not the default comparison of the automatic choice');
+  await page.click('#run');
+  await fitEnds(page);
+  await page.waitForSelector('#results:not([hidden])');
+  const legend = await page.$$eval('#chart .legend-item', (l) => l.map((x) => x.textContent));
+  assert(legend.some((t) => /^fit: /.test(t)) && legend.some((t) => /^compared: .*\(runner-up\)$/.test(t)), `legend: ${legend}`);
+  const cvRow = await page.$$eval('#side tr', (r) => r.map((x) => [...x.children].map((c) => c.textContent)).find((x) => /^CV error on the same/.test(x[0])));
+  assert(cvRow && /^[\d.]+ \([\d.]+\)$/.test(cvRow[1]) && /^[\d.]+ \([\d.]+\)$/.test(cvRow[2]), `CV errors side by side: ${cvRow}`);
+  // a long comparison fit: trend filtering of order 3 by cross-validation on 3000 pasted points
+  const lines = ['t\tv'];
+  for (let i = 0; i < 3000; i++) lines.push(`${i + 1}\t${(Math.sin(i / 300) * 50 + ((i * 7919) % 13) - 6).toFixed(1)}`);
+  // set the text directly: typing thousands of lines through fill() takes minutes in headless Chromium
+  await page.evaluate((text) => { document.querySelector('#own-data').open = true; document.querySelector('#paste').value = text; }, lines.join('\n'));
+  await page.click('#paste-use');
+  await page.selectOption('#method', 'spline');
+  await page.selectOption('#second', 'trend3');
+  await page.selectOption('#second-rule', 'cv');
+  const title = await page.textContent('#result-title');
+  await page.click('#run');
+  await page.waitForFunction(() => /^compared fit/.test(document.querySelector('#progress-stage')?.textContent ?? ''), null, { timeout: 60000 });
+  await page.click('#cancel');
+  await page.waitForFunction(() => /cancelled/.test(document.querySelector('#status').textContent), null, { timeout: 10000 });
+  assert(await page.textContent('#result-title') === title, 'a cancelled comparison changed the results shown');
+  assert(!(await page.isVisible('#progress')), 'progress still shown after Cancel');
+  await backToDemo(page);
+});
+
 (async () => {
   if (!fs.existsSync(path.join(__dirname, '..', '..', 'dist', 'web', 'preview.html'))) {
     console.error('dist/web is missing: run npm run build first.');

@@ -4,7 +4,9 @@
  * widths (320 and 420 px), for looking at layouts and for the README.
  * Run after `npm run build`: node test/browser/screenshots.js [outdir]
  * Writes pane-<method>-<width>.png to outdir (default dist/screenshots) and
- * assets/screenshots/pane-dates.png (the trend fit of the demo with its date axis, 420 px).
+ * assets/screenshots/pane-dates.png (the trend fit of the demo with its date axis, 420 px) and
+ * assets/screenshots/pane-decomposition.png (the demo taken apart with the season on, 420 px). The automatic choice
+ * is drawn with its runner-up (the default comparison), and trend1-vs-spline compares two picked methods.
  */
 const path = require('path');
 const fs = require('fs');
@@ -26,18 +28,23 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
     page.on('pageerror', (e) => console.error(`page error: ${e}`));
     await page.goto(`${base}/preview.html`);
     await page.waitForSelector('#sheet-table tr');
-    for (const method of ['trend1', 'spline', 'auto', 'breaks-volatility']) {
+    // name-vs-other: the second method drawn for comparison; name@season: a decomposition's season setting
+    for (const shot of ['trend1', 'spline', 'auto', 'breaks-volatility', 'decompose-adaptive', 'decompose-adaptive@on', 'decompose-stl@on', 'trend1-vs-spline']) {
+      const [first, second] = shot.split('-vs-');
+      const [method, season] = first.split('@');
       await page.selectOption('#method', method);
+      if (second) await page.selectOption('#second', second);
+      if (season) await page.selectOption('#season', season);
       await page.click('#run');
       // the fit runs in a worker: wait until the status no longer says it is fitting
       await page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? ''), null, { timeout: 120000 });
       await page.waitForSelector('#results:not([hidden])');
       await page.waitForTimeout(200);
-      const file = path.join(out, `pane-${method}-${width}.png`);
+      const file = path.join(out, `pane-${shot}-${width}.png`);
       await page.locator('#pane').screenshot({ path: file });
       console.log(`wrote ${file}`);
-      if (method === 'trend1' && width === 420) {
-        const readme = path.join(__dirname, '..', '..', 'assets', 'screenshots', 'pane-dates.png');
+      if ((shot === 'trend1' || shot === 'decompose-adaptive@on') && width === 420) {
+        const readme = path.join(__dirname, '..', '..', 'assets', 'screenshots', shot === 'trend1' ? 'pane-dates.png' : 'pane-decomposition.png');
         await page.locator('#pane').screenshot({ path: readme, clip: undefined });
         console.log(`wrote ${readme}`);
       }
