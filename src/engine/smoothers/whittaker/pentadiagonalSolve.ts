@@ -1,0 +1,136 @@
+/**
+ * The order-2 (Hodrick-Prescott) case of Whittaker-Henderson graduation in three
+ * fused passes over the data, with no band matrix assembled first and no allocation
+ * inside the loops. Unchecked.
+ */
+import type { WhittakerInput } from './whittakerInput';
+
+/** Output of {@link pentadiagonalSolve}. */
+export interface PentadiagonalSolution {
+  /** The solution z of (W + lam D'D) z = W y. */
+  fitted: Float64Array;
+  /** h_ii = w_i (A^{-1})_ii, when asked for. */
+  leverage?: Float64Array;
+  /** Sum of the leverages (trace of the hat matrix), when asked for. */
+  df?: number;
+  /** Componentwise backward error, as in whittakerSolve. */
+  residual: number;
+  /** Row (0-based) where a pivot was not positive, or -1. */
+  failedRow: number;
+}
+
+/**
+ * Solves (W + lam D'D) z = W y for second differences D (rows (c0_r, c1_r, c2_r) on
+ * columns r, r+1, r+2; r = 0..n-3), A pentadiagonal, by a Cholesky factorisation
+ * A = L L' (Golub & Van Loan, "Matrix Computations", 4th ed., 4.3.5):
+ *
+ * 1. forward: row i of A is formed from the three rows of D that touch column i
+ *    (A(i, i) = w_i + lam (c2_{i-2}^2 + c1_{i-1}^2 + c0_i^2), A(i, i-1) = lam (c1_{i-2} c2_{i-2}
+ *    + c0_{i-1} c1_{i-1}), A(i, i-2) = lam c0_{i-2} c2_{i-2}), factorised at once
+ *    (L(i, i-2) = A(i, i-2) / L(i-2, i-2), L(i, i-1) = (A(i, i-1) - L(i, i-2) L(i-1, i-2)) / L(i-1, i-1),
+ *    L(i, i) = sqrt(A(i, i) - L(i, i-1)^2 - L(i, i-2)^2)) and the forward substitution
+ *    L u = W y advanced in the same step;
+ * 2. backward: L' z = u, and in the same pass, when asked, the diagonal of A^{-1} from
+ *    the band of the inverse (Takahashi, Fagan & Chin 1973; Hutchinson & de Hoog 1985:
+ *    S(i, i+2) = -(a S(i+1, i+2) + b S(i+2, i+2)) r, S(i, i+1) = -(a S(i+1, i+1) + b S(i+1, i+2)) r,
+ *    S(i, i) = (r - a S(i, i+1) - b S(i, i+2)) r with a = L(i+1, i), b = L(i+2, i), r = 1 / L(i, i));
+ * 3. the componentwise backward error max_i |W y - A z|_i / (|W||z| + lam |D|'|D||z| + |W y|)_i
+ *    recomputed from the rows of D.
+ *
+ * The arithmetic, operation by operation, is that of whittakerBand + bandedCholesky +
+ * bandedCholeskySolve + bandedInverseDiagonal, so the results are the same to the last bit;
+ * it reads and writes each array once per pass instead of assembling and rereading a band.
+ * O(n) time, memory 3n + 2n doubles (the factor, z and the leverages).
+ *
+ * @param inp - checked and scaled input of order 2 (see whittakerInput)
+ * @param lam - penalty on the internal scale, > 0
+ * @param withLeverage - also compute the leverages and their sum
+ * @example
+ * ```ts
+ * const inp = whittakerInput(x, y, null, 2);
+ * const s = pentadiagonalSolve(inp, scaledLambda(inp, 1600), true); // s.fitted, s.df
+ * ```
+ * Unchecked.
+ */
+export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverage: boolean): PentadiagonalSolution {
+  const { n, rows, w, y } = inp;
+  const m = n - 2; // rows of D
+  const l = new Float64Array(3 * n); // [1 / L(i, i), L(i, i-1), L(i, i-2)] per row i
+  const z = new Float64Array(n);
+  // rolling row coefficients of D: rows i-2 (a*), i-1 (b*)
+  let a0 = 0, a1 = 0, a2 = 0, b0 = 0, b1 = 0, b2 = 0;
+  let r1 = 0, r2 = 0, c1 = 0; // 1 / L(i-1, i-1), 1 / L(i-2, i-2), L(i-1, i-2)
+  let u1 = 0, u2 = 0; // forward solution at i-1, i-2
+  for (let i = 0; i < n; i++) {
+    let d0 = 0, d1 = 0, d2 = 0; // row i of D (absent for i >= n - 2)
+    if (i < m) { const o = 3 * i; d0 = rows[o]; d1 = rows[o + 1]; d2 = rows[o + 2]; }
+    // A(i, i), A(i, i-1), A(i, i-2), accumulated in the order whittakerBand adds them
+    let aii = w[i];
+    let ai1 = 0, ai2 = 0;
+    if (i >= 2) { const ls = lam * a2; aii += ls * a2; ai1 += ls * a1; ai2 += ls * a0; }
+    if (i >= 1 && i - 1 < m) { const lq = lam * b1; aii += lq * b1; ai1 += lq * b0; }
+    if (i < m) { const lp = lam * d0; aii += lp * d0; }
+    let l2 = 0, l1 = 0;
+    if (i >= 2) l2 = ai2 * r2;
+    if (i >= 1) l1 = (ai1 - l2 * c1) * r1;
+    const s = aii - l1 * l1 - l2 * l2;
+    if (!(s > 0)) return { fitted: z, residual: Infinity, failedRow: i };
+    const r = 1 / Math.sqrt(s);
+    const o = 3 * i;
+    l[o] = r; l[o + 1] = l1; l[o + 2] = l2;
+    const u = (w[i] * y[i] - l1 * u1 - l2 * u2) * r;
+    z[i] = u;
+    u2 = u1; u1 = u;
+    r2 = r1; r1 = r; c1 = l1;
+    a0 = b0; a1 = b1; a2 = b2; b0 = d0; b1 = d1; b2 = d2;
+  }
+  // backward substitution, with the diagonal of the inverse in the same pass
+  const lev = withLeverage ? new Float64Array(n) : null;
+  let x1 = 0, x2 = 0; // z at i+1, i+2
+  let s11 = 0, s12 = 0, s22 = 0; // S(i+1, i+1), S(i+1, i+2), S(i+2, i+2)
+  let df = 0;
+  for (let i = n - 1; i >= 0; i--) {
+    const r = l[3 * i];
+    const a = i + 1 < n ? l[3 * (i + 1) + 1] : 0; // L(i+1, i)
+    const b = i + 2 < n ? l[3 * (i + 2) + 2] : 0; // L(i+2, i)
+    const xi = (z[i] - a * x1 - b * x2) * r;
+    z[i] = xi;
+    x2 = x1; x1 = xi;
+    if (lev) {
+      const e2 = -(a * s12 + b * s22) * r;
+      const e1 = -(a * s11 + b * s12) * r;
+      const e0 = (r - a * e1 - b * e2) * r;
+      const h = e0 * w[i];
+      lev[i] = h;
+      s22 = s11; s12 = e1; s11 = e0;
+    }
+  }
+  if (lev) for (let i = 0; i < n; i++) df += lev[i]; // summed in row order, as before
+  const out: PentadiagonalSolution = { fitted: z, residual: backwardError2(inp, lam, z), failedRow: -1 };
+  if (lev) { out.leverage = lev; out.df = df; }
+  return out;
+}
+
+/** Componentwise backward error for order 2 in one pass (see pentadiagonalSolve). Unchecked. */
+export function backwardError2(inp: WhittakerInput, lam: number, z: Float64Array): number {
+  const { n, rows, w, y } = inp;
+  let worst = 0;
+  let dzA = 0, adzA = 0, dzB = 0, adzB = 0; // lam (D z) and lam |D||z| of rows i-2 and i-1
+  for (let i = 0; i < n; i++) {
+    let dzC = 0, adzC = 0, c0 = 0;
+    if (i < n - 2) {
+      const o = 3 * i;
+      c0 = rows[o];
+      const t0 = c0 * z[i], t1 = rows[o + 1] * z[i + 1], t2 = rows[o + 2] * z[i + 2];
+      dzC = lam * (t0 + t1 + t2); adzC = lam * (Math.abs(t0) + Math.abs(t1) + Math.abs(t2));
+    }
+    let ri = w[i] * (y[i] - z[i]);
+    let mi = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]);
+    if (i >= 2) { const c = rows[3 * (i - 2) + 2]; ri -= c * dzA; mi += Math.abs(c) * adzA; }
+    if (i >= 1 && i - 1 < n - 2) { const c = rows[3 * (i - 1) + 1]; ri -= c * dzB; mi += Math.abs(c) * adzB; }
+    if (i < n - 2) { ri -= c0 * dzC; mi += Math.abs(c0) * adzC; }
+    if (mi > 0) { const e = Math.abs(ri) / mi; if (e > worst) worst = e; }
+    dzA = dzB; adzA = adzB; dzB = dzC; adzB = adzC;
+  }
+  return worst;
+}
