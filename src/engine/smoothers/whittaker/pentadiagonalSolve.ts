@@ -5,6 +5,16 @@
  */
 import type { WhittakerInput } from './whittakerInput';
 
+/** Arrays a caller may pass to {@link pentadiagonalSolve} to be reused across solves of one length n. */
+export interface PentadiagonalWork {
+  /** The factor, length 3n. */
+  l: Float64Array;
+  /** The solution, length n (returned as `fitted`: copy it before the next solve if it is kept). */
+  z: Float64Array;
+  /** The leverages, length n. */
+  lev: Float64Array;
+}
+
 /** Output of {@link pentadiagonalSolve}. */
 export interface PentadiagonalSolution {
   /** The solution z of (W + lam D'D) z = W y. */
@@ -45,6 +55,9 @@ export interface PentadiagonalSolution {
  * @param inp - checked and scaled input of order 2 (see whittakerInput)
  * @param lam - penalty on the internal scale, > 0
  * @param withLeverage - also compute the leverages and their sum
+ * @param work - arrays to reuse (a search over lambda solves many times at one n); absent: fresh arrays
+ * @param withResidual - also compute the backward error (default true; a search that reads only
+ *   the fit and df can leave it out, `residual` is then NaN)
  * @example
  * ```ts
  * const inp = whittakerInput(x, y, null, 2);
@@ -52,11 +65,11 @@ export interface PentadiagonalSolution {
  * ```
  * Unchecked.
  */
-export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverage: boolean): PentadiagonalSolution {
+export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverage: boolean, work?: PentadiagonalWork, withResidual = true): PentadiagonalSolution {
   const { n, rows, w, y } = inp;
   const m = n - 2; // rows of D
-  const l = new Float64Array(3 * n); // [1 / L(i, i), L(i, i-1), L(i, i-2)] per row i
-  const z = new Float64Array(n);
+  const l = work ? work.l : new Float64Array(3 * n); // [1 / L(i, i), L(i, i-1), L(i, i-2)] per row i
+  const z = work ? work.z : new Float64Array(n);
   // rolling row coefficients of D: rows i-2 (a*), i-1 (b*)
   let a0 = 0, a1 = 0, a2 = 0, b0 = 0, b1 = 0, b2 = 0;
   let r1 = 0, r2 = 0, c1 = 0; // 1 / L(i-1, i-1), 1 / L(i-2, i-2), L(i-1, i-2)
@@ -85,7 +98,7 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
     a0 = b0; a1 = b1; a2 = b2; b0 = d0; b1 = d1; b2 = d2;
   }
   // backward substitution, with the diagonal of the inverse in the same pass
-  const lev = withLeverage ? new Float64Array(n) : null;
+  const lev = withLeverage ? (work ? work.lev : new Float64Array(n)) : null;
   let x1 = 0, x2 = 0; // z at i+1, i+2
   let s11 = 0, s12 = 0, s22 = 0; // S(i+1, i+1), S(i+1, i+2), S(i+2, i+2)
   let df = 0;
@@ -106,7 +119,7 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
     }
   }
   if (lev) for (let i = 0; i < n; i++) df += lev[i]; // summed in row order, as before
-  const out: PentadiagonalSolution = { fitted: z, residual: backwardError2(inp, lam, z), failedRow: -1 };
+  const out: PentadiagonalSolution = { fitted: z, residual: withResidual ? backwardError2(inp, lam, z) : NaN, failedRow: -1 };
   if (lev) { out.leverage = lev; out.df = df; }
   return out;
 }

@@ -7,7 +7,7 @@ import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky
 import { KnotwiseError, showNumber } from '../../errors';
 import { bandedInverseDiagonal } from './bandedInverseBand';
 import type { WhittakerInput } from './whittakerInput';
-import { backwardError2, pentadiagonalSolve } from './pentadiagonalSolve';
+import { backwardError2, pentadiagonalSolve, type PentadiagonalWork } from './pentadiagonalSolve';
 
 export interface WhittakerSolution {
   fitted: Float64Array;
@@ -47,12 +47,16 @@ export function whittakerBand(inp: WhittakerInput, lam: number): Float64Array {
   return a;
 }
 
-/** Solves the system, optionally with the leverages from the band of the inverse. Unchecked. */
-export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: boolean): WhittakerSolution {
+/**
+ * Solves the system, optionally with the leverages from the band of the inverse.
+ * `work` (order 2 only) lends arrays reused across solves, and `withResidual` false skips the
+ * backward error (then NaN), for searches over lambda that read only the fit and df. Unchecked.
+ */
+export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: boolean, work?: PentadiagonalWork, withResidual = true): WhittakerSolution {
   const { n, order: d, w, y } = inp;
   if (d === 2) {
     // the Hodrick-Prescott case: fused passes, no band assembled first
-    const s = pentadiagonalSolve(inp, lam, withLeverage);
+    const s = pentadiagonalSolve(inp, lam, withLeverage, work, withResidual);
     if (s.failedRow >= 0) notPositiveDefinite(s.failedRow, lam);
     const out: WhittakerSolution = { fitted: s.fitted, residual: s.residual };
     if (withLeverage) { out.leverage = s.leverage; out.df = s.df; }
