@@ -6,7 +6,8 @@
  * period 7, since a series without dates has no season for it to find).
  *
  * For each method, the median over the repeats of:
- * - the outcome: finished, refused (with its one-line message) or stopped by the bench's time limit;
+ * - the outcome: finished, refused (with its one-line message), stopped by the bench's time limit
+ *   (120 s), or failed (any other exit);
  * - the wall time of the whole process (start of node to exit), the engine's own time and the
  *   time reading the file (from the command line's --timing line);
  * - the CPU time of the process (user + system, from /usr/bin/time when installed) and its peak
@@ -69,7 +70,7 @@ function median(v: number[]): number {
   return a.length % 2 ? a[(a.length - 1) >> 1] : 0.5 * (a[a.length / 2 - 1] + a[a.length / 2]);
 }
 
-interface Run { outcome: 'finished' | 'refused' | 'stopped'; message?: string; wallS: number; engineS: number; readS: number; cpuS: number; peakMb: number }
+interface Run { outcome: 'finished' | 'refused' | 'stopped' | 'failed'; message?: string; wallS: number; engineS: number; readS: number; cpuS: number; peakMb: number }
 
 function runOnce(file: string, outFile: string, c: Case, haveTime: boolean): Run {
   const cli = [path.join(ROOT, 'bin/knotwise.js'), ...c.args, file, '--x', 'x', '--json', '--out', outFile, '--force', '--timing'];
@@ -91,9 +92,13 @@ function runOnce(file: string, outFile: string, c: Case, haveTime: boolean): Run
   }
   const engine = /engine ([\d +]+) ms/.exec(timing);
   const run: Run = {
-    outcome: r.status === 0 ? 'finished' : r.status === 1 && timing.endsWith('(refused)') ? 'refused' : 'stopped',
+    // 137: killed by timeout -s KILL at the bench's limit
+    outcome: r.status === 0 ? 'finished' : r.status === 1 && timing.endsWith('(refused)') ? 'refused' : r.status === 137 ? 'stopped' : 'failed',
     wallS, engineS: engine ? engine[1].split('+').reduce((s, v) => s + Number(v), 0) / 1000 : NaN, readS: num(/read (\d+) ms/) / 1000, cpuS, peakMb,
   };
+  if (run.outcome === 'stopped') run.message = `stopped by the bench after ${HARD_LIMIT_S} s`;
+  // a run stopped at the limit reports no usable CPU time or peak (the kill skips the accounting)
+  if (run.outcome === 'stopped') { run.cpuS = NaN; run.peakMb = NaN; }
   if (run.outcome !== 'finished') run.message = err.find((l) => !l.startsWith('knotwise timing:')) ?? (r.error ? String(r.error.message) : `exit ${r.status} signal ${r.signal}`);
   return run;
 }
@@ -127,7 +132,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
         outcome: outcomes.join('/'), ...(runs[0].message ? { message: runs[0].message } : {}),
         wall_s: round(wall), engine_s: round(median(runs.map((r) => r.engineS))), read_s: round(median(runs.map((r) => r.readS))),
         cpu_s: round(median(runs.map((r) => r.cpuS))), peak_mb: round(median(runs.map((r) => r.peakMb)), 0),
-        within_30s: !outcomes.includes('stopped') && wall <= 30,
+        within_30s: outcomes.every((o) => o === 'finished' || o === 'refused') && wall <= 30,
         repeats: runs.length, load_average: round(load, 1),
       });
     }
