@@ -59,10 +59,12 @@ describe('bandedInverseBand', () => {
 });
 
 describe('pentadiagonalSolve (order 2 in fused passes)', () => {
-  test('gives the banded path\'s solution and leverages bit for bit, with zero weights and uneven x, reused arrays included', () => {
-    const { x, y, w } = unevenSeries(500, 5);
+  test.each(['uneven', 'equally spaced'])('gives the banded path\'s solution and leverages bit for bit (%s x, zero weights, reused arrays)', (spacing) => {
+    const { x: ux, y, w } = unevenSeries(500, 5);
+    const x = spacing === 'uneven' ? ux : Float64Array.from(ux, (_, i) => 3 + 2 * i);
     for (let i = 40; i < 60; i++) w[i] = 0; // a gap filled in by the penalty
     const inp = whittakerInput(x, y, w, 2);
+    expect(inp.spacing === null).toBe(spacing !== 'uneven'); // equal spacing: rows (1, -2, 1), no array
     const lam = scaledLambda(inp, 300);
     // the banded path: assemble the band, factor, solve, band of the inverse
     const band = whittakerBand(inp, lam);

@@ -52,7 +52,7 @@ export interface PentadiagonalSolution {
  * it reads and writes each array once per pass instead of assembling and rereading a band.
  * O(n) time, memory 3n + 2n doubles (the factor, z and the leverages).
  *
- * @param inp - checked and scaled input of order 2 (see whittakerInput)
+ * @param inp - checked and scaled input of order 2 (see whittakerInput); D is read from its spacings, its rows are not built
  * @param lam - penalty on the internal scale, > 0
  * @param withLeverage - also compute the leverages and their sum
  * @param work - arrays to reuse (a search over lambda solves many times at one n); absent: fresh arrays
@@ -66,7 +66,7 @@ export interface PentadiagonalSolution {
  * Unchecked.
  */
 export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverage: boolean, work?: PentadiagonalWork, withResidual = true): PentadiagonalSolution {
-  const { n, rows, w, y } = inp;
+  const { n, spacing: sp, w, y } = inp;
   const m = n - 2; // rows of D
   const l = work ? work.l : new Float64Array(3 * n); // [1 / L(i, i), L(i, i-1), L(i, i-2)] per row i
   const z = work ? work.z : new Float64Array(n);
@@ -76,7 +76,10 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
   let u1 = 0, u2 = 0; // forward solution at i-1, i-2
   for (let i = 0; i < n; i++) {
     let d0 = 0, d1 = 0, d2 = 0; // row i of D (absent for i >= n - 2)
-    if (i < m) { const o = 3 * i; d0 = rows[o]; d1 = rows[o + 1]; d2 = rows[o + 2]; }
+    if (i < m) {
+      // row i of D from the spacings, as whittakerInput's rows are built (equal spacing: 1, -2, 1)
+      if (sp) { d0 = sp[i]; d2 = sp[i + 1]; d1 = -(d0 + d2); } else { d0 = 1; d1 = -2; d2 = 1; }
+    }
     // A(i, i), A(i, i-1), A(i, i-2), accumulated in the order whittakerBand adds them
     let aii = w[i];
     let ai1 = 0, ai2 = 0;
@@ -126,24 +129,26 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
 
 /** Componentwise backward error for order 2 in one pass (see pentadiagonalSolve). Unchecked. */
 export function backwardError2(inp: WhittakerInput, lam: number, z: Float64Array): number {
-  const { n, rows, w, y } = inp;
+  const { n, spacing: sp, w, y } = inp;
   let worst = 0;
   let dzA = 0, adzA = 0, dzB = 0, adzB = 0; // lam (D z) and lam |D||z| of rows i-2 and i-1
+  let cA = 0, cB = 0, c2Prev = 0; // c2 of row i-2 and c1 of row i-1 (the entries of those rows in column i); c2 of row i-1
   for (let i = 0; i < n; i++) {
-    let dzC = 0, adzC = 0, c0 = 0;
+    let dzC = 0, adzC = 0, c0 = 0, c1 = 0, c2 = 0;
     if (i < n - 2) {
-      const o = 3 * i;
-      c0 = rows[o];
-      const t0 = c0 * z[i], t1 = rows[o + 1] * z[i + 1], t2 = rows[o + 2] * z[i + 2];
+      if (sp) { c0 = sp[i]; c2 = sp[i + 1]; c1 = -(c0 + c2); } else { c0 = 1; c1 = -2; c2 = 1; }
+      const t0 = c0 * z[i], t1 = c1 * z[i + 1], t2 = c2 * z[i + 2];
       dzC = lam * (t0 + t1 + t2); adzC = lam * (Math.abs(t0) + Math.abs(t1) + Math.abs(t2));
     }
     let ri = w[i] * (y[i] - z[i]);
     let mi = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]);
-    if (i >= 2) { const c = rows[3 * (i - 2) + 2]; ri -= c * dzA; mi += Math.abs(c) * adzA; }
-    if (i >= 1 && i - 1 < n - 2) { const c = rows[3 * (i - 1) + 1]; ri -= c * dzB; mi += Math.abs(c) * adzB; }
+    if (i >= 2) { ri -= cA * dzA; mi += Math.abs(cA) * adzA; }
+    if (i >= 1 && i - 1 < n - 2) { ri -= cB * dzB; mi += Math.abs(cB) * adzB; }
     if (i < n - 2) { ri -= c0 * dzC; mi += Math.abs(c0) * adzC; }
     if (mi > 0) { const e = Math.abs(ri) / mi; if (e > worst) worst = e; }
     dzA = dzB; adzA = adzB; dzB = dzC; adzB = adzC;
+    cA = c2Prev; c2Prev = c2; cB = c1; // for row i + 1: c2 of row i - 1, c1 of row i
+
   }
   return worst;
 }
