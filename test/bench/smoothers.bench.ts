@@ -12,6 +12,7 @@
  *   loess with its default kd-tree vertex interpolation (surface = "interpolate"; timed with its
  *   default exact trace of the smoother matrix, as ours, and with trace.hat = "approximate"), and our
  *   exact fit beside R's surface = "direct" up to 1e4.
+ * KNOTWISE_BENCH_SMOOTHERS=whittaker,wavelet,loess selects parts (default all).
  * The machine is shared and has 2 cores: figures are noisy, so medians and minima of the
  * repeats are both printed; ratios are ours / theirs (speedups theirs / ours).
  */
@@ -82,20 +83,25 @@ def tmed(f, r):
 `;
 
 export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+  // KNOTWISE_BENCH_SMOOTHERS=whittaker (or wavelet, loess; comma-separated) runs only those parts
+  const parts = process.env.KNOTWISE_BENCH_SMOOTHERS?.split(',').map((p) => p.trim());
+  const part = (name: string) => !parts || parts.includes(name);
   const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'knotwise-bench-smoothers-'));
   const havePy = has('/usr/bin/python3', ['-c', 'import statsmodels, pywt']);
   const haveR = has('Rscript', ['--version']);
   try {
     // Whittaker / Hodrick-Prescott
-    for (const n of quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]) {
+    for (const n of !part('whittaker') ? [] : quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]) {
       const z = normalStream(n + 1);
       const x = Float64Array.from({ length: n }, (_, i) => i + 1);
       let level = 0;
       const y = Float64Array.from(x, () => (level += 0.01 + 0.05 * z()) + 0.3 * z());
+      // statsmodels takes seconds per fit at 1e6, so it is repeated less often than ours
       const repeats = n >= 1e6 ? 3 : n >= 1e5 ? 7 : 21;
-      const fit = timeMedian(() => whittakerFit(x, y, null, 1600, 2), repeats);
-      const one = timeMedian(() => whittakerOneSided(x, y, null, 1600, 2), repeats);
-      const rec: Record<string, unknown> = { bench: 'smoothers', method: 'whittaker-hp', n, lambda: 1600, ms: fit.ms, min_ms: fit.minMs, cpu_ms: fit.cpuMs, df: Number(fit.value.df.toFixed(3)), one_sided_ms: one.ms };
+      const ours = n >= 1e6 ? 9 : repeats;
+      const fit = timeMedian(() => whittakerFit(x, y, null, 1600, 2), ours);
+      const one = timeMedian(() => whittakerOneSided(x, y, null, 1600, 2), ours);
+      const rec: Record<string, unknown> = { bench: 'smoothers', method: 'whittaker-hp', n, lambda: 1600, repeats: ours, statsmodels_repeats: repeats, ms: fit.ms, min_ms: fit.minMs, cpu_ms: fit.cpuMs, df: Number(fit.value.df.toFixed(3)), one_sided_ms: one.ms };
       if (havePy) {
         const f = writeBin(dir, 'hp.bin', y);
         const out = python(`${pyTimer}
@@ -124,7 +130,7 @@ t.astype('<f8').tofile('${f}.trend')
     }
 
     // Wavelet shrinkage
-    for (const n of quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]) {
+    for (const n of !part('wavelet') ? [] : quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]) {
       const z = normalStream(n + 2);
       const y = Float64Array.from({ length: n }, (_, i) => { const t = (i + 0.5) / n; return 7 * Math.sqrt(t * (1 - t)) * Math.sin((2 * Math.PI * 1.05) / (t + 0.05)) / 0.29 + z(); });
       const repeats = n >= 1e6 ? 5 : n >= 1e5 ? 9 : 21;
@@ -158,7 +164,7 @@ print(tmed(shrink, ${repeats}))
     }
 
     // LOESS
-    for (const n of quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]) {
+    for (const n of !part('loess') ? [] : quick ? [1e3, 1e4] : [1e3, 1e4, 1e5, 1e6]) {
       const u = mulberry32(n + 3), z = normalStream(n + 4);
       const x = Float64Array.from({ length: n }, () => 10 * u()).sort();
       const y = Float64Array.from(x, (v) => Math.sin(v) + 0.3 * z());

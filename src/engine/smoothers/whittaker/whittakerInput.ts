@@ -67,7 +67,7 @@ export function whittakerInput(x: ArrayLike<number>, y: ArrayLike<number>, w: Ar
   }
   const h = scale ? (xs[n - 1] - xs[0]) / (n - 1) : 1;
   const wScale = scale ? wSum / n : 1;
-  for (let i = 0; i < n; i++) ws[i] /= wScale;
+  if (wScale !== 1) for (let i = 0; i < n; i++) ws[i] /= wScale;
   let spacing: Float64Array | null = null;
   if (order === 2) {
     let uniform = true;
