@@ -40,12 +40,13 @@ export interface PentadiagonalSolution {
  *    (L(i, i-2) = A(i, i-2) / L(i-2, i-2), L(i, i-1) = (A(i, i-1) - L(i, i-2) L(i-1, i-2)) / L(i-1, i-1),
  *    L(i, i) = sqrt(A(i, i) - L(i, i-1)^2 - L(i, i-2)^2)) and the forward substitution
  *    L u = W y advanced in the same step;
- * 2. backward: L' z = u, and in the same pass, when asked, the diagonal of A^{-1} from
+ * 2. backward: L' z = u, and in the same pass the backward error (step 3) and, when asked, the diagonal of A^{-1} from
  *    the band of the inverse (Takahashi, Fagan & Chin 1973; Hutchinson & de Hoog 1985:
  *    S(i, i+2) = -(a S(i+1, i+2) + b S(i+2, i+2)) r, S(i, i+1) = -(a S(i+1, i+1) + b S(i+1, i+2)) r,
  *    S(i, i) = (r - a S(i, i+1) - b S(i, i+2)) r with a = L(i+1, i), b = L(i+2, i), r = 1 / L(i, i));
  * 3. the componentwise backward error max_i |W y - A z|_i / (|W||z| + lam |D|'|D||z| + |W y|)_i
- *    recomputed from the rows of D.
+ *    recomputed from the rows of D (residual i + 2 as soon as z_i is known; the same arithmetic
+ *    as {@link backwardError2}).
  *
  * The arithmetic, operation by operation, is that of whittakerBand + bandedCholesky +
  * bandedCholeskySolve + bandedInverseDiagonal, so the results are the same to the last bit;
@@ -100,17 +101,39 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
     r2 = r1; r1 = r; c1 = l1;
     a0 = b0; a1 = b1; a2 = b2; b0 = d0; b1 = d1; b2 = d2;
   }
-  // backward substitution, with the diagonal of the inverse in the same pass
+  // backward substitution, with the diagonal of the inverse and the backward error in the same pass
   const lev = withLeverage ? (work ? work.lev : new Float64Array(n)) : null;
   let x1 = 0, x2 = 0; // z at i+1, i+2
   let s11 = 0, s12 = 0, s22 = 0; // S(i+1, i+1), S(i+1, i+2), S(i+2, i+2)
   let df = 0;
+  // backward error, as in backwardError2: residual j = i + 2 is complete once z_i is known;
+  // lam (D z) and lam |D||z| of rows i+1 (P) and i+2 (PP), c0 and c1 of row i+1, c0 of row i+2
+  let worst = 0, dzP = 0, adzP = 0, dzPP = 0, adzPP = 0, c0P = 0, c1P = 0, c0PP = 0;
   for (let i = n - 1; i >= 0; i--) {
     const r = l[3 * i];
     const a = i + 1 < n ? l[3 * (i + 1) + 1] : 0; // L(i+1, i)
     const b = i + 2 < n ? l[3 * (i + 2) + 2] : 0; // L(i+2, i)
     const xi = (z[i] - a * x1 - b * x2) * r;
     z[i] = xi;
+    if (withResidual) {
+      let dzI = 0, adzI = 0, c0 = 0, c1 = 0, c2 = 0;
+      if (i < m) {
+        if (sp) { c0 = sp[i]; c2 = sp[i + 1]; c1 = -(c0 + c2); } else { c0 = 1; c1 = -2; c2 = 1; }
+        const t0 = c0 * xi, t1 = c1 * x1, t2 = c2 * x2;
+        dzI = lam * (t0 + t1 + t2); adzI = lam * (Math.abs(t0) + Math.abs(t1) + Math.abs(t2));
+      }
+      const j = i + 2;
+      if (j < n) {
+        // rows j-2 = i, j-1 and j touch column j
+        let rj = w[j] * (y[j] - x2);
+        let mj = Math.abs(w[j] * y[j]) + Math.abs(w[j] * x2);
+        rj -= c2 * dzI; mj += Math.abs(c2) * adzI;
+        if (j - 1 < m) { rj -= c1P * dzP; mj += Math.abs(c1P) * adzP; }
+        if (j < m) { rj -= c0PP * dzPP; mj += Math.abs(c0PP) * adzPP; }
+        if (mj > 0) { const e = Math.abs(rj) / mj; if (e > worst) worst = e; }
+      }
+      dzPP = dzP; adzPP = adzP; dzP = dzI; adzP = adzI; c0PP = c0P; c0P = c0; c1P = c1;
+    }
     x2 = x1; x1 = xi;
     if (lev) {
       const e2 = -(a * s12 + b * s22) * r;
@@ -121,8 +144,22 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
       s22 = s11; s12 = e1; s11 = e0;
     }
   }
+  if (withResidual) {
+    // the first two columns (rows 0 and 1 of D are now P and PP); x1 = z_0, x2 = z_1
+    if (n > 1) {
+      let r1 = w[1] * (y[1] - x2);
+      let m1 = Math.abs(w[1] * y[1]) + Math.abs(w[1] * x2);
+      if (0 < m) { r1 -= c1P * dzP; m1 += Math.abs(c1P) * adzP; }
+      if (1 < m) { r1 -= c0PP * dzPP; m1 += Math.abs(c0PP) * adzPP; }
+      if (m1 > 0) { const e = Math.abs(r1) / m1; if (e > worst) worst = e; }
+    }
+    let r0 = w[0] * (y[0] - x1);
+    let m0 = Math.abs(w[0] * y[0]) + Math.abs(w[0] * x1);
+    if (0 < m) { r0 -= c0P * dzP; m0 += Math.abs(c0P) * adzP; }
+    if (m0 > 0) { const e = Math.abs(r0) / m0; if (e > worst) worst = e; }
+  }
   if (lev) for (let i = 0; i < n; i++) df += lev[i]; // summed in row order, as before
-  const out: PentadiagonalSolution = { fitted: z, residual: withResidual ? backwardError2(inp, lam, z) : NaN, failedRow: -1 };
+  const out: PentadiagonalSolution = { fitted: z, residual: withResidual ? worst : NaN, failedRow: -1 };
   if (lev) { out.leverage = lev; out.df = df; }
   return out;
 }
