@@ -1,5 +1,5 @@
 /**
- * The order-2 (Hodrick-Prescott) case of Whittaker-Henderson graduation in three
+ * The order-2 (Hodrick-Prescott) case of Whittaker-Henderson graduation in two
  * fused passes over the data, with no band matrix assembled first and no allocation
  * inside the loops. Unchecked.
  */
