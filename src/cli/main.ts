@@ -26,6 +26,19 @@ export interface CliIO {
 
 const fail = (m: string): never => { throw new CliError(m); };
 
+/** Milliseconds the engine took in this thread's last analysis (for --timing). */
+let lastEngineMs: number | null = null;
+
+/** runAnalysis, timed for --timing (also when it refuses). */
+function analyse(request: Parameters<typeof runAnalysis>[0]): AnalysisResult {
+  const t0 = Date.now();
+  try {
+    return runAnalysis(request);
+  } finally {
+    lastEngineMs = Date.now() - t0;
+  }
+}
+
 function one(p: Parsed, flag: string): string | undefined {
   return p.values.get(flag)?.[0];
 }
@@ -119,7 +132,7 @@ function declaredOptions(p: Parsed, spec: CommandSpec): Record<string, unknown> 
 }
 
 function fitOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null, evalX: number[] | null): Record<string, unknown> {
-  const result = runAnalysis({ analysis: one(p, '--method') ?? 'spline', family: 'smoother', y, x, w, options: declaredOptions(p, spec) });
+  const result = analyse({ analysis: one(p, '--method') ?? 'spline', family: 'smoother', y, x, w, options: declaredOptions(p, spec) });
   const { series } = result;
   const fit = result.smooth!;
   const out: Record<string, unknown> = {
@@ -161,7 +174,7 @@ function readEval(io: CliIO, path: string): number[] {
 }
 
 function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null): Record<string, unknown> {
-  const result: AnalysisResult = runAnalysis({ analysis: one(p, '--model') ?? 'level', family: 'changepoints', y, x, w, options: declaredOptions(p, spec) });
+  const result: AnalysisResult = analyse({ analysis: one(p, '--model') ?? 'level', family: 'changepoints', y, x, w, options: declaredOptions(p, spec) });
   const { series } = result;
   const b = result.breaks!;
   const seg = (s: typeof b.segments[number]) => {
@@ -184,7 +197,7 @@ function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cel
 }
 
 function decomposeOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null): Record<string, unknown> {
-  const result: AnalysisResult = runAnalysis({ analysis: 'decompose', family: 'decomposition', y, x, w, options: declaredOptions(p, spec) });
+  const result: AnalysisResult = analyse({ analysis: 'decompose', family: 'decomposition', y, x, w, options: declaredOptions(p, spec) });
   const { series } = result;
   const d = result.decomposition!;
   const c = d.components;
@@ -306,8 +319,19 @@ export interface ColumnJob {
 /** Runs one column's analysis and shapes its output record. */
 export function runColumn(j: ColumnJob): Record<string, unknown> {
   const spec = commands().find((c) => c.name === j.command)!;
-  if (j.command === 'fit') return fitOne(j.parsed, spec, j.name, j.y, j.x, j.w, j.evalX);
-  return j.command === 'breaks' ? breaksOne(j.parsed, spec, j.name, j.y, j.x, j.w) : decomposeOne(j.parsed, spec, j.name, j.y, j.x, j.w);
+  const record = j.command === 'fit' ? fitOne(j.parsed, spec, j.name, j.y, j.x, j.w, j.evalX)
+    : j.command === 'breaks' ? breaksOne(j.parsed, spec, j.name, j.y, j.x, j.w) : decomposeOne(j.parsed, spec, j.name, j.y, j.x, j.w);
+  // --timing: the engine's time travels with the record (also from a worker thread) and is taken off before printing
+  if (j.parsed.switches.has('--timing')) record[ENGINE_MS] = lastEngineMs ?? 0;
+  return record;
+}
+
+const ENGINE_MS = 'engineMsForTiming';
+
+/** The --timing line: phases in ms and the process's peak resident memory (MB), on stderr. */
+function timingLine(readMs: number, engineMs: (number | string)[], writeMs: number | null, outcome: string): string {
+  const rss = typeof process !== 'undefined' && process.resourceUsage ? Math.round(process.resourceUsage().maxRSS / 1024) : NaN;
+  return `knotwise timing: read ${readMs} ms, engine ${engineMs.join(' + ')} ms, write ${writeMs ?? '-'} ms, peak memory ${rss} MB (${outcome})`;
 }
 
 interface Plan {
@@ -382,13 +406,32 @@ function report(io: CliIO, e: unknown): number {
 
 /** Runs the command line on a CSV file; returns the exit code (0 done, 1 data or option refused, 2 usage). */
 export function runCli(argv: string[], io: CliIO): number {
+  const t0 = Date.now();
+  let readMs = -1;
   try {
     const plan = prepare(argv, io);
     if (typeof plan === 'number') return plan;
-    return print(io, plan, plan.jobs.map(runColumn));
+    readMs = Date.now() - t0;
+    return finish(io, plan, plan.jobs.map(runColumn), readMs);
   } catch (e) {
-    return report(io, e);
+    return refused(io, e, argv, readMs);
   }
+}
+
+/** Prints the results (and with --timing the timing line). */
+function finish(io: CliIO, plan: Plan, computed: Record<string, unknown>[], readMs: number): number {
+  const engineMs = computed.map((r) => { const ms = r[ENGINE_MS] as number; delete r[ENGINE_MS]; return ms; });
+  const t1 = Date.now();
+  const code = print(io, plan, computed);
+  if (plan.p.switches.has('--timing')) io.err(timingLine(readMs, engineMs, Date.now() - t1, 'done'));
+  return code;
+}
+
+/** Reports a refusal (and with --timing, once the file was read, the timing line). */
+function refused(io: CliIO, e: unknown, argv: string[], readMs: number): number {
+  const code = report(io, e);
+  if (argv.includes('--timing') && readMs >= 0) io.err(timingLine(readMs, [lastEngineMs ?? '-'], null, 'refused'));
+  return code;
 }
 
 /**
@@ -399,11 +442,14 @@ export function runCli(argv: string[], io: CliIO): number {
  * column in order.
  */
 export async function runCliWith(argv: string[], io: CliIO, runColumns: (jobs: ColumnJob[]) => Promise<Record<string, unknown>[]>): Promise<number> {
+  const t0 = Date.now();
+  let readMs = -1;
   try {
     const plan = await prepareAsync(argv, io);
     if (typeof plan === 'number') return plan;
-    return print(io, plan, await runColumns(plan.jobs));
+    readMs = Date.now() - t0;
+    return finish(io, plan, await runColumns(plan.jobs), readMs);
   } catch (e) {
-    return report(io, e);
+    return refused(io, e, argv, readMs);
   }
 }

@@ -35,6 +35,7 @@ const common: OptionSpec[] = [
   { flag: '--json', help: 'print JSON (one object, or an array for several --y) instead of a text summary' },
   { flag: '--out', value: 'FILE', help: 'write the output (JSON or text) to FILE instead of the screen; an existing FILE is never replaced without --force' },
   { flag: '--force', help: 'with --out: replace FILE if it exists' },
+  { flag: '--timing', help: 'print one line of times to stderr: reading the file, the engine (per column), writing, in ms, and the peak memory in MB' },
 ];
 
 function valueName(d: OptionDeclaration): string {

@@ -42,6 +42,21 @@ describe('knotwise fit', () => {
     expect(o[0].df).toBeCloseTo(6, 5);
   });
 
+  test('--timing prints one stderr line of phase times and peak memory, and leaves the JSON unchanged', () => {
+    const plain = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--json'], plain.host)).toBe(0);
+    const { host, out, err } = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--json', '--timing'], host)).toBe(0);
+    expect(out.join('')).toBe(plain.out.join(''));
+    expect(err).toHaveLength(1);
+    expect(err[0]).toMatch(/^knotwise timing: read \d+ ms, engine \d+ ms, write \d+ ms, peak memory \d+ MB \(done\)$/);
+    // a refusal still reports the time up to it, after the one-line message
+    const r = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--method', 'whittaker', '--order', '9', '--timing'], r.host)).toBe(1);
+    expect(r.err).toHaveLength(2);
+    expect(r.err[1]).toMatch(/^knotwise timing: read \d+ ms, engine \d+ ms, write - ms, peak memory \d+ MB \(refused\)$/);
+  });
+
   test('--eval adds values at new x flagged when extrapolated', () => {
     const { host, out } = io({ 'd.csv': demo, 'new.csv': 'x\n45000\n46200\n' });
     expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--eval', 'new.csv', '--json'], host)).toBe(0);

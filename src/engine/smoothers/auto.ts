@@ -50,15 +50,28 @@ const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
 const round = (v: number) => Number(v.toPrecision(3));
 
 /**
+ * Longest series the automatic choice compares methods on. Every candidate chooses its
+ * penalty by cross-validation, and trend filtering's cross-validation dominates: about
+ * 13 s of CPU time for all candidates at 5,000 and at 10,000 points, and 36 s at 16,384,
+ * on a 2-core machine (`npm run bench`, fullcolumn), so beyond this length the choice is
+ * refused at once with what to do instead, rather than left running for minutes.
+ */
+export const AUTO_LIMIT = 10000;
+
+/**
  * Runs every candidate and picks one.
  *
  * @param series - clean series (ties merged)
  * @param options - resolved: `rule` 'cv-simpler' (default) or 'cv'; `folds` (default 5)
  * @param context - progress: one part per candidate
  * @returns the winner's fit (its `smooth`, `criterion`, warnings) with `comparison`
- * @throws {@link KnotwiseError} `too-few-points` when no candidate can be cross-validated
+ * @throws {@link KnotwiseError} `too-few-points` when no candidate can be cross-validated;
+ *   `bad-data` when the series is longer than {@link AUTO_LIMIT}
  */
 export function chooseSmoother(series: Series, options: ResolvedOptions, context: RunContext): AnalysisCore {
+  if (series.n > AUTO_LIMIT) {
+    throw new KnotwiseError('bad-data', `the automatic choice compares every method by cross-validation on at most ${AUTO_LIMIT.toLocaleString('en-US')} points; this series has ${series.n.toLocaleString('en-US')}, which would take minutes. Choose a method yourself (spline, whittaker, loess and wavelet fit a full column in seconds; trend with a penalty), or compare on a shorter range of rows.`);
+  }
   const folds = options.folds as number;
   const rule = options.rule as string;
   const variants = analysisDefinitions('smoother').flatMap((def) => (def.autoVariants ?? []).map((v) => ({ def, v })));

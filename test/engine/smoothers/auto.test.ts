@@ -5,6 +5,7 @@
  * is within one standard error of the best candidate's.
  */
 import { runAnalysis, evaluateAnalysis, analysisDefinitions } from '../../../src/engine';
+import { AUTO_LIMIT } from '../../../src/engine/smoothers/auto';
 import { normalStream } from '../../helpers/random';
 
 function series(f: (t: number) => number, n: number, sd: number, seed: number) {
@@ -14,6 +15,22 @@ function series(f: (t: number) => number, n: number, sd: number, seed: number) {
 }
 
 describe('auto', () => {
+  test('a series longer than the limit is refused at once, saying what to do instead', () => {
+    const { x, y } = series((t) => Math.sin(t / 500), AUTO_LIMIT + 1, 0.3, 3);
+    // at once: no candidate is run before the refusal
+    const spies = analysisDefinitions('smoother').filter((d) => d.name !== 'auto').map((d) => jest.spyOn(d, 'run'));
+    try {
+      expect(() => runAnalysis({ analysis: 'auto', y, x })).toThrow(/automatic choice .* at most 10,000 points; this series has 10,001.*Choose a method yourself \(spline, whittaker/);
+      for (const s of spies) expect(s).not.toHaveBeenCalled();
+      // the check is live: the same spies see candidates run on a short series
+      runAnalysis({ analysis: 'auto', y: y.slice(0, 60), x: x.slice(0, 60) });
+      expect(spies.some((s) => s.mock.calls.length > 0)).toBe(true);
+    } finally {
+      for (const s of spies) s.mockRestore();
+    }
+  });
+
+
   test('auto on a straight line with noise picks a fit of at most 3 df', () => {
     const { x, y } = series((t) => 2 + 0.05 * t, 200, 1, 5);
     const r = runAnalysis({ analysis: 'auto', y, x });

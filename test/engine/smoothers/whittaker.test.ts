@@ -10,7 +10,11 @@ import { whittakerGcv } from '../../../src/engine/smoothers/whittaker/whittakerG
 import { whittakerOneSided } from '../../../src/engine/smoothers/whittaker/whittakerOneSided';
 import { hodrickPrescottLambda } from '../../../src/engine/smoothers/whittaker/hodrickPrescottLambda';
 import { bandedInverseBand } from '../../../src/engine/smoothers/whittaker/bandedInverseBand';
-import { bandedCholesky } from '../../../src/engine/linalg/bandedCholesky';
+import { bandedCholesky, bandedCholeskySolve } from '../../../src/engine/linalg/bandedCholesky';
+import { backwardError2, pentadiagonalSolve } from '../../../src/engine/smoothers/whittaker/pentadiagonalSolve';
+import { whittakerBand } from '../../../src/engine/smoothers/whittaker/whittakerSolve';
+import { whittakerInput, scaledLambda } from '../../../src/engine/smoothers/whittaker/whittakerInput';
+import { bandedInverseDiagonal } from '../../../src/engine/smoothers/whittaker/bandedInverseBand';
 import { differenceOperator, differenceTranspose } from '../../../src/engine/linalg/difference';
 import { differenceRows } from '../../../src/engine/linalg/differenceRows';
 import { mulberry32, normalStream } from '../../helpers/random';
@@ -51,6 +55,58 @@ describe('bandedInverseBand', () => {
     let err = 0;
     for (let i = 0; i < n; i++) for (let d = 0; d <= p && i + d < n; d++) err = Math.max(err, Math.abs(s[i * (p + 1) + d] - inv.get(i, i + d)));
     expect(err).toBeLessThan(1e-13);
+  });
+});
+
+describe('pentadiagonalSolve (order 2 in fused passes)', () => {
+  test.each(['uneven', 'equally spaced'])('gives the banded path\'s solution and leverages bit for bit (%s x, zero weights, reused arrays)', (spacing) => {
+    const { x: ux, y, w } = unevenSeries(500, 5);
+    const x = spacing === 'uneven' ? ux : Float64Array.from(ux, (_, i) => 3 + 2 * i);
+    for (let i = 40; i < 60; i++) w[i] = 0; // a gap filled in by the penalty
+    const inp = whittakerInput(x, y, w, 2);
+    expect(inp.spacing === null).toBe(spacing !== 'uneven'); // equal spacing: rows (1, -2, 1), no array
+    const lam = scaledLambda(inp, 300);
+    // the banded path: assemble the band, factor, solve, band of the inverse
+    const band = whittakerBand(inp, lam);
+    expect(bandedCholesky(band, inp.n, 2)).toBe(-1);
+    const z = Float64Array.from(inp.y, (v, i) => inp.w[i] * v);
+    bandedCholeskySolve(band, inp.n, 2, z);
+    const lev = bandedInverseDiagonal(band, inp.n, 2).map((v, i) => v * inp.w[i]);
+    const fresh = pentadiagonalSolve(inp, lam, true);
+    expect(fresh.failedRow).toBe(-1);
+    expect(Array.from(fresh.fitted)).toEqual(Array.from(z));
+    expect(Array.from(fresh.leverage!)).toEqual(Array.from(lev));
+    expect(fresh.df).toBe(lev.reduce((a, b) => a + b, 0));
+    expect(fresh.residual).toBeLessThan(1e-14);
+    const n = inp.n;
+    const work = { l: new Float64Array(3 * n), z: new Float64Array(n), lev: new Float64Array(n) };
+    pentadiagonalSolve(inp, 10 * lam, true, work); // an earlier solve leaves other numbers in the arrays
+    const reused = pentadiagonalSolve(inp, lam, true, work, false);
+    expect(Array.from(reused.fitted)).toEqual(Array.from(z));
+    expect(reused.df).toBe(fresh.df);
+    expect(reused.residual).toBeNaN();
+  });
+
+  test('the backward error computed during the backward pass equals the separate pass exactly, down to 3 points', () => {
+    for (const n of [3, 4, 5, 6, 50]) {
+      for (const even of [true, false]) {
+        const { x: ux, y, w } = unevenSeries(n, 20 + n);
+        const x = even ? Float64Array.from(ux, (_, i) => i + 1) : ux;
+        const inp = whittakerInput(x, y, w, 2);
+        const lam = scaledLambda(inp, 7);
+        const s = pentadiagonalSolve(inp, lam, false);
+        expect(s.residual).toBe(backwardError2(inp, lam, s.fitted));
+        expect(s.residual).toBeGreaterThan(0); // rounding leaves a (tiny) residual somewhere: the check is not vacuous
+      }
+    }
+  });
+
+  test('reports the row where the system stops being positive definite', () => {
+    // weights zero from the third point on and a vanishing penalty: pivot 3 is (numerically) zero
+    const x = Float64Array.from({ length: 8 }, (_, i) => i + 1);
+    const w = Float64Array.from(x, (_, i) => (i < 2 ? 1 : 0));
+    const inp = whittakerInput(x, x, w, 2);
+    expect(pentadiagonalSolve(inp, 0, false).failedRow).toBe(2);
   });
 });
 

@@ -23,7 +23,8 @@ import { whittakerFit } from './whittakerFit';
 import { whittakerGcv } from './whittakerGcv';
 import { whittakerOneSided } from './whittakerOneSided';
 import { hodrickPrescottLambda, type DataFrequency } from './hodrickPrescottLambda';
-import { whittakerInput } from './whittakerInput';
+import { checkWhittakerLambda, scaledLambda, whittakerInput } from './whittakerInput';
+import { whittakerSolve } from './whittakerSolve';
 import { interpolateFit } from './interpolateFit';
 
 /** Settings of {@link fitWhittaker} (resolved options). */
@@ -103,7 +104,12 @@ export function fitWhittaker(series: Series, s: WhittakerSettings, context: RunC
         // shared folds leave out of training (correlated noise), are filled in by the penalty
         const w = new Float64Array(n);
         for (let t = 0; t < train.length; t++) w[train[t]] = series.w[train[t]];
-        return Array.from(pens, (l) => { const f = whittakerFit(series.x, series.y, w, l, d).fitted; return Float64Array.from(held, (i) => f[i]); });
+        // the fit alone: no leverages or backward error, which the held-out error does not read
+        const foldInput = whittakerInput(series.x, series.y, w, d);
+        return Array.from(pens, (l) => {
+          const f = whittakerSolve(foldInput, scaledLambda(foldInput, checkWhittakerLambda(l)), false, undefined, false).fitted;
+          return Float64Array.from(held, (i) => f[i]);
+        });
       };
       const plan = noiseDependence(series.y, k); // once: the folds are the same for every penalty tried
       score = (l) => {

@@ -55,9 +55,10 @@ export function whittakerFit(x: ArrayLike<number>, y: ArrayLike<number>, w: Arra
   const inp = whittakerInput(x, y, w, order);
   checkWhittakerLambda(lambda);
   const sol = whittakerSolve(inp, scaledLambda(inp, lambda), true);
-  const n = inp.n;
+  const { n, y: ys, w: ws, wScale } = inp;
+  const z = sol.fitted;
   let rss = 0;
-  for (let i = 0; i < n; i++) { const e = inp.y[i] - sol.fitted[i]; rss += inp.w[i] * inp.wScale * e * e; }
+  for (let i = 0; i < n; i++) { const e = ys[i] - z[i]; rss += ws[i] * wScale * e * e; }
   const df = sol.df as number;
   const tolerance = 1e-10;
   return {

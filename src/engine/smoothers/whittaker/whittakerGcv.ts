@@ -34,9 +34,12 @@ export interface WhittakerScore {
  */
 export function whittakerGcv(x: ArrayLike<number>, y: ArrayLike<number>, w: ArrayLike<number> | null | undefined, order = 2): (lambda: number) => WhittakerScore {
   const inp = whittakerInput(x, y, w, order);
+  // order 2: one set of arrays for every lambda tried (the search reads only rss and df)
+  const n0 = inp.n;
+  const work = order === 2 ? { l: new Float64Array(3 * n0), z: new Float64Array(n0), lev: new Float64Array(n0) } : undefined;
   return (lambda: number): WhittakerScore => {
     checkWhittakerLambda(lambda);
-    const sol = whittakerSolve(inp, scaledLambda(inp, lambda), true);
+    const sol = whittakerSolve(inp, scaledLambda(inp, lambda), true, work, false);
     let rss = 0;
     for (let i = 0; i < inp.n; i++) { const e = inp.y[i] - sol.fitted[i]; rss += inp.w[i] * inp.wScale * e * e; }
     const df = sol.df as number;

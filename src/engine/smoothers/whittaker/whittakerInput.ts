@@ -20,8 +20,14 @@ export interface WhittakerInput {
   wScale: number;
   /** Mean spacing h = (x_n - x_1) / (n - 1); x is used as (x - x_1) / h internally. */
   h: number;
-  /** Rows of D(u, order) for the scaled positions u, (n - order) x (order + 1). */
-  rows: Float64Array;
+  /** Rows of D(u, order) for the scaled positions u, (n - order) x (order + 1); built on first use. */
+  readonly rows: Float64Array;
+  /**
+   * Order 2 only: s_r = h / (x_{r+1} - x_r), r = 0..n-2, from which row r of D is
+   * (s_r, -(s_r + s_{r+1}), s_{r+1}); null when every s_r is exactly 1 (equal spacing, rows (1, -2, 1))
+   * or the order is not 2.
+   */
+  spacing: Float64Array | null;
 }
 
 /**
@@ -61,8 +67,19 @@ export function whittakerInput(x: ArrayLike<number>, y: ArrayLike<number>, w: Ar
   }
   const h = scale ? (xs[n - 1] - xs[0]) / (n - 1) : 1;
   const wScale = scale ? wSum / n : 1;
-  for (let i = 0; i < n; i++) ws[i] /= wScale;
-  return { n, order, x: xs, y: ys, w: ws, wScale, h, rows: scaledDifferenceRows(xs, h, order) };
+  if (wScale !== 1) for (let i = 0; i < n; i++) ws[i] /= wScale;
+  let spacing: Float64Array | null = null;
+  if (order === 2) {
+    let uniform = true;
+    for (let r = 0; r < n - 1 && uniform; r++) uniform = h / (xs[r + 1] - xs[r]) === 1;
+    if (!uniform) {
+      spacing = new Float64Array(n - 1);
+      for (let r = 0; r < n - 1; r++) spacing[r] = h / (xs[r + 1] - xs[r]);
+    }
+  }
+  // the rows are built only when a kernel reads them (order 2 solves from the spacings alone)
+  let rows: Float64Array | null = null;
+  return { n, order, x: xs, y: ys, w: ws, wScale, h, spacing, get rows() { return (rows ??= scaledDifferenceRows(xs, h, order)); } };
 }
 
 /**

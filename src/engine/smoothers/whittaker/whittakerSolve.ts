@@ -7,6 +7,7 @@ import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky
 import { KnotwiseError, showNumber } from '../../errors';
 import { bandedInverseDiagonal } from './bandedInverseBand';
 import type { WhittakerInput } from './whittakerInput';
+import { backwardError2, pentadiagonalSolve, type PentadiagonalWork } from './pentadiagonalSolve';
 
 export interface WhittakerSolution {
   fitted: Float64Array;
@@ -46,15 +47,24 @@ export function whittakerBand(inp: WhittakerInput, lam: number): Float64Array {
   return a;
 }
 
-/** Solves the system, optionally with the leverages from the band of the inverse. Unchecked. */
-export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: boolean): WhittakerSolution {
+/**
+ * Solves the system, optionally with the leverages from the band of the inverse.
+ * `work` (order 2 only) lends arrays reused across solves, and `withResidual` false skips the
+ * backward error (then NaN), for searches over lambda that read only the fit and df. Unchecked.
+ */
+export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: boolean, work?: PentadiagonalWork, withResidual = true): WhittakerSolution {
   const { n, order: d, w, y } = inp;
-  const wd = d + 1;
+  if (d === 2) {
+    // the Hodrick-Prescott case: fused passes, no band assembled first
+    const s = pentadiagonalSolve(inp, lam, withLeverage, work, withResidual);
+    if (s.failedRow >= 0) notPositiveDefinite(s.failedRow, lam);
+    const out: WhittakerSolution = { fitted: s.fitted, residual: s.residual };
+    if (withLeverage) { out.leverage = s.leverage; out.df = s.df; }
+    return out;
+  }
   const band = whittakerBand(inp, lam);
   const bad = bandedCholesky(band, n, d);
-  if (bad >= 0) {
-    throw new KnotwiseError('numerical', `the graduation system is not numerically positive definite at row ${bad + 1} (lambda on the internal scale ${showNumber(lam)}); use a smaller lambda or check for points with zero weight.`);
-  }
+  if (bad >= 0) notPositiveDefinite(bad, lam);
   const z = new Float64Array(n);
   for (let i = 0; i < n; i++) z[i] = w[i] * y[i];
   bandedCholeskySolve(band, n, d, z);
@@ -70,6 +80,10 @@ export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: b
   return out;
 }
 
+function notPositiveDefinite(row: number, lam: number): never {
+  throw new KnotwiseError('numerical', `the graduation system is not numerically positive definite at row ${row + 1} (lambda on the internal scale ${showNumber(lam)}); use a smaller lambda or check for points with zero weight.`);
+}
+
 /**
  * Componentwise backward error of (W + lam D'D) z = W y, from the rows of D (no stored
  * matrix): max_i |W y - A z|_i / (|W||z| + lam |D|'|D||z| + |W y|)_i. Unchecked.
@@ -77,27 +91,7 @@ export function whittakerSolve(inp: WhittakerInput, lam: number, withLeverage: b
 function backwardError(inp: WhittakerInput, lam: number, z: Float64Array): number {
   const { n, order: d, rows, w, y } = inp;
   const wd = d + 1;
-  if (d === 2) {
-    // one pass: residual i needs (D z)_k for the rows k = i-2, i-1, i that touch column i
-    let worst2 = 0;
-    let dzA = 0, adzA = 0, dzB = 0, adzB = 0; // rows i-2 and i-1 (lam included)
-    for (let i = 0; i < n; i++) {
-      let dzC = 0, adzC = 0;
-      if (i < n - 2) {
-        const o = 3 * i;
-        const t0 = rows[o] * z[i], t1 = rows[o + 1] * z[i + 1], t2 = rows[o + 2] * z[i + 2];
-        dzC = lam * (t0 + t1 + t2); adzC = lam * (Math.abs(t0) + Math.abs(t1) + Math.abs(t2));
-      }
-      let ri = w[i] * (y[i] - z[i]);
-      let mi = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]);
-      if (i >= 2) { const c = rows[3 * (i - 2) + 2]; ri -= c * dzA; mi += Math.abs(c) * adzA; }
-      if (i >= 1 && i - 1 < n - 2) { const c = rows[3 * (i - 1) + 1]; ri -= c * dzB; mi += Math.abs(c) * adzB; }
-      if (i < n - 2) { const c = rows[3 * i]; ri -= c * dzC; mi += Math.abs(c) * adzC; }
-      if (mi > 0) { const e = Math.abs(ri) / mi; if (e > worst2) worst2 = e; }
-      dzA = dzB; adzA = adzB; dzB = dzC; adzB = adzC;
-    }
-    return worst2;
-  }
+  if (d === 2) return backwardError2(inp, lam, z);
   const r = new Float64Array(n), mag = new Float64Array(n);
   for (let i = 0; i < n; i++) { r[i] = w[i] * (y[i] - z[i]); mag[i] = Math.abs(w[i] * y[i]) + Math.abs(w[i] * z[i]); }
   for (let k = 0; k < n - d; k++) {
