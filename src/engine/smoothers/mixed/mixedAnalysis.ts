@@ -17,12 +17,13 @@
  * slope change s spread over a width L costs about 16 s lambda3 / L^2 as a smooth bend and
  * s lambda1 as kinks, so features narrower than about `width` are drawn as kinks and wider
  * ones as smooth bends. With neither given both are chosen by K-fold cross-validation on the
- * shared folds ({@link crossValidate}): for each width of a small grid (4, 10, 25 and 60 mean
+ * shared folds ({@link crossValidate}): for each width of a small grid (4, 12 and 36 mean
  * spacings of x, those below n / 4), a path of `searchPoints` values of lambda1 log-spaced
  * from the smallest penalty at which both components are polynomials down to 1e-4 of it, so
- * 4 x 12 x (folds + 1) mixed fits at the defaults; `cv` takes the lowest error over the grid,
+ * 3 x 10 x (folds + 1) mixed fits at the defaults (path and fold fits by the ADMM alone,
+ * {@link mixedAdmm}; the chosen one made exact by the block steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
  * `cv-simpler` the fewest df within one standard error of it ({@link choosePenalty} on the
- * grid ordered by df). A df target solves for lambda1 at the given width (default 10 mean
+ * grid ordered by df). A df target solves for lambda1 at the given width (default 12 mean
  * spacings).
  *
  * Degrees of freedom: kinks + bend knots + 4, the dimension of the sum of the two spline
@@ -54,10 +55,10 @@ import { knotPositions, CV_TOLERANCE } from '../trend/trendPath';
 import { solveMixed, MixedFit, MixedProblems, MixedSolveSettings, MixedStart } from './solveMixed';
 
 /** Widths of the cross-validation grid, in mean spacings of x. */
-export const MIXED_WIDTHS = [4, 10, 25, 60] as const;
+export const MIXED_WIDTHS = [4, 12, 36] as const;
 
 /** Width used with a fixed penalty or a df target when none is given, in mean spacings of x. */
-export const MIXED_DEFAULT_WIDTH = 10;
+export const MIXED_DEFAULT_WIDTH = 12;
 
 /** Smallest lambda1 of the path relative to its largest. */
 export const MIXED_PATH_RATIO = 1e-4;
@@ -71,9 +72,9 @@ export interface MixedSettings {
   rule?: 'cv' | 'cv-simpler';
   folds?: number;
   searchPoints?: number;
-  /** Largest change of the kink component in a final block step, relative to the sd of y (default 1e-7). */
+  /** Largest change of the kink component in a final block step, relative to the sd of y (default 1e-5). */
   tolerance?: number;
-  /** Most block steps (default 500). */
+  /** Most exact block steps (default 40). */
   maxIterations?: number;
 }
 
@@ -85,8 +86,9 @@ export interface MixedModel {
   /** lambda3 in the data's units and the width it came from. */
   bendPenalty: number;
   width: number;
-  /** Number of knots of the smooth-bend component. */
+  /** Number of knots of the smooth-bend component, and their rows of D(x, 4) (knot between points r + 1 and r + 3). */
   bendKnots: number;
+  bendRows: number[];
   /** Cross-validation of each width tried: its best score, se, df and penalty. */
   widths?: { width: number; penalty: number; df: number; cv: number; se: number }[];
 }
@@ -103,11 +105,15 @@ function ratioOf(width: number, sc: TrendScaling): number { return (width / (4 *
 
 /** Degrees of freedom of a mixed fit: kinks + bend knots + 4. */
 export function mixedDf(fit: MixedFit): number {
-  return fit.kinkFit.knotRows.length + fit.bendFit.knotRows.length + 4;
+  return fit.kinkRows.length + fit.bendRows.length + 4;
 }
 
-const FULL: MixedSolveSettings = { tolerance: 1e-7, maxCycles: 500, innerTolerance: 1e-10, innerIterations: 400, refine: true };
-const FOLD: MixedSolveSettings = { tolerance: 1e-4, maxCycles: 200, innerTolerance: CV_TOLERANCE, innerIterations: 200, refine: false };
+/** The returned fit: the ADMM, then exact block steps. */
+const FULL: MixedSolveSettings = { admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: 40, innerTolerance: 1e-10, innerIterations: 400, refine: true };
+/** Points of a penalty path (their df and warm starts): the ADMM alone. */
+const PATH: MixedSolveSettings = { ...FULL, refine: false };
+/** Cross-validation folds: the ADMM alone, to a looser tolerance (they only predict held-out points). */
+const FOLD: MixedSolveSettings = { ...FULL, admmTolerance: 1e-4, admmIterations: 3000, refine: false };
 
 /**
  * The top of a path at ratio r (scaled): the smallest lambda1 at which the weighted cubic fit
@@ -179,7 +185,7 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
     dataDriven = true;
     const rule = s.rule ?? 'cv';
     const K = Math.max(2, Math.min(s.folds ?? 5, Math.floor(n / 3)));
-    const G = s.searchPoints ?? 12;
+    const G = s.searchPoints ?? 10;
     const list = s.width !== undefined ? [s.width] : MIXED_WIDTHS.filter((v, i) => i === 0 || v <= n / 4).map((v) => v * sc.h);
     const plan = noiseDependence(series.y, K); // once: every width and penalty shares the folds
     const paths: WidthPath[] = [];
@@ -194,7 +200,8 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
     const chosen = paths[pick.p];
     width = chosen.width;
     lam1 = chosen.grid[pick.j];
-    fit = chosen.fits[pick.j];
+    context.step(1, 'exact fit at the chosen penalties');
+    fit = solveMixed(probs, sc.ys, lam1, lam1 * chosen.ratio, full, { admm: chosen.fits[pick.j].admm });
     widths = paths.map((pa) => {
       let b = 0;
       for (let j = 1; j < pa.cv.length; j++) if (pa.cv[j] < pa.cv[b]) b = j;
@@ -203,7 +210,7 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
     // the chosen width's curve, in increasing penalty
     const curve: CriterionPoint[] = [];
     for (let j = chosen.grid.length - 1; j >= 0; j--) {
-      curve.push({ penalty: toData1(chosen.grid[j], sc), score: chosen.cv[j], se: chosen.se[j], df: mixedDf(chosen.fits[j]), knots: chosen.fits[j].kinkFit.knotRows.length + chosen.fits[j].bendFit.knotRows.length, converged: chosen.fits[j].status.converged });
+      curve.push({ penalty: toData1(chosen.grid[j], sc), score: chosen.cv[j], se: chosen.se[j], df: mixedDf(chosen.fits[j]), knots: chosen.fits[j].kinkRows.length + chosen.fits[j].bendRows.length, converged: chosen.fits[j].status.converged });
     }
     const atEdge = pick.j === 0 || pick.j === chosen.grid.length - 1;
     criterion = { name: 'cv', value: pick.point.score, curve, atEdge };
@@ -225,9 +232,9 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
   let start: MixedStart = {};
   for (let j = 0; j < G; j++) {
     context.step(j / G / (K + 1), 'fitting kinks and bends along the penalty path');
-    const f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, full, start);
+    const f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, PATH, start);
     fits.push(f);
-    start = { kinks: f.kinks, kinkFit: f.kinkFit, bendFit: f.bendFit };
+    start = { admm: f.admm };
   }
   let swAll = 0;
   for (let i = 0; i < n; i++) swAll += sc.ws[i];
@@ -242,7 +249,7 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
     let st: MixedStart = {};
     return Array.from(pens, (l) => {
       const f = solveMixed(sub, yt, l * (swt / swAll), l * ratio * (swt / swAll), FOLD, st);
-      st = { kinks: f.kinks, kinkFit: f.kinkFit, bendFit: f.bendFit };
+      st = { admm: f.admm };
       const pa = interpolateTrend(xt, f.kinks, 1, xh).value, pc = interpolateTrend(xt, f.bends, 3, xh).value;
       return Float64Array.from(pa, (v, i) => sc.y0 + sc.c * (v + pc[i]));
     });
@@ -256,14 +263,14 @@ function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, 
   const top = pathTop(sc.xs, sc.ys, sc.ws, ratio);
   const lo = top * MIXED_PATH_RATIO * 1e-2;
   const seen: { lambda: number; fit: MixedFit }[] = [];
-  const at = (l: number, start: MixedStart): MixedFit => { const f = solveMixed(probs, sc.ys, l, l * ratio, full, start); seen.push({ lambda: l, fit: f }); return f; };
+  const at = (l: number, start: MixedStart): MixedFit => { const f = solveMixed(probs, sc.ys, l, l * ratio, PATH, start); seen.push({ lambda: l, fit: f }); return f; };
   // coarse path from the top down until the df passes the target
   let hiL = top, loL = lo;
   let prev: MixedFit | undefined;
   for (let j = 0; j < G; j++) {
     context.step(j / (G + 30), 'looking for the penalty with the target df');
     const l = top * Math.pow(lo / top, j / (G - 1));
-    prev = at(l, prev ? { kinks: prev.kinks, kinkFit: prev.kinkFit, bendFit: prev.bendFit } : {});
+    prev = at(l, prev ? { admm: prev.admm } : {});
     if (mixedDf(prev) >= target) { loL = l; break; }
     hiL = l;
   }
@@ -273,7 +280,7 @@ function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, 
     const best = seen.reduce((p, q) => (Math.abs(mixedDf(q.fit) - target) < Math.abs(mixedDf(p.fit) - target) ? q : p));
     if (mixedDf(best.fit) === target) break;
     const mid = 0.5 * (a + b);
-    const f = at(Math.exp(mid), { kinks: best.fit.kinks, kinkFit: best.fit.kinkFit, bendFit: best.fit.bendFit });
+    const f = at(Math.exp(mid), { admm: best.fit.admm });
     if (mixedDf(f) > target) a = mid; else b = mid;
   }
   let best = seen[0];
@@ -282,7 +289,7 @@ function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, 
     if (dq < db || (dq === db && q.lambda > best.lambda)) best = q;
   }
   const curve = seen.slice().sort((p, q) => p.lambda - q.lambda).map((q) => ({ penalty: toData1(q.lambda, sc), score: mixedDf(q.fit), df: mixedDf(q.fit), converged: q.fit.status.converged }));
-  return { fit: best.fit, lambda: best.lambda, curve };
+  return { fit: solveMixed(probs, sc.ys, best.lambda, best.lambda * ratio, full, { admm: best.fit.admm }), lambda: best.lambda, curve };
 }
 
 function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number, width: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, s: MixedSettings,
@@ -293,9 +300,9 @@ function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number,
   const bends = Float64Array.from(fit.bends, (v) => sc.c * v);
   const fitted = Float64Array.from(kinks, (v, i) => v + bends[i]);
   // kinks in the data's units: slope change c (D' a')_r / h at point r + 1
-  const d2 = kinkChanges(sc.xs, fit.kinks, fit.kinkFit.knotRows);
-  const kx = knotPositions(x, 1, fit.kinkFit.knotRows);
-  const knots: Knot[] = fit.kinkFit.knotRows.map((r, j) => ({ x: kx[j], index: r + 1, row: series.firstRow[r + 1], change: (sc.c * d2[j]) / sc.h }));
+  const d2 = kinkChanges(sc.xs, fit.kinks, fit.kinkRows);
+  const kx = knotPositions(x, 1, fit.kinkRows);
+  const knots: Knot[] = fit.kinkRows.map((r, j) => ({ x: kx[j], index: r + 1, row: series.firstRow[r + 1], change: (sc.c * d2[j]) / sc.h }));
   const df = mixedDf(fit);
   let rss = 0;
   const resid = new Float64Array(n);
@@ -311,7 +318,7 @@ function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number,
   warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name, s.folds ?? 5));
   warnings.push(boundaryWarning());
   const bendPenalty = toData1(lam1, sc) * (width / 4) ** 2;
-  const model: MixedModel = { x, kinks, bends, bendPenalty, width, bendKnots: fit.bendFit.knotRows.length, widths };
+  const model: MixedModel = { x, kinks, bends, bendPenalty, width, bendKnots: fit.bendRows.length, bendRows: fit.bendRows.slice(), widths };
   // bends of the kink component sized on the unpenalised refit of the straight pieces to the series less its smooth part
   const bendsOfKinks = knots.length ? knotBends({ ...series, y: Float64Array.from(series.y, (v, i) => v - bends[i]) }, 1, knots) : [];
   return {
@@ -362,13 +369,13 @@ export const mixedAnalysis: AnalysisDefinition = {
   label: 'Straight pieces with kinks plus smooth bends (for series kinked in one stretch and smooth in another)',
   summary: 'sum of two L1 trend-filtering components, order 1 (kinks) and order 3 (smooth bends), both penalties by cross-validation (Tibshirani 2014; Kim, Koh, Boyd & Gorinevsky 2009)',
   options: [
-    ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler'], defaultRule: 'cv', folds: 5, searchPoints: 12 }).map((o) => (o.name === 'penalty'
+    ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler'], defaultRule: 'cv', folds: 5, searchPoints: 10 }).map((o) => (o.name === 'penalty'
       ? { ...o, help: 'a fixed penalty on kinks (lambda1, units of y times units of x) instead of a rule; the penalty on bends is lambda1 (width / 4)^2' }
-      : o.name === 'searchPoints' ? { ...o, max: 60, help: 'number of penalties tried per width (default 12)' } : o)),
-    { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 10, 25 and 60 spacings of x; 10 spacings with a penalty or df)' },
+      : o.name === 'searchPoints' ? { ...o, max: 60, help: 'number of penalties tried per width (default 10)' } : o)),
+    { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 12 and 36 spacings of x; 12 spacings with a penalty or df)' },
     SEASON_OPTION,
-    { name: 'tolerance', kind: 'number', above: 0, max: 0.001, help: 'largest change of the kinks in a final solver step, relative to the sd of y (default 1e-7)' },
-    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'step limit of the solver (default 500)' },
+    { name: 'tolerance', kind: 'number', above: 0, max: 0.001, help: 'largest change of the kinks in a final solver step, relative to the sd of y (default 1e-5)' },
+    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'limit of the exact block steps after the ADMM (default 40)' },
   ],
   ties: 'merge',
   minPoints: () => MIXED_MIN_POINTS,

@@ -38,6 +38,7 @@ import type { SolverStatus } from '../../types';
 import { solveTrend, seedOf, TrendFit, TrendProblem } from '../trend/solveTrend';
 import { differenceOperator } from '../../linalg/difference';
 import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
+import { mixedAdmm, mixedOperators, MixedAdmmState, MixedOperators } from './mixedAdmm';
 
 /** Solution of {@link solveMixed} in the scaled units it was given. */
 export interface MixedFit {
@@ -45,9 +46,14 @@ export interface MixedFit {
   kinks: Float64Array;
   /** Smooth bends (order-3 component), weighted-orthogonal to straight lines. */
   bends: Float64Array;
-  /** The last order-1 and order-3 trend-filtering solves (knot rows, duals). */
-  kinkFit: TrendFit;
-  bendFit: TrendFit;
+  /** Knot rows of D(x, 2) on the kinks and of D(x, 4) on the bends. */
+  kinkRows: number[];
+  bendRows: number[];
+  /** The last order-1 and order-3 trend-filtering solves (knot rows, duals), when the exact block steps ran. */
+  kinkFit?: TrendFit;
+  bendFit?: TrendFit;
+  /** The ADMM's iterates (warm start at the next penalty). */
+  admm: MixedAdmmState;
   /** Objective at the returned point. */
   objective: number;
   status: SolverStatus;
@@ -55,13 +61,17 @@ export interface MixedFit {
 
 /** Where to start and what the previous solve at a nearby penalty knew. Unchecked. */
 export interface MixedStart {
-  kinks?: Float64Array;
+  admm?: MixedAdmmState;
   kinkFit?: TrendFit;
   bendFit?: TrendFit;
 }
 
 /** Settings of {@link solveMixed}. */
 export interface MixedSolveSettings {
+  /** Tolerance eps of the ADMM's residuals ({@link mixedAdmm}). */
+  admmTolerance: number;
+  /** Iteration limit of the ADMM. */
+  admmIterations: number;
   /** Largest change of the kink component in a final plain step (scaled units). */
   tolerance: number;
   /** Most block steps. */
@@ -70,7 +80,7 @@ export interface MixedSolveSettings {
   innerTolerance: number;
   /** Iteration limit of each inner trend solve's interior point. */
   innerIterations: number;
-  /** False for cross-validation folds: inner solves without the exact refinement. */
+  /** False for cross-validation folds and path points: the ADMM's answer without the exact block steps. */
   refine: boolean;
 }
 
@@ -85,6 +95,7 @@ export interface MixedProblems {
   w: Float64Array;
   one?: TrendProblem;
   three?: TrendProblem;
+  ops?: MixedOperators;
 }
 
 /** The objective of the mixed problem. Unchecked. */
@@ -107,8 +118,16 @@ export function mixedObjective(x: Float64Array, y: Float64Array, w: Float64Array
 export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: number, lambda3: number, s: MixedSolveSettings, start: MixedStart = {}): MixedFit {
   const { x, w } = probs;
   const n = x.length;
-  let a: Float64Array = start.kinks ? Float64Array.from(start.kinks) : new Float64Array(n);
-  let c = new Float64Array(n);
+  if (!probs.ops) probs.ops = mixedOperators(x, w);
+  const ad = mixedAdmm(probs.ops, y, lambda1, lambda3, s.admmTolerance, s.admmIterations, start.admm);
+  if (!s.refine) {
+    return {
+      kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state,
+      objective: mixedObjective(x, y, w, ad.kinks, ad.bends, lambda1, lambda3), status: ad.status,
+    };
+  }
+  let a: Float64Array = ad.kinks;
+  let c = ad.bends;
   let fit1 = start.kinkFit, fit3 = start.bendFit;
   let innerIterations = 0;
   let innerOk = true;
@@ -116,12 +135,12 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
   const F = (aIn: Float64Array): Float64Array => {
     for (let i = 0; i < n; i++) z[i] = y[i] - aIn[i];
     probs.three = { x, y: Float64Array.from(z), w, k: 3, op: probs.three?.op, x01: probs.three?.x01, basis: probs.three?.basis };
-    fit3 = solveTrend(probs.three, lambda3, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit3, refine: s.refine, seed: s.refine && fit3 ? seedOf(fit3) : undefined });
+    fit3 = solveTrend(probs.three, lambda3, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit3, seed: fit3 ? seedOf(fit3) : undefined });
     const line = weightedPolynomialFit(x, fit3.b, w, 1);
     c = Float64Array.from(fit3.b, (v, i) => v - line[i]);
     for (let i = 0; i < n; i++) z[i] = y[i] - c[i];
     probs.one = { x, y: Float64Array.from(z), w, k: 1, op: probs.one?.op, x01: probs.one?.x01, admmRows: probs.one?.admmRows, basis: probs.one?.basis };
-    fit1 = solveTrend(probs.one, lambda1, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit1, refine: s.refine, seed: s.refine && fit1 ? seedOf(fit1) : undefined });
+    fit1 = solveTrend(probs.one, lambda1, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit1, seed: fit1 ? seedOf(fit1) : undefined });
     innerIterations += fit3.status.iterations + fit1.status.iterations;
     innerOk = fit3.status.converged && fit1.status.converged;
     return Float64Array.from(fit1.b);
@@ -136,7 +155,8 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
     cycles++;
     const g = F(a);
     const J = mixedObjective(x, y, w, g, c, lambda1, lambda3);
-    if (best && J > best.J * (1 + 1e-12) + 1e-300) {
+    // the inner solves are exact to a relative duality gap of about 1e-10, so the objective is compared with that slack
+    if (best && J > best.J * (1 + 1e-9) + 1e-300) {
       dG.length = 0; dF.length = 0; gPrev = null; fPrev = null;
       resets++;
       a = best.g;
@@ -188,11 +208,20 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
     }
   }
   a = Float64Array.from(fit1!.b);
+  const admmObjective = mixedObjective(x, y, w, ad.kinks, ad.bends, lambda1, lambda3);
+  if (!(mixedObjective(x, y, w, a, c, lambda1, lambda3) <= admmObjective)) {
+    // the exact steps did not improve on the ADMM's answer (inner solves that failed): keep the ADMM's
+    return {
+      kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state, objective: admmObjective,
+      status: { ...ad.status, converged: false, stoppingRule: `${ad.status.stoppingRule}; the exact block steps that followed did not lower the objective and were discarded` },
+    };
+  }
   return {
-    kinks: a, bends: c, kinkFit: fit1!, bendFit: fit3!, objective: mixedObjective(x, y, w, a, c, lambda1, lambda3),
+    kinks: a, bends: c, kinkRows: fit1!.knotRows, bendRows: fit3!.knotRows, kinkFit: fit1!, bendFit: fit3!, admm: ad.state,
+    objective: mixedObjective(x, y, w, a, c, lambda1, lambda3),
     status: {
       converged: change <= s.tolerance && innerOk, iterations: cycles, tolerance: s.tolerance, achieved: change,
-      stoppingRule: `${MIXED_RULE}; ${innerIterations} trend-solver iterations and ${resets} memory resets in all`,
+      stoppingRule: `${ad.status.stoppingRule}, ${ad.status.iterations} iterations, from which ${MIXED_RULE}; ${innerIterations} trend-solver iterations and ${resets} memory resets in all`,
     },
   };
 }
