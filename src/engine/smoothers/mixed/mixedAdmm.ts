@@ -101,6 +101,7 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
       const f = factor(ops, rho1, rho3, delta);
       if (f) return f;
       delta *= 10;
+      if (!(delta <= 1e3)) throw new Error(`mixed ADMM: no positive definite system at step sizes ${rho1}, ${rho3}`);
     }
   };
   let L = refactor();

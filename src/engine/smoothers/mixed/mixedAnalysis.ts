@@ -111,7 +111,7 @@ export function mixedDf(fit: MixedFit): number {
 /** The returned fit: the ADMM, then exact block steps. */
 const FULL: MixedSolveSettings = { admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: 40, innerTolerance: 1e-10, innerIterations: 400, refine: true };
 /** Points of a penalty path (their df and warm starts): the ADMM alone. */
-const PATH: MixedSolveSettings = { ...FULL, refine: false };
+const PATH: MixedSolveSettings = { ...FULL, admmTolerance: 1e-5, admmIterations: 3000, refine: false };
 /** Cross-validation folds: the ADMM alone, to a looser tolerance (they only predict held-out points). */
 const FOLD: MixedSolveSettings = { ...FULL, admmTolerance: 1e-4, admmIterations: 3000, refine: false };
 
@@ -218,7 +218,7 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
     warnings.push(warning('note', `Both penalties chosen by ${K}-fold cross-validation over ${list.length} widths (${list.map((v) => showNumber(Number(v.toPrecision(3)))).join(', ')} in units of x) x ${G} penalties: width ${showNumber(Number(width.toPrecision(3)))} (features narrower than this are drawn as kinks, wider ones as smooth bends).`));
     stoppingNote = `; penalties from a grid of ${list.length} widths x ${G} penalties by ${rule}`;
   }
-  return assemble(series, sc, fit, lam1, width, criterion, warnings, dataDriven, s, widths, stoppingNote);
+  return assemble(series, sc, fit, lam1, width, criterion, warnings, dataDriven, s, widths, stoppingNote, !context.comparing);
 }
 
 /** The full-data path at one width and its cross-validation on the shared folds. Unchecked. */
@@ -293,7 +293,7 @@ function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, 
 }
 
 function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number, width: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, s: MixedSettings,
-  widths: MixedModel['widths'], stoppingNote: string): FitResult {
+  widths: MixedModel['widths'], stoppingNote: string, withBends: boolean): FitResult {
   const n = series.n;
   const { x } = series;
   const kinks = Float64Array.from(fit.kinks, (v) => sc.y0 + sc.c * v);
@@ -319,13 +319,19 @@ function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number,
   warnings.push(boundaryWarning());
   const bendPenalty = toData1(lam1, sc) * (width / 4) ** 2;
   const model: MixedModel = { x, kinks, bends, bendPenalty, width, bendKnots: fit.bendRows.length, bendRows: fit.bendRows.slice(), widths };
-  // bends of the kink component sized on the unpenalised refit of the straight pieces to the series less its smooth part
-  const bendsOfKinks = knots.length ? knotBends({ ...series, y: Float64Array.from(series.y, (v, i) => v - bends[i]) }, 1, knots) : [];
   return {
     method: 'mixed',
     options: { method: 'mixed', ...(s.penalty !== undefined ? { penalty: s.penalty } : {}), ...(s.df !== undefined ? { df: s.df } : {}), ...(dataDriven ? { select: 'cv' as const, oneSE: s.rule === 'cv-simpler', folds: s.folds ?? 5 } : {}) },
-    x, fitted, penalty: toData1(lam1, sc), df, sigma, criterion, knots, bends: bendsOfKinks, warnings, solver: status, model,
+    x, fitted, penalty: toData1(lam1, sc), df, sigma, criterion, knots, bends: withBends ? mixedKnotBends(series, knots, model) : undefined, warnings, solver: status, model,
   };
+}
+
+/**
+ * The kinks as an analyst reads them ({@link knotBends}): neighbouring kinks merged, each sized on the
+ * unpenalised refit of the straight pieces to the series less its smooth bends. Unchecked.
+ */
+export function mixedKnotBends(series: Series, knots: Knot[], model: MixedModel): ReturnType<typeof knotBends> {
+  return knots.length ? knotBends({ ...series, y: Float64Array.from(series.y, (v, i) => v - model.bends[i]) }, 1, knots) : [];
 }
 
 /** (D(x, 2) a)_r at the given rows (scaled units). Unchecked. */
