@@ -7,22 +7,22 @@
  */
 import { seededNormal } from './trendTestFunctions';
 
-/** The truth on t in [0, 1]. */
-export function kinkedThenSmooth(t: number): number {
+/** The truth on t in [0, 1]; `kink` scales the slope changes (default 1). */
+export function kinkedThenSmooth(t: number, kink = 1): number {
   const relu = (v: number) => (v > 0 ? v : 0);
-  const line = 4 * t - 10 * relu(t - 0.12) + 12 * relu(t - 0.25) - 8 * relu(t - 0.38);
+  const line = kink * (4 * t - 10 * relu(t - 0.12) + 12 * relu(t - 0.25) - 8 * relu(t - 0.38));
   const hump = t > 0.5 ? 0.8 * (1 - Math.cos((2 * Math.PI * (t - 0.5)) / 0.25)) : 0;
   return line + hump;
 }
 
 /** n points, noise sd `sigma` (default 0.15), seeded. */
-export function kinkedThenSmoothSeries(n: number, seed: number, sigma = 0.15): { x: Float64Array; y: Float64Array; truth: Float64Array } {
+export function kinkedThenSmoothSeries(n: number, seed: number, sigma = 0.15, kink = 1): { x: Float64Array; y: Float64Array; truth: Float64Array } {
   const rnorm = seededNormal(seed);
   const x = new Float64Array(n), y = new Float64Array(n), truth = new Float64Array(n);
   let c = 0;
   for (let i = 0; i < n; i++) { x[i] = c; c += 0.5 + ((i * 7919 + seed * 104729) % 1000) / 1000; }
   for (let i = 0; i < n; i++) {
-    truth[i] = kinkedThenSmooth((x[i] - x[0]) / (x[n - 1] - x[0]));
+    truth[i] = kinkedThenSmooth((x[i] - x[0]) / (x[n - 1] - x[0]), kink);
     y[i] = truth[i] + sigma * rnorm();
   }
   return { x, y, truth };

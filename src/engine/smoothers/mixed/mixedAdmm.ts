@@ -88,12 +88,14 @@ function factor(ops: MixedOperators, rho1: number, rho3: number, delta: number):
 export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number, lambda3: number, tolerance: number, maxIterations: number, warm?: MixedAdmmState): MixedAdmmResult {
   const { w, r2, r4 } = ops;
   const n = w.length, m2 = n - 2, m4 = n - 4;
-  let rho1 = warm?.rho1 ?? Math.max(lambda1, 1e-8), rho3 = warm?.rho3 ?? Math.max(lambda3 / 16, 1e-8);
+  // step sizes start near the penalties (Ramdas & Tibshirani 2016 take rho = lambda for trend filtering), within
+  // 1e-3 .. 1e3 on the scaled problem, and stay within 1e-5 .. 1e5, where the system keeps its precision
+  const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v));
+  let rho1 = warm?.rho1 ?? clamp(lambda1, 1e-3, 1e3), rho3 = warm?.rho3 ?? clamp(lambda3 / 16, 1e-3, 1e3);
   const z1 = warm ? Float64Array.from(warm.z1) : new Float64Array(m2), u1 = warm ? Float64Array.from(warm.u1) : new Float64Array(m2);
   const z3 = warm ? Float64Array.from(warm.z3) : new Float64Array(m4), u3 = warm ? Float64Array.from(warm.u3) : new Float64Array(m4);
   let c = warm ? Float64Array.from(warm.c) : new Float64Array(n);
   const a = new Float64Array(n);
-  const rho1Start = rho1, rho3Start = rho3;
   let delta = 1e-3;
   // a factor that fails (rounding at extreme step sizes) is rebuilt with a larger proximal weight
   const refactor = (): Float64Array => {
@@ -158,14 +160,13 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
     achieved = Math.max(R1 / e1p, R3 / e3p, S1 / e1d, S3 / e3d) * tolerance;
     if (R1 <= e1p && R3 <= e3p && S1 <= e1d && S3 <= e3d) { converged = true; break; }
     if (it % 10 === 0) {
-      let changed = false;
-      if (R1 / e1p > 10 * (S1 / e1d)) { rho1 *= 2; for (let r = 0; r < m2; r++) u1[r] /= 2; changed = true; }
-      else if (S1 / e1d > 10 * (R1 / e1p)) { rho1 /= 2; for (let r = 0; r < m2; r++) u1[r] *= 2; changed = true; }
-      if (R3 / e3p > 10 * (S3 / e3d)) { rho3 *= 2; for (let r = 0; r < m4; r++) u3[r] /= 2; changed = true; }
-      else if (S3 / e3d > 10 * (R3 / e3p)) { rho3 /= 2; for (let r = 0; r < m4; r++) u3[r] *= 2; changed = true; }
-      // step sizes kept within 1e-4 to 1e4 times their start
-      rho1 = Math.min(1e4 * rho1Start, Math.max(1e-4 * rho1Start, rho1));
-      rho3 = Math.min(1e4 * rho3Start, Math.max(1e-4 * rho3Start, rho3));
+      // residual balancing; the scaled multipliers u = dual / rho follow the step size
+      const n1 = clamp(R1 / e1p > 10 * (S1 / e1d) ? 2 * rho1 : S1 / e1d > 10 * (R1 / e1p) ? rho1 / 2 : rho1, 1e-5, 1e5);
+      const n3 = clamp(R3 / e3p > 10 * (S3 / e3d) ? 2 * rho3 : S3 / e3d > 10 * (R3 / e3p) ? rho3 / 2 : rho3, 1e-5, 1e5);
+      const changed = n1 !== rho1 || n3 !== rho3;
+      for (let r = 0; r < m2; r++) u1[r] *= rho1 / n1;
+      for (let r = 0; r < m4; r++) u3[r] *= rho3 / n3;
+      rho1 = n1; rho3 = n3;
       if (changed) L = refactor();
     }
   }
