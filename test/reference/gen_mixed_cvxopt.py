@@ -87,8 +87,8 @@ def case(name, seed, n, lam1, lam3, weighted, sigma=0.15):
 
 
 cases = [
-    case("n60-balanced", 21, 60, 0.5, 20.0, False),
-    case("n80-weighted", 22, 80, 0.3, 60.0, True),
+    case("n60-balanced", 21, 60, 0.25, 0.6, False),
+    case("n80-weighted", 22, 80, 0.15, 0.4, True),
     case("n50-kinks-cheap", 23, 50, 0.05, 200.0, False),
     case("n70-bends-cheap", 24, 70, 2.0, 2.0, True),
 ]
