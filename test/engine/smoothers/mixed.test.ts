@@ -52,6 +52,14 @@ describe('mixed trend', () => {
     expect(Math.abs(s1b) / sc).toBeLessThan(1e-12);
   });
 
+  test('a df target is met (kinks + bend knots + 4) at a given width', () => {
+    const r = runAnalysis({ analysis: 'mixed', y: Array.from(y), x: Array.from(x), options: { df: 16, width: 12 * h } });
+    const m = r.smooth!.model as MixedModel;
+    expect(r.smooth!.df).toBe(16);
+    expect(r.smooth!.knots.length + m.bendKnots + 4).toBe(16);
+    expect(r.criterion!.name).toBe('df');
+  });
+
   test('refusals name the offending value', () => {
     expect(() => runAnalysis({ analysis: 'mixed', y: Array.from(y), x: Array.from(x), options: { penalty: 1, df: 10 } })).toThrow(/penalty|df/);
     expect(() => runAnalysis({ analysis: 'mixed', y: Array.from(y), x: Array.from(x), options: { width: -2 } })).toThrow(/-2/);

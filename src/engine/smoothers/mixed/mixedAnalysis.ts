@@ -288,7 +288,29 @@ function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, 
     if (dq < db || (dq === db && q.lambda > best.lambda)) best = q;
   }
   const curve = seen.slice().sort((p, q) => p.lambda - q.lambda).map((q) => ({ penalty: toData1(q.lambda, sc), score: mixedDf(q.fit), df: mixedDf(q.fit), converged: q.fit.status.converged }));
-  return { fit: solveMixed(probs, sc.ys, best.lambda, best.lambda * ratio, full, { admm: best.fit.admm }), lambda: best.lambda, curve };
+  // the exact fits can count a few more or fewer knots than the ADMM's path: a short bisection on the exact fits
+  // (at most 4 doublings or halvings to bracket the target, then 8 halvings of the bracket), keeping the closest
+  const exact = (l: number, st: MixedStart) => { const f = solveMixed(probs, sc.ys, l, l * ratio, full, st); return { lambda: l, fit: f }; };
+  let cur = exact(best.lambda, { admm: best.fit.admm });
+  let closest = cur;
+  const better = (q: typeof cur) => { const dq = Math.abs(mixedDf(q.fit) - target), dc = Math.abs(mixedDf(closest.fit) - target); if (dq < dc || (dq === dc && q.lambda > closest.lambda)) closest = q; };
+  if (mixedDf(cur.fit) !== target) {
+    const up = mixedDf(cur.fit) > target; // df falls as lambda grows
+    let other = cur;
+    for (let j = 0; j < 4; j++) {
+      context.step(0.9, 'matching the target df on exact fits');
+      other = exact(other.lambda * (up ? 2 : 0.5), { admm: other.fit.admm });
+      better(other);
+      if (up ? mixedDf(other.fit) <= target : mixedDf(other.fit) >= target) break;
+    }
+    let lo = Math.log(Math.min(cur.lambda, other.lambda)), hi = Math.log(Math.max(cur.lambda, other.lambda));
+    for (let it = 0; it < 8 && mixedDf(closest.fit) !== target; it++) {
+      const mid = exact(Math.exp(0.5 * (lo + hi)), { admm: closest.fit.admm });
+      better(mid);
+      if (mixedDf(mid.fit) > target) lo = Math.log(mid.lambda); else hi = Math.log(mid.lambda);
+    }
+  }
+  return { fit: closest.fit, lambda: closest.lambda, curve };
 }
 
 function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number, width: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, s: MixedSettings,
