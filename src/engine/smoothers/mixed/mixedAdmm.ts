@@ -19,6 +19,7 @@
  * each for both blocks, eps = `tolerance`. Works in scaled units. Unchecked.
  */
 import type { SolverStatus } from '../../types';
+import { KnotwiseError, showNumber } from '../../errors';
 import { differenceRows } from '../../linalg/differenceRows';
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
 
@@ -103,7 +104,7 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
       const f = factor(ops, rho1, rho3, delta);
       if (f) return f;
       delta *= 10;
-      if (!(delta <= 1e3)) throw new Error(`mixed ADMM: no positive definite system at step sizes ${rho1}, ${rho3}`);
+      if (!(delta <= 1e3)) throw new KnotwiseError('numerical', `the mixed trend's linear system lost its precision (step sizes ${showNumber(rho1)} and ${showNumber(rho3)}); give a larger penalty or use trend filtering of one order.`);
     }
   };
   let L = refactor();
