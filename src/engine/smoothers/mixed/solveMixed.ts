@@ -12,7 +12,9 @@
  * The sum a + c is unique (the loss is strictly convex in it); the split is unique up to that
  * constraint when the L1 terms do not tie (generic data).
  *
- * Method: block coordinate descent on the same machinery as the seasonal decomposition
+ * Method: first the ADMM of {@link mixedAdmm} (banded, O(n) per step) from the given start; path
+ * points and cross-validation folds stop there (`refine` false). Then block coordinate descent on
+ * the same machinery as the seasonal decomposition
  * (solveDecomposition.ts). With c minimised out exactly, the map
  *   F(a) = TF1(y - c*(a); lambda1),   c*(a) = (I - P) TF3(y - a; lambda3)
  * is an exact trend-filtering solve of order 3, the weighted projection P onto straight
@@ -26,6 +28,9 @@
  * 547-560; J. Zhang, B. O'Donoghue and S. Boyd, SIAM J. Optim. 30 (2020) 3170-3197): a step
  * from a mixed point is kept only when it does not raise the objective above the last kept
  * one, else the memory is cleared and a plain step taken from that one.
+ *
+ * If the block steps end above the ADMM's objective (an inner solve that failed), the ADMM's
+ * answer is returned, marked not converged.
  *
  * Stopping rule: a plain step moves the kink component by at most `tolerance` (scaled units:
  * sd of y = 1) at every point; the returned a is the last exact order-1 solve, so block 1's
