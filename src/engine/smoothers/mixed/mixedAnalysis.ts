@@ -383,8 +383,8 @@ export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
 
 /**
  * Longest series on which the penalties are chosen from the data (cross-validation or a df target): the
- * cross-validated choice took about 15 to 40 s at 200 points on a loaded 2-core machine (npm run bench
- * -- --only=mixed), so longer series are refused at once; a given penalty has no limit.
+ * cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine (npm run
+ * bench -- --only=mixed), so longer series are refused at once; a given penalty has no limit.
  */
 export const MIXED_DATA_DRIVEN_LIMIT = 1000;
 
