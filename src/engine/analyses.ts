@@ -11,12 +11,14 @@ import { decomposeAnalysis } from './decompose/decomposeAnalysis';
 import { whittakerAnalysis } from './smoothers/whittaker/whittakerAnalysis';
 import { loessAnalysis } from './smoothers/loess/loessAnalysis';
 import { waveletAnalysis } from './smoothers/wavelet/waveletAnalysis';
+import { mixedAnalysis } from './smoothers/mixed/mixedAnalysis';
 
 registerAnalysis(splineAnalysis);
 registerAnalysis(trendAnalysis);
 registerAnalysis(whittakerAnalysis);
 registerAnalysis(loessAnalysis);
 registerAnalysis(waveletAnalysis);
+registerAnalysis(mixedAnalysis);
 registerAnalysis(autoAnalysis);
 for (const a of CHANGEPOINT_ANALYSES) registerAnalysis(a);
 registerAnalysis(decomposeAnalysis);

@@ -14,6 +14,12 @@ export class RunContext {
   private lastReport = -Infinity;
   private readonly spans: [number, number][] = [];
 
+  /**
+   * True while the automatic choice compares candidates: methods then leave out diagnostics that
+   * only the returned fit needs (the knot bends, {@link knotBends}); the winner's are added after.
+   */
+  comparing = false;
+
   constructor(private readonly control: RunControl = {}) {}
 
   /**

@@ -1,13 +1,15 @@
 /**
  * The automatic choice among smoothers: every registered smoother's variants
- * (the spline; trend filtering of orders 0 to 3; any method that declares
+ * (the spline; trend filtering of orders 0 to 3; the mixed trend; any method that declares
  * `autoVariants`) choose their own penalty by K-fold cross-validation on the
  * same deterministic folds ({@link crossValidate}), so their scores are the
  * same quantity on the same held-out points. The winner is the candidate with
  * the lowest cross-validation error or, with the default rule, the simplest
  * candidate (fewest degrees of freedom) whose error is within one standard
  * error of the lowest (the one-standard-error rule applied across methods;
- * Hastie, Tibshirani & Friedman 2009, section 7.10).
+ * Hastie, Tibshirani & Friedman 2009, section 7.10), by the shared rule of
+ * {@link choosePenalty} applied to the candidates ordered from most to fewest df.
+ * Knot bends ({@link knotBends}) are computed for the winner only.
  *
  * Caveat, stated in the result: each candidate's score is the minimum of its
  * own cross-validation curve, so it is slightly optimistic (the penalty was
@@ -23,6 +25,10 @@ import type { RunContext } from '../analysis/runContext';
 import { KnotwiseError, isKnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
 import { warning } from '../warnings';
+import type { CriterionPoint } from '../types';
+import { choosePenalty } from '../select/choosePenalty';
+import { knotBends } from '../diagnostics/knotBends';
+import { mixedKnotBends, MixedModel } from './mixed/mixedAnalysis';
 
 const pct = (v: number) => `${Math.round(100 * v)}%`;
 
@@ -42,11 +48,26 @@ function explain(rows: CandidateRow[], chosen: number, best: number, rule: strin
   const shape = c.method === 'trend' && c.options.order === 0 ? 'the series moves in steps'
     : c.method === 'trend' && c.options.order === 1 ? 'the series has sharp bends'
       : c.method === 'spline' ? 'the series bends smoothly'
+        : c.method === 'mixed' ? 'the series has sharp kinks in places and smooth bends in others'
         : 'its shape fits the series';
   return `${cap(c.label)} predicted held-out points best: ${shape}; its cross-validation error is ${pct(gain)} lower than ${vs.label}'s${rule === 'cv-simpler' ? ', and no simpler fit came within one standard error' : ''}.`;
 }
 
 const cap = (s: string) => s.charAt(0).toUpperCase() + s.slice(1);
+
+/**
+ * Standard error of a candidate's cross-validation score: that of the curve point at its chosen
+ * penalty, found as the point nearest in log(penalty) (the chosen penalty is a point of the
+ * curve; nearest rather than equal so that rounding in unit conversions cannot lose it). NaN
+ * when the curve carries no standard error. Unchecked.
+ */
+function chosenPointSe(curve: readonly CriterionPoint[] | undefined, penalty: number): number {
+  if (!curve || !curve.length) return NaN;
+  let best = curve[0];
+  const d = (p: CriterionPoint) => Math.abs(Math.log(p.penalty) - Math.log(penalty));
+  for (const p of curve) if (d(p) < d(best)) best = p;
+  return best.se ?? NaN;
+}
 const round = (v: number) => Number(v.toPrecision(3));
 
 /**
@@ -77,43 +98,53 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   const variants = analysisDefinitions('smoother').flatMap((def) => (def.autoVariants ?? []).map((v) => ({ def, v })));
   const rows: CandidateRow[] = [];
   const fits: (AnalysisCore | null)[] = [];
-  variants.forEach(({ def, v }, i) => {
-    const t0 = Date.now();
-    const row: CandidateRow = { method: def.name, options: { ...v.options }, label: v.label, penalty: NaN, df: NaN, cv: NaN, se: NaN, milliseconds: 0 };
-    try {
-      // the season (if any) was taken out once, before the candidates: they smooth the series as it is now
-      // every candidate chooses by cross-validation: through its rule, or through its variant's options (wavelet: threshold=cv)
-      const declares = (name: string) => def.options.some((o) => o.name === name);
-      const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...(declares('season') ? { season: 'none' } : {}) }, def.name).options;
-      if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
-      const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
-      const fit = core.smooth!;
-      if (fit.criterion.name !== 'cv') throw new KnotwiseError('too-few-points', `${v.label} could not be cross-validated on these data (${fit.criterion.name} was used instead).`);
-      const point = fit.criterion.curve?.find((p) => p.penalty === fit.penalty);
-      row.penalty = fit.penalty; row.df = fit.df; row.cv = fit.criterion.value; row.se = point?.se ?? NaN;
-      fits.push(core);
-    } catch (e) {
-      if (!isKnotwiseError(e) || e.code === 'cancelled') throw e;
-      row.skipped = e.message;
-      fits.push(null);
-    }
-    row.milliseconds = Date.now() - t0;
-    rows.push(row);
-  });
+  // candidates leave out the knot bends (only the winner's are shown); restored in any case
+  const wasComparing = context.comparing;
+  context.comparing = true;
+  try {
+    variants.forEach(({ def, v }, i) => {
+      const t0 = Date.now();
+      const row: CandidateRow = { method: def.name, options: { ...v.options }, label: v.label, penalty: NaN, df: NaN, cv: NaN, se: NaN, milliseconds: 0 };
+      try {
+        // the season (if any) was taken out once, before the candidates: they smooth the series as it is now
+        // every candidate chooses by cross-validation: through its rule, or through its variant's options (wavelet: threshold=cv)
+        const declares = (name: string) => def.options.some((o) => o.name === name);
+        const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...(declares('season') ? { season: 'none' } : {}) }, def.name).options;
+        if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
+        const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
+        const fit = core.smooth!;
+        if (fit.criterion.name !== 'cv') throw new KnotwiseError('too-few-points', `${v.label} could not be cross-validated on these data (${fit.criterion.name} was used instead).`);
+        row.penalty = fit.penalty; row.df = fit.df; row.cv = fit.criterion.value; row.se = chosenPointSe(fit.criterion.curve, fit.penalty);
+        fits.push(core);
+      } catch (e) {
+        if (!isKnotwiseError(e) || e.code === 'cancelled') throw e;
+        row.skipped = e.message;
+        fits.push(null);
+      }
+      row.milliseconds = Date.now() - t0;
+      rows.push(row);
+    });
+  } finally {
+    context.comparing = wasComparing;
+  }
   const ok = rows.map((r, i) => i).filter((i) => !rows[i].skipped);
   if (ok.length === 0) throw new KnotwiseError('too-few-points', `no method could be cross-validated with ${folds} folds on ${series.n} points; choose a method and a penalty yourself, or use fewer folds.`);
-  let best = ok[0];
-  for (const i of ok) if (rows[i].cv < rows[best].cv) best = i;
-  let chosen = best;
-  if (rule === 'cv-simpler') {
-    const limit = rows[best].cv + (Number.isFinite(rows[best].se) ? rows[best].se : 0);
-    for (const i of ok) {
-      if (rows[i].cv > limit) continue;
-      const simpler = rows[i].df < rows[chosen].df || (rows[i].df === rows[chosen].df && variants[i].v.simplicity < variants[chosen].v.simplicity);
-      if (simpler) chosen = i;
-    }
+  // the shared rule of choosePenalty on the candidates ordered from the most complex to the simplest
+  // (more df first; at equal df the higher declared simplicity first): its minimum is the lowest
+  // error (ties to the simpler), its one-standard-error pick the simplest within one se of it
+  // with no more df
+  const order = ok.slice().sort((i, j) => rows[j].df - rows[i].df || variants[j].v.simplicity - variants[i].v.simplicity);
+  const curve: CriterionPoint[] = order.map((i) => ({ penalty: NaN, score: rows[i].cv, df: rows[i].df, se: rows[i].se }));
+  const best = order[choosePenalty(curve, 'minimum')];
+  const chosen = rule === 'cv-simpler' ? order[choosePenalty(curve, 'simpler')] : best;
+  const win = { ...fits[chosen]! };
+  // the winner's knot bends, left out while comparing
+  if (win.smooth && win.smooth.bends === undefined) {
+    const fit = win.smooth;
+    const bends = fit.method === 'trend' ? knotBends(series, fit.options.order ?? 1, fit.knots)
+      : fit.method === 'mixed' ? mixedKnotBends(series, fit.knots, fit.model as MixedModel) : undefined;
+    if (bends) win.smooth = { ...fit, bends };
   }
-  const win = fits[chosen]!;
   const reason = explain(rows, chosen, best, rule);
   const notes = [
     warning('note', `Automatic choice among ${ok.length} fits by ${folds}-fold cross-validation on the same held-out points: ${reason} Each score is the minimum of its own curve, so all are slightly optimistic alike.`),

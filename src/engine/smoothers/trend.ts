@@ -249,7 +249,7 @@ export function fitTrend(series: Series, options: FitOptions = {}, context: RunC
     lamScaled = path.scaledGrid[pts.length - 1 - chosen];
     fit = solveTrend(path.problem, lamScaled, { tolerance: s.tolerance, maxIterations: s.maxIterations, seed: pts[chosen].seed });
   }
-  return assemble(series, s, sc, fit, lamScaled, criterion, warnings, dataDriven, options);
+  return assemble(series, s, sc, fit, lamScaled, criterion, warnings, dataDriven, options, !context.comparing);
 }
 
 function interpolatingFit(prob: TrendProblem): TrendFit {
@@ -319,7 +319,7 @@ function searchDf(prob: TrendProblem, path: TrendPath, target: number, s: TrendS
   return { fit, lambda: lam, clamped, maxDf: maxDfReached };
 }
 
-function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions): FitResult {
+function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: TrendFit, lamScaled: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, options: FitOptions, withBends: boolean): FitResult {
   const k = s.order;
   const n = series.n;
   const { x } = series;
@@ -362,7 +362,7 @@ function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: Trend
   return {
     method: 'trend',
     options: { ...options, method: 'trend', order: k, relaxed: s.relaxed, gridSize: s.gridSize, folds: s.folds, tolerance: s.tolerance, maxIterations: s.maxIterations, ...(options.penalty === undefined && options.df === undefined ? { select: criterion.name as 'cv' | 'sure' | 'bic', oneSE: s.oneSE } : {}) },
-    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, bends: knotBends(series, k, knots), warnings, solver: status, model,
+    x, fitted, penalty: toDataPenalty(lamScaled, sc), df, sigma, criterion, knots, bends: withBends ? knotBends(series, k, knots) : undefined, warnings, solver: status, model,
   };
 }
 

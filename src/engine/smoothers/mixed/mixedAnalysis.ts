@@ -1,0 +1,426 @@
+/**
+ * The mixed-smoothness trend: straight pieces with kinks plus smooth bends, for
+ * series that are kinked in one stretch and smooth in another (which defeat every
+ * single-order method: straight pieces draw a smooth turn as a run of small kinks,
+ * smooth bends round every kink off).
+ *
+ *   minimise 1/2 sum_i w_i (y_i - a_i - c_i)^2 + lambda1 ||D(x, 2) a||_1 + lambda3 ||D(x, 4) c||_1,
+ *   c weighted-orthogonal to straight lines (every straight line belongs to a),
+ *
+ * a sum of two L1 trend-filtering components of orders 1 and 3 (R. J. Tibshirani, Ann.
+ * Statist. 42 (2014) 285-323; the sum of trend-filtering components of different orders as
+ * in S.-J. Kim, K. Koh, S. Boyd and D. Gorinevsky, SIAM Review 51 (2009) 339-360, section 6),
+ * solved by {@link solveMixed}.
+ *
+ * Penalties. lambda1 (`penalty`) is in (units of y) x (units of x) x (units of weight), as
+ * trend filtering of order 1; lambda3 = lambda1 (width / 4)^2 with `width` in units of x. A
+ * slope change s spread over a width L costs about 16 s lambda3 / L^2 as a smooth bend and
+ * s lambda1 as kinks, so features narrower than about `width` are drawn as kinks and wider
+ * ones as smooth bends. With neither given both are chosen by K-fold cross-validation on the
+ * shared folds ({@link crossValidate}): for each width of a small grid (4, 12 and 36 mean
+ * spacings of x, those below n / 4), a path of `searchPoints` values of lambda1 log-spaced
+ * from the smallest penalty at which both components are polynomials down to 1e-4 of it, so
+ * 3 x 10 x (folds + 1) mixed fits at the defaults (path and fold fits by the ADMM alone,
+ * {@link mixedAdmm}; the chosen one made exact by the block steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
+ * `cv-simpler` the fewest df within one standard error of it ({@link choosePenalty} on the
+ * grid ordered by df). A df target solves for lambda1 at the given width (default 12 mean
+ * spacings).
+ *
+ * Degrees of freedom: kinks + bend knots + 4, the dimension of the sum of the two spline
+ * spaces (straight lines counted once; Tibshirani & Taylor, Ann. Statist. 40 (2012), for the
+ * generalised lasso). This counts generic fits exactly; a kink whose neighbouring rows are all
+ * bend knots would be counted twice.
+ *
+ * A trend describes the past; its end values are revised as data arrive and it is not a
+ * forecast (every result carries the 'boundary' note).
+ */
+import { KnotwiseError, showNumber } from '../../errors';
+import type { Series } from '../../series';
+import type { Criterion, CriterionPoint, Evaluation, FitResult, Knot, SolverStatus } from '../../types';
+import { Warning, warning } from '../../warnings';
+import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
+import type { ResolvedOptions } from '../../analysis/optionDeclaration';
+import { PENALTY_OPTIONS, SEASON_OPTION } from '../../analysis/penaltyOptions';
+import { QUIET, RunContext } from '../../analysis/runContext';
+import { crossValidate } from '../../select/crossValidate';
+import { noiseDependence } from '../../select/noiseDependence';
+import { choosePenalty, edgeWarning } from '../../select/choosePenalty';
+import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
+import { knotBends } from '../../diagnostics/knotBends';
+import { trendScaling, TrendScaling } from '../trend/trendScaling';
+import { polynomialDual } from '../trend/trendLambdaMax';
+import { interpolateTrend } from '../trend/interpolateTrend';
+import { knotPositions, CV_TOLERANCE } from '../trend/trendPath';
+import { solveMixed, MixedFit, MixedProblems, MixedSolveSettings, MixedStart } from './solveMixed';
+
+/** Widths of the cross-validation grid, in mean spacings of x. */
+export const MIXED_WIDTHS = [4, 12, 36] as const;
+
+/** Width used with a fixed penalty or a df target when none is given, in mean spacings of x. */
+export const MIXED_DEFAULT_WIDTH = 12;
+
+/** Smallest lambda1 of the path relative to its largest. */
+export const MIXED_PATH_RATIO = 1e-4;
+
+/** Settings of {@link fitMixed} (resolved options). */
+export interface MixedSettings {
+  penalty?: number;
+  df?: number;
+  /** In units of x. */
+  width?: number;
+  rule?: 'cv' | 'cv-simpler';
+  folds?: number;
+  searchPoints?: number;
+  /** Largest change of the kink component in a final block step, relative to the sd of y (default 1e-5). */
+  tolerance?: number;
+  /** Most exact block steps (default 100). */
+  maxIterations?: number;
+}
+
+/** State kept for evaluation at new x (the data's units). */
+export interface MixedModel {
+  x: Float64Array;
+  kinks: Float64Array;
+  bends: Float64Array;
+  /** lambda3 in the data's units and the width it came from. */
+  bendPenalty: number;
+  width: number;
+  /** Number of knots of the smooth-bend component, and their rows of D(x, 4) (knot between points r + 1 and r + 3). */
+  bendKnots: number;
+  bendRows: number[];
+  /** Cross-validation of each width tried: its best score, se, df and penalty. */
+  widths?: { width: number; penalty: number; df: number; cv: number; se: number }[];
+}
+
+/** Fewest points: the order-3 component needs 5, cross-validation more. */
+export const MIXED_MIN_POINTS = 6;
+
+/** lambda1 and lambda3 between the data's units and the scaled ones: lambda1 = l1' m c h, lambda3 = l3' m c h^3. */
+function toData1(l: number, sc: TrendScaling): number { return l * sc.m * sc.c * sc.h; }
+function toScaled1(l: number, sc: TrendScaling): number { return l / (sc.m * sc.c * sc.h); }
+
+/** Scaled ratio lambda3' / lambda1' for a width in units of x: (width / (4 h))^2. */
+function ratioOf(width: number, sc: TrendScaling): number { return (width / (4 * sc.h)) ** 2; }
+
+/** Degrees of freedom of a mixed fit: kinks + bend knots + 4. */
+export function mixedDf(fit: MixedFit): number {
+  return fit.kinkRows.length + fit.bendRows.length + 4;
+}
+
+/** The returned fit: the ADMM, then exact block steps. */
+const FULL: MixedSolveSettings = { admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: 100, innerTolerance: 1e-10, innerIterations: 400, refine: true };
+/** Points of a penalty path (their df and warm starts): the ADMM alone. */
+const PATH: MixedSolveSettings = { ...FULL, admmTolerance: 1e-5, admmIterations: 3000, refine: false };
+/** Cross-validation folds: the ADMM alone, to a looser tolerance (they only predict held-out points). */
+const FOLD: MixedSolveSettings = { ...FULL, admmTolerance: 1e-4, admmIterations: 3000, refine: false };
+
+/**
+ * The top of a path at ratio r (scaled): the smallest lambda1 at which the weighted cubic fit
+ * is the solution (lambda3 = r lambda1 at or above lambda_max of order 3, and lambda1 at or
+ * above the order-1 dual of the cubic fit's residual). Unchecked.
+ */
+function pathTop(x: Float64Array, y: Float64Array, w: Float64Array, r: number): number {
+  const cubic = polynomialDual(x, y, w, 3);
+  const resid = Float64Array.from(y, (v, i) => v - cubic.b[i]);
+  const one = polynomialDual(x, resid, w, 1).lambdaMax;
+  const top = Math.max(one, cubic.lambdaMax / r);
+  return top > 0 ? top : 1;
+}
+
+/** One width's path on the full data and its cross-validation. Unchecked. */
+interface WidthPath {
+  width: number;
+  ratio: number;
+  /** Scaled lambda1, decreasing. */
+  grid: Float64Array;
+  fits: MixedFit[];
+  cv: Float64Array;
+  se: Float64Array;
+}
+
+/**
+ * Fits the mixed-smoothness trend to a clean series.
+ *
+ * @param series - clean series (ties merged), at least 6 points
+ * @param s - a fixed penalty (lambda1, data units) with an optional width, a df target, or a
+ *   cross-validation rule (default 'cv', 5 folds, 12 penalties per width)
+ * @throws {@link KnotwiseError} `too-few-points`, `bad-option`, `numerical`
+ * @example
+ * ```ts
+ * const r = fitMixed(seriesFromArrays(x, y), { rule: 'cv' });
+ * (r.model as MixedModel).kinks; // straight pieces with kinks; .bends the smooth part
+ * ```
+ */
+export function fitMixed(series: Series, s: MixedSettings, context: RunContext = QUIET): FitResult {
+  const n = series.n;
+  if (n < MIXED_MIN_POINTS) throw new KnotwiseError('too-few-points', `the mixed trend needs at least ${MIXED_MIN_POINTS} distinct x values; got ${n}.`);
+  const sc = trendScaling(series, 1);
+  const probs: MixedProblems = { x: sc.xs, w: sc.ws };
+  const full: MixedSolveSettings = { ...FULL, ...(s.tolerance !== undefined ? { tolerance: s.tolerance } : {}), ...(s.maxIterations !== undefined ? { maxCycles: s.maxIterations } : {}) };
+  const warnings: Warning[] = [...series.warnings];
+  let fit: MixedFit;
+  let lam1: number;
+  let width: number;
+  let criterion: Criterion;
+  let widths: MixedModel['widths'];
+  let dataDriven = false;
+  let stoppingNote = '';
+  if (s.width !== undefined && !(s.width > 0)) throw new KnotwiseError('bad-option', `width must be a positive number of units of x; got ${showNumber(s.width)}.`);
+  if (s.penalty !== undefined) {
+    if (!(s.penalty > 0)) throw new KnotwiseError('bad-option', `penalty must be > 0 for the mixed trend; got ${showNumber(s.penalty)}.`);
+    width = s.width ?? MIXED_DEFAULT_WIDTH * sc.h;
+    lam1 = toScaled1(s.penalty, sc);
+    context.step(0.1, 'fitting kinks and bends');
+    fit = solveMixed(probs, sc.ys, lam1, lam1 * ratioOf(width, sc), full);
+    criterion = { name: 'fixed', value: NaN };
+  } else if (s.df !== undefined) {
+    width = s.width ?? MIXED_DEFAULT_WIDTH * sc.h;
+    const r = solveMixedForDf(probs, sc, ratioOf(width, sc), s.df, s.searchPoints ?? 12, full, context);
+    fit = r.fit; lam1 = r.lambda;
+    criterion = { name: 'df', value: mixedDf(fit), curve: r.curve, atEdge: false };
+    stoppingNote = `; lambda1 by bisection on log(lambda1) for df ${showNumber(s.df)} (df moves in whole steps)`;
+    if (mixedDf(fit) !== s.df) warnings.push(warning('target-clamped', `df moves in whole steps (kinks + bend knots + 4); ${showNumber(s.df)} was met as closely as possible: ${mixedDf(fit)}.`));
+  } else {
+    dataDriven = true;
+    const rule = s.rule ?? 'cv';
+    const K = Math.max(2, Math.min(s.folds ?? 5, Math.floor(n / 3)));
+    const G = s.searchPoints ?? 10;
+    const list = s.width !== undefined ? [s.width] : MIXED_WIDTHS.filter((v, i) => i === 0 || v <= n / 4).map((v) => v * sc.h);
+    const plan = noiseDependence(series.y, K); // once: every width and penalty shares the folds
+    const paths: WidthPath[] = [];
+    list.forEach((wd, i) => {
+      paths.push(context.part(i / list.length, (i + 1) / list.length, () => widthPath(series, sc, probs, wd, G, K, plan, full, context)));
+    });
+    // every (width, penalty) point, ordered from most to fewest df (then larger penalty): later is simpler
+    const all: { p: number; j: number; point: CriterionPoint }[] = [];
+    paths.forEach((pa, p) => pa.fits.forEach((f, j) => all.push({ p, j, point: { penalty: toData1(pa.grid[j], sc), score: pa.cv[j], se: pa.se[j], df: mixedDf(f) } })));
+    all.sort((u, v) => v.point.df - u.point.df || u.point.penalty - v.point.penalty);
+    const pick = all[choosePenalty(all.map((a) => a.point), rule === 'cv-simpler' ? 'simpler' : 'minimum')];
+    const chosen = paths[pick.p];
+    width = chosen.width;
+    lam1 = chosen.grid[pick.j];
+    context.step(1, 'exact fit at the chosen penalties');
+    fit = solveMixed(probs, sc.ys, lam1, lam1 * chosen.ratio, full, { admm: chosen.fits[pick.j].admm });
+    widths = paths.map((pa) => {
+      let b = 0;
+      for (let j = 1; j < pa.cv.length; j++) if (pa.cv[j] < pa.cv[b]) b = j;
+      return { width: pa.width, penalty: toData1(pa.grid[b], sc), df: mixedDf(pa.fits[b]), cv: pa.cv[b], se: pa.se[b] };
+    });
+    // the chosen width's curve, in increasing penalty
+    const curve: CriterionPoint[] = [];
+    for (let j = chosen.grid.length - 1; j >= 0; j--) {
+      curve.push({ penalty: toData1(chosen.grid[j], sc), score: chosen.cv[j], se: chosen.se[j], df: mixedDf(chosen.fits[j]), knots: chosen.fits[j].kinkRows.length + chosen.fits[j].bendRows.length, converged: chosen.fits[j].status.converged });
+    }
+    const atEdge = pick.j === 0 || pick.j === chosen.grid.length - 1;
+    criterion = { name: 'cv', value: pick.point.score, curve, atEdge };
+    if (atEdge) warnings.push(edgeWarning('cross-validation', pick.j === chosen.grid.length - 1 ? 'rough' : 'smooth', toData1(lam1, sc), 'a cubic polynomial'));
+    warnings.push(warning('note', `Both penalties chosen by ${K}-fold cross-validation over ${list.length} widths (${list.map((v) => showNumber(Number(v.toPrecision(3)))).join(', ')} in units of x) x ${G} penalties: width ${showNumber(Number(width.toPrecision(3)))} (features narrower than this are drawn as kinks, wider ones as smooth bends).`));
+    stoppingNote = `; penalties from a grid of ${list.length} widths x ${G} penalties by ${rule}`;
+  }
+  return assemble(series, sc, fit, lam1, width, criterion, warnings, dataDriven, s, widths, stoppingNote, !context.comparing);
+}
+
+/** The full-data path at one width and its cross-validation on the shared folds. Unchecked. */
+function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width: number, G: number, K: number, plan: ReturnType<typeof noiseDependence>, full: MixedSolveSettings, context: RunContext): WidthPath {
+  const n = series.n;
+  const ratio = ratioOf(width, sc);
+  const top = pathTop(sc.xs, sc.ys, sc.ws, ratio);
+  const grid = new Float64Array(G);
+  for (let j = 0; j < G; j++) grid[j] = top * Math.pow(MIXED_PATH_RATIO, j / (G - 1));
+  const fits: MixedFit[] = [];
+  let start: MixedStart = {};
+  for (let j = 0; j < G; j++) {
+    context.step(j / G / (K + 1), 'fitting kinks and bends along the penalty path');
+    const f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, PATH, start);
+    fits.push(f);
+    start = { admm: f.admm };
+  }
+  let swAll = 0;
+  for (let i = 0; i < n; i++) swAll += sc.ws[i];
+  const predict = (tr: Int32Array, te: Int32Array, pens: Float64Array): Float64Array[] => {
+    const xt = Float64Array.from(tr, (i) => sc.xs[i]);
+    const yt = Float64Array.from(tr, (i) => sc.ys[i]);
+    const wt = Float64Array.from(tr, (i) => sc.ws[i]);
+    const xh = Float64Array.from(te, (i) => sc.xs[i]);
+    let swt = 0;
+    for (const i of tr) swt += sc.ws[i];
+    const sub: MixedProblems = { x: xt, w: wt };
+    let st: MixedStart = {};
+    return Array.from(pens, (l) => {
+      const f = solveMixed(sub, yt, l * (swt / swAll), l * ratio * (swt / swAll), FOLD, st);
+      st = { admm: f.admm };
+      const pa = interpolateTrend(xt, f.kinks, 1, xh).value, pc = interpolateTrend(xt, f.bends, 3, xh).value;
+      return Float64Array.from(pa, (v, i) => sc.y0 + sc.c * (v + pc[i]));
+    });
+  };
+  const cv = context.part(1 / (K + 1), 1, () => crossValidate(series.y, series.w, K, grid, predict, context, 'cross-validation of kinks and bends', plan));
+  return { width, ratio, grid, fits, cv: cv.score, se: cv.se };
+}
+
+/** lambda1 (scaled) whose df is closest to the target at a fixed ratio: a path, then bisection on log(lambda1). Unchecked. */
+function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, target: number, G: number, full: MixedSolveSettings, context: RunContext): { fit: MixedFit; lambda: number; curve: CriterionPoint[] } {
+  const top = pathTop(sc.xs, sc.ys, sc.ws, ratio);
+  const lo = top * MIXED_PATH_RATIO * 1e-2;
+  const seen: { lambda: number; fit: MixedFit }[] = [];
+  const at = (l: number, start: MixedStart): MixedFit => { const f = solveMixed(probs, sc.ys, l, l * ratio, PATH, start); seen.push({ lambda: l, fit: f }); return f; };
+  // coarse path from the top down until the df passes the target
+  let hiL = top, loL = lo;
+  let prev: MixedFit | undefined;
+  for (let j = 0; j < G; j++) {
+    context.step(j / (G + 30), 'looking for the penalty with the target df');
+    const l = top * Math.pow(lo / top, j / (G - 1));
+    prev = at(l, prev ? { admm: prev.admm } : {});
+    if (mixedDf(prev) >= target) { loL = l; break; }
+    hiL = l;
+  }
+  let a = Math.log(loL), b = Math.log(hiL);
+  for (let it = 0; it < 30 && b - a > 1e-6; it++) {
+    context.step((G + it) / (G + 30), 'looking for the penalty with the target df');
+    const best = seen.reduce((p, q) => (Math.abs(mixedDf(q.fit) - target) < Math.abs(mixedDf(p.fit) - target) ? q : p));
+    if (mixedDf(best.fit) === target) break;
+    const mid = 0.5 * (a + b);
+    const f = at(Math.exp(mid), { admm: best.fit.admm });
+    if (mixedDf(f) > target) a = mid; else b = mid;
+  }
+  let best = seen[0];
+  for (const q of seen) {
+    const dq = Math.abs(mixedDf(q.fit) - target), db = Math.abs(mixedDf(best.fit) - target);
+    if (dq < db || (dq === db && q.lambda > best.lambda)) best = q;
+  }
+  const curve = seen.slice().sort((p, q) => p.lambda - q.lambda).map((q) => ({ penalty: toData1(q.lambda, sc), score: mixedDf(q.fit), df: mixedDf(q.fit), converged: q.fit.status.converged }));
+  // the exact fits can count a few more or fewer knots than the ADMM's path: a short bisection on the exact fits
+  // (at most 4 doublings or halvings to bracket the target, then 8 halvings of the bracket), keeping the closest
+  const exact = (l: number, st: MixedStart) => { const f = solveMixed(probs, sc.ys, l, l * ratio, full, st); return { lambda: l, fit: f }; };
+  let cur = exact(best.lambda, { admm: best.fit.admm });
+  let closest = cur;
+  const better = (q: typeof cur) => { const dq = Math.abs(mixedDf(q.fit) - target), dc = Math.abs(mixedDf(closest.fit) - target); if (dq < dc || (dq === dc && q.lambda > closest.lambda)) closest = q; };
+  if (mixedDf(cur.fit) !== target) {
+    const up = mixedDf(cur.fit) > target; // df falls as lambda grows
+    let other = cur;
+    for (let j = 0; j < 4; j++) {
+      context.step(0.9, 'matching the target df on exact fits');
+      other = exact(other.lambda * (up ? 2 : 0.5), { admm: other.fit.admm });
+      better(other);
+      if (up ? mixedDf(other.fit) <= target : mixedDf(other.fit) >= target) break;
+    }
+    let lo = Math.log(Math.min(cur.lambda, other.lambda)), hi = Math.log(Math.max(cur.lambda, other.lambda));
+    for (let it = 0; it < 8 && mixedDf(closest.fit) !== target; it++) {
+      const mid = exact(Math.exp(0.5 * (lo + hi)), { admm: closest.fit.admm });
+      better(mid);
+      if (mixedDf(mid.fit) > target) lo = Math.log(mid.lambda); else hi = Math.log(mid.lambda);
+    }
+  }
+  return { fit: closest.fit, lambda: closest.lambda, curve };
+}
+
+function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number, width: number, criterion: Criterion, warnings: Warning[], dataDriven: boolean, s: MixedSettings,
+  widths: MixedModel['widths'], stoppingNote: string, withBends: boolean): FitResult {
+  const n = series.n;
+  const { x } = series;
+  const kinks = Float64Array.from(fit.kinks, (v) => sc.y0 + sc.c * v);
+  const bends = Float64Array.from(fit.bends, (v) => sc.c * v);
+  const fitted = Float64Array.from(kinks, (v, i) => v + bends[i]);
+  // kinks in the data's units: slope change c (D' a')_r / h at point r + 1
+  const d2 = kinkChanges(sc.xs, fit.kinks, fit.kinkRows);
+  const kx = knotPositions(x, 1, fit.kinkRows);
+  const knots: Knot[] = fit.kinkRows.map((r, j) => ({ x: kx[j], index: r + 1, row: series.firstRow[r + 1], change: (sc.c * d2[j]) / sc.h }));
+  const df = mixedDf(fit);
+  let rss = 0;
+  const resid = new Float64Array(n);
+  for (let i = 0; i < n; i++) { resid[i] = series.y[i] - fitted[i]; rss += series.w[i] * resid[i] * resid[i]; }
+  const sigma = n > df ? Math.sqrt(rss / (n - df)) : NaN;
+  const status: SolverStatus = { ...fit.status, stoppingRule: fit.status.stoppingRule + stoppingNote };
+  if (!status.converged) {
+    if (!(status.achieved <= 1e-2)) {
+      throw new KnotwiseError('numerical', `the mixed trend did not converge on these ${n} points (the kink component still moved by ${showNumber(status.achieved)} sd of y in the last of ${status.iterations} steps, asked ${showNumber(status.tolerance)}), so no reliable fit exists to return. Try a larger penalty, a fixed width, or trend filtering of one order.`);
+    }
+    warnings.push(warning('not-converged', `The mixed-trend solver stopped after ${status.iterations} steps with the kink component still moving by ${showNumber(status.achieved)} sd of y (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum. Increase max-iterations.`));
+  }
+  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name, s.folds ?? 5));
+  warnings.push(boundaryWarning());
+  const bendPenalty = toData1(lam1, sc) * (width / 4) ** 2;
+  const model: MixedModel = { x, kinks, bends, bendPenalty, width, bendKnots: fit.bendRows.length, bendRows: fit.bendRows.slice(), widths };
+  return {
+    method: 'mixed',
+    options: { method: 'mixed', ...(s.penalty !== undefined ? { penalty: s.penalty } : {}), ...(s.df !== undefined ? { df: s.df } : {}), ...(dataDriven ? { select: 'cv' as const, oneSE: s.rule === 'cv-simpler', folds: s.folds ?? 5 } : {}) },
+    x, fitted, penalty: toData1(lam1, sc), df, sigma, criterion, knots, bends: withBends ? mixedKnotBends(series, knots, model) : undefined, warnings, solver: status, model,
+  };
+}
+
+/**
+ * The kinks as an analyst reads them ({@link knotBends}): neighbouring kinks merged, each sized on the
+ * unpenalised refit of the straight pieces to the series less its smooth bends. Unchecked.
+ */
+export function mixedKnotBends(series: Series, knots: Knot[], model: MixedModel): ReturnType<typeof knotBends> {
+  return knots.length ? knotBends({ ...series, y: Float64Array.from(series.y, (v, i) => v - model.bends[i]) }, 1, knots) : [];
+}
+
+/** (D(x, 2) a)_r at the given rows (scaled units). Unchecked. */
+function kinkChanges(x: Float64Array, a: Float64Array, rows: number[]): Float64Array {
+  return Float64Array.from(rows, (r) => {
+    const s1 = (a[r + 1] - a[r]) / (x[r + 1] - x[r]), s2 = (a[r + 2] - a[r + 1]) / (x[r + 2] - x[r + 1]);
+    return s2 - s1;
+  });
+}
+
+/**
+ * Evaluates a mixed fit at new x: the order-1 interpolant of the kink component plus the
+ * order-3 (falling factorial) interpolant of the smooth bends ({@link interpolateTrend}).
+ * Values beyond the data continue the end pieces and are flagged; they are not a forecast.
+ *
+ * @example
+ * ```ts
+ * evaluateMixed(fitMixed(series, {}), Float64Array.of(2.5)).value;
+ * ```
+ */
+export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
+  const m = result.model as MixedModel | undefined;
+  if (!m || !ArrayBuffer.isView(m.kinks) || !ArrayBuffer.isView(m.bends)) throw new KnotwiseError('bad-option', 'this result does not come from the mixed trend; evaluate it with its own method.');
+  const a = interpolateTrend(m.x, m.kinks, 1, at);
+  const c = interpolateTrend(m.x, m.bends, 3, at).value;
+  return { x: Float64Array.from(at), value: Float64Array.from(a.value, (v, i) => v + c[i]), extrapolated: a.extrapolated };
+}
+
+/**
+ * Longest series on which the penalties are chosen from the data (cross-validation or a df target): the
+ * cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine (npm run
+ * bench -- --only=mixed), so longer series are refused at once; a given penalty has no limit.
+ */
+export const MIXED_DATA_DRIVEN_LIMIT = 1000;
+
+/** The declared analysis 'mixed'. */
+export const mixedAnalysis: AnalysisDefinition = {
+  name: 'mixed',
+  family: 'smoother',
+  label: 'Straight pieces with kinks plus smooth bends (for series kinked in one stretch and smooth in another)',
+  summary: 'sum of two L1 trend-filtering components, order 1 (kinks) and order 3 (smooth bends), both penalties by cross-validation (Tibshirani 2014; Kim, Koh, Boyd & Gorinevsky 2009)',
+  options: [
+    ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler'], defaultRule: 'cv', folds: 5, searchPoints: 10 }).map((o) => (o.name === 'penalty'
+      ? { ...o, help: 'a fixed penalty on kinks (lambda1, units of y times units of x) instead of a rule; the penalty on bends is lambda1 (width / 4)^2' }
+      : o.name === 'searchPoints' ? { ...o, max: 60, help: 'number of penalties tried per width (default 10)' } : o)),
+    { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 12 and 36 spacings of x; 12 spacings with a penalty or df)' },
+    SEASON_OPTION,
+    { name: 'tolerance', kind: 'number', above: 0, max: 0.001, help: 'largest change of the kinks in a final solver step, relative to the sd of y (default 1e-5)' },
+    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'limit of the exact block steps after the ADMM (default 100)' },
+  ],
+  ties: 'merge',
+  minPoints: () => MIXED_MIN_POINTS,
+  autoVariants: [{ label: 'straight pieces with kinks plus smooth bends (mixed trend)', options: {}, simplicity: 4 }],
+  run(series: Series, o: ResolvedOptions, context: RunContext) {
+    if (o.penalty === undefined && series.n > MIXED_DATA_DRIVEN_LIMIT) {
+      throw new KnotwiseError('bad-data', `the mixed trend chooses its penalties from the data on at most ${MIXED_DATA_DRIVEN_LIMIT.toLocaleString('en-US')} points; this series has ${series.n.toLocaleString('en-US')}, which would take minutes. Give a penalty (penalty=...) and a width, or use a shorter range of rows.`);
+    }
+    const smooth = fitMixed(series, {
+      penalty: o.penalty as number | undefined,
+      df: o.df as number | undefined,
+      width: o.width as number | undefined,
+      rule: o.rule as MixedSettings['rule'],
+      folds: o.folds as number | undefined,
+      searchPoints: o.searchPoints as number | undefined,
+      tolerance: o.tolerance as number | undefined,
+      maxIterations: o.maxIterations as number | undefined,
+    }, context);
+    return { fitted: smooth.fitted, warnings: smooth.warnings, solver: smooth.solver, criterion: smooth.criterion, smooth };
+  },
+  evaluate: (result, x) => evaluateMixed(result.smooth!, x),
+};

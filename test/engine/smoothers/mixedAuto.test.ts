@@ -1,0 +1,30 @@
+/**
+ * The automatic choice with the mixed trend among its candidates: the mixed trend is compared on
+ * the same folds, each candidate's standard error is that of its own curve point, the pick follows
+ * the shared one-standard-error rule, and knot bends are computed for the winner only.
+ * Series: invented, seeded (mixedSeries.ts).
+ */
+import * as bendsModule from '../../../src/engine/diagnostics/knotBends';
+import { runAnalysis } from '../../../src/engine';
+import { kinkedThenSmoothSeries } from './mixedSeries';
+
+test('auto compares the mixed trend and computes knot bends for the winner only', () => {
+  const { x, y } = kinkedThenSmoothSeries(120, 8, 0.1, 3);
+  const spy = jest.spyOn(bendsModule, 'knotBends');
+  const r = runAnalysis({ analysis: 'auto', y: Array.from(y), x: Array.from(x) });
+  const c = r.comparison!;
+  const mixed = c.rows.find((q) => q.method === 'mixed')!;
+  expect(mixed.skipped).toBeUndefined();
+  expect(Number.isFinite(mixed.cv) && Number.isFinite(mixed.se) && mixed.se > 0).toBe(true);
+  // every compared trend-type candidate has knots, but bends are computed once at most: for the winner
+  const winner = c.rows[c.chosen];
+  const bendsExpected = winner.method === 'trend' || winner.method === 'mixed' ? 1 : 0;
+  expect(spy).toHaveBeenCalledTimes(bendsExpected);
+  if (bendsExpected) expect(r.smooth!.bends).toBeDefined();
+  // the one-standard-error rule: the chosen row is within one se of the best and has no more df than it
+  const best = c.rows[c.best];
+  expect(winner.cv).toBeLessThanOrEqual(best.cv + best.se);
+  expect(winner.df).toBeLessThanOrEqual(best.df);
+  for (const q of c.rows) if (!q.skipped && q.cv <= best.cv + best.se && q.df <= best.df) expect(winner.df).toBeLessThanOrEqual(q.df);
+  spy.mockRestore();
+}, 600000);
