@@ -107,6 +107,9 @@ export function commands(): CommandSpec[] {
   return [fit, breaks, decompose];
 }
 
+/** One help line: the flag in a column of 28, its help after it, or on the next line when the flag is longer. */
+const helpLine = (flag: string, help: string): string => (flag.length < 28 ? `  ${flag.padEnd(28)} ${help}` : `  ${flag}\n  ${' '.repeat(28)} ${help}`);
+
 /** The help text, generated from the command tables and, for one method, from its declarations. */
 export function helpText(topic?: string): string {
   const lines = ['knotwise: smoothing, knots and changepoints for series in CSV files and .xlsx workbooks', ''];
@@ -116,14 +119,14 @@ export function helpText(topic?: string): string {
     lines.push(`${one.name}: ${one.label}`, `  ${one.summary}`, '');
     for (const d of one.options) {
       const flag = `--${dashedName(d.name)}` + (d.kind === 'switch' ? '' : ` ${valueName(d)}`);
-      lines.push(`  ${flag.padEnd(28)} ${d.help}${d.default !== undefined ? ` [default ${Array.isArray(d.default) ? d.default.join(',') : d.default}]` : ''}`);
+      lines.push(helpLine(flag, `${d.help}${d.default !== undefined ? ` [default ${Array.isArray(d.default) ? d.default.join(',') : d.default}]` : ''}`));
       for (const [c, h] of Object.entries(d.choiceHelp ?? {})) lines.push(`      ${c.padEnd(12)} ${h}`);
     }
     return lines.join('\n');
   }
   for (const c of commands()) {
     lines.push(`${c.usage}`, `  ${c.summary}`);
-    for (const o of c.options) if (!o.hidden) lines.push(`  ${(o.flag + (o.value ? (o.implied !== undefined ? `[=${o.value}]` : ' ' + o.value) : '')).padEnd(28)} ${o.help}`);
+    for (const o of c.options) if (!o.hidden) lines.push(helpLine(o.flag + (o.value ? (o.implied !== undefined ? `[=${o.value}]` : ' ' + o.value) : ''), o.help));
     lines.push('');
   }
   lines.push('Methods and models:');
