@@ -18,6 +18,7 @@
  */
 import type { Cell } from '../engine/series';
 import { isoToSerial, looksLikeIsoDate } from '../present/isoDate';
+import { excelErrorCell } from '../present/excelErrors';
 
 export interface Table {
   header: string[];
@@ -81,8 +82,6 @@ export function parseCsv(text: string, delimiter = ','): Table {
 
 /** A plain decimal numeral, nothing around it (no spaces, separators, signs of currency or percent). */
 const PLAIN_NUMBER = /^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$/;
-/** Excel's error values as a worksheet saved as CSV writes them. */
-const EXCEL_ERRORS = new Set(['#NULL!', '#DIV/0!', '#VALUE!', '#REF!', '#NAME?', '#NUM!', '#N/A', '#GETTING_DATA', '#SPILL!', '#CALC!', '#FIELD!', '#BUSY!', '#BLOCKED!', '#CONNECT!', '#UNKNOWN!']);
 const NOT_FINITE: Record<string, number> = { nan: NaN, infinity: Infinity, '+infinity': Infinity, '-infinity': -Infinity, inf: Infinity, '+inf': Infinity, '-inf': -Infinity };
 
 /** One field as a cell, by the rule above (an ISO date becomes its Excel serial). */
@@ -92,8 +91,9 @@ export function fieldToCell(f: string): Cell {
   const t = f.trim();
   const d = isoToSerial(t);
   if (d !== undefined) return d;
+  const error = excelErrorCell(t);
+  if (error) return error;
   const upper = t.toUpperCase();
-  if (EXCEL_ERRORS.has(upper)) return { error: upper };
   if (upper === 'TRUE' || upper === 'FALSE') return upper === 'TRUE';
   const lower = t.toLowerCase();
   if (lower in NOT_FINITE) return NOT_FINITE[lower];

@@ -5,3 +5,4 @@ export * from './formatNumber';
 export * from './cellAddress';
 export * from './describe';
 export * from './tables';
+export * from './excelErrors';

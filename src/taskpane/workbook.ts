@@ -6,6 +6,7 @@
  * cells changed.
  */
 import { parseRangeAddress, rangeName } from '../present/cellAddress';
+import { excelErrorCell } from '../present/excelErrors';
 
 /** A block of cells read from the workbook. */
 export interface CellBlock {
@@ -88,11 +89,13 @@ export class ExcelWorkbook implements Workbook {
   async readSelection(): Promise<CellBlock> {
     return Excel.run(async (ctx) => {
       const r = ctx.workbook.getSelectedRange();
-      r.load(['values', 'address', 'numberFormat']);
+      r.load(['values', 'valueTypes', 'address', 'numberFormat']);
       await ctx.sync();
+      // an error cell's value is its literal ("#N/A"); its value type says it is an error, not text
+      const values = r.values.map((row, i) => row.map((v, j) => (r.valueTypes[i]?.[j] === 'Error' ? { error: String(v) } : v)));
       const fmt = r.numberFormat.map((row) => String(row[0] ?? ''));
       const dates = fmt.slice(1).some((f) => /[dy]/i.test(f.replace(/"[^"]*"/g, '')) && !/^general$/i.test(f));
-      return { address: r.address, values: r.values, firstColumnDates: dates };
+      return { address: r.address, values, firstColumnDates: dates };
     });
   }
 
@@ -219,7 +222,8 @@ export class PageWorkbook implements Workbook {
     const { x, y } = this.selection;
     const cols = x >= 0 ? [x, y] : [y];
     const first = Math.min(...cols), last = Math.max(...cols);
-    const values = this.cells.map((r) => cols.map((c) => r[c] ?? ''));
+    // the in-page sheet holds what was typed, pasted or read; an error literal (spaces and case aside, as the CLI reads CSV) stands for the error value Excel makes of it
+    const values = this.cells.map((r) => cols.map((c) => { const v = r[c] ?? ''; return (typeof v === 'string' && excelErrorCell(v)) || v; }));
     return {
       address: rangeName(this.name, first, 1, last, this.cells.length),
       values, firstColumnDates: x >= 0 && !!this.dateColumns[x], columns: cols,

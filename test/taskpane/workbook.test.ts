@@ -10,11 +10,11 @@ import { OfficeMockObject } from 'office-addin-mock';
 jest.mock('office-addin-manifest', () => ({
   OfficeApp: { Excel: 'excel', OneNote: 'onenote', Outlook: 'outlook', Project: 'project', PowerPoint: 'powerpoint', Word: 'word' },
 }));
-import { ChartSpec, ExcelWorkbook, WriteBlock, WriteError } from '../../src/taskpane/workbook';
+import { ChartSpec, ExcelWorkbook, PageWorkbook, WriteBlock, WriteError } from '../../src/taskpane/workbook';
 
 interface Series { name?: string; values?: string; x?: string; chartType?: string; markerStyle?: string; markerSize?: number }
 
-function excelMock(opts: { failOnSync?: number; used?: string[]; selected?: { address: string; values: unknown[][]; numberFormat: string[][] } } = {}) {
+function excelMock(opts: { failOnSync?: number; used?: string[]; selected?: { address: string; values: unknown[][]; numberFormat: string[][]; valueTypes?: string[][] } } = {}) {
   const ranges: any[] = [];
   const charts: any[] = [];
   const sheets: string[] = [];
@@ -53,7 +53,10 @@ function excelMock(opts: { failOnSync?: number; used?: string[]; selected?: { ad
       },
     },
   };
-  const selected: any = new OfficeMockObject(opts.selected ?? { address: 'Sheet1!A1', values: [['']], numberFormat: [['General']] });
+  const sel = opts.selected ?? { address: 'Sheet1!A1', values: [['']], numberFormat: [['General']] };
+  // Office.js value types: Double for numbers, String for text, Empty for blanks, unless the test gives them
+  const valueTypes = sel.valueTypes ?? sel.values.map((row) => row.map((v) => (typeof v === 'number' ? 'Double' : v === '' ? 'Empty' : 'String')));
+  const selected: any = new OfficeMockObject({ ...sel, valueTypes });
   const mock: any = new OfficeMockObject({
     context: {
       workbook: {
@@ -94,6 +97,17 @@ describe('ExcelWorkbook with office-addin-mock', () => {
     const plain = excelMock({ selected: { address: 'Sheet1!A1:B3', values, numberFormat: [['General', 'General'], ['0', 'General'], ['General', 'General']] } });
     (global as any).Excel = plain.mock;
     expect((await new ExcelWorkbook().readSelection()).firstColumnDates).toBe(false);
+  });
+
+  test('reads an error cell as an error value (its value type is Error), and text that looks like one as text', async () => {
+    const values = [['week', 'orders'], [44928, '#N/A'], [44935, '#N/A'], [44942, 448]];
+    const valueTypes = [['String', 'String'], ['Double', 'Error'], ['Double', 'String'], ['Double', 'Double']];
+    const m = excelMock({ selected: { address: 'Sheet1!A1:B4', values, numberFormat: values.map(() => ['General', 'General']), valueTypes } });
+    (global as any).Excel = m.mock;
+    const b = await new ExcelWorkbook().readSelection();
+    expect(b.values[1][1]).toEqual({ error: '#N/A' });
+    expect(b.values[2][1]).toBe('#N/A');
+    expect(b.values[3]).toEqual([44942, 448]);
   });
 
   test('writes each block to its range with values and number formats, one sync each, on the named sheet', async () => {
@@ -164,5 +178,14 @@ describe('ExcelWorkbook with office-addin-mock', () => {
     const items = m.charts[0].series.items;
     expect(items).toHaveLength(2);
     expect(items.every((s: Series) => s.x === undefined)).toBe(true);
+  });
+});
+
+describe('PageWorkbook (the preview sheet)', () => {
+  test('reads an error literal as the error value Excel would make of it, and other text as text', async () => {
+    const wb = new PageWorkbook('Orders', ['week', 'orders'], [[44928, '#N/A'], [44935, ' #div/0! '], [44942, 'n/a'], [44949, 448]], [true, false], { x: 0, y: 1 });
+    const b = await wb.readSelection();
+    expect(b.values.slice(1).map((r) => r[1])).toEqual([{ error: '#N/A' }, { error: '#DIV/0!' }, 'n/a', 448]);
+    expect(b.firstColumnDates).toBe(true);
   });
 });
