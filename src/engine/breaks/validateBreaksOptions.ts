@@ -62,7 +62,8 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
     }
     crops = [c[0], c[1]];
   }
-  const minDefault = model === 'meanvar' ? 2 : 1;
+  // volatility: 3 by default (a two-point variance has one degree of freedom; see changepointAnalyses), at least 2
+  const minDefault = model === 'meanvar' ? 3 : 1;
   const minSegment = options.minSegment ?? minDefault;
   if (typeof minSegment !== 'number' || !Number.isInteger(minSegment) || minSegment < 1) {
     throw new KnotwiseError('bad-option', `minSegment must be a whole number >= 1; got ${show(minSegment)}.`);
