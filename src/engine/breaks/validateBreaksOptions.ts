@@ -31,7 +31,7 @@ const show = describeValue;
 
 /**
  * Checks every option of {@link findBreaks} and fills defaults: penalty 'bic',
- * minSegment 1 (2 for 'meanvar'), quantiles 10, maxRuns 200, robust true ('mean'),
+ * minSegment 1 (3 for 'meanvar', lowered by findBreaks on shorter series), quantiles 10, maxRuns 200, robust true ('mean'),
  * noise 'correlated' ('mean', 'meanvar', 'slope'), season 'auto'.
  *
  * @throws {@link KnotwiseError} `bad-option` naming the option and printing the offending value
