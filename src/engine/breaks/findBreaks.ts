@@ -86,7 +86,7 @@ import { warning } from '../warnings';
  */
 export function findBreaks(series: Series, options: BreaksOptions): BreaksResult {
   const o = validateBreaksOptions(options);
-  // the volatility model's default of 3 points a segment, lowered to the series' length on a shorter series
+  // the volatility model's default of 5 points a segment, lowered to the series' length on a shorter series
   if (options.minSegment === undefined && o.model === 'meanvar') o.minSegment = Math.min(o.minSegment, Math.max(2, series.n));
   if (series.n < Math.max(2, o.minSegment)) {
     throw new KnotwiseError('too-few-points', `changepoints need at least ${Math.max(2, o.minSegment)} usable points (minSegment ${o.minSegment}); got ${series.n}.`);

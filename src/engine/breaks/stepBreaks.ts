@@ -6,6 +6,20 @@ import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
 import { warning, listRows, type Warning } from '../warnings';
 import { meanVarCost, MEANVAR_FLOOR } from './costMeanVar';
+import { differenceSigma } from '../robustSigma';
+
+/**
+ * The volatility model's quietest segment, as a share of the series' noise
+ * standard deviation read from its differences (robust to level shifts and
+ * trends): no segment's standard deviation is taken below a tenth of it. A segment of a few near-equal values otherwise has a likelihood that grows
+ * without bound as its variance shrinks, and was reported as a change in its own
+ * right (three weekly values within one unit of each other in a series whose noise
+ * sd is 13). Real calm spells (a third or a fifth of the usual spread) stay well
+ * above the floor; a spell calmer than a tenth is still found, reported at this
+ * floor, with a note. Because the floored cost is a minimum over variances at or
+ * above the floor, PELT's pruning stays exact.
+ */
+export const QUIETEST_SEGMENT = 0.1;
 import { recordingResolution } from './recordingResolution';
 import { poissonCost } from './costPoisson';
 import { distributionCost } from './costDistribution';
@@ -57,8 +71,15 @@ export function stepCost(series: Series, o: ResolvedBreaksOptions, exposure?: Fl
         throw new KnotwiseError('bad-data', `the values span more than about 1e150 times their typical spread (${showNumber(scale)}), so the variance cost overflows; remove the far-off values, or use the level model, which sets single far-off values aside as spikes.`);
       }
       const q = recordingResolution(y);
-      const floor = q > 0 ? (q / scale) ** 2 / 12 : MEANVAR_FLOOR;
-      return { cost: meanVarCost(y, w, m, scale, floor), notes, floorNote: q > 0 && floor > MEANVAR_FLOOR ? `the rounding variance (${showNumber(q)})^2 / 12 of values recorded to ${showNumber(q)}` : `${MEANVAR_FLOOR} times the series variance` };
+      const rounding = q > 0 ? (q / scale) ** 2 / 12 : 0;
+      // the noise scale from differences (level shifts and trends barely move it), on the standardised scale
+      const noise = differenceSigma(y, 1, series.weighted ? w : undefined) / scale;
+      const quiet = noise > 0 && Number.isFinite(noise) ? (QUIETEST_SEGMENT * noise) ** 2 : 0;
+      const floor = Math.max(rounding, quiet, MEANVAR_FLOOR);
+      const floorNote = floor === rounding ? `the rounding variance (${showNumber(q)})^2 / 12 of values recorded to ${showNumber(q)}`
+        : floor === quiet ? `(${QUIETEST_SEGMENT} x ${showNumber(noise * scale)})^2, a tenth of the noise standard deviation read from the differences of the series`
+          : `${MEANVAR_FLOOR} times the series variance`;
+      return { cost: meanVarCost(y, w, m, scale, floor), notes, floorNote };
     }
     case 'poisson': {
       const fractional: number[] = [];
@@ -178,7 +199,7 @@ function stepBreaksOnce(series: Series, o: ResolvedBreaksOptions, exposure?: Flo
     segments.push(sum);
   }
   if (flooredRows.length) {
-    warnings.push(warning('note', `${flooredRows.length} segment${flooredRows.length === 1 ? '' : 's'} starting at row ${listRows(flooredRows)} ${flooredRows.length === 1 ? 'has' : 'have'} (near-)zero spread; the variance was floored at ${floorNote}. Such segments often come from rounded or repeated values; consider the level model or a larger shortest-segment.`, flooredRows));
+    warnings.push(warning('note', `${flooredRows.length} segment${flooredRows.length === 1 ? '' : 's'} starting at row ${listRows(flooredRows)} ${flooredRows.length === 1 ? 'has' : 'have'} a spread at or below the floor; the variance was taken as ${floorNote}. Such segments often come from rounded or repeated values; consider the level model or a larger shortest-segment.`, flooredRows));
   }
   const breaks: Break[] = seg.changes.map((c, k) => {
     const before = segments[k], after = segments[k + 1];

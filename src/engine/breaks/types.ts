@@ -28,7 +28,7 @@ export interface BreaksOptions {
   penalty?: PenaltyRule | number;
   /** When given, run CROPS over penalties in [low, high] and return the table of all optimal segmentations. */
   crops?: [number, number];
-  /** Fewest points per segment (integer >= 1; default 1, or 3 for 'meanvar' (at least 2; lowered to n on shorter series)). For 'slope', the fewest points strictly after each kink up to the next. */
+  /** Fewest points per segment (integer >= 1; default 1, or 5 for 'meanvar' (at least 2; lowered to n on shorter series)). For 'slope', the fewest points strictly after each kink up to the next. */
   minSegment?: number;
   /** Known noise standard deviation in y units ('mean' and 'slope'); default: a robust estimate from differences. */
   sigma?: number;

@@ -31,7 +31,7 @@ const show = describeValue;
 
 /**
  * Checks every option of {@link findBreaks} and fills defaults: penalty 'bic',
- * minSegment 1 (3 for 'meanvar', lowered by findBreaks on shorter series), quantiles 10, maxRuns 200, robust true ('mean'),
+ * minSegment 1 (5 for 'meanvar', lowered by findBreaks on shorter series), quantiles 10, maxRuns 200, robust true ('mean'),
  * noise 'correlated' ('mean', 'meanvar', 'slope'), season 'auto'.
  *
  * @throws {@link KnotwiseError} `bad-option` naming the option and printing the offending value
@@ -62,8 +62,8 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
     }
     crops = [c[0], c[1]];
   }
-  // volatility: 3 by default (a two-point variance has one degree of freedom; see changepointAnalyses), at least 2
-  const minDefault = model === 'meanvar' ? 3 : 1;
+  // volatility: 5 by default (a variance from fewer points is too uncertain to report; see changepointAnalyses), at least 2
+  const minDefault = model === 'meanvar' ? 5 : 1;
   const minSegment = options.minSegment ?? minDefault;
   if (typeof minSegment !== 'number' || !Number.isInteger(minSegment) || minSegment < 1) {
     throw new KnotwiseError('bad-option', `minSegment must be a whole number >= 1; got ${show(minSegment)}.`);

@@ -21,7 +21,7 @@ describe('findBreaks with the mean-and-variance model', () => {
     const r = findBreaks(prepareSeries(y, null, null, { ties: 'keep' }), { model: 'meanvar' });
     const idx = r.breaks.map((b) => b.index);
     expect(idx).toEqual(expect.arrayContaining([40, 70]));
-    const note = r.warnings.find((w) => w.code === 'note' && /floored/.test(w.message));
+    const note = r.warnings.find((w) => w.code === 'note' && /at or below the floor/.test(w.message));
     expect(note).toBeDefined();
     expect(note!.rows).toContain(40);
   });
