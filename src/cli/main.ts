@@ -144,6 +144,7 @@ function fitOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[]
     knots: (fit.bends ?? []).map((b) => ({ x: b.x, row: b.row + 1, change: Number.isFinite(b.change) ? b.change : null, shrunkChange: b.shrunkChange, xFrom: b.xFrom, xTo: b.xTo, knotsMerged: b.knots, rank: b.rank })),
     allKnots: fit.knots.map((k) => ({ x: k.x, row: k.row + 1, change: k.change })),
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
+    caveats: result.caveats.map((wn) => ({ code: wn.code, message: wn.message })),
     solver: result.solver,
   };
   if (result.comparison) {
@@ -192,6 +193,7 @@ function breaksOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cel
     cost: b.cost,
     ...(b.crops ? { crops: b.crops.map((c) => ({ penalty: c.penalty, penaltyLow: c.penaltyLow, penaltyHigh: c.penaltyHigh, changes: c.changes, cost: c.cost, rows: c.breaks.map((i) => series.firstRow[i] + 1) })) } : {}),
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
+    caveats: result.caveats.map((wn) => ({ code: wn.code, message: wn.message })),
     solver: b.solver,
   };
 }
@@ -212,6 +214,7 @@ function decomposeOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: 
     spikeRows: (d.spikeIndex as number[]).map((i) => series.firstRow[i] + 1),
     penalty: Number.isFinite(d.penalty as number) ? d.penalty : null, spikePenalty: Number.isFinite(d.spikePenalty as number) ? d.spikePenalty : null,
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
+    caveats: result.caveats.map((wn) => ({ code: wn.code, message: wn.message })),
     solver: result.solver,
   };
 }
@@ -239,6 +242,7 @@ function textDecompose(o: Record<string, any>): string {
   const lines = [`${o.column}: ${o.method} decomposition, ${o.n} points, season ${o.seasonal ? o.period.map(fmt).join(' and ') : 'none'}, ${o.knots.length} knots, ${o.spikeRows.length} spikes`];
   for (const q of o.seasons) lines.push(`  season ${q.label} (${fmt(q.length)} steps): strength ${fmt(q.strength)}${q.kept ? ', kept' : ', not kept'}`);
   for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
+  for (const w of o.caveats) lines.push(`  read with care [${w.code}]: ${w.message}`);
   return lines.join('\n');
 }
 
@@ -288,6 +292,7 @@ function textFit(o: Record<string, any>, st: TextStyle): string {
   }
   if (o.knots.length) lines.push(`  bends (${o.knots.length}, largest first): ` + [...o.knots].sort((a: any, b: any) => a.rank - b.rank).slice(0, 12).map((k: any) => `${st.x(k.x)} (row ${k.row}, change ${fmt(k.change ?? k.shrunkChange)})`).join('; ') + (o.knots.length > 12 ? ' ...' : ''));
   for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
+  for (const w of o.caveats) lines.push(`  read with care [${w.code}]: ${w.message}`);
   return lines.join('\n');
 }
 
@@ -300,6 +305,7 @@ function textBreaks(o: Record<string, any>, st: TextStyle): string {
   for (const s of o.segments) lines.push(`  segment ${st.x(s.xStart)} to ${st.x(s.xEnd)} (rows ${s.rowStart}-${s.rowEnd}, ${s.n} points): ${fields(s)}`);
   if (o.crops) for (const c of o.crops) lines.push(`  crops: penalty ${fmt(c.penaltyLow)}..${fmt(c.penaltyHigh)} -> ${c.changes} changes, cost ${fmt(c.cost)}`);
   for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
+  for (const w of o.caveats) lines.push(`  read with care [${w.code}]: ${w.message}`);
   return lines.join('\n');
 }
 

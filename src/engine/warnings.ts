@@ -37,6 +37,15 @@ export interface Warning {
   rows?: number[];
 }
 
+/**
+ * Codes that hold for every result of their kind, whatever the data: fitted values
+ * near the ends get revised and a trend is not a forecast ('boundary'); a break is
+ * not proof of its cause ('break-cause'). The analysis pipeline reports them apart
+ * from the warnings, as `caveats`, so that a warning always says something about
+ * these data and stays quiet when nothing is wrong.
+ */
+export const STANDING_CAVEATS: ReadonlySet<WarningCode> = new Set<WarningCode>(['boundary', 'break-cause']);
+
 /** Builds a warning. */
 export function warning(code: WarningCode, message: string, rows?: number[]): Warning {
   return rows && rows.length ? { code, message, rows } : { code, message };

@@ -72,7 +72,7 @@ export async function penalty(y: any[][], x?: any[][], method?: string, settings
 }
 
 /**
- * A two-column summary of a fit or a segmentation: method, penalty, df, points used and dropped, and every warning.
+ * A two-column summary of a fit or a segmentation: method, penalty, df, points used and dropped, every warning, and what to read with care (ends get revised, a break is not its cause).
  * @customfunction SUMMARY
  * @param y Values: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
@@ -98,6 +98,7 @@ export async function summary(y: any[][], x?: any[][], method?: string, settings
     if (result.comparison) rows.push(['why this method', result.comparison.reason]);
     rows.push(['n used', s.nUsed], ['n dropped', s.dropped.length], ['ties merged', s.tiesMerged], ['converged', result.solver.converged], ['warnings', result.warnings.length]);
     result.warnings.forEach((w, i) => rows.push([`warning ${i + 1} (${w.code})`, w.message]));
+    result.caveats.forEach((w) => rows.push([`read with care (${w.code})`, w.message]));
     return rows;
   });
 }

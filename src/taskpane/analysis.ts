@@ -7,6 +7,7 @@
 import { Cell, Comparison, FitResult, Series, SeriesBreaks, SeriesFit, evaluateAnalysis, numberFromText } from '../engine';
 import { AnalysisRequest, AnalysisResult, isCancelled, runAnalysis } from '../runtime/engineEntry';
 import type { BreaksResult, CropsRow } from '../engine/breaks/types';
+import type { Warning } from '../engine/warnings';
 import type { CellBlock } from './workbook';
 import { MethodChoice, methodChoices, ruleOptions } from './methodChoices';
 
@@ -73,8 +74,14 @@ export function splitSelection(block: CellBlock): { header: string[] | null; x: 
 /** The selection as the analysis read it. */
 export type Selection = ReturnType<typeof splitSelection>;
 
+/**
+ * What the run says beside its numbers, as the engine's pipeline reports it: warnings about these data
+ * (notes of the pipeline itself included, e.g. a season taken out first) and the standing caveats.
+ */
+interface RunNotes { warnings: Warning[]; caveats: Warning[] }
+
 /** What the engine returned for one run: results in the engine's own shapes, with the series they refer to. */
-export type Analysis =
+export type Analysis = RunNotes & (
   | { kind: 'smooth'; choice: Choice; sel: Selection; series: Series; result: FitResult;
       /** The fitted curve continued after the last point (an extrapolation), when the method defines it. */
       beyond?: { x: number[]; y: number[] };
@@ -87,7 +94,7 @@ export type Analysis =
   | { kind: 'decompose'; choice: Choice; sel: Selection; series: Series; result: AnalysisResult }
   | { kind: 'breaks'; choice: Choice; sel: Selection; series: Series; result: BreaksResult;
       /** The optimal segmentations for penalties around the chosen one (CROPS), for "why this penalty". */
-      path?: CropsRow[] };
+      path?: CropsRow[] });
 
 /** Runs the chosen analysis on a selection. Throws the engine's errors unchanged. */
 /**
@@ -123,7 +130,7 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoi
   const request = (extra: Record<string, unknown> = {}) => requestFor(choice, pen, extra);
   if (choice.kind === 'decompose') {
     const answer = yield request();
-    return { kind: 'decompose', choice, sel, series: answer.series, result: answer };
+    return { kind: 'decompose', choice, sel, series: answer.series, result: answer, warnings: answer.warnings, caveats: answer.caveats };
   }
   if (choice.kind === 'smooth') {
     const answer = yield request();
@@ -161,9 +168,10 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoi
       if (isCancelled(e)) throw e;
       secondError = e instanceof Error ? e.message : String(e);
     }
-    return { kind: 'smooth', choice, sel, series, result, beyond, comparison: answer.comparison, second, secondError };
+    return { kind: 'smooth', choice, sel, series, result, beyond, comparison: answer.comparison, second, secondError, warnings: answer.warnings, caveats: answer.caveats };
   }
-  const { series, result } = asBreaks(yield request());
+  const first = yield request();
+  const { series, result } = asBreaks(first);
   // The penalty path around the chosen penalty (CROPS), so the analyst sees changes against cost.
   // The slope model's exact search is costly, so its path is drawn on shorter series only.
   let path: CropsRow[] | undefined;
@@ -171,7 +179,7 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoi
     const beta = result.penalty.value;
     if (beta > 0 && Number.isFinite(beta)) path = asBreaks(yield request({ penaltyRange: [beta / 10, beta * 10] })).result.crops ?? [];
   }
-  return { kind: 'breaks', choice, sel, series, result, path };
+  return { kind: 'breaks', choice, sel, series, result, path, warnings: first.warnings, caveats: first.caveats };
 }
 
 /** Runs the chosen analysis on a selection on this thread. Throws the engine's errors unchanged. */

@@ -82,6 +82,9 @@ function renderView(v: View): void {
     ul.append(li);
   }
   if (!v.warnings.length) { const li = document.createElement('li'); li.textContent = 'none'; ul.append(li); }
+  const cv = $('caveats');
+  cv.replaceChildren(...v.caveats.map((w) => { const li = document.createElement('li'); li.dataset.code = w.code; li.textContent = w.message; return li; }));
+  $('caveats-box').hidden = !v.caveats.length;
   const main = v.tables.find((t) => t.id === 'table')!;
   $('table-title').textContent = main.title;
   fillTable($('table'), main.table);

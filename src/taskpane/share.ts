@@ -58,6 +58,10 @@ export function sharePlan(v: View): SharePlan {
   add({ what: 'summary', col, row, values: [['Summary', ''], ...v.summary.map(([k, t]) => [k, t])], formats: [['@', '@'], ...v.summary.map(() => ['@', '@'])] });
   const warnings = v.warnings.length ? v.warnings.map((w) => [w.code, w.message]) : [['none', '']];
   add({ what: 'warnings', col, row, values: [['Warnings', ''], ...warnings], formats: [['@', '@'], ...warnings.map(() => ['@', '@'])] });
+  if (v.caveats.length) {
+    const caveats = v.caveats.map((w) => [w.code, w.message]);
+    add({ what: 'read with care', col, row, values: [['Read with care', ''], ...caveats], formats: [['@', '@'], ...caveats.map(() => ['@', '@'])] });
+  }
   let markersX: string | undefined, markersY: string | undefined, markersName: string | undefined;
   for (const t of v.tables) {
     const b = tableBlock(`${t.title.toLowerCase()} table`, t.title, t.table, col, row);

@@ -39,6 +39,8 @@ export interface View {
   summary: [string, string][];
   /** Warnings with rows named by their cells. */
   warnings: { code: string; message: string }[];
+  /** What holds for every result of this kind (ends get revised, a break is not its cause): shown under the chart, not as warnings. */
+  caveats: { code: string; message: string }[];
   /** Criterion against df, with the chosen point, for "why this penalty". */
   curve?: { df: number[]; score: number[]; chosenDf: number; chosenScore: number; name: string; xLabel: string; step?: boolean };
   /** One value per selected data row (header excluded), rounded for the data, '' where dropped. */
@@ -125,10 +127,12 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
   const ctx = { xDates, place };
   const column = Array.from({ length: series.nRows }, (_, i) => (series.rowOf[i] >= 0 ? fit.values[series.rowOf[i]] : ''));
   const source = rangeName(r.sheet, r.col, r.row, r.lastCol, r.lastRow);
-  const warnings: { code: string; message: string }[] = a.result.warnings.map((w) => ({ code: w.code, message: cellsInMessage(w.message, place) }));
+  // the pipeline's warnings (its own notes, e.g. a season taken out first, with the method's) and its standing caveats
+  const warnings: { code: string; message: string }[] = a.warnings.map((w) => ({ code: w.code, message: cellsInMessage(w.message, place) }));
+  const caveats = a.caveats.map((w) => ({ code: w.code, message: w.message }));
   const common = {
     x: series.x, y: series.y, fitted: a.result.fitted, xDates, place, sheet: r.sheet, xCol: sel.x ? cols[0] : -1, hasHeader, topRow: r.row, lastCol: Math.max(...cols),
-    yName: sel.yName, showX: xp.text, showY, column, columnFormat: fit.format, warnings,
+    yName: sel.yName, showX: xp.text, showY, column, columnFormat: fit.format, warnings, caveats,
   };
   if (a.kind === 'decompose') return decompositionView(a, { ...common, fit, source, facts, ctx, xp });
   if (a.kind === 'smooth' && a.secondError) common.warnings = [...common.warnings, { code: 'comparison-failed', message: `The comparison fit was not drawn: ${cellsInMessage(a.secondError, place)}` }];
@@ -237,6 +241,7 @@ const SPACING_UNIT: Record<string, string> = { daily: 'days', weekly: 'weeks', m
 interface DecompositionParts {
   x: Float64Array; y: Float64Array; xDates: boolean; place: DataPlace; sheet: string | null; xCol: number; hasHeader: boolean; topRow: number; lastCol: number;
   yName: string; showX(x: number): string; showY(y: number): string; column: (number | string)[]; columnFormat: string; warnings: { code: string; message: string }[];
+  caveats: { code: string; message: string }[];
   fit: ReturnType<typeof roundedFit>; source: string; facts: RunFacts; ctx: { xDates: boolean; place: DataPlace }; xp: ReturnType<typeof xPresenter>;
 }
 

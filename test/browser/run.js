@@ -54,7 +54,11 @@ test('fitting the spline draws the data, the fit, end zones and the criterion cu
   assert(!legend.some((t) => /knot|break/.test(t)), `legend lists markers that are not drawn: ${legend}`);
   assert(legend.some((t) => /band/.test(t)), `legend misses the band: ${legend}`);
   const codes = await page.$$eval('#warnings li', (l) => l.map((x) => x.dataset.code));
-  for (const c of ['dropped-cells', 'boundary']) assert(codes.includes(c), `warning ${c} missing: ${codes}`);
+  assert(codes.includes('dropped-cells'), `warning dropped-cells missing: ${codes}`);
+  // the standing caveat (ends get revised, not a forecast) is shown under the chart, not among the warnings
+  assert(!codes.includes('boundary'), `the standing caveat is listed as a warning: ${codes}`);
+  const caveats = await page.$$eval('#caveats li', (l) => l.map((x) => [x.dataset.code, x.textContent]));
+  assert(caveats.some(([c, t]) => c === 'boundary' && /not a forecast/.test(t)), `the ends caveat is missing under the chart: ${JSON.stringify(caveats)}`);
   const dropped = await page.$eval('#warnings li[data-code="dropped-cells"]', (l) => l.textContent);
   assert(/cells B35, B36\).*cell B122\)/.test(dropped), `blank cells not named by address: ${dropped}`);
   const summary = await page.$eval('#summary', (d) => d.textContent);
@@ -81,8 +85,8 @@ test('changepoints carry the warning that a break is not proof of its cause, and
   await page.selectOption('#method', 'breaks-volatility');
   await page.click('#run');
   await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints'));
-  const codes = await page.$$eval('#warnings li', (l) => l.map((x) => x.dataset.code));
-  assert(codes.includes('break-cause'), `break-cause missing: ${codes}`);
+  const caveats = await page.$$eval('#caveats li', (l) => l.map((x) => x.dataset.code));
+  assert(caveats.includes('break-cause'), `the caveat that a break is not proof of its cause is missing: ${caveats}`);
   assert(await page.isVisible('#curve-box'), 'penalty path (changes against cost) not shown');
   const marks = (await page.$$('#chart .markers .marker')).length;
   assert(marks >= 1, 'no break markers');

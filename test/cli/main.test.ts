@@ -109,7 +109,9 @@ describe('knotwise breaks', () => {
     expect(o.model).toBe('counts');
     expect(o.warnings.map((w: any) => w.message).join(' ')).toMatch(/"poisson" is now called "counts"/);
     expect(o.fitted).toHaveLength(156);
-    expect(o.warnings.map((w: any) => w.code)).toContain('break-cause');
+    // the caveat that a break is not proof of its cause is reported apart from the warnings about these data
+    expect(o.caveats.map((w: any) => w.code)).toContain('break-cause');
+    expect(o.warnings.map((w: any) => w.code)).not.toContain('break-cause');
     for (const b of o.breaks) expect(b.row).toBeGreaterThanOrEqual(1);
     // the demo's return rate rises at week 90 (row 90): the first break is near it
     expect(o.breaks.length).toBeGreaterThanOrEqual(1);

@@ -22,7 +22,7 @@ export interface Run {
   /** The worksheet function or command line that was called. */
   call: string;
   kind: 'result' | 'error' | 'crash';
-  /** Warning codes of the result (worksheet: from SUMMARY of the same request). */
+  /** Warning and caveat codes of the result (worksheet: from SUMMARY of the same request). */
   warnings: string[];
   warningText: string;
   error?: string;
@@ -191,8 +191,9 @@ export async function runSheet(c: Case, t: Target, rerun = true): Promise<Run[]>
   clearComputeCache();
 
   const sum = got.SUMMARY;
-  const warnRows = sum.ok ? (sum.value as unknown[][]).filter((r) => /^warning \d+ \(/.test(String(r[0]))) : [];
-  const codes = warnRows.map((r) => String(r[0]).replace(/^warning \d+ \((.*)\)$/, '$1'));
+  // warnings and the standing caveats (ends get revised, a break is not its cause), each row naming its code
+  const warnRows = sum.ok ? (sum.value as unknown[][]).filter((r) => /^(warning \d+|read with care) \(/.test(String(r[0]))) : [];
+  const codes = warnRows.map((r) => String(r[0]).replace(/^(?:warning \d+|read with care) \((.*)\)$/, '$1'));
   const text = warnRows.map((r) => String(r[1])).join(' | ');
   const runs: Run[] = [];
   for (const name of Object.keys(calls)) {
@@ -280,6 +281,6 @@ export function runCommand(c: Case, t: Target, rerun = true): Run {
     else checkRowsNamed(o.knots ?? [], usable, problems, 'knots');
     for (const k of ['penalty', 'df']) if (familyOf(t) === 'smoothers' && !Number.isFinite(o[k])) problems.push(`${k} is ${o[k]}`);
   }
-  const warnings: { code: string; message: string }[] = o?.warnings ?? [];
+  const warnings: { code: string; message: string }[] = [...(o?.warnings ?? []), ...(o?.caveats ?? [])];
   return { front: 'cli', target: t, call, kind: problems.length ? 'crash' : 'result', warnings: warnings.map((w) => w.code), warningText: warnings.map((w) => w.message).join(' | '), problems };
 }

@@ -41,11 +41,15 @@ describe('the demo in Sheet1!A1:B157 (header in row 1)', () => {
   });
 
   test('the report starts in E1 with the settings note, and the knots table holds dates formatted as dates', () => {
-    const [note, summary, warnings, knots] = plan.report;
+    const [note, summary, warnings, caveats, knots] = plan.report;
     expect([note.col, note.row]).toEqual([4, 1]);
     expect(note.values[0][0]).toMatch(/^Knotwise 9\.9\.9, 2026-12-02: trend filtering of order 1 of Sheet1!A1:B157; penalty by 5-fold cross-validation: penalty [\d.]+, about \d+ degrees of freedom; \d+ bends \(\d+ knots\); /);
     expect(summary.values[0]).toEqual(['Summary', '']);
     expect(warnings.values.some((r) => r[0] === 'dropped-cells' && String(r[1]).includes('cells B35, B36'))).toBe(true);
+    // the standing caveat (ends get revised, not a forecast) in its own block, not among the warnings
+    expect(warnings.values.some((r) => r[0] === 'boundary')).toBe(false);
+    expect(caveats.values[0]).toEqual(['Read with care', '']);
+    expect(caveats.values.some((r) => r[0] === 'boundary' && /not a forecast/.test(String(r[1])))).toBe(true);
     expect(knots.values[1]).toEqual(['date', 'cell', 'slope change per day', 'fitted']);
     const rows = knots.values.slice(2);
     expect(rows.length).toBe(v.markers.length);
@@ -61,7 +65,7 @@ describe('the demo in Sheet1!A1:B157 (header in row 1)', () => {
 
   test('the chart reads the data, the written fit and the knots table from the sheet', () => {
     const c = plan.chart;
-    const knots = plan.report[3];
+    const knots = plan.report[4];
     expect([c.x, c.data, c.fit]).toEqual(['A2:A157', 'B2:B157', 'C2:C157']);
     expect(c.markersX).toBe(`E${knots.row + 2}:E${knots.row + 1 + v.markers.length}`);
     expect(c.markersY).toBe(`H${knots.row + 2}:H${knots.row + 1 + v.markers.length}`);
@@ -86,7 +90,7 @@ describe('other places on the sheet', () => {
     expect(v.warnings.find((w) => w.code === 'dropped-cells')!.message).toContain('(cells B35, B36)');
     const plan = sharePlan(v);
     expect(plan.fitted.values).toHaveLength(156);
-    expect(plan.report.map((r) => r.what)).toEqual(['settings note', 'summary', 'warnings', 'breaks table', 'segments table']);
+    expect(plan.report.map((r) => r.what)).toEqual(['settings note', 'summary', 'warnings', 'read with care', 'breaks table', 'segments table']);
   });
 
   test('one column (y only): no x range in the chart, row numbers as x and no dates', () => {

@@ -63,6 +63,8 @@ export interface Comparison {
 
 /** The result of {@link runAnalysis}: plain data (structured-clone-able, so it crosses to and from workers). */
 export interface AnalysisResult extends AnalysisCore {
+  /** What holds for every result of this kind (codes in STANDING_CAVEATS: ends get revised, a break is not its cause), kept apart from `warnings`, which concern these data. */
+  caveats: Warning[];
   /** The analysis's registered name. */
   analysis: string;
   family: AnalysisFamily;

@@ -10,7 +10,7 @@ import '../analyses';
 import { KnotwiseError } from '../errors';
 import { describeValue } from '../options';
 import { Cell, prepareSeries, toColumn } from '../series';
-import { warning } from '../warnings';
+import { STANDING_CAVEATS, warning } from '../warnings';
 import { cacheKey } from '../cache/fitCache';
 import type { AnalysisFamily, AnalysisResult } from './analysisDefinition';
 import type { Evaluation } from '../types';
@@ -50,7 +50,7 @@ function column(v: unknown, name: string): Cell[] {
  * @example
  * ```ts
  * const r = runAnalysis({ analysis: 'trend', y: orders, x: weeks, options: { order: 1, rule: 'cv' } });
- * r.smooth!.knots; r.fitted; r.warnings;
+ * r.smooth!.knots; r.fitted; r.warnings; r.caveats;
  * ```
  */
 export function runAnalysis(request: AnalysisRequest, control: RunControl = {}): AnalysisResult {
@@ -72,7 +72,11 @@ export function runAnalysis(request: AnalysisRequest, control: RunControl = {}):
   }
   const core = def.run(series, options, context);
   context.step(1, 'done');
-  return { ...core, warnings: [...notes, ...core.warnings], analysis: def.name, family: def.family, options, series };
+  const all = [...notes, ...core.warnings];
+  return {
+    ...core, warnings: all.filter((w) => !STANDING_CAVEATS.has(w.code)), caveats: all.filter((w) => STANDING_CAVEATS.has(w.code)),
+    analysis: def.name, family: def.family, options, series,
+  };
 }
 
 /**
