@@ -33,9 +33,10 @@
  *   sigma is the robust scale of the decomposition's own remainder (remainderScale.ts:
  *   1.4826 median sqrt(w_i) |y_i - t_i - s_i|, spikes included, which the median ignores): the
  *   problem is solved at a first rho, sigma read from its remainder, and solved again from that
- *   solution with the new rho until rho changes by at most 2% (at most 4 solves; usually 2).
- *   The first rho takes sigma from second differences of the deseasonalised series (as the
- *   changepoint models do); that scale alone was too small here: the preliminary STL's yearly
+ *   solution with the new rho until rho changes by at most 2% (at most 4 solves). The first rho
+ *   takes sigma from the remainder of the season fitted to y less the penalty search's trend (often
+ *   already within 2%); with a given trend penalty, from second differences of the deseasonalised
+ *   series (as the changepoint models do). That scale alone was too small here (it was the rule before): the preliminary STL's yearly
  *   season has a value per day of the year and takes up part of the noise, and second differences
  *   of positively correlated noise are smaller than the noise (for AR(1) with phi = 0.5 by a factor
  *   0.65). With it as rho's scale, invented daily series without spikes had about 6 (Gaussian noise)
@@ -74,7 +75,7 @@ import { fitTrend } from '../smoothers/trend';
 import { trendScaling, toScaledPenalty } from '../smoothers/trend/trendScaling';
 import { knotPositions, defaultGridRatio } from '../smoothers/trend/trendPath';
 import { seasonPlan, Spacing } from './seasonPlan';
-import { seasonDesign, SeasonTerm } from './seasonDesign';
+import { seasonDesign, SeasonTerm, fitSeasonAndSpikes } from './seasonDesign';
 import { preliminaryDecomposition, seasonalStrength, mstlOnGrid } from './preliminaryDecomposition';
 import { solveDecomposition, DecompositionStart } from './solveDecomposition';
 import { trendPenaltySearch } from './trendPenaltySearch';
@@ -330,6 +331,17 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
     season: Float64Array.from(sPre, (v) => v / sc.c),
     knots: startKnots,
   };
+  if (o.spikePenalty === undefined && sigma > 0 && startTrend) {
+    // a first rho nearer the answer: the remainder's scale after the season (and spikes at the first rho) fitted to y less the search's trend
+    const r = Float64Array.from(ys, (v, i) => v - start.trend[i]);
+    const sFit = new Float64Array(n), oFit = new Float64Array(n);
+    if (design) fitSeasonAndSpikes(design, r, sc.ws, rho / (sc.m * sc.c), new Float64Array(design.q), sFit, oFit);
+    const s0 = remainderScale(y, startTrend, Float64Array.from(sFit, (v) => sc.c * v), w);
+    if (s0 > 0) {
+      sigma = s0;
+      rho = s0 * UNIVERSAL;
+    }
+  }
   context?.step(0.7, 'solving the decomposition');
   const solveAt = (rhoData: number, from: DecompositionStart) =>
     solveDecomposition(sc.xs, ys, sc.ws, o.order, lam, rhoData / (sc.m * sc.c), design, o.tolerance, o.maxIterations, from, (c) => context?.step(0.7 + 0.3 * Math.min(1, c / 50), 'solving the decomposition'));
