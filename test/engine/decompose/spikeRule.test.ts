@@ -10,29 +10,20 @@
  * about 6 per series with Gaussian noise and about 70 with AR(1) noise on five years of such data); planted
  * spikes of 8 sd are all found and those of 5 sd nearly all (a 5 sd spike falls below the threshold of
  * 3.63 sd when its own noise is below -1.37 sd: 9% of the time).
- * Seeds per case: KNOTWISE_SPIKE_SEEDS (default 8; the README's figures on five years of daily data are from 50, by the same generator).
+ * Seeds per case: KNOTWISE_SPIKE_SEEDS (default 8). The README's figures on five years of daily data are
+ * from 50 seeds of the same generator, by `npm run bench -- --only=decompose` (spikeRule in the bench).
  */
 import { decompose } from '../../../src/engine/decompose/decompose';
 import { seriesFromArrays } from '../../../src/engine/series';
-import { normalStream } from '../../helpers/random';
+import { dailyWithNoise as benchDaily } from '../../bench/decompose.bench';
 
 const SD = 3;
 const SEEDS = Number(process.env.KNOTWISE_SPIKE_SEEDS ?? 8);
 
-/** Invented daily series from 2019-01-01 (Excel serial 43466), noise of sd 3 (AR(1) with coefficient phi), spikes added at `at` of `size` sd with alternating signs. */
+/** The benchmark's invented daily series ({@link benchDaily}): weekday pattern, yearly swing, slope change, level step, noise of sd 3. */
 function dailyWithNoise(seed: number, phi: number, days: number, at: number[] = [], size: number[] = []) {
-  const z = normalStream(seed);
-  const weekday = [-9, 2, 3, 3, 4, 6, -9];
-  const x = new Float64Array(days), y = new Float64Array(days);
-  let e = SD * z();
-  for (let i = 0; i < days; i++) {
-    x[i] = 43466 + i;
-    if (i > 0) e = phi * e + Math.sqrt(1 - phi * phi) * SD * z();
-    const dow = (x[i] + 6) % 7;
-    y[i] = 200 + 0.02 * i + (i > days / 2 ? 0.05 * (i - days / 2) : 0) + (i > 0.7 * days ? 12 : 0) + weekday[dow] + 10 * Math.sin((2 * Math.PI * x[i]) / 365.2425) + e;
-  }
-  at.forEach((i, j) => { y[i] += (j % 2 ? -1 : 1) * size[j] * SD; });
-  return seriesFromArrays(x, y);
+  const d = benchDaily(seed, phi, days, at, size);
+  return seriesFromArrays(d.x, d.y);
 }
 
 describe('spike rule: noise is not reported as spikes', () => {
