@@ -31,7 +31,8 @@
  *   unit weights the expected number of pure-noise points marked a spike is about
  *   2 / (sqrt(2 pi) sqrt(2 ln n)) (Mills' ratio): 0.21 per series at n = 1,826, and it tends to 0.
  *   sigma is the robust scale of the decomposition's own remainder (remainderScale.ts:
- *   1.4826 median sqrt(w_i) |y_i - t_i - s_i|, spikes included, which the median ignores): the
+ *   1.4826 median sqrt(w_i) |y_i - t_i - s_i|, spikes included, which the median ignores, times
+ *   sqrt(n / (n - p)) for the p = knots + k + 1 + season coefficients + spikes the fit spent): the
  *   problem is solved at a first rho, sigma read from its remainder, and solved again from that
  *   solution with the new rho until rho changes by at most 2% (at most 4 solves). The first rho
  *   takes sigma from the remainder of the season fitted to y less the penalty search's trend (often
@@ -333,12 +334,16 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
     season: Float64Array.from(sPre, (v) => v / sc.c),
     knots: startKnots,
   };
+  // parameters spent by the season: its coefficients less its zero-sum constraints (the bordered system's extra rows)
+  const seasonDf = design ? 2 * design.q - design.size : 0;
   if (o.spikePenalty === undefined && sigma > 0 && startTrend) {
     // a first rho nearer the answer: the remainder's scale after the season (and spikes at the first rho) fitted to y less the search's trend
     const r = Float64Array.from(ys, (v, i) => v - start.trend[i]);
     const sFit = new Float64Array(n), oFit = new Float64Array(n);
     if (design) fitSeasonAndSpikes(design, r, sc.ws, rho / (sc.m * sc.c), new Float64Array(design.q), sFit, oFit);
-    const s0 = remainderScale(y, startTrend, Float64Array.from(sFit, (v) => sc.c * v), w);
+    let spikes0 = 0;
+    for (let i = 0; i < n; i++) if (oFit[i] !== 0) spikes0++;
+    const s0 = remainderScale(y, startTrend, Float64Array.from(sFit, (v) => sc.c * v), w, startKnots!.rows.length + o.order + 1 + seasonDf + spikes0);
     if (s0 > 0) {
       sigma = s0;
       rho = s0 * UNIVERSAL;
@@ -352,7 +357,9 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   if (o.spikePenalty === undefined && sigma > 0) {
     // rho from the remainder's own robust scale: solved again, from the last solution, until the scale settles
     for (;;) {
-      const sr = remainderScale(y, Float64Array.from(sol.trend, (v) => sc.y0 + sc.c * v), Float64Array.from(sol.season, (v) => sc.c * v), w);
+      let spikeCount = 0;
+      for (let i = 0; i < n; i++) if (sol.spikes[i] !== 0) spikeCount++;
+      const sr = remainderScale(y, Float64Array.from(sol.trend, (v) => sc.y0 + sc.c * v), Float64Array.from(sol.season, (v) => sc.c * v), w, sol.trendFit.knotRows.length + o.order + 1 + seasonDf + spikeCount);
       if (!(sr > 0)) break;
       const next = sr * UNIVERSAL;
       if (Math.abs(next - rho) <= SPIKE_SCALE_AGREEMENT * rho) break;

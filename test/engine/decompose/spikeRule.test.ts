@@ -16,6 +16,7 @@
 import { decompose } from '../../../src/engine/decompose/decompose';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { dailyWithNoise as benchDaily } from '../../bench/decompose.bench';
+import { normalStream } from '../../helpers/random';
 
 const SD = 3;
 const SEEDS = Number(process.env.KNOTWISE_SPIKE_SEEDS ?? 8);
@@ -47,6 +48,29 @@ describe('spike rule: noise is not reported as spikes', () => {
       expect(med).toBeLessThan(1.05 * SD);
     });
   }
+
+  test('36 monthly points with a month-of-year season (11 coefficients): the noise scale is near the noise sd, and 40 series without spikes get fewer than 0.3 each', () => {
+    // without the correction for the parameters the fit spent (sqrt(n / (n - p))) the median scale was 0.72 of the sd
+    // and series like these got 0.39 spikes each (100 seeds)
+    const pattern = [3, 2, 1, 0, -1, -2, -4, -3, -1, 0, 2, 3];
+    const scales: number[] = [];
+    let spikes = 0;
+    for (let s = 1; s <= 40; s++) {
+      const z = normalStream(5000 + s);
+      const x = new Float64Array(36), y = new Float64Array(36);
+      for (let m = 0; m < 36; m++) {
+        x[m] = Math.round(Date.UTC(2015, m, 1) / 86400000) + 25569;
+        y[m] = 50 + 0.1 * m + (m > 21 ? 0.4 * (m - 21) : 0) + pattern[m % 12] + 0.8 * z();
+      }
+      const r = decompose(seriesFromArrays(x, y));
+      expect(r.seasons[0].kept).toBe(true);
+      scales.push(r.noiseScale / 0.8);
+      spikes += r.spikeIndex.length;
+    }
+    scales.sort((a, b) => a - b);
+    expect(Math.abs(scales[20] - 1)).toBeLessThan(0.1);
+    expect(spikes / 40).toBeLessThan(0.3);
+  });
 
   // others: noise beyond the threshold (about 0.22 per series), and points beside the level step, which a
   // piecewise-linear trend cannot follow (seen on some seeds: a level step is not a spike, but its edge can be)
