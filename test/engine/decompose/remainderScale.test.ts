@@ -26,4 +26,10 @@ describe('remainderScale', () => {
     // without the weights the scale would be far off
     expect(Math.abs(remainderScale(y, t, s, new Float64Array(n).fill(1)) / 2 - 1)).toBeGreaterThan(0.2);
   });
+  test('p parameters spent: the scale times sqrt(n / (n - p)); none left to estimate it: NaN', () => {
+    const y = Float64Array.from(e, (v, i) => t[i] + s[i] + 2 * v);
+    const one = new Float64Array(n).fill(1);
+    expect(remainderScale(y, t, s, one, 1000) / remainderScale(y, t, s, one)).toBeCloseTo(Math.sqrt(n / (n - 1000)), 12);
+    expect(remainderScale(y.subarray(0, 5), t, s, one, 4)).toBeNaN();
+  });
 });
