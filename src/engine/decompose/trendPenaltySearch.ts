@@ -89,8 +89,15 @@ interface FoldState {
 }
 
 /**
- * Cross-validated trend penalty of a clean series (see the module note). Unchecked: n large enough for
- * `folds`-fold cross-validation at this order.
+ * Cross-validated trend penalty of a clean series (see the module note): lambda in the data's units
+ * (as fitTrend's), the fit there, and the scored curve. Unchecked: n large enough for `folds`-fold
+ * cross-validation at this order.
+ *
+ * @example
+ * ```ts
+ * const r = trendPenaltySearch(series, { order: 1, gridSize: 16, ratio: 1e-5, folds: 5, oneSE: false, tolerance: 1e-8, maxIterations: 200 });
+ * r.penalty; r.curve[r.chosen].score; r.scored;   // scored <= gridSize
+ * ```
  */
 export function trendPenaltySearch(series: Series, s: TrendPenaltySearchSettings): TrendPenaltySearch {
   const k = s.order;
