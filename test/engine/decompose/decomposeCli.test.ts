@@ -38,7 +38,7 @@ describe('knotwise decompose (the demo weekly orders)', () => {
   test('help lists the command and its options', () => {
     const { host, out } = io({});
     expect(runCli(['help'], host)).toBe(0);
-    expect(out.join('\n')).toMatch(/knotwise decompose <file.csv>/);
+    expect(out.join('\n')).toMatch(/knotwise decompose <file\.csv\|file\.xlsx>/);
     expect(out.join('\n')).toMatch(/--spike-penalty VALUE/);
   });
 });
