@@ -3,7 +3,7 @@
  * over the engine: it reads columns, calls the same entry points as the
  * worksheet functions, and prints what comes back.
  */
-import { AnalysisResult, Cell, evaluateAnalysis, isKnotwiseError, runAnalysis, toRows } from '../engine';
+import { AnalysisResult, Bend, Cell, evaluateAnalysis, isKnotwiseError, runAnalysis, toRows } from '../engine';
 import { CliError, NumericTable, Table, columnIndex, parseCsv, parseNumericCsv } from './csv';
 import { SheetReader, isOldOfficeFile, isZip, readWorkbookTable } from './xlsx';
 import { CommandSpec, Parsed, commands, helpText, parseArgs } from './options';
@@ -210,7 +210,9 @@ function decomposeOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: 
     seasons: seasons.map((q) => ({ label: q.label, length: q.length, strength: q.strength, kept: q.kept })),
     trend: toRows(series, c.trend, null), season: toRows(series, c.season, null), spikes: toRows(series, c.spikes, null),
     remainder: toRows(series, c.remainder, null), adjusted: toRows(series, c.adjusted, null),
-    knots: (d.knots as { x: number; row: number; change: number }[]).map((k) => ({ x: k.x, row: k.row + 1, change: Number.isFinite(k.change) ? k.change : null })),
+    // the trend's bends (neighbouring knots merged, sized on the unpenalised refit), as for a fit; every knot in allKnots
+    knots: ((d.bends ?? []) as Bend[]).map((b) => ({ x: b.x, row: b.row + 1, change: Number.isFinite(b.change) ? b.change : null, shrunkChange: b.shrunkChange, xFrom: b.xFrom, xTo: b.xTo, knotsMerged: b.knots, rank: b.rank })),
+    allKnots: (d.knots as { x: number; row: number; change: number }[]).map((k) => ({ x: k.x, row: k.row + 1, change: Number.isFinite(k.change) ? k.change : null })),
     spikeRows: (d.spikeIndex as number[]).map((i) => series.firstRow[i] + 1),
     penalty: Number.isFinite(d.penalty as number) ? d.penalty : null, spikePenalty: Number.isFinite(d.spikePenalty as number) ? d.spikePenalty : null,
     warnings: result.warnings.map((wn) => ({ code: wn.code, message: wn.message })),
@@ -239,7 +241,7 @@ function writeOut(io: CliIO, path: string, text: string, force: boolean): void {
 
 
 function textDecompose(o: Record<string, any>): string {
-  const lines = [`${o.column}: ${o.method} decomposition, ${o.n} points, season ${o.seasonal ? o.period.map(fmt).join(' and ') : 'none'}, ${o.knots.length} knots, ${o.spikeRows.length} spikes`];
+  const lines = [`${o.column}: ${o.method} decomposition, ${o.n} points, season ${o.seasonal ? o.period.map(fmt).join(' and ') : 'none'}, ${o.knots.length} bends (${o.allKnots.length} knots), ${o.spikeRows.length} spikes`];
   for (const q of o.seasons) lines.push(`  season ${q.label} (${fmt(q.length)} steps): strength ${fmt(q.strength)}${q.kept ? ', kept' : ', not kept'}`);
   for (const w of o.warnings) lines.push(`  warning [${w.code}]: ${w.message}`);
   for (const w of o.caveats) lines.push(`  read with care [${w.code}]: ${w.message}`);
@@ -257,6 +259,7 @@ function withDates(o: Record<string, any>): Record<string, any> {
   const iso = (v: number) => serialToIso(v) ?? null;
   const out: Record<string, any> = { ...o, xDates: true };
   if (o.knots) out.knots = o.knots.map((k: any) => ({ ...k, xDate: iso(k.x) }));
+  if (o.allKnots) out.allKnots = o.allKnots.map((k: any) => ({ ...k, xDate: iso(k.x) }));
   if (o.breaks) out.breaks = o.breaks.map((b: any) => ({ ...b, xDate: iso(b.x), before: withSegmentDates(b.before), after: withSegmentDates(b.after) }));
   if (o.segments) out.segments = o.segments.map(withSegmentDates);
   if (o.eval) out.eval = o.eval.map((e: any) => ({ ...e, xDate: iso(e.x) }));

@@ -4,7 +4,7 @@
  * dates, cells by their sheet address, numbers at the data's precision.
  * No engine calls here.
  */
-import type { Comparison } from '../engine';
+import type { Bend, Comparison } from '../engine';
 import {
   DataPlace, PresentTable, breaksSettingsNote, breaksSummary, breaksTable, cellsInMessage, fitSettingsNote, fitSummary,
   formatNumber, knotsTable, shownKnots, parseRangeAddress, rangeName, roundedFit, segmentsTable, xPresenter, cellOfRow, ruleInWords,
@@ -251,7 +251,9 @@ function decompositionView(a: Extract<Analysis, { kind: 'decompose' }>, p: Decom
   const d = result.decomposition!;
   const c = d.components;
   const seasons = d.seasons as { label: string; length: number; strength: number; kept: boolean; values: Float64Array }[];
-  const knots = d.knots as { x: number; index: number; row: number; change: number }[];
+  // the trend's bends (neighbouring knots merged, honest sizes), as the knots table of a fit; the raw knots are counted
+  const allKnots = d.knots as { x: number; index: number; row: number; change: number }[];
+  const knots = ((d.bends ?? []) as Bend[]).map((b) => ({ x: b.x, index: b.index, row: b.row, change: Number.isFinite(b.change) ? b.change : b.shrunkChange }));
   const spikeIndex = d.spikeIndex as number[];
   const unit = SPACING_UNIT[d.spacing as string] ?? 'steps';
   const method = d.method === 'stl' ? 'STL (LOESS trend and a slowly changing season)' : 'trend with knots chosen by the data, fixed seasonal pattern and one-off spikes';
@@ -288,7 +290,7 @@ function decompositionView(a: Extract<Analysis, { kind: 'decompose' }>, p: Decom
   const summary: [string, string][] = [
     ['method', method],
     ['season', seasonWords],
-    ['trend', d.method === 'stl' ? 'LOESS' : `${knots.length} knots; penalty ${Number.isFinite(penalty) ? formatNumber(penalty) : '-'} chosen by ${ruleInWords(result.criterion?.name ?? 'fixed')}`],
+    ['trend', d.method === 'stl' ? 'LOESS' : `${knots.length} bends (from ${allKnots.length} knots); penalty ${Number.isFinite(penalty) ? formatNumber(penalty) : '-'} chosen by ${ruleInWords(result.criterion?.name ?? 'fixed')}`],
     ['spikes', String(spikeIndex.length)],
     ['noise sd', r.format(d.noiseScale as number)],
     ['points used', `${series.n} of ${series.nRows} rows`],

@@ -70,6 +70,7 @@
 import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
 import type { Criterion, Knot, SolverStatus } from '../types';
+import { knotBends, type Bend } from '../diagnostics/knotBends';
 import { Warning, warning, listRows } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { boundaryWarning } from '../diagnostics/commonWarnings';
@@ -155,6 +156,12 @@ export interface DecomposeResult {
   noiseScale: number;
   /** Knots of the trend (adaptive; empty for STL). */
   knots: Knot[];
+  /**
+   * The trend's bends: neighbouring knots of one sign merged, each sized on the unpenalised refit of the
+   * trend's data y - season - spikes (its honest size beside the shrunk one), as the knots table of a
+   * trend fit (see knotBends). Adaptive; empty for STL.
+   */
+  bends: Bend[];
   /** Clean-point indices with a non-zero spike. */
   spikeIndex: number[];
   /** How lambda was chosen. */
@@ -390,6 +397,8 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   const off = k === 0 ? 1 : k;
   const dk = tf.knotDifferences;
   const knots: Knot[] = tf.knotRows.map((r, j) => ({ x: kx[j], index: r + off, row: series.firstRow[r + off], change: dk ? (sc.c * dk[j]) / Math.pow(sc.h, k) : NaN }));
+  // bends on the data the trend was fitted to (the series less its season and spikes)
+  const bends = knotBends({ ...series, y: Float64Array.from(y, (v, i) => v - season[i] - spikes[i]) }, k, knots);
   if (knots.length > n / 4) warnings.push(warning('few-points-per-df', `The trend has ${knots.length} knots on ${n} points (penalty ${showNumber(lambda)}, chosen by ${criterion.name}): it may be following noise rather than the trend. Give a larger penalty, or a lower order.`));
   if (spikeIndex.length) {
     const rows = spikeIndex.map((i) => series.firstRow[i]);
@@ -400,7 +409,7 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
   return {
     method: 'adaptive', x, y, trend, season, spikes, remainder, adjusted, seasons: reports, seasonal: keptIdx.length > 0,
     strengthThreshold: SEASONAL_STRENGTH_THRESHOLD, spacing: plan ? plan.spacing : 'steps', dates: plan ? plan.dates : false,
-    penalty: lambda, spikePenalty: rho, noiseScale: sigma, knots, spikeIndex, criterion, warnings,
+    penalty: lambda, spikePenalty: rho, noiseScale: sigma, knots, bends, spikeIndex, criterion, warnings,
     solver: scaleRounds > 1 ? { ...sol.status, stoppingRule: `${sol.status.stoppingRule}; the last of ${scaleRounds} solves while the noise scale of the spike threshold settled` } : sol.status,
   };
 }
@@ -437,7 +446,7 @@ function stlResult(series: Series, plan: NonNullable<ReturnType<typeof seasonPla
   return {
     method: 'stl', x, y, trend: out.trend, season, spikes, remainder, adjusted, seasons: reports, seasonal: reports.some((r) => r.kept),
     strengthThreshold: SEASONAL_STRENGTH_THRESHOLD, spacing: plan.spacing, dates: plan.dates, penalty: NaN, spikePenalty: NaN,
-    noiseScale: 1.4826 * medianAbs(remainder), knots: [], spikeIndex, criterion: { name: 'none', value: NaN }, warnings,
+    noiseScale: 1.4826 * medianAbs(remainder), knots: [], bends: [], spikeIndex, criterion: { name: 'none', value: NaN }, warnings,
     solver: { converged: true, iterations: passes, tolerance: 0, achieved: 0, stoppingRule: 'STL: fixed numbers of inner and robustness passes (no tolerance)' },
   };
 }

@@ -90,7 +90,7 @@ export const decomposeAnalysis: AnalysisDefinition = {
         seasons: r.seasons.map((q) => ({ label: q.label, length: q.length, strength: q.strength, kept: q.kept, values: q.values })),
         seasonal: r.seasonal, strengthThreshold: r.strengthThreshold, spacing: r.spacing, dates: r.dates,
         period: r.seasons.filter((q) => q.kept).map((q) => q.length),
-        knots: r.knots, spikeIndex: r.spikeIndex, penalty: r.penalty, spikePenalty: r.spikePenalty, noiseScale: r.noiseScale,
+        knots: r.knots, bends: r.bends, spikeIndex: r.spikeIndex, penalty: r.penalty, spikePenalty: r.spikePenalty, noiseScale: r.noiseScale,
       },
     };
   },
