@@ -72,10 +72,13 @@ const round = (v: number) => Number(v.toPrecision(3));
 
 /**
  * Longest series the automatic choice compares methods on. Every candidate chooses its
- * penalty by cross-validation, and trend filtering's cross-validation dominates: about
- * 13 s of CPU time for all candidates at 5,000 and at 10,000 points, and 36 s at 16,384,
- * on a 2-core machine (`npm run bench`, fullcolumn), so beyond this length the choice is
- * refused at once with what to do instead, rather than left running for minutes.
+ * penalty by cross-validation, and trend filtering's cross-validation dominates: with the
+ * shorter grids of {@link AUTO_SEARCH_POINTS}, 8.6 to 9.6 s of CPU time for all candidates at
+ * 5,000 points (order 3 about four fifths of it) and 5.9 to 6.0 s at 10,000 (order 2 about
+ * nine tenths; order 3 is refused there), medians of 3 on a shared 2-core machine at a load
+ * average of 4 to 6 (`npm run bench -- --only=smoothers`, part auto; 13 to 14 s and 10 to 11 s
+ * with the full grids); 36 s at 16,384 with the full grids (fullcolumn), so beyond this length
+ * the choice is refused at once with what to do instead, rather than left running for minutes.
  */
 export const AUTO_LIMIT = 10000;
 
