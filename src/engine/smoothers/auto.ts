@@ -9,7 +9,9 @@
  * error of the lowest (the one-standard-error rule applied across methods;
  * Hastie, Tibshirani & Friedman 2009, section 7.10), by the shared rule of
  * {@link choosePenalty} applied to the candidates ordered from most to fewest df.
- * Knot bends ({@link knotBends}) are computed for the winner only.
+ * Knot bends ({@link knotBends}) are computed for the winner only. From
+ * {@link AUTO_COARSE_FROM} points the candidates search shorter penalty grids
+ * ({@link AUTO_SEARCH_POINTS}), said in a note of the result.
  *
  * Caveat, stated in the result: each candidate's score is the minimum of its
  * own cross-validation curve, so it is slightly optimistic (the penalty was
