@@ -416,9 +416,10 @@ export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
 /**
  * Longest series on which the penalties are chosen from the data (cross-validation or a df target): the
  * cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine (npm run
- * bench -- --only=mixed), and 3.1 to 4.7 s of CPU time at 1,000 points (two seeded series, 6 widths;
- * the widths of 64 and 128 spacings, which the doubling grid adds there, cost more than half of it, and
- * the former 3 widths about 1.7 s), so longer series are refused at once; a given penalty has no limit.
+ * bench -- --only=mixed), and 7.9 to 9.1 s of CPU time at 1,000 points (two seeded series, 6 widths,
+ * the returned fit still short of the tolerance after the {@link MIXED_MAX_CYCLES} block steps, which are
+ * about half of that time; with 3 widths and 100 steps it was 1.7 s), so longer series are refused at
+ * once; a given penalty has no limit.
  */
 export const MIXED_DATA_DRIVEN_LIMIT = 1000;
 
