@@ -18,9 +18,9 @@
  * s lambda1 as kinks, so features narrower than about `width` are drawn as kinks and wider
  * ones as smooth bends. With neither given both are chosen by K-fold cross-validation on the
  * shared folds ({@link crossValidate}): for each width of a doubling grid ({@link mixedWidths}:
- * 4, 8, 16, 32, ... mean spacings of x, up to n / 4), a path of `searchPoints` values of lambda1 log-spaced
+ * 4, 8, 16 and 32 mean spacings of x, those up to n / 4), a path of `searchPoints` values of lambda1 log-spaced
  * from the smallest penalty at which both components are polynomials down to 1e-4 of it, so
- * widths x 10 x (folds + 1) mixed fits at the defaults (4 widths at 200 points, 6 at 1,000; path and fold fits by the ADMM alone,
+ * widths x 10 x (folds + 1) mixed fits at the defaults (4 widths from 128 points; path and fold fits by the ADMM alone,
  * {@link mixedAdmm}; the chosen one made exact by the block steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
  * `cv-simpler` the fewest df within one standard error of it ({@link choosePenalty} on the
  * grid ordered by df). A df target solves for lambda1 at the given width (default 12 mean
@@ -58,14 +58,22 @@ import { solveMixed, MixedFit, MixedProblems, MixedSolveSettings, MixedStart } f
 /** Smallest width of the cross-validation grid, in mean spacings of x. */
 export const MIXED_SMALLEST_WIDTH = 4;
 
+/** Widest width of the cross-validation grid, in mean spacings of x (the former grid's widest was 36). */
+export const MIXED_WIDEST_WIDTH = 32;
+
 /**
- * Widths of the cross-validation grid for n points, in mean spacings of x: 4, 8, 16, ... (each twice
- * the one before) up to n / 4, and at least the first. The ratio lambda3 / lambda1 grows as the
+ * Widths of the cross-validation grid for n points, in mean spacings of x: 4, 8, 16, 32 (each twice
+ * the one before), those up to n / 4, and at least the first. The ratio lambda3 / lambda1 grows as the
  * square of the width, so neighbouring widths differ by a factor 4 in the ratio. A coarser grid
  * (4, 12 and 36 spacings, a factor 9 in the ratio) missed the band where the fit is a true mixture:
  * on the invented kinked-then-smooth series (200 points, 7 seeds) widths up to 12 spacings gave the
  * pure order-3 fit (no kinks), 36 and more drew the smooth humps as runs of kinks, and the mixtures
- * with the lowest error against the truth came at 16 to 28 spacings (test/engine/smoothers/mixedAdaptivity.test.ts).
+ * with the lowest error against the truth came at 16 to 32 spacings (test/engine/smoothers/mixedAdaptivity.test.ts).
+ * Wider widths (64, 128 spacings on long series) were tried and left out for their cost: they are
+ * the slowest (many kinks, slow block steps): with them the choice took 7.9 to 9.1 s of CPU time at
+ * 1,000 points on two seeded kinked-then-smooth series, without them 1.0 to 1.3 s. They were not
+ * chosen on the benchmark's 500-point series; at 1,000 points 128 spacings had the lowest score, by
+ * less than 1%, so on long series with wide kinked stretches this grid may miss a slightly better width.
  *
  * @example
  * ```ts
@@ -74,7 +82,7 @@ export const MIXED_SMALLEST_WIDTH = 4;
  */
 export function mixedWidths(n: number): number[] {
   const out = [MIXED_SMALLEST_WIDTH];
-  while (2 * out[out.length - 1] <= n / 4) out.push(2 * out[out.length - 1]);
+  while (2 * out[out.length - 1] <= Math.min(n / 4, MIXED_WIDEST_WIDTH)) out.push(2 * out[out.length - 1]);
   return out;
 }
 
@@ -416,10 +424,9 @@ export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
 /**
  * Longest series on which the penalties are chosen from the data (cross-validation or a df target): the
  * cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine (npm run
- * bench -- --only=mixed), and 7.9 to 9.1 s of CPU time at 1,000 points (two seeded series, 6 widths,
- * the returned fit still short of the tolerance after the {@link MIXED_MAX_CYCLES} block steps, which are
- * about half of that time; with 3 widths and 100 steps it was 1.7 s), so longer series are refused at
- * once; a given penalty has no limit.
+ * bench -- --only=mixed), and 1.0 to 1.3 s of CPU time at 1,000 points (two seeded series, 4 widths),
+ * 4.5 to 5.1 s on the 256-point Blocks and Doppler series, so longer series are refused at once; a given
+ * penalty has no limit.
  */
 export const MIXED_DATA_DRIVEN_LIMIT = 1000;
 
@@ -433,7 +440,7 @@ export const mixedAnalysis: AnalysisDefinition = {
     ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler'], defaultRule: 'cv', folds: 5, searchPoints: 10 }).map((o) => (o.name === 'penalty'
       ? { ...o, help: 'a fixed penalty on kinks (lambda1, units of y times units of x) instead of a rule; the penalty on bends is lambda1 (width / 4)^2' }
       : o.name === 'searchPoints' ? { ...o, max: 60, help: 'number of penalties tried per width (default 10)' } : o)),
-    { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 8, 16, ... spacings of x, each twice the one before, up to a quarter of the points; 12 spacings with a penalty or df)' },
+    { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 8, 16 and 32 spacings of x, those up to a quarter of the points; 12 spacings with a penalty or df)' },
     SEASON_OPTION,
     { name: 'tolerance', kind: 'number', above: 0, max: 0.001, help: 'largest change of the kinks in a final solver step, relative to the sd of y (default 1e-5)' },
     { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'limit of the exact block steps after the ADMM (default 1000)' },
