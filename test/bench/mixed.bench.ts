@@ -8,8 +8,8 @@
  * - the acceptance series (mixedAdaptivity.test.ts: noise sd 0.1, slope changes tripled, 200 points)
  *   for seeds 1 to 7: the cross-validated mixed fit's width, df and MSE beside the lowest MSE of trend
  *   filtering (orders 0 to 3) and the spline at that df, and whether it is lower;
- * - time of a fixed-penalty fit and of the full cross-validated choice (widths 4, 8, 16, ... spacings
- *   up to n / 4, so 4 widths at 200 points and 5 at 500, x 10 penalties x 5 folds), medians of repeats. The machine is shared (2 cores, other jobs): timings are noisy,
+ * - time of a fixed-penalty fit and of the full cross-validated choice (widths 4, 8, 16 and 32
+ *   spacings, those up to n / 4, x 10 penalties x 5 folds), medians of repeats. The machine is shared (2 cores, other jobs): timings are noisy,
  *   hence medians.
  * `quick` uses n = 200 only.
  */
