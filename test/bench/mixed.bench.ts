@@ -5,8 +5,11 @@
  *   (test/engine/smoothers/mixedSeries.ts: seeded, uneven x, noise sd 0.15): the mixed trend
  *   (width chosen by cross-validation, then df targets at that width) beside trend filtering of
  *   orders 0 to 3 and the smoothing spline at the same df targets;
- * - time of a fixed-penalty fit and of the full cross-validated choice (3 widths x 10 penalties x
- *   5 folds), medians of repeats. The machine is shared (2 cores, other jobs): timings are noisy,
+ * - the acceptance series (mixedAdaptivity.test.ts: noise sd 0.1, slope changes tripled, 200 points)
+ *   for seeds 1 to 7: the cross-validated mixed fit's width, df and MSE beside the lowest MSE of trend
+ *   filtering (orders 0 to 3) and the spline at that df, and whether it is lower;
+ * - time of a fixed-penalty fit and of the full cross-validated choice (widths 4, 8, 16 and 32
+ *   spacings, those up to n / 4, x 10 penalties x 5 folds), medians of repeats. The machine is shared (2 cores, other jobs): timings are noisy,
  *   hence medians.
  * `quick` uses n = 200 only.
  */
@@ -26,6 +29,22 @@ function median(v: number[]): number {
 }
 
 export function run(emit: (r: Record<string, unknown>) => void, quick: boolean): void {
+  for (const seed of quick ? [5] : [1, 2, 3, 4, 5, 6, 7]) {
+    const { x, y, truth } = kinkedThenSmoothSeries(200, seed, 0.1, 3);
+    const s = seriesFromArrays(x, y);
+    const h = (x[199] - x[0]) / 199;
+    const mse = (f: Float64Array) => { let e = 0; for (let i = 0; i < 200; i++) e += (f[i] - truth[i]) ** 2; return e / 200; };
+    const cv = fitMixed(s, {});
+    const row: Record<string, unknown> = { bench: 'mixed-acceptance', n: 200, seed, widthInSpacings: (cv.model as MixedModel).width / h, df: cv.df, mixedMse: Number(mse(cv.fitted).toExponential(3)) };
+    let best = Infinity, bestName = '';
+    for (const k of [0, 1, 2, 3]) { const e = mse(fitTrend(s, { order: k, df: cv.df }).fitted); row[`trendK${k}Mse`] = Number(e.toExponential(3)); if (e < best) { best = e; bestName = `trend order ${k}`; } }
+    const sp = mse(fitSpline(s, { df: cv.df }).fitted);
+    row.splineMse = Number(sp.toExponential(3));
+    if (sp < best) { best = sp; bestName = 'spline'; }
+    row.bestOther = bestName;
+    row.mixedLower = mse(cv.fitted) < best;
+    emit(row);
+  }
   for (const n of quick ? [200] : [200, 500]) {
     const { x, y, truth } = kinkedThenSmoothSeries(n, 5);
     const s = seriesFromArrays(x, y);

@@ -12,7 +12,11 @@
  *   loess with its default kd-tree vertex interpolation (surface = "interpolate"; timed with its
  *   default exact trace of the smoother matrix, as ours, and with trace.hat = "approximate"), and our
  *   exact fit beside R's surface = "direct" up to 1e4.
- * KNOTWISE_BENCH_SMOOTHERS=whittaker,wavelet,loess selects parts (default all).
+ * - The automatic choice (auto) at n = 5,000 and 10,000 on two seeded series (a kinked line
+ *   with a smooth wave, and a slow wave with level shifts): wall and CPU time of the whole choice
+ *   (medians of repeats) and each candidate's milliseconds from the comparison table (medians), with
+ *   the chosen method, df and the load average at the start and end of each size.
+ * KNOTWISE_BENCH_SMOOTHERS=whittaker,wavelet,loess,auto selects parts (default all).
  * The machine is shared and has 2 cores: figures are noisy, so medians and minima of the
  * repeats are both printed; ratios are ours / theirs (speedups theirs / ours).
  */
@@ -25,6 +29,7 @@ import { whittakerOneSided } from '../../src/engine/smoothers/whittaker/whittake
 import { waveletShrink } from '../../src/engine/smoothers/wavelet/waveletShrink';
 import { loessFit } from '../../src/engine/smoothers/loess/loessFit';
 import { mulberry32, normalStream } from '../helpers/random';
+import { runAnalysis } from '../../src/engine';
 
 function median(v: number[]): number {
   const a = [...v].sort((p, q) => p - q);
@@ -203,6 +208,40 @@ cat(a, b, c)`);
         }
       } else rec.r_loess_interpolate_ms = 'R not installed';
       emit(rec);
+    }
+
+    // the automatic choice: every candidate cross-validated on the same folds
+    for (const n of !part('auto') ? [] : quick ? [1000] : [5000, 10000]) {
+      for (const shape of ['kinks-and-wave', 'shifts-and-wave']) {
+        const z = normalStream(n + (shape === 'kinks-and-wave' ? 5 : 6));
+        const x = Array.from({ length: n }, (_, i) => i + 1);
+        const y = x.map((t) => {
+          const u = t / n;
+          return shape === 'kinks-and-wave'
+            ? 4 * u - 10 * Math.max(0, u - 0.2) + 8 * Math.max(0, u - 0.45) + 0.5 * Math.sin(12 * Math.PI * u) * (u > 0.6 ? 1 : 0) + 0.3 * z()
+            : Math.sin(4 * Math.PI * u) + (u > 0.3 ? 1 : 0) - (u > 0.7 ? 1.5 : 0) + 0.4 * z();
+        });
+        const load0 = os.loadavg()[0];
+        const repeats = quick ? 1 : 3;
+        const wall: number[] = [], cpu: number[] = [], per = new Map<string, number[]>();
+        let last: ReturnType<typeof runAnalysis> | undefined;
+        for (let r = 0; r < repeats; r++) {
+          const c0 = process.cpuUsage();
+          const t0 = process.hrtime.bigint();
+          last = runAnalysis({ analysis: 'auto', y, x });
+          wall.push(Number(process.hrtime.bigint() - t0) / 1e6);
+          const dc = process.cpuUsage(c0);
+          cpu.push((dc.user + dc.system) / 1e3);
+          for (const row of last.comparison!.rows) per.set(row.label, [...(per.get(row.label) ?? []), row.milliseconds]);
+        }
+        const c = last!.comparison!;
+        emit({
+          bench: 'smoothers', method: 'auto', shape, n, repeats, ms: Math.round(median(wall)), min_ms: Math.round(Math.min(...wall)), cpu_ms: Math.round(median(cpu)),
+          load_average_start: Number(load0.toFixed(2)), load_average_end: Number(os.loadavg()[0].toFixed(2)),
+          chosen: c.rows[c.chosen].label, chosen_df: Number(c.rows[c.chosen].df.toFixed(2)), best: c.rows[c.best].label,
+          candidates: c.rows.map((row) => ({ label: row.label, median_ms: median(per.get(row.label)!), df: Number(row.df.toFixed(2)), cv: Number(row.cv.toPrecision(4)), se: Number(row.se.toPrecision(3)), ...(row.skipped ? { skipped: row.skipped.slice(0, 60) } : {}) })),
+        });
+      }
     }
   } finally {
     fs.rmSync(dir, { recursive: true, force: true });

@@ -9,7 +9,9 @@
  * error of the lowest (the one-standard-error rule applied across methods;
  * Hastie, Tibshirani & Friedman 2009, section 7.10), by the shared rule of
  * {@link choosePenalty} applied to the candidates ordered from most to fewest df.
- * Knot bends ({@link knotBends}) are computed for the winner only.
+ * Knot bends ({@link knotBends}) are computed for the winner only. From
+ * {@link AUTO_COARSE_FROM} points the candidates search shorter penalty grids
+ * ({@link AUTO_SEARCH_POINTS}), said in a note of the result.
  *
  * Caveat, stated in the result: each candidate's score is the minimum of its
  * own cross-validation curve, so it is slightly optimistic (the penalty was
@@ -72,12 +74,37 @@ const round = (v: number) => Number(v.toPrecision(3));
 
 /**
  * Longest series the automatic choice compares methods on. Every candidate chooses its
- * penalty by cross-validation, and trend filtering's cross-validation dominates: about
- * 13 s of CPU time for all candidates at 5,000 and at 10,000 points, and 36 s at 16,384,
- * on a 2-core machine (`npm run bench`, fullcolumn), so beyond this length the choice is
- * refused at once with what to do instead, rather than left running for minutes.
+ * penalty by cross-validation, and trend filtering's cross-validation dominates: with the
+ * shorter grids of {@link AUTO_SEARCH_POINTS}, 8.6 to 9.6 s of CPU time for all candidates at
+ * 5,000 points (order 3 about four fifths of it) and 5.9 to 6.0 s at 10,000 (order 2 about
+ * nine tenths; order 3 is refused there), medians of 3 on a shared 2-core machine at a load
+ * average of 4 to 6 (`npm run bench -- --only=smoothers`, part auto; 13 to 14 s and 10 to 11 s
+ * with the full grids); 36 s at 16,384 with the full grids (fullcolumn), so beyond this length
+ * the choice is refused at once with what to do instead, rather than left running for minutes.
  */
 export const AUTO_LIMIT = 10000;
+
+/**
+ * Most penalties a candidate's search grid tries during the automatic choice on series of at least
+ * {@link AUTO_COARSE_FROM} points. A method whose own default grid is longer is run on this many,
+ * log-spaced over its usual range: trend filtering (30 penalties from lambda_max down to 1e-5 to
+ * 1e-9 of it), whose cross-validation costs one fit per penalty and fold and is where the time of
+ * the choice goes; the spline and Whittaker (25), which refine their grid minimum by Brent's method
+ * anyway. The minimum of a cross-validation curve is flat on the scale of its standard error: on
+ * the seeded series of the benchmark at 5,000 points the minimum of trend filtering on 15 penalties
+ * was within 0.1 standard error of the minimum on 30 (orders 1 to 3), and the whole choice took a third
+ * to nearly a half less CPU time.
+ */
+export const AUTO_SEARCH_POINTS = 15;
+
+/**
+ * Shortest series on which the automatic choice uses the shorter grids of {@link AUTO_SEARCH_POINTS}.
+ * Below it every candidate runs its own grid: the whole choice takes a few seconds at most there,
+ * and on short series a trend filter's df at the minimum, which the one-standard-error rule across
+ * methods compares, moves by a knot or two with the grid, which changed the pick among fits of
+ * nearly equal error on 3 of the 8 series of the automatic choice's tests (measured with 15 penalties).
+ */
+export const AUTO_COARSE_FROM = 2000;
 
 /**
  * Runs every candidate and picks one.
@@ -109,7 +136,9 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
         // the season (if any) was taken out once, before the candidates: they smooth the series as it is now
         // every candidate chooses by cross-validation: through its rule, or through its variant's options (wavelet: threshold=cv)
         const declares = (name: string) => def.options.some((o) => o.name === name);
-        const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...(declares('season') ? { season: 'none' } : {}) }, def.name).options;
+        const grid = def.options.find((o) => o.name === 'searchPoints')?.default;
+        const coarser = series.n >= AUTO_COARSE_FROM && typeof grid === 'number' && grid > AUTO_SEARCH_POINTS ? { searchPoints: AUTO_SEARCH_POINTS } : {};
+        const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...coarser, ...(declares('season') ? { season: 'none' } : {}) }, def.name).options;
         if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
         const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
         const fit = core.smooth!;
@@ -149,6 +178,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   const notes = [
     warning('note', `Automatic choice among ${ok.length} fits by ${folds}-fold cross-validation on the same held-out points: ${reason} Each score is the minimum of its own curve, so all are slightly optimistic alike.`),
   ];
+  if (series.n >= AUTO_COARSE_FROM) notes.push(warning('note', `On ${series.n.toLocaleString('en-US')} points each candidate searched at most ${AUTO_SEARCH_POINTS} penalties (its own default range); run a method on its own for its full search grid.`));
   for (const r of rows) if (r.skipped) notes.push(warning('note', `Not compared: ${r.label}: ${r.skipped}`));
   return { ...win, warnings: [...notes, ...win.warnings], comparison: { rows, chosen, best, folds, reason } };
 }

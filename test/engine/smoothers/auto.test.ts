@@ -5,7 +5,7 @@
  * is within one standard error of the best candidate's.
  */
 import { runAnalysis, evaluateAnalysis, analysisDefinitions } from '../../../src/engine';
-import { AUTO_LIMIT } from '../../../src/engine/smoothers/auto';
+import { AUTO_LIMIT, AUTO_COARSE_FROM, AUTO_SEARCH_POINTS } from '../../../src/engine/smoothers/auto';
 import { normalStream } from '../../helpers/random';
 
 function series(f: (t: number) => number, n: number, sd: number, seed: number) {
@@ -30,6 +30,44 @@ describe('auto', () => {
     }
   });
 
+  test('from AUTO_COARSE_FROM points the candidates with a longer grid search AUTO_SEARCH_POINTS penalties over their usual range; below it their own grid', () => {
+    const defs = analysisDefinitions('smoother').filter((d) => d.name !== 'auto');
+    const spies = defs.map((d) => jest.spyOn(d, 'run'));
+    const gridOf = (name: string) => defs.find((d) => d.name === name)!.options.find((o) => o.name === 'searchPoints')?.default;
+    // the declared grids this rule shortens (and LOESS, wavelets and the mixed trend, which declare none longer)
+    expect(gridOf('trend')).toBe(30);
+    expect(gridOf('spline')).toBe(25);
+    try {
+      const long = series((t) => (t < 900 ? 0.01 * t : 9 - 0.02 * (t - 900)) + 0.5 * Math.sin(t / 150), AUTO_COARSE_FROM, 0.3, 13);
+      const r = runAnalysis({ analysis: 'auto', y: long.y, x: long.x });
+      let trendRuns = 0;
+      defs.forEach((d, i) => spies[i].mock.calls.forEach((call, j) => {
+        const own = gridOf(d.name);
+        const expected = typeof own === 'number' ? Math.min(own, AUTO_SEARCH_POINTS) : undefined;
+        expect(call[1].searchPoints).toBe(expected);
+        const res = spies[i].mock.results[j];
+        if (d.name === 'trend' && res.type === 'return') {
+          trendRuns++;
+          const curve = (res.value as { criterion: { curve: unknown[] } }).criterion.curve;
+          // the path's grid: this many penalties from lambda_max down, as the method's own range
+          expect(curve.length).toBe(AUTO_SEARCH_POINTS);
+        }
+      }));
+      expect(trendRuns).toBe(4); // orders 0 to 3 all fitted at this length
+      expect(r.warnings.some((w) => w.message.includes(`searched at most ${AUTO_SEARCH_POINTS} penalties`))).toBe(true);
+      // the shared rule still holds: the pick is within one standard error of the best
+      const c = r.comparison!;
+      expect(c.rows[c.chosen].cv).toBeLessThanOrEqual(c.rows[c.best].cv + c.rows[c.best].se);
+      for (const sp of spies) sp.mockClear();
+      // shorter series: every candidate's own grid
+      const short = series((t) => Math.sin(t / 20), 200, 0.2, 14);
+      const r2 = runAnalysis({ analysis: 'auto', y: short.y, x: short.x });
+      defs.forEach((d, i) => spies[i].mock.calls.forEach((call) => expect(call[1].searchPoints).toBe(gridOf(d.name))));
+      expect(r2.warnings.some((w) => w.message.includes('searched at most'))).toBe(false);
+    } finally {
+      for (const sp of spies) sp.mockRestore();
+    }
+  }, 600000);
 
   test('auto on a straight line with noise picks a fit of at most 3 df', () => {
     const { x, y } = series((t) => 2 + 0.05 * t, 200, 1, 5);

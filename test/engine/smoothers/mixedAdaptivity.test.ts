@@ -1,26 +1,50 @@
 /**
  * The acceptance check of the mixed trend: on the invented, seeded kinked-then-smooth series
- * (mixedSeries.ts: three kinks, then two smooth humps; uneven x; noise sd 0.1, slope changes
- * tripled), the mixed fit should have a lower mean squared error against the truth than every
- * single-order trend filter (orders 0 to 3) and the smoothing spline at the same df. The mixed
- * fits are the cross-validated one and two at 3 times and 1/3 of its kink penalty (same width);
- * the others are fitted at each mixed fit's df (trend filtering meets it in whole steps, the
- * spline exactly).
+ * (mixedSeries.ts: three kinks, then two smooth humps; uneven x; 200 points, noise sd 0.1, slope
+ * changes tripled), the cross-validated mixed fit should have a lower mean squared error against
+ * the truth than every single-order trend filter (orders 0 to 3) and the smoothing spline at the
+ * same df (trend filtering meets a df in whole steps, the spline exactly).
  *
- * Met at a low df (12, the first test) but not over the range, so the second test runs as an expected failure (it starts failing once the mixed fit wins, and
- * the mark is then removed). Measured (n = 200): at df 39 / 27 / 50 the mixed fit's MSE is
- * 2.05e-3 / 2.20e-3 / 2.22e-3 against the spline's 1.89e-3 / 1.85e-3 / 2.22e-3 and order 1's
- * 1.91e-3 / 1.82e-3 / 2.28e-3: it beats orders 0, 2 and 3 but not the spline or order 1. Its
- * df (kinks + bend knots + 4) counts the runs of neighbouring knots order 3 places at each bend,
- * so at equal df it has fewer effective parameters than the others; whether a fairer df (or a
- * different width grid) closes the gap is open. With df targets on the default series (bench, width 12 spacings),
- * the mixed fit wins at df 12 and loses to order 2 at 16 and to the spline at 20, 25 and 30.
+ * What "the same df" means: the mixed fit's df is kinks + bend knots + 4; the third test checks on
+ * the cross-validated fits that this is the dimension of the sum of the two spline spaces, the df of
+ * the generalised lasso (Tibshirani & Taylor, Ann. Statist. 40 (2012), from memory), computed here
+ * as a matrix rank, so the comparison is at the lasso's own df and no method is favoured by the count.
+ *
+ * Why the claim held only at a low df before, found on seeds 1 to 7:
+ * - the width (the ratio lambda3 / lambda1) was chosen among 4, 12 and 36 spacings of x. On this
+ *   series widths up to 12 spacings give the pure order-3 fit (no kinks) and 36 draws the humps as
+ *   runs of kinks; the mixtures with the lowest error come at 16 to 32 spacings. The grid now
+ *   doubles: 4, 8, 16, 32 ({@link mixedWidths});
+ * - the returned fit's exact block steps stopped at 100, and true mixtures need up to 869: five of
+ *   the seven cross-validated fits stopped short (kinks still moving by up to 4e-3 sd of y), with a
+ *   df a few knots off the exact fit's (seed 5: 26 instead of 23). The limit is now 1000
+ *   ({@link MIXED_MAX_CYCLES}).
+ * Measured, cross-validated fit against the best other fit at its df: with the old widths and 100
+ * steps 2 seeds of 7 won; with the doubling grid and 100 steps 6 of 7 (seed 5 lost: 2.05e-3 at 26 df
+ * against the spline's 1.90e-3); with both changes 7 of 7 (seed 5: 2.06e-3 at 23 df against the
+ * spline's 2.11e-3; seed 4 by less than 0.1%). The series was not changed to make the claim pass.
+ *
+ * What still does not hold (the expected failure at the end): the claim over a range of df at the
+ * chosen width. At 3 times the cross-validated penalty (17 df) order 3 is better (2.84e-3 against
+ * 2.91e-3), at a third of it (32 df) order 1 is (1.68e-3 against 1.77e-3): the best width changes
+ * with the df, and cross-validation on 200 points cannot tell the widths apart (their best scores lie
+ * within half a standard error of each other), so it is chosen once, for the cross-validated df.
  */
-import { fitMixed, MixedModel } from '../../../src/engine/smoothers/mixed/mixedAnalysis';
+import { fitMixed, MixedModel, mixedWidths, MIXED_MAX_CYCLES } from '../../../src/engine/smoothers/mixed/mixedAnalysis';
 import { fitTrend } from '../../../src/engine/smoothers/trend';
 import { fitSpline } from '../../../src/engine/smoothers/spline';
 import { seriesFromArrays } from '../../../src/engine/series';
+import { differenceOperator } from '../../../src/engine/linalg/difference';
 import { kinkedThenSmoothSeries } from './mixedSeries';
+
+const mseOf = (truth: Float64Array) => (f: Float64Array) => f.reduce((a, v, i) => a + (v - truth[i]) ** 2, 0) / truth.length;
+
+/** The lowest MSE of the single-order trend filters and the spline at a df. */
+function bestOther(s: ReturnType<typeof seriesFromArrays>, df: number, mse: (f: Float64Array) => number): number {
+  let best = mse(fitSpline(s, { df }).fitted);
+  for (const k of [0, 1, 2, 3]) best = Math.min(best, mse(fitTrend(s, { order: k, df }).fitted));
+  return best;
+}
 
 test('at a low df (12) the mixed fit beats every single-order trend filter and the spline', () => {
   // measured by the bench (default series: noise sd 0.15, n = 200, width 12 spacings): MSE 4.1e-3 against
@@ -28,7 +52,7 @@ test('at a low df (12) the mixed fit beats every single-order trend filter and t
   const { x, y, truth } = kinkedThenSmoothSeries(200, 5);
   const s = seriesFromArrays(x, y);
   const h = (x[x.length - 1] - x[0]) / (x.length - 1);
-  const mse = (f: Float64Array) => f.reduce((a, v, i) => a + (v - truth[i]) ** 2, 0) / truth.length;
+  const mse = mseOf(truth);
   const m = fitMixed(s, { df: 12, width: 12 * h });
   expect(m.df).toBe(12);
   const e = mse(m.fitted);
@@ -36,15 +60,95 @@ test('at a low df (12) the mixed fit beats every single-order trend filter and t
   expect(e).toBeLessThan(mse(fitSpline(s, { df: 12 }).fitted));
 }, 600000);
 
-test.failing('mixed beats every single-order trend filter and the spline at matched df on a kinked-then-smooth series', () => {
+test('the width grid doubles from 4 spacings up to 32 or a quarter of the points', () => {
+  expect(mixedWidths(200)).toEqual([4, 8, 16, 32]);
+  expect(mixedWidths(1000)).toEqual([4, 8, 16, 32]);
+  expect(mixedWidths(100)).toEqual([4, 8, 16]);
+  expect(mixedWidths(20)).toEqual([4]);
+  expect(mixedWidths(6)).toEqual([4]);
+});
+
+/** Rank of a dense matrix (rows of equal length) by Gaussian elimination with complete pivoting. */
+function rank(rows: Float64Array[], relTol = 1e-10): number {
+  const a = rows.map((r) => Float64Array.from(r));
+  const m = a.length, n = a[0].length;
+  let scale = 0;
+  for (const r of a) for (const v of r) scale = Math.max(scale, Math.abs(v));
+  let rk = 0;
+  const colUsed = new Uint8Array(n);
+  const rowUsed = new Uint8Array(m);
+  for (;;) {
+    let bi = -1, bj = -1, bv = 0;
+    for (let i = 0; i < m; i++) if (!rowUsed[i]) for (let j = 0; j < n; j++) if (!colUsed[j] && Math.abs(a[i][j]) > bv) { bv = Math.abs(a[i][j]); bi = i; bj = j; }
+    if (bi < 0 || bv <= relTol * scale) return rk;
+    rowUsed[bi] = 1; colUsed[bj] = 1; rk++;
+    for (let i = 0; i < m; i++) {
+      if (rowUsed[i] || a[i][bj] === 0) continue;
+      const f = a[i][bj] / a[bi][bj];
+      for (let j = 0; j < n; j++) a[i][j] -= f * a[bi][j];
+    }
+  }
+}
+
+test('the df of the cross-validated mixed fits is the dimension of the sum of their two spline spaces', () => {
+  // S1: piecewise linear with kinks at the kink rows; S3: null space of the rows of D(x, 4) that are not
+  // bend knots. dim(S1 + S3) = dim S1 + dim S3 - dim(S1 n S3), and S1 n S3 is the null space of the
+  // stacked rows of D(x, 2) off the kinks and D(x, 4) off the bend knots.
+  for (const seed of [5, 2]) {
+    const { x, y } = kinkedThenSmoothSeries(200, seed, 0.1, 3);
+    const n = x.length;
+    const fit = fitMixed(seriesFromArrays(x, y), {});
+    const m = fit.model as MixedModel;
+    const kinkRows = new Set(fit.knots.map((k) => k.index - 1));
+    const bendRows = new Set(m.bendRows);
+    const cols = (q: number) => Array.from({ length: n }, (_, j) => { const e = new Float64Array(n); e[j] = 1; return Float64Array.from(differenceOperator(x, q, e)); });
+    const transpose = (c: Float64Array[], rowsOut: number) => Array.from({ length: rowsOut }, (_, r) => Float64Array.from(c, (col) => col[r]));
+    const d2 = transpose(cols(2), n - 2), d4 = transpose(cols(4), n - 4);
+    const stacked = [...d2.filter((_, r) => !kinkRows.has(r)), ...d4.filter((_, r) => !bendRows.has(r))];
+    const intersection = n - rank(stacked);
+    const dimSum = (kinkRows.size + 2) + (bendRows.size + 4) - intersection;
+    expect(kinkRows.size).toBeGreaterThan(0); // a true mixture: both parts have knots
+    expect(bendRows.size).toBeGreaterThan(0);
+    expect(fit.df).toBe(dimSum);
+  }
+}, 600000);
+
+describe('the cross-validated fit against every single-order fit at its df, seeds 1 to 7', () => {
+  const results: { seed: number; df: number; mixed: number; other: number; converged: boolean }[] = [];
+  beforeAll(() => {
+    for (const seed of [1, 2, 3, 4, 5, 6, 7]) {
+      const { x, y, truth } = kinkedThenSmoothSeries(200, seed, 0.1, 3);
+      const s = seriesFromArrays(x, y);
+      const mse = mseOf(truth);
+      const cv = fitMixed(s, {});
+      results.push({ seed, df: cv.df, mixed: mse(cv.fitted), other: bestOther(s, cv.df, mse), converged: cv.solver.converged });
+    }
+  }, 600000);
+
+  test('every fit reaches the tolerance within the default limit of block steps', () => {
+    expect(MIXED_MAX_CYCLES).toBe(1000);
+    for (const r of results) expect(r.converged).toBe(true);
+  });
+
+  test('seed 5 (the series of the claim): the mixed fit has the lowest error at its df', () => {
+    // measured: 23 df, 2.06e-3 against the spline's 2.11e-3
+    const r = results.find((q) => q.seed === 5)!;
+    expect(r.mixed).toBeLessThan(r.other);
+  });
+
+  test('the mixed fit has the lowest error at its df on at least 6 of the 7 seeds', () => {
+    // measured: 7 of 7; seed 4 wins by less than 0.1% (2.085e-3 against order 1's 2.086e-3), so one seed is left as margin
+    expect(results.filter((r) => r.mixed < r.other).length).toBeGreaterThanOrEqual(6);
+  });
+});
+
+test.failing('over a range of df at the chosen width (3 times and a third of the cross-validated penalty) mixed beats every single-order fit', () => {
   const { x, y, truth } = kinkedThenSmoothSeries(200, 5, 0.1, 3);
   const s = seriesFromArrays(x, y);
-  const mse = (f: Float64Array) => f.reduce((a, v, i) => a + (v - truth[i]) ** 2, 0) / truth.length;
+  const mse = mseOf(truth);
   const cv = fitMixed(s, {});
   const width = (cv.model as MixedModel).width;
-  for (const m of [cv, fitMixed(s, { penalty: cv.penalty * 3, width }), fitMixed(s, { penalty: cv.penalty / 3, width })]) {
-    const e = mse(m.fitted);
-    for (const k of [0, 1, 2, 3]) expect(e).toBeLessThan(mse(fitTrend(s, { order: k, df: m.df }).fitted));
-    expect(e).toBeLessThan(mse(fitSpline(s, { df: m.df }).fitted));
+  for (const m of [fitMixed(s, { penalty: cv.penalty * 3, width }), fitMixed(s, { penalty: cv.penalty / 3, width })]) {
+    expect(mse(m.fitted)).toBeLessThan(bestOther(s, m.df, mse));
   }
 }, 600000);

@@ -17,10 +17,10 @@
  * slope change s spread over a width L costs about 16 s lambda3 / L^2 as a smooth bend and
  * s lambda1 as kinks, so features narrower than about `width` are drawn as kinks and wider
  * ones as smooth bends. With neither given both are chosen by K-fold cross-validation on the
- * shared folds ({@link crossValidate}): for each width of a small grid (4, 12 and 36 mean
- * spacings of x, those below n / 4), a path of `searchPoints` values of lambda1 log-spaced
+ * shared folds ({@link crossValidate}): for each width of a doubling grid ({@link mixedWidths}:
+ * 4, 8, 16 and 32 mean spacings of x, those up to n / 4), a path of `searchPoints` values of lambda1 log-spaced
  * from the smallest penalty at which both components are polynomials down to 1e-4 of it, so
- * 3 x 10 x (folds + 1) mixed fits at the defaults (path and fold fits by the ADMM alone,
+ * widths x 10 x (folds + 1) mixed fits at the defaults (4 widths from 128 points; path and fold fits by the ADMM alone,
  * {@link mixedAdmm}; the chosen one made exact by the block steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
  * `cv-simpler` the fewest df within one standard error of it ({@link choosePenalty} on the
  * grid ordered by df). A df target solves for lambda1 at the given width (default 12 mean
@@ -29,7 +29,9 @@
  * Degrees of freedom: kinks + bend knots + 4, the dimension of the sum of the two spline
  * spaces (straight lines counted once; Tibshirani & Taylor, Ann. Statist. 40 (2012), for the
  * generalised lasso). This counts generic fits exactly; a kink whose neighbouring rows are all
- * bend knots would be counted twice.
+ * bend knots would be counted twice. On the cross-validated fits of the kinked-then-smooth test
+ * series the count equals the dimension of the sum of the two spaces computed directly (the
+ * tests compute the rank), so the df matched against other methods is the lasso's own.
  *
  * A trend describes the past; its end values are revised as data arrive and it is not a
  * forecast (every result carries the 'boundary' note).
@@ -53,8 +55,36 @@ import { interpolateTrend } from '../trend/interpolateTrend';
 import { knotPositions, CV_TOLERANCE } from '../trend/trendPath';
 import { solveMixed, MixedFit, MixedProblems, MixedSolveSettings, MixedStart } from './solveMixed';
 
-/** Widths of the cross-validation grid, in mean spacings of x. */
-export const MIXED_WIDTHS = [4, 12, 36] as const;
+/** Smallest width of the cross-validation grid, in mean spacings of x. */
+export const MIXED_SMALLEST_WIDTH = 4;
+
+/** Widest width of the cross-validation grid, in mean spacings of x (the former grid's widest was 36). */
+export const MIXED_WIDEST_WIDTH = 32;
+
+/**
+ * Widths of the cross-validation grid for n points, in mean spacings of x: 4, 8, 16, 32 (each twice
+ * the one before), those up to n / 4, and at least the first. The ratio lambda3 / lambda1 grows as the
+ * square of the width, so neighbouring widths differ by a factor 4 in the ratio. A coarser grid
+ * (4, 12 and 36 spacings, a factor 9 in the ratio) missed the band where the fit is a true mixture:
+ * on the invented kinked-then-smooth series (200 points, 7 seeds) widths up to 12 spacings gave the
+ * pure order-3 fit (no kinks), 36 and more drew the smooth humps as runs of kinks, and the mixtures
+ * with the lowest error against the truth came at 16 to 32 spacings (test/engine/smoothers/mixedAdaptivity.test.ts).
+ * Wider widths (64, 128 spacings on long series) were tried and left out for their cost: they are
+ * the slowest (many kinks, slow block steps): with them the choice took 7.9 to 9.1 s of CPU time at
+ * 1,000 points on two seeded kinked-then-smooth series, without them 1.0 to 1.3 s. They were not
+ * chosen on the benchmark's 500-point series; at 1,000 points 128 spacings had the lowest score, by
+ * less than 1%, so on long series with wide kinked stretches this grid may miss a slightly better width.
+ *
+ * @example
+ * ```ts
+ * mixedWidths(200); // [4, 8, 16, 32]
+ * ```
+ */
+export function mixedWidths(n: number): number[] {
+  const out = [MIXED_SMALLEST_WIDTH];
+  while (2 * out[out.length - 1] <= Math.min(n / 4, MIXED_WIDEST_WIDTH)) out.push(2 * out[out.length - 1]);
+  return out;
+}
 
 /** Width used with a fixed penalty or a df target when none is given, in mean spacings of x. */
 export const MIXED_DEFAULT_WIDTH = 12;
@@ -73,7 +103,7 @@ export interface MixedSettings {
   searchPoints?: number;
   /** Largest change of the kink component in a final block step, relative to the sd of y (default 1e-5). */
   tolerance?: number;
-  /** Most exact block steps (default 100). */
+  /** Most exact block steps (default {@link MIXED_MAX_CYCLES}). */
   maxIterations?: number;
 }
 
@@ -107,8 +137,18 @@ export function mixedDf(fit: MixedFit): number {
   return fit.kinkRows.length + fit.bendRows.length + 4;
 }
 
+/**
+ * Default limit of the exact block steps of the returned fit. True mixtures (both parts with knots)
+ * can need hundreds: on the 200-point acceptance series (mixedAdaptivity.test.ts, seeds 1 to 7) the
+ * cross-validated fits took 85 to 869 steps to reach the tolerance, and with the former limit of 100
+ * five of the seven stopped short (the kinks still moving by up to 4e-3 sd of y), with a df a few
+ * knots off the exact fit's. Each step is two exact trend-filtering solves, so a fit that converges
+ * early costs no more.
+ */
+export const MIXED_MAX_CYCLES = 1000;
+
 /** The returned fit: the ADMM, then exact block steps. */
-const FULL: MixedSolveSettings = { admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: 100, innerTolerance: 1e-10, innerIterations: 400, refine: true };
+const FULL: MixedSolveSettings = { admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: MIXED_MAX_CYCLES, innerTolerance: 1e-10, innerIterations: 400, refine: true };
 /** Points of a penalty path (their df and warm starts): the ADMM alone. */
 const PATH: MixedSolveSettings = { ...FULL, admmTolerance: 1e-5, admmIterations: 3000, refine: false };
 /** Cross-validation folds: the ADMM alone, to a looser tolerance (they only predict held-out points). */
@@ -185,7 +225,7 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
     const rule = s.rule ?? 'cv';
     const K = Math.max(2, Math.min(s.folds ?? 5, Math.floor(n / 3)));
     const G = s.searchPoints ?? 10;
-    const list = s.width !== undefined ? [s.width] : MIXED_WIDTHS.filter((v, i) => i === 0 || v <= n / 4).map((v) => v * sc.h);
+    const list = s.width !== undefined ? [s.width] : mixedWidths(n).map((v) => v * sc.h);
     const plan = noiseDependence(series.y, K); // once: every width and penalty shares the folds
     const paths: WidthPath[] = [];
     list.forEach((wd, i) => {
@@ -384,7 +424,9 @@ export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
 /**
  * Longest series on which the penalties are chosen from the data (cross-validation or a df target): the
  * cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine (npm run
- * bench -- --only=mixed), so longer series are refused at once; a given penalty has no limit.
+ * bench -- --only=mixed), and 1.0 to 1.3 s of CPU time at 1,000 points (two seeded series, 4 widths),
+ * 4.5 to 5.1 s on the 256-point Blocks and Doppler series, so longer series are refused at once; a given
+ * penalty has no limit.
  */
 export const MIXED_DATA_DRIVEN_LIMIT = 1000;
 
@@ -398,10 +440,10 @@ export const mixedAnalysis: AnalysisDefinition = {
     ...PENALTY_OPTIONS({ rules: ['cv', 'cv-simpler'], defaultRule: 'cv', folds: 5, searchPoints: 10 }).map((o) => (o.name === 'penalty'
       ? { ...o, help: 'a fixed penalty on kinks (lambda1, units of y times units of x) instead of a rule; the penalty on bends is lambda1 (width / 4)^2' }
       : o.name === 'searchPoints' ? { ...o, max: 60, help: 'number of penalties tried per width (default 10)' } : o)),
-    { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 12 and 36 spacings of x; 12 spacings with a penalty or df)' },
+    { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 8, 16 and 32 spacings of x, those up to a quarter of the points; 12 spacings with a penalty or df)' },
     SEASON_OPTION,
     { name: 'tolerance', kind: 'number', above: 0, max: 0.001, help: 'largest change of the kinks in a final solver step, relative to the sd of y (default 1e-5)' },
-    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'limit of the exact block steps after the ADMM (default 100)' },
+    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'limit of the exact block steps after the ADMM (default 1000)' },
   ],
   ties: 'merge',
   minPoints: () => MIXED_MIN_POINTS,
