@@ -88,7 +88,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       const db = new Float64Array(m);
       let dmax = 0;
       for (let i = 0; i < A.length; i++) { db[A[i]] = sol.dA[i]; dmax = Math.max(dmax, Math.abs(sol.dA[i])); }
-      const fit = certify(y, w, lambda, { b: sol.b, u, g: Float64Array.from(g), db, rows: A, dmax }, changed === 0, rounds);
+      const fit = certify(y, w, lambda, { b: sol.b, u, g, db, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
       if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };
     }
