@@ -155,6 +155,13 @@ export function solveTrend(prob: TrendProblem, lambda: number, opt: SolveTrendOp
 /** Rounds of the active-set Newton method started from the previous penalty's knots. */
 const WARM_NEWTON_ROUNDS = 30;
 
+/**
+ * Orders 2 and 3: those rounds stop once the fewest rows changed in a round has not improved for
+ * this many rounds (measured on the fold fits of a 5 x 30 cross-validation at n = 1e4: 18% fewer
+ * restricted solves for order 2 and 1% fewer for order 3 than without the limit; 4 or 12 did worse).
+ */
+const WARM_NEWTON_PATIENCE = 8;
+
 /** Round limit of that refinement for order 1. */
 const WARM_POLISH_ROUNDS = 60;
 
@@ -187,7 +194,7 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
   if (guess) { rows = guess.rows; signs = guess.signs; }
   else if (warm && warm.status.converged) { rows = warm.knotRows; signs = warm.knotRows.map((r) => (warm.u[r] >= 0 ? 1 : -1)); }
   else return undefined;
-  const asn = activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true);
+  const asn = activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, prob.k === 1 ? Infinity : WARM_NEWTON_PATIENCE);
   ctx.iterations += asn.rounds;
   let pol = asn.fit;
   // cycling among a few rows: the monotone refinement finishes from the last active set
