@@ -16,8 +16,9 @@
  * - single penalty (1e-3 lambda_max, penalty given, uneven x) for k = 1 and 3 at n = 1e3 .. 1e5:
  *   time of the first call and median of 3 repeats (n <= 1e5; 1e6 is in the side-by-side), iterations (interior-point iterations + ADMM iterations + refinement rounds),
  *   relative duality gap reached, knots, heap growth;
- * - full 5-fold cross-validation over 30 penalties with warm starts at n = 1e3, 1e4, orders 1 to 3
- *   (with how many of the curve's full-data fits converged);
+ * - full 5-fold cross-validation over 30 penalties with warm starts at n = 1e3, 1e4, orders 1 to 3,
+ *   each run in a fresh process, medians of 3 (with the load average and how many of the curve's
+ *   full-data fits converged);
  * - SciPy bvls on the dual against fitTrend on the same data (small n);
  * - MSE against the truth versus df for trend filtering (Doppler: k = 1, 3; Blocks: k = 0, 1) and the cubic
  *   smoothing spline ('spline') on the Doppler and Blocks functions of
@@ -260,6 +261,49 @@ export function sideBySide(emit: (record: Record<string, unknown>) => void, quic
   }
 }
 
+/**
+ * One cross-validated fit (5 folds x 30 penalties) in this (fresh) process, written to stdout as
+ * JSON: called by {@link cvBench} through `node -e`, so that each repeat pays compilation alike.
+ */
+export function childCv(n: number, k: number): void {
+  const s = benchSeries(n, 77 + n);
+  const c0 = process.cpuUsage();
+  const t0 = now();
+  const r = fitTrend(s, { order: k, select: 'cv', folds: 5, gridSize: 30 });
+  const seconds = (now() - t0) / 1000;
+  const cu = process.cpuUsage(c0);
+  const curve = r.criterion.curve!;
+  process.stdout.write(JSON.stringify({ seconds, cpuSeconds: (cu.user + cu.system) / 1e6, curvePointsConverged: curve.filter((p) => p.converged).length, curvePoints: curve.length, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged }) + '\n');
+}
+
+/**
+ * Full 5-fold cross-validation over 30 penalties at n = 1e3, 1e4 (uneven x), orders 1 to 3: each
+ * a fresh Node process, repeated (3 times; once when `quick`), with medians of wall-clock and CPU
+ * seconds, the load average of the machine before and after, and how many of the curve's
+ * full-data fits converged.
+ */
+export function cvBench(quick: boolean, sizes = quick ? [1e3] : [1e3, 1e4], orders = quick ? [1] : [1, 2, 3], repeats = quick ? 1 : 3): Record<string, unknown>[] {
+  const out: Record<string, unknown>[] = [];
+  for (const n of sizes) {
+    for (const k of orders) {
+      const load0 = os.loadavg()[0];
+      const runs: { seconds: number; cpuSeconds: number; curvePointsConverged: number; curvePoints: number; chosenPenalty: number; df: number; atEdge: boolean; converged: boolean }[] = [];
+      for (let r = 0; r < repeats; r++) {
+        const code = `require(${JSON.stringify(__filename)}).childCv(${n}, ${k})`;
+        const p = spawnSync(process.execPath, ['--max-old-space-size=8192', '-e', code], { encoding: 'utf8', timeout: 1200 * 1000, maxBuffer: 1 << 20 });
+        if (p.status === 0) { try { runs.push(JSON.parse(p.stdout.trim().split('\n').pop()!)); } catch { /* a failed run is reported by its absence */ } }
+      }
+      const rec: Record<string, unknown> = { bench: 'trend-cv', order: k, n, folds: 5, gridSize: 30, repeats, completed: runs.length, loadAverageBefore: load0, loadAverageAfter: os.loadavg()[0] };
+      if (runs.length) {
+        const last = runs[runs.length - 1];
+        Object.assign(rec, { seconds: median(runs.map((v) => v.seconds)), cpuSeconds: median(runs.map((v) => v.cpuSeconds)), cpuSecondsAll: runs.map((v) => v.cpuSeconds), secondsAll: runs.map((v) => v.seconds), curvePointsConverged: Math.min(...runs.map((v) => v.curvePointsConverged)), curvePoints: last.curvePoints, chosenPenalty: last.chosenPenalty, df: last.df, atEdge: last.atEdge, converged: last.converged });
+      }
+      out.push(rec);
+    }
+  }
+  return out;
+}
+
 export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
   sideBySide(emit, quick);
   for (const [n, k] of (quick ? [[100, 1]] : [[100, 1], [200, 1], [150, 2], [400, 2]]) as [number, number][]) {
@@ -299,25 +343,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
       });
     }
   }
-  for (const n of quick ? [1e3] : [1e3, 1e4]) {
-    for (const k of quick ? [1] : [1, 2, 3]) {
-      const s = benchSeries(n, 77 + n);
-      const c0 = process.cpuUsage();
-      const t0 = now();
-      const r = fitTrend(s, { order: k, select: 'cv', folds: 5, gridSize: 30 });
-      const t1 = now();
-      const cu = process.cpuUsage(c0);
-      // the repeat (steady time, after compiling) only where it is cheap
-      let repeatSeconds: number | null = null;
-      if (k === 1) {
-        const ta = now();
-        fitTrend(s, { order: k, select: 'cv', folds: 5, gridSize: 30 });
-        repeatSeconds = (now() - ta) / 1000;
-      }
-      const converged = r.criterion.curve!.filter((p) => p.converged).length;
-      emit({ bench: 'trend-cv', order: k, n, folds: 5, gridSize: 30, seconds: (t1 - t0) / 1000, cpuSeconds: (cu.user + cu.system) / 1e6, repeatSeconds, curvePointsConverged: converged, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged });
-    }
-  }
+  for (const rec of cvBench(quick)) emit(rec);
   const dfs = quick ? [10, 30] : [15, 25, 40, 60, 80, 100, 130, 160];
   for (const row of adaptivityTable('doppler', quick ? 512 : 1024, dfs, 31, [1, 3])) emit(row);
   for (const row of adaptivityTable('blocks', quick ? 512 : 1024, dfs, 32, [0, 1])) emit(row);

@@ -63,6 +63,10 @@ export interface BasisCache {
   ext: Int32Array;
   /** (k + 1)^2 local coefficients per basis function of the last build. */
   coef: Float64Array;
+  /** The last build's values, first and penalty (a reused window's are copied, not evaluated again). */
+  values?: Float64Array;
+  first?: Int32Array;
+  penalty?: Float64Array;
 }
 
 /**
@@ -117,15 +121,24 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       const a = X(E[e + l] + 1), b = X(E[e + l + 1] + k);
       cen[l] = 0.5 * (a + b); half[l] = 0.5 * (b - a);
     }
-    let reused = false;
+    let reused = false, from = -1;
     if (old) {
       const oe = old.ext, op = oe.length - k - 1;
       while (eo < op && oe[eo] < E[e]) eo++;
       if (eo < op && oe[eo] === E[e]) {
         reused = true;
         for (let q = 1; q <= k + 1; q++) if (oe[eo + q] !== E[e + q]) { reused = false; break; }
-        if (reused) for (let j = 0; j < nu; j++) coef[j] = old.coef[eo * nu + j];
+        if (reused) { for (let j = 0; j < nu; j++) coef[j] = old.coef[eo * nu + j]; from = eo; }
       }
+    }
+    const i0 = lo[e], i1 = hi[e];
+    if (reused && old!.values && old!.first && old!.penalty) {
+      // the same window on the same x: its values and (D B_e) are those of the last build
+      allCoef.set(coef, e * nu);
+      const ov = old!.values, of = old!.first;
+      for (let i = i0; i <= i1; i++) values[i * wd + (e - first[i])] = ov[i * wd + (from - of[i])];
+      for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = old!.penalty[from * (k + 2) + q];
+      continue;
     }
     if (!reused) {
       // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
@@ -148,7 +161,6 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     // values on the support
     let vmax = 0;
     let l = 0;
-    const i0 = lo[e], i1 = hi[e];
     for (let i = i0; i <= i1; i++) {
       while (E[e + l + 1] < i) l++;
       const t = (x[i] - cen[l]) / half[l];
@@ -168,7 +180,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       penalty[e * (k + 2) + q] = (fact * (after - before)) / vmax;
     }
   }
-  if (cache) { cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; }
+  if (cache) { cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; cache.values = values; cache.first = first; cache.penalty = penalty; }
   return { k, p, first, values, penalty };
 }
 

@@ -3,11 +3,16 @@
  * knots (a path point's seed), and cross-validation solves that do not stop at a stalled
  * interior point. Optimality is checked by the dense KKT checker of trendKkt.ts.
  */
+import * as solveTrendModule from '../../../src/engine/smoothers/trend/solveTrend';
 import { solveTrend, seedOf, TrendProblem, WARM_RULE } from '../../../src/engine/smoothers/trend/solveTrend';
+import { trendPath } from '../../../src/engine/smoothers/trend/trendPath';
+import { seriesFromArrays } from '../../../src/engine/series';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
 import { checkTrendKkt, denseDifference } from './trendKkt';
 import { seededNormal } from './trendTestFunctions';
+
+const realSolveTrend = solveTrend;
 
 function problem(n: number, k: number, seed: number): TrendProblem {
   const rn = seededNormal(seed);
@@ -125,6 +130,82 @@ describe('solveTrend', () => {
       for (let i = 0; i < p.y.length; i++) { d2 += p.w[i] * (r.b[i] - exact.b[i]) ** 2; P += 0.5 * p.w[i] * (p.y[i] - r.b[i]) ** 2; }
       for (const row of D) P += lam * Math.abs(row.reduce((acc, v, i) => acc + v * r.b[i], 0));
       expect(Math.sqrt(d2)).toBeLessThanOrEqual(Math.sqrt(2 * r.status.achieved * P) * 1.01 + 1e-9);
+    }
+  });
+});
+
+describe('solveTrend, orders 2 and 3 warm-started', () => {
+  test.each([2, 3])('order %i along a path: the active set from the previous penalty\'s knots meets the KKT conditions at each penalty, with its gap certified', (k) => {
+    const p = problem(300, k, 101 + k);
+    const lmax = trendLambdaMax(p.x, p.y, p.w, k);
+    let warm = solveTrend(p, 1e-2 * lmax, { tolerance: 1e-8, maxIterations: 200 });
+    let warmStarted = 0;
+    // steps of a factor of about 2, as on the default grids of orders 2 and 3 (30 points over 7 and 9 decades)
+    for (const ratio of [5e-3, 2.5e-3, 1.2e-3, 6e-4, 3e-4, 1.5e-4]) {
+      const lam = ratio * lmax;
+      const r = solveTrend(p, lam, { tolerance: 1e-8, maxIterations: 200, warm });
+      if (r.status.stoppingRule === WARM_RULE) warmStarted++;
+      expect(r.status.converged).toBe(true);
+      expect(r.status.achieved).toBeLessThanOrEqual(1e-8);
+      const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, k, lam);
+      expect(kkt.boxExcess).toBeLessThan(1e-6);
+      expect(kkt.signError).toBeLessThan(1e-6);
+      expect(kkt.stationarity).toBeLessThan(1e-8);
+      warm = r;
+    }
+    expect(warmStarted).toBeGreaterThan(3);
+  });
+
+  test.each([2, 3])('order %i with a guess of the knots (a fold): the gap accepted at the fold tolerance bounds the distance to the optimum', (k) => {
+    const p = problem(250, k, 111 + k);
+    const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
+    const exact = solveTrend(p, lam, { tolerance: 1e-12, maxIterations: 200 });
+    const near = seedOf(exact);
+    // a guess with every knot moved by three rows, and an empty one
+    const moved = { rows: near.rows.map((r) => Math.min(r + 3, p.x.length - k - 2)).filter((r, j, a) => j === 0 || r > a[j - 1]), signs: near.signs.slice() };
+    moved.signs.length = moved.rows.length;
+    for (const guess of [moved, { rows: [], signs: [] }]) {
+      const r = solveTrend(p, lam, { tolerance: 1e-5, maxIterations: 200, refine: false, guess });
+      expect(r.status.converged).toBe(true);
+      expect(r.status.achieved).toBeLessThanOrEqual(1e-5);
+      // weak duality: ||b - b*||_W^2 <= 2 (P(b) - P(b*)) <= 2 gap, gap = achieved P(b)
+      const D = denseDifference(p.x, k + 1);
+      let d2 = 0, P = 0;
+      for (let i = 0; i < p.y.length; i++) { d2 += p.w[i] * (r.b[i] - exact.b[i]) ** 2; P += 0.5 * p.w[i] * (p.y[i] - r.b[i]) ** 2; }
+      for (const row of D) P += lam * Math.abs(row.reduce((acc, v, i) => acc + v * r.b[i], 0));
+      expect(Math.sqrt(d2)).toBeLessThanOrEqual(Math.sqrt(2 * r.status.achieved * P) * 1.01 + 1e-9);
+    }
+  });
+
+  // 400 and 200 points keep the test within a minute under jest (the same runs take about 1 s in plain Node)
+  test.each([[2, 400], [3, 200]])('order %i: cross-validation (5 folds x 30 penalties, %i points) converges at every penalty of the path and of every fold', (k, n) => {
+    const statuses: { full: boolean; converged: boolean; achieved: number; tolerance: number }[] = [];
+    const spy = jest.spyOn(solveTrendModule, 'solveTrend').mockImplementation((prob, lambda, opt) => {
+      const fit = realSolveTrend(prob, lambda, opt);
+      statuses.push({ full: opt.refine !== false, converged: fit.status.converged, achieved: fit.status.achieved, tolerance: opt.tolerance });
+      return fit;
+    });
+    try {
+      const rn = seededNormal(120 + k);
+      const x = new Float64Array(n), y = new Float64Array(n);
+      let c = 0;
+      for (let i = 0; i < n; i++) { c += 0.5 + Math.abs(rn()) * 0.6; x[i] = c; }
+      for (let i = 0; i < n; i++) {
+        const t = (x[i] - x[0]) / (x[n - 1] - x[0]);
+        y[i] = Math.sin(2 * Math.PI * 3 * t * t * t) + (t > 0.6 ? 2 * (t - 0.6) : 0) + 0.2 * rn();
+      }
+      const path = trendPath(seriesFromArrays(x, y), { order: k, gridSize: 30, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 });
+      expect(path.points.length).toBe(30);
+      expect(path.points.every((pt) => pt.status.converged && pt.status.achieved <= 1e-8)).toBe(true);
+      // the full path (30) and five folds (30 each) went through solveTrend, each converged at its own tolerance
+      expect(statuses.filter((s) => s.full).length).toBe(30);
+      expect(statuses.filter((s) => !s.full).length).toBe(150);
+      for (const s of statuses) {
+        expect(s.converged).toBe(true);
+        expect(s.achieved).toBeLessThanOrEqual(s.tolerance);
+      }
+    } finally {
+      spy.mockRestore();
     }
   });
 });

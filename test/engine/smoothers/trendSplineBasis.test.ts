@@ -40,9 +40,15 @@ describe('discreteBSplines', () => {
       expect(Array.from(cached.values)).toEqual(Array.from(fresh.values));
       expect(Array.from(cached.penalty)).toEqual(Array.from(fresh.penalty));
     }
-    // the cache is really used: with its coefficients spoilt, a build of the same knots shows it
-    cache.coef.fill(NaN);
-    expect(discreteBSplines(x, k, sets[3], cache)).toBeNull();
+    // the cache is really used: with its stored values spoilt, a build of the same knots copies
+    // them (reused windows are not evaluated again), while a build of new knots is evaluated
+    cache.values!.fill(NaN);
+    const spoilt = discreteBSplines(x, k, sets[3], cache)!;
+    expect(Array.from(spoilt.values).some(Number.isNaN)).toBe(true);
+    // every window holds a real knot (k + 1 phantoms each side): moving every knot changes them all
+    const moved = sets[3].map((r) => r - 1);
+    cache.values!.fill(NaN);
+    expect(Array.from(discreteBSplines(x, k, moved, cache)!.values)).toEqual(Array.from(discreteBSplines(x, k, moved)!.values));
     // a cache built on other design points is not used
     const x2 = Float64Array.from(x, (v) => v * 1.5);
     expect(Array.from(discreteBSplines(x2, k, sets[0], cache)!.values)).toEqual(Array.from(discreteBSplines(x2, k, sets[0])!.values));

@@ -43,11 +43,12 @@ export interface ActiveSetNewtonResult {
  * among a few rows: a monotone method such as {@link polishTrend} finishes from there). With `stopGap` each round's restricted solution is certified ({@link certify}: its relative
  * duality gap after scaling u into the box, valid for any round, settled or not) and the method
  * stops at the first round at or below `stopGap`; a settled round is certified in any case, so
- * no further refinement round is needed to confirm it.
+ * no further refinement round is needed to confirm it. With `patience` it stops unsettled once the
+ * fewest rows changed in a round has not decreased for that many rounds (no progress).
  *
  * Works on x scaled to [0, 1]; O(n k^2) per round. Unchecked.
  */
-export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache, stopGap = 0, stopOnRepeat = false): ActiveSetNewtonResult {
+export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache, stopGap = 0, stopOnRepeat = false, patience = Infinity): ActiveSetNewtonResult {
   const n = x.length;
   const m = n - k - 1;
   const lim = lambda * (1 + boxRelative(n, k));
@@ -56,6 +57,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const g = new Float64Array(n), work = new Float64Array(n);
   let rounds = 0;
   const changes: number[] = [];
+  let fewest = Infinity, since = 0;
   // active sets met so far (by two 32-bit hashes of the signed rows and their count)
   const seen = new Set<string>();
   while (rounds < maxRounds) {
@@ -88,7 +90,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       const db = new Float64Array(m);
       let dmax = 0;
       for (let i = 0; i < A.length; i++) { db[A[i]] = sol.dA[i]; dmax = Math.max(dmax, Math.abs(sol.dA[i])); }
-      const fit = certify(y, w, lambda, { b: sol.b, u, g: Float64Array.from(g), db, rows: A, dmax }, changed === 0, rounds);
+      const fit = certify(y, w, lambda, { b: sol.b, u, g, db, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
       if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };
     }
@@ -96,6 +98,8 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     S = nS;
     // more than twice the changes of the round before: diverging from this start
     if (changes.length >= 2 && changed > 2 * changes[changes.length - 2] + 2) break;
+    // the fewest changes of a round not improved on for `patience` rounds: cycling without progress
+    if (changed < fewest) { fewest = changed; since = 0; } else if (++since >= patience) break;
     // an active set met before: the method cycles
     if (stopOnRepeat) {
       let h1 = 0x811c9dc5 | 0, h2 = 17;

@@ -52,11 +52,12 @@ export function boxRelative(n: number, k: number): number {
  * sign of u. When no row violates, all optimality conditions of the original
  * problem hold: the solution is optimal up to rounding, with exact zeros of
  * D b off the knots. At most `maxRounds` restricted solves, each O(n k^2); stops if an
- * active set repeats.
+ * active set repeats. With `stopGap` > 0 it also stops at the first sign-consistent round whose
+ * certificate ({@link certify}, which scales u into the box) is at most `stopGap`.
  *
  * Works on x scaled to [0, 1]. `cache` ({@link BasisCache}) keeps the basis between rounds and calls on the same x. Unchecked.
  */
-export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>, cache?: BasisCache): PolishResult {
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>, cache?: BasisCache, stopGap = 0): PolishResult {
   const n = x.length;
   const m = n - k - 1;
   // the active set: sgn[r] = sign of u on knot row r, 0 off the knots
@@ -153,6 +154,11 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       r = e;
     }
     if (!added) return certify(y, w, lambda, last, true, rounds + 1);
+    if (stopGap > 0) {
+      // a looser target (cross-validation folds): the first sign-consistent round certified at it is enough
+      const c = certify(y, w, lambda, last, false, rounds + 1, true, stopGap);
+      if (c.ok) return c;
+    }
   }
   // stopped early (cycle, budget): the last sign-consistent solution still comes with an
   // honest gap when its dual is close to feasible
@@ -171,19 +177,22 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
  * lambda ||D b||_1 - u.D b over the active rows plus the cost of scaling u into the box
  * (no cancellation of P against G). D b is exactly zero off the active rows (the
  * restricted solve's space). Unless `optimal` (no row violates by more than
- * {@link boxRelative}), accepted only when delta <= 1e-4. Unchecked.
+ * {@link boxRelative}) or `anyScale`, accepted only when delta <= 1e-4. The gap is valid for
+ * any delta (weak duality for the feasible u / (1 + delta)); `anyScale` is for callers that
+ * accept a round by its gap alone (a looser target, such as cross-validation folds). With
+ * `within`, a gap above it is reported as not ok without building the result. Unchecked.
  */
-export function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number): PolishResult {
-  const fail: PolishResult = { ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
-  if (!last) return fail;
+export function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number, anyScale = false, within = Infinity): PolishResult {
+  const fail = (achieved = Infinity): PolishResult => ({ ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved, rounds });
+  if (!last) return fail();
   const { b, u, g, db, rows, dmax } = last;
   let um = 0;
   for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
   const delta = Math.max(0, um / lambda - 1);
-  if (!optimal && delta > 1e-4) return fail;
+  if (!optimal && !anyScale && delta > 1e-4) return fail();
   const n = y.length;
   let rss = 0, yg = 0, gg = 0;
-  for (let i = 0; i < n; i++) { rss += 0.5 * w[i] * (y[i] - b[i]) ** 2; yg += y[i] * g[i]; gg += (g[i] * g[i]) / w[i]; }
+  for (let i = 0; i < n; i++) { const gi = g[i], ri = y[i] - b[i]; rss += 0.5 * w[i] * ri * ri; yg += y[i] * gi; gg += (gi * gi) / w[i]; }
   let l1 = 0;
   for (const r of rows) l1 += Math.abs(db[r]);
   const obj = rss + lambda * l1;
@@ -197,9 +206,12 @@ export function certify(y: Float64Array, w: Float64Array, lambda: number, last: 
   let ud = 0;
   for (const r of rows) ud += u[r] * db[r];
   const gap = Math.max(lambda * l1 - ud, 0) + Math.max(e * (yg - gg * (1 - e / 2)), 0);
+  const achieved = obj > 0 ? gap / obj : 0;
+  // a round checked against a target it misses: no result arrays needed
+  if (!(achieved <= within)) return { ok: false, b, u, knots: [], dKnots: new Float64Array(0), achieved, rounds };
   const scale = 1 / f;
   const knots = rows.filter((r) => Math.abs(db[r]) > 1e-10 * dmax);
-  return { ok: true, b, u: Float64Array.from(u, (v) => v * scale), knots, dKnots: Float64Array.from(knots, (r) => db[r]), achieved: obj > 0 ? gap / obj : 0, rounds };
+  return { ok: true, b, u: Float64Array.from(u, (v) => v * scale), knots, dKnots: Float64Array.from(knots, (r) => db[r]), achieved, rounds };
 }
 
 /** A restricted solution with its recovered dual, as {@link certify} takes it. Unchecked. */
