@@ -21,7 +21,7 @@ import type { CriterionPoint } from '../types';
 import { trendScaling, toDataPenalty, TrendScaling } from '../smoothers/trend/trendScaling';
 import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
 import { interpolateTrend } from '../smoothers/trend/interpolateTrend';
-import { CV_TOLERANCE } from '../smoothers/trend/trendPath';
+import { CV_TOLERANCE, foldGuess } from '../smoothers/trend/trendPath';
 import { crossValidate } from '../select/crossValidate';
 import { noiseDependence } from '../select/noiseDependence';
 import { choosePenalty } from '../select/choosePenalty';
@@ -63,20 +63,6 @@ export interface TrendPenaltySearch {
   scored: number;
   gridSize: number;
   scaling: TrendScaling;
-}
-
-/** Knots of the full-data fit as rows of a fold's training problem (the full fit's guess for the fold). */
-function foldGuess(seed: KnotSeed, below: Int32Array, k: number, nt: number): KnotSeed {
-  const rows: number[] = [], signs: number[] = [];
-  const off = k === 0 ? 1 : k;
-  const mt = nt - k - 1;
-  for (let j = 0; j < seed.rows.length; j++) {
-    const r = below[seed.rows[j] + off] - off;
-    if (r < 0 || r >= mt || (rows.length && rows[rows.length - 1] >= r)) continue;
-    rows.push(r);
-    signs.push(seed.signs[j]);
-  }
-  return { rows, signs };
 }
 
 /** One fold's training problem and where its path has got to. */

@@ -101,7 +101,7 @@ export function relaxFit(x: Float64Array, y: Float64Array, w: Float64Array, k: n
  * its training row is the last training point at or before it, minus k), duplicates dropped:
  * the start of the fold's active-set method at the same penalty. Unchecked.
  */
-function foldGuess(seed: KnotSeed, below: Int32Array, k: number, nt: number): KnotSeed {
+export function foldGuess(seed: KnotSeed, below: Int32Array, k: number, nt: number): KnotSeed {
   const rows: number[] = [], signs: number[] = [];
   const off = k === 0 ? 1 : k;
   const mt = nt - k - 1;
