@@ -38,6 +38,7 @@ import { SeasonDesign, fitSeasonAndSpikes } from './seasonDesign';
 import { differenceOperator } from '../linalg/difference';
 import { basisCache } from '../basis/discreteBSplines';
 import { activeSetDecomposition } from './polishDecomposition';
+import { smallSpdSolve } from '../linalg/smallSpdSolve';
 
 /** Solution of {@link solveDecomposition} in the scaled units it was given. */
 export interface DecompositionFit {
@@ -236,7 +237,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     let tr = 0;
     for (let a = 0; a < m; a++) tr += M[a * m + a];
     for (let a = 0; a < m; a++) M[a * m + a] += 1e-10 * tr / m;
-    const gamma = solveSmall(M, b, m);
+    const gamma = smallSpdSolve(M, b, m);
     const next = Float64Array.from(g);
     for (let a = 0; a < m; a++) for (let i = 0; i < n; i++) next[i] -= gamma[a] * dG[a][i];
     t = next;
@@ -264,27 +265,6 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     trend: t, season: s, parts, spikes: o, theta: theta.value, trendFit: fit!,
     status: { converged, iterations: cycles, tolerance, achieved: change, stoppingRule: `${DECOMPOSITION_RULE}; ${trendIterations} trend-solver iterations, ${resets} memory resets, ${polishes} exact solves on the knots and spikes of a step (${jumps} taken, ${polishRounds} rounds) in all` },
   };
-}
-
-/** Solves a small symmetric positive definite system by Cholesky (NaN-free: a failing pivot gives gamma = 0). Unchecked. */
-function solveSmall(M: Float64Array, b: Float64Array, m: number): Float64Array {
-  const L = new Float64Array(m * m);
-  for (let j = 0; j < m; j++) {
-    let d = M[j * m + j];
-    for (let p = 0; p < j; p++) d -= L[j * m + p] * L[j * m + p];
-    if (!(d > 0)) return new Float64Array(m);
-    L[j * m + j] = Math.sqrt(d);
-    for (let i = j + 1; i < m; i++) {
-      let v = M[i * m + j];
-      for (let p = 0; p < j; p++) v -= L[i * m + p] * L[j * m + p];
-      L[i * m + j] = v / L[j * m + j];
-    }
-  }
-  const yv = new Float64Array(m);
-  for (let i = 0; i < m; i++) { let v = b[i]; for (let p = 0; p < i; p++) v -= L[i * m + p] * yv[p]; yv[i] = v / L[i * m + i]; }
-  const xv = new Float64Array(m);
-  for (let i = m - 1; i >= 0; i--) { let v = yv[i]; for (let p = i + 1; p < m; p++) v -= L[p * m + i] * xv[p]; xv[i] = v / L[i * m + i]; }
-  return xv;
 }
 
 /** The (theta, o) block for trend t: exact Huber regression (with a season) or soft threshold (without). Updates s, o, parts, theta. Unchecked. */

@@ -30,7 +30,7 @@ describe('mixed trend', () => {
     expect(ev.value[0]).toBeCloseTo(fit.fitted[10], 10);
     expect(ev.value[1]).toBeCloseTo(fit.fitted[60], 10);
     expect(Array.from(ev.extrapolated)).toEqual([0, 0, 1]);
-    expect(r.warnings.map((w) => w.code)).toContain('boundary');
+    expect(r.caveats.map((w) => w.code)).toContain('boundary'); // the standing caveat, apart from the warnings
   });
 
   test('a straight line added to the data moves the fit by that line, and the bends stay orthogonal to lines', () => {

@@ -44,6 +44,7 @@ import { solveTrend, seedOf, TrendFit, TrendProblem } from '../trend/solveTrend'
 import { differenceOperator } from '../../linalg/difference';
 import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
 import { mixedAdmm, mixedOperators, MixedAdmmState, MixedOperators } from './mixedAdmm';
+import { smallSpdSolve } from '../../linalg/smallSpdSolve';
 
 /** Solution of {@link solveMixed} in the scaled units it was given. */
 export interface MixedFit {
@@ -195,7 +196,7 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
     let tr = 0;
     for (let p = 0; p < m; p++) tr += M[p * m + p];
     for (let p = 0; p < m; p++) M[p * m + p] += 1e-10 * tr / m;
-    const gamma = solveSmallSpd(M, b, m);
+    const gamma = smallSpdSolve(M, b, m);
     const next = Float64Array.from(g);
     for (let p = 0; p < m; p++) for (let i = 0; i < n; i++) next[i] -= gamma[p] * dG[p][i];
     a = next;
@@ -231,23 +232,3 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
   };
 }
 
-/** Solves a small symmetric positive definite system by Cholesky (a failing pivot gives 0). Unchecked. */
-function solveSmallSpd(M: Float64Array, b: Float64Array, m: number): Float64Array {
-  const L = new Float64Array(m * m);
-  for (let j = 0; j < m; j++) {
-    let d = M[j * m + j];
-    for (let p = 0; p < j; p++) d -= L[j * m + p] * L[j * m + p];
-    if (!(d > 0)) return new Float64Array(m);
-    L[j * m + j] = Math.sqrt(d);
-    for (let i = j + 1; i < m; i++) {
-      let v = M[i * m + j];
-      for (let p = 0; p < j; p++) v -= L[i * m + p] * L[j * m + p];
-      L[i * m + j] = v / L[j * m + j];
-    }
-  }
-  const yv = new Float64Array(m);
-  for (let i = 0; i < m; i++) { let v = b[i]; for (let p = 0; p < i; p++) v -= L[i * m + p] * yv[p]; yv[i] = v / L[i * m + i]; }
-  const xv = new Float64Array(m);
-  for (let i = m - 1; i >= 0; i--) { let v = yv[i]; for (let p = i + 1; p < m; p++) v -= L[p * m + i] * xv[p]; xv[i] = v / L[i * m + i]; }
-  return xv;
-}
