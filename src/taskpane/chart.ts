@@ -101,6 +101,21 @@ function legend(box: HTMLElement, items: [string, string][]): void {
   box.append(lg);
 }
 
+/** The knot or break markers of a view over a chart, each placed at its x (with `layoutOverlays`), its label as tooltip. */
+function addMarkers(u: uPlot, v: Pick<View, 'markers' | 'showX'>, zones: { el: HTMLElement; x0: number; x1?: number }[]): void {
+  const marks = document.createElement('div');
+  marks.className = 'markers';
+  u.over.append(marks);
+  for (const m of v.markers) {
+    const el = document.createElement('div');
+    el.className = 'marker';
+    el.title = m.label;
+    el.dataset.x = v.showX(m.x);
+    marks.append(el);
+    zones.push({ el, x0: m.x });
+  }
+}
+
 /** Draws a fit into `box` (emptied first), as wide as the box. */
 export function drawFit(box: HTMLElement, v: View, height = 240): void {
   clear(box);
@@ -171,17 +186,7 @@ export function drawFit(box: HTMLElement, v: View, height = 240): void {
     }
   }
   if (bx) zones.push({ el: overlay(u, 'zone zone-extrapolation', `After ${v.showX(v.x[n - 1])}: the fitted curve continued beyond the data, an extrapolation, not a forecast.`), x0: bx.x[0], x1: bx.x[bx.x.length - 1] });
-  const marks = document.createElement('div');
-  marks.className = 'markers';
-  u.over.append(marks);
-  for (const m of v.markers) {
-    const el = document.createElement('div');
-    el.className = 'marker';
-    el.title = m.label;
-    el.dataset.x = v.showX(m.x);
-    marks.append(el);
-    zones.push({ el, x0: m.x });
-  }
+  addMarkers(u, v, zones);
   layoutOverlays(u, zones);
   box.dataset.points = String(dots.filter((y) => y !== null && Number.isFinite(y)).length);
   box.dataset.stride = String(stride);
@@ -318,19 +323,7 @@ export function drawPanels(box: HTMLElement, v: View): void {
       zones.push({ el: overlay(top, 'zone zone-boundary', `End zone (${v.showX(v.x[i0])} to ${v.showX(v.x[i1])}): the trend here rests on data from one side and will be revised as data arrive.`), x0: v.x[i0], x1: v.x[i1] });
     }
   }
-  if (top && v.markers.length) {
-    const marks = document.createElement('div');
-    marks.className = 'markers';
-    top.over.append(marks);
-    for (const m of v.markers) {
-      const el = document.createElement('div');
-      el.className = 'marker';
-      el.title = m.label;
-      el.dataset.x = v.showX(m.x);
-      marks.append(el);
-      zones.push({ el, x0: m.x });
-    }
-  }
+  if (top && v.markers.length) addMarkers(top, v, zones);
   if (top) layoutOverlays(top, zones);
   box.dataset.panels = String(panels.length);
   box.dataset.panelLabels = panels.map((p) => p.label).join('|');

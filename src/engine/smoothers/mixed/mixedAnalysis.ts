@@ -54,6 +54,7 @@ import { polynomialDual } from '../trend/trendLambdaMax';
 import { interpolateTrend } from '../trend/interpolateTrend';
 import { knotPositions, CV_TOLERANCE } from '../trend/trendPath';
 import { solveMixed, MixedFit, MixedProblems, MixedSolveSettings, MixedStart } from './solveMixed';
+import { foldData } from '../../select/foldData';
 
 /** Smallest width of the cross-validation grid, in mean spacings of x. */
 export const MIXED_SMALLEST_WIDTH = 4;
@@ -278,12 +279,7 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
   let swAll = 0;
   for (let i = 0; i < n; i++) swAll += sc.ws[i];
   const predict = (tr: Int32Array, te: Int32Array, pens: Float64Array): Float64Array[] => {
-    const xt = Float64Array.from(tr, (i) => sc.xs[i]);
-    const yt = Float64Array.from(tr, (i) => sc.ys[i]);
-    const wt = Float64Array.from(tr, (i) => sc.ws[i]);
-    const xh = Float64Array.from(te, (i) => sc.xs[i]);
-    let swt = 0;
-    for (const i of tr) swt += sc.ws[i];
+    const { xt, yt, wt, xh, swt } = foldData(sc.xs, sc.ys, sc.ws, tr, te);
     const sub: MixedProblems = { x: xt, w: wt };
     let st: MixedStart = {};
     return Array.from(pens, (l) => {

@@ -12,6 +12,7 @@ import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSpl
 import { differenceSigma } from '../../robustSigma';
 import { crossValidate } from '../../select/crossValidate';
 import type { RunContext } from '../../analysis/runContext';
+import { foldData } from '../../select/foldData';
 
 /** Settings of {@link trendPath} (already validated). */
 export interface TrendPathSettings {
@@ -177,12 +178,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
     for (let i = 0; i < n; i++) swAll += sc.ws[i];
     // one fold: the warm-started path on its training points, predicted at the held-out x
     const predict = (tr: Int32Array, te: Int32Array, pens: Float64Array): Float64Array[] => {
-      const xt = Float64Array.from(tr, (i) => sc.xs[i]);
-      const yt = Float64Array.from(tr, (i) => sc.ys[i]);
-      const wt = Float64Array.from(tr, (i) => sc.ws[i]);
-      const xh = Float64Array.from(te, (i) => sc.xs[i]);
-      let swt = 0;
-      for (const i of tr) swt += sc.ws[i];
+      const { xt, yt, wt, xh, swt } = foldData(sc.xs, sc.ys, sc.ws, tr, te);
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
       let wf: TrendFit | undefined;
       const out: Float64Array[] = [];
