@@ -1,5 +1,6 @@
 import { bandedCholesky, bandedCholeskySolve } from '../linalg/bandedCholesky';
 import { discreteBSplines, BasisCache } from './discreteBSplines';
+import { restrictedLinearFit } from './restrictedLinearFit';
 
 /** Steps of iterative refinement in {@link restrictedSplineFit} (each one pass over the points). */
 export const REFINEMENT_STEPS = 2;
@@ -25,6 +26,13 @@ export const REFINEMENT_STEPS = 2;
  * Unchecked.
  */
 export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache): { b: Float64Array; dA: Float64Array } | null {
+  // order 1: hat functions on the kinks, written out ({@link restrictedLinearFit})
+  if (k === 1) return restrictedLinearFit(x, y, w, lambda, rowsA, sA);
+  return restrictedSplineFitGeneral(x, y, w, k, lambda, rowsA, sA, cache);
+}
+
+/** {@link restrictedSplineFit} through the discrete B-spline basis, for any order 1..3 (the reference for the order-1 kernel). Unchecked. */
+export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache): { b: Float64Array; dA: Float64Array } | null {
   const n = x.length;
   const B = discreteBSplines(x, k, rowsA, cache);
   if (!B) return null;

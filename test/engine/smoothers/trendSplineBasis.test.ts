@@ -5,7 +5,7 @@
  */
 import { Matrix, solve, QrDecomposition } from 'ml-matrix';
 import { discreteBSplines, basisCache } from '../../../src/engine/basis/discreteBSplines';
-import { restrictedSplineFit } from '../../../src/engine/basis/restrictedSplineFit';
+import { restrictedSplineFit, restrictedSplineFitGeneral } from '../../../src/engine/basis/restrictedSplineFit';
 import { differenceOperator } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
 
@@ -87,7 +87,8 @@ describe('discreteBSplines', () => {
 });
 
 describe('restrictedSplineFit', () => {
-  test.each([2, 3])('order %i: meets the optimality conditions in the truncated falling factorial basis and agrees with a dense QR solve', (k) => {
+  // order 1 goes through the piecewise-linear kernel (restrictedLinearFit), orders 2 and 3 through the discrete B-splines
+  test.each([1, 2, 3])('order %i: meets the optimality conditions in the truncated falling factorial basis and agrees with a dense QR solve', (k) => {
     const n = 60;
     const rn = seededNormal(11 + k);
     const x = Float64Array.from({ length: n }, (_, i) => (i + 0.4 * Math.sin(i)) / n);
@@ -176,5 +177,32 @@ describe('restrictedSplineFit', () => {
       }
       expect(Math.abs(s - lam * factorial(k) * signs[j])).toBeLessThan(1e-9 * mag + 1e-9 * lam);
     });
+  });
+
+  test('order 1: the piecewise-linear kernel gives the discrete B-spline solve\'s fit and knot differences on uneven x with adjacent knots, weights and a knot beside each end', () => {
+    const rn = seededNormal(5);
+    for (const n of [3, 4, 50, 2000]) {
+      // spacing from 0.01 to 10 (long gaps beside dense stretches), mapped to [0, 1]
+      const raw = new Float64Array(n);
+      for (let i = 1; i < n; i++) raw[i] = raw[i - 1] + (i % 17 === 0 ? 10 : 0.01 + Math.abs(rn()));
+      const x = Float64Array.from(raw, (v) => v / raw[n - 1]);
+      const y = Float64Array.from(x, (t) => Math.sin(7 * t) + 0.3 * rn());
+      const w = Float64Array.from(x, (_, i) => 0.2 + (i % 5));
+      const m = n - 2;
+      const rows = n <= 4 ? [0] : [0, 1, 2, Math.floor(m / 3), Math.floor(m / 3) + 1, Math.floor(m / 2), m - 2, m - 1];
+      const signs = rows.map((_, j) => (j % 3 === 1 ? -1 : 1));
+      const lam = 1e-3;
+      const fast = restrictedSplineFit(x, y, w, 1, lam, rows, signs)!;
+      const general = restrictedSplineFitGeneral(x, y, w, 1, lam, rows, signs)!;
+      const ymax = Math.max(...Array.from(y, Math.abs));
+      // both solve the same well-conditioned tridiagonal system to rounding: agreement at 1e-12 of |y|
+      for (let i = 0; i < n; i++) expect(Math.abs(fast.b[i] - general.b[i])).toBeLessThan(1e-12 * ymax);
+      const dmax = Math.max(...Array.from(general.dA, Math.abs));
+      for (let j = 0; j < rows.length; j++) expect(Math.abs(fast.dA[j] - general.dA[j])).toBeLessThan(1e-11 * dmax);
+      // feasibility, checked on b itself: second divided differences vanish off the knot rows
+      const db = differenceOperator(x, 2, fast.b);
+      const bscale = Math.max(...Array.from(db, Math.abs));
+      for (let r = 0; r < m; r++) if (!rows.includes(r)) expect(Math.abs(db[r])).toBeLessThan(1e-9 * bscale);
+    }
   });
 });

@@ -1,7 +1,7 @@
 import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
 import type { BasisCache } from '../../basis/discreteBSplines';
 import { dualFromResidual } from '../../linalg/dualFromResidual';
-import { boxRelative, certify, PolishResult } from './polishTrend';
+import { boxRelative, certify, restrictedGap, PolishResult } from './polishTrend';
 
 /** Result of {@link activeSetNewton}. */
 export interface ActiveSetNewtonResult {
@@ -54,7 +54,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const lim = lambda * (1 + boxRelative(n, k));
   let A: number[] = Array.from(rows);
   let S: number[] = Array.from(signs);
-  const g = new Float64Array(n), work = new Float64Array(n);
+  const g = new Float64Array(n), work = new Float64Array(n), ubuf = new Float64Array(m);
   let rounds = 0;
   const changes: number[] = [];
   let fewest = Infinity, since = 0;
@@ -64,28 +64,46 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache);
     rounds++;
     if (!sol) break;
-    for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - sol.b[i]);
-    const u = dualFromResidual(x, k + 1, g, work).u;
+    // g = W (y - b) and the sums of the certificate, in the order certify forms them
+    let rss = 0, yg = 0;
+    for (let i = 0; i < n; i++) {
+      const ri = y[i] - sol.b[i], gi = w[i] * ri;
+      g[i] = gi;
+      rss += 0.5 * w[i] * ri * ri; yg += y[i] * gi;
+    }
+    const gg = 2 * rss;
+    // u lives in ubuf for the round only (a certified result copies it)
+    const u = dualFromResidual(x, k + 1, g, work, ubuf).u;
     const nA: number[] = [], nS: number[] = [];
-    let changed = 0;
+    let changed = 0, um = 0;
     let j = 0;
     for (let r = 0; r < m; ) {
+      const ur = Math.abs(u[r]);
+      if (ur > um) um = ur;
       if (j < A.length && A[j] === r) {
         if (S[j] * sol.dA[j] > 0) { nA.push(r); nS.push(S[j]); } else changed++;
         j++;
         r++;
         continue;
       }
-      if (!(Math.abs(u[r]) > lim)) { r++; continue; }
+      if (!(ur > lim)) { r++; continue; }
       let best = r, e = r;
-      while (e < m && !(j < A.length && A[j] === e) && Math.abs(u[e]) > lim) { if (Math.abs(u[e]) > Math.abs(u[best])) best = e; e++; }
+      while (e < m && !(j < A.length && A[j] === e) && Math.abs(u[e]) > lim) { const ue = Math.abs(u[e]); if (ue > um) um = ue; if (ue > Math.abs(u[best])) best = e; e++; }
       nA.push(best);
       nS.push(u[best] > 0 ? 1 : -1);
       changed++;
       r = e;
     }
     changes.push(changed);
-    if (changed === 0 || stopGap > 0) {
+    let worth = changed === 0;
+    if (!worth && stopGap > 0) {
+      // the certificate's gap from the sums above (the same numbers certify forms): build the
+      // certified result only for a round that meets the target
+      let l1 = 0, ud = 0;
+      for (let i = 0; i < A.length; i++) { l1 += Math.abs(sol.dA[i]); ud += u[A[i]] * sol.dA[i]; }
+      worth = restrictedGap(lambda, Math.max(0, um / lambda - 1), rss, yg, gg, l1, ud) <= stopGap;
+    }
+    if (worth) {
       // the round's solution: D b is (D b)_A on A and exactly zero elsewhere
       const db = new Float64Array(m);
       let dmax = 0;

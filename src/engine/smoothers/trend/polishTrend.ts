@@ -191,27 +191,45 @@ export function certify(y: Float64Array, w: Float64Array, lambda: number, last: 
   const delta = Math.max(0, um / lambda - 1);
   if (!optimal && !anyScale && delta > 1e-4) return fail();
   const n = y.length;
-  let rss = 0, yg = 0, gg = 0;
-  for (let i = 0; i < n; i++) { const gi = g[i], ri = y[i] - b[i]; rss += 0.5 * w[i] * ri * ri; yg += y[i] * gi; gg += (gi * gi) / w[i]; }
-  let l1 = 0;
-  for (const r of rows) l1 += Math.abs(db[r]);
-  const obj = rss + lambda * l1;
-  // u / f with f = 1 + delta is dual feasible. Its dual value is G(u) - e (y.g - g.W^-1 g (1 - e / 2)),
-  // e = 1 - 1 / f, and P(b) - G(u) = lambda ||D b||_1 - u.D b since D^T u = g; so the gap is
-  // that sum over the active rows plus the loss from scaling u into the box, each formed
-  // without the cancellation of P - G. Rows whose violation was below the slack of
-  // boxRelative are paid for here, not ignored.
-  const f = 1 + delta;
-  const e = 1 - 1 / f;
-  let ud = 0;
-  for (const r of rows) ud += u[r] * db[r];
-  const gap = Math.max(lambda * l1 - ud, 0) + Math.max(e * (yg - gg * (1 - e / 2)), 0);
-  const achieved = obj > 0 ? gap / obj : 0;
+  let rss = 0, yg = 0;
+  for (let i = 0; i < n; i++) { const ri = y[i] - b[i]; rss += 0.5 * w[i] * ri * ri; yg += y[i] * g[i]; }
+  // g.W^-1 g = sum w (y - b)^2 = 2 rss (g = W (y - b))
+  const gg = 2 * rss;
+  let l1 = 0, ud = 0;
+  for (const r of rows) { l1 += Math.abs(db[r]); ud += u[r] * db[r]; }
+  const achieved = restrictedGap(lambda, delta, rss, yg, gg, l1, ud);
   // a round checked against a target it misses: no result arrays needed
   if (!(achieved <= within)) return { ok: false, b, u, knots: [], dKnots: new Float64Array(0), achieved, rounds };
-  const scale = 1 / f;
+  const scale = 1 / (1 + delta);
   const knots = rows.filter((r) => Math.abs(db[r]) > 1e-10 * dmax);
-  return { ok: true, b, u: Float64Array.from(u, (v) => v * scale), knots, dKnots: Float64Array.from(knots, (r) => db[r]), achieved, rounds };
+  const us = new Float64Array(u.length);
+  for (let r = 0; r < u.length; r++) us[r] = u[r] * scale;
+  const dKnots = new Float64Array(knots.length);
+  for (let j = 0; j < knots.length; j++) dKnots[j] = db[knots[j]];
+  return { ok: true, b, u: us, knots, dKnots, achieved, rounds };
+}
+
+/**
+ * The relative duality gap of {@link certify} from its sums: u / f with f = 1 + delta is dual
+ * feasible. Its dual value is G(u) - e (y.g - g.W^-1 g (1 - e / 2)), e = 1 - 1 / f, and
+ * P(b) - G(u) = lambda ||D b||_1 - u.D b since D^T u = g; so the gap is that sum over the active
+ * rows plus the loss from scaling u into the box, each formed without the cancellation of P - G.
+ * Rows whose violation was below the slack of {@link boxRelative} are paid for here, not ignored.
+ *
+ * @param delta - max(0, max |u| / lambda - 1)
+ * @param rss - 1/2 sum w (y - b)^2
+ * @param yg - y.g, g = W (y - b)
+ * @param gg - g.W^-1 g
+ * @param l1 - ||D b||_1 over the active rows (D b is zero elsewhere)
+ * @param ud - u.D b over the active rows
+ * @returns gap / P(b) (0 when P(b) is 0)
+ * Unchecked.
+ */
+export function restrictedGap(lambda: number, delta: number, rss: number, yg: number, gg: number, l1: number, ud: number): number {
+  const obj = rss + lambda * l1;
+  const e = 1 - 1 / (1 + delta);
+  const gap = Math.max(lambda * l1 - ud, 0) + Math.max(e * (yg - gg * (1 - e / 2)), 0);
+  return obj > 0 ? gap / obj : 0;
 }
 
 /** A restricted solution with its recovered dual, as {@link certify} takes it. Unchecked. */
