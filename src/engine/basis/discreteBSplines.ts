@@ -67,6 +67,12 @@ export interface BasisCache {
   values?: Float64Array;
   first?: Int32Array;
   penalty?: Float64Array;
+  /**
+   * The arrays of the build before last, written again by the next build: a basis built with a
+   * cache is valid until the next build on that cache.
+   */
+  spareValues?: Float64Array;
+  spareFirst?: Int32Array;
 }
 
 /**
@@ -96,14 +102,18 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   for (let j = 0; j < K; j++) E[k + 1 + j] = rowsA[j];
   const lo = new Int32Array(p), hi = new Int32Array(p);
   for (let e = 0; e < p; e++) { lo[e] = Math.max(0, E[e] + k + 1); hi[e] = Math.min(n - 1, E[e + k + 1]); }
+  const old = cache && cache.k === k && cache.x === x ? cache : undefined;
+  const wd = k + 1;
+  // with a cache, the arrays of the build before last are written again (a basis is valid until
+  // the next build on the same cache): no allocation of n (k + 1) values per build
+  const spare = cache && cache.spareValues && cache.spareValues.length === n * wd && cache.spareFirst && cache.spareFirst.length === n ? cache : undefined;
   // the first basis function covering each point: lo and hi both increase with e
-  const first = new Int32Array(n);
+  const first = spare ? spare.spareFirst! : new Int32Array(n);
   for (let i = 0, e = 0; i < n; i++) {
     while (hi[e] < i) e++;
     first[i] = e;
   }
-  const wd = k + 1;
-  const values = new Float64Array(n * wd);
+  const values = spare ? spare.spareValues! : new Float64Array(n * wd);
   const penalty = new Float64Array(p * (k + 2));
   const nu = (k + 1) * (k + 1); // unknowns: k + 1 local coefficients for each of the k + 1 pieces
   const M = new Float64Array((nu - 1) * nu);
@@ -112,35 +122,62 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const cen = new Float64Array(k + 1), half = new Float64Array(k + 1);
   const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
   const allCoef = new Float64Array(p * nu);
-  const old = cache && cache.k === k && cache.x === x ? cache : undefined;
-  let eo = 0; // walks the old windows: both knot lists increase
+  // pass 1: the window of the last build each window repeats (a window's function depends on its
+  // k + 2 knots alone), or -1
+  const from = new Int32Array(p).fill(-1);
+  if (old) {
+    const oe = old.ext, op = oe.length - k - 1;
+    for (let e = 0, eo = 0; e < p; e++) {
+      while (eo < op && oe[eo] < E[e]) eo++;
+      if (eo < op && oe[eo] === E[e]) {
+        let same = true;
+        for (let q = 1; q <= k + 1; q++) if (oe[eo + q] !== E[e + q]) { same = false; break; }
+        if (same) from[e] = eo;
+      }
+    }
+  }
+  const ov = old?.values, of = old?.first, oldP = old ? old.ext.length - k - 1 : 0;
+  const canCopy = !!(ov && of && old!.penalty && ov.length === n * wd);
+  // pass 2: a point whose k + 1 windows all repeat, in the same order, keeps its values: runs of
+  // such points are copied whole; the slots of the other points are cleared
+  const kept = new Uint8Array(n);
+  if (canCopy) {
+    let run = -1;
+    for (let i = 0; i <= n; i++) {
+      let keep = false;
+      if (i < n) {
+        keep = true;
+        const f0 = first[i], g0 = of![i];
+        for (let j = 0; j <= k; j++) {
+          const e = f0 + j;
+          if (e < p ? from[e] !== g0 + j : g0 + j < oldP) { keep = false; break; }
+        }
+      }
+      if (keep) { kept[i] = 1; if (run < 0) run = i; continue; }
+      if (run >= 0) { values.set(ov!.subarray(run * wd, i * wd), run * wd); run = -1; }
+      if (i < n) for (let j = i * wd; j < (i + 1) * wd; j++) values[j] = 0;
+    }
+  } else if (spare) values.fill(0);
+  // pass 3: each window's coefficients, values at the points not kept, and (D B_e) at its knots
   for (let e = 0; e < p; e++) {
     // piece l (l = 0..k) holds the points rho_l < i <= rho_{l+1}; it is one polynomial Q_l on
     // x_{rho_l + 1} .. x_{rho_{l+1} + k}, written in its own coordinate t = (x - cen_l) / half_l
+    const fe = from[e];
+    const i0 = lo[e], i1 = hi[e];
+    if (fe >= 0 && canCopy) {
+      // the same window on the same x: its values and (D B_e) are those of the last build
+      allCoef.set(old!.coef.subarray(fe * nu, (fe + 1) * nu), e * nu);
+      for (let i = i0; i <= i1; i++) if (!kept[i]) values[i * wd + (e - first[i])] = ov![i * wd + (fe - of![i])];
+      for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = old!.penalty![fe * (k + 2) + q];
+      continue;
+    }
     for (let l = 0; l <= k; l++) {
       const a = X(E[e + l] + 1), b = X(E[e + l + 1] + k);
       cen[l] = 0.5 * (a + b); half[l] = 0.5 * (b - a);
     }
-    let reused = false, from = -1;
-    if (old) {
-      const oe = old.ext, op = oe.length - k - 1;
-      while (eo < op && oe[eo] < E[e]) eo++;
-      if (eo < op && oe[eo] === E[e]) {
-        reused = true;
-        for (let q = 1; q <= k + 1; q++) if (oe[eo + q] !== E[e + q]) { reused = false; break; }
-        if (reused) { for (let j = 0; j < nu; j++) coef[j] = old.coef[eo * nu + j]; from = eo; }
-      }
-    }
-    const i0 = lo[e], i1 = hi[e];
-    if (reused && old!.values && old!.first && old!.penalty) {
-      // the same window on the same x: its values and (D B_e) are those of the last build
-      allCoef.set(coef, e * nu);
-      const ov = old!.values, of = old!.first;
-      for (let i = i0; i <= i1; i++) values[i * wd + (e - first[i])] = ov[i * wd + (from - of[i])];
-      for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = old!.penalty[from * (k + 2) + q];
-      continue;
-    }
-    if (!reused) {
+    if (fe >= 0) {
+      for (let j = 0; j < nu; j++) coef[j] = old!.coef[fe * nu + j];
+    } else {
       // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
       M.fill(0);
       let row = 0;
@@ -179,6 +216,11 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       const before = q >= 1 ? coef[(q - 1) * (k + 1) + k] / Math.pow(half[q - 1], k) : 0;
       penalty[e * (k + 2) + q] = (fact * (after - before)) / vmax;
     }
+  }
+  if (cache) {
+    // this build's arrays become the last build's; the last build's become the spare ones
+    if (old && old.values && old.first && old.values.length === n * wd && old.first.length === n) { cache.spareValues = old.values; cache.spareFirst = old.first; }
+    else { cache.spareValues = undefined; cache.spareFirst = undefined; }
   }
   if (cache) { cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; cache.values = values; cache.first = first; cache.penalty = penalty; }
   return { k, p, first, values, penalty };

@@ -133,11 +133,18 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
   }
   for (let e = p; e < p + k; e++) c[e] = 0;
   const b = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    const e0 = first[i], o = i * wd;
-    let s = 0;
-    for (let a = 0; a <= k; a++) s += values[o + a] * c[e0 + a];
-    b[i] = s;
+  if (k === 3) {
+    for (let i = 0; i < n; i++) {
+      const e0 = first[i], o = 4 * i;
+      b[i] = values[o] * c[e0] + values[o + 1] * c[e0 + 1] + values[o + 2] * c[e0 + 2] + values[o + 3] * c[e0 + 3];
+    }
+  } else {
+    for (let i = 0; i < n; i++) {
+      const e0 = first[i], o = i * wd;
+      let s = 0;
+      for (let a = 0; a <= k; a++) s += values[o + a] * c[e0 + a];
+      b[i] = s;
+    }
   }
   const dA = new Float64Array(K);
   for (let j = 0; j < K; j++) {

@@ -46,9 +46,20 @@ export interface ActiveSetNewtonResult {
  * no further refinement round is needed to confirm it. With `patience` it stops unsettled once the
  * fewest rows changed in a round has not decreased for that many rounds (no progress).
  *
+ * With `slide`, a knot right before a run of violations, with the run's sign, moves to the run's
+ * worst row in the same round (one round instead of two: adding the row, then dropping the knot
+ * once its sign breaks). That suits starts whose knots are displaced by some rows (the previous
+ * penalty's knots, or a fold's knots guessed from the full data): measured on cross-validation
+ * (5 folds x 30 penalties, n = 1e4) the restricted solves went from 2,246 to 1,970 (order 1) and
+ * from 21,558 to 10,705 (order 3). It does not suit a nearly right start such as a converged
+ * interior point's knots: the optimum often holds pairs of adjacent knots of one sign (the dual is
+ * flat at its peaks), and sliding splits them (a noiseless kinked series of 60 points then diverged
+ * where without it 4 rounds settled; sliding only when the worst row is the one beside the knot
+ * split them too).
+ *
  * Works on x scaled to [0, 1]; O(n k^2) per round. Unchecked.
  */
-export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache, stopGap = 0, stopOnRepeat = false, patience = Infinity): ActiveSetNewtonResult {
+export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache, stopGap = 0, stopOnRepeat = false, patience = Infinity, slide = false): ActiveSetNewtonResult {
   const n = x.length;
   const m = n - k - 1;
   const lim = lambda * (1 + boxRelative(n, k));
@@ -89,8 +100,11 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       if (!(ur > lim)) { r++; continue; }
       let best = r, e = r;
       while (e < m && !(j < A.length && A[j] === e) && Math.abs(u[e]) > lim) { const ue = Math.abs(u[e]); if (ue > um) um = ue; if (ue > Math.abs(u[best])) best = e; e++; }
+      const sg = u[best] > 0 ? 1 : -1;
+      // with `slide`, a knot right before the run with the same sign moves to the run's worst row
+      if (slide && nA.length && nA[nA.length - 1] === r - 1 && nS[nS.length - 1] === sg) { nA.pop(); nS.pop(); changed++; }
       nA.push(best);
-      nS.push(u[best] > 0 ? 1 : -1);
+      nS.push(sg);
       changed++;
       r = e;
     }

@@ -194,7 +194,7 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
   if (guess) { rows = guess.rows; signs = guess.signs; }
   else if (warm && warm.status.converged) { rows = warm.knotRows; signs = warm.knotRows.map((r) => (warm.u[r] >= 0 ? 1 : -1)); }
   else return undefined;
-  const asn = activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, prob.k === 1 ? Infinity : WARM_NEWTON_PATIENCE);
+  const asn = activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, prob.k === 1 ? Infinity : WARM_NEWTON_PATIENCE, true);
   ctx.iterations += asn.rounds;
   let pol = asn.fit;
   // cycling among a few rows: the monotone refinement finishes from the last active set
