@@ -35,6 +35,11 @@ export interface FitOptions {
   tolerance?: number;
   /** Iteration limit of iterative solvers. */
   maxIterations?: number;
+  /**
+   * What cross-validation assumes of the noise: 'correlated' (default) estimates its dependence and
+   * holds out blocks when it is clear; 'independent' uses ordinary folds.
+   */
+  noise?: 'correlated' | 'independent';
 }
 
 /** One point of a criterion curve: the score at one penalty. */

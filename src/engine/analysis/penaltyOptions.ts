@@ -34,9 +34,31 @@ export function PENALTY_OPTIONS(o: { rules: readonly string[]; defaultRule: stri
     ...(cvRules.length ? [{
       name: 'folds', kind: 'integer', min: 2, max: 50, onlyWith: { option: 'rule', values: cvRules },
       help: `number of cross-validation folds (default ${o.folds}, fewer on short series)`,
-    } as OptionDeclaration] : []),
+    } as OptionDeclaration, noiseOption('rule', cvRules)] : []),
     { name: 'searchPoints', kind: 'integer', min: 5, max: 400, default: o.searchPoints, oldNames: ['gridSize'], help: `number of penalties tried on the search grid (default ${o.searchPoints})` },
   ];
+}
+
+/**
+ * What cross-validation assumes of the noise (the words of the changepoint models' setting of the
+ * same name): 'correlated' reads the lag-one dependence of the noise from the variogram of the series
+ * and, when it is clear, holds out blocks and leaves their neighbours out of training
+ * (select/noiseDependence.ts); 'independent' uses ordinary folds. The reading can mistake fast
+ * structure that is not noise (a chirp, many small steps) for correlated noise, and then
+ * over-smooths: 'independent' is the way out when the noise is known to be independent.
+ *
+ * @param rule - the option that selects cross-validation, and its values that do
+ */
+export function noiseOption(rule: string, cvRules: readonly string[]): OptionDeclaration {
+  return {
+    name: 'noise', kind: 'choice', choices: ['correlated', 'independent'], default: 'correlated',
+    ...(cvRules.length ? { onlyWith: { option: rule, values: cvRules } } : {}),
+    choiceHelp: {
+      correlated: 'read how far the noise is correlated from point to point; when it clearly is, hold out blocks and leave their neighbours out of training (default)',
+      independent: 'ordinary folds: for noise known to be independent, where fast wiggles of the signal could be read as correlated noise and over-smoothed',
+    },
+    help: 'what cross-validation assumes of the noise: correlated (default: read from the data) or independent',
+  };
 }
 
 /**
@@ -65,5 +87,6 @@ export function fitOptionsOf(r: ResolvedOptions): FitOptions {
   if (r.refit !== undefined) o.relaxed = r.refit as number;
   if (r.tolerance !== undefined) o.tolerance = r.tolerance as number;
   if (r.maxIterations !== undefined) o.maxIterations = r.maxIterations as number;
+  if (r.noise !== undefined) o.noise = r.noise as 'correlated' | 'independent';
   return o;
 }

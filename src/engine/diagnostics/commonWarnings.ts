@@ -5,7 +5,7 @@
 import { Warning, warning } from '../warnings';
 import { lagOneAutocorrelation, isAutocorrelated } from './lagOneAutocorrelation';
 import { showNumber } from '../errors';
-import { noiseDependence } from '../select/noiseDependence';
+import { foldPlan, NoiseTreatment } from '../select/noiseDependence';
 
 /** The note on end effects that every smoothed trend carries. */
 export function boundaryWarning(): Warning {
@@ -19,7 +19,7 @@ export function boundaryWarning(): Warning {
  * fit is that constant whatever the penalty, and there is no noise to follow
  * (the intake's note says the values are all equal).
  */
-export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string, folds = 5): Warning[] {
+export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string, folds = 5, noise: NoiseTreatment = 'correlated'): Warning[] {
   const out: Warning[] = [];
   if (y && isConstant(y)) return out;
   if (df > n / 3 && n > 6) {
@@ -28,12 +28,12 @@ export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dat
   if (dataDriven && n >= 20) {
     const r1 = lagOneAutocorrelation(resid);
     // the same plan cross-validation used (same y, same folds), so the message describes the folds it ran
-    const dep = y ? noiseDependence(y, folds) : undefined;
+    const dep = y ? foldPlan(y, folds, noise) : undefined;
     // warn only on clear dependence (about three standard errors of the estimate, and at least 0.25); below that the
     // cross-validation plan still leaves neighbours out, quietly, since doing so costs little either way
     if (dep && dep.buffer > 0 && dep.phi > Math.max(0.25, 3 / Math.sqrt(n))) {
       out.push(warning('autocorrelation', rule === 'cv'
-        ? `The noise looks correlated from one point to the next (lag-one about ${dep.phi.toFixed(2)}, estimated from differences): cross-validation held out blocks of ${dep.block} points and left ${dep.buffer} neighbours on each side out of training, so that correlated noise is not taken for trend (h-block cross-validation; Chu & Marron 1991).`
+        ? `The noise looks correlated from one point to the next (lag-one about ${dep.phi.toFixed(2)}, estimated from differences): cross-validation held out blocks of ${dep.block} points and left ${dep.buffer} neighbours on each side out of training, so that correlated noise is not taken for trend (h-block cross-validation; Chu & Marron 1991). Fast wiggles of the series itself can read as correlated noise and be smoothed away: if the noise is known to be independent, set noise to independent.`
         : `The noise looks correlated from one point to the next (lag-one about ${dep.phi.toFixed(2)}, estimated from differences): ${rule ? rule.toUpperCase() : 'this rule'} treats such noise as signal and tends to under-smooth. Use the rule "cv", which then leaves neighbours out of its folds, or a larger penalty.`));
     } else if (isAutocorrelated(r1, n)) {
       out.push(warning('autocorrelation', `Residuals are autocorrelated (lag-one correlation ${r1.toFixed(2)}): the fit leaves structure in the residuals (a season, a missed change) or the noise is correlated. Consider a smaller penalty or a df target, and look at the residuals.`));

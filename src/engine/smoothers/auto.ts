@@ -22,7 +22,7 @@ import type { AnalysisCore, AnalysisDefinition, CandidateRow } from '../analysis
 import { analysisDefinitions, findAnalysis } from '../analysis/analysisRegistry';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import { resolveOptions } from '../analysis/resolveOptions';
-import { SEASON_OPTION } from '../analysis/penaltyOptions';
+import { SEASON_OPTION, noiseOption } from '../analysis/penaltyOptions';
 import type { RunContext } from '../analysis/runContext';
 import { KnotwiseError, isKnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
@@ -110,7 +110,8 @@ export const AUTO_COARSE_FROM = 2000;
  * Runs every candidate and picks one.
  *
  * @param series - clean series (ties merged)
- * @param options - resolved: `rule` 'cv-simpler' (default) or 'cv'; `folds` (default 5)
+ * @param options - resolved: `rule` 'cv-simpler' (default) or 'cv'; `folds` (default 5); `noise`
+ *   ('correlated' by default, passed to every candidate that declares it)
  * @param context - progress: one part per candidate
  * @returns the winner's fit (its `smooth`, `criterion`, warnings) with `comparison`
  * @throws {@link KnotwiseError} `too-few-points` when no candidate can be cross-validated;
@@ -122,6 +123,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   }
   const folds = options.folds as number;
   const rule = options.rule as string;
+  const noise = options.noise as string | undefined;
   const variants = analysisDefinitions('smoother').flatMap((def) => (def.autoVariants ?? []).map((v) => ({ def, v })));
   const rows: CandidateRow[] = [];
   const fits: (AnalysisCore | null)[] = [];
@@ -138,7 +140,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
         const declares = (name: string) => def.options.some((o) => o.name === name);
         const grid = def.options.find((o) => o.name === 'searchPoints')?.default;
         const coarser = series.n >= AUTO_COARSE_FROM && typeof grid === 'number' && grid > AUTO_SEARCH_POINTS ? { searchPoints: AUTO_SEARCH_POINTS } : {};
-        const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...coarser, ...(declares('season') ? { season: 'none' } : {}) }, def.name).options;
+        const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...coarser, ...(declares('season') ? { season: 'none' } : {}), ...(noise !== undefined && declares('noise') ? { noise } : {}) }, def.name).options;
         if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
         const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
         const fit = core.smooth!;
@@ -196,6 +198,8 @@ export const autoAnalysis: AnalysisDefinition = {
       help: 'how the winner is picked: cv-simpler (default) or cv',
     },
     { name: 'folds', kind: 'integer', min: 2, max: 20, default: 5, help: 'number of cross-validation folds shared by every candidate (default 5)' },
+    // every candidate is cross-validated, so the setting always applies (and is passed to each)
+    noiseOption('rule', []),
     SEASON_OPTION,
   ],
   ties: 'merge',

@@ -36,7 +36,7 @@ import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
 import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
 import { solveForDf } from '../select/solveForDf';
 import { crossValidate } from '../select/crossValidate';
-import { noiseDependence } from '../select/noiseDependence';
+import { foldPlan, NoiseTreatment } from '../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { weightedMoments } from '../weightedMoments';
@@ -106,6 +106,7 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
     const maxK = Math.max(2, Math.min(50, n - 2));
     out.folds = options.folds === undefined ? Math.min(10, maxK) : checkInteger(options.folds, 'folds', 2, maxK);
     out.oneSE = !!options.oneSE;
+    if (options.noise !== undefined) out.noise = checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
   }
   out.gridSize = options.gridSize === undefined ? 25 : checkInteger(options.gridSize, 'gridSize', 5, 400);
   for (const k of ['order', 'relaxed'] as const) {
@@ -120,9 +121,9 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
  * fold's banded system built once and reused for every penalty tried.
  * Scores are in scaled units of y (the caller converts).
  */
-function cvScorer(s: Scaled, k: number): (lt: number) => { score: number; se: number } {
+function cvScorer(s: Scaled, k: number, noise?: NoiseTreatment): (lt: number) => { score: number; se: number } {
   const systems = new Map<number, { sys: ReinschSystem; t: Float64Array }>();
-  const plan = noiseDependence(s.y, k); // once: the folds are the same for every penalty tried
+  const plan = foldPlan(s.y, k, noise); // once: the folds are the same for every penalty tried
   const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {
     let f = systems.get(held[0]);
     if (!f) {
@@ -206,7 +207,7 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
     };
     let plain: (l: number) => PenaltyScore = gcv;
     if (opts.select === 'cv') {
-      const cv = cvScorer(s, opts.folds!);
+      const cv = cvScorer(s, opts.folds!, opts.noise);
       plain = (l) => { const c = cv(l); return { score: c.score, se: c.se, df: dfAt(l) }; };
     }
     let evaluations = 0;
@@ -249,7 +250,7 @@ export function fitSpline(series: Series, options: FitOptions = {}, context: Run
   for (let i = 0; i < n; i++) se[i] = sigma * Math.sqrt(Math.max(0, sol.leverage![i]) / series.w[i]);
   const gx = ys / (s.xs * s.xs);
   const gamma = sol.gamma.map((v) => v * gx);
-  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined, series.y, opts.select, opts.folds));
+  warnings.push(...fitWarnings(n, df, resid, opts.penalty === undefined && opts.df === undefined, series.y, opts.select, opts.folds, opts.noise));
   warnings.push(boundaryWarning());
   const model: SplineModel = { x: series.x, g: fitted, gamma };
   return {

@@ -85,6 +85,8 @@ export interface TrendSettings {
   maxIterations: number;
   oneSE: boolean;
   select: 'cv' | 'sure' | 'bic';
+  /** What cross-validation assumes of the noise. */
+  noise: 'correlated' | 'independent';
 }
 
 /** Default polynomial order (piecewise linear trends). */
@@ -114,7 +116,8 @@ export function trendSettings(options: FitOptions): TrendSettings {
   const maxIterations = options.maxIterations === undefined ? 200 : checkInteger(options.maxIterations, 'maxIterations', 1, 100000);
   if (options.oneSE !== undefined && typeof options.oneSE !== 'boolean') throw new KnotwiseError('bad-option', `oneSE must be TRUE or FALSE; got ${String(options.oneSE)}.`);
   const select = options.select === undefined ? 'cv' : checkChoice(options.select, 'select', ['cv', 'sure', 'bic'] as const);
-  return { order, relaxed, gridSize, folds, tolerance, maxIterations, oneSE: !!options.oneSE, select };
+  const noise = options.noise === undefined ? 'correlated' : checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
+  return { order, relaxed, gridSize, folds, tolerance, maxIterations, oneSE: !!options.oneSE, select, noise };
 }
 
 /**
@@ -134,7 +137,7 @@ export function trendCriterionPath(series: Series, options: FitOptions = {}): Tr
   const s = trendSettings(options);
   checkSize(series, s.order);
   const useCv = s.select === 'cv' && cvPossible(series.n, s.folds, s.order);
-  return trendPath(series, { order: s.order, gridSize: s.gridSize, folds: useCv ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations });
+  return trendPath(series, { order: s.order, gridSize: s.gridSize, folds: useCv ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations, noise: s.noise });
 }
 
 /**
@@ -235,7 +238,7 @@ export function fitTrend(series: Series, options: FitOptions = {}, context: RunC
       warnings.push(warning('note', `${n} points are too few for ${s.folds}-fold cross-validation at order ${k}; the penalty was chosen by SURE instead.`));
       rule = 'sure';
     }
-    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations, context });
+    const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations, noise: s.noise, context });
     const pts = path.points;
     const curve = curveOf(path, rule);
     const chosen = choosePenalty(curve, rule === 'cv' && s.oneSE ? 'simpler' : 'minimum');
@@ -356,7 +359,7 @@ function assemble(series: Series, s: TrendSettings, sc: TrendScaling, fit: Trend
     }
     warnings.push(warning('not-converged', `The trend solver stopped after ${status.iterations} iterations with relative duality gap ${showNumber(status.achieved)} (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum (||fit - optimum||_W <= sqrt(2 gap)). Increase maxIterations or use a smaller penalty.`));
   }
-  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name, s.folds));
+  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name, s.folds, s.noise));
   warnings.push(boundaryWarning());
   const model: TrendModel = { x, l1, order: k, relaxed: s.relaxed, refit };
   return {

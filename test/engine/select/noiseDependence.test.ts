@@ -6,7 +6,7 @@
  * neighbours of held-out points out of training restores a handful of bends
  * with the planted one the largest.
  */
-import { noiseDependence } from '../../../src/engine/select/noiseDependence';
+import { noiseDependence, foldPlan } from '../../../src/engine/select/noiseDependence';
 import { runAnalysis } from '../../../src/engine';
 import { normalStream } from '../../helpers/random';
 
@@ -47,3 +47,30 @@ describe('trend filtering with correlated noise', () => {
     }
   });
 });
+
+describe('the noise setting of the smoothers', () => {
+  test('foldPlan with independent noise gives ordinary folds where the estimate would hold out blocks', () => {
+    const y = ar1(400, 0.7, 5);
+    expect(foldPlan(y, 5).buffer).toBeGreaterThan(0);
+    expect(foldPlan(y, 5)).toEqual(noiseDependence(y, 5));
+    expect(foldPlan(y, 5, 'independent')).toEqual({ phi: 0, buffer: 0, block: 1 });
+  });
+
+  test('trend filtering under AR(1) noise with phi 0.5: noise independent takes the correlated noise for trend (many more bends), as cross-validation with ordinary folds does', () => {
+    // the reason the default reads the dependence: the same series and folds with the setting turned off
+    const e = ar1(156, 0.5, 1);
+    const x = e.map((_, i) => i + 1);
+    const y = x.map((t, i) => 100 + 0.2 * t + 0.8 * Math.max(0, t - 90) + 2 * e[i]);
+    const read = runAnalysis({ analysis: 'trend', y, x }).smooth!;
+    const assumed = runAnalysis({ analysis: 'trend', y, x, options: { noise: 'independent' } }).smooth!;
+    expect(assumed.knots.length).toBeGreaterThan(2 * read.knots.length);
+    // the autocorrelation warning of the default names the way out; with the setting it describes no blocks
+    expect(runAnalysis({ analysis: 'trend', y, x }).warnings.some((w) => w.code === 'autocorrelation' && w.message.includes('set noise to independent'))).toBe(true);
+    expect(assumed.warnings.some((w) => w.message.includes('held out blocks'))).toBe(false);
+  });
+
+  test('a smoother refuses the setting with a rule that does not cross-validate', () => {
+    expect(() => runAnalysis({ analysis: 'spline', y: [1, 3, 2, 5, 4, 6, 5, 8], options: { rule: 'gcv', noise: 'independent' } })).toThrow(/noise applies only when rule is "cv" or "cv-simpler"/);
+  });
+});
+

@@ -8,7 +8,7 @@ import type { Series } from '../../series';
 import type { FitResult } from '../../types';
 import { Warning, warning } from '../../warnings';
 import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
-import { RULE_HELP } from '../../analysis/penaltyOptions';
+import { RULE_HELP, noiseOption } from '../../analysis/penaltyOptions';
 import type { ResolvedOptions } from '../../analysis/optionDeclaration';
 import { QUIET, RunContext } from '../../analysis/runContext';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
@@ -16,6 +16,7 @@ import { loessFit, type LoessFit } from './loessFit';
 import { loessSelectSpan } from './loessSelectSpan';
 import { loessPredict } from './loessPredict';
 import { crossValidate } from '../../select/crossValidate';
+import { foldPlan, NoiseTreatment } from '../../select/noiseDependence';
 import { interpolateFit } from '../whittaker/interpolateFit';
 import { choosePenalty } from '../../select/choosePenalty';
 import type { CriterionPoint } from '../../types';
@@ -26,6 +27,8 @@ export interface LoessSettings {
   span?: number;
   rule?: 'aicc' | 'gcv' | 'cv' | 'cv-simpler';
   folds?: number;
+  /** What cross-validation assumes of the noise (default 'correlated'). */
+  noise?: NoiseTreatment;
   robustness?: number;
   interpolateWithin?: number;
 }
@@ -70,7 +73,7 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
         return loessPredict(tx, ty, tw, f.robustnessWeights, sp, s.degree, hx);
       });
     };
-    const cv = crossValidate(series.y, series.w, k, spans, predict, context, 'cross-validation of spans');
+    const cv = crossValidate(series.y, series.w, k, spans, predict, context, 'cross-validation of spans', foldPlan(series.y, k, s.noise));
     const curve: CriterionPoint[] = [];
     for (let j = 0; j < spans.length; j++) {
       const f = loessFit(series.x, series.y, series.w, { span: spans[j], ...common });
@@ -121,6 +124,7 @@ export const loessAnalysis: AnalysisDefinition = {
       help: 'how to choose the span when none is given: aicc (default), gcv, cv or cv-simpler',
     },
     { name: 'folds', kind: 'integer', min: 2, max: 50, onlyWith: { option: 'rule', values: ['cv', 'cv-simpler'] }, help: 'number of cross-validation folds (default 10, fewer on short series)' },
+    noiseOption('rule', ['cv', 'cv-simpler']),
     { name: 'robustness', kind: 'integer', min: 0, max: 20, default: 0, implied: 3, help: 'passes that down-weight outliers (bisquare weights; 3 as in LOWESS); 0 for none (default)' },
     { name: 'interpolateWithin', kind: 'number', min: 0, help: 'x distance within which fitted values are interpolated between exact local fits (default: none up to 1000 points, else min(0.01, span / 20) of the x range)' },
   ],
@@ -136,6 +140,7 @@ export const loessAnalysis: AnalysisDefinition = {
       span: o.span as number | undefined,
       rule: o.rule as LoessSettings['rule'],
       folds: o.folds as number | undefined,
+      noise: o.noise as NoiseTreatment | undefined,
       robustness: o.robustness as number | undefined,
       interpolateWithin: o.interpolateWithin as number | undefined,
     }, context);

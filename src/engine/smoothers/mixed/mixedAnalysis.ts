@@ -45,7 +45,7 @@ import type { ResolvedOptions } from '../../analysis/optionDeclaration';
 import { PENALTY_OPTIONS, SEASON_OPTION } from '../../analysis/penaltyOptions';
 import { QUIET, RunContext } from '../../analysis/runContext';
 import { crossValidate } from '../../select/crossValidate';
-import { noiseDependence } from '../../select/noiseDependence';
+import { foldPlan, NoiseDependence, NoiseTreatment } from '../../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
 import { knotBends } from '../../diagnostics/knotBends';
@@ -101,6 +101,8 @@ export interface MixedSettings {
   width?: number;
   rule?: 'cv' | 'cv-simpler';
   folds?: number;
+  /** What cross-validation assumes of the noise (default 'correlated'). */
+  noise?: NoiseTreatment;
   searchPoints?: number;
   /** Largest change of the kink component in a final block step, relative to the sd of y (default 1e-5). */
   tolerance?: number;
@@ -227,7 +229,7 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
     const K = Math.max(2, Math.min(s.folds ?? 5, Math.floor(n / 3)));
     const G = s.searchPoints ?? 10;
     const list = s.width !== undefined ? [s.width] : mixedWidths(n).map((v) => v * sc.h);
-    const plan = noiseDependence(series.y, K); // once: every width and penalty shares the folds
+    const plan = foldPlan(series.y, K, s.noise); // once: every width and penalty shares the folds
     const paths: WidthPath[] = [];
     list.forEach((wd, i) => {
       paths.push(context.part(i / list.length, (i + 1) / list.length, () => widthPath(series, sc, probs, wd, G, K, plan, full, context)));
@@ -262,7 +264,7 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
 }
 
 /** The full-data path at one width and its cross-validation on the shared folds. Unchecked. */
-function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width: number, G: number, K: number, plan: ReturnType<typeof noiseDependence>, full: MixedSolveSettings, context: RunContext): WidthPath {
+function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width: number, G: number, K: number, plan: NoiseDependence, full: MixedSolveSettings, context: RunContext): WidthPath {
   const n = series.n;
   const ratio = ratioOf(width, sc);
   const top = pathTop(sc.xs, sc.ys, sc.ws, ratio);
@@ -372,7 +374,7 @@ function assemble(series: Series, sc: TrendScaling, fit: MixedFit, lam1: number,
     }
     warnings.push(warning('not-converged', `The mixed-trend solver stopped after ${status.iterations} steps with the kink component still moving by ${showNumber(status.achieved)} sd of y (asked ${showNumber(status.tolerance)}); fitted values are close to, but not exactly, the optimum. Increase max-iterations.`));
   }
-  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name, s.folds ?? 5));
+  warnings.push(...fitWarnings(n, df, resid, dataDriven, series.y, criterion.name, s.folds ?? 5, s.noise));
   warnings.push(boundaryWarning());
   const bendPenalty = toData1(lam1, sc) * (width / 4) ** 2;
   const model: MixedModel = { x, kinks, bends, bendPenalty, width, bendKnots: fit.bendRows.length, bendRows: fit.bendRows.slice(), widths };
@@ -454,6 +456,7 @@ export const mixedAnalysis: AnalysisDefinition = {
       width: o.width as number | undefined,
       rule: o.rule as MixedSettings['rule'],
       folds: o.folds as number | undefined,
+      noise: o.noise as NoiseTreatment | undefined,
       searchPoints: o.searchPoints as number | undefined,
       tolerance: o.tolerance as number | undefined,
       maxIterations: o.maxIterations as number | undefined,

@@ -13,6 +13,7 @@ import { differenceSigma } from '../../robustSigma';
 import { crossValidate } from '../../select/crossValidate';
 import type { RunContext } from '../../analysis/runContext';
 import { foldData } from '../../select/foldData';
+import { foldPlan, NoiseTreatment } from '../../select/noiseDependence';
 
 /** Settings of {@link trendPath} (already validated). */
 export interface TrendPathSettings {
@@ -30,6 +31,8 @@ export interface TrendPathSettings {
   ratio?: number;
   /** Progress and cancellation, checked at every penalty of the path and of each fold. */
   context?: RunContext;
+  /** What cross-validation assumes of the noise (default 'correlated': {@link foldPlan}). */
+  noise?: NoiseTreatment;
 }
 
 /** One penalty of the path, in the data's units. */
@@ -202,9 +205,10 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       }
       return out;
     };
+    const plan = foldPlan(series.y, K, s.noise);
     const cv = s.context
-      ? s.context.part(1 / stages, 1, () => crossValidate(series.y, series.w, K, grid, predict, s.context))
-      : crossValidate(series.y, series.w, K, grid, predict);
+      ? s.context.part(1 / stages, 1, () => crossValidate(series.y, series.w, K, grid, predict, s.context, undefined, plan))
+      : crossValidate(series.y, series.w, K, grid, predict, undefined, undefined, plan);
     for (let j = 0; j < G; j++) {
       pts[j].cv = cv.score[j];
       pts[j].cvSe = cv.se[j];

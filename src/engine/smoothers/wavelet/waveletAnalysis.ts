@@ -14,6 +14,8 @@ import { waveletShrink, type WaveletShrinkOptions, type WaveletShrinkResult } fr
 import { waveletCrossValidate, waveletDf } from './waveletCrossValidate';
 import type { Criterion } from '../../types';
 import { QUIET, type RunContext } from '../../analysis/runContext';
+import { noiseOption } from '../../analysis/penaltyOptions';
+import type { NoiseTreatment } from '../../select/noiseDependence';
 
 /** Settings of {@link fitWavelet}: the shrinkage's shape, and the threshold rule including cross-validation. */
 export interface WaveletSettings extends Omit<WaveletShrinkOptions, 'threshold' | 'x' | 'fixedThreshold'> {
@@ -21,6 +23,8 @@ export interface WaveletSettings extends Omit<WaveletShrinkOptions, 'threshold' 
   threshold?: 'sure' | 'universal' | 'cv' | 'cv-simpler';
   /** Folds for 'cv' and 'cv-simpler' (default 10, fewer on short series). */
   folds?: number;
+  /** What cross-validation assumes of the noise (default 'correlated'). */
+  noise?: NoiseTreatment;
 }
 import { WAVELET_FILTER_NAMES, type WaveletFilterName } from './waveletFilters';
 import { interpolateFit } from '../whittaker/interpolateFit';
@@ -38,13 +42,13 @@ import { interpolateFit } from '../whittaker/interpolateFit';
  */
 export function fitWavelet(series: Series, o: WaveletSettings, context: RunContext = QUIET): FitResult {
   const n = series.n;
-  const { folds, ...shape } = o;
+  const { folds, noise, ...shape } = o;
   let r: WaveletShrinkResult;
   let criterion: Criterion;
   const warnings: Warning[] = [...series.warnings];
   if (o.threshold === 'cv' || o.threshold === 'cv-simpler') {
     const k = Math.max(2, Math.min(folds ?? 10, n - 2));
-    const choice = waveletCrossValidate(series, { ...shape, threshold: undefined, x: series.x }, k, o.threshold === 'cv' ? 'minimum' : 'simpler', context);
+    const choice = waveletCrossValidate(series, { ...shape, threshold: undefined, x: series.x }, k, o.threshold === 'cv' ? 'minimum' : 'simpler', context, noise);
     r = choice.shrink;
     criterion = choice.criterion;
     if (choice.side === 'rough') warnings.push(warning('penalty-at-edge', `The cross-validation choice is the smallest wavelet threshold tried (${showNumber(choice.threshold)}): nearly every detail is kept, so the fit may follow noise.`));
@@ -91,6 +95,7 @@ export const waveletAnalysis: AnalysisDefinition = {
       help: 'how the threshold is set: sure (default), universal, cv or cv-simpler',
     },
     { name: 'folds', kind: 'integer', min: 2, max: 50, onlyWith: { option: 'threshold', values: ['cv', 'cv-simpler'] }, help: 'number of cross-validation folds (default 10, fewer on short series)' },
+    noiseOption('threshold', ['cv', 'cv-simpler']),
     { name: 'shrink', kind: 'choice', choices: ['soft', 'hard'], default: 'soft', help: 'soft (default) pulls every kept coefficient toward zero by the threshold; hard keeps it whole (universal threshold only)' },
     { name: 'boundary', kind: 'choice', choices: ['reflect', 'periodic'], default: 'reflect', help: 'how the ends are treated: reflect (default) mirrors the series, periodic wraps the end to the start' },
     { name: 'shifts', kind: 'integer', min: 1, max: 64, default: 1, help: 'average over this many shifted copies (cycle spinning) to remove the blockiness of one transform (default 1)' },
@@ -104,6 +109,7 @@ export const waveletAnalysis: AnalysisDefinition = {
       ...(o.levels !== undefined ? { levels: o.levels as number } : {}),
       threshold: o.threshold as WaveletSettings['threshold'],
       ...(o.folds !== undefined ? { folds: o.folds as number } : {}),
+      ...(o.noise !== undefined ? { noise: o.noise as NoiseTreatment } : {}),
       shrink: o.shrink as 'soft' | 'hard',
       boundary: o.boundary as 'reflect' | 'periodic',
       shifts: o.shifts as number,

@@ -23,6 +23,7 @@
 import type { RunContext } from '../../analysis/runContext';
 import { choosePenalty } from '../../select/choosePenalty';
 import { crossValidate, type FoldPredictor } from '../../select/crossValidate';
+import { foldPlan, type NoiseTreatment } from '../../select/noiseDependence';
 import type { Series } from '../../series';
 import type { Criterion, CriterionPoint } from '../../types';
 import { waveletShrink, type WaveletShrinkOptions, type WaveletShrinkResult } from './waveletShrink';
@@ -55,7 +56,7 @@ export function waveletDf(r: WaveletShrinkResult, n: number): number {
  * c.threshold; c.criterion.curve;
  * ```
  */
-export function waveletCrossValidate(series: Series, shape: WaveletShrinkOptions, folds: number, pick: 'minimum' | 'simpler', context: RunContext): WaveletChoice {
+export function waveletCrossValidate(series: Series, shape: WaveletShrinkOptions, folds: number, pick: 'minimum' | 'simpler', context: RunContext, noise?: NoiseTreatment): WaveletChoice {
   const n = series.n;
   const y = series.y;
   const base: WaveletShrinkOptions = { ...shape, threshold: 'universal' };
@@ -65,7 +66,7 @@ export function waveletCrossValidate(series: Series, shape: WaveletShrinkOptions
   const top = probe.maxDetail > 0 ? probe.maxDetail : spreadOf(y);
   const low = Math.min(top / 100, probe.sigma > 0 ? 0.05 * probe.sigma : top / 100);
   const grid = Float64Array.from({ length: G }, (_, j) => Math.exp(Math.log(low) + (j * (Math.log(top) - Math.log(low))) / (G - 1)));
-  const cv = crossValidate(y, series.w, folds, grid, waveletFoldPredictor(y, base), context, 'cross-validation of wavelet thresholds');
+  const cv = crossValidate(y, series.w, folds, grid, waveletFoldPredictor(y, base), context, 'cross-validation of wavelet thresholds', foldPlan(y, folds, noise));
   const fits = Array.from(grid, (t) => waveletShrink(y, { ...base, fixedThreshold: t }));
   const curve: CriterionPoint[] = Array.from(grid, (t, j) => ({ penalty: t, score: cv.score[j], se: cv.se[j], df: waveletDf(fits[j], n) }));
   const best = choosePenalty(curve, pick);

@@ -16,7 +16,7 @@ import { QUIET, RunContext } from '../../analysis/runContext';
 import { searchLogPenalty, PenaltyScore } from '../../select/searchLogPenalty';
 import { solveForDf } from '../../select/solveForDf';
 import { crossValidate } from '../../select/crossValidate';
-import { noiseDependence } from '../../select/noiseDependence';
+import { foldPlan, NoiseTreatment } from '../../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
 import { whittakerFit } from './whittakerFit';
@@ -36,6 +36,8 @@ export interface WhittakerSettings {
   period?: number;
   rule?: 'gcv' | 'cv' | 'cv-simpler';
   folds?: number;
+  /** What cross-validation assumes of the noise (default 'correlated'). */
+  noise?: NoiseTreatment;
   searchPoints?: number;
   pastOnly?: boolean;
 }
@@ -111,7 +113,7 @@ export function fitWhittaker(series: Series, s: WhittakerSettings, context: RunC
           return Float64Array.from(held, (i) => f[i]);
         });
       };
-      const plan = noiseDependence(series.y, k); // once: the folds are the same for every penalty tried
+      const plan = foldPlan(series.y, k, s.noise); // once: the folds are the same for every penalty tried
       score = (l) => {
         context.step(Math.min(0.95, evaluations++ / expected), 'trying penalties (cross-validation)');
         const cv = crossValidate(series.y, series.w, k, Float64Array.of(l), predict, undefined, undefined, plan);
@@ -178,6 +180,7 @@ export const whittakerAnalysis: AnalysisDefinition = {
       period: o.period as number | undefined,
       rule: o.rule as WhittakerSettings['rule'],
       folds: o.folds as number | undefined,
+      noise: o.noise as NoiseTreatment | undefined,
       searchPoints: o.searchPoints as number | undefined,
       pastOnly: o.pastOnly as boolean | undefined,
     }, context);
