@@ -9,7 +9,7 @@ import { isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
 import { analyseWith, choiceOf, PenaltyChoice, SecondChoice, splitSelection } from './analysis';
-import { defaultRuleNote, methodChoices, optionChoices, ruleChoices } from './methodChoices';
+import { defaultRuleNote, methodChoices, optionApplies, optionChoices, ruleChoices } from './methodChoices';
 import { compute, pageRuntime } from '../runtime/browser/pageRuntime';
 import { isCancelled } from '../runtime/engineEntry';
 import { ProgressBox } from './progress';
@@ -280,6 +280,20 @@ async function boot(inExcel: boolean): Promise<void> {
     seasonSel.replaceChildren(...seasons.map((q) => new Option(q.label, q.value)));
     if (seasons.some((q) => q.value === keepSeason)) seasonSel.value = keepSeason;
     $('season-box').hidden = seasons.length === 0;
+    fillNoise();
+  };
+  // what cross-validation assumes of the noise: offered when the method cross-validates with the penalty chosen
+  const fillNoise = () => {
+    const c = choiceOf(methodSel.value);
+    const r = ruleSel.value;
+    const given = r === 'df' || r === 'value';
+    const show = !given && optionApplies(c.analysis, 'noise', { ...c.options, ...(r === 'auto' ? {} : { rule: r }) });
+    const noiseSel = $<HTMLSelectElement>('noise');
+    const keep = noiseSel.value;
+    const choices = show ? optionChoices(c.analysis, 'noise') : [];
+    noiseSel.replaceChildren(...choices.map((q) => new Option(q.label, q.value)));
+    if (choices.some((q) => q.value === keep)) noiseSel.value = keep;
+    $('noise-box').hidden = choices.length === 0;
   };
   // A second smoother to draw over the first: offered for smoothers only; for the automatic choice its
   // runner-up is the default. Its rules, like the first's, are only those its declaration accepts.
@@ -320,6 +334,7 @@ async function boot(inExcel: boolean): Promise<void> {
   ruleSel.onchange = () => {
     const r = ruleSel.value;
     $('rule-value').hidden = !(r === 'df' || r === 'value');
+    fillNoise();
   };
   const progress = new ProgressBox($('status'));
   pageRuntime().pool?.warm(1); // load one analysis worker now, so the first fit does not wait for it
@@ -333,7 +348,14 @@ async function boot(inExcel: boolean): Promise<void> {
       // The comparison fit runs after the first in the same way, under the same Cancel.
       const secondRun = { signal: run.signal, onProgress: (p: { fraction: number; stage: string }) => run.onProgress({ fraction: p.fraction, stage: `compared fit: ${p.stage}` }) };
       const first = choiceOf($<HTMLSelectElement>('method').value);
-      const chosen = $('season-box').hidden ? first : { ...first, options: { ...first.options, season: $<HTMLSelectElement>('season').value } };
+      const chosen = {
+        ...first,
+        options: {
+          ...first.options,
+          ...($('season-box').hidden ? {} : { season: $<HTMLSelectElement>('season').value }),
+          ...($('noise-box').hidden ? {} : { noise: $<HTMLSelectElement>('noise').value }),
+        },
+      };
       const analysis = await analyseWith(block, chosen, penaltyFrom(), (r, second) => compute(r, second ? secondRun : run), secondFrom());
       const view = viewOf(analysis, block, { version: VERSION, date: new Date().toISOString().slice(0, 10) });
       last = { block, view };

@@ -65,6 +65,11 @@ function applicable(def: AnalysisDefinition, fixed: Record<string, OptionValue>)
   });
 }
 
+/** Whether `analysis` declares `option` and it applies with the options `fixed` (its `onlyWith` condition met). */
+export function optionApplies(analysis: string, option: string, fixed: Record<string, OptionValue> = {}): boolean {
+  return applicable(findAnalysis(analysis).def, fixed).some((o) => o.name === option);
+}
+
 /**
  * The penalty list of one method: its default first, then the rules it declares, a df target and a fixed
  * penalty when declared; `fixed` are the options the list entry fixes (a decomposition's method), so a rule

@@ -97,6 +97,27 @@ test('changepoints carry the warning that a break is not proof of its cause, and
   assert(segs === marks + 2, `segments table has ${segs - 1} rows for ${marks} breaks`);
 });
 
+test('the noise setting is offered only where cross-validation chooses the penalty, and reaches the fit', async (page) => {
+  await page.selectOption('#method', 'spline');
+  assert(await page.isHidden('#noise-box'), 'noise offered for the spline under GCV');
+  await page.selectOption('#rule', 'cv');
+  assert(await page.isVisible('#noise-box'), 'noise not offered for the spline under cross-validation');
+  await page.selectOption('#rule', 'value');
+  assert(await page.isHidden('#noise-box'), 'noise offered with a fixed penalty');
+  await page.selectOption('#method', 'trend1');
+  await page.selectOption('#rule', 'auto');
+  assert(await page.isVisible('#noise-box'), 'noise not offered for trend filtering (cross-validation by default)');
+  const values = await page.$$eval('#noise option', (o) => o.map((e) => e.value));
+  assert(values.join() === 'correlated,independent', `noise choices: ${values}`);
+  await page.selectOption('#noise', 'independent');
+  await page.click('#run');
+  await page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? ''), null, { timeout: 120000 });
+  await page.waitForSelector('#results:not([hidden])');
+  const notes = await page.textContent('#results');
+  assert(!/held out blocks/.test(notes), 'blocks reported although the noise was set to independent');
+  await page.selectOption('#noise', 'correlated');
+});
+
 test('a bad penalty shows the engine message instead of a result', async (page) => {
   await page.selectOption('#method', 'spline');
   await page.selectOption('#rule', 'value');

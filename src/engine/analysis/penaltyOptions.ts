@@ -54,8 +54,8 @@ export function noiseOption(rule: string, cvRules: readonly string[]): OptionDec
     name: 'noise', kind: 'choice', choices: ['correlated', 'independent'], default: 'correlated',
     ...(cvRules.length ? { onlyWith: { option: rule, values: cvRules } } : {}),
     choiceHelp: {
-      correlated: 'read how far the noise is correlated from point to point; when it clearly is, hold out blocks and leave their neighbours out of training (default)',
-      independent: 'ordinary folds: for noise known to be independent, where fast wiggles of the signal could be read as correlated noise and over-smoothed',
+      correlated: 'read from the data: hold out blocks of points when the noise is clearly correlated (default)',
+      independent: 'independent: ordinary folds, for noise known to be independent (fast wiggles are then not mistaken for correlated noise)',
     },
     help: 'what cross-validation assumes of the noise: correlated (default: read from the data) or independent',
   };
