@@ -26,6 +26,7 @@ export const LINEAR_REFINEMENT_STEPS = 1;
  * @param x - strictly increasing design points (n >= 3)
  * @param rowsA - knot rows, strictly increasing, in 0 .. n - 3
  * @param sA - their signs
+ * @param out - optional array of length n that receives the fitted values (then returned as `b`)
  * @returns fitted values and (D b) on the rows of A, or null when the system is singular
  * @example
  * ```ts
@@ -34,7 +35,7 @@ export const LINEAR_REFINEMENT_STEPS = 1;
  * ```
  * Unchecked.
  */
-export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64Array, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>): { b: Float64Array; dA: Float64Array } | null {
+export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64Array, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, out?: Float64Array): { b: Float64Array; dA: Float64Array } | null {
   const n = x.length;
   const K = rowsA.length;
   const p = K + 2;
@@ -104,7 +105,7 @@ export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64
     bandedCholeskySolve(band, p, 1, res);
     for (let e = 0; e < p; e++) c[e] += res[e];
   }
-  const b = new Float64Array(n);
+  const b = out && out.length === n ? out : new Float64Array(n);
   for (let e = 0; e < p - 1; e++) {
     const i0 = node[e], i1 = node[e + 1], xl = x[i0], xr = x[i1], q = ih[e], cl = c[e], cr = c[e + 1];
     for (let i = i0; i < i1; i++) b[i] = (xr - x[i]) * q * cl + (x[i] - xl) * q * cr;

@@ -22,17 +22,18 @@ export const REFINEMENT_STEPS = 2;
  * @param rowsA - knot rows, strictly increasing, in 0 .. n - k - 2
  * @param sA - their signs
  * @param cache - optional basis cache shared by solves on the same x and k ({@link BasisCache})
+ * @param out - optional array of length n that receives the fitted values (then returned as `b`)
  * @returns fitted values and (D b) on the rows of A, or null when the system is singular
  * Unchecked.
  */
-export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache): { b: Float64Array; dA: Float64Array } | null {
+export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, out?: Float64Array): { b: Float64Array; dA: Float64Array } | null {
   // order 1: hat functions on the kinks, written out ({@link restrictedLinearFit})
-  if (k === 1) return restrictedLinearFit(x, y, w, lambda, rowsA, sA);
-  return restrictedSplineFitGeneral(x, y, w, k, lambda, rowsA, sA, cache);
+  if (k === 1) return restrictedLinearFit(x, y, w, lambda, rowsA, sA, out);
+  return restrictedSplineFitGeneral(x, y, w, k, lambda, rowsA, sA, cache, out);
 }
 
 /** {@link restrictedSplineFit} through the discrete B-spline basis, for any order 1..3 (the reference for the order-1 kernel). Unchecked. */
-export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache): { b: Float64Array; dA: Float64Array } | null {
+export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, out?: Float64Array): { b: Float64Array; dA: Float64Array } | null {
   const n = x.length;
   const B = discreteBSplines(x, k, rowsA, cache);
   if (!B) return null;
@@ -132,7 +133,7 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
     for (let e = 0; e < p; e++) c[e] += res[e];
   }
   for (let e = p; e < p + k; e++) c[e] = 0;
-  const b = new Float64Array(n);
+  const b = out && out.length === n ? out : new Float64Array(n);
   if (k === 3) {
     for (let i = 0; i < n; i++) {
       const e0 = first[i], o = 4 * i;

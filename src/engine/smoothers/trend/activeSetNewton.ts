@@ -65,14 +65,15 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const lim = lambda * (1 + boxRelative(n, k));
   let A: number[] = Array.from(rows);
   let S: number[] = Array.from(signs);
-  const g = new Float64Array(n), work = new Float64Array(n), ubuf = new Float64Array(m);
+  const g = new Float64Array(n), work = new Float64Array(n), ubuf = new Float64Array(m), bbuf = new Float64Array(n);
   let rounds = 0;
   const changes: number[] = [];
   let fewest = Infinity, since = 0;
   // active sets met so far (by two 32-bit hashes of the signed rows and their count)
   const seen = new Set<string>();
   while (rounds < maxRounds) {
-    const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache);
+    // b lives in bbuf for the round only (a certified result gets a copy)
+    const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache, bbuf);
     rounds++;
     if (!sol) break;
     // g = W (y - b) and the sums of the certificate, in the order certify forms them
@@ -122,7 +123,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       const db = new Float64Array(m);
       let dmax = 0;
       for (let i = 0; i < A.length; i++) { db[A[i]] = sol.dA[i]; dmax = Math.max(dmax, Math.abs(sol.dA[i])); }
-      const fit = certify(y, w, lambda, { b: sol.b, u, g, db, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
+      const fit = certify(y, w, lambda, { b: Float64Array.from(sol.b), u, g, db, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
       if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };
     }
