@@ -58,7 +58,7 @@ describe('settings', () => {
   });
 
   test('settings refuse an unknown name with the names the method accepts', async () => {
-    await expect(smooth(col(ys), col(xs), 'spline', 'smoothness=3')).rejects.toThrow(/unknown option "smoothness" for spline; spline accepts: rule, penalty, df, folds, search-points/);
+    await expect(smooth(col(ys), col(xs), 'spline', 'smoothness=3')).rejects.toThrow(/unknown option "smoothness" for spline; spline accepts: rule, penalty, df, folds, noise, search-points/);
   });
 
   test('settings refuse folds with the spline default GCV and a rule together with a penalty', async () => {

@@ -25,7 +25,7 @@ describe('runAnalysis', () => {
   });
 
   test('runAnalysis refuses an unknown option and lists what the method accepts', () => {
-    expect(() => runAnalysis({ analysis: 'spline', y, options: { order: 1 } })).toThrow(/unknown option "order" for spline; spline accepts: rule, penalty, df, folds, search-points/);
+    expect(() => runAnalysis({ analysis: 'spline', y, options: { order: 1 } })).toThrow(/unknown option "order" for spline; spline accepts: rule, penalty, df, folds, noise, search-points/);
   });
 
   test('runAnalysis refuses folds with a rule that does not use them', () => {
