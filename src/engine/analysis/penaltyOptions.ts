@@ -54,10 +54,10 @@ export function noiseOption(rule: string, cvRules: readonly string[]): OptionDec
     name: 'noise', kind: 'choice', choices: ['correlated', 'independent'], default: 'correlated',
     ...(cvRules.length ? { onlyWith: { option: rule, values: cvRules } } : {}),
     choiceHelp: {
-      correlated: 'read from the data: hold out blocks of points when the noise is clearly correlated (default)',
-      independent: 'independent: ordinary folds, for noise known to be independent (fast wiggles are then not mistaken for correlated noise)',
+      correlated: 'read from the data (default)',
+      independent: 'independent (ordinary folds)',
     },
-    help: 'what cross-validation assumes of the noise: correlated (default: read from the data) or independent',
+    help: 'what cross-validation assumes of the noise: correlated (default: how far it is correlated is read from the data, and blocks of points are held out when that is clear) or independent (ordinary folds, for noise known to be independent)',
   };
 }
 
