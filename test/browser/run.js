@@ -123,6 +123,8 @@ test('a bad penalty shows the engine message instead of a result', async (page) 
   await page.selectOption('#rule', 'value');
   await page.fill('#rule-value', '-2');
   await page.click('#run');
+  // the engine answers from its worker: wait until the pane no longer says it is fitting
+  await page.waitForFunction(() => !/^Fitting/.test(document.querySelector('#status')?.textContent ?? ''), null, { timeout: 60000 });
   const status = await page.textContent('#status');
   assert(/penalty \(spline\) must be a number from 0; got -2/.test(status), `status was: ${status}`);
   assert(await page.isHidden('#results'), 'results still shown after an error');
