@@ -12,6 +12,12 @@ export type SelectRule = 'gcv' | 'cv' | 'sure' | 'bic';
  * Options of a fit. Every field is optional; a method ignores what it does
  * not use and rejects values out of range with a `bad-option` error.
  */
+/** What a model assumes of the noise: read its correlation from the data, or take it as independent. */
+export const NOISE_ASSUMPTIONS = ['correlated', 'independent'] as const;
+
+/** One of {@link NOISE_ASSUMPTIONS}. */
+export type NoiseAssumption = (typeof NOISE_ASSUMPTIONS)[number];
+
 export interface FitOptions {
   /** Registered method name: 'spline' (default), 'trend', ... */
   method?: string;
@@ -39,7 +45,7 @@ export interface FitOptions {
    * What cross-validation assumes of the noise: 'correlated' (default) estimates its dependence and
    * holds out blocks when it is clear; 'independent' uses ordinary folds.
    */
-  noise?: 'correlated' | 'independent';
+  noise?: NoiseAssumption;
 }
 
 /** One point of a criterion curve: the score at one penalty. */

@@ -3,7 +3,7 @@
  * or a df target (alternatives), cross-validation folds and the size of the
  * search grid. One builder so the words and ranges are the same everywhere.
  */
-import type { FitOptions, SelectRule } from '../types';
+import { type FitOptions, type SelectRule, NOISE_ASSUMPTIONS, type NoiseAssumption } from '../types';
 import type { OptionDeclaration, ResolvedOptions } from './optionDeclaration';
 
 /** Plain-language help for each penalty rule a smoother may accept. */
@@ -51,7 +51,7 @@ export function PENALTY_OPTIONS(o: { rules: readonly string[]; defaultRule: stri
  */
 export function noiseOption(rule: string, cvRules: readonly string[]): OptionDeclaration {
   return {
-    name: 'noise', kind: 'choice', choices: ['correlated', 'independent'], default: 'correlated',
+    name: 'noise', kind: 'choice', choices: NOISE_ASSUMPTIONS, default: 'correlated',
     ...(cvRules.length ? { onlyWith: { option: rule, values: cvRules } } : {}),
     choiceHelp: {
       correlated: 'read from the data (default)',
@@ -87,6 +87,6 @@ export function fitOptionsOf(r: ResolvedOptions): FitOptions {
   if (r.refit !== undefined) o.relaxed = r.refit as number;
   if (r.tolerance !== undefined) o.tolerance = r.tolerance as number;
   if (r.maxIterations !== undefined) o.maxIterations = r.maxIterations as number;
-  if (r.noise !== undefined) o.noise = r.noise as 'correlated' | 'independent';
+  if (r.noise !== undefined) o.noise = r.noise as NoiseAssumption;
   return o;
 }

@@ -136,8 +136,9 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       }
     }
   }
-  const ov = old?.values, of = old?.first, oldP = old ? old.ext.length - k - 1 : 0;
-  const canCopy = !!(ov && of && old!.penalty && ov.length === n * wd);
+  // every build with a cache stores its values, first and penalty: a last build on the same x has them
+  const ov = old?.values, of = old?.first, op = old?.penalty, oldP = old ? old.ext.length - k - 1 : 0;
+  const canCopy = !!(ov && of && op);
   // pass 2: a point whose k + 1 windows all repeat, in the same order, keeps its values: runs of
   // such points are copied whole; the slots of the other points are cleared
   const kept = new Uint8Array(n);
@@ -168,32 +169,28 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       // the same window on the same x: its values and (D B_e) are those of the last build
       allCoef.set(old!.coef.subarray(fe * nu, (fe + 1) * nu), e * nu);
       for (let i = i0; i <= i1; i++) if (!kept[i]) values[i * wd + (e - first[i])] = ov![i * wd + (fe - of![i])];
-      for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = old!.penalty![fe * (k + 2) + q];
+      for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = op![fe * (k + 2) + q];
       continue;
     }
     for (let l = 0; l <= k; l++) {
       const a = X(E[e + l] + 1), b = X(E[e + l + 1] + k);
       cen[l] = 0.5 * (a + b); half[l] = 0.5 * (b - a);
     }
-    if (fe >= 0) {
-      for (let j = 0; j < nu; j++) coef[j] = old!.coef[fe * nu + j];
-    } else {
-      // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
-      M.fill(0);
-      let row = 0;
-      for (let l = 0; l <= k + 1; l++) {
-        for (let d = 1; d <= k; d++) {
-          const xv = X(E[e + l] + d);
-          const o = row * nu;
-          let big = 0;
-          if (l <= k) { const t = (xv - cen[l]) / half[l]; let v = 1; for (let q = 0; q <= k; q++) { M[o + l * (k + 1) + q] = v; big = Math.max(big, Math.abs(v)); v *= t; } }
-          if (l >= 1) { const t = (xv - cen[l - 1]) / half[l - 1]; let v = 1; for (let q = 0; q <= k; q++) { M[o + (l - 1) * (k + 1) + q] -= v; big = Math.max(big, Math.abs(v)); v *= t; } }
-          for (let j = 0; j < nu; j++) M[o + j] /= big;
-          row++;
-        }
+    // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
+    M.fill(0);
+    let row = 0;
+    for (let l = 0; l <= k + 1; l++) {
+      for (let d = 1; d <= k; d++) {
+        const xv = X(E[e + l] + d);
+        const o = row * nu;
+        let big = 0;
+        if (l <= k) { const t = (xv - cen[l]) / half[l]; let v = 1; for (let q = 0; q <= k; q++) { M[o + l * (k + 1) + q] = v; big = Math.max(big, Math.abs(v)); v *= t; } }
+        if (l >= 1) { const t = (xv - cen[l - 1]) / half[l - 1]; let v = 1; for (let q = 0; q <= k; q++) { M[o + (l - 1) * (k + 1) + q] -= v; big = Math.max(big, Math.abs(v)); v *= t; } }
+        for (let j = 0; j < nu; j++) M[o + j] /= big;
+        row++;
       }
-      if (!nullVector(M, nu - 1, nu, coef, perm, z)) return null;
     }
+    if (!nullVector(M, nu - 1, nu, coef, perm, z)) return null;
     allCoef.set(coef, e * nu);
     // values on the support
     let vmax = 0;
@@ -218,11 +215,11 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     }
   }
   if (cache) {
-    // this build's arrays become the last build's; the last build's become the spare ones
-    if (old && old.values && old.first && old.values.length === n * wd && old.first.length === n) { cache.spareValues = old.values; cache.spareFirst = old.first; }
-    else { cache.spareValues = undefined; cache.spareFirst = undefined; }
+    // this build's arrays become the last build's; the last build's (same x, so same n) the spare ones
+    cache.spareValues = old?.values;
+    cache.spareFirst = old?.first;
+    cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; cache.values = values; cache.first = first; cache.penalty = penalty;
   }
-  if (cache) { cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; cache.values = values; cache.first = first; cache.penalty = penalty; }
   return { k, p, first, values, penalty };
 }
 

@@ -70,13 +70,16 @@ export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64
   }
   band[2 * (p - 1)] += w[n - 1];
   rhs[p - 1] += w[n - 1] * y[n - 1];
-  // penalty: knot j (node j + 1) touches c_j, c_{j+1}, c_{j+2}
-  for (let j = 0; j < K; j++) {
-    const ls = lambda * sA[j], a = ih[j], b = ih[j + 1];
-    rhs[j] -= ls * a;
-    rhs[j + 1] += ls * (a + b);
-    rhs[j + 2] -= ls * b;
-  }
+  // the penalty's side: - lambda (D_A H)^T s, knot j (node j + 1) touching c_j, c_{j+1}, c_{j+2}
+  const subtractPenalty = (v: Float64Array): void => {
+    for (let j = 0; j < K; j++) {
+      const ls = lambda * sA[j], a = ih[j], b = ih[j + 1];
+      v[j] -= ls * a;
+      v[j + 1] += ls * (a + b);
+      v[j + 2] -= ls * b;
+    }
+  };
+  subtractPenalty(rhs);
   if (bandedCholesky(band, p, 1) >= 0) return null;
   const c = Float64Array.from(rhs);
   bandedCholeskySolve(band, p, 1, c);
@@ -96,12 +99,7 @@ export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64
       res[e + 1] += sr;
     }
     res[p - 1] += w[n - 1] * (y[n - 1] - c[p - 1]);
-    for (let j = 0; j < K; j++) {
-      const ls = lambda * sA[j], a = ih[j], b = ih[j + 1];
-      res[j] -= ls * a;
-      res[j + 1] += ls * (a + b);
-      res[j + 2] -= ls * b;
-    }
+    subtractPenalty(res);
     bandedCholeskySolve(band, p, 1, res);
     for (let e = 0; e < p; e++) c[e] += res[e];
   }

@@ -9,6 +9,7 @@ import type { RunContext } from '../analysis/runContext';
 import type { Series } from '../series';
 import { findBreaks } from './findBreaks';
 import type { BreaksModel, BreaksOptions } from './types';
+import { NOISE_ASSUMPTIONS } from '../types';
 
 const RULE: OptionDeclaration = {
   name: 'rule', kind: 'choice', choices: ['bic', 'mbic'], default: 'bic', group: 'penalty',
@@ -34,7 +35,7 @@ const ROBUST: OptionDeclaration = {
   help: 'true (default): single far-off values are set aside as spikes by an outlier-robust cost (biweight, Fearnhead & Rigaill 2019); false: plain squared errors',
 };
 const NOISE: OptionDeclaration = {
-  name: 'noise', kind: 'choice', choices: ['correlated', 'independent'], default: 'correlated',
+  name: 'noise', kind: 'choice', choices: NOISE_ASSUMPTIONS, default: 'correlated',
   choiceHelp: { correlated: 'estimate the lag-one correlation of the noise and raise the penalty by the long-run variance ratio (default)', independent: 'assume independent noise' },
   help: 'how the penalty treats the noise: correlated (default) or independent',
 };

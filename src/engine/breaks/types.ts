@@ -6,6 +6,7 @@
  * the fronts can write results next to the user's cells.
  */
 import type { Warning } from '../warnings';
+import type { NoiseAssumption } from '../types';
 
 /**
  * The segment model (what changes at a break):
@@ -56,7 +57,7 @@ export interface BreaksOptions {
 }
 
 /** How the noise is treated by the penalty: see {@link BreaksOptions.noise}. */
-export type NoiseAssumption = 'correlated' | 'independent';
+export type { NoiseAssumption };
 
 /** A single value far from its segment's level, set aside rather than reported as breaks. */
 export interface Spike {

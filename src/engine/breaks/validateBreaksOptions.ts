@@ -4,6 +4,7 @@
 import { KnotwiseError } from '../errors';
 import { checkChoice, checkInteger, checkPositive, describeValue } from '../options';
 import type { BreaksModel, BreaksOptions, NoiseAssumption } from './types';
+import { NOISE_ASSUMPTIONS } from '../types';
 
 /** The models {@link findBreaks} accepts. */
 export const BREAKS_MODELS: readonly BreaksModel[] = ['mean', 'meanvar', 'poisson', 'distribution', 'slope'];
@@ -97,7 +98,7 @@ export function validateBreaksOptions(options: BreaksOptions): ResolvedBreaksOpt
   const gaussian = model === 'mean' || model === 'meanvar' || model === 'slope';
   let noise: NoiseAssumption = gaussian ? 'correlated' : 'independent';
   if (options.noise !== undefined) {
-    noise = checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
+    noise = checkChoice(options.noise, 'noise', NOISE_ASSUMPTIONS);
     if (!gaussian && noise === 'correlated') throw new KnotwiseError('bad-option', `noise 'correlated' applies to the level, volatility and slope models only (remove noise).`);
   }
   let season: 'auto' | 'none' | number = 'auto';

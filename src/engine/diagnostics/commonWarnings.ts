@@ -5,7 +5,8 @@
 import { Warning, warning } from '../warnings';
 import { lagOneAutocorrelation, isAutocorrelated } from './lagOneAutocorrelation';
 import { showNumber } from '../errors';
-import { foldPlan, NoiseTreatment } from '../select/noiseDependence';
+import { foldPlan } from '../select/noiseDependence';
+import type { NoiseAssumption } from '../types';
 
 /** The note on end effects that every smoothed trend carries. */
 export function boundaryWarning(): Warning {
@@ -19,7 +20,7 @@ export function boundaryWarning(): Warning {
  * fit is that constant whatever the penalty, and there is no noise to follow
  * (the intake's note says the values are all equal).
  */
-export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string, folds = 5, noise: NoiseTreatment = 'correlated'): Warning[] {
+export function fitWarnings(n: number, df: number, resid: ArrayLike<number>, dataDriven: boolean, y?: ArrayLike<number>, rule?: string, folds = 5, noise: NoiseAssumption = 'correlated'): Warning[] {
   const out: Warning[] = [];
   if (y && isConstant(y)) return out;
   if (df > n / 3 && n > 6) {

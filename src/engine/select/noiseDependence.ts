@@ -19,6 +19,7 @@
  * estimate (breaks/noiseCorrelation.ts).
  */
 import { median } from '../median';
+import type { NoiseAssumption } from '../types';
 
 /** The dependence estimate and the fold plan it implies. */
 export interface NoiseDependence {
@@ -57,16 +58,13 @@ export function noiseDependence(y: ArrayLike<number>, folds: number): NoiseDepen
   return { phi, buffer, block: 3 * buffer };
 }
 
-/** What cross-validation assumes of the noise: 'correlated' estimates the dependence and plans blocks when found; 'independent' uses ordinary folds. */
-export type NoiseTreatment = 'correlated' | 'independent';
-
 /**
  * The fold plan for an assumption about the noise: {@link noiseDependence} for 'correlated'
  * (the default), ordinary folds (phi taken as 0) for 'independent'. The one place the smoothers'
  * cross-validation and their warnings get their plan from, so both describe the same folds.
  * Unchecked.
  */
-export function foldPlan(y: ArrayLike<number>, folds: number, noise: NoiseTreatment = 'correlated'): NoiseDependence {
+export function foldPlan(y: ArrayLike<number>, folds: number, noise: NoiseAssumption = 'correlated'): NoiseDependence {
   return noise === 'independent' ? { phi: 0, buffer: 0, block: 1 } : noiseDependence(y, folds);
 }
 

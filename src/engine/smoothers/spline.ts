@@ -28,7 +28,7 @@
  */
 import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
-import type { CriterionPoint, Evaluation, FitOptions, FitResult } from '../types';
+import { type CriterionPoint, type Evaluation, type FitOptions, type FitResult, NOISE_ASSUMPTIONS, type NoiseAssumption } from '../types';
 import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { reinschScore, reinschSolve, reinschSystem, ReinschSystem } from './spline/reinsch';
@@ -36,7 +36,7 @@ import { evaluateNaturalCubic } from './spline/evaluateNaturalCubic';
 import { searchLogPenalty, PenaltyScore } from '../select/searchLogPenalty';
 import { solveForDf } from '../select/solveForDf';
 import { crossValidate } from '../select/crossValidate';
-import { foldPlan, NoiseTreatment } from '../select/noiseDependence';
+import { foldPlan } from '../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
 import { weightedMoments } from '../weightedMoments';
@@ -106,7 +106,7 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
     const maxK = Math.max(2, Math.min(50, n - 2));
     out.folds = options.folds === undefined ? Math.min(10, maxK) : checkInteger(options.folds, 'folds', 2, maxK);
     out.oneSE = !!options.oneSE;
-    if (options.noise !== undefined) out.noise = checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
+    if (options.noise !== undefined) out.noise = checkChoice(options.noise, 'noise', NOISE_ASSUMPTIONS);
   }
   out.gridSize = options.gridSize === undefined ? 25 : checkInteger(options.gridSize, 'gridSize', 5, 400);
   for (const k of ['order', 'relaxed'] as const) {
@@ -121,7 +121,7 @@ function resolveOptions(options: FitOptions, n: number): FitOptions {
  * fold's banded system built once and reused for every penalty tried.
  * Scores are in scaled units of y (the caller converts).
  */
-function cvScorer(s: Scaled, k: number, noise?: NoiseTreatment): (lt: number) => { score: number; se: number } {
+function cvScorer(s: Scaled, k: number, noise?: NoiseAssumption): (lt: number) => { score: number; se: number } {
   const systems = new Map<number, { sys: ReinschSystem; t: Float64Array }>();
   const plan = foldPlan(s.y, k, noise); // once: the folds are the same for every penalty tried
   const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {

@@ -47,7 +47,7 @@ import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import { PENALTY_OPTIONS, SEASON_OPTION, fitOptionsOf } from '../analysis/penaltyOptions';
 import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
-import type { Criterion, CriterionPoint, Evaluation, FitOptions, FitResult, Knot, SolverStatus } from '../types';
+import { type Criterion, type CriterionPoint, type Evaluation, type FitOptions, type FitResult, type Knot, type SolverStatus, NOISE_ASSUMPTIONS, type NoiseAssumption } from '../types';
 import { Warning, warning } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
 import { boundaryWarning, fitWarnings } from '../diagnostics/commonWarnings';
@@ -86,7 +86,7 @@ export interface TrendSettings {
   oneSE: boolean;
   select: 'cv' | 'sure' | 'bic';
   /** What cross-validation assumes of the noise. */
-  noise: 'correlated' | 'independent';
+  noise: NoiseAssumption;
 }
 
 /** Default polynomial order (piecewise linear trends). */
@@ -116,7 +116,7 @@ export function trendSettings(options: FitOptions): TrendSettings {
   const maxIterations = options.maxIterations === undefined ? 200 : checkInteger(options.maxIterations, 'maxIterations', 1, 100000);
   if (options.oneSE !== undefined && typeof options.oneSE !== 'boolean') throw new KnotwiseError('bad-option', `oneSE must be TRUE or FALSE; got ${String(options.oneSE)}.`);
   const select = options.select === undefined ? 'cv' : checkChoice(options.select, 'select', ['cv', 'sure', 'bic'] as const);
-  const noise = options.noise === undefined ? 'correlated' : checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
+  const noise = options.noise === undefined ? 'correlated' : checkChoice(options.noise, 'noise', NOISE_ASSUMPTIONS);
   return { order, relaxed, gridSize, folds, tolerance, maxIterations, oneSE: !!options.oneSE, select, noise };
 }
 

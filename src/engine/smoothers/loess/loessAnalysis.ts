@@ -5,7 +5,7 @@
  */
 import { showNumber } from '../../errors';
 import type { Series } from '../../series';
-import type { FitResult } from '../../types';
+import type { FitResult, NoiseAssumption } from '../../types';
 import { Warning, warning } from '../../warnings';
 import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
 import { RULE_HELP, noiseOption } from '../../analysis/penaltyOptions';
@@ -16,7 +16,7 @@ import { loessFit, type LoessFit } from './loessFit';
 import { loessSelectSpan } from './loessSelectSpan';
 import { loessPredict } from './loessPredict';
 import { crossValidate } from '../../select/crossValidate';
-import { foldPlan, NoiseTreatment } from '../../select/noiseDependence';
+import { foldPlan } from '../../select/noiseDependence';
 import { interpolateFit } from '../whittaker/interpolateFit';
 import { choosePenalty } from '../../select/choosePenalty';
 import type { CriterionPoint } from '../../types';
@@ -28,7 +28,7 @@ export interface LoessSettings {
   rule?: 'aicc' | 'gcv' | 'cv' | 'cv-simpler';
   folds?: number;
   /** What cross-validation assumes of the noise (default 'correlated'). */
-  noise?: NoiseTreatment;
+  noise?: NoiseAssumption;
   robustness?: number;
   interpolateWithin?: number;
 }
@@ -140,7 +140,7 @@ export const loessAnalysis: AnalysisDefinition = {
       span: o.span as number | undefined,
       rule: o.rule as LoessSettings['rule'],
       folds: o.folds as number | undefined,
-      noise: o.noise as NoiseTreatment | undefined,
+      noise: o.noise as NoiseAssumption | undefined,
       robustness: o.robustness as number | undefined,
       interpolateWithin: o.interpolateWithin as number | undefined,
     }, context);

@@ -38,14 +38,14 @@
  */
 import { KnotwiseError, showNumber } from '../../errors';
 import type { Series } from '../../series';
-import type { Criterion, CriterionPoint, Evaluation, FitResult, Knot, SolverStatus } from '../../types';
+import type { Criterion, CriterionPoint, Evaluation, FitResult, Knot, SolverStatus, NoiseAssumption } from '../../types';
 import { Warning, warning } from '../../warnings';
 import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../../analysis/optionDeclaration';
 import { PENALTY_OPTIONS, SEASON_OPTION } from '../../analysis/penaltyOptions';
 import { QUIET, RunContext } from '../../analysis/runContext';
 import { crossValidate } from '../../select/crossValidate';
-import { foldPlan, NoiseDependence, NoiseTreatment } from '../../select/noiseDependence';
+import { foldPlan, NoiseDependence } from '../../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
 import { knotBends } from '../../diagnostics/knotBends';
@@ -102,7 +102,7 @@ export interface MixedSettings {
   rule?: 'cv' | 'cv-simpler';
   folds?: number;
   /** What cross-validation assumes of the noise (default 'correlated'). */
-  noise?: NoiseTreatment;
+  noise?: NoiseAssumption;
   searchPoints?: number;
   /** Largest change of the kink component in a final block step, relative to the sd of y (default 1e-5). */
   tolerance?: number;
@@ -456,7 +456,7 @@ export const mixedAnalysis: AnalysisDefinition = {
       width: o.width as number | undefined,
       rule: o.rule as MixedSettings['rule'],
       folds: o.folds as number | undefined,
-      noise: o.noise as NoiseTreatment | undefined,
+      noise: o.noise as NoiseAssumption | undefined,
       searchPoints: o.searchPoints as number | undefined,
       tolerance: o.tolerance as number | undefined,
       maxIterations: o.maxIterations as number | undefined,

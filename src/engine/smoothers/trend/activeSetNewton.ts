@@ -1,7 +1,7 @@
 import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
 import type { BasisCache } from '../../basis/discreteBSplines';
 import { dualFromResidual } from '../../linalg/dualFromResidual';
-import { boxRelative, certify, restrictedGap, PolishResult } from './polishTrend';
+import { boxRelative, certify, residualSums, restrictedGap, PolishResult } from './polishTrend';
 
 /** Result of {@link activeSetNewton}. */
 export interface ActiveSetNewtonResult {
@@ -76,14 +76,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache, bbuf);
     rounds++;
     if (!sol) break;
-    // g = W (y - b) and the sums of the certificate, in the order certify forms them
-    let rss = 0, yg = 0;
-    for (let i = 0; i < n; i++) {
-      const ri = y[i] - sol.b[i], gi = w[i] * ri;
-      g[i] = gi;
-      rss += 0.5 * w[i] * ri * ri; yg += y[i] * gi;
-    }
-    const gg = 2 * rss;
+    const { rss, yg } = residualSums(y, w, sol.b, g);
     // u lives in ubuf for the round only (a certified result copies it)
     const u = dualFromResidual(x, k + 1, g, work, ubuf).u;
     const nA: number[] = [], nS: number[] = [];
@@ -112,18 +105,18 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     changes.push(changed);
     let worth = changed === 0;
     if (!worth && stopGap > 0) {
-      // the certificate's gap from the sums above (the same numbers certify forms): build the
-      // certified result only for a round that meets the target
+      // the certificate's gap (as certify forms it): build the certified result only for a round
+      // that meets the target
       let l1 = 0, ud = 0;
       for (let i = 0; i < A.length; i++) { l1 += Math.abs(sol.dA[i]); ud += u[A[i]] * sol.dA[i]; }
-      worth = restrictedGap(lambda, Math.max(0, um / lambda - 1), rss, yg, gg, l1, ud) <= stopGap;
+      worth = restrictedGap(lambda, Math.max(0, um / lambda - 1), rss, yg, l1, ud) <= stopGap;
     }
     if (worth) {
       // the round's solution: D b is (D b)_A on A and exactly zero elsewhere
       const db = new Float64Array(m);
       let dmax = 0;
       for (let i = 0; i < A.length; i++) { db[A[i]] = sol.dA[i]; dmax = Math.max(dmax, Math.abs(sol.dA[i])); }
-      const fit = certify(y, w, lambda, { b: Float64Array.from(sol.b), u, g, db, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
+      const fit = certify(y, w, lambda, { b: Float64Array.from(sol.b), u, rss, yg, db, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
       if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };
     }

@@ -84,7 +84,8 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   const seen = new Set<string>();
   let last: Certifiable | undefined;
   const lim = lambda * (1 + boxRelative(n, k));
-  const g = new Float64Array(n);
+  // g = W (y - b) of the round, and work space of the dual's recovery
+  const g = new Float64Array(n), work = new Float64Array(n);
   let rounds = 0;
   for (; rounds < maxRounds; rounds++) {
     const rowsA: number[] = [], sA: number[] = [];
@@ -138,10 +139,9 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     }
     bcur = bnew;
     dcur = dnew;
-    const gr = new Float64Array(n);
-    for (let i = 0; i < n; i++) gr[i] = w[i] * (y[i] - bcur[i]);
-    u = dualFromResidual(x, k + 1, gr, g).u;
-    last = { b: bcur, u, g: gr, db: dnew, rows: rowsA, dmax };
+    const sums = residualSums(y, w, bcur, g);
+    u = dualFromResidual(x, k + 1, g, work).u;
+    last = { b: bcur, u, ...sums, db: dnew, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
     let added = false;
     for (let r = 0; r < m; ) {
@@ -185,19 +185,14 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
 export function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number, anyScale = false, within = Infinity): PolishResult {
   const fail = (achieved = Infinity): PolishResult => ({ ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved, rounds });
   if (!last) return fail();
-  const { b, u, g, db, rows, dmax } = last;
+  const { b, u, rss, yg, db, rows, dmax } = last;
   let um = 0;
   for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
   const delta = Math.max(0, um / lambda - 1);
   if (!optimal && !anyScale && delta > 1e-4) return fail();
-  const n = y.length;
-  let rss = 0, yg = 0;
-  for (let i = 0; i < n; i++) { const ri = y[i] - b[i]; rss += 0.5 * w[i] * ri * ri; yg += y[i] * g[i]; }
-  // g.W^-1 g = sum w (y - b)^2 = 2 rss (g = W (y - b))
-  const gg = 2 * rss;
   let l1 = 0, ud = 0;
   for (const r of rows) { l1 += Math.abs(db[r]); ud += u[r] * db[r]; }
-  const achieved = restrictedGap(lambda, delta, rss, yg, gg, l1, ud);
+  const achieved = restrictedGap(lambda, delta, rss, yg, l1, ud);
   // a round checked against a target it misses: no result arrays needed
   if (!(achieved <= within)) return { ok: false, b, u, knots: [], dKnots: new Float64Array(0), achieved, rounds };
   const scale = 1 / (1 + delta);
@@ -217,20 +212,35 @@ export function certify(y: Float64Array, w: Float64Array, lambda: number, last: 
  * Rows whose violation was below the slack of {@link boxRelative} are paid for here, not ignored.
  *
  * @param delta - max(0, max |u| / lambda - 1)
- * @param rss - 1/2 sum w (y - b)^2
+ * @param rss - 1/2 sum w (y - b)^2 (so g.W^-1 g = 2 rss)
  * @param yg - y.g, g = W (y - b)
- * @param gg - g.W^-1 g
  * @param l1 - ||D b||_1 over the active rows (D b is zero elsewhere)
  * @param ud - u.D b over the active rows
  * @returns gap / P(b) (0 when P(b) is 0)
  * Unchecked.
  */
-export function restrictedGap(lambda: number, delta: number, rss: number, yg: number, gg: number, l1: number, ud: number): number {
+export function restrictedGap(lambda: number, delta: number, rss: number, yg: number, l1: number, ud: number): number {
   const obj = rss + lambda * l1;
+  const gg = 2 * rss;
   const e = 1 - 1 / (1 + delta);
   const gap = Math.max(lambda * l1 - ud, 0) + Math.max(e * (yg - gg * (1 - e / 2)), 0);
   return obj > 0 ? gap / obj : 0;
 }
 
-/** A restricted solution with its recovered dual, as {@link certify} takes it. Unchecked. */
-export interface Certifiable { b: Float64Array; u: Float64Array; g: Float64Array; db: Float64Array; rows: number[]; dmax: number }
+/** A restricted solution with its recovered dual and its {@link residualSums}, as {@link certify} takes it. Unchecked. */
+export interface Certifiable { b: Float64Array; u: Float64Array; rss: number; yg: number; db: Float64Array; rows: number[]; dmax: number }
+
+/**
+ * Fills g = W (y - b), the right-hand side from which the dual is recovered, and returns the sums
+ * the certificate needs: rss = 1/2 sum w (y - b)^2 and yg = y.g. One pass, shared by the active-set
+ * methods. Unchecked.
+ */
+export function residualSums(y: Float64Array, w: Float64Array, b: Float64Array, g: Float64Array): { rss: number; yg: number } {
+  let rss = 0, yg = 0;
+  for (let i = 0; i < y.length; i++) {
+    const ri = y[i] - b[i], gi = w[i] * ri;
+    g[i] = gi;
+    rss += 0.5 * w[i] * ri * ri; yg += y[i] * gi;
+  }
+  return { rss, yg };
+}

@@ -4,7 +4,7 @@
  * method uses to choose lambda and what a worksheet returns as the criterion table.
  */
 import type { Series } from '../../series';
-import type { SolverStatus } from '../../types';
+import type { SolverStatus, NoiseAssumption } from '../../types';
 import { trendScaling, toDataPenalty, TrendScaling } from './trendScaling';
 import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } from './solveTrend';
 import { interpolateTrend } from './interpolateTrend';
@@ -13,7 +13,7 @@ import { differenceSigma } from '../../robustSigma';
 import { crossValidate } from '../../select/crossValidate';
 import type { RunContext } from '../../analysis/runContext';
 import { foldData } from '../../select/foldData';
-import { foldPlan, NoiseTreatment } from '../../select/noiseDependence';
+import { foldPlan } from '../../select/noiseDependence';
 
 /** Settings of {@link trendPath} (already validated). */
 export interface TrendPathSettings {
@@ -32,7 +32,7 @@ export interface TrendPathSettings {
   /** Progress and cancellation, checked at every penalty of the path and of each fold. */
   context?: RunContext;
   /** What cross-validation assumes of the noise (default 'correlated': {@link foldPlan}). */
-  noise?: NoiseTreatment;
+  noise?: NoiseAssumption;
 }
 
 /** One penalty of the path, in the data's units. */

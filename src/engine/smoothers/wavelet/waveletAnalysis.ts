@@ -5,7 +5,7 @@
  */
 import { showNumber } from '../../errors';
 import type { Series } from '../../series';
-import type { FitResult } from '../../types';
+import type { FitResult, NoiseAssumption } from '../../types';
 import { Warning, warning } from '../../warnings';
 import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../../analysis/optionDeclaration';
@@ -15,7 +15,6 @@ import { waveletCrossValidate, waveletDf } from './waveletCrossValidate';
 import type { Criterion } from '../../types';
 import { QUIET, type RunContext } from '../../analysis/runContext';
 import { noiseOption } from '../../analysis/penaltyOptions';
-import type { NoiseTreatment } from '../../select/noiseDependence';
 
 /** Settings of {@link fitWavelet}: the shrinkage's shape, and the threshold rule including cross-validation. */
 export interface WaveletSettings extends Omit<WaveletShrinkOptions, 'threshold' | 'x' | 'fixedThreshold'> {
@@ -24,7 +23,7 @@ export interface WaveletSettings extends Omit<WaveletShrinkOptions, 'threshold' 
   /** Folds for 'cv' and 'cv-simpler' (default 10, fewer on short series). */
   folds?: number;
   /** What cross-validation assumes of the noise (default 'correlated'). */
-  noise?: NoiseTreatment;
+  noise?: NoiseAssumption;
 }
 import { WAVELET_FILTER_NAMES, type WaveletFilterName } from './waveletFilters';
 import { interpolateFit } from '../whittaker/interpolateFit';
@@ -109,7 +108,7 @@ export const waveletAnalysis: AnalysisDefinition = {
       ...(o.levels !== undefined ? { levels: o.levels as number } : {}),
       threshold: o.threshold as WaveletSettings['threshold'],
       ...(o.folds !== undefined ? { folds: o.folds as number } : {}),
-      ...(o.noise !== undefined ? { noise: o.noise as NoiseTreatment } : {}),
+      ...(o.noise !== undefined ? { noise: o.noise as NoiseAssumption } : {}),
       shrink: o.shrink as 'soft' | 'hard',
       boundary: o.boundary as 'reflect' | 'periodic',
       shifts: o.shifts as number,

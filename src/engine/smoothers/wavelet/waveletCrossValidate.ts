@@ -23,9 +23,9 @@
 import type { RunContext } from '../../analysis/runContext';
 import { choosePenalty } from '../../select/choosePenalty';
 import { crossValidate, type FoldPredictor } from '../../select/crossValidate';
-import { foldPlan, type NoiseTreatment } from '../../select/noiseDependence';
+import { foldPlan} from '../../select/noiseDependence';
 import type { Series } from '../../series';
-import type { Criterion, CriterionPoint } from '../../types';
+import type { Criterion, CriterionPoint, NoiseAssumption } from '../../types';
 import { waveletShrink, type WaveletShrinkOptions, type WaveletShrinkResult } from './waveletShrink';
 
 /** Result of {@link waveletCrossValidate}. */
@@ -56,7 +56,7 @@ export function waveletDf(r: WaveletShrinkResult, n: number): number {
  * c.threshold; c.criterion.curve;
  * ```
  */
-export function waveletCrossValidate(series: Series, shape: WaveletShrinkOptions, folds: number, pick: 'minimum' | 'simpler', context: RunContext, noise?: NoiseTreatment): WaveletChoice {
+export function waveletCrossValidate(series: Series, shape: WaveletShrinkOptions, folds: number, pick: 'minimum' | 'simpler', context: RunContext, noise?: NoiseAssumption): WaveletChoice {
   const n = series.n;
   const y = series.y;
   const base: WaveletShrinkOptions = { ...shape, threshold: 'universal' };

@@ -7,7 +7,7 @@
  */
 import { KnotwiseError, showNumber } from '../../errors';
 import type { Series } from '../../series';
-import type { CriterionPoint, FitOptions, FitResult } from '../../types';
+import type { CriterionPoint, FitOptions, FitResult, NoiseAssumption } from '../../types';
 import { Warning, warning } from '../../warnings';
 import type { AnalysisDefinition } from '../../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../../analysis/optionDeclaration';
@@ -16,7 +16,7 @@ import { QUIET, RunContext } from '../../analysis/runContext';
 import { searchLogPenalty, PenaltyScore } from '../../select/searchLogPenalty';
 import { solveForDf } from '../../select/solveForDf';
 import { crossValidate } from '../../select/crossValidate';
-import { foldPlan, NoiseTreatment } from '../../select/noiseDependence';
+import { foldPlan } from '../../select/noiseDependence';
 import { choosePenalty, edgeWarning } from '../../select/choosePenalty';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
 import { whittakerFit } from './whittakerFit';
@@ -37,7 +37,7 @@ export interface WhittakerSettings {
   rule?: 'gcv' | 'cv' | 'cv-simpler';
   folds?: number;
   /** What cross-validation assumes of the noise (default 'correlated'). */
-  noise?: NoiseTreatment;
+  noise?: NoiseAssumption;
   searchPoints?: number;
   pastOnly?: boolean;
 }
@@ -180,7 +180,7 @@ export const whittakerAnalysis: AnalysisDefinition = {
       period: o.period as number | undefined,
       rule: o.rule as WhittakerSettings['rule'],
       folds: o.folds as number | undefined,
-      noise: o.noise as NoiseTreatment | undefined,
+      noise: o.noise as NoiseAssumption | undefined,
       searchPoints: o.searchPoints as number | undefined,
       pastOnly: o.pastOnly as boolean | undefined,
     }, context);
