@@ -4,9 +4,15 @@
  * costs a second or more per call. Unchecked: values are not NaN.
  */
 export function median(a: ArrayLike<number>): number {
-  const n = a.length;
-  if (n === 0) return NaN;
-  const s = Float64Array.from(a);
+  return a.length === 0 ? NaN : medianInPlace(Float64Array.from(a));
+}
+
+/**
+ * {@link median} of `s` itself, reordering it (no copy, for loops that reuse one scratch
+ * array). The same value as median(s). Unchecked: s not empty, no NaN.
+ */
+export function medianInPlace(s: Float64Array): number {
+  const n = s.length;
   const hi = select(s, n >> 1);
   if (n % 2) return hi;
   // the largest value below position n/2 is the maximum of the left part

@@ -42,10 +42,10 @@ export function PENALTY_OPTIONS(o: { rules: readonly string[]; defaultRule: stri
 /**
  * What cross-validation assumes of the noise (the words of the changepoint models' setting of the
  * same name): 'correlated' reads the lag-one dependence of the noise from the variogram of the series
- * and, when it is clear, holds out blocks and leaves their neighbours out of training
- * (select/noiseDependence.ts); 'independent' uses ordinary folds. The reading can mistake fast
- * structure that is not noise (a chirp, many small steps) for correlated noise, and then
- * over-smooths: 'independent' is the way out when the noise is known to be independent.
+ * and of two wavelet pilots' residuals and, when it is clear, holds out blocks and leaves their
+ * neighbours out of training (select/noiseDependence.ts); 'independent' uses ordinary folds. The
+ * reading can still mistake fast structure that is not noise (many close steps) for correlated
+ * noise, and then over-smooths: 'independent' is the way out when the noise is known to be independent.
  *
  * @param rule - the option that selects cross-validation, and its values that do
  */

@@ -27,8 +27,10 @@ export const FEWEST_FOR_CORRELATION = 24;
 
 /**
  * Robust AR(1) noise correlation, read from the variogram of the series at lags 1 to 4
- * ({@link variogramPhi}, the estimator cross-validation uses for its fold plan: one
- * estimator for the whole engine). For y_i = level_i + e_i with AR(1) noise e
+ * ({@link variogramPhi}; cross-validation's fold plan reads the same variogram on the
+ * series and on the residuals of two wavelet pilots and keeps the smallest, see
+ * select/noiseDependence.ts; the penalties here were calibrated on the series' own
+ * reading). For y_i = level_i + e_i with AR(1) noise e
  * (coefficient phi, marginal variance s^2) and a level that is locally a line of slope b,
  *
  *   V(L) = mean (y[i+L] - y[i])^2 = 2 s^2 (1 - phi^L) + b^2 L^2,

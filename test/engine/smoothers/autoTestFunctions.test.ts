@@ -31,16 +31,13 @@ describe('auto on the Donoho-Johnstone test functions', () => {
   });
 });
 
-describe('auto on the Donoho-Johnstone test functions: error against the truth (known fault)', () => {
-  // Known fault, measured: with independent noise, the noise-dependence estimate (select/noiseDependence.ts,
-  // the variogram at lags 1-4) reads Doppler's fast oscillation near t = 0 and Blocks' jumps as correlated
-  // noise (lag-one 0.4 to 0.95), cross-validation then holds out blocks of 9 to 24 points with buffers, and
-  // every candidate over-smooths: Doppler seeds 21 and 24 get a constant (error 49 times the noise
-  // variance), seeds 22 and 23 10 and 17 times; Blocks seeds 21-24 3 to 40 times. A median-of-stretches
-  // variogram, a MAD variogram and a random-walk term (as in DeCAFS) each fixed one function and broke
-  // another or the AR(1) estimates; telling fast deterministic structure from correlated noise needs more
-  // than the variogram's first lags.
-  test.failing('Doppler, SNR 7, 256 points: the pick is within 10 times the noise variance of the truth on seeds 21-24', () => {
+describe('auto on the Donoho-Johnstone test functions: error against the truth', () => {
+  // With independent noise, the variogram of the series alone reads Doppler's fast oscillation near t = 0 and
+  // Blocks' jumps as correlated noise (lag-one 0.36 to 0.95); cross-validation then held out blocks of 9 to 24
+  // points and every candidate over-smoothed (Doppler seeds 21 and 24 got a constant, 49 times the noise
+  // variance). The estimate now also reads the residuals of two wavelet pilots (select/noiseDependence.ts,
+  // dependencePhi): Doppler 0.12 to 0.20, and the pick is within 1.5 to 9.1 times the noise variance.
+  test('Doppler, SNR 7, 256 points: the pick is within 10 times the noise variance of the truth on seeds 21-24', () => {
     for (const seed of [21, 22, 23, 24]) {
       const d = noisyTestFunction(doppler, 256, seed);
       const r = runAnalysis({ analysis: 'auto', x: Array.from(d.x), y: Array.from(d.y) });
@@ -48,12 +45,24 @@ describe('auto on the Donoho-Johnstone test functions: error against the truth (
       expect(mse).toBeLessThan(10 * d.sigma ** 2);
     }
   });
+
+  // Known fault, measured: on Blocks the pilots still leave lag-one 0.29 on seeds 21 and 23 (the Haar pilot
+  // misses jumps closer than its thresholds resolve), blocks of 9 points are held out, and the pick is 19.6
+  // and 15.3 times the noise variance (seeds 22 and 24: 3.3 and 3.2; with noise=independent 2.2 to 3.3).
+  test.failing('Blocks, SNR 7, 256 points: the pick is within 10 times the noise variance of the truth on seeds 21-24', () => {
+    for (const seed of [21, 22, 23, 24]) {
+      const d = noisyTestFunction(blocks, 256, seed);
+      const r = runAnalysis({ analysis: 'auto', x: Array.from(d.x), y: Array.from(d.y) });
+      const mse = r.fitted.reduce((a, v, i) => a + (v - d.truth[i]) ** 2, 0) / d.truth.length;
+      expect(mse).toBeLessThan(10 * d.sigma ** 2);
+    }
+  });
 });
 
-describe('auto on Doppler with the noise setting (the way out of the known fault)', () => {
-  // The same seeds with noise set to independent, as the autocorrelation warning of the default run advises:
-  // ordinary folds, and the pick is within 2.5 times the noise variance of the truth (measured 1.3 to 1.8;
-  // the default run: 10 to 49).
+describe('auto on Doppler with the noise setting', () => {
+  // The same seeds with noise set to independent, as the autocorrelation warning advises when blocks were held
+  // out: ordinary folds, and the pick is within 2.5 times the noise variance of the truth (measured 1.3 to 1.8;
+  // the default run: 1.5 to 9.1, before the wavelet pilots of dependencePhi 10 to 49).
   test('Doppler, SNR 7, 256 points: with noise independent the pick is within 2.5 times the noise variance of the truth on seeds 21-24', () => {
     for (const seed of [21, 22, 23, 24]) {
       const d = noisyTestFunction(doppler, 256, seed);

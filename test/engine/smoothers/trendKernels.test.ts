@@ -43,6 +43,27 @@ describe('interpolateTrend', () => {
     for (let i = 0; i < at.length; i++) expect(e.value[i]).toBeCloseTo(f(at[i]), 10);
     expect(Array.from(e.extrapolated)).toEqual([1, 0, 0, 0, 1]);
   });
+
+  test('gives each point the value it gets alone, whether the points come sorted (one sweep), shuffled or with gaps', () => {
+    // a point evaluated alone is found by bisection; sorted runs are found by the forward scan
+    const rn = seededNormal(9);
+    const n = 200;
+    const x = Float64Array.from({ length: n }, (_, i) => i + 0.3 * Math.sin(i));
+    const b = Float64Array.from(x, () => rn());
+    const sorted = Float64Array.from({ length: 500 }, (_, j) => -3 + (j * (n + 5)) / 500);
+    const withData = Float64Array.of(...Array.from(x.subarray(0, 40)), x[41], x[41], x[199], 150.5, 2.2, 199.9, 7);
+    const shuffled = Float64Array.from(sorted).reverse();
+    for (const k of [0, 1, 2, 3]) {
+      for (const t of [sorted, withData, shuffled]) {
+        const all = interpolateTrend(x, b, k, t);
+        for (let j = 0; j < t.length; j++) {
+          const one = interpolateTrend(x, b, k, [t[j]]);
+          expect(all.value[j]).toBe(one.value[0]);
+          expect(all.extrapolated[j]).toBe(one.extrapolated[0]);
+        }
+      }
+    }
+  });
 });
 
 describe('dualFromResidual', () => {

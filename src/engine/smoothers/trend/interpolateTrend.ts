@@ -21,12 +21,16 @@
  * ```
  * Unchecked.
  */
+/** How far past the last interval the forward scan looks before falling back to bisection. */
+const AHEAD = 16;
+
 export function interpolateTrend(x: Float64Array, b: Float64Array, k: number, t: ArrayLike<number>): { value: Float64Array; extrapolated: Uint8Array } {
   const n = x.length;
   const value = new Float64Array(t.length);
   const extrapolated = new Uint8Array(t.length);
   const px = new Float64Array(k + 1);
   const py = new Float64Array(k + 1);
+  let last = -1;
   for (let j = 0; j < t.length; j++) {
     const tj = t[j];
     if (Number.isNaN(tj)) { value[j] = NaN; continue; }
@@ -39,10 +43,19 @@ export function interpolateTrend(x: Float64Array, b: Float64Array, k: number, t:
       extrapolated[j] = 1;
       j0 = n - 1 - k;
     } else {
-      // largest i with x_i < tj
-      let lo = 0, hi = n - 1;
-      while (hi - lo > 1) { const mid = (lo + hi) >> 1; if (x[mid] < tj) lo = mid; else hi = mid; }
-      if (x[hi] === tj) { value[j] = b[hi]; continue; }
+      // largest i with x_i < tj: a few steps on from the last one when t increases (held-out points are
+      // sorted, so a fold's evaluation is one sweep), else bisection
+      let lo: number;
+      if (last >= 0 && x[last] < tj && last + AHEAD < n && x[last + AHEAD] >= tj) {
+        lo = last;
+        while (x[lo + 1] < tj) lo++;
+      } else {
+        lo = 0;
+        let hi = n - 1;
+        while (hi - lo > 1) { const mid = (lo + hi) >> 1; if (x[mid] < tj) lo = mid; else hi = mid; }
+      }
+      last = lo;
+      if (x[lo + 1] === tj) { value[j] = b[lo + 1]; continue; }
       j0 = Math.max(0, lo - k + 1);
     }
     // Neville's scheme on the k + 1 points

@@ -3,6 +3,7 @@ import { KnotwiseError, showNumber } from '../../errors';
 import type { SolverStatus } from '../../types';
 import { periodicDwt, periodicIdwt } from './periodicDwt';
 import { sureThreshold } from './sureThreshold';
+import { extendSeries } from './extendSeries';
 import { toFloat64 } from '../whittaker/whittakerInput';
 import { WAVELET_FILTERS, WAVELET_FILTER_NAMES, type WaveletFilterName } from './waveletFilters';
 
@@ -122,13 +123,8 @@ export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOption
   }
 
   // extended series
-  const block = boundary === 'reflect' ? 1 << (levels - 1) : 1 << levels;
-  const padded = Math.ceil(n / block) * block;
-  const M = boundary === 'reflect' ? 2 * padded : padded;
-  const ext = new Float64Array(M);
-  for (let i = 0; i < n; i++) ext[i] = ys[i];
-  for (let i = n; i < padded; i++) ext[i] = ys[mirrorIndex(i, n)];
-  if (boundary === 'reflect') for (let i = 0; i < padded; i++) ext[M - 1 - i] = ext[i];
+  const ext = extendSeries(ys, levels, boundary);
+  const M = ext.length;
 
   // noise and thresholds from the unshifted transform
   const c0 = periodicDwt(ext, h, levels);
@@ -175,12 +171,6 @@ export function waveletShrink(y: ArrayLike<number>, options: WaveletShrinkOption
     fitted: out, sigma, thresholds, levels, filter, boundary, transformLength: M, kept, maxDetail,
     status: { converged: true, iterations: shifts, tolerance: 0, achieved: 0, stoppingRule: 'direct: one transform, shrinkage and inverse per shift' },
   };
-}
-
-/** Index into 0..n-1 of position i >= 0 of the half-sample mirror extension (y_{n-1}, y_{n-2}, ... after the end). Unchecked. */
-function mirrorIndex(i: number, n: number): number {
-  const p = i % (2 * n);
-  return p < n ? p : 2 * n - 1 - p;
 }
 
 /** Median of |v| (the engine's selection median, O(m) expected). Unchecked. */
