@@ -88,10 +88,12 @@ const FEWEST_FOR_PILOTS = 64;
  * independent noise at SNR 7 (256 points) it read 0.36 to 0.95, which held out
  * blocks and made every smoother over-smooth. The pilots' level-by-level
  * thresholds keep them off correlated noise, so on AR(1) noise their residuals
- * keep its dependence (measured on 156 to 2,000 points: within 0.05 of the
- * variogram of the noise alone at 2,000 points; at 156 points nearer the true
- * coefficient than the variogram of the series, which reads high there).
- * Series under 64 points: the variogram alone. O(n). Unchecked.
+ * keep its dependence (tested: within 0.05 of the true coefficient on 2,000
+ * points; on nine 156-point series a mean error of 0.06, against 0.22 for the
+ * variogram of the series, which reads high there). The pilots' thresholds are
+ * the universal rule, not chosen by the data's cross-validation, which would
+ * itself have followed the correlated noise. Series under 64 points: the
+ * variogram alone. O(n). Unchecked.
  */
 export function dependencePhi(y: ArrayLike<number>): number {
   const n = y.length;
