@@ -37,11 +37,22 @@ describe('levelwiseHardShrink', () => {
     }
   });
 
-  test('levelwiseHardShrink returns one value per input row, the Haar pilot reproducing a noiseless step series', () => {
-    // Haar details vanish away from a step and the medians of the levels are 0, so nothing is thresholded away
+  test.each([1, 8])('levelwiseHardShrink with %s start(s) returns one value per input row, the Haar pilot reproducing a noiseless step series', (starts) => {
+    // Haar details vanish away from a step and the medians of the levels are 0, so nothing is thresholded away,
+    // whichever row the transform starts at
     const y = Float64Array.from({ length: 100 }, (_, i) => (i < 37 ? 1 : i < 70 ? -2 : 0.5));
-    const p = levelwiseHardShrink(y, 'db1');
+    const p = levelwiseHardShrink(y, 'db1', starts);
     expect(p.length).toBe(100);
     for (let i = 0; i < 100; i++) expect(p[i]).toBeCloseTo(y[i], 12);
+  });
+
+  test('levelwiseHardShrink with 8 starts is the mean, row by row, of the fits started at rows 0 to 7', () => {
+    const e = ar1(300, 0.4, 4).map((v, i) => v + (i > 120 ? 3 : 0));
+    const p = levelwiseHardShrink(e, 'sym8', 8);
+    const fits = Array.from({ length: 8 }, (_, s) => levelwiseHardShrink(e.slice(s), 'sym8'));
+    for (const i of [0, 3, 7, 8, 150, 299]) {
+      const covering = fits.filter((_, s) => s <= i).map((f, s) => f[i - s]);
+      expect(p[i]).toBeCloseTo(covering.reduce((a, b) => a + b, 0) / covering.length, 12);
+    }
   });
 });

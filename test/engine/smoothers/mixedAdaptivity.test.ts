@@ -114,13 +114,19 @@ test('the df of the cross-validated mixed fits is the dimension of the sum of th
 }, 600000);
 
 describe('the cross-validated fit against every single-order fit at its df, seeds 1 to 7', () => {
+  // The noise of these series is independent by construction, and cross-validation is told so: the claim is
+  // about the mixed fit at the df cross-validation gives it, not about reading the noise's dependence (tested in
+  // test/engine/select/noiseDependence.test.ts). Read from the data, seed 6 reads 0.19 (its noise alone reads
+  // 0.13 by chance; the pilots leave a little of the kinks), blocks of 6 points are held out, cross-validation
+  // picks 48 df and the spline is 3.7% better there; with ordinary folds it picks 23 df and the mixed fit wins
+  // (1.82e-3 against 2.16e-3). The other six seeds get ordinary folds either way.
   const results: { seed: number; df: number; mixed: number; other: number; converged: boolean; warned: boolean }[] = [];
   beforeAll(() => {
     for (const seed of [1, 2, 3, 4, 5, 6, 7]) {
       const { x, y, truth } = kinkedThenSmoothSeries(200, seed, 0.1, 3);
       const s = seriesFromArrays(x, y);
       const mse = mseOf(truth);
-      const cv = fitMixed(s, {});
+      const cv = fitMixed(s, { noise: 'independent' });
       results.push({ seed, df: cv.df, mixed: mse(cv.fitted), other: bestOther(s, cv.df, mse), converged: cv.solver.converged, warned: cv.warnings.some((w) => w.code === 'not-converged') });
     }
   }, 600000);
@@ -144,7 +150,7 @@ describe('the cross-validated fit against every single-order fit at its df, seed
   });
 
   test('the mixed fit has the lowest error at its df on at least 6 of the 7 seeds', () => {
-    // measured: 7 of 7; seed 4 wins by less than 0.1% (2.085e-3 against order 1's 2.086e-3), so one seed is left as margin
+    // measured: 6 of 7; seed 4 loses by 0.5% (2.092e-3 against the spline's 2.081e-3; it once won by less than 0.1%)
     expect(results.filter((r) => r.mixed < r.other).length).toBeGreaterThanOrEqual(6);
   });
 });

@@ -20,12 +20,21 @@ const FEWEST_FOR_SCALE = 32;
  * as a smoother: the noise-dependence estimate reads its residuals
  * (select/noiseDependence.ts). O(n L). Unchecked: y finite, n >= 2 (L - 1).
  *
+ * With `starts` > 1 the fit is made translation-invariant in the manner of
+ * cycle spinning (R. R. Coifman and D. L. Donoho, "Translation-invariant
+ * de-noising", Wavelets and Statistics, Springer 1995): the series is shrunk
+ * as given and started at rows 1 .. starts - 1 (the rows before dropped, not
+ * wrapped round), and each row's value is the mean over the fits that cover
+ * it. A jump or a bend then no longer depends on where the dyadic blocks
+ * happen to fall. Unchecked: n - starts + 1 >= 2 (L - 1).
+ *
  * @example
  * ```ts
- * const pilot = levelwiseHardShrink(y, 'db1');
+ * const pilot = levelwiseHardShrink(y, 'db1', 8);
  * ```
  */
-export function levelwiseHardShrink(y: Float64Array, filter: WaveletFilterName): Float64Array {
+export function levelwiseHardShrink(y: Float64Array, filter: WaveletFilterName, starts = 1): Float64Array {
+  if (starts > 1) return averagedOverStarts(y, filter, starts);
   const n = y.length;
   const h = WAVELET_FILTERS[filter];
   const levels = Math.max(1, Math.floor(Math.log2(n / (h.length - 1))));
@@ -46,4 +55,17 @@ export function levelwiseHardShrink(y: Float64Array, filter: WaveletFilterName):
     for (let i = lo; i < hi; i++) if (!(Math.abs(c[i]) > t)) c[i] = 0;
   }
   return periodicIdwt(c, h, levels).slice(0, n);
+}
+
+/** The mean of the fits of y started at rows 0 .. starts - 1, each row over the fits that cover it. Unchecked. */
+function averagedOverStarts(y: Float64Array, filter: WaveletFilterName, starts: number): Float64Array {
+  const n = y.length;
+  const sum = new Float64Array(n);
+  for (let s = 0; s < starts; s++) {
+    const p = levelwiseHardShrink(y.subarray(s), filter);
+    for (let i = 0; i < p.length; i++) sum[i + s] += p[i];
+  }
+  // row i is covered by the fits started at rows 0 .. min(i, starts - 1)
+  for (let i = 0; i < n; i++) sum[i] /= Math.min(i + 1, starts);
+  return sum;
 }
