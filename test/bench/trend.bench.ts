@@ -261,6 +261,9 @@ export function sideBySide(emit: (record: Record<string, unknown>) => void, quic
   }
 }
 
+/** The cross-validation the bench times: 5 folds x 30 penalties at order k. */
+const CV_OPTIONS = (k: number) => ({ order: k, select: 'cv' as const, folds: 5, gridSize: 30 });
+
 /**
  * One cross-validated fit (5 folds x 30 penalties) in this (fresh) process, written to stdout as
  * JSON: called by {@link cvBench} through `node -e`, so that each repeat pays compilation alike.
@@ -269,13 +272,13 @@ export function childCv(n: number, k: number): void {
   const s = benchSeries(n, 77 + n);
   const c0 = process.cpuUsage();
   const t0 = now();
-  const r = fitTrend(s, { order: k, select: 'cv', folds: 5, gridSize: 30 });
+  const r = fitTrend(s, CV_OPTIONS(k));
   const seconds = (now() - t0) / 1000;
   const cu = process.cpuUsage(c0);
   const curve = r.criterion.curve!;
   // the same fit again in the same process: compiled code, as in a pane or worksheet session after its first fit
   const t1 = now();
-  const again = fitTrend(s, { order: k, select: 'cv', folds: 5, gridSize: 30 });
+  const again = fitTrend(s, CV_OPTIONS(k));
   const warmSeconds = (now() - t1) / 1000;
   process.stdout.write(JSON.stringify({ seconds, cpuSeconds: (cu.user + cu.system) / 1e6, warmSeconds, warmSamePenalty: again.penalty === r.penalty, curvePointsConverged: curve.filter((p) => p.converged).length, curvePoints: curve.length, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged }) + '\n');
 }

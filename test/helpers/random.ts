@@ -37,3 +37,13 @@ export function poissonStream(seed: number): (rate: number) => number {
     return k - 1;
   };
 }
+
+/**
+ * n values of stationary-scale AR(1) noise e_i = phi e_{i-1} + sqrt(1 - phi^2) z_i from e_0 = 0
+ * (unit marginal variance once the start has worn off), z from {@link normalStream}(seed).
+ */
+export function ar1Noise(n: number, phi: number, seed: number): number[] {
+  const z = normalStream(seed);
+  let e = 0;
+  return Array.from({ length: n }, () => (e = phi * e + Math.sqrt(1 - phi * phi) * z()));
+}

@@ -44,7 +44,7 @@ export function PENALTY_OPTIONS(o: { rules: readonly string[]; defaultRule: stri
  * same name): 'correlated' reads the lag-one dependence of the noise from the variogram of the series
  * and of two wavelet pilots' residuals and, when it is clear, holds out blocks and leaves their
  * neighbours out of training (select/noiseDependence.ts); 'independent' uses ordinary folds. The
- * reading can still mistake fast structure that is not noise (many close steps) for correlated
+ * reading can still mistake fast structure that the pilots do not follow for correlated
  * noise, and then over-smooths: 'independent' is the way out when the noise is known to be independent.
  *
  * @param rule - the option that selects cross-validation, and its values that do

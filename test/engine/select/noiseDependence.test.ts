@@ -9,13 +9,9 @@
 import { noiseDependence, foldPlan, dependencePhi, variogramPhi } from '../../../src/engine/select/noiseDependence';
 import { blocks, doppler, noisyTestFunction } from '../smoothers/trendTestFunctions';
 import { runAnalysis } from '../../../src/engine';
-import { normalStream } from '../../helpers/random';
+import { ar1Noise } from '../../helpers/random';
 
-function ar1(n: number, phi: number, seed: number): number[] {
-  const z = normalStream(seed);
-  let e = 0;
-  return Array.from({ length: n }, () => (e = phi * e + Math.sqrt(1 - phi * phi) * z()));
-}
+const ar1 = ar1Noise;
 
 describe('noiseDependence', () => {
   test('noiseDependence recovers phi of AR(1) noise under a kinked trend, within 0.15', () => {

@@ -8,13 +8,9 @@
  */
 import { levelwiseHardShrink } from '../../../src/engine/smoothers/wavelet/levelwiseHardShrink';
 import { waveletShrink } from '../../../src/engine/smoothers/wavelet/waveletShrink';
-import { normalStream } from '../../helpers/random';
+import { ar1Noise } from '../../helpers/random';
 
-function ar1(n: number, phi: number, seed: number): Float64Array {
-  const z = normalStream(seed);
-  let e = 0;
-  return Float64Array.from({ length: n }, () => (e = phi * e + Math.sqrt(1 - phi * phi) * z()));
-}
+const ar1 = (n: number, phi: number, seed: number): Float64Array => Float64Array.from(ar1Noise(n, phi, seed));
 
 const energy = (v: ArrayLike<number>): number => Array.from(v).reduce((a, b) => a + b * b, 0);
 

@@ -1,3 +1,6 @@
+/** How far past the last interval the forward scan looks before falling back to bisection. */
+const AHEAD = 16;
+
 /**
  * The falling factorial interpolant of a trend-filtering fit (Y.-X. Wang,
  * A. Smola and R. J. Tibshirani, ICML 2014; R. J. Tibshirani, Ann. Statist.
@@ -21,9 +24,6 @@
  * ```
  * Unchecked.
  */
-/** How far past the last interval the forward scan looks before falling back to bisection. */
-const AHEAD = 16;
-
 export function interpolateTrend(x: Float64Array, b: Float64Array, k: number, t: ArrayLike<number>): { value: Float64Array; extrapolated: Uint8Array } {
   const n = x.length;
   const value = new Float64Array(t.length);
