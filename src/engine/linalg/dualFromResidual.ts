@@ -39,11 +39,12 @@ export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number
     for (let i = 0; i < len - 1; i++) {
       const vi = v[i];
       const t = acc - vi;
-      comp += Math.abs(acc) >= Math.abs(vi) ? (acc - t) - vi : (-vi - t) + acc;
+      // |.| written out (the same values as Math.abs, NaN included), the loop's cost where global lookups are slow
+      comp += (acc < 0 ? -acc : acc) >= (vi < 0 ? -vi : vi) ? (acc - t) - vi : (-vi - t) + acc;
       acc = t;
       const zi = acc + comp;
       v[i] = zi;
-      zmax = Math.max(zmax, Math.abs(zi));
+      zmax = Math.max(zmax, zi < 0 ? -zi : zi);
     }
     const miss = Math.abs(v[len - 2] - v[len - 1]);
     worst = Math.max(worst, miss / Math.max(gmax, zmax, 1e-300));

@@ -232,3 +232,60 @@ describe('solveTrend, orders 2 and 3 warm-started', () => {
     }
   });
 });
+
+describe('solveTrend, interior point first (cross-validation folds of orders 2 and 3)', () => {
+  test.each([2, 3])('order %i: where the interior point converges its answer is kept, where it stalls the active-set method finishes; the gap accepted bounds the distance to the optimum either way', (k) => {
+    const p = problem(600, k, 121 + k);
+    const lmax = trendLambdaMax(p.x, p.y, p.w, k);
+    const D = denseDifference(p.x, k + 1);
+    const seen = { converged: 0, stalled: 0 };
+    for (const ratio of [1e-1, 1e-2, 1e-4, 1e-6]) {
+      const lam = ratio * lmax;
+      const r = solveTrend(p, lam, { tolerance: 1e-5, maxIterations: 200, refine: false, interiorFirst: true });
+      expect(r.interior).toBeDefined();
+      seen[r.interior!.converged ? 'converged' : 'stalled']++;
+      expect(r.status.converged).toBe(true);
+      expect(r.status.achieved).toBeLessThanOrEqual(1e-5);
+      const exact = solveTrend(p, lam, { tolerance: 1e-12, maxIterations: 200 });
+      let d2 = 0, P = 0;
+      for (let i = 0; i < p.y.length; i++) { d2 += p.w[i] * (r.b[i] - exact.b[i]) ** 2; P += 0.5 * p.w[i] * (p.y[i] - r.b[i]) ** 2; }
+      for (const row of D) P += lam * Math.abs(row.reduce((acc, v, i) => acc + v * r.b[i], 0));
+      expect(Math.sqrt(d2)).toBeLessThanOrEqual(Math.sqrt(2 * r.status.achieved * P) * 1.01 + 1e-9);
+    }
+    // both branches ran on this sweep
+    expect(seen.converged).toBeGreaterThan(0);
+    expect(seen.stalled).toBeGreaterThan(0);
+  });
+
+  test('with refinement wanted the option is ignored: the exact certified fit comes back', () => {
+    const p = problem(300, 3, 131);
+    const lam = 1e-4 * trendLambdaMax(p.x, p.y, p.w, 3);
+    const r = solveTrend(p, lam, { tolerance: 1e-8, maxIterations: 200, interiorFirst: true });
+    expect(r.interior).toBeUndefined();
+    expect(r.status.achieved).toBeLessThanOrEqual(1e-8);
+    const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, 3, lam);
+    expect(kkt.boxExcess).toBeLessThan(1e-6);
+    expect(kkt.signError).toBeLessThan(1e-6);
+  });
+});
+
+describe('trendPath, fold fits switching to the interior point', () => {
+  test.each([2, 3])('order %i: the switch is found in the first fold and leaves every score within 0.05 of its standard error of the active-set-only scores', (k) => {
+    const rn = seededNormal(140 + k);
+    const n = 300;
+    const x = Array.from({ length: n }, (_, i) => i + 1);
+    const y = x.map((t) => { const u = t / n; return Math.sqrt(u * (1 - u)) * Math.sin((2.1 * Math.PI) / (u + 0.05)) + 0.1 * rn(); });
+    const series = seriesFromArrays(x, y);
+    const settings = { order: k, gridSize: 12, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 };
+    const switched = trendPath(series, settings);
+    const plain = trendPath(series, { ...settings, foldInteriorPoint: false });
+    expect(switched.foldInteriorFrom).toBeDefined();
+    expect(switched.foldInteriorFrom!).toBeLessThan(settings.gridSize);
+    expect(plain.foldInteriorFrom).toBeUndefined();
+    for (let j = 0; j < switched.points.length; j++) {
+      const a = switched.points[j], b = plain.points[j];
+      expect(a.df).toBe(b.df);
+      expect(Math.abs(a.cv - b.cv)).toBeLessThanOrEqual(0.05 * b.cvSe);
+    }
+  });
+});

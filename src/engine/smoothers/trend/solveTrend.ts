@@ -49,6 +49,8 @@ export interface TrendFit {
   status: SolverStatus;
   /** ADMM state when the ADMM ran (warm start for the next penalty). */
   admm?: AdmmState;
+  /** With `interiorFirst`: whether that first interior-point attempt converged, and the relative gap it reached. */
+  interior?: { converged: boolean; achieved: number };
 }
 
 /** Iteration limit of the ADMM when it seeds the refinement. */
@@ -92,6 +94,12 @@ export interface SolveTrendOptions {
    * then returned without the exact refinement (default true).
    */
   refine?: boolean;
+  /**
+   * Try the dual interior point first, from a cold start, and return its answer when it converges
+   * (cross-validation folds at penalties where it was seen to converge: {@link trendPath}). When it
+   * stalls the usual chain runs; either way the fit's `interior` says what the first attempt reached.
+   */
+  interiorFirst?: boolean;
   /** Knots and signs of an exact fit at this penalty (a path point): rebuilt first. */
   seed?: KnotSeed;
   /**
@@ -149,7 +157,30 @@ export function solveTrend(prob: TrendProblem, lambda: number, opt: SolveTrendOp
   const exact = exactFit(prob, lambda, opt.tolerance);
   if (exact) return exact;
   const ctx: SolveContext = { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 };
-  return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
+  if (!opt.interiorFirst) return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
+  const first = interiorFirst(ctx);
+  if (first.fit) return first.fit;
+  const fit = fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
+  return { ...fit, interior: first.interior, status: { ...fit.status, iterations: fit.status.iterations + first.iterations } };
+}
+
+/**
+ * Strategy 0 (`interiorFirst`): the dual interior point from a cold start. Converged, its answer is
+ * returned as strategy 3 returns one without refinement; stalled, only what it reached is reported.
+ * Refinement wanted: undefined (the usual chain). Unchecked.
+ */
+function interiorFirst(ctx: SolveContext): { fit?: TrendFit; interior?: { converged: boolean; achieved: number }; iterations: number } {
+  const { prob, lambda } = ctx;
+  const { tolerance, maxIterations, refine = true } = ctx.opt;
+  if (refine || prob.k < 1) return { iterations: 0 };
+  if (!prob.op) prob.op = trendOperator(prob.x, prob.w, prob.k);
+  const sol = trendDualInteriorPoint(prob.op, prob.y, lambda, tolerance, maxIterations);
+  const interior = { converged: sol.status.converged, achieved: sol.status.achieved };
+  if (!sol.status.converged) return { interior, iterations: sol.status.iterations };
+  return {
+    fit: { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), interior, status: { ...sol.status, stoppingRule: TREND_RULE } },
+    interior, iterations: sol.status.iterations,
+  };
 }
 
 /** Rounds of the active-set Newton method started from the previous penalty's knots. */
