@@ -12,7 +12,8 @@
  *   loess with its default kd-tree vertex interpolation (surface = "interpolate"; timed with its
  *   default exact trace of the smoother matrix, as ours, and with trace.hat = "approximate"), and our
  *   exact fit beside R's surface = "direct" up to 1e4.
- * - The automatic choice (auto) at n = 5,000 and 10,000 on two seeded series (a kinked line
+ * - The automatic choice (auto) at n = 156 and 730 (a weekly and a daily business length), 5,000
+ *   and 10,000 on two seeded series (a kinked line
  *   with a smooth wave, and a slow wave with level shifts): wall and CPU time of the whole choice
  *   (medians of repeats) and each candidate's milliseconds from the comparison table (medians), with
  *   the chosen method, df and the load average at the start and end of each size.
@@ -211,7 +212,7 @@ cat(a, b, c)`);
     }
 
     // the automatic choice: every candidate cross-validated on the same folds
-    for (const n of !part('auto') ? [] : quick ? [1000] : [5000, 10000]) {
+    for (const n of !part('auto') ? [] : quick ? [1000] : [156, 730, 5000, 10000]) {
       for (const shape of ['kinks-and-wave', 'shifts-and-wave']) {
         const z = normalStream(n + (shape === 'kinks-and-wave' ? 5 : 6));
         const x = Array.from({ length: n }, (_, i) => i + 1);

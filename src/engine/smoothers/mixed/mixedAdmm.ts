@@ -123,7 +123,7 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
     bandedCholeskySolve(L, 2 * n, P, rhs);
     let cChange = 0;
     for (let i = 0; i < n; i++) { a[i] = rhs[2 * i]; cNew[i] = rhs[2 * i + 1]; cChange += w[i] * (cNew[i] - c[i]) ** 2; }
-    c = Float64Array.from(cNew);
+    c.set(cNew);
     applyD(r2, 2, a, d2);
     applyD(r4, 4, c, d4);
     z1o.set(z1); z3o.set(z3);
