@@ -19,6 +19,10 @@
  * - full 5-fold cross-validation over 30 penalties with warm starts at n = 1e3, 1e4, orders 1 to 3,
  *   each run in a fresh process, medians of 3 (with the load average and how many of the curve's
  *   full-data fits converged);
+ * - the fold fits' switch to the interior point (orders 2 and 3, {@link trendPath}): the same 5-fold
+ *   cross-validation with and without it in one process, medians of 3 after a warm-up, on seeded series
+ *   (a kinked line with a wave, a wave with level shifts, Doppler, a slow curve in AR(1) noise), with
+ *   the largest change of a score in units of its standard error and the df at each curve's minimum;
  * - SciPy bvls on the dual against fitTrend on the same data (small n);
  * - MSE against the truth versus df for trend filtering (Doppler: k = 1, 3; Blocks: k = 0, 1) and the cubic
  *   smoothing spline ('spline') on the Doppler and Blocks functions of
@@ -36,6 +40,8 @@ import * as fs from 'fs';
 import * as os from 'os';
 import * as path from 'path';
 import { differenceOperator } from '../../src/engine/linalg/difference';
+import { trendPath } from '../../src/engine/smoothers/trend/trendPath';
+import { ar1Noise } from '../helpers/random';
 
 function now(): number {
   return typeof performance !== 'undefined' ? performance.now() : Date.now();
@@ -289,6 +295,49 @@ export function childCv(n: number, k: number): void {
  * seconds (the first call, compilation included), of the same fit run again in that process (`warmSeconds`), the load average of the machine before and after, and how many of the curve's
  * full-data fits converged.
  */
+/** Seeded series of {@link foldSwitchBench}: x = 1..n. */
+function switchSeries(n: number, shape: string, seed: number): Series {
+  const z = seededNormal(seed);
+  const e = ar1Noise(n, 0.6, seed + 1);
+  const y = Array.from({ length: n }, (_, i) => {
+    const u = (i + 1) / n;
+    return shape === 'kinks-and-wave' ? 4 * u - 10 * Math.max(0, u - 0.2) + 8 * Math.max(0, u - 0.45) + 0.5 * Math.sin(12 * Math.PI * u) * (u > 0.6 ? 1 : 0) + 0.3 * z()
+      : shape === 'doppler' ? Math.sqrt(u * (1 - u)) * Math.sin((2.1 * Math.PI) / (u + 0.05)) + 0.1 * z()
+        : shape === 'ar1' ? Math.sin(3 * u) + 0.3 * e[i]
+          : Math.sin(4 * Math.PI * u) + (u > 0.3 ? 1 : 0) - (u > 0.7 ? 1.5 : 0) + 0.4 * z();
+  });
+  return seriesFromArrays(Array.from({ length: n }, (_, i) => i + 1), y);
+}
+
+/** Cross-validation with and without the fold fits' switch to the interior point (see the file's comment). */
+export function foldSwitchBench(quick: boolean): Record<string, unknown>[] {
+  const cases: [number, number, number, string][] = quick ? [[500, 3, 15, 'doppler']]
+    : [[1000, 3, 30, 'doppler'], [2000, 3, 30, 'ar1'], [2000, 2, 30, 'ar1'], [5000, 3, 15, 'kinks-and-wave'], [5000, 2, 15, 'shifts-and-wave'], [10000, 3, 30, 'kinks-and-wave'], [10000, 2, 30, 'shifts-and-wave']];
+  const out: Record<string, unknown>[] = [];
+  for (const [n, k, G, shape] of cases) {
+    const series = switchSeries(n, shape, 17 + k);
+    const settings = { order: k, gridSize: G, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 };
+    const load0 = os.loadavg()[0];
+    const time = (on: boolean) => {
+      trendPath(series, { ...settings, foldInteriorPoint: on }); // warm-up: compiled code for both
+      const t: number[] = [];
+      let last!: ReturnType<typeof trendPath>;
+      for (let r = 0; r < (quick ? 1 : 3); r++) { const t0 = now(); last = trendPath(series, { ...settings, foldInteriorPoint: on }); t.push((now() - t0) / 1000); }
+      return { seconds: median(t), path: last };
+    };
+    const on = time(true), off = time(false);
+    let worst = 0;
+    on.path.points.forEach((p, j) => { const q = off.path.points[j]; if (q.cvSe > 0) worst = Math.max(worst, Math.abs(p.cv - q.cv) / q.cvSe); });
+    const dfAtMin = (pts: typeof on.path.points) => pts.reduce((b, p) => (p.cv < b.cv ? p : b)).df;
+    out.push({
+      bench: 'trend-cv-fold-switch', order: k, n, shape, gridSize: G, folds: 5, seconds: on.seconds, secondsWithout: off.seconds, ratio: Number((on.seconds / off.seconds).toFixed(3)),
+      switchFrom: on.path.foldInteriorFrom ?? null, largestScoreChangeInSe: Number(worst.toPrecision(3)), dfAtMinimum: dfAtMin(on.path.points), dfAtMinimumWithout: dfAtMin(off.path.points),
+      loadAverageBefore: load0, loadAverageAfter: os.loadavg()[0],
+    });
+  }
+  return out;
+}
+
 export function cvBench(quick: boolean, sizes = quick ? [1e3] : [1e3, 1e4], orders = quick ? [1] : [1, 2, 3], repeats = quick ? 1 : 3): Record<string, unknown>[] {
   const out: Record<string, unknown>[] = [];
   for (const n of sizes) {
@@ -351,6 +400,7 @@ export function run(emit: (record: Record<string, unknown>) => void, quick: bool
     }
   }
   for (const rec of cvBench(quick)) emit(rec);
+  for (const rec of foldSwitchBench(quick)) emit(rec);
   const dfs = quick ? [10, 30] : [15, 25, 40, 60, 80, 100, 130, 160];
   for (const row of adaptivityTable('doppler', quick ? 512 : 1024, dfs, 31, [1, 3])) emit(row);
   for (const row of adaptivityTable('blocks', quick ? 512 : 1024, dfs, 32, [0, 1])) emit(row);

@@ -272,9 +272,18 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
   for (let j = 0; j < G; j++) grid[j] = top * Math.pow(MIXED_PATH_RATIO, j / (G - 1));
   const fits: MixedFit[] = [];
   let start: MixedStart = {};
+  // below the top the cubic is not the solution (one of the two duals of the cubic's residual is
+  // outside its box there), unless y is itself a cubic (a top of 0, taken as 1 by pathTop)
+  const cubicOnly = !(polynomialDual(sc.xs, sc.ys, sc.ws, 3).lambdaMax > 0);
   for (let j = 0; j < G; j++) {
     context.step(j / G / (K + 1), 'fitting kinks and bends along the penalty path');
-    const f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, PATH, start);
+    let f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, PATH, start);
+    // a fit with no knots at all below the top is not the optimum, whatever the ADMM's residual test
+    // said: its step sizes can sit at their cap of 1e5 there, where that test is loose (measured on a
+    // 156-point series: the four points after the top stopped after one step each with the cubic)
+    if (j > 0 && !cubicOnly && f.kinkRows.length === 0 && f.bendRows.length === 0 && f.status.converged) {
+      f = { ...f, status: { ...f.status, converged: false } };
+    }
     fits.push(f);
     start = { admm: f.admm };
   }
