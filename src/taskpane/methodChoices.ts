@@ -54,15 +54,17 @@ export function methodChoices(): MethodChoice[] {
 
 /**
  * The options of `def` that apply when the entry fixes `fixed` (an option declared `onlyWith` another
- * option's values applies only when that option, as fixed or by its default, has one of them).
+ * option's values applies only when that option, as fixed or by its default, has one of them, and
+ * that option applies itself: the decomposition's noise setting depends on its rule, which STL has not).
  */
 function applicable(def: AnalysisDefinition, fixed: Record<string, OptionValue>): AnalysisDefinition['options'] {
-  return def.options.filter((o) => {
+  const applies = (o: AnalysisDefinition['options'][number], depth: number): boolean => {
     if (!o.onlyWith) return true;
     const other = def.options.find((p) => p.name === o.onlyWith!.option);
     const v = fixed[o.onlyWith.option] ?? other?.default;
-    return v !== undefined && o.onlyWith.values.includes(v);
-  });
+    return v !== undefined && o.onlyWith.values.includes(v) && (!other || (depth < def.options.length && applies(other, depth + 1)));
+  };
+  return def.options.filter((o) => applies(o, 0));
 }
 
 /** Whether `analysis` declares `option` and it applies with the options `fixed` (its `onlyWith` condition met). */

@@ -1,4 +1,4 @@
-import { methodChoices, ruleChoices } from '../../src/taskpane/methodChoices';
+import { methodChoices, optionApplies, ruleChoices } from '../../src/taskpane/methodChoices';
 import { analysisDefinitions, findAnalysis } from '../../src/engine';
 
 describe('the pane lists from the declarations', () => {
@@ -24,5 +24,14 @@ describe('the pane lists from the declarations', () => {
     }
     expect(ruleChoices('spline').map((r) => r.value)).toEqual(['auto', 'gcv', 'cv', 'cv-simpler', 'df', 'value']);
     expect(ruleChoices('level').map((r) => r.value)).toEqual(['auto', 'bic', 'mbic', 'value']);
+  });
+
+  test('optionApplies follows a chain of conditions: the decomposition\'s noise setting depends on its rule, which applies only to the adaptive method', () => {
+    expect(optionApplies('decompose', 'noise', { method: 'adaptive' })).toBe(true);
+    expect(optionApplies('decompose', 'noise', { method: 'adaptive', rule: 'cv-simpler' })).toBe(true);
+    expect(optionApplies('decompose', 'noise', { method: 'adaptive', rule: 'bic' })).toBe(false);
+    // STL: rule does not apply, so its default "cv" must not make noise look applicable
+    expect(optionApplies('decompose', 'noise', { method: 'stl' })).toBe(false);
+    expect(optionApplies('trend', 'noise', { order: 1 })).toBe(true);
   });
 });

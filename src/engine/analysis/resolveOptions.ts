@@ -162,6 +162,18 @@ export function resolveOptions(declarations: readonly OptionDeclaration[], raw: 
       const want = d.onlyWith.values.map((v) => `"${v}"`).join(' or ');
       throw new KnotwiseError('bad-option', `${dashedName(d.name)} applies only when ${dashedName(d.onlyWith.option)} is ${want}${other === undefined ? ` (${dashedName(d.onlyWith.option)} is not set)` : `; ${dashedName(d.onlyWith.option)} is "${String(other)}"`}. Remove ${dashedName(d.name)} or change ${dashedName(d.onlyWith.option)}.`);
     }
+    // the option it depends on must apply too (its default is filled in even where it does not:
+    // noise depends on rule, which applies only to one method, and would be ignored in silence)
+    const chain: string[] = [];
+    for (let t = declarations.find((e) => e.name === d.onlyWith!.option); t?.onlyWith; t = declarations.find((e) => e.name === t!.onlyWith!.option)) {
+      const v = out[t.onlyWith.option];
+      chain.push(`${dashedName(t.name)} only when ${dashedName(t.onlyWith.option)} is ${t.onlyWith.values.map((x) => `"${x}"`).join(' or ')}`);
+      if (!t.onlyWith.values.includes(v as OptionValue)) {
+        const want = d.onlyWith.values.map((x) => `"${x}"`).join(' or ');
+        throw new KnotwiseError('bad-option', `${dashedName(d.name)} applies only when ${dashedName(d.onlyWith.option)} is ${want}, and ${chain.join(', and ')}; ${dashedName(t.onlyWith.option)} is ${v === undefined ? 'not set' : `"${String(v)}"`}. Remove ${dashedName(d.name)} or change ${dashedName(t.onlyWith.option)}.`);
+      }
+      if (chain.length > declarations.length) break;
+    }
   }
   return { options: out, notes, given: [...given.keys()] };
 }

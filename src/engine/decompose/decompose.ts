@@ -69,7 +69,7 @@
  */
 import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
-import type { Criterion, Knot, SolverStatus } from '../types';
+import type { Criterion, Knot, SolverStatus, NoiseAssumption } from '../types';
 import { knotBends, type Bend } from '../diagnostics/knotBends';
 import { Warning, warning, listRows } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
@@ -107,6 +107,8 @@ export interface DecomposeOptions {
   penalty?: number;
   /** Rule for lambda when not given: 'cv' (default), 'cv-simpler' (one-standard-error rule), 'sure' or 'bic' (as fitTrend). */
   select?: 'cv' | 'cv-simpler' | 'sure' | 'bic';
+  /** What the trend penalty's cross-validation assumes of the noise (default 'correlated': read from the data; {@link foldPlan}). */
+  noise?: NoiseAssumption;
   /** Spike penalty rho (units of y times weight); default sigma sqrt(2 ln n), sigma the robust scale of the remainder. Infinity: no spikes. */
   spikePenalty?: number;
   /** Stopping tolerance of the adaptive solver: largest change of the trend in one step, relative to the sd of y (default 1e-7). */
@@ -213,7 +215,8 @@ function resolve(options: DecomposeOptions) {
     if (tolerance >= 1e-2) throw new KnotwiseError('bad-option', `tolerance must be below 0.01; got ${showNumber(tolerance)}.`);
   }
   const maxIterations = options.maxIterations === undefined ? 500 : checkInteger(options.maxIterations, 'maxIterations', 1, 1e6);
-  return { method, period, dates, season, order, penalty, select, spikePenalty, tolerance, maxIterations };
+  const noise = options.noise === undefined ? 'correlated' : checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
+  return { method, period, dates, season, order, penalty, select, spikePenalty, tolerance, maxIterations, noise };
 }
 
 /**
@@ -221,7 +224,7 @@ function resolve(options: DecomposeOptions) {
  * for the model, the rules for lambda, rho and the season, and the references).
  *
  * @param series - clean series (prepareSeries / seriesFromArrays); x in any units, or Excel dates
- * @param options - method, period, dates, season, order, penalty, select, spikePenalty, tolerance, maxIterations, stl
+ * @param options - method, period, dates, season, order, penalty, select, noise, spikePenalty, tolerance, maxIterations, stl
  * @param context - optional progress reports and cancellation
  * @returns per clean point: trend, season, spikes, remainder, adjusted; the seasonal terms with their
  *   strength and decision, knots, penalties, warnings and solver status
@@ -296,7 +299,7 @@ export function decompose(series: Series, options: DecomposeOptions = {}, contex
     const m = sub.n, K = 5;
     const cvPossible = m - 2 >= K && m - Math.ceil((m - 2) / K) >= o.order + 2 && m >= 2 * K;
     if ((o.select === 'cv' || o.select === 'cv-simpler') && cvPossible) {
-      const searchSettings = { order: o.order, gridSize: penaltySearchGrid(o.order), ratio: defaultGridRatio(o.order), folds: 5, oneSE: o.select === 'cv-simpler', tolerance: 1e-8, maxIterations: 200 };
+      const searchSettings = { order: o.order, gridSize: penaltySearchGrid(o.order), ratio: defaultGridRatio(o.order), folds: 5, oneSE: o.select === 'cv-simpler', tolerance: 1e-8, maxIterations: 200, noise: o.noise };
       const f = context ? context.part(0.3, 0.7, () => trendPenaltySearch(sub, { ...searchSettings, context })) : trendPenaltySearch(sub, searchSettings);
       lambda = f.penalty;
       const atEdge = f.chosen === 0 || (f.chosen === f.curve.length - 1 && f.scored === f.gridSize);

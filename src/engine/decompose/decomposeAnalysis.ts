@@ -9,6 +9,8 @@ import type { AnalysisDefinition } from '../analysis/analysisDefinition';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import type { RunContext } from '../analysis/runContext';
 import { decompose, DecomposeOptions } from './decompose';
+import { noiseOption } from '../analysis/penaltyOptions';
+import type { NoiseAssumption } from '../types';
 
 /** Resolved options as {@link DecomposeOptions}. Unchecked: the resolver has validated them. */
 export function decomposeOptionsOf(r: ResolvedOptions): DecomposeOptions {
@@ -20,6 +22,7 @@ export function decomposeOptionsOf(r: ResolvedOptions): DecomposeOptions {
   if (r.order !== undefined) o.order = r.order as number;
   if (r.penalty !== undefined) o.penalty = r.penalty as number;
   else if (r.rule !== undefined) o.select = r.rule as DecomposeOptions['select'];
+  if (r.noise !== undefined) o.noise = r.noise as NoiseAssumption;
   if (r.spikes === false) o.spikePenalty = Infinity;
   else if (r.spikePenalty !== undefined) o.spikePenalty = r.spikePenalty as number;
   if (r.tolerance !== undefined) o.tolerance = r.tolerance as number;
@@ -66,6 +69,7 @@ export const decomposeAnalysis: AnalysisDefinition = {
       name: 'rule', kind: 'choice', choices: ['cv', 'cv-simpler', 'sure', 'bic'], default: 'cv', group: 'penalty', onlyWith: { option: 'method', values: ['adaptive'] },
       help: 'how to choose the trend penalty when none is given: cv (default), cv-simpler, sure or bic, on the series without its season',
     },
+    noiseOption('rule', ['cv', 'cv-simpler']),
     { name: 'penalty', kind: 'number', min: 0, group: 'penalty', onlyWith: { option: 'method', values: ['adaptive'] }, help: 'a fixed trend penalty lambda instead of a rule (units as for trend filtering)' },
     { name: 'spikes', kind: 'switch', default: true, implied: true, onlyWith: { option: 'method', values: ['adaptive'] }, help: 'separate one-off spikes from the trend (default yes)' },
     { name: 'spikePenalty', kind: 'number', above: 0, onlyWith: { option: 'method', values: ['adaptive'] }, help: 'penalty per unit of spike (default: sqrt(2 ln n) times the robust sd of the remainder, the universal threshold)' },

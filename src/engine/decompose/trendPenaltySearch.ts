@@ -17,13 +17,13 @@
  * Works in the trend's scaled units. Unchecked.
  */
 import type { Series } from '../series';
-import type { CriterionPoint } from '../types';
+import type { CriterionPoint, NoiseAssumption } from '../types';
 import { trendScaling, toDataPenalty, TrendScaling } from '../smoothers/trend/trendScaling';
 import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
 import { interpolateTrend } from '../smoothers/trend/interpolateTrend';
 import { CV_TOLERANCE, foldGuess } from '../smoothers/trend/trendPath';
 import { crossValidate } from '../select/crossValidate';
-import { noiseDependence } from '../select/noiseDependence';
+import { foldPlan } from '../select/noiseDependence';
 import { choosePenalty } from '../select/choosePenalty';
 import type { RunContext } from '../analysis/runContext';
 
@@ -42,6 +42,8 @@ export interface TrendPenaltySearchSettings {
   /** Relative duality gap of the full-data solves (the folds use at least the trend path's CV_TOLERANCE). */
   tolerance: number;
   maxIterations: number;
+  /** What cross-validation assumes of the noise (default 'correlated': {@link foldPlan}). */
+  noise?: NoiseAssumption;
   /** Whether to stop early (false: every grid penalty, as the trend's path). */
   stopEarly?: boolean;
   context?: RunContext;
@@ -98,7 +100,7 @@ export function trendPenaltySearch(series: Series, s: TrendPenaltySearchSettings
   const K = s.folds;
   let swAll = 0;
   for (let i = 0; i < n; i++) swAll += sc.ws[i];
-  const plan = noiseDependence(series.y, K);
+  const plan = foldPlan(series.y, K, s.noise);
   const folds = new Map<number, FoldState>();
   const foldOf = (tr: Int32Array, te: Int32Array): FoldState => {
     let f = folds.get(te[0]);

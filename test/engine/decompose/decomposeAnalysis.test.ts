@@ -3,7 +3,7 @@ import '../../../src/engine/analyses';
 import { decompose } from '../../../src/engine/decompose/decompose';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { loadFixture, maxAbsDiff } from '../../helpers/fixtures';
-import { normalStream } from '../../helpers/random';
+import { normalStream, ar1Noise } from '../../helpers/random';
 
 /** Invented quarterly revenue, 10 years from 2014 (first days of quarters as Excel serials), with blank rows. */
 function quarterly(seed: number) {
@@ -17,7 +17,38 @@ function quarterly(seed: number) {
   return { x, y };
 }
 
+/** Invented monthly costs, 12 years from 2012: a slow trend with one bend, a month-of-year swing, AR(1) noise (phi 0.7). */
+function monthlyAr1(seed: number) {
+  const n = 144;
+  const e = ar1Noise(n, 0.7, seed);
+  const x: number[] = [], y: number[] = [];
+  for (let t = 0; t < n; t++) {
+    x.push(Math.round(Date.UTC(2012, t, 1) / 86400000) + 25569);
+    y.push(50 + 0.1 * t - 0.15 * Math.max(0, t - 80) + 3 * Math.sin((2 * Math.PI * t) / 12) + e[t]);
+  }
+  return { x, y };
+}
+
 describe("the 'decompose' analysis through runAnalysis", () => {
+  test('noise=independent gives the trend penalty ordinary folds: on AR(1) noise they take the noise for trend, where the default reads the dependence and holds out blocks', () => {
+    const { x, y } = monthlyAr1(91);
+    const read = runAnalysis({ analysis: 'decompose', y, x });
+    const told = runAnalysis({ analysis: 'decompose', y, x, options: { noise: 'independent' } });
+    expect(read.decomposition!.period).toEqual([12]);
+    expect(read.criterion!.name).toBe('cv');
+    // the trend has one bend; with the dependence read it keeps a few knots, with ordinary folds many times more
+    const knotsRead = (read.decomposition!.knots as unknown[]).length, knotsTold = (told.decomposition!.knots as unknown[]).length;
+    expect(knotsRead).toBeLessThanOrEqual(5);
+    expect(knotsTold).toBeGreaterThan(5 * knotsRead);
+  });
+
+  test('noise is refused where it cannot act, naming what to change: with method stl (rule applies only to the adaptive method) and with a fixed penalty', () => {
+    const { x, y } = monthlyAr1(92);
+    expect(() => runAnalysis({ analysis: 'decompose', y, x, options: { method: 'stl', noise: 'independent' } }))
+      .toThrow('noise applies only when rule is "cv" or "cv-simpler", and rule only when method is "adaptive"; method is "stl". Remove noise or change method.');
+    expect(() => runAnalysis({ analysis: 'decompose', y, x, options: { penalty: 5, noise: 'independent' } })).toThrow(/noise applies only when rule is .*rule is not set/);
+  });
+
   test('quarterly dates with blank rows: a quarter-of-year season, components per clean point, rows mapped', () => {
     const { x, y } = quarterly(81);
     const r = runAnalysis({ analysis: 'decompose', y, x });
