@@ -110,9 +110,8 @@ export const CV_TOLERANCE = 1e-5;
  * against the active-set method alone (bench `trend-cv-fold-switch`, 5 x 30 or 5 x 15, medians of 3
  * in one process): 0.33 to 0.58 of the time on 1,000 to 2,000 points, 0.72 to 0.94 at 5,000, 0.85 to
  * 1.00 at 1e4; the scores moved by at most 0.005 of their standard error and every minimum stayed at
- * the same df. Order 1 is left
- * out: its restricted solves are written out for hat functions and cheap, and with the switch its
- * cross-validation took 3.8 times as long.
+ * the same df. Order 1 is left out: its restricted solves are written out for hat functions and
+ * cheap, and with the switch its cross-validation took 3.8 times as long.
  */
 export const PROBE_WORK = 10;
 
