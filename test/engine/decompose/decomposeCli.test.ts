@@ -15,6 +15,16 @@ function io(files: Record<string, string>) {
 }
 
 describe('knotwise decompose (the demo weekly orders)', () => {
+  test('--noise is refused with --method stl, the message naming the chain of conditions and what to change; accepted with the adaptive method', () => {
+    const csv = weeklyOrdersCsv();
+    const refused = io({ 'd.csv': csv });
+    expect(runCli(['decompose', 'd.csv', '--x', 'week_start', '--y', 'orders', '--method', 'stl', '--noise', 'independent'], refused.host)).toBe(1);
+    expect(refused.err.join('')).toContain('noise applies only when rule is "cv" or "cv-simpler", and rule only when method is "adaptive"; method is "stl". Remove noise or change method.');
+    const ok = io({ 'd.csv': csv });
+    expect(runCli(['decompose', 'd.csv', '--x', 'week_start', '--y', 'orders', '--noise', 'independent', '--json'], ok.host)).toBe(0);
+    expect(JSON.parse(ok.out.join(''))).toHaveProperty('trend');
+  });
+
   test('--json prints period, trend, season, spikes, remainder aligned with input rows (null where dropped), knots and warnings', () => {
     const csv = weeklyOrdersCsv();
     const { host, out, err } = io({ 'd.csv': csv });
