@@ -40,6 +40,8 @@ export type { AnalysisDefinition, AnalysisResult, AnalysisCore, AnalysisFamily, 
 export type { OptionDeclaration, OptionValue, ResolvedOptions, Progress, RunControl } from './analysis/optionDeclaration';
 export { analysisDefinitions, findAnalysis, registerAnalysis } from './analysis/analysisRegistry';
 export { resolveOptions, optionKey, dashedName } from './analysis/resolveOptions';
+export { unmetCondition } from './analysis/unmetCondition';
+export type { UnmetCondition } from './analysis/unmetCondition';
 export { RunContext } from './analysis/runContext';
 export { RULE_HELP } from './analysis/penaltyOptions';
 export { knotBends, derivativeJumps } from './diagnostics/knotBends';

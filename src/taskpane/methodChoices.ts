@@ -6,7 +6,7 @@
  * only the penalty rules it declares, so no method can be paired with a rule
  * it does not accept. Pure: no DOM.
  */
-import { analysisDefinitions, findAnalysis, RULE_HELP } from '../engine';
+import { analysisDefinitions, findAnalysis, RULE_HELP, unmetCondition } from '../engine';
 import type { AnalysisDefinition, OptionValue } from '../engine';
 
 /** One entry of the method list. */
@@ -53,18 +53,12 @@ export function methodChoices(): MethodChoice[] {
 }
 
 /**
- * The options of `def` that apply when the entry fixes `fixed` (an option declared `onlyWith` another
- * option's values applies only when that option, as fixed or by its default, has one of them, and
- * that option applies itself: the decomposition's noise setting depends on its rule, which STL has not).
+ * The options of `def` that apply when the entry fixes `fixed`: those whose chain of conditions holds
+ * with the fixed values and the defaults ({@link unmetCondition}, the resolver's own rule).
  */
 function applicable(def: AnalysisDefinition, fixed: Record<string, OptionValue>): AnalysisDefinition['options'] {
-  const applies = (o: AnalysisDefinition['options'][number], depth: number): boolean => {
-    if (!o.onlyWith) return true;
-    const other = def.options.find((p) => p.name === o.onlyWith!.option);
-    const v = fixed[o.onlyWith.option] ?? other?.default;
-    return v !== undefined && o.onlyWith.values.includes(v) && (!other || (depth < def.options.length && applies(other, depth + 1)));
-  };
-  return def.options.filter((o) => applies(o, 0));
+  const valueOf = (k: string) => fixed[k] ?? def.options.find((p) => p.name === k)?.default;
+  return def.options.filter((o) => !unmetCondition(def.options, o.name, valueOf));
 }
 
 /** Whether `analysis` declares `option` and it applies with the options `fixed` (its `onlyWith` condition met). */

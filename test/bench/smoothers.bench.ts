@@ -21,6 +21,7 @@
  * The machine is shared and has 2 cores: figures are noisy, so medians and minima of the
  * repeats are both printed; ratios are ours / theirs (speedups theirs / ours).
  */
+import { kinksAndWave, shiftsAndWave } from '../helpers/autoBenchShapes';
 import * as fs from 'fs';
 import * as os from 'os';
 import * as path from 'path';
@@ -216,12 +217,7 @@ cat(a, b, c)`);
       for (const shape of ['kinks-and-wave', 'shifts-and-wave']) {
         const z = normalStream(n + (shape === 'kinks-and-wave' ? 5 : 6));
         const x = Array.from({ length: n }, (_, i) => i + 1);
-        const y = x.map((t) => {
-          const u = t / n;
-          return shape === 'kinks-and-wave'
-            ? 4 * u - 10 * Math.max(0, u - 0.2) + 8 * Math.max(0, u - 0.45) + 0.5 * Math.sin(12 * Math.PI * u) * (u > 0.6 ? 1 : 0) + 0.3 * z()
-            : Math.sin(4 * Math.PI * u) + (u > 0.3 ? 1 : 0) - (u > 0.7 ? 1.5 : 0) + 0.4 * z();
-        });
+        const y = x.map((t) => (shape === 'kinks-and-wave' ? kinksAndWave(t / n) + 0.3 * z() : shiftsAndWave(t / n) + 0.4 * z()));
         const load0 = os.loadavg()[0];
         const repeats = quick ? 1 : 3;
         const wall: number[] = [], cpu: number[] = [], per = new Map<string, number[]>();

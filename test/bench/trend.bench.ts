@@ -42,6 +42,7 @@ import * as path from 'path';
 import { differenceOperator } from '../../src/engine/linalg/difference';
 import { trendPath } from '../../src/engine/smoothers/trend/trendPath';
 import { ar1Noise } from '../helpers/random';
+import { kinksAndWave, shiftsAndWave } from '../helpers/autoBenchShapes';
 
 function now(): number {
   return typeof performance !== 'undefined' ? performance.now() : Date.now();
@@ -301,10 +302,10 @@ function switchSeries(n: number, shape: string, seed: number): Series {
   const e = ar1Noise(n, 0.6, seed + 1);
   const y = Array.from({ length: n }, (_, i) => {
     const u = (i + 1) / n;
-    return shape === 'kinks-and-wave' ? 4 * u - 10 * Math.max(0, u - 0.2) + 8 * Math.max(0, u - 0.45) + 0.5 * Math.sin(12 * Math.PI * u) * (u > 0.6 ? 1 : 0) + 0.3 * z()
-      : shape === 'doppler' ? Math.sqrt(u * (1 - u)) * Math.sin((2.1 * Math.PI) / (u + 0.05)) + 0.1 * z()
+    return shape === 'kinks-and-wave' ? kinksAndWave(u) + 0.3 * z()
+      : shape === 'doppler' ? doppler(u) + 0.1 * z()
         : shape === 'ar1' ? Math.sin(3 * u) + 0.3 * e[i]
-          : Math.sin(4 * Math.PI * u) + (u > 0.3 ? 1 : 0) - (u > 0.7 ? 1.5 : 0) + 0.4 * z();
+          : shiftsAndWave(u) + 0.4 * z();
   });
   return seriesFromArrays(Array.from({ length: n }, (_, i) => i + 1), y);
 }

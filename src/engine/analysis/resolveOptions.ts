@@ -11,6 +11,7 @@
  * command lines; switches as TRUE/FALSE, yes/no or 1/0. Old spellings of names
  * and values are accepted with a note.
  */
+import { unmetCondition } from './unmetCondition';
 import { KnotwiseError } from '../errors';
 import { numberFromText } from '../numberText';
 import { describeValue } from '../options';
@@ -154,26 +155,16 @@ export function resolveOptions(declarations: readonly OptionDeclaration[], raw: 
     if (d.group && groups.has(d.group)) continue;
     out[d.name] = d.default;
   }
-  // options that apply only under another option's values
+  // options that apply only under another option's values, up the chain of conditions (unmetCondition)
+  const values = (d: OptionDeclaration) => d.onlyWith!.values.map((v) => `"${v}"`).join(' or ');
   for (const d of declarations) {
     if (!d.onlyWith || !given.has(d.name)) continue;
-    const other = out[d.onlyWith.option];
-    if (!d.onlyWith.values.includes(other as OptionValue)) {
-      const want = d.onlyWith.values.map((v) => `"${v}"`).join(' or ');
-      throw new KnotwiseError('bad-option', `${dashedName(d.name)} applies only when ${dashedName(d.onlyWith.option)} is ${want}${other === undefined ? ` (${dashedName(d.onlyWith.option)} is not set)` : `; ${dashedName(d.onlyWith.option)} is "${String(other)}"`}. Remove ${dashedName(d.name)} or change ${dashedName(d.onlyWith.option)}.`);
-    }
-    // the option it depends on must apply too (its default is filled in even where it does not:
-    // noise depends on rule, which applies only to one method, and would be ignored in silence)
-    const chain: string[] = [];
-    for (let t = declarations.find((e) => e.name === d.onlyWith!.option); t?.onlyWith; t = declarations.find((e) => e.name === t!.onlyWith!.option)) {
-      const v = out[t.onlyWith.option];
-      chain.push(`${dashedName(t.name)} only when ${dashedName(t.onlyWith.option)} is ${t.onlyWith.values.map((x) => `"${x}"`).join(' or ')}`);
-      if (!t.onlyWith.values.includes(v as OptionValue)) {
-        const want = d.onlyWith.values.map((x) => `"${x}"`).join(' or ');
-        throw new KnotwiseError('bad-option', `${dashedName(d.name)} applies only when ${dashedName(d.onlyWith.option)} is ${want}, and ${chain.join(', and ')}; ${dashedName(t.onlyWith.option)} is ${v === undefined ? 'not set' : `"${String(v)}"`}. Remove ${dashedName(d.name)} or change ${dashedName(t.onlyWith.option)}.`);
-      }
-      if (chain.length > declarations.length) break;
-    }
+    const miss = unmetCondition(declarations, d.name, (k) => out[k]);
+    if (!miss) continue;
+    const last = miss.chain[miss.chain.length - 1].onlyWith!.option;
+    const conditions = miss.chain.map((t, i) => `${dashedName(t.name)}${i === 0 ? ' applies' : ''} only when ${dashedName(t.onlyWith!.option)} is ${values(t)}`).join(', and ');
+    const found = miss.chain.length === 1 && miss.value === undefined ? ` (${dashedName(last)} is not set)` : `; ${dashedName(last)} is ${miss.value === undefined ? 'not set' : `"${String(miss.value)}"`}`;
+    throw new KnotwiseError('bad-option', `${conditions}${found}. Remove ${dashedName(d.name)} or change ${dashedName(last)}.`);
   }
   return { options: out, notes, given: [...given.keys()] };
 }

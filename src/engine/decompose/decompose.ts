@@ -69,7 +69,7 @@
  */
 import { KnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
-import type { Criterion, Knot, SolverStatus, NoiseAssumption } from '../types';
+import { NOISE_ASSUMPTIONS, type Criterion, type Knot, type SolverStatus, type NoiseAssumption } from '../types';
 import { knotBends, type Bend } from '../diagnostics/knotBends';
 import { Warning, warning, listRows } from '../warnings';
 import { checkChoice, checkInteger, checkPenalty, checkPositive } from '../options';
@@ -215,7 +215,7 @@ function resolve(options: DecomposeOptions) {
     if (tolerance >= 1e-2) throw new KnotwiseError('bad-option', `tolerance must be below 0.01; got ${showNumber(tolerance)}.`);
   }
   const maxIterations = options.maxIterations === undefined ? 500 : checkInteger(options.maxIterations, 'maxIterations', 1, 1e6);
-  const noise = options.noise === undefined ? 'correlated' : checkChoice(options.noise, 'noise', ['correlated', 'independent'] as const);
+  const noise = options.noise === undefined ? 'correlated' : checkChoice(options.noise, 'noise', NOISE_ASSUMPTIONS);
   return { method, period, dates, season, order, penalty, select, spikePenalty, tolerance, maxIterations, noise };
 }
 

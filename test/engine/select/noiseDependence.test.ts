@@ -11,19 +11,18 @@ import { blocks, doppler, noisyTestFunction } from '../smoothers/trendTestFuncti
 import { runAnalysis } from '../../../src/engine';
 import { ar1Noise } from '../../helpers/random';
 
-const ar1 = ar1Noise;
 
 describe('noiseDependence', () => {
   test('noiseDependence recovers phi of AR(1) noise under a kinked trend, within 0.15', () => {
     for (const phi of [0.3, 0.5, 0.7]) {
-      const e = ar1(2000, phi, 4);
+      const e = ar1Noise(2000, phi, 4);
       const y = e.map((v, i) => 0.01 * i + 0.02 * Math.max(0, i - 900) + v);
       expect(Math.abs(noiseDependence(y, 5).phi - phi)).toBeLessThan(0.15);
     }
   });
 
   test('noiseDependence finds no dependence in independent noise with a level shift', () => {
-    const e = ar1(2000, 0, 8);
+    const e = ar1Noise(2000, 0, 8);
     const y = e.map((v, i) => v + (i > 1000 ? 5 : 0));
     const d = noiseDependence(y, 5);
     expect(d.phi).toBeLessThan(0.1);
@@ -53,7 +52,7 @@ describe('dependencePhi', () => {
 
   test('dependencePhi keeps the dependence of AR(1) noise under a kinked trend: within 0.05 at 2,000 points, and nearer the truth than the variogram of the series at 156 points', () => {
     for (const phi of [0.3, 0.5, 0.7]) {
-      const e = ar1(2000, phi, 4);
+      const e = ar1Noise(2000, phi, 4);
       expect(Math.abs(dependencePhi(e.map((v, i) => 0.01 * i + 0.02 * Math.max(0, i - 900) + v)) - phi)).toBeLessThan(0.05);
     }
     // 9 short weekly series (phi 0.3, 0.5, 0.7; seeds 1-3): mean absolute error measured 0.09 against the variogram's 0.22
@@ -61,7 +60,7 @@ describe('dependencePhi', () => {
     let errDep = 0, errVar = 0;
     for (const phi of [0.3, 0.5, 0.7]) {
       for (const seed of [1, 2, 3]) {
-        const e = ar1(156, phi, seed);
+        const e = ar1Noise(156, phi, seed);
         const y = e.map((v, i) => 100 + 0.2 * (i + 1) + 0.8 * Math.max(0, i + 1 - 90) + 2 * v);
         errDep += Math.abs(dependencePhi(y) - phi) / 9;
         errVar += Math.abs(variogramPhi(y) - phi) / 9;
@@ -74,12 +73,12 @@ describe('dependencePhi', () => {
 
 describe('dependencePhi on the same array', () => {
   test('dependencePhi gives an array the same reading again, and a new one when its values change in place', () => {
-    const y = ar1(500, 0.6, 12).map((v, i) => v + 0.01 * i);
+    const y = ar1Noise(500, 0.6, 12).map((v, i) => v + 0.01 * i);
     const first = dependencePhi(y);
     expect(dependencePhi(y)).toBe(first);
     expect(dependencePhi([...y])).toBe(first);
     // the same array with other values (independent noise): read anew, as a copy of it is
-    const z = ar1(500, 0, 13);
+    const z = ar1Noise(500, 0, 13);
     for (let i = 0; i < y.length; i++) y[i] = z[i];
     expect(dependencePhi(y)).toBe(dependencePhi([...z]));
     expect(dependencePhi(y)).not.toBe(first);
@@ -89,7 +88,7 @@ describe('dependencePhi on the same array', () => {
 describe('trend filtering with correlated noise', () => {
   test.each([0.3, 0.5])('default cross-validation keeps to a few bends under AR(1) noise with phi %s', (phi) => {
     for (const seed of [1, 2, 3]) {
-      const e = ar1(156, phi, seed);
+      const e = ar1Noise(156, phi, seed);
       const x = e.map((_, i) => i + 1);
       const y = x.map((t, i) => 100 + 0.2 * t + 0.8 * Math.max(0, t - 90) + 2 * e[i]);
       const fit = runAnalysis({ analysis: 'trend', y, x }).smooth!;
@@ -102,14 +101,14 @@ describe('trend filtering with correlated noise', () => {
 
 describe('the noise setting of the smoothers', () => {
   test('foldPlan with independent noise gives ordinary folds where the estimate would hold out blocks', () => {
-    const y = ar1(400, 0.7, 5);
+    const y = ar1Noise(400, 0.7, 5);
     expect(foldPlan(y, 5).buffer).toBeGreaterThan(0);
     expect(foldPlan(y, 5, 'independent')).toEqual({ phi: 0, buffer: 0, block: 1 });
   });
 
   test('trend filtering under AR(1) noise with phi 0.5: noise independent takes the correlated noise for trend (many more bends), as cross-validation with ordinary folds does', () => {
     // the reason the default reads the dependence: the same series and folds with the setting turned off
-    const e = ar1(156, 0.5, 1);
+    const e = ar1Noise(156, 0.5, 1);
     const x = e.map((_, i) => i + 1);
     const y = x.map((t, i) => 100 + 0.2 * t + 0.8 * Math.max(0, t - 90) + 2 * e[i]);
     const read = runAnalysis({ analysis: 'trend', y, x }).smooth!;

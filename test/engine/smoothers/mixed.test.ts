@@ -10,6 +10,7 @@ import { fitMixed, MixedModel } from '../../../src/engine/smoothers/mixed/mixedA
 import { seriesFromArrays } from '../../../src/engine/series';
 import { kinkedThenSmoothSeries } from './mixedSeries';
 import { seededNormal } from './trendTestFunctions';
+import { kinksAndWave } from '../../helpers/autoBenchShapes';
 
 const { x, y } = kinkedThenSmoothSeries(120, 3);
 const h = (x[x.length - 1] - x[0]) / (x.length - 1);
@@ -68,7 +69,7 @@ describe('mixed trend', () => {
     const z = seededNormal(3);
     const n = 156;
     const xs = Array.from({ length: n }, (_, i) => i + 1);
-    const ys = xs.map((t) => { const u = t / n; return 4 * u - 10 * Math.max(0, u - 0.2) + 8 * Math.max(0, u - 0.45) + 0.5 * Math.sin(12 * Math.PI * u) * (u > 0.6 ? 1 : 0) + 0.3 * z(); });
+    const ys = xs.map((t) => kinksAndWave(t / n) + 0.3 * z());
     const r = runAnalysis({ analysis: 'mixed', y: ys, x: xs });
     const curve = r.smooth!.criterion.curve!;
     const top = curve[curve.length - 1];

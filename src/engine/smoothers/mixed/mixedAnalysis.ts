@@ -160,14 +160,14 @@ const FOLD: MixedSolveSettings = { ...FULL, admmTolerance: 1e-4, admmIterations:
 /**
  * The top of a path at ratio r (scaled): the smallest lambda1 at which the weighted cubic fit
  * is the solution (lambda3 = r lambda1 at or above lambda_max of order 3, and lambda1 at or
- * above the order-1 dual of the cubic fit's residual). Unchecked.
+ * above the order-1 dual of the cubic fit's residual); 0 when y is itself a cubic (callers then
+ * take 1). Unchecked.
  */
 function pathTop(x: Float64Array, y: Float64Array, w: Float64Array, r: number): number {
   const cubic = polynomialDual(x, y, w, 3);
   const resid = Float64Array.from(y, (v, i) => v - cubic.b[i]);
   const one = polynomialDual(x, resid, w, 1).lambdaMax;
-  const top = Math.max(one, cubic.lambdaMax / r);
-  return top > 0 ? top : 1;
+  return Math.max(one, cubic.lambdaMax / r);
 }
 
 /** One width's path on the full data and its cross-validation. Unchecked. */
@@ -267,21 +267,21 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
 function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width: number, G: number, K: number, plan: NoiseDependence, full: MixedSolveSettings, context: RunContext): WidthPath {
   const n = series.n;
   const ratio = ratioOf(width, sc);
-  const top = pathTop(sc.xs, sc.ys, sc.ws, ratio);
+  const exactTop = pathTop(sc.xs, sc.ys, sc.ws, ratio);
+  const top = exactTop > 0 ? exactTop : 1;
   const grid = new Float64Array(G);
   for (let j = 0; j < G; j++) grid[j] = top * Math.pow(MIXED_PATH_RATIO, j / (G - 1));
   const fits: MixedFit[] = [];
   let start: MixedStart = {};
-  // below the top the cubic is not the solution (one of the two duals of the cubic's residual is
-  // outside its box there), unless y is itself a cubic (a top of 0, taken as 1 by pathTop)
-  const cubicOnly = !(polynomialDual(sc.xs, sc.ys, sc.ws, 3).lambdaMax > 0);
   for (let j = 0; j < G; j++) {
     context.step(j / G / (K + 1), 'fitting kinks and bends along the penalty path');
     let f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, PATH, start);
     // a fit with no knots at all below the top is not the optimum, whatever the ADMM's residual test
     // said: its step sizes can sit at their cap of 1e5 there, where that test is loose (measured on a
     // 156-point series: the four points after the top stopped after one step each with the cubic)
-    if (j > 0 && !cubicOnly && f.kinkRows.length === 0 && f.bendRows.length === 0 && f.status.converged) {
+    // (below the top one of the two duals of the cubic's residual is outside its box; when y is itself a
+    // cubic, the top is 0 and the cubic is the solution everywhere)
+    if (j > 0 && exactTop > 0 && f.kinkRows.length === 0 && f.bendRows.length === 0 && f.status.converged) {
       f = { ...f, status: { ...f.status, converged: false } };
     }
     fits.push(f);
@@ -306,7 +306,7 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
 
 /** lambda1 (scaled) whose df is closest to the target at a fixed ratio: a path, then bisection on log(lambda1). Unchecked. */
 function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, target: number, G: number, full: MixedSolveSettings, context: RunContext): { fit: MixedFit; lambda: number; curve: CriterionPoint[] } {
-  const top = pathTop(sc.xs, sc.ys, sc.ws, ratio);
+  const top = pathTop(sc.xs, sc.ys, sc.ws, ratio) || 1;
   const lo = top * MIXED_PATH_RATIO * 1e-2;
   const seen: { lambda: number; fit: MixedFit }[] = [];
   const at = (l: number, start: MixedStart): MixedFit => { const f = solveMixed(probs, sc.ys, l, l * ratio, PATH, start); seen.push({ lambda: l, fit: f }); return f; };

@@ -1,6 +1,6 @@
 import type { SolverStatus } from '../../types';
 import { totalVariationDenoise } from './totalVariationDenoise';
-import { trendDualInteriorPoint, trendOperator, TrendOperator, INTERIOR_POINT_RULE } from './trendDualInteriorPoint';
+import { trendDualInteriorPoint, trendOperator, TrendOperator, TrendSolution, INTERIOR_POINT_RULE } from './trendDualInteriorPoint';
 import { polishTrend, PolishResult } from './polishTrend';
 import { polynomialDual, PolynomialDual } from './trendLambdaMax';
 import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } from './trendAdmm';
@@ -98,6 +98,7 @@ export interface SolveTrendOptions {
    * Try the dual interior point first, from a cold start, and return its answer when it converges
    * (cross-validation folds at penalties where it was seen to converge: {@link trendPath}). When it
    * stalls the usual chain runs; either way the fit's `interior` says what the first attempt reached.
+   * Only with `refine` false; otherwise ignored.
    */
   interiorFirst?: boolean;
   /** Knots and signs of an exact fit at this penalty (a path point): rebuilt first. */
@@ -119,6 +120,8 @@ interface SolveContext {
   f: number;
   /** Work spent so far (interior-point and ADMM iterations, restricted solves). */
   iterations: number;
+  /** With `interiorFirst`: the cold interior-point solve already made, which strategy 3 then starts from. */
+  cold?: TrendSolution;
 }
 
 /**
@@ -127,6 +130,9 @@ interface SolveContext {
  *
  * 1. {@link exactFit}: k = 0 by exact dynamic programming; lambda >= lambda_max by the weighted
  *    polynomial fit (exact).
+ * 1b. With `interiorFirst` and `refine` false (cross-validation folds): the dual interior point from
+ *    a cold start, returned when it converges; when it stalls, 2b and then 3 (which starts from that
+ *    solve instead of solving again).
  * 2. {@link fromSeed}: with `seed` (an exact fit's knots and signs at this penalty) the
  *    refinement rebuilds it in a round or two.
  * 2b. {@link fromWarmActiveSet} (orders 1 to 3): with `guess` (a fold's start from the full-data
@@ -157,30 +163,15 @@ export function solveTrend(prob: TrendProblem, lambda: number, opt: SolveTrendOp
   const exact = exactFit(prob, lambda, opt.tolerance);
   if (exact) return exact;
   const ctx: SolveContext = { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 };
-  if (!opt.interiorFirst) return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
-  const first = interiorFirst(ctx);
-  if (first.fit) return first.fit;
-  const fit = fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
-  return { ...fit, interior: first.interior, status: { ...fit.status, iterations: fit.status.iterations + first.iterations } };
-}
-
-/**
- * Strategy 0 (`interiorFirst`): the dual interior point from a cold start. Converged, its answer is
- * returned as strategy 3 returns one without refinement; stalled, only what it reached is reported.
- * Refinement wanted: undefined (the usual chain). Unchecked.
- */
-function interiorFirst(ctx: SolveContext): { fit?: TrendFit; interior?: { converged: boolean; achieved: number }; iterations: number } {
-  const { prob, lambda } = ctx;
-  const { tolerance, maxIterations, refine = true } = ctx.opt;
-  if (refine || prob.k < 1) return { iterations: 0 };
+  if (!opt.interiorFirst || opt.refine !== false) return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
+  // strategy 1b (folds only): the interior point from a cold start. Converged, strategy 3 returns it as
+  // it is; stalled, the active-set method runs, and strategy 3 after it starts from this solve
   if (!prob.op) prob.op = trendOperator(prob.x, prob.w, prob.k);
-  const sol = trendDualInteriorPoint(prob.op, prob.y, lambda, tolerance, maxIterations);
-  const interior = { converged: sol.status.converged, achieved: sol.status.achieved };
-  if (!sol.status.converged) return { interior, iterations: sol.status.iterations };
-  return {
-    fit: { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), interior, status: { ...sol.status, stoppingRule: TREND_RULE } },
-    interior, iterations: sol.status.iterations,
-  };
+  const cold = ctx.cold = trendDualInteriorPoint(prob.op, prob.y, lambda, opt.tolerance, opt.maxIterations);
+  const interior = { converged: cold.status.converged, achieved: cold.status.achieved };
+  const viaActiveSet = cold.status.converged ? undefined : fromWarmActiveSet(ctx);
+  const fit = viaActiveSet ? { ...viaActiveSet, status: { ...viaActiveSet.status, iterations: viaActiveSet.status.iterations + cold.status.iterations } } : interiorPointThenRefine(ctx);
+  return { ...fit, interior };
 }
 
 /** Rounds of the active-set Newton method started from the previous penalty's knots. */
@@ -317,7 +308,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
   if (!prob.op) prob.op = trendOperator(x, w, k);
   const x01 = x01Of(prob);
   const cache = cacheOf(prob);
-  let sol = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
+  let sol = ctx.cold ?? trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations, warm?.u);
   // without refinement (cross-validation folds) a converged interior point is enough; one that
   // stalled is not, and goes on to the refinement like any other
   if (!refine && sol.status.converged) return { b: sol.b, u: sol.u, lambda, knotRows: knotRowsOf(prob, sol.b, sol.u, lambda), status: { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE } };
@@ -365,7 +356,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations + admmIterations, admm.state);
   }
   if (!pol.ok && !sol.status.converged) pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, poly.b, undefined, cache));
-  if (!pol.ok && !sol.status.converged && warm) {
+  if (!pol.ok && !sol.status.converged && warm && !ctx.cold) {
     // a warm start can stall where a cold one does not
     const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
     const iters = sol.status.iterations + cold.status.iterations;
