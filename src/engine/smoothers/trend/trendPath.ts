@@ -108,8 +108,9 @@ export const CV_TOLERANCE = 1e-5;
  * {@link PROBE_NEAR} times the tolerance. A fold fit whose interior point still stalls falls back to
  * the active-set method, so the switch changes the cost, never the answer's tolerance. Measured
  * against the active-set method alone (bench `trend-cv-fold-switch`, 5 x 30 or 5 x 15, medians of 3
- * in one process): 0.33 to 0.58 of the time on 1,000 to 2,000 points, 0.72 to 0.94 at 5,000, 0.85 to
- * 1.00 at 1e4; the scores moved by at most 0.005 of their standard error and every minimum stayed at
+ * in one process, two runs): 0.32 to 0.59 of the time on 1,000 to 2,000 points, 0.71 to 0.99 at 5,000,
+ * 0.85 to 1.03 at 1e4 (order 2 gains nothing there: the interior point converges only at the last
+ * penalties); the scores moved by at most 0.005 of their standard error and every minimum stayed at
  * the same df. Order 1 is left out: its restricted solves are written out for hat functions and
  * cheap, and with the switch its cross-validation took 3.8 times as long.
  */
