@@ -24,6 +24,18 @@
  * against the spline's 1.90e-3); with both changes 7 of 7 (seed 5: 2.06e-3 at 23 df against the
  * spline's 2.11e-3; seed 4 by less than 0.1%). The series was not changed to make the claim pass.
  *
+ * With exact fold fits the margin narrowed. The path points and fold fits were the ADMM's, stopped at
+ * 3,000 steps: 8 to 10 of the 10 points of every chosen curve were not converged. They are now the dual
+ * interior point's (mixedDualInteriorPoint.ts, fold fits at a relative gap of 1e-5, path points 1e-7),
+ * and 4 to 5 points are flagged (the largest penalties, where the interior point stalls). The scores
+ * fell (held-out error lower on 6 of 7 seeds) and the default rule ('cv', the lowest score) now picks
+ * the widest width, 32 spacings, on 5 seeds, at 29 to 36 df. There order 1 comes closer: the mixed fit
+ * wins on 5 of 7 (seed 4 loses by 1.2%, seed 5 by 12%: 1.96e-3 at 33 df against order 1's 1.74e-3,
+ * though its own error fell from 2.06e-3). With the one-standard-error rule ('cv-simpler', the rule
+ * the automatic choice applies across methods) the fits stay at 15 to 23 df and win on 6 of 7, seed 5
+ * included (2.06e-3 at 23 df against the spline's 2.11e-3); seed 7 loses to order 3 at 15 df. Both
+ * are checked below; the former 7 of 7 rested on fold fits that had not converged.
+ *
  * What still does not hold (the expected failure at the end): the claim over a range of df at the
  * chosen width. At 3 times the cross-validated penalty (17 df) order 3 is better (2.84e-3 against
  * 2.91e-3), at a third of it (32 df) order 1 is (1.68e-3 against 1.77e-3): the best width changes
@@ -120,19 +132,22 @@ describe('the cross-validated fit against every single-order fit at its df, seed
   // 0.13 by chance; the pilots leave a little of the kinks), blocks of 6 points are held out, cross-validation
   // picks 48 df and the spline is 3.7% better there; with ordinary folds it picks 23 df and the mixed fit wins
   // (1.82e-3 against 2.16e-3). The other six seeds get ordinary folds either way.
-  const results: { seed: number; df: number; mixed: number; other: number; converged: boolean; warned: boolean }[] = [];
+  const results: { seed: number; rule: 'cv' | 'cv-simpler'; df: number; mixed: number; other: number; converged: boolean; warned: boolean }[] = [];
   beforeAll(() => {
     for (const seed of [1, 2, 3, 4, 5, 6, 7]) {
       const { x, y, truth } = kinkedThenSmoothSeries(200, seed, 0.1, 3);
       const s = seriesFromArrays(x, y);
       const mse = mseOf(truth);
-      const cv = fitMixed(s, { noise: 'independent' });
-      results.push({ seed, df: cv.df, mixed: mse(cv.fitted), other: bestOther(s, cv.df, mse), converged: cv.solver.converged, warned: cv.warnings.some((w) => w.code === 'not-converged') });
+      for (const rule of ['cv', 'cv-simpler'] as const) {
+        const cv = fitMixed(s, { noise: 'independent', rule });
+        results.push({ seed, rule, df: cv.df, mixed: mse(cv.fitted), other: bestOther(s, cv.df, mse), converged: cv.solver.converged, warned: cv.warnings.some((w) => w.code === 'not-converged') });
+      }
     }
   }, 600000);
 
   // seed 1's cross-validated fit (df 46, many knots) stopped at 1000 block steps short of the tolerance
-  // until the active-set rounds let a knot slide to the row beside it in one round
+  // until the active-set rounds let a knot slide to the row beside it in one round; from the interior
+  // point's answer every fit here reaches it in 2 block steps
   test('every fit reaches the tolerance within the default limit of block steps', () => {
     expect(MIXED_MAX_CYCLES).toBe(1000);
     for (const r of results) expect(r.converged).toBe(true);
@@ -140,18 +155,23 @@ describe('the cross-validated fit against every single-order fit at its df, seed
 
   test('a fit that stops short of the tolerance says so, and most reach it', () => {
     for (const r of results) if (!r.converged) expect(r.warned).toBe(true);
-    expect(results.filter((r) => r.converged).length).toBeGreaterThanOrEqual(6);
+    expect(results.filter((r) => r.converged).length).toBeGreaterThanOrEqual(12);
   });
 
-  test('seed 5 (the series of the claim): the mixed fit has the lowest error at its df', () => {
+  test('with the one-standard-error rule, seed 5 (the series of the claim): the mixed fit has the lowest error at its df', () => {
     // measured: 23 df, 2.06e-3 against the spline's 2.11e-3
-    const r = results.find((q) => q.seed === 5)!;
+    const r = results.find((q) => q.seed === 5 && q.rule === 'cv-simpler')!;
     expect(r.mixed).toBeLessThan(r.other);
   });
 
-  test('the mixed fit has the lowest error at its df on at least 6 of the 7 seeds', () => {
-    // measured: 6 of 7; seed 4 loses by 0.5% (2.092e-3 against the spline's 2.081e-3; it once won by less than 0.1%)
-    expect(results.filter((r) => r.mixed < r.other).length).toBeGreaterThanOrEqual(6);
+  test('with the one-standard-error rule the mixed fit has the lowest error at its df on at least 6 of the 7 seeds', () => {
+    // measured: 6 of 7; seed 7 loses to order 3 at 15 df (3.78e-3 against 3.43e-3)
+    expect(results.filter((r) => r.rule === 'cv-simpler' && r.mixed < r.other).length).toBeGreaterThanOrEqual(6);
+  });
+
+  test('with the lowest score (the default rule) the mixed fit has the lowest error at its df on at least 5 of the 7 seeds', () => {
+    // measured: 5 of 7; seeds 4 and 5 lose to order 1 at 31 and 33 df (by 1.2% and 12%)
+    expect(results.filter((r) => r.rule === 'cv' && r.mixed < r.other).length).toBeGreaterThanOrEqual(5);
   });
 });
 

@@ -20,8 +20,9 @@
  * shared folds ({@link crossValidate}): for each width of a doubling grid ({@link mixedWidths}:
  * 4, 8, 16 and 32 mean spacings of x, those up to n / 4), a path of `searchPoints` values of lambda1 log-spaced
  * from the smallest penalty at which both components are polynomials down to 1e-4 of it, so
- * widths x 10 x (folds + 1) mixed fits at the defaults (4 widths from 128 points; path and fold fits by the ADMM alone,
- * {@link mixedAdmm}; the chosen one made exact by the block steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
+ * widths x 10 x (folds + 1) mixed fits at the defaults (4 widths from 128 points; path and fold fits by the dual
+ * interior point, {@link mixedDualInteriorPoint}, or the ADMM where it stalls; the chosen one made exact by the block
+ * steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
  * `cv-simpler` the fewest df within one standard error of it ({@link choosePenalty} on the
  * grid ordered by df). A df target solves for lambda1 at the given width (default 12 mean
  * spacings).
@@ -53,6 +54,7 @@ import { trendScaling, TrendScaling } from '../trend/trendScaling';
 import { polynomialDual } from '../trend/trendLambdaMax';
 import { interpolateTrend } from '../trend/interpolateTrend';
 import { knotPositions, CV_TOLERANCE } from '../trend/trendPath';
+import { MIXED_INTERIOR_POINT_RULE } from './mixedDualInteriorPoint';
 import { solveMixed, MixedFit, MixedProblems, MixedSolveSettings, MixedStart } from './solveMixed';
 import { foldData } from '../../select/foldData';
 
@@ -150,12 +152,23 @@ export function mixedDf(fit: MixedFit): number {
  */
 export const MIXED_MAX_CYCLES = 1000;
 
-/** The returned fit: the ADMM, then exact block steps. */
-const FULL: MixedSolveSettings = { admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: MIXED_MAX_CYCLES, innerTolerance: 1e-10, innerIterations: 400, refine: true };
-/** Points of a penalty path (their df and warm starts): the ADMM alone. */
+/**
+ * The returned fit: the dual interior point ({@link mixedDualInteriorPoint}) to a relative gap of 1e-7 (the ADMM
+ * where it stalls), then the exact block steps of {@link solveMixed}. From the interior point's answer the block
+ * steps reach their tolerance in 2 steps on the invented kinked-then-smooth series (200 points, 7 seeds), where
+ * from the ADMM's they took 85 to 869.
+ */
+const FULL: MixedSolveSettings = { interiorTolerance: 1e-7, admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: MIXED_MAX_CYCLES, innerTolerance: 1e-10, innerIterations: 400, refine: true };
+/** Points of a penalty path (their df and warm starts): the interior point alone (its knots classified at a gap of 1e-7), else the ADMM. */
 const PATH: MixedSolveSettings = { ...FULL, admmTolerance: 1e-5, admmIterations: 3000, refine: false };
-/** Cross-validation folds: the ADMM alone, to a looser tolerance (they only predict held-out points). */
-const FOLD: MixedSolveSettings = { ...FULL, admmTolerance: 1e-4, admmIterations: 3000, refine: false };
+/**
+ * Cross-validation folds: the interior point at the looser gap of trend filtering's folds ({@link CV_TOLERANCE}:
+ * they only predict held-out points), from the first penalty of the path at which it converged on the full data,
+ * and one before it; the ADMM at the larger penalties above, where the interior point stalls (nearly knot-free
+ * fits: ill-conditioned Newton systems) and a failed attempt would only add its cost.
+ */
+const FOLD: MixedSolveSettings = { ...FULL, interiorTolerance: CV_TOLERANCE, admmTolerance: 1e-4, admmIterations: 3000, refine: false };
+const FOLD_ADMM: MixedSolveSettings = { ...FOLD, interiorTolerance: 0 };
 
 /**
  * The top of a path at ratio r (scaled): the smallest lambda1 at which the weighted cubic fit
@@ -273,6 +286,7 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
   for (let j = 0; j < G; j++) grid[j] = top * Math.pow(MIXED_PATH_RATIO, j / (G - 1));
   const fits: MixedFit[] = [];
   let start: MixedStart = {};
+  let interiorFrom = G;
   for (let j = 0; j < G; j++) {
     context.step(j / G / (K + 1), 'fitting kinks and bends along the penalty path');
     let f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, PATH, start);
@@ -285,16 +299,18 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
       f = { ...f, status: { ...f.status, converged: false } };
     }
     fits.push(f);
+    if (interiorFrom === G && f.status.stoppingRule === MIXED_INTERIOR_POINT_RULE && f.status.converged) interiorFrom = j;
     start = { admm: f.admm };
   }
+  const foldSettings = (j: number) => (j >= interiorFrom - 1 ? FOLD : FOLD_ADMM);
   let swAll = 0;
   for (let i = 0; i < n; i++) swAll += sc.ws[i];
   const predict = (tr: Int32Array, te: Int32Array, pens: Float64Array): Float64Array[] => {
     const { xt, yt, wt, xh, swt } = foldData(sc.xs, sc.ys, sc.ws, tr, te);
     const sub: MixedProblems = { x: xt, w: wt };
     let st: MixedStart = {};
-    return Array.from(pens, (l) => {
-      const f = solveMixed(sub, yt, l * (swt / swAll), l * ratio * (swt / swAll), FOLD, st);
+    return Array.from(pens, (l, j) => {
+      const f = solveMixed(sub, yt, l * (swt / swAll), l * ratio * (swt / swAll), foldSettings(j), st);
       st = { admm: f.admm };
       const pa = interpolateTrend(xt, f.kinks, 1, xh).value, pc = interpolateTrend(xt, f.bends, 3, xh).value;
       return Float64Array.from(pa, (v, i) => sc.y0 + sc.c * (v + pc[i]));
@@ -450,7 +466,7 @@ export const mixedAnalysis: AnalysisDefinition = {
     { name: 'width', kind: 'number', above: 0, help: 'widest feature drawn as a kink rather than a smooth bend, in units of x (default: chosen by cross-validation among 4, 8, 16 and 32 spacings of x, those up to a quarter of the points; 12 spacings with a penalty or df)' },
     SEASON_OPTION,
     { name: 'tolerance', kind: 'number', above: 0, max: 0.001, help: 'largest change of the kinks in a final solver step, relative to the sd of y (default 1e-5)' },
-    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'limit of the exact block steps after the ADMM (default 1000)' },
+    { name: 'maxIterations', kind: 'integer', min: 1, max: 100000, help: 'limit of the exact block steps that finish the fit (default 1000)' },
   ],
   ties: 'merge',
   minPoints: () => MIXED_MIN_POINTS,

@@ -12,8 +12,10 @@
  * The sum a + c is unique (the loss is strictly convex in it); the split is unique up to that
  * constraint when the L1 terms do not tie (generic data).
  *
- * Method: first the ADMM of {@link mixedAdmm} (banded, O(n) per step) from the given start; path
- * points and cross-validation folds stop there (`refine` false). Then block coordinate descent on
+ * Method: first the dual interior point of {@link mixedDualInteriorPoint} (banded, O(n) per Newton step,
+ * cold start) to the relative gap `interiorTolerance`; where it stalls above that (nearly knot-free fits on
+ * long series), the ADMM of {@link mixedAdmm} from the given start. Path points and cross-validation folds
+ * stop there (`refine` false). Then block coordinate descent on
  * the same machinery as the seasonal decomposition
  * (solveDecomposition.ts). With c minimised out exactly, the map
  *   F(a) = TF1(y - c*(a); lambda1),   c*(a) = (I - P) TF3(y - a; lambda3)
@@ -29,7 +31,7 @@
  * from a mixed point is kept only when it does not raise the objective above the last kept
  * one, else the memory is cleared and a plain step taken from that one.
  *
- * If the block steps end above the ADMM's objective (an inner solve that failed), the ADMM's
+ * If the block steps end above the first stage's objective (an inner solve that failed), the ADMM's
  * answer is returned, marked not converged.
  *
  * Stopping rule: a plain step moves the kink component by at most `tolerance` (scaled units:
@@ -45,6 +47,7 @@ import { differenceOperator } from '../../linalg/difference';
 import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
 import { mixedAdmm, mixedOperators, MixedAdmmState, MixedOperators } from './mixedAdmm';
 import { smallSpdSolve } from '../../linalg/smallSpdSolve';
+import { mixedDualInteriorPoint, mixedDualOperator, MixedDualOperator } from './mixedDualInteriorPoint';
 
 /** Solution of {@link solveMixed} in the scaled units it was given. */
 export interface MixedFit {
@@ -58,8 +61,8 @@ export interface MixedFit {
   /** The last order-1 and order-3 trend-filtering solves (knot rows, duals), when the exact block steps ran. */
   kinkFit?: TrendFit;
   bendFit?: TrendFit;
-  /** The ADMM's iterates (warm start at the next penalty). */
-  admm: MixedAdmmState;
+  /** The ADMM's iterates (warm start at the next penalty), when the ADMM ran. */
+  admm?: MixedAdmmState;
   /** Objective at the returned point. */
   objective: number;
   status: SolverStatus;
@@ -74,6 +77,11 @@ export interface MixedStart {
 
 /** Settings of {@link solveMixed}. */
 export interface MixedSolveSettings {
+  /**
+   * Relative duality gap at which the interior point's answer is taken ({@link mixedDualInteriorPoint});
+   * 0 skips it. Where it stalls above this, the ADMM runs instead.
+   */
+  interiorTolerance: number;
   /** Tolerance eps of the ADMM's residuals ({@link mixedAdmm}). */
   admmTolerance: number;
   /** Iteration limit of the ADMM. */
@@ -86,7 +94,7 @@ export interface MixedSolveSettings {
   innerTolerance: number;
   /** Iteration limit of each inner trend solve's interior point. */
   innerIterations: number;
-  /** False for cross-validation folds and path points: the ADMM's answer without the exact block steps. */
+  /** False for cross-validation folds and path points: the first stage's answer (interior point or ADMM) without the exact block steps. */
   refine: boolean;
 }
 
@@ -102,7 +110,11 @@ export interface MixedProblems {
   one?: TrendProblem;
   three?: TrendProblem;
   ops?: MixedOperators;
+  dual?: MixedDualOperator;
 }
+
+/** Most Newton steps of the interior point (it converges in 10 to 30 where it converges at all). */
+export const MIXED_INTERIOR_ITERATIONS = 60;
 
 /** The objective of the mixed problem. Unchecked. */
 export function mixedObjective(x: Float64Array, y: Float64Array, w: Float64Array, a: Float64Array, c: Float64Array, lambda1: number, lambda3: number): number {
@@ -124,8 +136,16 @@ export function mixedObjective(x: Float64Array, y: Float64Array, w: Float64Array
 export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: number, lambda3: number, s: MixedSolveSettings, start: MixedStart = {}): MixedFit {
   const { x, w } = probs;
   const n = x.length;
-  if (!probs.ops) probs.ops = mixedOperators(x, w);
-  const ad = mixedAdmm(probs.ops, y, lambda1, lambda3, s.admmTolerance, s.admmIterations, start.admm);
+  let ad: { kinks: Float64Array; bends: Float64Array; kinkRows: number[]; bendRows: number[]; state?: MixedAdmmState; status: SolverStatus } | undefined;
+  if (s.interiorTolerance > 0) {
+    if (!probs.dual) probs.dual = mixedDualOperator(x, w);
+    const ip = mixedDualInteriorPoint(probs.dual, y, lambda1, lambda3, s.interiorTolerance, MIXED_INTERIOR_ITERATIONS);
+    if (ip.status.converged) ad = { ...ip, state: start.admm };
+  }
+  if (!ad) {
+    if (!probs.ops) probs.ops = mixedOperators(x, w);
+    ad = mixedAdmm(probs.ops, y, lambda1, lambda3, s.admmTolerance, s.admmIterations, start.admm);
+  }
   if (!s.refine) {
     return {
       kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state,
@@ -216,7 +236,7 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
   a = Float64Array.from(fit1!.b);
   const admmObjective = mixedObjective(x, y, w, ad.kinks, ad.bends, lambda1, lambda3);
   if (!(mixedObjective(x, y, w, a, c, lambda1, lambda3) <= admmObjective)) {
-    // the exact steps did not improve on the ADMM's answer (inner solves that failed): keep the ADMM's
+    // the exact steps did not improve on the first stage's answer (inner solves that failed): keep it
     return {
       kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state, objective: admmObjective,
       status: { ...ad.status, converged: false, stoppingRule: `${ad.status.stoppingRule}; the exact block steps that followed did not lower the objective and were discarded` },
