@@ -34,8 +34,11 @@ import { mixedKnotBends, MixedModel } from './mixed/mixedAnalysis';
 
 const pct = (v: number) => `${Math.round(100 * v)}%`;
 
-/** The plain sentence: what won, against what, by how much. */
-function explain(rows: CandidateRow[], chosen: number, best: number, rule: string): string {
+/**
+ * The plain sentence: what won, against what, by how much. `noKinks`: the chosen fit is a mixed trend whose
+ * kink part has no kinks (a smooth-bends fit in effect), so the sentence may not say the series has kinks. Unchecked.
+ */
+export function explain(rows: CandidateRow[], chosen: number, best: number, rule: string, noKinks = false): string {
   const c = rows[chosen];
   const ok = rows.filter((r) => !r.skipped);
   if (ok.length === 1) return `Only ${c.label} could be fitted to these data, so it was used.`;
@@ -50,7 +53,7 @@ function explain(rows: CandidateRow[], chosen: number, best: number, rule: strin
   const shape = c.method === 'trend' && c.options.order === 0 ? 'the series moves in steps'
     : c.method === 'trend' && c.options.order === 1 ? 'the series has sharp bends'
       : c.method === 'spline' ? 'the series bends smoothly'
-        : c.method === 'mixed' ? 'the series has sharp kinks in places and smooth bends in others'
+        : c.method === 'mixed' ? (noKinks ? 'the series bends smoothly (this fit found no kinks, so it is a smooth-bends trend in effect)' : 'the series has sharp kinks in places and smooth bends in others')
         : 'its shape fits the series';
   return `${cap(c.label)} predicted held-out points best: ${shape}; its cross-validation error is ${pct(gain)} lower than ${vs.label}'s${rule === 'cv-simpler' ? ', and no simpler fit came within one standard error' : ''}.`;
 }
@@ -176,7 +179,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
       : fit.method === 'mixed' ? mixedKnotBends(series, fit.knots, fit.model as MixedModel) : undefined;
     if (bends) win.smooth = { ...fit, bends };
   }
-  const reason = explain(rows, chosen, best, rule);
+  const reason = explain(rows, chosen, best, rule, win.smooth?.method === 'mixed' && win.smooth.knots.length === 0);
   const notes = [
     warning('note', `Automatic choice among ${ok.length} fits by ${folds}-fold cross-validation on the same held-out points: ${reason} Each score is the minimum of its own curve, so all are slightly optimistic alike.`),
   ];
