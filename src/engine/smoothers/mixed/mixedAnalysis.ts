@@ -445,11 +445,13 @@ export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
 }
 
 /**
- * Longest series on which the penalties are chosen from the data (cross-validation or a df target): the
- * cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine (npm run
- * bench -- --only=mixed), and 1.0 to 1.3 s of CPU time at 1,000 points (two seeded series, 4 widths),
- * 4.5 to 5.1 s on the 256-point Blocks and Doppler series, so longer series are refused at once; a given
- * penalty has no limit.
+ * Longest series on which the penalties are chosen from the data (cross-validation or a df target). With the
+ * ADMM alone the cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine
+ * (npm run bench -- --only=mixed), 1.0 to 1.3 s of CPU time at 1,000 points and 4.5 to 5.1 s on the 256-point
+ * Blocks and Doppler series; with the interior point 1.45 s at 200 points, 0.46 s at 500 and 0.78 s on Doppler.
+ * The limit stays: from about 600 points the path's range (1e-4 of its top) stops short of the penalties at
+ * which kinks appear, so longer series would get a smooth-bends fit under this method's name; a given penalty
+ * has no limit.
  */
 export const MIXED_DATA_DRIVEN_LIMIT = 1000;
 
