@@ -19,7 +19,8 @@
  * ones as smooth bends. With neither given both are chosen by K-fold cross-validation on the
  * shared folds ({@link crossValidate}): for each width of a doubling grid ({@link mixedWidths}:
  * 4, 8, 16 and 32 mean spacings of x, those up to n / 4), a path of `searchPoints` values of lambda1 log-spaced
- * from the smallest penalty at which both components are polynomials down to 1e-4 of it, so
+ * from the smallest penalty at which both components are polynomials down to 1e-4 of it (further, at the same
+ * spacing, where none of its fits has kinks by then: {@link MIXED_PATH_RATIO}), so
  * widths x 10 x (folds + 1) mixed fits at the defaults (4 widths from 128 points; path and fold fits by the dual
  * interior point, {@link mixedDualInteriorPoint}, or the ADMM where it stalls; the chosen one made exact by the block
  * steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
@@ -92,8 +93,18 @@ export function mixedWidths(n: number): number[] {
 /** Width used with a fixed penalty or a df target when none is given, in mean spacings of x. */
 export const MIXED_DEFAULT_WIDTH = 12;
 
-/** Smallest lambda1 of the path relative to its largest. */
+/**
+ * Smallest lambda1 of the path relative to its largest, unless no fit of the path has kinks by then: the path
+ * then goes on at the same spacing (at most as many points again) until {@link MIXED_PATH_EXTRA} points after
+ * the first fit with kinks. The top is set by the cubic's order-3 dual, which grows like n^4 in mean spacings of
+ * x, while kinks appear at lambda1 of the order of the order-1 dual (like n^2): from about 600 points 1e-4 of
+ * the top no longer reached them, and every fit of the path was smooth bends only (on 730 points: the cubic at
+ * every point).
+ */
 export const MIXED_PATH_RATIO = 1e-4;
+
+/** Points of a path's extension after its first fit with kinks (see {@link MIXED_PATH_RATIO}). */
+export const MIXED_PATH_EXTRA = 3;
 
 /** Settings of {@link fitMixed} (resolved options). */
 export interface MixedSettings {
@@ -270,8 +281,10 @@ export function fitMixed(series: Series, s: MixedSettings, context: RunContext =
     const atEdge = pick.j === 0 || pick.j === chosen.grid.length - 1;
     criterion = { name: 'cv', value: pick.point.score, curve, atEdge };
     if (atEdge) warnings.push(edgeWarning('cross-validation', pick.j === chosen.grid.length - 1 ? 'rough' : 'smooth', toData1(lam1, sc), 'a cubic polynomial'));
-    warnings.push(warning('note', `Both penalties chosen by ${K}-fold cross-validation over ${list.length} widths (${list.map((v) => showNumber(Number(v.toPrecision(3)))).join(', ')} in units of x) x ${G} penalties: width ${showNumber(Number(width.toPrecision(3)))} (features narrower than this are drawn as kinks, wider ones as smooth bends).`));
-    stoppingNote = `; penalties from a grid of ${list.length} widths x ${G} penalties by ${rule}`;
+    const tried = paths.map((pa) => pa.grid.length);
+    const perWidth = Math.min(...tried) === Math.max(...tried) ? `${G}` : `${Math.min(...tried)} to ${Math.max(...tried)}`;
+    warnings.push(warning('note', `Both penalties chosen by ${K}-fold cross-validation over ${list.length} widths (${list.map((v) => showNumber(Number(v.toPrecision(3)))).join(', ')} in units of x) x ${perWidth} penalties: width ${showNumber(Number(width.toPrecision(3)))} (features narrower than this are drawn as kinks, wider ones as smooth bends).`));
+    stoppingNote = `; penalties from a grid of ${list.length} widths x ${perWidth} penalties by ${rule}`;
   }
   return assemble(series, sc, fit, lam1, width, criterion, warnings, dataDriven, s, widths, stoppingNote, !context.comparing);
 }
@@ -282,14 +295,21 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
   const ratio = ratioOf(width, sc);
   const exactTop = pathTop(sc.xs, sc.ys, sc.ws, ratio);
   const top = exactTop > 0 ? exactTop : 1;
-  const grid = new Float64Array(G);
-  for (let j = 0; j < G; j++) grid[j] = top * Math.pow(MIXED_PATH_RATIO, j / (G - 1));
+  const lambdas: number[] = [];
   const fits: MixedFit[] = [];
   let start: MixedStart = {};
-  let interiorFrom = G;
-  for (let j = 0; j < G; j++) {
-    context.step(j / G / (K + 1), 'fitting kinks and bends along the penalty path');
-    let f = solveMixed(probs, sc.ys, grid[j], grid[j] * ratio, PATH, start);
+  let interiorFrom = Infinity;
+  // the path goes on below MIXED_PATH_RATIO at the same spacing while none of its fits has kinks, until
+  // MIXED_PATH_EXTRA points after the first that has (at most G more points)
+  let kinked = -1, extending = false;
+  for (let j = 0; ; j++) {
+    if (j === G) extending = kinked < 0;
+    if (j >= G && !(extending && j < 2 * G && (kinked < 0 || j <= kinked + MIXED_PATH_EXTRA))) break;
+    context.step(Math.min(j / G, 1) / (K + 1), 'fitting kinks and bends along the penalty path');
+    const lambda = top * Math.pow(MIXED_PATH_RATIO, j / (G - 1));
+    lambdas.push(lambda);
+    let f = solveMixed(probs, sc.ys, lambda, lambda * ratio, PATH, start);
+    if (kinked < 0 && f.kinkRows.length > 0) kinked = j;
     // a fit with no knots at all below the top is not the optimum, whatever the ADMM's residual test
     // said: its step sizes can sit at their cap of 1e5 there, where that test is loose (measured on a
     // 156-point series: the four points after the top stopped after one step each with the cubic)
@@ -299,9 +319,10 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
       f = { ...f, status: { ...f.status, converged: false } };
     }
     fits.push(f);
-    if (interiorFrom === G && f.status.stoppingRule === MIXED_INTERIOR_POINT_RULE && f.status.converged) interiorFrom = j;
+    if (interiorFrom === Infinity && f.status.stoppingRule === MIXED_INTERIOR_POINT_RULE && f.status.converged) interiorFrom = j;
     start = { admm: f.admm };
   }
+  const grid = Float64Array.from(lambdas);
   const foldSettings = (j: number) => (j >= interiorFrom - 1 ? FOLD : FOLD_ADMM);
   let swAll = 0;
   for (let i = 0; i < n; i++) swAll += sc.ws[i];
@@ -448,10 +469,9 @@ export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
  * Longest series on which the penalties are chosen from the data (cross-validation or a df target). With the
  * ADMM alone the cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine
  * (npm run bench -- --only=mixed), 1.0 to 1.3 s of CPU time at 1,000 points and 4.5 to 5.1 s on the 256-point
- * Blocks and Doppler series; with the interior point 1.45 s at 200 points, 0.46 s at 500 and 0.78 s on Doppler.
- * The limit stays: from about 600 points the path's range (1e-4 of its top) stops short of the penalties at
- * which kinks appear, so longer series would get a smooth-bends fit under this method's name; a given penalty
- * has no limit.
+ * Blocks and Doppler series; with the interior point and the path's extension (the time of a run depends on
+ * how far its paths go) 1 to 2 s at 200 points, 0.7 to 1.9 s at 500 and 1.1 to 4.8 s at 1,000 (seeded
+ * kinked-then-smooth series), so longer series are refused at once; a given penalty has no limit.
  */
 export const MIXED_DATA_DRIVEN_LIMIT = 1000;
 
