@@ -34,9 +34,9 @@ test('auto compares the mixed trend and computes knot bends for the winner only'
 }, 600000);
 
 test('auto does not say a series has kinks when the chosen mixed trend found none', () => {
-  // the automatic choice's 730-point bench series (test/helpers/autoBenchShapes.ts): the mixed trend's path ends
-  // above the penalties at which kinks appear on this many points, so its cross-validated fit is smooth bends only
-  // (measured: 0 kinks, 14 bend knots, 18 df); it is chosen as the simplest fit within one standard error
+  // the automatic choice's 730-point bench series (test/helpers/autoBenchShapes.ts): the mixed trend's paths reach
+  // fits with kinks, but its cross-validation prefers smooth bends only here (measured: 0 kinks, 14 bend knots,
+  // 18 df), and it is chosen as the simplest fit within one standard error
   const n = 730;
   const z = normalStream(n + 5);
   const x = Array.from({ length: n }, (_, i) => i + 1);
