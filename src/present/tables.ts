@@ -85,7 +85,8 @@ export function shownKnots(result: FitResult): { x: number; index: number; row: 
 /** The knots table: where the fitted curve changes form, and by how much (bends when the method gives them). */
 export function knotsTable(result: FitResult, series: Series, ctx: PresentContext): PresentTable {
   const xp = xPresenter(series.x, ctx.xDates);
-  const order = result.method === 'trend' ? Number((result.options as { order?: number }).order ?? 1) : 3;
+  // the mixed trend's knots are the kinks of its straight pieces: slope changes, as trend filtering of order 1
+  const order = result.method === 'trend' ? Number((result.options as { order?: number }).order ?? 1) : result.method === 'mixed' ? 1 : 3;
   let change = ORDER_CHANGE[Math.max(0, Math.min(3, order))];
   if (order >= 1) change += ctx.xDates ? ` per day${order > 1 ? `^${order}` : ''}` : ` per x unit${order > 1 ? `^${order}` : ''}`;
   const rounding = roundForData(series.y);

@@ -34,6 +34,18 @@ describe('tables without a sheet (command line): data rows counted from 1, x at 
     expect(at10![1].value).toBe(20);
   });
 
+  test('the mixed trend\'s knots (its kinks) are headed as slope changes, at the kink of |x - 10|', () => {
+    const { series, result } = fitCells(ys, xs, null, { method: 'mixed', penalty: 1e-3 });
+    const t = knotsTable(result, series, { xDates: false });
+    expect(t.header).toEqual(['x', 'row', 'slope change per x unit']);
+    const at10 = t.rows.find((r) => r[0].text === '10.0');
+    expect(at10).toBeDefined();
+    expect(at10![1].value).toBe(20);
+    // the slope of |x - 10| goes from -1 to +1: a change of about 2 (a tiny penalty shrinks it a little)
+    expect(at10![2].value as number).toBeGreaterThan(1.9);
+    expect(at10![2].value as number).toBeLessThanOrEqual(2);
+  });
+
   test('segments list their data rows and the model fields', () => {
     const y = [...Array(20).fill(0), ...Array(20).fill(10)].map((v, i) => v + ((i * 7) % 5) * 0.1);
     const { series, result } = breaksFromCells(y, null, null, { model: 'mean', sigma: 1 });
