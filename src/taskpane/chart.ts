@@ -365,7 +365,7 @@ export function drawCurve(box: HTMLElement, c: NonNullable<View['curve']>, heigh
   box.dataset.chosen = `${c.xLabel} ${Number(c.chosenDf.toPrecision(3))}`;
   const note = document.createElement('div');
   note.className = 'readout';
-  note.textContent = `Chosen: ${c.xLabel} ${Number(c.chosenDf.toPrecision(3))}, ${c.name} ${formatNumber(chosenY, 4)}.`;
+  note.textContent = `Chosen: ${c.xLabel} ${Number(c.chosenDf.toPrecision(3))}, ${c.name} ${formatNumber(chosenY, 4)}.${c.leftOut ? ` ${c.leftOut} ${c.leftOut === 1 ? 'point' : 'points'} of the search not drawn: their fits did not converge, so their degrees of freedom are not known.` : ''}`;
   box.append(note);
 }
 

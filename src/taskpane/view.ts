@@ -42,7 +42,8 @@ export interface View {
   /** What holds for every result of this kind (ends get revised, a break is not its cause): shown under the chart, not as warnings. */
   caveats: { code: string; message: string }[];
   /** Criterion against df, with the chosen point, for "why this penalty". */
-  curve?: { df: number[]; score: number[]; chosenDf: number; chosenScore: number; name: string; xLabel: string; step?: boolean };
+  /** `leftOut`: points of the search not drawn because their fits did not converge. */
+  curve?: { df: number[]; score: number[]; chosenDf: number; chosenScore: number; name: string; xLabel: string; step?: boolean; leftOut?: number };
   /** One value per selected data row (header excluded), rounded for the data, '' where dropped. */
   column: (number | string)[];
   /** Excel number format of the fitted values. */
@@ -139,8 +140,11 @@ export function viewOf(a: Analysis, block: CellBlock, facts: RunFacts): View {
   if (a.kind === 'smooth') {
     const { result, choice } = a;
     const n = series.n;
-    const curve = result.criterion.curve && result.criterion.curve.length > 1
-      ? { df: result.criterion.curve.map((p) => p.df), score: result.criterion.curve.map((p) => p.score), chosenDf: result.df, chosenScore: result.criterion.value, name: `${result.criterion.name.toUpperCase()} score`, xLabel: 'degrees of freedom' }
+    // points whose fit did not converge carry no fit's df (a solver stopped short counts its knots wrongly), so the
+    // chart leaves them out and says how many; the sheet's penalty table keeps them, marked
+    const drawn = result.criterion.curve?.filter((p) => p.converged !== false);
+    const curve = drawn && drawn.length > 1
+      ? { df: drawn.map((p) => p.df), score: drawn.map((p) => p.score), chosenDf: result.df, chosenScore: result.criterion.value, name: `${result.criterion.name.toUpperCase()} score`, xLabel: 'degrees of freedom', leftOut: result.criterion.curve!.length - drawn.length }
       : undefined;
     const band = result.se ? {
       lower: Float64Array.from(result.fitted, (f, i) => f - 1.96 * result.se![i]),
