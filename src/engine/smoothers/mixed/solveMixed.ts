@@ -14,8 +14,9 @@
  *
  * Method: first the dual interior point of {@link mixedDualInteriorPoint} (banded, O(n) per Newton step,
  * cold start) to the relative gap `interiorTolerance`; where it stalls above that (nearly knot-free fits on
- * long series), the ADMM of {@link mixedAdmm} from the given start. Path points and cross-validation folds
- * stop there (`refine` false). Then block coordinate descent on
+ * long series), the ADMM of {@link mixedAdmm} from the given start, or, with `exactAfterStall`, the block steps
+ * below from the interior point's best iterate. Path points and cross-validation folds otherwise stop there
+ * (`refine` false). Then block coordinate descent on
  * the same machinery as the seasonal decomposition
  * (solveDecomposition.ts). With c minimised out exactly, the map
  *   F(a) = TF1(y - c*(a); lambda1),   c*(a) = (I - P) TF3(y - a; lambda3)
@@ -82,6 +83,12 @@ export interface MixedSolveSettings {
    * 0 skips it. Where it stalls above this, the ADMM runs instead.
    */
   interiorTolerance: number;
+  /**
+   * Where the interior point stalls with its best relative gap at most this, the exact block steps start from
+   * its best iterate, even when `refine` is false, instead of the ADMM; 0 never. The stalls are near the top of a
+   * path (few knots), where the ADMM was slow too (up to its 3,000-step limit) and the block steps are cheap.
+   */
+  exactAfterStall: number;
   /** Tolerance eps of the ADMM's residuals ({@link mixedAdmm}). */
   admmTolerance: number;
   /** Iteration limit of the ADMM. */
@@ -94,7 +101,7 @@ export interface MixedSolveSettings {
   innerTolerance: number;
   /** Iteration limit of each inner trend solve's interior point. */
   innerIterations: number;
-  /** False for cross-validation folds and path points: the first stage's answer (interior point or ADMM) without the exact block steps. */
+  /** False for cross-validation folds and path points: the first stage's answer (interior point or ADMM) without the exact block steps (but see `exactAfterStall`). */
   refine: boolean;
 }
 
@@ -137,16 +144,18 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
   const { x, w } = probs;
   const n = x.length;
   let ad: { kinks: Float64Array; bends: Float64Array; kinkRows: number[]; bendRows: number[]; state?: MixedAdmmState; status: SolverStatus } | undefined;
+  let stalled = false;
   if (s.interiorTolerance > 0) {
     if (!probs.dual) probs.dual = mixedDualOperator(x, w);
     const ip = mixedDualInteriorPoint(probs.dual, y, lambda1, lambda3, s.interiorTolerance, MIXED_INTERIOR_ITERATIONS);
     if (ip.status.converged) ad = { ...ip, state: start.admm };
+    else if (ip.status.achieved <= s.exactAfterStall) { ad = { ...ip, state: start.admm }; stalled = true; }
   }
   if (!ad) {
     if (!probs.ops) probs.ops = mixedOperators(x, w);
     ad = mixedAdmm(probs.ops, y, lambda1, lambda3, s.admmTolerance, s.admmIterations, start.admm);
   }
-  if (!s.refine) {
+  if (!s.refine && !stalled) {
     return {
       kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state,
       objective: mixedObjective(x, y, w, ad.kinks, ad.bends, lambda1, lambda3), status: ad.status,
