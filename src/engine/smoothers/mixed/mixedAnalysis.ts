@@ -476,9 +476,9 @@ export function evaluateMixed(result: FitResult, at: Float64Array): Evaluation {
  * Longest series on which the penalties are chosen from the data (cross-validation or a df target). With the
  * ADMM alone the cross-validated choice took from 1 s to 40 s at 200 to 500 points on a loaded 2-core machine
  * (npm run bench -- --only=mixed), 1.0 to 1.3 s of CPU time at 1,000 points and 4.5 to 5.1 s on the 256-point
- * Blocks and Doppler series; with the interior point and the path's extension (the time of a run depends on
- * how far its paths go) 1 to 2 s at 200 points, 0.7 to 1.9 s at 500 and 1.1 to 4.8 s at 1,000 (seeded
- * kinked-then-smooth series), so longer series are refused at once; a given penalty has no limit.
+ * Blocks and Doppler series; with the interior point, the exact steps where it stalls and the longer paths
+ * 0.17 to 0.26 s at 200 points, 0.53 to 1.7 s at 500 and 2.9 to 4.1 s at 1,000 (seeded kinked-then-smooth series,
+ * the first run in a process included), so longer series are refused at once; a given penalty has no limit.
  */
 export const MIXED_DATA_DRIVEN_LIMIT = 1000;
 
