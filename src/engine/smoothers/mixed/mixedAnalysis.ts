@@ -175,9 +175,9 @@ export const MIXED_MAX_CYCLES = 1000;
 const FULL: MixedSolveSettings = { interiorTolerance: 1e-7, exactAfterStall: 0, admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: MIXED_MAX_CYCLES, innerTolerance: 1e-10, innerIterations: 400, refine: true };
 /**
  * Points of a penalty path (their df and warm starts): the interior point alone (its knots classified at a gap of
- * 1e-7, which misses bend knots with tiny jumps: on a 730-point series 15 against the exact fit's 25 at one penalty,
- * 16 against 18 and 31 against 34 at others, kinks within 2; finishing every point exactly would cost about 0.7 s
- * there, estimated from the 9 ms the exact steps took per point); where it stalls (the top of a path: few knots), the exact block steps from its best iterate if that is
+ * 1e-7, within 2 of the exact fit's count on a 730-point series, 0.5 off on average: KNOT_SLACK_SHARE in
+ * mixedDualInteriorPoint.ts; finishing every point exactly would cost about 0.7 s there, estimated from the 9 ms
+ * the exact steps took per point); where it stalls (the top of a path: few knots), the exact block steps from its best iterate if that is
  * within a relative gap of 1e-2, at most 200 of them, else the ADMM. On the invented 200-point kinked-then-smooth
  * series (7 seeds) this took the cross-validated choice from 0.93 to 1.27 s to 0.18 to 0.22 s, every path point
  * converged (4 of 10 of the chosen width's did not: the ADMM stopped at its step limit there), and the choices and
