@@ -22,6 +22,7 @@ import type { SolverStatus } from '../../types';
 import { KnotwiseError, showNumber } from '../../errors';
 import { differenceRows } from '../../linalg/differenceRows';
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
+import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
 
 /** Iterates carried from one penalty to the next (warm start). */
 export interface MixedAdmmState {
@@ -173,7 +174,7 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
   }
   // fitted components: the ones whose differences are the thresholded z up to the primal residual;
   // straight lines moved from the bends to the kinks (weighted projection), which changes neither penalty
-  const line = weightedLine(ops.x, c, w);
+  const line = weightedPolynomialFit(ops.x, c, w, 1);
   const bends = Float64Array.from(c, (v, i) => v - line[i]);
   const kinks = Float64Array.from(a, (v, i) => v + line[i]);
   const kinkRows: number[] = [], bendRows: number[] = [];
@@ -184,15 +185,4 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
     state: { z1, u1, z3, u3, c: bends, rho1, rho3 },
     status: { converged, iterations: Math.min(it, maxIterations), tolerance, achieved, stoppingRule: MIXED_ADMM_RULE },
   };
-}
-
-/** Weighted least-squares straight line through (x, v). Unchecked. */
-function weightedLine(x: Float64Array, v: Float64Array, w: Float64Array): Float64Array {
-  let sw = 0, sx = 0, sv = 0;
-  for (let i = 0; i < x.length; i++) { sw += w[i]; sx += w[i] * x[i]; sv += w[i] * v[i]; }
-  const mx = sx / sw, mv = sv / sw;
-  let sxx = 0, sxv = 0;
-  for (let i = 0; i < x.length; i++) { const dx = x[i] - mx; sxx += w[i] * dx * dx; sxv += w[i] * dx * (v[i] - mv); }
-  const b = sxx > 0 ? sxv / sxx : 0;
-  return Float64Array.from(x, (xi) => mv + b * (xi - mx));
 }

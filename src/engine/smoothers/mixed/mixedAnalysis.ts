@@ -20,7 +20,7 @@
  * shared folds ({@link crossValidate}): for each width of a doubling grid ({@link mixedWidths}:
  * 4, 8, 16 and 32 mean spacings of x, those up to n / 4), a path of `searchPoints` values of lambda1 log-spaced
  * from the smallest penalty at which both components are polynomials down to 1e-4 of it (further, at the same
- * spacing, where none of its fits has kinks by then: {@link MIXED_PATH_RATIO}), so
+ * spacing, while its fits have fewer than n / 5 df: {@link MIXED_PATH_RATIO}), so
  * widths x 10 x (folds + 1) mixed fits at the defaults (4 widths from 128 points; path and fold fits by the dual
  * interior point, {@link mixedDualInteriorPoint}, or the ADMM where it stalls; the chosen one made exact by the block
  * steps of {@link solveMixed}); `cv` takes the lowest error over the grid,
@@ -55,7 +55,6 @@ import { trendScaling, TrendScaling } from '../trend/trendScaling';
 import { polynomialDual } from '../trend/trendLambdaMax';
 import { interpolateTrend } from '../trend/interpolateTrend';
 import { knotPositions, CV_TOLERANCE } from '../trend/trendPath';
-import { MIXED_INTERIOR_POINT_RULE } from './mixedDualInteriorPoint';
 import { solveMixed, MixedFit, MixedProblems, MixedSolveSettings, MixedStart } from './solveMixed';
 import { foldData } from '../../select/foldData';
 
@@ -328,7 +327,7 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
       f = { ...f, status: { ...f.status, converged: false } };
     }
     fits.push(f);
-    if (interiorFrom === Infinity && f.status.stoppingRule === MIXED_INTERIOR_POINT_RULE && f.status.converged) interiorFrom = j;
+    if (interiorFrom === Infinity && f.interior) interiorFrom = j;
     start = { admm: f.admm };
   }
   const grid = Float64Array.from(lambdas);

@@ -45,20 +45,16 @@
  * uses another solver. Works in scaled units (unit mean spacing, y of sd 1). Unchecked.
  */
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
-import { differenceRows } from '../../linalg/differenceRows';
 import { differenceOperator, differenceTranspose } from '../../linalg/difference';
 import { differenceGram, applyDifferenceGram } from '../../linalg/differenceGram';
 import type { SolverStatus } from '../../types';
 import { constantFitObjective } from '../trend/constantFitObjective';
+import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
+import type { MixedOperators } from './mixedAdmm';
 
-/** Pieces shared by solves on the same x and w. */
-export interface MixedDualOperator {
-  x: Float64Array;
-  w: Float64Array;
+/** Pieces shared by solves on the same x and w: the ADMM's operators (rows of D(x, 2) and D(x, 4)) and these. */
+export interface MixedDualOperator extends MixedOperators {
   winv: Float64Array;
-  /** Rows of D(x, 2) (3 per row) and D(x, 4) (5 per row). */
-  r2: Float64Array;
-  r4: Float64Array;
   /** Rows of S with D(x, 4) = S D(x, 2): row r holds S(r, r .. r + 2). */
   s: Float64Array;
   /** Band of Q = D(x, 4) W^{-1} D(x, 4)^T, half-bandwidth 4. */
@@ -83,12 +79,10 @@ export function kinkToBendRows(r2: Float64Array, r4: Float64Array, n: number): F
   return s;
 }
 
-/** Builds the {@link MixedDualOperator}. O(n). Unchecked: n >= 6, x strictly increasing. */
-export function mixedDualOperator(x: Float64Array, w: Float64Array): MixedDualOperator {
-  const n = x.length;
-  const winv = Float64Array.from(w, (v) => 1 / v);
-  const r2 = differenceRows(x, 2), r4 = differenceRows(x, 4);
-  return { x, w, winv, r2, r4, s: kinkToBendRows(r2, r4, n), gram: differenceGram(r4, winv, 4) };
+/** Builds the {@link MixedDualOperator} on the ADMM's operators of the same points. O(n). Unchecked: n >= 6, x strictly increasing. */
+export function mixedDualOperator(ops: MixedOperators): MixedDualOperator {
+  const winv = Float64Array.from(ops.w, (v) => 1 / v);
+  return { ...ops, winv, s: kinkToBendRows(ops.r2, ops.r4, ops.x.length), gram: differenceGram(ops.r4, winv, 4) };
 }
 
 /** Result in the scaled units the problem was given in. */
@@ -141,7 +135,7 @@ function applySt(s: Float64Array, u: Float64Array, out: Float64Array): void {
  * @param maxIterations - Newton-step limit
  * @example
  * ```ts
- * const sol = mixedDualInteriorPoint(mixedDualOperator(x, w), y, 2, 50, 1e-8, 100);
+ * const sol = mixedDualInteriorPoint(mixedDualOperator(mixedOperators(x, w)), y, 2, 50, 1e-8, 100);
  * ```
  * Unchecked.
  */
@@ -156,7 +150,7 @@ export function mixedDualInteriorPoint(op: MixedDualOperator, y: Float64Array, l
   const m1 = new Float64Array(m).fill(1), m2 = new Float64Array(m).fill(1);
   const n1 = new Float64Array(k).fill(1), n2 = new Float64Array(k).fill(1);
   const qu = new Float64Array(m), rd = new Float64Array(m), tmp = new Float64Array(n);
-  const alpha = new Float64Array(k), beta = new Float64Array(m), sa = new Float64Array(m);
+  const alpha = new Float64Array(k), sa = new Float64Array(m);
   const mat = new Float64Array(m * wd);
   const du = new Float64Array(m), dg = new Float64Array(k);
   const dm1 = new Float64Array(m), dm2 = new Float64Array(m), dn1 = new Float64Array(k), dn2 = new Float64Array(k);
@@ -165,13 +159,13 @@ export function mixedDualInteriorPoint(op: MixedDualOperator, y: Float64Array, l
   const best = { achieved: Infinity, u: new Float64Array(m), n1: new Float64Array(k), n2: new Float64Array(k), m1: new Float64Array(m), m2: new Float64Array(m) };
   const N = 2 * m + 2 * k;
 
-  /** Gap and objective at (u, alpha): beta = D4 f - S alpha with D4 f = p - Q u. */
+  /** Gap and objective at (u, alpha): D4 c = D4 f - S alpha with D4 f = p - Q u. */
   const gapAt = (): { gap: number; obj: number } => {
     applyS(S, alpha, sa);
     let gk = 0, gb = 0, l1 = 0, l3 = 0, uqu = 0;
     for (let j = 0; j < k; j++) { const a = alpha[j], aa = a < 0 ? -a : a; l1 += aa; gk += lambda1 * aa - g[j] * a; }
     for (let r = 0; r < m; r++) {
-      const b = p[r] - qu[r] - sa[r]; beta[r] = b;
+      const b = p[r] - qu[r] - sa[r];
       const bb = b < 0 ? -b : b; l3 += bb; gb += lambda3 * bb - u[r] * b; uqu += u[r] * qu[r];
     }
     return { gap: Math.max(gk + gb, 0), obj: 0.5 * uqu + lambda1 * l1 + lambda3 * l3 };
@@ -301,13 +295,8 @@ export function mixedDualInteriorPoint(op: MixedDualOperator, y: Float64Array, l
   const a = new Float64Array(n);
   for (let j = 0; j < k; j++) a[j + 2] = (alpha[j] - r2[3 * j] * a[j] - r2[3 * j + 1] * a[j + 1]) / r2[3 * j + 2];
   const c = Float64Array.from(f, (v, i) => v - a[i]);
-  let sw = 0, sx = 0, sv = 0;
-  for (let i = 0; i < n; i++) { sw += w[i]; sx += w[i] * x[i]; sv += w[i] * c[i]; }
-  const mx = sx / sw, mv = sv / sw;
-  let sxx = 0, sxv = 0;
-  for (let i = 0; i < n; i++) { const dx = x[i] - mx; sxx += w[i] * dx * dx; sxv += w[i] * dx * (c[i] - mv); }
-  const slope = sxx > 0 ? sxv / sxx : 0;
-  for (let i = 0; i < n; i++) { const l = mv + slope * (x[i] - mx); c[i] -= l; a[i] += l; }
+  const line = weightedPolynomialFit(x, c, w, 1);
+  for (let i = 0; i < n; i++) { c[i] -= line[i]; a[i] += line[i]; }
   const achieved = gap / Math.max(obj, floor);
   return {
     kinks: a, bends: c, kinkRows, bendRows, u: Float64Array.from(u), gap, objective: obj,

@@ -32,8 +32,8 @@
  * from a mixed point is kept only when it does not raise the objective above the last kept
  * one, else the memory is cleared and a plain step taken from that one.
  *
- * If the block steps end above the first stage's objective (an inner solve that failed), the ADMM's
- * answer is returned, marked not converged.
+ * If the block steps end above the first stage's objective (an inner solve that failed), the first
+ * stage's answer is returned, marked not converged.
  *
  * Stopping rule: a plain step moves the kink component by at most `tolerance` (scaled units:
  * sd of y = 1) at every point; the returned a is the last exact order-1 solve, so block 1's
@@ -66,6 +66,8 @@ export interface MixedFit {
   admm?: MixedAdmmState;
   /** Objective at the returned point. */
   objective: number;
+  /** True when the interior point's answer, converged, is returned as it is (no ADMM, no block steps). */
+  interior: boolean;
   status: SolverStatus;
 }
 
@@ -143,22 +145,22 @@ export function mixedObjective(x: Float64Array, y: Float64Array, w: Float64Array
 export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: number, lambda3: number, s: MixedSolveSettings, start: MixedStart = {}): MixedFit {
   const { x, w } = probs;
   const n = x.length;
+  if (!probs.ops) probs.ops = mixedOperators(x, w);
+  // the first stage: the interior point's answer (the ADMM's warm start passed on), else the ADMM's
   let ad: { kinks: Float64Array; bends: Float64Array; kinkRows: number[]; bendRows: number[]; state?: MixedAdmmState; status: SolverStatus } | undefined;
-  let stalled = false;
+  let first: 'interior' | 'stalled interior' | 'admm' = 'admm';
   if (s.interiorTolerance > 0) {
-    if (!probs.dual) probs.dual = mixedDualOperator(x, w);
+    if (!probs.dual) probs.dual = mixedDualOperator(probs.ops);
     const ip = mixedDualInteriorPoint(probs.dual, y, lambda1, lambda3, s.interiorTolerance, MIXED_INTERIOR_ITERATIONS);
-    if (ip.status.converged) ad = { ...ip, state: start.admm };
-    else if (ip.status.achieved <= s.exactAfterStall) { ad = { ...ip, state: start.admm }; stalled = true; }
+    if (ip.status.converged) first = 'interior';
+    else if (ip.status.achieved <= s.exactAfterStall) first = 'stalled interior';
+    if (first !== 'admm') ad = { ...ip, state: start.admm };
   }
-  if (!ad) {
-    if (!probs.ops) probs.ops = mixedOperators(x, w);
-    ad = mixedAdmm(probs.ops, y, lambda1, lambda3, s.admmTolerance, s.admmIterations, start.admm);
-  }
-  if (!s.refine && !stalled) {
+  if (!ad) ad = mixedAdmm(probs.ops, y, lambda1, lambda3, s.admmTolerance, s.admmIterations, start.admm);
+  if (!s.refine && first !== 'stalled interior') {
     return {
       kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state,
-      objective: mixedObjective(x, y, w, ad.kinks, ad.bends, lambda1, lambda3), status: ad.status,
+      objective: mixedObjective(x, y, w, ad.kinks, ad.bends, lambda1, lambda3), interior: first === 'interior', status: ad.status,
     };
   }
   let a: Float64Array = ad.kinks;
@@ -247,12 +249,12 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
   if (!(mixedObjective(x, y, w, a, c, lambda1, lambda3) <= admmObjective)) {
     // the exact steps did not improve on the first stage's answer (inner solves that failed): keep it
     return {
-      kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state, objective: admmObjective,
+      kinks: ad.kinks, bends: ad.bends, kinkRows: ad.kinkRows, bendRows: ad.bendRows, admm: ad.state, objective: admmObjective, interior: false,
       status: { ...ad.status, converged: false, stoppingRule: `${ad.status.stoppingRule}; the exact block steps that followed did not lower the objective and were discarded` },
     };
   }
   return {
-    kinks: a, bends: c, kinkRows: fit1!.knotRows, bendRows: fit3!.knotRows, kinkFit: fit1!, bendFit: fit3!, admm: ad.state,
+    kinks: a, bends: c, kinkRows: fit1!.knotRows, bendRows: fit3!.knotRows, kinkFit: fit1!, bendFit: fit3!, admm: ad.state, interior: false,
     objective: mixedObjective(x, y, w, a, c, lambda1, lambda3),
     status: {
       converged: change <= s.tolerance && innerOk, iterations: cycles, tolerance: s.tolerance, achieved: change,
