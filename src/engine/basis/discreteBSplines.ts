@@ -63,11 +63,6 @@ export interface BasisCache {
   ext: Int32Array;
   /** (k + 1)^2 local coefficients per basis function of the last build. */
   coef: Float64Array;
-  /**
-   * Working memory of the active-set solver on these points (activeSetNewton.ts): nothing in it outlives a
-   * call, so solves on the same problem share it.
-   */
-  scratch?: Float64Array;
   /** The last build's values, first and penalty (a reused window's are copied, not evaluated again). */
   values?: Float64Array;
   first?: Int32Array;

@@ -65,13 +65,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const lim = lambda * (1 + boxRelative(n, k));
   let A: number[] = Array.from(rows);
   let S: number[] = Array.from(signs);
-  // working arrays from the problem's cache when there is one (reused by every solve on the same points:
-  // fresh ones per call cost garbage collection; reused, a warm order-1 cross-validation at 1e4 points took
-  // 3 to 5% less time, medians of 5 runs, the same penalty and df)
-  const need = 3 * n + m;
-  let buf = cache?.scratch;
-  if (!buf || buf.length < need) { buf = new Float64Array(need); if (cache) cache.scratch = buf; }
-  const g = buf.subarray(0, n), work = buf.subarray(n, 2 * n), bbuf = buf.subarray(2 * n, 3 * n), ubuf = buf.subarray(3 * n, 3 * n + m);
+  const g = new Float64Array(n), work = new Float64Array(n), ubuf = new Float64Array(m), bbuf = new Float64Array(n);
   let rounds = 0;
   const changes: number[] = [];
   let fewest = Infinity, since = 0;
