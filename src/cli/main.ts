@@ -132,11 +132,12 @@ function declaredOptions(p: Parsed, spec: CommandSpec): Record<string, unknown> 
 }
 
 function fitOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[] | null, w: Cell[] | null, evalX: number[] | null): Record<string, unknown> {
-  const result = analyse({ analysis: one(p, '--method') ?? 'spline', family: 'smoother', y, x, w, options: declaredOptions(p, spec) });
+  // no --method: the engine's default smoother for these settings (the automatic choice, or the spline with a note)
+  const result = analyse({ analysis: one(p, '--method'), family: 'smoother', y, x, w, options: declaredOptions(p, spec) });
   const { series } = result;
   const fit = result.smooth!;
   const out: Record<string, unknown> = {
-    column: name, method: result.analysis, options: result.options, n: series.n, nRows: series.nRows, nUsed: series.nUsed,
+    column: name, method: result.analysis, ...(fit.method !== result.analysis ? { fittedWith: { method: fit.method, options: result.comparison?.rows[result.comparison.chosen].options ?? {} } } : {}), options: result.options, n: series.n, nRows: series.nRows, nUsed: series.nUsed,
     dropped: series.dropped.length, tiesMerged: series.tiesMerged,
     penalty: fit.penalty, df: fit.df, sigma: Number.isFinite(fit.sigma) ? fit.sigma : null,
     criterion: { name: fit.criterion.name, value: Number.isFinite(fit.criterion.value) ? fit.criterion.value : null, atEdge: fit.criterion.atEdge ?? false },
@@ -152,6 +153,7 @@ function fitOne(p: Parsed, spec: CommandSpec, name: string, y: Cell[], x: Cell[]
     out.candidates = c.rows.map((r, i) => ({ method: r.method, options: r.options, label: r.label, penalty: Number.isFinite(r.penalty) ? r.penalty : null, df: Number.isFinite(r.df) ? r.df : null, cv: Number.isFinite(r.cv) ? r.cv : null, se: Number.isFinite(r.se) ? r.se : null, milliseconds: r.milliseconds, chosen: i === c.chosen, ...(r.skipped ? { skipped: r.skipped } : {}) }));
     out.reason = c.reason;
   }
+  if (result.uncompared) out.uncompared = result.uncompared;
   if (evalX) {
     const ev = evaluateAnalysis(result, evalX);
     out.eval = evalX.map((v, i) => ({ x: v, value: ev.value[i], extrapolated: ev.extrapolated[i] === 1 }));
@@ -283,11 +285,14 @@ function textStyle(xDates: boolean, x: Cell[] | null, y: Cell[]): TextStyle {
 }
 
 function textFit(o: Record<string, any>, st: TextStyle): string {
-  const method = o.method === 'spline' ? 'smoothing spline' : o.method === 'trend' ? 'trend filtering' : o.method;
+  const named = (m: string) => (m === 'spline' ? 'smoothing spline' : m === 'trend' ? 'trend filtering' : m);
+  const kept = o.candidates?.find((c: any) => c.chosen)?.label;
+  // the automatic choice says what it kept (or, on a long series, what it fitted without comparing)
+  const method = o.method === 'auto' ? `automatic choice, ${kept ? `kept ${kept}` : `no comparison, fitted ${named(o.fittedWith?.method ?? '')}`}` : named(o.method);
   const lines = [
     `${o.column}: ${method}, ${o.n} points (${o.dropped} rows dropped, ${o.tiesMerged} merged as ties)`,
-    `  ${smoothPenaltyInWords(o as any)}; chosen by ${ruleInWords(o.criterion.name)}${o.criterion.value === null ? '' : ` (score ${fmt(o.criterion.value)})`}; noise sd ${o.sigma === null ? 'not estimated' : st.value(o.sigma)}`,
-    `  solver: ${fitSolverInWords(o as any)}`,
+    `  ${smoothPenaltyInWords({ ...o, method: o.fittedWith?.method ?? o.method } as any)}; chosen by ${ruleInWords(o.criterion.name)}${o.criterion.value === null ? '' : ` (score ${fmt(o.criterion.value)})`}; noise sd ${o.sigma === null ? 'not estimated' : st.value(o.sigma)}`,
+    `  solver: ${fitSolverInWords({ ...o, method: o.fittedWith?.method ?? o.method } as any)}`,
   ];
   if (o.candidates) {
     lines.push(`  ${o.reason}`);

@@ -3,7 +3,7 @@
  * so parsing and help cannot drift from what the engine accepts. A few flags
  * belong to the command line itself (columns, output, files).
  */
-import { AnalysisFamily, OptionDeclaration, analysisDefinitions, dashedName } from '../engine';
+import { AnalysisFamily, DEFAULT_SMOOTHER, OptionDeclaration, analysisDefinitions, dashedName } from '../engine';
 
 export interface OptionSpec {
   flag: string;
@@ -82,7 +82,7 @@ export function commands(): CommandSpec[] {
     summary: 'smooth a series: fitted values, penalty, df, knots and warnings',
     options: [
       ...common,
-      { flag: '--method', value: 'NAME', help: `${smoothers.join(' | ')} (default spline); knotwise help NAME lists its options` },
+      { flag: '--method', value: 'NAME', help: `${smoothers.join(' | ')} (default ${DEFAULT_SMOOTHER}: every method compared by cross-validation); knotwise help NAME lists its options` },
       ...declaredFlags('smoother'),
       { flag: '--one-se', help: 'old switch for --rule cv-simpler', hidden: true },
       { flag: '--eval', value: 'FILE', help: 'CSV of new x (column "x" or the first column): adds eval [{x, value, extrapolated}]' },

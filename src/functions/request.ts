@@ -3,7 +3,7 @@
  * through the shared {@link compute}. Values are passed as typed: the engine
  * validates them once and its messages name what to fix.
  */
-import { AnalysisFamily, AnalysisResult, findAnalysis } from '../engine';
+import { AnalysisDefinition, AnalysisFamily, AnalysisResult, DEFAULT_SMOOTHER, defaultSmoother, findAnalysis } from '../engine';
 import { Matrix, Orientation, optionalText, readInputs, scalar } from './cells';
 import { Cancel, compute } from './compute';
 import { parseSettings } from './settings';
@@ -24,10 +24,15 @@ export interface SheetArgs {
  */
 export async function analyseCells(y: Matrix, a: SheetArgs, family: AnalysisFamily | undefined, defaultMethod: string, cancel?: Cancel): Promise<{ result: AnalysisResult; orientation: Orientation }> {
   const d = readInputs(y, a.x, a.weights);
-  const method = optionalText(a.method)?.trim() || defaultMethod;
-  const { def } = findAnalysis(method, family);
+  const named = optionalText(a.method)?.trim() || undefined;
   const settings = scalar(a.settings);
-  const options = { ...parseSettings(settings, def.options), ...(a.extra ?? {}) };
-  const result = await compute({ analysis: method, family, y: d.y, x: d.x, w: d.w, options }, cancel);
+  const parsed = (def: AnalysisDefinition) => ({ ...parseSettings(settings, def.options), ...(a.extra ?? {}) });
+  // no method named: the engine's default smoother for these settings (the text is read per method);
+  // the request then names none either, so the engine makes the same choice and says so
+  const byDefault = !named && defaultMethod === DEFAULT_SMOOTHER;
+  const method = named ?? (byDefault ? defaultSmoother(parsed).name : defaultMethod);
+  const { def } = findAnalysis(method, family);
+  const options = parsed(def);
+  const result = await compute({ ...(byDefault ? {} : { analysis: method }), family, y: d.y, x: d.x, w: d.w, options }, cancel);
   return { result, orientation: d.orientation };
 }

@@ -5,7 +5,7 @@
  * return promises: Excel shows #BUSY! while the engine works off Excel's thread,
  * and cancels the call when an input changes.
  */
-import { AnalysisResult, KnotwiseError, evaluateAnalysis, toRows } from '../engine';
+import { AnalysisResult, DEFAULT_SMOOTHER, KnotwiseError, evaluateAnalysis, toRows } from '../engine';
 import { Matrix, cellNumber, omitted, optionalText, readColumn, scalar, shapeLike } from './cells';
 import { guardedAsync } from './excelErrors';
 import { analyseCells } from './request';
@@ -17,7 +17,7 @@ const smoothOf = (r: AnalysisResult) => r.smooth!;
  * @customfunction SMOOTH
  * @param y Values to smooth: one column (or one row). Blank, text, TRUE/FALSE and error cells are left out and reported by SUMMARY.
  * @param [x] Positions of the values (dates, times, any numbers), same size as y. Omitted: 1, 2, 3, ...
- * @param [method] "spline" (default: a smooth curve), "trend" (pieces joined at knots the data choose), "whittaker" (Hodrick-Prescott and relatives), "loess", "wavelet", or "auto" (compare them all by cross-validation). KNOTWISE.OPTIONS() lists them, KNOTWISE.OPTIONS(method) each one's settings.
+ * @param [method] "auto" (default: every method compared by cross-validation, the best kept; SUMMARY says why), "spline" (a smooth curve), "trend" (pieces joined at knots the data choose), "mixed", "whittaker" (Hodrick-Prescott and relatives), "loess" or "wavelet". KNOTWISE.OPTIONS() lists them, KNOTWISE.OPTIONS(method) each one's settings.
  * @param [settings] Settings as text, e.g. "order=2; cv; folds=10", "df=8" or "penalty=500"; a number alone is the penalty.
  * @param [weights] Positive weights, same size as y (e.g. the number of orders behind each value).
  * @param [output] "fitted" (default), "se" (pointwise standard error), "residual" or "leverage".
@@ -29,7 +29,7 @@ export async function smooth(y: any[][], x?: any[][], method?: string, settings?
   return guardedAsync(async () => {
     const what = (optionalText(output) ?? 'fitted').trim().toLowerCase();
     if (!['fitted', 'se', 'residual', 'leverage'].includes(what)) throw new KnotwiseError('bad-option', `output must be "fitted", "se", "residual" or "leverage"; got "${what}".`);
-    const { result, orientation } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'spline', invocation);
+    const { result, orientation } = await analyseCells(y, { x, method, settings, weights }, 'smoother', DEFAULT_SMOOTHER, invocation);
     const fit = smoothOf(result);
     let perPoint: ArrayLike<number> = fit.fitted;
     if (what === 'residual') perPoint = Float64Array.from(result.series.y, (v, i) => v - fit.fitted[i]);
@@ -47,7 +47,7 @@ export async function smooth(y: any[][], x?: any[][], method?: string, settings?
  * @customfunction PENALTY
  * @param y Values to smooth: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
- * @param [method] "spline" (default) or "trend".
+ * @param [method] "auto" (default: the method the automatic choice keeps), "spline", "trend" or any smoothing method of KNOTWISE.OPTIONS().
  * @param [settings] Settings as text, e.g. "cv; folds=10" or "order=1; sure".
  * @param [weights] Positive weights, same size as y.
  * @param [table] TRUE: the table penalty, score, df, se, knots, converged for every penalty tried (with a header row).
@@ -57,7 +57,7 @@ export async function smooth(y: any[][], x?: any[][], method?: string, settings?
  */
 export async function penalty(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], table?: any, invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
   return guardedAsync(async () => {
-    const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'spline', invocation);
+    const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', DEFAULT_SMOOTHER, invocation);
     const fit = smoothOf(result);
     const t = scalar(table);
     const wantTable = t === true || (typeof t === 'string' && t.trim().toUpperCase() === 'TRUE') || t === 1;
@@ -76,7 +76,7 @@ export async function penalty(y: any[][], x?: any[][], method?: string, settings
  * @customfunction SUMMARY
  * @param y Values: one column (or one row).
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
- * @param [method] A smoothing method ("spline", the default, or "trend") or a changepoint model ("level", "volatility", "counts", "distribution", "slope").
+ * @param [method] A smoothing method ("auto", the default, "spline", "trend", ...) or a changepoint model ("level", "volatility", "counts", "distribution", "slope").
  * @param [settings] Settings as text, e.g. "order=1; cv" or "mbic; shortest-segment=4".
  * @param [weights] Positive weights, same size as y.
  * @param invocation Excel's handle to cancel the call.
@@ -85,9 +85,12 @@ export async function penalty(y: any[][], x?: any[][], method?: string, settings
  */
 export async function summary(y: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
   return guardedAsync(async () => {
-    const { result } = await analyseCells(y, { x, method, settings, weights }, undefined, 'spline', invocation);
+    const { result } = await analyseCells(y, { x, method, settings, weights }, undefined, DEFAULT_SMOOTHER, invocation);
     const s = result.series;
-    const rows: any[][] = [['method', result.analysis + (result.options.order !== undefined ? ` (order ${result.options.order})` : '')]];
+    const order = (o: { order?: unknown }) => (o.order !== undefined ? ` (order ${o.order})` : '');
+    // the automatic choice names what it kept
+    const kept = result.smooth && result.smooth.method !== result.analysis ? `: ${result.smooth.method}${order(result.smooth.options)}` : '';
+    const rows: any[][] = [['method', result.analysis + order(result.options) + kept]];
     if (result.smooth) {
       const f = result.smooth;
       rows.push(['lambda', cellNumber(f.penalty)], ['df', cellNumber(f.df)], ['sigma', cellNumber(f.sigma)], ['criterion', f.criterion.name], ['criterion value', cellNumber(f.criterion.value)], ['knots', f.knots.length]);
@@ -133,7 +136,7 @@ export async function knots(y: any[][], x?: any[][], method?: string, settings?:
  * @param y Values to smooth: one column (or one row).
  * @param at Positions where the fitted curve is wanted: one column or row.
  * @param [x] Positions of the values, same size as y. Omitted: 1, 2, 3, ...
- * @param [method] "spline" (default) or "trend".
+ * @param [method] "auto" (default: the method the automatic choice keeps), "spline", "trend" or any smoothing method of KNOTWISE.OPTIONS().
  * @param [settings] Settings as text, e.g. "order=1; cv".
  * @param [weights] Positive weights, same size as y.
  * @param invocation Excel's handle to cancel the call.
@@ -143,7 +146,7 @@ export async function knots(y: any[][], x?: any[][], method?: string, settings?:
 export async function evaluateAt(y: any[][], at: any[][], x?: any[][], method?: string, settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
   return guardedAsync(async () => {
     const cells = readColumn(at as Matrix, 'at').cells;
-    const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', 'spline', invocation);
+    const { result } = await analyseCells(y, { x, method, settings, weights }, 'smoother', DEFAULT_SMOOTHER, invocation);
     const ok: number[] = [];
     const where: number[] = [];
     cells.forEach((c, i) => { if (typeof c === 'number' && Number.isFinite(c)) { ok.push(c); where.push(i); } });
@@ -168,7 +171,8 @@ export async function evaluateAt(y: any[][], at: any[][], x?: any[][], method?: 
 export async function compare(y: any[][], x?: any[][], settings?: any, weights?: any[][], invocation?: CustomFunctions.CancelableInvocation): Promise<any[][]> {
   return guardedAsync(async () => {
     const { result } = await analyseCells(y, { x, method: 'auto', settings, weights }, 'smoother', 'auto', invocation);
-    const c = result.comparison!;
+    const c = result.comparison;
+    if (!c) throw new KnotwiseError('bad-data', result.uncompared ?? 'no methods were compared.');
     const rows = c.rows.map((r, i) => [r.label, cellNumber(r.df), cellNumber(r.cv), cellNumber(r.se), r.milliseconds, i === c.chosen ? 'chosen' : r.skipped ? `not compared: ${r.skipped}` : '']);
     return [['method', 'df', 'CV error', 'se', 'milliseconds', 'chosen'], ...rows, [c.reason, '', '', '', '', '']];
   });

@@ -5,7 +5,7 @@
  * add-in sees what was done.
  */
 import uPlot from 'uplot';
-import { isKnotwiseError } from '../engine';
+import { DEFAULT_SMOOTHER, isKnotwiseError } from '../engine';
 import { weeklyOrders } from '../demo/weeklyOrders';
 import { columnLetters, formatFixed, formatNumber, serialToIso, PresentTable } from '../present';
 import { analyseWith, choiceOf, PenaltyChoice, SecondChoice, splitSelection } from './analysis';
@@ -264,7 +264,7 @@ async function boot(inExcel: boolean): Promise<void> {
   const methodSel = $<HTMLSelectElement>('method'), ruleSel = $<HTMLSelectElement>('rule');
   const picked = methodSel.value;
   methodSel.replaceChildren(...methodChoices().map((m) => new Option(m.label, m.value)));
-  methodSel.value = methodChoices().some((m) => m.value === picked) ? picked : 'trend1';
+  methodSel.value = methodChoices().some((m) => m.value === picked) ? picked : DEFAULT_SMOOTHER;
   const fillRules = () => {
     const keep = ruleSel.value;
     const c = choiceOf(methodSel.value);

@@ -6,7 +6,7 @@
  * only the penalty rules it declares, so no method can be paired with a rule
  * it does not accept. Pure: no DOM.
  */
-import { analysisDefinitions, findAnalysis, RULE_HELP, unmetCondition } from '../engine';
+import { DEFAULT_SMOOTHER, analysisDefinitions, findAnalysis, RULE_HELP, unmetCondition } from '../engine';
 import type { AnalysisDefinition, OptionValue } from '../engine';
 
 /** One entry of the method list. */
@@ -47,9 +47,13 @@ function variantsOf(def: AnalysisDefinition): MethodChoice[] {
   return vs.map((v) => ({ value: def.name + Object.values(v.options).join(''), label: cap(v.label), kind: 'smooth' as const, analysis: def.name, options: { ...v.options } }));
 }
 
-/** The method list, in registration order (smoothers, the automatic choice, changepoint models, decompositions). */
+/**
+ * The method list: the default smoother first ({@link DEFAULT_SMOOTHER}, the automatic choice), then the
+ * rest in registration order (smoothers, changepoint models, decompositions).
+ */
 export function methodChoices(): MethodChoice[] {
-  return analysisDefinitions().flatMap(variantsOf);
+  const all = analysisDefinitions().flatMap(variantsOf);
+  return [...all.filter((m) => m.value === DEFAULT_SMOOTHER), ...all.filter((m) => m.value !== DEFAULT_SMOOTHER)];
 }
 
 /**

@@ -40,6 +40,7 @@ export const FULL_COLUMN_CASES: readonly Case[] = [
   { method: 'loess', args: ['fit', '--y', 'y', '--method', 'loess'] },
   { method: 'wavelet', args: ['fit', '--y', 'y', '--method', 'wavelet'] },
   { method: 'auto', args: ['fit', '--y', 'y', '--method', 'auto'] },
+  { method: 'no method named', args: ['fit', '--y', 'y'] },
   { method: 'decompose adaptive', args: ['decompose', '--y', 'y'] },
   { method: 'decompose stl (period 7)', args: ['decompose', '--y', 'y', '--method', 'stl', '--period', '7'] },
   { method: 'level', args: ['breaks', '--y', 'y', '--model', 'level'] },

@@ -18,7 +18,7 @@ const demo = weeklyOrdersCsv();
 describe('knotwise fit', () => {
   test('--json prints the contract fields with one fitted entry per input row, null where dropped', () => {
     const { host, out } = io({ 'd.csv': demo });
-    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--json'], host)).toBe(0);
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--method', 'spline', '--json'], host)).toBe(0);
     const o = JSON.parse(out.join(''));
     for (const k of ['method', 'n', 'penalty', 'df', 'sigma', 'criterion', 'fitted', 'knots', 'warnings']) expect(o).toHaveProperty(k);
     expect(o.method).toBe('spline');
@@ -33,20 +33,43 @@ describe('knotwise fit', () => {
     expect(o.df).toBeCloseTo(result.df, 10);
   });
 
-  test('columns can be given by 1-based number, and several --y give an array', () => {
+  test('without --method the automatic choice runs: the kept method, every candidate and the reason', () => {
+    const { host, out } = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--json'], host)).toBe(0);
+    const o = JSON.parse(out.join(''));
+    expect(o.method).toBe('auto');
+    const chosen = o.candidates.filter((c: any) => c.chosen);
+    expect(chosen).toHaveLength(1);
+    // the fit is the kept candidate's: its method, options and df
+    expect(o.fittedWith.method).toBe(chosen[0].method);
+    for (const [k, v] of Object.entries(chosen[0].options)) expect(o.fittedWith.options[k]).toBe(v);
+    expect(o.df).toBeCloseTo(chosen[0].df, 10);
+    expect(o.reason.length).toBeGreaterThan(20);
+    expect(o.fitted).toHaveLength(156);
+    expect(o.fitted[33]).toBeNull();
+    // the text output names what was kept
+    const t = io({ 'd.csv': demo });
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders'], t.host)).toBe(0);
+    expect(t.out.join('')).toContain(`orders: automatic choice, kept ${chosen[0].label}, 153 points`);
+  });
+
+  test('columns can be given by 1-based number, and several --y give an array; a df without --method goes to the spline, with a note', () => {
     const { host, out } = io({ 'd.csv': demo });
     expect(runCli(['fit', 'd.csv', '--x', '1', '--y', '2,4', '--df', '6', '--json'], host)).toBe(0);
     const o = JSON.parse(out.join(''));
     expect(Array.isArray(o)).toBe(true);
     expect(o.map((r: any) => r.column)).toEqual(['orders', 'unit_cost']);
     expect(o[0].df).toBeCloseTo(6, 5);
+    expect(o[0].method).toBe('spline');
+    expect(o[0].warnings[0].message).toMatch(/^No method was named and these settings are not the automatic choice's, so they were applied to the smoothing spline/);
   });
 
   test('--timing prints one stderr line of phase times and peak memory, and leaves the JSON unchanged', () => {
+    // a named method: the automatic choice's JSON carries each candidate's time, which differs between runs
     const plain = io({ 'd.csv': demo });
-    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--json'], plain.host)).toBe(0);
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--method', 'spline', '--json'], plain.host)).toBe(0);
     const { host, out, err } = io({ 'd.csv': demo });
-    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--json', '--timing'], host)).toBe(0);
+    expect(runCli(['fit', 'd.csv', '--x', 'week_start', '--y', 'orders', '--method', 'spline', '--json', '--timing'], host)).toBe(0);
     expect(out.join('')).toBe(plain.out.join(''));
     expect(err).toHaveLength(1);
     expect(err[0]).toMatch(/^knotwise timing: read \d+ ms, engine \d+ ms, write \d+ ms, peak memory \d+ MB \(done\)$/);
@@ -74,7 +97,7 @@ describe('knotwise fit', () => {
     expect(b.err[0]).toMatch(/df \(spline\) must be a number greater than 0; got "lots"/);
     const d = io({ 'd.csv': demo });
     expect(runCli(['fit', 'd.csv', '--y', 'orders', '--order', '2'], d.host)).toBe(1);
-    expect(d.err[0]).toMatch(/unknown option "order" for spline; spline accepts: rule, penalty, df/);
+    expect(d.err[0]).toMatch(/unknown option "order" for auto; auto accepts: rule, folds, noise, season\. No method was named, so the automatic choice ran; name a method to use these settings\.$/);
     const c = io({});
     expect(runCli(['fit', 'missing.csv'], c.host)).toBe(2);
     expect(runCli(['fit', 'd.csv', '--bogus'], io({ 'd.csv': demo }).host)).toBe(2);

@@ -98,17 +98,17 @@ describe('the shared computation', () => {
 
 describe('PENALTY and SUMMARY', () => {
   test('PENALTY returns the chosen lambda, or the criterion table with a header', async () => {
-    const one = await penalty(col(ys), col(xs));
+    const one = await penalty(col(ys), col(xs), 'spline');
     const { result } = fitCells(ys as any, xs, null, {});
     expect(one[0][0]).toBeCloseTo(result.penalty, 12);
-    const table = await penalty(col(ys), col(xs), undefined, undefined, undefined, true);
+    const table = await penalty(col(ys), col(xs), 'spline', undefined, undefined, true);
     expect(table[0]).toEqual(['penalty', 'score (gcv)', 'df', 'se', 'knots', 'converged']);
     expect(table.length).toBe(result.criterion.curve!.length + 1);
     await expect(penalty(col(ys), col(xs), undefined, undefined, undefined, 'maybe')).rejects.toThrow(/table must be TRUE or FALSE; got "maybe"/);
   });
 
   test('SUMMARY reports counts of used, dropped and merged rows and every warning', async () => {
-    const t = await summary(col(ys), col(xs));
+    const t = await summary(col(ys), col(xs), 'spline');
     const get = (k: string) => t.find((r) => r[0] === k)?.[1];
     expect(get('n used')).toBe(10);
     expect(get('n dropped')).toBe(2);
@@ -193,6 +193,46 @@ describe('DECOMPOSE', () => {
       const [t, s, o, e] = out[r + 1] as number[];
       expect(t + s + o + e).toBeCloseTo(y[r] as number, 8);
     }
+  });
+});
+
+describe('no method named', () => {
+  // an invented series: a ramp that turns down, with a little wobble (60 points: enough for 5 folds)
+  const y = Array.from({ length: 60 }, (_, i) => (i < 30 ? 0.2 * i : 6 - 0.1 * (i - 30)) + 0.3 * Math.sin(i * 7.7));
+
+  test('SMOOTH, PENALTY and SUMMARY run the automatic choice, and SUMMARY names what it kept and why', async () => {
+    const { runAnalysis } = require('../../src/engine');
+    const direct = runAnalysis({ analysis: 'auto', y });
+    const kept = direct.comparison.rows[direct.comparison.chosen];
+    const out = await smooth(col(y));
+    out.forEach((r, i) => expect(r[0]).toBeCloseTo(direct.smooth.fitted[i], 12));
+    expect((await penalty(col(y)))[0][0]).toBeCloseTo(direct.smooth.penalty, 12);
+    const t = await summary(col(y));
+    const get = (k: string) => t.find((r) => r[0] === k)?.[1];
+    expect(get('method')).toBe(`auto: ${kept.method}${kept.options.order !== undefined ? ` (order ${kept.options.order})` : ''}`);
+    expect(get('why this method')).toBe(direct.comparison.reason);
+  });
+
+  test('settings the automatic choice does not take go to the spline, with a note; others are refused saying no method was named', async () => {
+    const out = await smooth(col(y), undefined, undefined, 'df=5');
+    const { runAnalysis } = require('../../src/engine');
+    const spline = runAnalysis({ analysis: 'spline', y, options: { df: 5 } });
+    out.forEach((r, i) => expect(r[0]).toBeCloseTo(spline.smooth.fitted[i], 12));
+    const t = await summary(col(y), undefined, undefined, 'gcv');
+    expect(t.find((r) => r[0] === 'method')?.[1]).toBe('spline');
+    expect(t.some((r) => String(r[1]).startsWith('No method was named and these settings are not the automatic choice\'s, so they were applied to the smoothing spline'))).toBe(true);
+    // the automatic choice's own settings stay its own
+    const t2 = await summary(col(y), undefined, undefined, 'folds=4');
+    expect(String(t2.find((r) => r[0] === 'method')?.[1])).toMatch(/^auto: /);
+    await expect(smooth(col(y), undefined, undefined, 'order=2')).rejects.toThrow(/unknown option "order" for auto; .*No method was named, so the automatic choice ran; name a method to use these settings\./);
+  });
+
+  test('COMPARE on too few points for cross-validation says why no methods were compared', async () => {
+    const { compare } = require('../../src/functions/smoothing');
+    await expect(compare(col(y.slice(0, 9)))).rejects.toThrow(/^no methods were compared: 9 points are too few for 5-fold cross-validation \(it needs at least 12\)/);
+    // SMOOTH still gives the spline there
+    const out = await smooth(col(y.slice(0, 9)));
+    expect(out.every((r) => typeof r[0] === 'number')).toBe(true);
   });
 });
 

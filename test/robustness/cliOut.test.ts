@@ -12,7 +12,7 @@ describe('--out FILE', () => {
     const io = memoryIO({ 'd.csv': data });
     expect(runCli(['fit', 'd.csv', '--json', '--out', 'fit.json'], io.host)).toBe(0);
     expect(io.out).toEqual([]);
-    expect(JSON.parse(io.written['fit.json']).method).toBe('spline');
+    expect(JSON.parse(io.written['fit.json']).method).toBe('auto');
     const b = memoryIO({ 'd.csv': data });
     expect(runCli(['breaks', 'd.csv', '--out', 'breaks.txt'], b.host)).toBe(0);
     expect(b.written['breaks.txt']).toMatch(/^y: level model, 12 points/);
@@ -25,7 +25,7 @@ describe('--out FILE', () => {
     expect(io.written).toEqual({});
     const f = memoryIO({ 'd.csv': data, 'old.json': 'keep me' });
     expect(runCli(['fit', 'd.csv', '--out', 'old.json', '--force'], f.host)).toBe(0);
-    expect(f.written['old.json']).toMatch(/^y: smoothing spline/);
+    expect(f.written['old.json']).toMatch(/^y: automatic choice, kept /);
   });
 
   test('a file created between the check and the write is not replaced either', () => {

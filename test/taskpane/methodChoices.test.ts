@@ -1,5 +1,5 @@
 import { methodChoices, optionApplies, ruleChoices } from '../../src/taskpane/methodChoices';
-import { analysisDefinitions, findAnalysis } from '../../src/engine';
+import { DEFAULT_SMOOTHER, analysisDefinitions, findAnalysis } from '../../src/engine';
 
 describe('the pane lists from the declarations', () => {
   test('methodChoices lists every registered smoother, changepoint model and decomposition, with unique values', () => {
@@ -10,6 +10,14 @@ describe('the pane lists from the declarations', () => {
     const ways = findAnalysis('decompose').def.options.find((o) => o.name === 'method')!.choices!;
     expect(m.filter((c) => c.kind === 'decompose').map((c) => c.options.method)).toEqual([...ways]);
     expect(m.map((c) => c.value)).toEqual(expect.arrayContaining(['spline', 'trend0', 'trend1', 'trend2', 'trend3', 'auto', 'breaks-level', 'breaks-volatility', 'breaks-counts']));
+  });
+
+  test('the default smoother (the automatic choice) comes first, the rest in registration order', () => {
+    const m = methodChoices();
+    expect(m[0].value).toBe(DEFAULT_SMOOTHER);
+    expect(m[0].analysis).toBe('auto');
+    const rest = analysisDefinitions().filter((d) => d.name !== DEFAULT_SMOOTHER).map((d) => d.name);
+    expect([...new Set(m.slice(1).map((c) => c.analysis))]).toEqual(rest);
   });
 
   test('ruleChoices offers a method only the rules it declares, with df and a fixed penalty where declared', () => {

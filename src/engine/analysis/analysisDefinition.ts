@@ -27,6 +27,8 @@ export interface AnalysisCore {
   breaks?: BreaksResult;
   /** The automatic choice: every candidate's cross-validation score on the same folds, and why the winner won. */
   comparison?: Comparison;
+  /** The automatic choice when it compared no methods (too few or too many points): why, in one sentence; the fit is then the spline's. */
+  uncompared?: string;
   /** Decompositions: named components per clean point and whatever else the analysis reports. */
   decomposition?: { components: Record<string, Float64Array>; [more: string]: unknown };
 }
@@ -74,6 +76,21 @@ export interface AnalysisResult extends AnalysisCore {
   series: Series;
 }
 
+/** One variant of a smoother in the automatic choice (e.g. trend filtering of order 2). */
+export interface AutoVariant {
+  /** What shape it fits, in plain words (the comparison table's row label). */
+  label: string;
+  /** The options that make the variant (e.g. { order: 2 }). */
+  options: Readonly<Record<string, OptionValue>>;
+  /** Rank among fits of equal df: lower is simpler. */
+  simplicity: number;
+  /**
+   * Longest series on which the automatic choice includes it: set where its cross-validation grows
+   * faster than the number of points; beyond it the variant is listed as not compared, with why.
+   */
+  maxPoints?: number;
+}
+
 /** One registered analysis. */
 export interface AnalysisDefinition {
   /** The name users type (lower case, plain words). */
@@ -96,7 +113,7 @@ export interface AnalysisDefinition {
    * Smoothers that take part in the automatic choice list their variants here
    * (e.g. one per order), each run with cross-validation on the shared folds.
    */
-  autoVariants?: readonly { label: string; options: Readonly<Record<string, OptionValue>>; simplicity: number }[];
+  autoVariants?: readonly AutoVariant[];
   /** Values of the fit at new x, flagged beyond the data (smoothers). */
   evaluate?(result: AnalysisCore, x: Float64Array): Evaluation;
 }

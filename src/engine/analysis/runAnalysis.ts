@@ -19,11 +19,16 @@ import type { RunControl } from './optionDeclaration';
 import { resolveOptions } from './resolveOptions';
 import { RunContext } from './runContext';
 import { seasonForSmoothing } from '../decompose/seasonForSmoothing';
+import { defaultSmoother } from '../smoothers/auto';
 
 /** What to analyse: the data as cells (numbers, text, blanks, errors, booleans) and the options as typed. */
 export interface AnalysisRequest {
-  /** A registered analysis name: 'spline', 'trend', 'level', ... (case-insensitive). */
-  analysis: string;
+  /**
+   * A registered analysis name: 'spline', 'trend', 'level', ... (case-insensitive). Omitted or blank: the
+   * default smoother for these options ({@link defaultSmoother}: the automatic choice, or the spline for
+   * settings only the spline takes, with a note); not with the changepoint family.
+   */
+  analysis?: string;
   /** The values, one cell per row (a single row or column; a 1-column 2-D block is accepted). */
   y: readonly Cell[] | readonly (readonly Cell[])[];
   /** Positions, same length as y; omitted: 1, 2, 3, ... */
@@ -55,8 +60,10 @@ function column(v: unknown, name: string): Cell[] {
  */
 export function runAnalysis(request: AnalysisRequest, control: RunControl = {}): AnalysisResult {
   if (typeof request !== 'object' || request === null) throw new KnotwiseError('bad-option', `a request must name an analysis and give y; got ${describeValue(request)}.`);
-  const { def, renamedFrom } = findAnalysis(request.analysis, request.family);
+  const chosen = defaultFor(request);
+  const { def, renamedFrom } = findAnalysis(chosen.name, request.family);
   const { options, notes } = resolveOptions(def.options, request.options, def.name);
+  if (chosen.note) notes.unshift(warning('note', chosen.note));
   if (renamedFrom) notes.unshift(warning('note', `"${renamedFrom}" is now called "${def.name}"; the old name is still accepted for now.`));
   const context = new RunContext(control);
   context.step(0, 'reading the data');
@@ -79,6 +86,18 @@ export function runAnalysis(request: AnalysisRequest, control: RunControl = {}):
   };
 }
 
+/** Whether the request names its analysis (not omitted, not blank). Unchecked. */
+function named(request: AnalysisRequest): boolean {
+  return !(request.analysis === undefined || request.analysis === null || (typeof request.analysis === 'string' && request.analysis.trim() === ''));
+}
+
+/** The analysis to run: the one named, or the default smoother for the request's options. */
+function defaultFor(request: AnalysisRequest): { name: string; note?: string } {
+  if (named(request)) return { name: request.analysis as string };
+  if (request.family && request.family !== 'smoother') throw new KnotwiseError('unknown-method', `name a ${request.family === 'changepoints' ? 'changepoint model' : 'method'}: only smoothers have a default.`);
+  return defaultSmoother(() => request.options);
+}
+
 /**
  * A key naming a request's answer: equal keys, equal results (up to a 53-bit
  * hash collision). Analyses are keyed by their current name (old names alike);
@@ -88,8 +107,8 @@ export function runAnalysis(request: AnalysisRequest, control: RunControl = {}):
  * keys; that only costs a recomputation.
  */
 export function analysisKey(request: AnalysisRequest): string {
-  let name = String(request.analysis).trim().toLowerCase();
-  try { name = findAnalysis(name).def.name; } catch { /* an unknown name keys as typed; running it reports the error */ }
+  let name = named(request) ? String(request.analysis).trim().toLowerCase() : '';
+  try { name = findAnalysis(defaultFor(request).name).def.name; } catch { /* an unknown name keys as typed; running it reports the error */ }
   return cacheKey(['analysis', name, request.y, request.x ?? null, request.w ?? null, request.options ?? {}]);
 }
 

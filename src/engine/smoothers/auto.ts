@@ -21,7 +21,7 @@
 import type { AnalysisCore, AnalysisDefinition, CandidateRow } from '../analysis/analysisDefinition';
 import { analysisDefinitions, findAnalysis } from '../analysis/analysisRegistry';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
-import { resolveOptions } from '../analysis/resolveOptions';
+import { optionKey, resolveOptions } from '../analysis/resolveOptions';
 import { SEASON_OPTION, noiseOption } from '../analysis/penaltyOptions';
 import type { RunContext } from '../analysis/runContext';
 import { KnotwiseError, isKnotwiseError, showNumber } from '../errors';
@@ -76,16 +76,94 @@ function chosenPointSe(curve: readonly CriterionPoint[] | undefined, penalty: nu
 const round = (v: number) => Number(v.toPrecision(3));
 
 /**
- * Longest series the automatic choice compares methods on. Every candidate chooses its
- * penalty by cross-validation, and trend filtering's cross-validation dominates: with the
- * shorter grids of {@link AUTO_SEARCH_POINTS}, 8.6 to 9.6 s of CPU time for all candidates at
- * 5,000 points (order 3 about four fifths of it) and 5.9 to 6.0 s at 10,000 (order 2 about
- * nine tenths; order 3 is refused there), medians of 3 on a shared 2-core machine at a load
- * average of 4 to 6 (`npm run bench -- --only=smoothers`, part auto; 13 to 14 s and 10 to 11 s
- * with the full grids); 36 s at 16,384 with the full grids (fullcolumn), so beyond this length
- * the choice is refused at once with what to do instead, rather than left running for minutes.
+ * Longest series the automatic choice compares methods on. Every candidate chooses its penalty by
+ * cross-validation; those whose cross-validation grows faster than the number of points declare how
+ * far they take part (`maxPoints`: trend filtering of orders 2 and 3, the mixed trend) and are listed
+ * as not compared beyond it. The rest grow about linearly: together they took 1.4 to 2.1 s at 10,001
+ * points (order 2 left out from there, order 3 from 5,001), 2.7 to 3.8 s at 20,000 and 7.3 to 8.7 s at
+ * 50,000 (the two seeded shapes of the bench, one run each in one process, 2-core machine). Beyond
+ * this length no methods are compared: the smoothing spline is fitted by its own default rule
+ * ({@link fitWithoutComparison}), with a note that says so, because the automatic choice is the
+ * default of the fronts and a long column must still get a fit.
  */
-export const AUTO_LIMIT = 10000;
+export const AUTO_LIMIT = 50000;
+
+/**
+ * The smoother the fronts run when none is named (the worksheet functions that fit a curve, the
+ * command line's fit, the pane's first entry): the automatic choice, which on long series fits
+ * without comparing ({@link AUTO_LIMIT}).
+ */
+export const DEFAULT_SMOOTHER = 'auto';
+
+/**
+ * The smoother that takes settings given without a method when the automatic choice does not accept
+ * them (a penalty, `df=8`, `gcv`): the spline, the default before the automatic choice, so such
+ * settings keep their meaning.
+ */
+export const SETTINGS_SMOOTHER = 'spline';
+
+/**
+ * The smoother to run when none is named: {@link DEFAULT_SMOOTHER}, or {@link SETTINGS_SMOOTHER} with a
+ * note when the settings are not the automatic choice's but are the spline's. `optionsFor` gives the
+ * settings as they read for one method (a front that parses settings text per method parses them
+ * there). When neither takes them, the automatic choice's refusal is thrown, saying that no method
+ * was named.
+ *
+ * @throws {@link KnotwiseError} `bad-option`
+ * @example
+ * ```ts
+ * defaultSmoother(() => ({ df: 8 })); // { name: 'spline', note: 'No method was named ...' }
+ * ```
+ */
+export function defaultSmoother(optionsFor: (def: AnalysisDefinition) => Readonly<Record<string, unknown>> | undefined): { name: string; note?: string } {
+  const first = findAnalysis(DEFAULT_SMOOTHER).def;
+  let refusal: KnotwiseError;
+  try {
+    resolveOptions(first.options, optionsFor(first), first.name);
+    return { name: first.name };
+  } catch (e) {
+    if (!isKnotwiseError(e) || e.code !== 'bad-option') throw e;
+    refusal = e;
+  }
+  const unnamed = () => new KnotwiseError('bad-option', `${refusal.message} No method was named, so the automatic choice ran; name a method to use these settings.`);
+  const other = findAnalysis(SETTINGS_SMOOTHER).def;
+  let raw: Readonly<Record<string, unknown>> | undefined;
+  try {
+    raw = optionsFor(other);
+  } catch {
+    throw unnamed();
+  }
+  // settings that name anything the spline does not declare are not the spline's either
+  if (!declaresEvery(other, raw)) throw unnamed();
+  try {
+    resolveOptions(other.options, raw, other.name);
+  } catch (e) {
+    if (!isKnotwiseError(e) || e.code !== 'bad-option') throw e;
+    throw new KnotwiseError('bad-option', `${e.message} (No method was named; settings the automatic choice does not take go to the smoothing spline.)`);
+  }
+  return { name: other.name, note: `No method was named and these settings are not the automatic choice's, so they were applied to the smoothing spline (the default for such settings). Name a method to use them with another.` };
+}
+
+/** Whether every setting given (non-empty) names an option `def` declares, in any accepted spelling. Unchecked. */
+function declaresEvery(def: AnalysisDefinition, raw: Readonly<Record<string, unknown>> | undefined): boolean {
+  const keys = new Set(def.options.flatMap((o) => [o.name, ...(o.oldNames ?? [])]).map(optionKey));
+  return Object.entries(raw ?? {}).every(([k, v]) => v === undefined || v === null || v === '' || keys.has(optionKey(k)));
+}
+
+/** The smoother fitted, without a comparison, on series longer than {@link AUTO_LIMIT}: the spline (linear in n). */
+export const LONG_SERIES_SMOOTHER = 'spline';
+
+/**
+ * Why no methods are compared on a series of n points with this many folds, or undefined when they
+ * are: more than {@link AUTO_LIMIT} points, or too few for the folds (every candidate needs
+ * 2 folds + 2). Unchecked.
+ */
+export function noComparisonReason(n: number, folds: number): string | undefined {
+  const count = (v: number) => v.toLocaleString('en-US');
+  if (n > AUTO_LIMIT) return `no methods were compared: on ${count(n)} points comparing them by cross-validation would take minutes (the automatic choice compares methods on at most ${count(AUTO_LIMIT)} points). Choose a method yourself, or compare on a range of at most ${count(AUTO_LIMIT)} rows.`;
+  if (n < 2 * folds + 2) return `no methods were compared: ${count(n)} points are too few for ${folds}-fold cross-validation (it needs at least ${2 * folds + 2}). Use fewer folds (folds=2 needs 6 points) or more data.`;
+  return undefined;
+}
 
 /**
  * Most penalties a candidate's search grid tries during the automatic choice on series of at least
@@ -116,15 +194,14 @@ export const AUTO_COARSE_FROM = 2000;
  * @param options - resolved: `rule` 'cv-simpler' (default) or 'cv'; `folds` (default 5); `noise`
  *   ('correlated' by default, passed to every candidate that declares it)
  * @param context - progress: one part per candidate
- * @returns the winner's fit (its `smooth`, `criterion`, warnings) with `comparison`
- * @throws {@link KnotwiseError} `too-few-points` when no candidate can be cross-validated;
- *   `bad-data` when the series is longer than {@link AUTO_LIMIT}
+ * @returns the winner's fit (its `smooth`, `criterion`, warnings) with `comparison`; where no methods
+ *   can be compared (too few points for the folds, more than {@link AUTO_LIMIT}, or no candidate
+ *   cross-validated) the spline's, saying why ({@link fitWithoutComparison})
  */
 export function chooseSmoother(series: Series, options: ResolvedOptions, context: RunContext): AnalysisCore {
-  if (series.n > AUTO_LIMIT) {
-    throw new KnotwiseError('bad-data', `the automatic choice compares every method by cross-validation on at most ${AUTO_LIMIT.toLocaleString('en-US')} points; this series has ${series.n.toLocaleString('en-US')}, which would take minutes. Choose a method yourself (spline, whittaker, loess and wavelet fit a full column in seconds; trend with a penalty), or compare on a shorter range of rows.`);
-  }
   const folds = options.folds as number;
+  const refusal = noComparisonReason(series.n, folds);
+  if (refusal) return fitWithoutComparison(series, context, refusal);
   const rule = options.rule as string;
   const noise = options.noise as string | undefined;
   const variants = analysisDefinitions('smoother').flatMap((def) => (def.autoVariants ?? []).map((v) => ({ def, v })));
@@ -144,6 +221,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
         const grid = def.options.find((o) => o.name === 'searchPoints')?.default;
         const coarser = series.n >= AUTO_COARSE_FROM && typeof grid === 'number' && grid > AUTO_SEARCH_POINTS ? { searchPoints: AUTO_SEARCH_POINTS } : {};
         const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...coarser, ...(declares('season') ? { season: 'none' } : {}), ...(noise !== undefined && declares('noise') ? { noise } : {}) }, def.name).options;
+        if (v.maxPoints !== undefined && series.n > v.maxPoints) throw new KnotwiseError('bad-data', `its cross-validation grows faster than the series; the automatic choice includes it on at most ${v.maxPoints.toLocaleString('en-US')} points (run it on its own with a penalty, or on a shorter range of rows).`);
         if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
         const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
         const fit = core.smooth!;
@@ -162,7 +240,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
     context.comparing = wasComparing;
   }
   const ok = rows.map((r, i) => i).filter((i) => !rows[i].skipped);
-  if (ok.length === 0) throw new KnotwiseError('too-few-points', `no method could be cross-validated with ${folds} folds on ${series.n} points; choose a method and a penalty yourself, or use fewer folds.`);
+  if (ok.length === 0) return fitWithoutComparison(series, context, `no methods were compared: none could be cross-validated with ${folds} folds on ${series.n.toLocaleString('en-US')} points. Choose a method and a penalty yourself, or use fewer folds.`);
   // the shared rule of choosePenalty on the candidates ordered from the most complex to the simplest
   // (more df first; at equal df the higher declared simplicity first): its minimum is the lowest
   // error (ties to the simpler), its one-standard-error pick the simplest within one se of it
@@ -186,6 +264,19 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   if (series.n >= AUTO_COARSE_FROM) notes.push(warning('note', `On ${series.n.toLocaleString('en-US')} points each candidate searched at most ${AUTO_SEARCH_POINTS} penalties (its own default range); run a method on its own for its full search grid.`));
   for (const r of rows) if (r.skipped) notes.push(warning('note', `Not compared: ${r.label}: ${r.skipped}`));
   return { ...win, warnings: [...notes, ...win.warnings], comparison: { rows, chosen, best, folds, reason } };
+}
+
+/**
+ * The fit when no methods are compared (`why`: {@link noComparisonReason}, or no candidate could be
+ * cross-validated): {@link LONG_SERIES_SMOOTHER} by its own default rule, with `why` as a note and as
+ * `uncompared`; no `comparison`. Should the spline refuse the data too, its refusal is thrown. Unchecked.
+ */
+export function fitWithoutComparison(series: Series, context: RunContext, why: string): AnalysisCore {
+  const def = findAnalysis(LONG_SERIES_SMOOTHER).def;
+  const core = def.run(series, resolveOptions(def.options, { season: 'none' }, def.name).options, context);
+  const rule = core.smooth?.criterion.name ?? '';
+  const note = warning('note', `${cap(why)} The smoothing spline was fitted instead, its penalty chosen by ${rule.toUpperCase()} (its default rule).`);
+  return { ...core, warnings: [note, ...core.warnings], uncompared: why };
 }
 
 /** The automatic choice as a declared analysis. */

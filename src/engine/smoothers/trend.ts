@@ -424,6 +424,16 @@ function checkTrendWork(n: number, o: ResolvedOptions): void {
 }
 
 /**
+ * Longest series on which the automatic choice includes trend filtering, by order. Orders 0 and 1
+ * are included on every series it compares (their cross-validation grows about linearly: 0.3 and
+ * 0.8 s at 20,000 points, 1.0 and 3.0 s at 100,000, with the automatic choice's 15 penalties).
+ * Order 2's cross-validation grows faster (about 0.5 s at 5,000 points and most of the 2.4 to 3.9 s
+ * of the whole choice at 10,000), and order 3's own limit for cross-validation is 5,000
+ * ({@link TREND_DATA_DRIVEN_LIMITS}); 2-core machine, `npm run bench -- --only=smoothers`.
+ */
+export const TREND_AUTO_MAX_POINTS: readonly number[] = [Infinity, Infinity, 10000, TREND_DATA_DRIVEN_LIMITS[3].cv];
+
+/**
  * Trend filtering as a declared analysis: order, penalty rule (or a fixed
  * penalty, or a df target), folds, refit, grid, solver tolerance and
  * iteration limit. Registered in `analyses.ts`.
@@ -452,8 +462,8 @@ export const trendAnalysis: AnalysisDefinition = {
   autoVariants: [
     { label: 'level shifts (trend filtering, order 0)', options: { order: 0 }, simplicity: 0 },
     { label: 'straight pieces with kinks (trend filtering, order 1)', options: { order: 1 }, simplicity: 1 },
-    { label: 'smooth bends (trend filtering, order 2)', options: { order: 2 }, simplicity: 2 },
-    { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3 },
+    { label: 'smooth bends (trend filtering, order 2)', options: { order: 2 }, simplicity: 2, maxPoints: TREND_AUTO_MAX_POINTS[2] },
+    { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3, maxPoints: TREND_AUTO_MAX_POINTS[3] },
   ],
   run(series: Series, options: ResolvedOptions, context: RunContext) {
     checkTrendWork(series.n, options);

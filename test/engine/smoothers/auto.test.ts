@@ -5,7 +5,9 @@
  * is within one standard error of the best candidate's.
  */
 import { runAnalysis, evaluateAnalysis, analysisDefinitions } from '../../../src/engine';
-import { AUTO_LIMIT, AUTO_COARSE_FROM, AUTO_SEARCH_POINTS } from '../../../src/engine/smoothers/auto';
+import { AUTO_LIMIT, AUTO_COARSE_FROM, AUTO_SEARCH_POINTS, LONG_SERIES_SMOOTHER } from '../../../src/engine/smoothers/auto';
+import { TREND_AUTO_MAX_POINTS, TREND_DATA_DRIVEN_LIMITS } from '../../../src/engine/smoothers/trend';
+import { MIXED_DATA_DRIVEN_LIMIT } from '../../../src/engine/smoothers/mixed/mixedAnalysis';
 import { normalStream } from '../../helpers/random';
 
 function series(f: (t: number) => number, n: number, sd: number, seed: number) {
@@ -15,20 +17,53 @@ function series(f: (t: number) => number, n: number, sd: number, seed: number) {
 }
 
 describe('auto', () => {
-  test('a series longer than the limit is refused at once, saying what to do instead', () => {
-    const { x, y } = series((t) => Math.sin(t / 500), AUTO_LIMIT + 1, 0.3, 3);
-    // at once: no candidate is run before the refusal
-    const spies = analysisDefinitions('smoother').filter((d) => d.name !== 'auto').map((d) => jest.spyOn(d, 'run'));
+  test('beyond the limit no methods are compared: the spline is fitted by its own default rule, and a note says so', () => {
+    const { x, y } = series((t) => Math.sin(t / 5000), AUTO_LIMIT + 1, 0.3, 3);
+    const defs = analysisDefinitions('smoother').filter((d) => d.name !== 'auto');
+    const spies = defs.map((d) => jest.spyOn(d, 'run'));
     try {
-      expect(() => runAnalysis({ analysis: 'auto', y, x })).toThrow(/automatic choice .* at most 10,000 points; this series has 10,001.*Choose a method yourself \(spline, whittaker/);
-      for (const s of spies) expect(s).not.toHaveBeenCalled();
-      // the check is live: the same spies see candidates run on a short series
-      runAnalysis({ analysis: 'auto', y: y.slice(0, 60), x: x.slice(0, 60) });
-      expect(spies.some((s) => s.mock.calls.length > 0)).toBe(true);
+      const r = runAnalysis({ analysis: 'auto', y, x });
+      // only the spline ran, once: no candidate was cross-validated
+      defs.forEach((d, i) => expect(spies[i]).toHaveBeenCalledTimes(d.name === LONG_SERIES_SMOOTHER ? 1 : 0));
+      expect(r.analysis).toBe('auto');
+      expect(r.smooth!.method).toBe('spline');
+      expect(r.comparison).toBeUndefined();
+      expect(r.uncompared).toMatch(/^no methods were compared: on 50,001 points/);
+      expect(r.warnings[0].message).toMatch(/^No methods were compared: on 50,001 points .* at most 50,000 points\). Choose a method yourself.* The smoothing spline was fitted instead, its penalty chosen by GCV/);
+      // the same fit as the spline asked for by name
+      const own = runAnalysis({ analysis: 'spline', y, x });
+      expect(Array.from(r.smooth!.fitted)).toEqual(Array.from(own.smooth!.fitted));
+      expect(own.smooth!.criterion.name).toBe('gcv');
     } finally {
       for (const s of spies) s.mockRestore();
     }
   });
+
+  test('a variant is left out beyond the length it declares (maxPoints), and the table says why', () => {
+    const smoothers = analysisDefinitions('smoother');
+    const variant = (name: string, order?: number) => smoothers.find((d) => d.name === name)!.autoVariants!.find((v) => order === undefined || v.options.order === order)!;
+    // the declarations: orders 2 and 3 and the mixed trend stop early; order 3 and the mixed trend at their own limits
+    expect(variant('trend', 2).maxPoints).toBe(TREND_AUTO_MAX_POINTS[2]);
+    expect(variant('trend', 3).maxPoints).toBe(TREND_DATA_DRIVEN_LIMITS[3].cv);
+    expect(variant('mixed').maxPoints).toBe(MIXED_DATA_DRIVEN_LIMIT);
+    expect(variant('trend', 1).maxPoints).toBeUndefined();
+    // the rule at work, on the shortest declared length plus one
+    const n = MIXED_DATA_DRIVEN_LIMIT + 1;
+    const { x, y } = series((t) => (t < 400 ? 0.01 * t : 4 - 0.005 * (t - 400)) + Math.sin(t / 60), n, 0.3, 23);
+    const mixed = smoothers.find((d) => d.name === 'mixed')!;
+    const spy = jest.spyOn(mixed, 'run');
+    try {
+      const r = runAnalysis({ analysis: 'auto', y, x });
+      expect(spy).not.toHaveBeenCalled();
+      const row = r.comparison!.rows.find((c) => c.method === 'mixed')!;
+      expect(row.skipped).toBe('its cross-validation grows faster than the series; the automatic choice includes it on at most 1,000 points (run it on its own with a penalty, or on a shorter range of rows).');
+      expect(r.warnings.some((w) => w.message.startsWith('Not compared: straight pieces with kinks plus smooth bends (mixed trend): its cross-validation grows faster'))).toBe(true);
+      // every other candidate was compared
+      expect(r.comparison!.rows.filter((c) => c.skipped).length).toBe(1);
+    } finally {
+      spy.mockRestore();
+    }
+  }, 120000);
 
   test('from AUTO_COARSE_FROM points the candidates with a longer grid search AUTO_SEARCH_POINTS penalties over their usual range; below it their own grid', () => {
     const defs = analysisDefinitions('smoother').filter((d) => d.name !== 'auto');
@@ -106,7 +141,16 @@ describe('auto', () => {
     expect(Number.isFinite(ev.value[0])).toBe(true);
   });
 
-  test('auto on too few points for cross-validation says what to do', () => {
-    expect(() => runAnalysis({ analysis: 'auto', y: [1, 2, 3, 4, 5, 6, 7, 8] })).toThrow(/no method could be cross-validated with 5 folds on 8 points/);
+  test('auto on too few points for cross-validation fits the spline and says why no methods were compared', () => {
+    const y = [1, 2.5, 2.8, 4.4, 5.1, 5.9, 7.3, 8.2];
+    const r = runAnalysis({ analysis: 'auto', y });
+    expect(r.comparison).toBeUndefined();
+    expect(r.uncompared).toBe('no methods were compared: 8 points are too few for 5-fold cross-validation (it needs at least 12). Use fewer folds (folds=2 needs 6 points) or more data.');
+    expect(r.warnings[0].message).toMatch(/^No methods were compared: 8 points are too few .* The smoothing spline was fitted instead, its penalty chosen by GCV/);
+    expect(Array.from(r.smooth!.fitted)).toEqual(Array.from(runAnalysis({ analysis: 'spline', y }).smooth!.fitted));
+    // with fewer folds the same points are compared
+    expect(runAnalysis({ analysis: 'auto', y, options: { folds: 2 } }).comparison!.rows.length).toBeGreaterThan(3);
+    // and where even the spline cannot fit, its refusal stands
+    expect(() => runAnalysis({ analysis: 'auto', y: [1, 2] })).toThrow();
   });
 });
