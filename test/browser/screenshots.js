@@ -3,7 +3,7 @@
  * Screenshots of the preview pane in Debian's headless Chromium at task-pane
  * widths (320 and 420 px), for looking at layouts and for the README.
  * Run after `npm run build`: node test/browser/screenshots.js [outdir]
- * Writes pane-<method>-<width>.png to outdir (default dist/screenshots) and
+ * Writes pane-<method>-<width>.png to outdir (pane-default: the pane as it opens, fitted with its first entry) (default dist/screenshots) and
  * assets/screenshots/pane-dates.png (the trend fit of the demo with its date axis, 420 px) and
  * assets/screenshots/pane-decomposition.png (the demo taken apart with the season on, 420 px). The automatic choice
  * is drawn with its runner-up (the default comparison), and trend1-vs-spline compares two picked methods.
@@ -29,10 +29,11 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
     await page.goto(`${base}/preview.html`);
     await page.waitForSelector('#sheet-table tr');
     // name-vs-other: the second method drawn for comparison; name@season: a decomposition's season setting
-    for (const shot of ['trend1', 'spline', 'auto', 'breaks-volatility', 'decompose-adaptive', 'decompose-adaptive@on', 'decompose-stl@on', 'trend1-vs-spline']) {
+    // default: the pane as it opens (its first entry, the automatic choice), nothing chosen
+    for (const shot of ['default', 'trend1', 'spline', 'auto', 'breaks-volatility', 'decompose-adaptive', 'decompose-adaptive@on', 'decompose-stl@on', 'trend1-vs-spline']) {
       const [first, second] = shot.split('-vs-');
       const [method, season] = first.split('@');
-      await page.selectOption('#method', method);
+      if (method !== 'default') await page.selectOption('#method', method);
       if (second) await page.selectOption('#second', second);
       if (season) await page.selectOption('#season', season);
       await page.click('#run');
