@@ -283,7 +283,7 @@ export function fitWithoutComparison(series: Series, context: RunContext, why: s
 export const autoAnalysis: AnalysisDefinition = {
   name: 'auto',
   family: 'smoother',
-  label: 'Let the data choose the method (compares every smoother by cross-validation)',
+  label: 'Let the data choose the method',
   summary: 'every smoother and order chooses its penalty by K-fold cross-validation on the same folds; the lowest error wins, or the simplest within one standard error of it',
   options: [
     {
