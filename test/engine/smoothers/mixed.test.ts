@@ -62,6 +62,25 @@ describe('mixed trend', () => {
     expect(r.criterion!.name).toBe('df');
   });
 
+  test('a df target is met at the smallest penalty with that df: the least shrunk of the fits with that df', () => {
+    // the df of a lasso is not monotone in its penalty: on this 500-point series at a width of 16 spacings df 12
+    // is met near lambda1 = 3.6e3 (no kinks, error 5.2e-2 against the truth) and again near 1.1e3 (error 8.7e-3)
+    const long = kinkedThenSmoothSeries(500, 5);
+    const s = seriesFromArrays(long.x, long.y);
+    const width = 16 * (long.x[499] - long.x[0]) / 499;
+    const m = fitMixed(s, { df: 12, width });
+    expect(m.df).toBe(12);
+    // just below its penalty the df is above the target: the fit sits at the last crossing
+    expect(fitMixed(s, { penalty: 0.9 * m.penalty, width }).df).toBeGreaterThan(12);
+    // the first crossing from the top (the fit a plain bisection from there finds: lambda1 = 3.567e3, no kinks,
+    // error 5.2e-2) is over 3 times larger; near it the df moves between 9 and 12
+    expect(fitMixed(s, { penalty: 3.567e3, width }).df).toBe(12);
+    expect(m.penalty).toBeLessThan(3.567e3 / 3);
+    let e = 0;
+    for (let i = 0; i < 500; i++) e += (m.fitted[i] - long.truth[i]) ** 2;
+    expect(e / 500).toBeLessThan(2e-2);
+  });
+
   test('cross-validated: below the top of its path every point has knots and converged; the top is the cubic', () => {
     // below the top the cubic is not the solution (a dual of its residual is outside its box). The ADMM's
     // residual test used to pass there with its step sizes at their cap and the cubic returned (such points are

@@ -349,35 +349,48 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
   return { width, ratio, grid, fits, cv: cv.score, se: cv.se };
 }
 
-/** lambda1 (scaled) whose df is closest to the target at a fixed ratio: a path, then bisection on log(lambda1). Unchecked. */
+/** Halvings of the bracket around the last crossing of the df target in {@link solveMixedForDf}. */
+const DF_BISECTIONS = 16;
+
+/**
+ * lambda1 (scaled) whose df is closest to the target at a fixed ratio, the smallest such of equal df: a
+ * path, then bisection on log(lambda1) of the last crossing above the target. Unchecked.
+ */
 function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, target: number, G: number, full: MixedSolveSettings, context: RunContext): { fit: MixedFit; lambda: number; curve: CriterionPoint[] } {
   const top = pathTop(sc.xs, sc.ys, sc.ws, ratio) || 1;
   const lo = top * MIXED_PATH_RATIO * 1e-2;
   const seen: { lambda: number; fit: MixedFit }[] = [];
   const at = (l: number, start: MixedStart): MixedFit => { const f = solveMixed(probs, sc.ys, l, l * ratio, PATH, start); seen.push({ lambda: l, fit: f }); return f; };
-  // coarse path from the top down until the df passes the target
+  // coarse path from the top down until the df passes above the target. The df of a lasso is not
+  // monotone in its penalty: the target can be met at several penalties, and fits of equal df can differ
+  // much (on a 500-point kinked-then-smooth series at a width of 16 spacings, df 12 at lambda1 = 3.6e3 and,
+  // as order-3 trend filtering, at a penalty 6 times smaller, errors 5.2e-2 and 3.6e-3). Of fits with the
+  // target df the one at the smallest penalty is kept: the least shrunk, with the smallest residual sum of
+  // squares (which never falls as the penalty grows). So the search brackets the last crossing above the
+  // target, not the first
   let hiL = top, loL = lo;
   let prev: MixedFit | undefined;
   for (let j = 0; j < G; j++) {
-    context.step(j / (G + 30), 'looking for the penalty with the target df');
+    context.step(j / (G + DF_BISECTIONS), 'looking for the penalty with the target df');
     const l = top * Math.pow(lo / top, j / (G - 1));
     prev = at(l, prev ? { admm: prev.admm } : {});
-    if (mixedDf(prev) >= target) { loL = l; break; }
+    if (mixedDf(prev) > target) { loL = l; break; }
     hiL = l;
   }
+  // bisection of [loL, hiL] on log(lambda1): df above the target at loL, at most the target at hiL
   let a = Math.log(loL), b = Math.log(hiL);
-  for (let it = 0; it < 30 && b - a > 1e-6; it++) {
-    context.step((G + it) / (G + 30), 'looking for the penalty with the target df');
-    const best = seen.reduce((p, q) => (Math.abs(mixedDf(q.fit) - target) < Math.abs(mixedDf(p.fit) - target) ? q : p));
-    if (mixedDf(best.fit) === target) break;
+  let above = prev;
+  for (let it = 0; it < DF_BISECTIONS && b - a > 1e-6; it++) {
+    context.step((G + it) / (G + DF_BISECTIONS), 'looking for the penalty with the target df');
     const mid = 0.5 * (a + b);
-    const f = at(Math.exp(mid), { admm: best.fit.admm });
-    if (mixedDf(f) > target) a = mid; else b = mid;
+    const f = at(Math.exp(mid), { admm: above?.admm });
+    if (mixedDf(f) > target) { a = mid; above = f; } else b = mid;
   }
+  // closest to the target; of equal distance the smallest penalty
   let best = seen[0];
   for (const q of seen) {
     const dq = Math.abs(mixedDf(q.fit) - target), db = Math.abs(mixedDf(best.fit) - target);
-    if (dq < db || (dq === db && q.lambda > best.lambda)) best = q;
+    if (dq < db || (dq === db && q.lambda < best.lambda)) best = q;
   }
   const curve = seen.slice().sort((p, q) => p.lambda - q.lambda).map((q) => ({ penalty: toData1(q.lambda, sc), score: mixedDf(q.fit), df: mixedDf(q.fit), converged: q.fit.status.converged }));
   // the exact fits can count a few more or fewer knots than the ADMM's path: a short bisection on the exact fits
@@ -385,7 +398,7 @@ function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, 
   const exact = (l: number, st: MixedStart) => { const f = solveMixed(probs, sc.ys, l, l * ratio, full, st); return { lambda: l, fit: f }; };
   let cur = exact(best.lambda, { admm: best.fit.admm });
   let closest = cur;
-  const better = (q: typeof cur) => { const dq = Math.abs(mixedDf(q.fit) - target), dc = Math.abs(mixedDf(closest.fit) - target); if (dq < dc || (dq === dc && q.lambda > closest.lambda)) closest = q; };
+  const better = (q: typeof cur) => { const dq = Math.abs(mixedDf(q.fit) - target), dc = Math.abs(mixedDf(closest.fit) - target); if (dq < dc || (dq === dc && q.lambda < closest.lambda)) closest = q; };
   if (mixedDf(cur.fit) !== target) {
     const up = mixedDf(cur.fit) > target; // df falls as lambda grows
     let other = cur;
