@@ -352,12 +352,13 @@ test('Cancel stops a fit running in the worker: the status says so, the worker i
   // Cancel once a worker has the job: a job still queued (its worker starting) is dropped from the queue without
   // stopping any worker, which is right but not what this test checks
   await page.waitForFunction(() => globalThis[Symbol.for('knotwise.pageRuntime')].pool.running > 0, null, { timeout: 30000 });
+  const atCancel = await page.evaluate(() => { const p = globalThis[Symbol.for('knotwise.pageRuntime')].pool; return { running: p.running, queued: p.queued, workers: p.workers, ...p.stats }; });
   await page.click('#cancel');
   await page.waitForFunction(() => /cancelled/i.test(document.querySelector('#status')?.textContent || ''));
   const tCancelled = Date.now();
   assert(await page.isHidden('#progress'), 'the progress bar is still shown after Cancel');
   const after = await poolStats(page);
-  assert(after.workersTerminated === before.workersTerminated + 1, `workers terminated ${before.workersTerminated} -> ${after.workersTerminated}`);
+  assert(after.workersTerminated === before.workersTerminated + 1, `workers terminated ${before.workersTerminated} -> ${after.workersTerminated} (pool before ${JSON.stringify(before)}, at Cancel ${JSON.stringify(atCancel)}, after ${JSON.stringify(after)}; status "${await page.textContent('#status')}")`);
   assert(after.workersStarted === before.workersStarted + 1, `workers started ${before.workersStarted} -> ${after.workersStarted}: no replacement`);
   assert(after.jobsCancelled === before.jobsCancelled + 1 && after.running === 0, `after cancel: ${JSON.stringify(after)}`);
   const idle = await page.evaluate(async () => { const t = performance.now(); await globalThis[Symbol.for('knotwise.pageRuntime')].pool.whenIdle(); return performance.now() - t; });
