@@ -328,7 +328,12 @@ function widthPath(series: Series, sc: TrendScaling, probs: MixedProblems, width
     }
     fits.push(f);
     if (interiorFrom === Infinity && f.interior) interiorFrom = j;
-    start = { admm: f.admm };
+    // where the interior point stalls, the next point's exact block steps warm-start their order-1 solves from this
+    // point's kinks (the active-set rounds of order 1 settle fast from nearby knots; measured on the 730-point bench
+    // series, 5 to 7% less time for the whole cross-validation, the same choices). Warm-starting the order-3 solves
+    // from this point's bends too was slower on 500-point kinked-then-smooth series (0.48 to 0.50 s against 0.75 to
+    // 0.82 s): from displaced knots their active-set rounds take longer than a cold solve
+    start = { admm: f.admm, kinkFit: f.kinkFit };
   }
   const grid = Float64Array.from(lambdas);
   const foldSettings = (j: number) => (j >= interiorFrom - 1 ? FOLD : FOLD_ADMM);

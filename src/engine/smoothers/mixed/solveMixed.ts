@@ -172,12 +172,14 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
   const F = (aIn: Float64Array): Float64Array => {
     for (let i = 0; i < n; i++) z[i] = y[i] - aIn[i];
     probs.three = { x, y: Float64Array.from(z), w, k: 3, op: probs.three?.op, x01: probs.three?.x01, basis: probs.three?.basis };
-    fit3 = solveTrend(probs.three, lambda3, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit3, seed: fit3 ? seedOf(fit3) : undefined });
+    // an exact fit at these penalties (the last step's) is rebuilt from its knots; one at another penalty (the
+    // previous point of a path, passed in `start`) only warm-starts the solve
+    fit3 = solveTrend(probs.three, lambda3, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit3, seed: fit3 && fit3.lambda === lambda3 ? seedOf(fit3) : undefined });
     const line = weightedPolynomialFit(x, fit3.b, w, 1);
     c = Float64Array.from(fit3.b, (v, i) => v - line[i]);
     for (let i = 0; i < n; i++) z[i] = y[i] - c[i];
     probs.one = { x, y: Float64Array.from(z), w, k: 1, op: probs.one?.op, x01: probs.one?.x01, admmRows: probs.one?.admmRows, basis: probs.one?.basis };
-    fit1 = solveTrend(probs.one, lambda1, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit1, seed: fit1 ? seedOf(fit1) : undefined });
+    fit1 = solveTrend(probs.one, lambda1, { tolerance: s.innerTolerance, maxIterations: s.innerIterations, warm: fit1, seed: fit1 && fit1.lambda === lambda1 ? seedOf(fit1) : undefined });
     innerIterations += fit3.status.iterations + fit1.status.iterations;
     innerOk = fit3.status.converged && fit1.status.converged;
     return Float64Array.from(fit1.b);
