@@ -5,12 +5,13 @@
  */
 import * as solveTrendModule from '../../../src/engine/smoothers/trend/solveTrend';
 import { solveTrend, seedOf, TrendProblem, WARM_RULE } from '../../../src/engine/smoothers/trend/solveTrend';
-import { trendPath } from '../../../src/engine/smoothers/trend/trendPath';
+import { trendPath, CV_TOLERANCE } from '../../../src/engine/smoothers/trend/trendPath';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
 import { checkTrendKkt, denseDifference } from './trendKkt';
 import { doppler, seededNormal } from './trendTestFunctions';
+import { kinksAndWave } from '../../helpers/autoBenchShapes';
 
 const realSolveTrend = solveTrend;
 
@@ -288,3 +289,34 @@ describe('trendPath, fold fits switching to the interior point', () => {
     }
   });
 });
+
+describe('trendPath, fold fits at the looser gap of CV_TOLERANCE', () => {
+  // What the choice depends on is the minimum and the scores near it (the one-standard-error rule): a score within 5
+  // standard errors of the minimum may move by at most 0.05 of its standard error (measured: at most 0.044 on the
+  // benchmark series, 0.02 here), any other by at most a tenth of its distance from the minimum, so that none can
+  // come near being chosen (measured: up to 0.24 of a standard error, at the polynomial end of the path, about 48
+  // standard errors above the minimum)
+  test.each([1, 2, 3])('order %i: scores near the minimum within 0.05 of their standard error of the scores with fold fits at 1e-5, the others within a tenth of their distance from it, and the minimum at the same df', (k) => {
+    // an invented 2,000-point series: the automatic choice's kinks-and-wave shape with noise sd 0.3
+    const rn = seededNormal(150 + k);
+    const n = 2000;
+    const x = Array.from({ length: n }, (_, i) => i + 1);
+    const y = x.map((t) => kinksAndWave(t / n) + 0.3 * rn());
+    const series = seriesFromArrays(x, y);
+    const settings = { order: k, gridSize: 15, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 };
+    expect(CV_TOLERANCE).toBe(1e-3);
+    const loose = trendPath(series, settings);
+    const tight = trendPath(series, { ...settings, foldTolerance: 1e-5 });
+    const argmin = (p: typeof loose) => p.points.reduce((b, q, j) => (q.cv < p.points[b].cv ? j : b), 0);
+    const best = tight.points[argmin(tight)];
+    for (let j = 0; j < tight.points.length; j++) {
+      const t = tight.points[j];
+      expect(loose.points[j].df).toBe(t.df); // the full-data path is the same
+      const moved = Math.abs(loose.points[j].cv - t.cv) / t.cvSe;
+      const distance = (t.cv - best.cv) / best.cvSe;
+      expect(moved).toBeLessThanOrEqual(distance <= 5 ? 0.05 : 0.1 * distance);
+    }
+    expect(loose.points[argmin(loose)].df).toBe(tight.points[argmin(tight)].df);
+  }, 120000);
+});
+

@@ -189,12 +189,18 @@ const FULL: MixedSolveSettings = { interiorTolerance: 1e-7, exactAfterStall: 0, 
  */
 const PATH: MixedSolveSettings = { ...FULL, exactAfterStall: Infinity, maxCycles: 200, admmTolerance: 1e-5, admmIterations: 3000, refine: false };
 /**
- * Cross-validation folds: the interior point at the looser gap of trend filtering's folds ({@link CV_TOLERANCE}:
- * they only predict held-out points), from the first penalty of the path at which it converged on the full data,
+ * Relative duality gap of the mixed trend's fold fits by the interior point: looser than the path's, since they only
+ * predict held-out points, and kept at the 1e-5 that trend filtering's folds used until {@link CV_TOLERANCE} became
+ * 1e-3 (the mixed trend's folds were not measured at the looser gap).
+ */
+export const MIXED_FOLD_TOLERANCE = 1e-5;
+
+/**
+ * Cross-validation folds: the interior point at {@link MIXED_FOLD_TOLERANCE}, from the first penalty of the path at which it converged on the full data,
  * and one before it; the ADMM at the larger penalties above, where the interior point stalls (nearly knot-free
  * fits: ill-conditioned Newton systems) and a failed attempt would only add its cost.
  */
-const FOLD: MixedSolveSettings = { ...FULL, interiorTolerance: CV_TOLERANCE, admmTolerance: 1e-4, admmIterations: 3000, refine: false };
+const FOLD: MixedSolveSettings = { ...FULL, interiorTolerance: MIXED_FOLD_TOLERANCE, admmTolerance: 1e-4, admmIterations: 3000, refine: false };
 const FOLD_ADMM: MixedSolveSettings = { ...FOLD, interiorTolerance: 0 };
 
 /**
