@@ -427,9 +427,10 @@ function checkTrendWork(n: number, o: ResolvedOptions): void {
  * Longest series on which the automatic choice includes trend filtering, by order. Orders 0 and 1
  * are included on every series it compares (their cross-validation grows about linearly: 0.3 and
  * 0.8 s at 20,000 points, 1.0 and 3.0 s at 100,000, with the automatic choice's 15 penalties).
- * Order 2's cross-validation grows faster (about 0.5 s at 5,000 points and most of the 2.4 to 3.9 s
- * of the whole choice at 10,000), and order 3's own limit for cross-validation is 5,000
- * ({@link TREND_DATA_DRIVEN_LIMITS}); 2-core machine, `npm run bench -- --only=smoothers`.
+ * Order 2's cross-validation grows faster (0.36 s at 5,000 points and 0.77 to 0.86 s of the 2.0 s
+ * the whole choice took at 10,000 in the last bench run), and order 3's own limit for
+ * cross-validation is 5,000 ({@link TREND_DATA_DRIVEN_LIMITS}); 2-core machine,
+ * `npm run bench -- --only=smoothers`.
  */
 export const TREND_AUTO_MAX_POINTS: readonly number[] = [Infinity, Infinity, 10000, TREND_DATA_DRIVEN_LIMITS[3].cv];
 
