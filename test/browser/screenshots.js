@@ -3,8 +3,9 @@
  * Screenshots of the preview pane in Debian's headless Chromium at task-pane
  * widths (320 and 420 px), for looking at layouts and for the README.
  * Run after `npm run build`: node test/browser/screenshots.js [outdir]
- * Writes pane-<method>-<width>.png to outdir (pane-default: the pane as it opens, fitted with its first entry) (default dist/screenshots) and
- * assets/screenshots/pane-dates.png (the trend fit of the demo with its date axis, 420 px) and
+ * Writes pane-<method>-<width>.png to outdir (default dist/screenshots; pane-default: the pane as it opens,
+ * fitted with its first entry), assets/screenshots/pane-default.png (that view at 420 px: the automatic choice
+ * with its runner-up), assets/screenshots/pane-dates.png (the trend fit of the demo with its date axis, 420 px) and
  * assets/screenshots/pane-decomposition.png (the demo taken apart with the season on, 420 px). The automatic choice
  * is drawn with its runner-up (the default comparison), and trend1-vs-spline compares two picked methods.
  */
@@ -44,8 +45,9 @@ const out = process.argv[2] || path.join(__dirname, '..', '..', 'dist', 'screens
       const file = path.join(out, `pane-${shot}-${width}.png`);
       await page.locator('#pane').screenshot({ path: file });
       console.log(`wrote ${file}`);
-      if ((shot === 'trend1' || shot === 'decompose-adaptive@on') && width === 420) {
-        const readme = path.join(__dirname, '..', '..', 'assets', 'screenshots', shot === 'trend1' ? 'pane-dates.png' : 'pane-decomposition.png');
+      const forReadme = { default: 'pane-default.png', trend1: 'pane-dates.png', 'decompose-adaptive@on': 'pane-decomposition.png' };
+      if (forReadme[shot] && width === 420) {
+        const readme = path.join(__dirname, '..', '..', 'assets', 'screenshots', forReadme[shot]);
         await page.locator('#pane').screenshot({ path: readme, clip: undefined });
         console.log(`wrote ${readme}`);
       }
