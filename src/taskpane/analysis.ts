@@ -31,7 +31,7 @@ export interface PenaltyChoice {
 /**
  * A second smoother drawn over the first for comparison: a method of the list with its rule, or the
  * runner-up of the automatic choice (the candidate with the lowest cross-validation error after the
- * chosen one, refitted by the same cross-validation on the same folds).
+ * chosen one, drawn as it was compared: the engine returns its fit with the comparison).
  */
 export type SecondChoice = { kind: 'method'; choice: Choice; pen: PenaltyChoice } | { kind: 'runner-up' };
 
@@ -96,22 +96,6 @@ export type Analysis = RunNotes & (
       /** The optimal segmentations for penalties around the chosen one (CROPS), for "why this penalty". */
       path?: CropsRow[] });
 
-/** Runs the chosen analysis on a selection. Throws the engine's errors unchanged. */
-/**
- * The chosen analysis as a sequence of engine requests: it yields each request
- * and receives its result, so one description runs on this thread
- * ({@link analyse}) or through the page's worker pool ({@link analyseWith}).
- */
-/** The candidate to offer as the runner-up of an automatic choice: the lowest CV error among the others compared. */
-export function runnerUp(c: Comparison): number | null {
-  let k: number | null = null;
-  c.rows.forEach((r, i) => {
-    if (i === c.chosen || r.skipped || !Number.isFinite(r.cv)) return;
-    if (k === null || r.cv < c.rows[k].cv) k = i;
-  });
-  return k;
-}
-
 /** The list entry of a candidate of the automatic choice (same analysis, same options). */
 function choiceOfCandidate(r: Comparison['rows'][number]): Choice | undefined {
   const same = (a: Record<string, unknown>, b: Record<string, unknown>) => Object.keys(a).length === Object.keys(b).length && Object.keys(a).every((k) => a[k] === b[k]);
@@ -120,6 +104,11 @@ function choiceOfCandidate(r: Comparison['rows'][number]): Choice | undefined {
 
 type Step = AnalysisRequest & { second?: boolean };
 
+/**
+ * The chosen analysis as a sequence of engine requests: it yields each request
+ * and receives its result, so one description runs on this thread
+ * ({@link analyse}) or through the page's worker pool ({@link analyseWith}).
+ */
 function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoice?: SecondChoice): Generator<Step, Analysis, AnalysisResult> {
   const sel = splitSelection(block);
   const FAMILY = { smooth: 'smoother', breaks: 'changepoints', decompose: 'decomposition' } as const;
@@ -155,14 +144,12 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoi
         const other = yield { ...requestFor(secondChoice.choice, secondChoice.pen), second: true };
         second = { choice: secondChoice.choice, result: other.smooth!, how: 'method' };
       } else if (secondChoice?.kind === 'runner-up' && answer.comparison) {
-        const k = runnerUp(answer.comparison);
-        const row = k === null ? undefined : answer.comparison.rows[k];
+        // the engine's runner-up with its fit as it was compared (its cross-validation on the same folds): no second fit
+        const ru = answer.comparison.runnerUp;
+        const row = ru ? answer.comparison.rows[ru.row] : undefined;
         const c = row && choiceOfCandidate(row);
-        if (row && c) {
-          // the candidate as it was compared: its own cross-validation on the automatic choice's folds
-          const other = yield { ...requestFor(c, { rule: 'cv' }, { folds: answer.comparison.folds }), second: true };
-          second = { choice: c, result: other.smooth!, how: 'runner-up', row };
-        } else secondError = 'no other method could be compared, so there is no runner-up to draw.';
+        if (ru && row && c) second = { choice: c, result: ru.fit, how: 'runner-up', row };
+        else secondError = 'no other method could be compared, so there is no runner-up to draw.';
       }
     } catch (e) {
       if (isCancelled(e)) throw e;
@@ -182,6 +169,7 @@ function* steps(block: CellBlock, choice: Choice, pen: PenaltyChoice, secondChoi
   return { kind: 'breaks', choice, sel, series, result, path, warnings: first.warnings, caveats: first.caveats };
 }
 
+/** Runs the chosen analysis on a selection on this thread. Throws the engine's errors unchanged. */
 /** Runs the chosen analysis on a selection on this thread. Throws the engine's errors unchanged. */
 export function analyse(block: CellBlock, choice: Choice, pen: PenaltyChoice, second?: SecondChoice): Analysis {
   const it = steps(block, choice, pen, second);

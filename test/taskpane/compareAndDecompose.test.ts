@@ -5,7 +5,8 @@
  * receives (header included) adding back to the data, and a second fit run as asked.
  */
 import { weeklyOrders } from '../../src/demo/weeklyOrders';
-import { analyse, choiceOf, runnerUp } from '../../src/taskpane/analysis';
+import { analyse, choiceOf } from '../../src/taskpane/analysis';
+import { analysisDefinitions } from '../../src/engine';
 import { ruleChoices } from '../../src/taskpane/methodChoices';
 import { sharePlan } from '../../src/taskpane/share';
 import { columnLetters } from '../../src/present';
@@ -113,19 +114,32 @@ describe('two fits on one chart', () => {
     expect(sharePlan(v).fitted.values[0]).toEqual(['orders (trend 1)']);
   });
 
-  test('the runner-up of the automatic choice is refitted as it was compared (same folds: same df and CV error)', () => {
-    const a = analyse(withHeader, choiceOf('auto'), { rule: 'auto' }, { kind: 'runner-up' });
+  test('the runner-up of the automatic choice is drawn as it was compared, without a second fit (same folds: same df and CV error)', () => {
+    const defs = analysisDefinitions('smoother').filter((d) => d.name !== 'auto');
+    const spies = defs.map((d) => jest.spyOn(d, 'run'));
+    let a: ReturnType<typeof analyse>;
+    let calls: number[];
+    try {
+      a = analyse(withHeader, choiceOf('auto'), { rule: 'auto' }, { kind: 'runner-up' });
+    } finally {
+      calls = spies.map((sp) => sp.mock.calls.length); // restoring clears them
+      spies.forEach((sp) => sp.mockRestore());
+    }
     if (a.kind !== 'smooth') throw new Error('expected a smoother');
     const c = a.comparison!;
-    const k = runnerUp(c)!;
+    const k = c.runnerUp!.row;
+    // no second fit: the runner-up's method ran once per variant compared, inside the automatic choice only
+    const i = defs.findIndex((d) => d.name === c.rows[k].method);
+    expect(calls[i]).toBe(c.rows.filter((r) => r.method === defs[i].name).length);
     expect(k).not.toBe(c.chosen);
     for (const [i, r] of c.rows.entries()) if (i !== c.chosen && !r.skipped) expect(r.cv).toBeGreaterThanOrEqual(c.rows[k].cv);
     const s = a.second!;
     expect(s.how).toBe('runner-up');
     expect(s.row).toBe(c.rows[k]);
     expect(s.result.criterion.name).toBe('cv');
-    expect(s.result.df).toBeCloseTo(c.rows[k].df, 6);
-    expect(s.result.criterion.value).toBeCloseTo(c.rows[k].cv, 6);
+    expect(s.result.method).toBe(c.rows[k].method);
+    expect(s.result.df).toBe(c.rows[k].df);
+    expect(s.result.criterion.value).toBe(c.rows[k].cv);
     const v = viewOf(a, withHeader, FACTS);
     expect(v.second!.label).toMatch(/runner-up/);
     expect(v.tables.find((t) => t.id === 'side')!.note).toMatch(/same held-out points/);

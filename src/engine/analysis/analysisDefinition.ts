@@ -61,6 +61,13 @@ export interface Comparison {
   folds: number;
   /** One plain sentence: what was chosen and why. */
   reason: string;
+  /**
+   * The runner-up: the row with the lowest cross-validation error after the chosen one (none when no other
+   * candidate was compared), with its fit as it was compared (same folds, penalty chosen the same way), so a
+   * front can draw it beside the winner without fitting it again. Its knot bends are left out, as every
+   * candidate's but the winner's.
+   */
+  runnerUp?: { row: number; fit: FitResult };
 }
 
 /** The result of {@link runAnalysis}: plain data (structured-clone-able, so it crosses to and from workers). */

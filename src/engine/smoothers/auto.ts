@@ -263,7 +263,11 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   ];
   if (series.n >= AUTO_COARSE_FROM) notes.push(warning('note', `On ${series.n.toLocaleString('en-US')} points each candidate searched at most ${AUTO_SEARCH_POINTS} penalties (its own default range); run a method on its own for its full search grid.`));
   for (const r of rows) if (r.skipped) notes.push(warning('note', `Not compared: ${r.label}: ${r.skipped}`));
-  return { ...win, warnings: [...notes, ...win.warnings], comparison: { rows, chosen, best, folds, reason } };
+  // the runner-up: the lowest cross-validation error after the chosen candidate, with its fit as compared
+  let second = -1;
+  for (const i of ok) if (i !== chosen && Number.isFinite(rows[i].cv) && (second < 0 || rows[i].cv < rows[second].cv)) second = i;
+  const runnerUp = second >= 0 && fits[second]?.smooth ? { row: second, fit: fits[second]!.smooth! } : undefined;
+  return { ...win, warnings: [...notes, ...win.warnings], comparison: { rows, chosen, best, folds, reason, ...(runnerUp ? { runnerUp } : {}) } };
 }
 
 /**
