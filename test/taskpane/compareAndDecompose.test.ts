@@ -140,6 +140,10 @@ describe('two fits on one chart', () => {
     expect(s.result.method).toBe(c.rows[k].method);
     expect(s.result.df).toBe(c.rows[k].df);
     expect(s.result.criterion.value).toBe(c.rows[k].cv);
+    // with its knot bends, as the winner's, so the side-by-side table counts knots alike for both
+    expect(['trend', 'mixed']).toContain(s.result.method);
+    expect(s.result.bends).toBeDefined();
+    expect(a.result.bends).toBeDefined();
     const v = viewOf(a, withHeader, FACTS);
     expect(v.second!.label).toMatch(/runner-up/);
     expect(v.tables.find((t) => t.id === 'side')!.note).toMatch(/same held-out points/);

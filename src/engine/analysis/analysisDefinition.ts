@@ -64,8 +64,7 @@ export interface Comparison {
   /**
    * The runner-up: the row with the lowest cross-validation error after the chosen one (none when no other
    * candidate was compared), with its fit as it was compared (same folds, penalty chosen the same way), so a
-   * front can draw it beside the winner without fitting it again. Its knot bends are left out, as every
-   * candidate's but the winner's.
+   * front can draw it beside the winner without fitting it again; with its knot bends, as the winner's.
    */
   runnerUp?: { row: number; fit: FitResult };
 }

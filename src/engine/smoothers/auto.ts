@@ -27,7 +27,7 @@ import type { RunContext } from '../analysis/runContext';
 import { KnotwiseError, isKnotwiseError, showNumber } from '../errors';
 import type { Series } from '../series';
 import { warning } from '../warnings';
-import type { CriterionPoint } from '../types';
+import type { CriterionPoint, FitResult } from '../types';
 import { choosePenalty } from '../select/choosePenalty';
 import { knotBends } from '../diagnostics/knotBends';
 import { mixedKnotBends, MixedModel } from './mixed/mixedAnalysis';
@@ -249,14 +249,15 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   const curve: CriterionPoint[] = order.map((i) => ({ penalty: NaN, score: rows[i].cv, df: rows[i].df, se: rows[i].se }));
   const best = order[choosePenalty(curve, 'minimum')];
   const chosen = rule === 'cv-simpler' ? order[choosePenalty(curve, 'simpler')] : best;
-  const win = { ...fits[chosen]! };
-  // the winner's knot bends, left out while comparing
-  if (win.smooth && win.smooth.bends === undefined) {
-    const fit = win.smooth;
+  // knot bends, left out while comparing: the winner's and the runner-up's (a front draws both)
+  const withBends = (fit: FitResult): FitResult => {
+    if (fit.bends !== undefined) return fit;
     const bends = fit.method === 'trend' ? knotBends(series, fit.options.order ?? 1, fit.knots)
       : fit.method === 'mixed' ? mixedKnotBends(series, fit.knots, fit.model as MixedModel) : undefined;
-    if (bends) win.smooth = { ...fit, bends };
-  }
+    return bends ? { ...fit, bends } : fit;
+  };
+  const win = { ...fits[chosen]! };
+  if (win.smooth) win.smooth = withBends(win.smooth);
   const reason = explain(rows, chosen, best, rule, win.smooth?.method === 'mixed' && win.smooth.knots.length === 0);
   const notes = [
     warning('note', `Automatic choice among ${ok.length} fits by ${folds}-fold cross-validation on the same held-out points: ${reason} Each score is the minimum of its own curve, so all are slightly optimistic alike.`),
@@ -266,7 +267,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   // the runner-up: the lowest cross-validation error after the chosen candidate, with its fit as compared
   let second = -1;
   for (const i of ok) if (i !== chosen && Number.isFinite(rows[i].cv) && (second < 0 || rows[i].cv < rows[second].cv)) second = i;
-  const runnerUp = second >= 0 && fits[second]?.smooth ? { row: second, fit: fits[second]!.smooth! } : undefined;
+  const runnerUp = second >= 0 && fits[second]?.smooth ? { row: second, fit: withBends(fits[second]!.smooth!) } : undefined;
   return { ...win, warnings: [...notes, ...win.warnings], comparison: { rows, chosen, best, folds, reason, ...(runnerUp ? { runnerUp } : {}) } };
 }
 
