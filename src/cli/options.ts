@@ -50,21 +50,33 @@ function valueName(d: OptionDeclaration): string {
 /** One flag per declared option of the family's analyses, naming the analyses that accept it when not all do. */
 function declaredFlags(family: AnalysisFamily): OptionSpec[] {
   const defs = analysisDefinitions(family);
-  const byName = new Map<string, { d: OptionDeclaration; owners: string[] }>();
+  const byName = new Map<string, { d: OptionDeclaration; owners: string[]; all: OptionDeclaration[] }>();
   for (const def of defs) {
     for (const d of def.options) {
-      const e = byName.get(d.name) ?? { d, owners: [] };
+      const e = byName.get(d.name) ?? { d, owners: [], all: [] };
       e.owners.push(def.name);
+      e.all.push(d);
       byName.set(d.name, e);
     }
   }
   const out: OptionSpec[] = [];
-  for (const { d, owners } of byName.values()) {
+  for (const { d, owners, all } of byName.values()) {
     const only = owners.length < defs.length ? ` [${owners.join(', ')}]` : '';
     const implied = d.implied === undefined ? undefined : String(d.implied);
+    // a flag the methods declare differently (the rule's values, the folds' default): one method's wording would
+    // mislead for the others, so the line says what the flag is and where each method's values and default are
+    const alike = all.every((x) => x.help === d.help && x.kind === d.kind && String(x.choices) === String(d.choices));
+    const choices = [...new Set(all.flatMap((x) => x.choices ?? []))];
+    const value = alike || d.kind !== 'choice' ? valueName(d) : valueName({ ...d, choices });
+    // each meaning once (its first clause), with the methods that give it that meaning
+    const meanings = new Map<string, string[]>();
+    all.forEach((x, i) => { const m = x.help.split(/:| \(/)[0]; meanings.set(m, [...(meanings.get(m) ?? []), owners[i]]); });
+    const help = alike ? d.help + only
+      : meanings.size === 1 ? `${[...meanings.keys()][0]}; its values and default differ by method: knotwise help NAME${only}`
+        : `${[...meanings].map(([m, o]) => `${m} [${o.join(', ')}]`).join('; ')}; values and defaults: knotwise help NAME`;
     out.push(d.kind === 'switch'
-      ? { flag: `--${dashedName(d.name)}`, help: d.help + only, option: d.name }
-      : { flag: `--${dashedName(d.name)}`, value: valueName(d), help: d.help + only, option: d.name, implied });
+      ? { flag: `--${dashedName(d.name)}`, help, option: d.name }
+      : { flag: `--${dashedName(d.name)}`, value, help, option: d.name, implied });
     for (const old of d.oldNames ?? []) {
       out.push({ flag: `--${dashedName(old)}`, value: valueName(d), help: `old name of --${dashedName(d.name)}`, option: old, implied, hidden: true });
     }

@@ -112,6 +112,12 @@ describe('knotwise fit', () => {
       expect(text).toContain(def.name);
     }
     for (const flag of ['--x', '--y', '--method', '--eval', '--model']) expect(text).toContain(flag);
+    // a flag the methods declare differently gives each meaning with its methods, not one method's values and default
+    const rule = text.split('\n').find((l) => /^ +--rule /.test(l))!;
+    expect(rule).toContain('how the winner is picked [auto]');
+    expect(rule).toContain('how to choose the span when none is given [loess]');
+    expect(rule).not.toMatch(/default gcv/);
+    expect(text.split('\n').find((l) => /^ +--folds /.test(l))).toMatch(/values and defaults: knotwise help NAME$/);
     const t = io({});
     expect(runCli(['help', 'trend'], t.host)).toBe(0);
     expect(t.out.join('\n')).toMatch(/--order N +shape of the pieces/);
