@@ -287,12 +287,14 @@ function textStyle(xDates: boolean, x: Cell[] | null, y: Cell[]): TextStyle {
 function textFit(o: Record<string, any>, st: TextStyle): string {
   const named = (m: string) => (m === 'spline' ? 'smoothing spline' : m === 'trend' ? 'trend filtering' : m);
   const kept = o.candidates?.find((c: any) => c.chosen)?.label;
+  // the method of the fit itself (the automatic choice's kept one) words its penalty and solver
+  const fitted = { ...o, method: o.fittedWith?.method ?? o.method } as any;
   // the automatic choice says what it kept (or, on a long series, what it fitted without comparing)
-  const method = o.method === 'auto' ? `automatic choice, ${kept ? `kept ${kept}` : `no comparison, fitted ${named(o.fittedWith?.method ?? '')}`}` : named(o.method);
+  const method = o.method === 'auto' ? `automatic choice, ${kept ? `kept ${kept}` : `no comparison, fitted ${named(fitted.method)}`}` : named(o.method);
   const lines = [
     `${o.column}: ${method}, ${o.n} points (${o.dropped} rows dropped, ${o.tiesMerged} merged as ties)`,
-    `  ${smoothPenaltyInWords({ ...o, method: o.fittedWith?.method ?? o.method } as any)}; chosen by ${ruleInWords(o.criterion.name)}${o.criterion.value === null ? '' : ` (score ${fmt(o.criterion.value)})`}; noise sd ${o.sigma === null ? 'not estimated' : st.value(o.sigma)}`,
-    `  solver: ${fitSolverInWords({ ...o, method: o.fittedWith?.method ?? o.method } as any)}`,
+    `  ${smoothPenaltyInWords(fitted)}; chosen by ${ruleInWords(o.criterion.name)}${o.criterion.value === null ? '' : ` (score ${fmt(o.criterion.value)})`}; noise sd ${o.sigma === null ? 'not estimated' : st.value(o.sigma)}`,
+    `  solver: ${fitSolverInWords(fitted)}`,
   ];
   if (o.candidates) {
     lines.push(`  ${o.reason}`);

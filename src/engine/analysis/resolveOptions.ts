@@ -23,6 +23,16 @@ export function optionKey(name: string): string {
   return name.toLowerCase().replace(/[^a-z0-9]/g, '');
 }
 
+/** The declarations by every name they accept ({@link optionKey} of the name and of its old names). Unchecked. */
+export function declarationsByKey(declarations: readonly OptionDeclaration[]): Map<string, OptionDeclaration> {
+  const byKey = new Map<string, OptionDeclaration>();
+  for (const d of declarations) {
+    byKey.set(optionKey(d.name), d);
+    for (const o of d.oldNames ?? []) byKey.set(optionKey(o), d);
+  }
+  return byKey;
+}
+
 /** A declared name as a command-line flag or settings word: `shortestSegment` -> `shortest-segment`. */
 export function dashedName(name: string): string {
   return name.replace(/([a-z0-9])([A-Z])/g, '$1-$2').toLowerCase();
@@ -112,11 +122,7 @@ export function resolveOptions(declarations: readonly OptionDeclaration[], raw: 
   if (raw !== undefined && raw !== null && (typeof raw !== 'object' || Array.isArray(raw))) {
     throw new KnotwiseError('bad-option', `options must be a set of name = value pairs; got ${show(raw)}.`);
   }
-  const byKey = new Map<string, OptionDeclaration>();
-  for (const d of declarations) {
-    byKey.set(optionKey(d.name), d);
-    for (const o of d.oldNames ?? []) byKey.set(optionKey(o), d);
-  }
+  const byKey = declarationsByKey(declarations);
   const notes: Warning[] = [];
   const given = new Map<string, unknown>();
   for (const [key, value] of Object.entries(raw ?? {})) {

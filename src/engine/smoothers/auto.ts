@@ -21,7 +21,7 @@
 import type { AnalysisCore, AnalysisDefinition, CandidateRow } from '../analysis/analysisDefinition';
 import { analysisDefinitions, findAnalysis } from '../analysis/analysisRegistry';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
-import { optionKey, resolveOptions } from '../analysis/resolveOptions';
+import { declarationsByKey, optionKey, resolveOptions } from '../analysis/resolveOptions';
 import { SEASON_OPTION, noiseOption } from '../analysis/penaltyOptions';
 import type { RunContext } from '../analysis/runContext';
 import { KnotwiseError, isKnotwiseError, showNumber } from '../errors';
@@ -96,14 +96,15 @@ export const AUTO_LIMIT = 50000;
 export const DEFAULT_SMOOTHER = 'auto';
 
 /**
- * The smoother that takes settings given without a method when the automatic choice does not accept
- * them (a penalty, `df=8`, `gcv`): the spline, the default before the automatic choice, so such
- * settings keep their meaning.
+ * The smoother the automatic choice falls back on: it takes settings given without a method that the
+ * automatic choice does not accept (a penalty, `df=8`, `gcv`), since it was the default before, so such
+ * settings keep their meaning; and it is fitted, linear in n, where no methods are compared
+ * ({@link fitWithoutComparison}).
  */
-export const SETTINGS_SMOOTHER = 'spline';
+export const FALLBACK_SMOOTHER = 'spline';
 
 /**
- * The smoother to run when none is named: {@link DEFAULT_SMOOTHER}, or {@link SETTINGS_SMOOTHER} with a
+ * The smoother to run when none is named: {@link DEFAULT_SMOOTHER}, or {@link FALLBACK_SMOOTHER} with a
  * note when the settings are not the automatic choice's but are the spline's. `optionsFor` gives the
  * settings as they read for one method (a front that parses settings text per method parses them
  * there). When neither takes them, the automatic choice's refusal is thrown, saying that no method
@@ -126,7 +127,7 @@ export function defaultSmoother(optionsFor: (def: AnalysisDefinition) => Readonl
     refusal = e;
   }
   const unnamed = () => new KnotwiseError('bad-option', `${refusal.message} No method was named, so the automatic choice ran; name a method to use these settings.`);
-  const other = findAnalysis(SETTINGS_SMOOTHER).def;
+  const other = findAnalysis(FALLBACK_SMOOTHER).def;
   let raw: Readonly<Record<string, unknown>> | undefined;
   try {
     raw = optionsFor(other);
@@ -146,22 +147,21 @@ export function defaultSmoother(optionsFor: (def: AnalysisDefinition) => Readonl
 
 /** Whether every setting given (non-empty) names an option `def` declares, in any accepted spelling. Unchecked. */
 function declaresEvery(def: AnalysisDefinition, raw: Readonly<Record<string, unknown>> | undefined): boolean {
-  const keys = new Set(def.options.flatMap((o) => [o.name, ...(o.oldNames ?? [])]).map(optionKey));
-  return Object.entries(raw ?? {}).every(([k, v]) => v === undefined || v === null || v === '' || keys.has(optionKey(k)));
+  const byKey = declarationsByKey(def.options);
+  return Object.entries(raw ?? {}).every(([k, v]) => v === undefined || v === null || v === '' || byKey.has(optionKey(k)));
 }
 
-/** The smoother fitted, without a comparison, on series longer than {@link AUTO_LIMIT}: the spline (linear in n). */
-export const LONG_SERIES_SMOOTHER = 'spline';
+/** Fewest points on which every candidate can be cross-validated with this many folds. Unchecked. */
+const foldsMinimum = (folds: number): number => 2 * folds + 2;
 
 /**
  * Why no methods are compared on a series of n points with this many folds, or undefined when they
- * are: more than {@link AUTO_LIMIT} points, or too few for the folds (every candidate needs
- * 2 folds + 2). Unchecked.
+ * are: more than {@link AUTO_LIMIT} points, or too few for the folds ({@link foldsMinimum}). Unchecked.
  */
 export function noComparisonReason(n: number, folds: number): string | undefined {
   const count = (v: number) => v.toLocaleString('en-US');
   if (n > AUTO_LIMIT) return `no methods were compared: on ${count(n)} points comparing them by cross-validation would take minutes (the automatic choice compares methods on at most ${count(AUTO_LIMIT)} points). Choose a method yourself, or compare on a range of at most ${count(AUTO_LIMIT)} rows.`;
-  if (n < 2 * folds + 2) return `no methods were compared: ${count(n)} points are too few for ${folds}-fold cross-validation (it needs at least ${2 * folds + 2}). Use fewer folds (folds=2 needs 6 points) or more data.`;
+  if (n < foldsMinimum(folds)) return `no methods were compared: ${count(n)} points are too few for ${folds}-fold cross-validation (it needs at least ${foldsMinimum(folds)}). Use fewer folds (folds=2 needs ${foldsMinimum(2)} points) or more data.`;
   return undefined;
 }
 
@@ -222,7 +222,7 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
         const coarser = series.n >= AUTO_COARSE_FROM && typeof grid === 'number' && grid > AUTO_SEARCH_POINTS ? { searchPoints: AUTO_SEARCH_POINTS } : {};
         const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...coarser, ...(declares('season') ? { season: 'none' } : {}), ...(noise !== undefined && declares('noise') ? { noise } : {}) }, def.name).options;
         if (v.maxPoints !== undefined && series.n > v.maxPoints) throw new KnotwiseError('bad-data', `its cross-validation grows faster than the series; the automatic choice includes it on at most ${v.maxPoints.toLocaleString('en-US')} points (run it on its own with a penalty, or on a shorter range of rows).`);
-        if (series.n < def.minPoints(opts) || series.n < 2 * folds + 2) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
+        if (series.n < def.minPoints(opts) || series.n < foldsMinimum(folds)) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
         const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
         const fit = core.smooth!;
         if (fit.criterion.name !== 'cv') throw new KnotwiseError('too-few-points', `${v.label} could not be cross-validated on these data (${fit.criterion.name} was used instead).`);
@@ -273,11 +273,11 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
 
 /**
  * The fit when no methods are compared (`why`: {@link noComparisonReason}, or no candidate could be
- * cross-validated): {@link LONG_SERIES_SMOOTHER} by its own default rule, with `why` as a note and as
+ * cross-validated): {@link FALLBACK_SMOOTHER} by its own default rule, with `why` as a note and as
  * `uncompared`; no `comparison`. Should the spline refuse the data too, its refusal is thrown. Unchecked.
  */
 export function fitWithoutComparison(series: Series, context: RunContext, why: string): AnalysisCore {
-  const def = findAnalysis(LONG_SERIES_SMOOTHER).def;
+  const def = findAnalysis(FALLBACK_SMOOTHER).def;
   const core = def.run(series, resolveOptions(def.options, { season: 'none' }, def.name).options, context);
   const rule = core.smooth?.criterion.name ?? '';
   const note = warning('note', `${cap(why)} The smoothing spline was fitted instead, its penalty chosen by ${rule.toUpperCase()} (its default rule).`);

@@ -5,7 +5,7 @@
  * is within one standard error of the best candidate's.
  */
 import { runAnalysis, evaluateAnalysis, analysisDefinitions } from '../../../src/engine';
-import { AUTO_LIMIT, AUTO_COARSE_FROM, AUTO_SEARCH_POINTS, LONG_SERIES_SMOOTHER } from '../../../src/engine/smoothers/auto';
+import { AUTO_LIMIT, AUTO_COARSE_FROM, AUTO_SEARCH_POINTS, FALLBACK_SMOOTHER } from '../../../src/engine/smoothers/auto';
 import { TREND_AUTO_MAX_POINTS, TREND_DATA_DRIVEN_LIMITS } from '../../../src/engine/smoothers/trend';
 import { MIXED_DATA_DRIVEN_LIMIT } from '../../../src/engine/smoothers/mixed/mixedAnalysis';
 import { normalStream } from '../../helpers/random';
@@ -24,7 +24,7 @@ describe('auto', () => {
     try {
       const r = runAnalysis({ analysis: 'auto', y, x });
       // only the spline ran, once: no candidate was cross-validated
-      defs.forEach((d, i) => expect(spies[i]).toHaveBeenCalledTimes(d.name === LONG_SERIES_SMOOTHER ? 1 : 0));
+      defs.forEach((d, i) => expect(spies[i]).toHaveBeenCalledTimes(d.name === FALLBACK_SMOOTHER ? 1 : 0));
       expect(r.analysis).toBe('auto');
       expect(r.smooth!.method).toBe('spline');
       expect(r.comparison).toBeUndefined();

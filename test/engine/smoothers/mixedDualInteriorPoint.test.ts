@@ -101,7 +101,7 @@ describe('mixedDualInteriorPoint knot counts against exact fits', () => {
     const y = x.map((t) => kinksAndWave(t / n) + 0.3 * z());
     const sc = trendScaling(seriesFromArrays(x, y), 1);
     const probs: MixedProblems = { x: sc.xs, w: sc.ws };
-    const base = { interiorTolerance: 1e-7, exactAfterStall: 0, admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: 1000, innerTolerance: 1e-10, innerIterations: 400, refine: false };
+    const base = { interiorTolerance: 1e-7, exactAfterStall: false, admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: 1000, innerTolerance: 1e-10, innerIterations: 400, refine: false };
     for (const l of [100, 30, 10, 3, 1, 0.3]) {
       const ip = solveMixed(probs, sc.ys, l, 16 * l, base);
       expect(ip.interior).toBe(true); // the interior point's own answer, converged

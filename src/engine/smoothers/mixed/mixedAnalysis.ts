@@ -171,7 +171,7 @@ export const MIXED_MAX_CYCLES = 1000;
  * steps reach their tolerance in 2 steps on the invented kinked-then-smooth series (200 points, 7 seeds), where
  * from the ADMM's they took 85 to 869.
  */
-const FULL: MixedSolveSettings = { interiorTolerance: 1e-7, exactAfterStall: 0, admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: MIXED_MAX_CYCLES, innerTolerance: 1e-10, innerIterations: 400, refine: true };
+const FULL: MixedSolveSettings = { interiorTolerance: 1e-7, exactAfterStall: false, admmTolerance: 1e-6, admmIterations: 5000, tolerance: 1e-5, maxCycles: MIXED_MAX_CYCLES, innerTolerance: 1e-10, innerIterations: 400, refine: true };
 /**
  * Points of a penalty path (their df and warm starts): the interior point alone (its knots classified at a gap of
  * 1e-7, within 2 of the exact fit's count on a 730-point series, 0.5 off on average: KNOT_SLACK_SHARE in
@@ -187,7 +187,7 @@ const FULL: MixedSolveSettings = { interiorTolerance: 1e-7, exactAfterStall: 0, 
  * steps take 2 steps there, 2 to 7 ms, and find the 1 to 3 bend knots those points have: every path point converges,
  * the cross-validation takes 3 to 5% less time, and the choices on the bench and test series stayed the same.
  */
-const PATH: MixedSolveSettings = { ...FULL, exactAfterStall: Infinity, maxCycles: 200, admmTolerance: 1e-5, admmIterations: 3000, refine: false };
+const PATH: MixedSolveSettings = { ...FULL, exactAfterStall: true, maxCycles: 200, admmTolerance: 1e-5, admmIterations: 3000, refine: false };
 /**
  * Cross-validation folds: the interior point at the looser gap of trend filtering's folds ({@link CV_TOLERANCE},
  * 1e-3 since this release, 1e-5 before: they only predict held-out points; measured on the 13 series of the bench and
@@ -401,19 +401,20 @@ function solveMixedForDf(probs: MixedProblems, sc: TrendScaling, ratio: number, 
     const f = at(Math.exp(mid), { admm: above?.admm });
     if (mixedDf(f) > target) { a = mid; above = f; } else b = mid;
   }
-  // closest to the target; of equal distance the smallest penalty
+  // closer to the target; of equal distance the smaller penalty
+  const closer = (q: { lambda: number; fit: MixedFit }, p: { lambda: number; fit: MixedFit }): boolean => {
+    const dq = Math.abs(mixedDf(q.fit) - target), dp = Math.abs(mixedDf(p.fit) - target);
+    return dq < dp || (dq === dp && q.lambda < p.lambda);
+  };
   let best = seen[0];
-  for (const q of seen) {
-    const dq = Math.abs(mixedDf(q.fit) - target), db = Math.abs(mixedDf(best.fit) - target);
-    if (dq < db || (dq === db && q.lambda < best.lambda)) best = q;
-  }
+  for (const q of seen) if (closer(q, best)) best = q;
   const curve = seen.slice().sort((p, q) => p.lambda - q.lambda).map((q) => ({ penalty: toData1(q.lambda, sc), score: mixedDf(q.fit), df: mixedDf(q.fit), converged: q.fit.status.converged }));
   // the exact fits can count a few more or fewer knots than the ADMM's path: a short bisection on the exact fits
   // (at most 4 doublings or halvings to bracket the target, then 8 halvings of the bracket), keeping the closest
   const exact = (l: number, st: MixedStart) => { const f = solveMixed(probs, sc.ys, l, l * ratio, full, st); return { lambda: l, fit: f }; };
   let cur = exact(best.lambda, { admm: best.fit.admm });
   let closest = cur;
-  const better = (q: typeof cur) => { const dq = Math.abs(mixedDf(q.fit) - target), dc = Math.abs(mixedDf(closest.fit) - target); if (dq < dc || (dq === dc && q.lambda < closest.lambda)) closest = q; };
+  const better = (q: typeof cur) => { if (closer(q, closest)) closest = q; };
   if (mixedDf(cur.fit) !== target) {
     const up = mixedDf(cur.fit) > target; // df falls as lambda grows
     let other = cur;

@@ -86,11 +86,11 @@ export interface MixedSolveSettings {
    */
   interiorTolerance: number;
   /**
-   * Where the interior point stalls with its best relative gap at most this, the exact block steps start from
-   * its best iterate, even when `refine` is false, instead of the ADMM; 0 never. The stalls are near the top of a
-   * path (few knots), where the ADMM was slow too (up to its 3,000-step limit) and the block steps are cheap.
+   * Where the interior point stalls, the exact block steps start from its best iterate, even when `refine` is
+   * false, instead of the ADMM. The stalls are near the top of a path (few knots), where the ADMM was slow too (up
+   * to its 3,000-step limit) and the block steps are cheap.
    */
-  exactAfterStall: number;
+  exactAfterStall: boolean;
   /** Tolerance eps of the ADMM's residuals ({@link mixedAdmm}). */
   admmTolerance: number;
   /** Iteration limit of the ADMM. */
@@ -153,7 +153,7 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
     if (!probs.dual) probs.dual = mixedDualOperator(probs.ops);
     const ip = mixedDualInteriorPoint(probs.dual, y, lambda1, lambda3, s.interiorTolerance, MIXED_INTERIOR_ITERATIONS);
     if (ip.status.converged) first = 'interior';
-    else if (ip.status.achieved <= s.exactAfterStall) first = 'stalled interior';
+    else if (s.exactAfterStall) first = 'stalled interior';
     if (first !== 'admm') ad = { ...ip, state: start.admm };
   }
   if (!ad) ad = mixedAdmm(probs.ops, y, lambda1, lambda3, s.admmTolerance, s.admmIterations, start.admm);
