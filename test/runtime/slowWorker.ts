@@ -1,14 +1,17 @@
 /**
- * A worker thread for the pool tests: runs real analyses, plus two test jobs
+ * A worker thread for the pool tests: runs real engine jobs (analyses and candidates of an
+ * automatic choice), plus two test jobs
  * ('spin' busy-waits for the given milliseconds, reporting progress;
  * 'crash' ends the thread).
  */
 import { parentPort } from 'worker_threads';
 import { serveJobs } from '../../src/runtime/serveJobs';
-import { AnalysisRequest, RunControl, runAnalysis } from '../../src/runtime/engineEntry';
+import { AnalysisRequest, EngineJob, RunControl, isCandidatesJob, runEngineJob } from '../../src/runtime/engineEntry';
 
 const port = parentPort!;
-function run(request: AnalysisRequest, control: RunControl): unknown {
+function run(job: EngineJob, control: RunControl): unknown {
+  if (isCandidatesJob(job)) return runEngineJob(job, control);
+  const request: AnalysisRequest = job;
   if (request.analysis === 'spin') {
     const ms = Number(request.options?.ms ?? 0);
     const t0 = Date.now();
@@ -19,7 +22,7 @@ function run(request: AnalysisRequest, control: RunControl): unknown {
     return { spun: ms, thread: require('worker_threads').threadId };
   }
   if (request.analysis === 'crash') process.exit(3);
-  return runAnalysis(request, control);
+  return runEngineJob(request, control);
 }
 port.on('message', serveJobs(run, (m) => port.postMessage(m)));
 port.postMessage({ type: 'ready' });

@@ -95,6 +95,22 @@ export interface AutoVariant {
    * faster than the number of points; beyond it the variant is listed as not compared, with why.
    */
   maxPoints?: number;
+  /**
+   * Rough time of its cross-validation relative to the spline's (default 1): where the candidates
+   * run on several workers ({@link autoSplit}), the costliest start first.
+   */
+  cost?: number;
+}
+
+/**
+ * One candidate of the automatic choice as computed on its own (on a worker, beside the others):
+ * its index in the fixed list of candidates, its comparison row, and its result (null when it could
+ * not be compared; the row says why).
+ */
+export interface CandidateOutcome {
+  index: number;
+  row: CandidateRow;
+  core: AnalysisCore | null;
 }
 
 /** One registered analysis. */

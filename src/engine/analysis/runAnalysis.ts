@@ -9,17 +9,17 @@
 import '../analyses';
 import { KnotwiseError } from '../errors';
 import { describeValue } from '../options';
-import { Cell, prepareSeries, toColumn } from '../series';
-import { STANDING_CAVEATS, warning } from '../warnings';
+import { Cell, Series, prepareSeries, toColumn } from '../series';
+import { STANDING_CAVEATS, Warning, warning } from '../warnings';
 import { cacheKey } from '../cache/fitCache';
-import type { AnalysisFamily, AnalysisResult } from './analysisDefinition';
+import type { AnalysisDefinition, AnalysisFamily, AnalysisResult, CandidateOutcome } from './analysisDefinition';
 import type { Evaluation } from '../types';
 import { findAnalysis } from './analysisRegistry';
-import type { RunControl } from './optionDeclaration';
+import type { ResolvedOptions, RunControl } from './optionDeclaration';
 import { resolveOptions } from './resolveOptions';
 import { RunContext } from './runContext';
 import { seasonForSmoothing } from '../decompose/seasonForSmoothing';
-import { defaultSmoother } from '../smoothers/auto';
+import { DEFAULT_SMOOTHER, autoCandidates, candidateOutcome, defaultSmoother, noComparisonReason } from '../smoothers/auto';
 
 /** What to analyse: the data as cells (numbers, text, blanks, errors, booleans) and the options as typed. */
 export interface AnalysisRequest {
@@ -39,6 +39,12 @@ export interface AnalysisRequest {
   options?: Readonly<Record<string, unknown>>;
   /** Refuse an analysis of another family (a changepoint model asked of a smoothing function). */
   family?: AnalysisFamily;
+  /**
+   * The automatic choice only: candidates already computed by {@link runCandidates} on other workers
+   * (from the same cells and options), used instead of computing them again; any missing one is
+   * computed. Not part of the request's key: the answer is the same with or without them.
+   */
+  candidates?: readonly CandidateOutcome[];
 }
 
 function column(v: unknown, name: string): Cell[] {
@@ -59,6 +65,22 @@ function column(v: unknown, name: string): Cell[] {
  * ```
  */
 export function runAnalysis(request: AnalysisRequest, control: RunControl = {}): AnalysisResult {
+  const { def, options, notes, series, context } = prepare(request, control);
+  if (request.candidates !== undefined) {
+    if (!Array.isArray(request.candidates)) throw new KnotwiseError('bad-option', `candidates must be a list of the automatic choice's computed candidates; got ${describeValue(request.candidates)}.`);
+    context.candidates = new Map(request.candidates.map((o) => [o.index, o]));
+  }
+  const core = def.run(series, options, context);
+  context.step(1, 'done');
+  const all = [...notes, ...core.warnings];
+  return {
+    ...core, warnings: all.filter((w) => !STANDING_CAVEATS.has(w.code)), caveats: all.filter((w) => STANDING_CAVEATS.has(w.code)),
+    analysis: def.name, family: def.family, options, series,
+  };
+}
+
+/** Validation and intake shared by {@link runAnalysis} and {@link runCandidates}: the analysis, its options and notes, the clean series (season taken out where asked). */
+function prepare(request: AnalysisRequest, control: RunControl): { def: AnalysisDefinition; options: ResolvedOptions; notes: Warning[]; series: Series; context: RunContext } {
   if (typeof request !== 'object' || request === null) throw new KnotwiseError('bad-option', `a request must name an analysis and give y; got ${describeValue(request)}.`);
   const chosen = defaultFor(request);
   const { def, renamedFrom } = findAnalysis(chosen.name, request.family);
@@ -77,13 +99,67 @@ export function runAnalysis(request: AnalysisRequest, control: RunControl = {}):
     series = adj.series;
     notes.push(...adj.notes);
   }
-  const core = def.run(series, options, context);
-  context.step(1, 'done');
-  const all = [...notes, ...core.warnings];
-  return {
-    ...core, warnings: all.filter((w) => !STANDING_CAVEATS.has(w.code)), caveats: all.filter((w) => STANDING_CAVEATS.has(w.code)),
-    analysis: def.name, family: def.family, options, series,
-  };
+  return { def, options, notes, series, context };
+}
+
+/**
+ * Some candidates of an automatic choice, each computed as {@link runAnalysis} would within the
+ * choice (same intake, same season step, same folds), for a runtime that spreads the candidates
+ * over several workers and then passes every outcome to {@link runAnalysis} in `request.candidates`,
+ * which makes the one choice. Nothing is computed where the choice compares no methods (the series
+ * is too short or too long); the choice then says why.
+ *
+ * @param request - a request that runs the automatic choice (named 'auto', or no method with settings it takes)
+ * @param indices - positions in the fixed list of candidates ({@link autoSplit} gives them)
+ * @throws {@link KnotwiseError} as {@link runAnalysis} for the request; `bad-option` when it is not an automatic choice or an index is not a candidate's
+ * @example
+ * ```ts
+ * const parts = autoSplit(request)!; // e.g. [4, 3, 9, ...], costliest first
+ * const done = parts.flatMap((i) => runCandidates(request, [i])); // each on a worker
+ * runAnalysis({ ...request, candidates: done });
+ * ```
+ */
+export function runCandidates(request: AnalysisRequest, indices: readonly number[], control: RunControl = {}): CandidateOutcome[] {
+  const { def, options, series, context } = prepare(request, control);
+  if (def.name !== DEFAULT_SMOOTHER) throw new KnotwiseError('bad-option', `candidates are computed for the automatic choice only; this request runs "${def.name}".`);
+  const list = autoCandidates();
+  if (!Array.isArray(indices)) throw new KnotwiseError('bad-option', `indices must be a list of candidate positions; got ${describeValue(indices)}.`);
+  for (const i of indices) if (!(Number.isInteger(i) && i >= 0 && i < list.length)) throw new KnotwiseError('bad-option', `candidate ${describeValue(i)} does not exist: positions run from 0 to ${list.length - 1}.`);
+  if (noComparisonReason(series.n, options.folds as number)) return [];
+  return indices.map((i, j) => context.part(j / indices.length, (j + 1) / indices.length, () => candidateOutcome(series, options, context, i, list)));
+}
+
+/**
+ * How a runtime with several workers may split a request: for an automatic choice that will compare
+ * methods, the positions of its candidates costliest first (each one a job for {@link runCandidates},
+ * then one {@link runAnalysis} with them all); null for any other request, which runs as one job
+ * (a request with errors too: that job reports them). Candidates the series is too long for are left
+ * out (the choice lists them as not compared at no cost).
+ *
+ * @example
+ * ```ts
+ * autoSplit({ y: weekly });          // [4, 3, 9, 8, ...]
+ * autoSplit({ analysis: 'spline', y: weekly }); // null
+ * ```
+ */
+export function autoSplit(request: AnalysisRequest): number[] | null {
+  let rows: number, folds: number;
+  try {
+    if (typeof request !== 'object' || request === null || request.candidates !== undefined) return null;
+    const { def } = findAnalysis(defaultFor(request).name, request.family);
+    if (def.name !== DEFAULT_SMOOTHER) return null;
+    folds = resolveOptions(def.options, request.options, def.name).options.folds as number;
+    rows = column(request.y, 'y').length;
+  } catch {
+    return null;
+  }
+  // the cells are at least the points: a range too long or too short compares nothing
+  if (noComparisonReason(rows, folds)) return null;
+  const list = autoCandidates();
+  return list.map((c, i) => ({ i, cost: c.v.cost ?? 1, out: c.v.maxPoints !== undefined && rows > c.v.maxPoints }))
+    .filter((c) => !c.out)
+    .sort((a, b) => b.cost - a.cost || a.i - b.i)
+    .map((c) => c.i);
 }
 
 /** Whether the request names its analysis (not omitted, not blank). Unchecked. */

@@ -4,6 +4,7 @@
  * batches of iterations). Solvers take an optional context and call
  * {@link RunContext.step}; with no context nothing is reported.
  */
+import type { CandidateOutcome } from './analysisDefinition';
 import { KnotwiseError } from '../errors';
 import type { RunControl } from './optionDeclaration';
 
@@ -19,6 +20,12 @@ export class RunContext {
    * only the returned fit needs (the knot bends, {@link knotBends}); the winner's are added after.
    */
   comparing = false;
+
+  /**
+   * Candidates of the automatic choice already computed elsewhere (on other workers: {@link autoSplit}),
+   * by their index: the choice uses them instead of computing them again.
+   */
+  candidates?: ReadonlyMap<number, CandidateOutcome>;
 
   constructor(private readonly control: RunControl = {}) {}
 

@@ -18,7 +18,7 @@
  * chosen on the same folds); the comparison favours no method by this, since
  * every candidate gets the same treatment.
  */
-import type { AnalysisCore, AnalysisDefinition, CandidateRow } from '../analysis/analysisDefinition';
+import type { AnalysisCore, AnalysisDefinition, AutoVariant, CandidateOutcome, CandidateRow } from '../analysis/analysisDefinition';
 import { analysisDefinitions, findAnalysis } from '../analysis/analysisRegistry';
 import type { ResolvedOptions } from '../analysis/optionDeclaration';
 import { declarationsByKey, optionKey, resolveOptions } from '../analysis/resolveOptions';
@@ -187,13 +187,70 @@ export const AUTO_SEARCH_POINTS = 15;
  */
 export const AUTO_COARSE_FROM = 2000;
 
+/** The candidates of the automatic choice in their fixed order: every smoother's declared variants. */
+export function autoCandidates(): { def: AnalysisDefinition; v: AutoVariant }[] {
+  return analysisDefinitions('smoother').flatMap((def) => (def.autoVariants ?? []).map((v) => ({ def, v })));
+}
+
+/**
+ * One candidate of the automatic choice: its variant run with cross-validation on the shared folds
+ * (its rule set to 'cv', or its variant's options; the season off, since it was taken out once before
+ * the candidates; `noise` passed on), knot bends left out. A candidate that cannot be compared (too
+ * few points for the folds, longer than its `maxPoints`, or not cross-validated) gets a row saying
+ * why and no result; a cancellation is thrown.
+ *
+ * @param series - the clean series the candidates share (season taken out)
+ * @param options - the automatic choice's resolved options (`folds`, `noise`)
+ * @param context - progress and cancellation of this candidate
+ * @param index - position in {@link autoCandidates}
+ * Unchecked.
+ */
+export function candidateOutcome(series: Series, options: ResolvedOptions, context: RunContext, index: number, candidates = autoCandidates()): CandidateOutcome {
+  const { def, v } = candidates[index];
+  const folds = options.folds as number;
+  const noise = options.noise as string | undefined;
+  const t0 = Date.now();
+  const row: CandidateRow = { method: def.name, options: { ...v.options }, label: v.label, penalty: NaN, df: NaN, cv: NaN, se: NaN, milliseconds: 0 };
+  let core: AnalysisCore | null = null;
+  // candidates leave out the knot bends (only the winner's are shown); restored in any case
+  const wasComparing = context.comparing;
+  context.comparing = true;
+  try {
+    // every candidate chooses by cross-validation: through its rule, or through its variant's options (wavelet: threshold=cv)
+    const declares = (name: string) => def.options.some((o) => o.name === name);
+    const grid = def.options.find((o) => o.name === 'searchPoints')?.default;
+    const coarser = series.n >= AUTO_COARSE_FROM && typeof grid === 'number' && grid > AUTO_SEARCH_POINTS ? { searchPoints: AUTO_SEARCH_POINTS } : {};
+    const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...coarser, ...(declares('season') ? { season: 'none' } : {}), ...(noise !== undefined && declares('noise') ? { noise } : {}) }, def.name).options;
+    if (v.maxPoints !== undefined && series.n > v.maxPoints) throw new KnotwiseError('bad-data', `its cross-validation grows faster than the series; the automatic choice includes it on at most ${v.maxPoints.toLocaleString('en-US')} points (run it on its own with a penalty, or on a shorter range of rows).`);
+    if (series.n < def.minPoints(opts) || series.n < foldsMinimum(folds)) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
+    const run = def.run(series, opts, context);
+    const fit = run.smooth!;
+    if (fit.criterion.name !== 'cv') throw new KnotwiseError('too-few-points', `${v.label} could not be cross-validated on these data (${fit.criterion.name} was used instead).`);
+    row.penalty = fit.penalty; row.df = fit.df; row.cv = fit.criterion.value; row.se = chosenPointSe(fit.criterion.curve, fit.penalty);
+    core = run;
+  } catch (e) {
+    if (!isKnotwiseError(e) || e.code === 'cancelled') throw e;
+    row.skipped = e.message;
+  } finally {
+    context.comparing = wasComparing;
+  }
+  row.milliseconds = Date.now() - t0;
+  return { index, row, core };
+}
+
+/** Whether an outcome computed elsewhere is the candidate at `index` of this build's list (same method and label). Unchecked. */
+function outcomeFits(o: CandidateOutcome | undefined, index: number, c: { def: AnalysisDefinition; v: AutoVariant }): o is CandidateOutcome {
+  return !!o && o.index === index && !!o.row && o.row.method === c.def.name && o.row.label === c.v.label;
+}
+
 /**
  * Runs every candidate and picks one.
  *
  * @param series - clean series (ties merged)
  * @param options - resolved: `rule` 'cv-simpler' (default) or 'cv'; `folds` (default 5); `noise`
  *   ('correlated' by default, passed to every candidate that declares it)
- * @param context - progress: one part per candidate
+ * @param context - progress: one part per candidate. Candidates computed elsewhere (on other workers,
+ *   {@link autoSplit}) come in `context.candidates` and are used as they are; any missing one is computed here
  * @returns the winner's fit (its `smooth`, `criterion`, warnings) with `comparison`; where no methods
  *   can be compared (too few points for the folds, more than {@link AUTO_LIMIT}, or no candidate
  *   cross-validated) the spline's, saying why ({@link fitWithoutComparison})
@@ -203,42 +260,15 @@ export function chooseSmoother(series: Series, options: ResolvedOptions, context
   const refusal = noComparisonReason(series.n, folds);
   if (refusal) return fitWithoutComparison(series, context, refusal);
   const rule = options.rule as string;
-  const noise = options.noise as string | undefined;
-  const variants = analysisDefinitions('smoother').flatMap((def) => (def.autoVariants ?? []).map((v) => ({ def, v })));
-  const rows: CandidateRow[] = [];
-  const fits: (AnalysisCore | null)[] = [];
-  // candidates leave out the knot bends (only the winner's are shown); restored in any case
-  const wasComparing = context.comparing;
-  context.comparing = true;
-  try {
-    variants.forEach(({ def, v }, i) => {
-      const t0 = Date.now();
-      const row: CandidateRow = { method: def.name, options: { ...v.options }, label: v.label, penalty: NaN, df: NaN, cv: NaN, se: NaN, milliseconds: 0 };
-      try {
-        // the season (if any) was taken out once, before the candidates: they smooth the series as it is now
-        // every candidate chooses by cross-validation: through its rule, or through its variant's options (wavelet: threshold=cv)
-        const declares = (name: string) => def.options.some((o) => o.name === name);
-        const grid = def.options.find((o) => o.name === 'searchPoints')?.default;
-        const coarser = series.n >= AUTO_COARSE_FROM && typeof grid === 'number' && grid > AUTO_SEARCH_POINTS ? { searchPoints: AUTO_SEARCH_POINTS } : {};
-        const opts = resolveOptions(def.options, { ...v.options, ...(declares('rule') ? { rule: 'cv' } : {}), folds, ...coarser, ...(declares('season') ? { season: 'none' } : {}), ...(noise !== undefined && declares('noise') ? { noise } : {}) }, def.name).options;
-        if (v.maxPoints !== undefined && series.n > v.maxPoints) throw new KnotwiseError('bad-data', `its cross-validation grows faster than the series; the automatic choice includes it on at most ${v.maxPoints.toLocaleString('en-US')} points (run it on its own with a penalty, or on a shorter range of rows).`);
-        if (series.n < def.minPoints(opts) || series.n < foldsMinimum(folds)) throw new KnotwiseError('too-few-points', `${series.n} points are too few for ${folds}-fold cross-validation of ${v.label}.`);
-        const core = context.part(i / variants.length, (i + 1) / variants.length, () => def.run(series, opts, context));
-        const fit = core.smooth!;
-        if (fit.criterion.name !== 'cv') throw new KnotwiseError('too-few-points', `${v.label} could not be cross-validated on these data (${fit.criterion.name} was used instead).`);
-        row.penalty = fit.penalty; row.df = fit.df; row.cv = fit.criterion.value; row.se = chosenPointSe(fit.criterion.curve, fit.penalty);
-        fits.push(core);
-      } catch (e) {
-        if (!isKnotwiseError(e) || e.code === 'cancelled') throw e;
-        row.skipped = e.message;
-        fits.push(null);
-      }
-      row.milliseconds = Date.now() - t0;
-      rows.push(row);
-    });
-  } finally {
-    context.comparing = wasComparing;
-  }
+  const variants = autoCandidates();
+  const given = context.candidates;
+  // the season (if any) was taken out once, before the candidates: they smooth the series as it is now
+  const outcomes = variants.map((c, i) => {
+    const o = given?.get(i);
+    return outcomeFits(o, i, c) ? o : context.part(i / variants.length, (i + 1) / variants.length, () => candidateOutcome(series, options, context, i, variants));
+  });
+  const rows: CandidateRow[] = outcomes.map((o) => o.row);
+  const fits: (AnalysisCore | null)[] = outcomes.map((o) => o.core);
   const ok = rows.map((r, i) => i).filter((i) => !rows[i].skipped);
   if (ok.length === 0) return fitWithoutComparison(series, context, `no methods were compared: none could be cross-validated with ${folds} folds on ${series.n.toLocaleString('en-US')} points. Choose a method and a penalty yourself, or use fewer folds.`);
   // the shared rule of choosePenalty on the candidates ordered from the most complex to the simplest

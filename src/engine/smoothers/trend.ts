@@ -461,10 +461,10 @@ export const trendAnalysis: AnalysisDefinition = {
   ties: 'merge',
   minPoints: (o: ResolvedOptions) => (o.order as number) + 2,
   autoVariants: [
-    { label: 'level shifts (trend filtering, order 0)', options: { order: 0 }, simplicity: 0 },
+    { label: 'level shifts (trend filtering, order 0)', options: { order: 0 }, simplicity: 0, cost: 0.5 },
     { label: 'straight pieces with kinks (trend filtering, order 1)', options: { order: 1 }, simplicity: 1 },
-    { label: 'smooth bends (trend filtering, order 2)', options: { order: 2 }, simplicity: 2, maxPoints: TREND_AUTO_MAX_POINTS[2] },
-    { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3, maxPoints: TREND_AUTO_MAX_POINTS[3] },
+    { label: 'smooth bends (trend filtering, order 2)', options: { order: 2 }, simplicity: 2, maxPoints: TREND_AUTO_MAX_POINTS[2], cost: 6 },
+    { label: 'smooth bends (trend filtering, order 3)', options: { order: 3 }, simplicity: 3, maxPoints: TREND_AUTO_MAX_POINTS[3], cost: 10 },
   ],
   run(series: Series, options: ResolvedOptions, context: RunContext) {
     checkTrendWork(series.n, options);

@@ -8,9 +8,10 @@
  * that loaded this module.
  */
 import { AnalysisClient, ComputeOptions } from '../client';
-import { AnalysisRequest, AnalysisResult, analysisKey, runAnalysis } from '../engineEntry';
+import { AnalysisRequest, AnalysisResult, EngineJob, EngineJobResult, analysisKey, runAnalysis } from '../engineEntry';
 import { inlineSubmit } from '../inlineRunner';
 import { WorkerPool, poolSize } from '../pool';
+import { poolSubmit } from '../poolSubmit';
 
 /** File name of the worker bundle (webpack entry 'analysis-worker'). */
 export const WORKER_FILE = 'analysis-worker.js';
@@ -19,7 +20,7 @@ export const WORKER_FILE = 'analysis-worker.js';
 export interface PageRuntime {
   client: AnalysisClient<AnalysisRequest, AnalysisResult>;
   /** Null where the host has no Web Workers (jobs then run on the page's thread). */
-  pool: WorkerPool<AnalysisRequest, AnalysisResult> | null;
+  pool: WorkerPool<EngineJob, EngineJobResult> | null;
   workerUrl: string | null;
 }
 
@@ -42,14 +43,15 @@ function create(): PageRuntime {
   }
   const workerUrl = new URL(WORKER_FILE, loadedFrom).href;
   const size = poolSize(typeof navigator !== 'undefined' ? navigator.hardwareConcurrency : 1);
-  const pool = new WorkerPool<AnalysisRequest, AnalysisResult>((onMessage, onFailure) => {
+  const pool = new WorkerPool<EngineJob, EngineJobResult>((onMessage, onFailure) => {
     const w = new Worker(workerUrl);
     w.onmessage = (e) => onMessage(e.data);
     w.onerror = (e) => { e.preventDefault?.(); onFailure(new Error(e.message || `could not run ${workerUrl}`)); };
     w.onmessageerror = () => onFailure(new Error('a message from the worker could not be read'));
     return w;
   }, size, 1); // one loaded worker in reserve, so Cancel leaves the pool ready at once
-  const client = new AnalysisClient<AnalysisRequest, AnalysisResult>((r, p) => pool.run(r, p), analysisKey);
+  // the automatic choice runs its candidates on the workers side by side (poolSubmit)
+  const client = new AnalysisClient<AnalysisRequest, AnalysisResult>(poolSubmit(pool), analysisKey);
   return { client, pool, workerUrl };
 }
 

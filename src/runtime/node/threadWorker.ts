@@ -3,10 +3,10 @@
  * threadWorker.js): the same job loop as the browser worker.
  */
 import { parentPort } from 'worker_threads';
-import { runAnalysis } from '../engineEntry';
+import { runEngineJob } from '../engineEntry';
 import { serveJobs } from '../serveJobs';
 
 if (!parentPort) throw new Error('threadWorker runs as a worker thread only.');
 const port = parentPort;
-port.on('message', serveJobs(runAnalysis, (m) => port.postMessage(m)));
+port.on('message', serveJobs(runEngineJob, (m) => port.postMessage(m)));
 port.postMessage({ type: 'ready' });

@@ -130,8 +130,8 @@ export const loessAnalysis: AnalysisDefinition = {
   ],
   ties: 'merge',
   autoVariants: [
-    { label: 'a local straight-line curve (LOESS, degree 1)', options: { degree: 1 }, simplicity: 1 },
-    { label: 'a local parabola curve (LOESS, degree 2)', options: { degree: 2 }, simplicity: 2 },
+    { label: 'a local straight-line curve (LOESS, degree 1)', options: { degree: 1 }, simplicity: 1, cost: 2 },
+    { label: 'a local parabola curve (LOESS, degree 2)', options: { degree: 2 }, simplicity: 2, cost: 2 },
   ],
   minPoints: (o: ResolvedOptions) => (o.degree as number) + 2,
   run(series: Series, o: ResolvedOptions, context: RunContext) {

@@ -530,7 +530,7 @@ export const mixedAnalysis: AnalysisDefinition = {
   ties: 'merge',
   minPoints: () => MIXED_MIN_POINTS,
   // beyond its own limit for penalties chosen from the data the automatic choice leaves it out, saying so
-  autoVariants: [{ label: 'straight pieces with kinks plus smooth bends (mixed trend)', options: {}, simplicity: 4, maxPoints: MIXED_DATA_DRIVEN_LIMIT }],
+  autoVariants: [{ label: 'straight pieces with kinks plus smooth bends (mixed trend)', options: {}, simplicity: 4, maxPoints: MIXED_DATA_DRIVEN_LIMIT, cost: 8 }],
   run(series: Series, o: ResolvedOptions, context: RunContext) {
     if (o.penalty === undefined && series.n > MIXED_DATA_DRIVEN_LIMIT) {
       throw new KnotwiseError('bad-data', `the mixed trend chooses its penalties from the data on at most ${MIXED_DATA_DRIVEN_LIMIT.toLocaleString('en-US')} points; this series has ${series.n.toLocaleString('en-US')}, which would take minutes. Give a penalty (penalty=...) and a width, or use a shorter range of rows.`);

@@ -101,7 +101,7 @@ export const waveletAnalysis: AnalysisDefinition = {
   ],
   ties: 'merge',
   minPoints: () => 8,
-  autoVariants: [{ label: 'a denoised curve that keeps jumps and spikes (wavelet shrinkage)', options: { threshold: 'cv' }, simplicity: 2 }],
+  autoVariants: [{ label: 'a denoised curve that keeps jumps and spikes (wavelet shrinkage)', options: { threshold: 'cv' }, simplicity: 2, cost: 2.5 }],
   run(series: Series, o: ResolvedOptions, context: RunContext) {
     const smooth = fitWavelet(series, {
       filter: o.filter as WaveletFilterName,
