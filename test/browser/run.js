@@ -587,8 +587,12 @@ test('a second method is drawn over the first in its own style, named in the leg
 test('with the automatic choice the runner-up is the default comparison, and Cancel stops the comparison fit too', async (page) => {
   await page.selectOption('#method', 'auto');
   assert(await page.$eval('#second', (s) => s.value) === 'runner-up', 'the runner-up is not the default comparison of the automatic choice');
+  // a fresh answer (no cached one): the candidates run as jobs of their own on the pool's workers, then the choice
+  const before = await page.evaluate(() => { const rt = globalThis[Symbol.for('knotwise.pageRuntime')]; rt.client.clear(); return { run: rt.pool.stats.jobsRun, size: rt.pool.size }; });
   await page.click('#run');
   await fitEnds(page);
+  const jobs = (await poolStats(page)).jobsRun - before.run;
+  assert(before.size < 2 ? jobs === 1 : jobs >= 4, `jobs run for one automatic choice on a pool of ${before.size}: ${jobs}`);
   await page.waitForSelector('#results:not([hidden])');
   const legend = await page.$$eval('#chart .legend-item', (l) => l.map((x) => x.textContent));
   assert(legend.some((t) => /^fit: /.test(t)) && legend.some((t) => /^compared: .*\(runner-up\)$/.test(t)), `legend: ${legend}`);

@@ -6,17 +6,18 @@
 import * as path from 'path';
 import { threadPool } from '../../src/runtime/node/threadPool';
 import { AnalysisClient } from '../../src/runtime/client';
-import { AnalysisRequest, analysisKey } from '../../src/runtime/engineEntry';
+import { AnalysisRequest, EngineJob, analysisKey, autoSplit } from '../../src/runtime/engineEntry';
+import { poolSubmit } from '../../src/runtime/poolSubmit';
 import { KnotwiseError, runAnalysis } from '../../src/engine';
 import type { WorkerPool } from '../../src/runtime/pool';
 import { mulberry32 } from '../helpers/random';
 
 const entry = path.join(__dirname, 'slowWorker.ts');
 const loader = path.join(__dirname, 'tsThread.js');
-let pool: WorkerPool<AnalysisRequest, any>;
+let pool: WorkerPool<EngineJob, any>;
 
 beforeAll(() => {
-  pool = threadPool<AnalysisRequest, any>(loader, 2, { workerOptions: { workerData: { entry } } });
+  pool = threadPool<EngineJob, any>(loader, 2, { workerOptions: { workerData: { entry } } });
 });
 afterAll(() => pool.close());
 
@@ -81,4 +82,18 @@ test('ten concurrent equal requests through the client run one job; a different 
   expect(pool.stats.jobsRun).toBe(runsBefore + 1);
   await client.compute({ analysis: 'trend', y, options: { order: 2 } });
   expect(pool.stats.jobsRun).toBe(runsBefore + 2);
+});
+
+test('the automatic choice spread over two threads (one job per candidate, then the choice) answers as one runAnalysis here', async () => {
+  const y = brokenLine(150);
+  const runsBefore = pool.stats.jobsRun;
+  const client = new AnalysisClient<AnalysisRequest, any>(poolSubmit(pool), analysisKey);
+  const got = await client.compute({ y });
+  const here = runAnalysis({ y });
+  expect(pool.stats.jobsRun).toBe(runsBefore + autoSplit({ y })!.length + 1);
+  const rows = (r: any) => r.comparison.rows.map((q: any) => ({ ...q, milliseconds: 0 }));
+  expect(rows(got)).toEqual(rows(here));
+  expect(got.comparison.chosen).toBe(here.comparison!.chosen);
+  expect(Array.from(got.fitted)).toEqual(Array.from(here.fitted));
+  expect(got.smooth.method).toBe(here.smooth!.method);
 });
