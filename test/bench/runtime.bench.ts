@@ -9,7 +9,13 @@
  *   invented numbers, spawned as a new process) against the engine's own time
  *   for the same fit in this process; target under 2x;
  * - the three ways of reading that file: the fast numeric path, the general
- *   reader, and csv-parse (installed; general-purpose CSV reader).
+ *   reader, and csv-parse (installed; general-purpose CSV reader);
+ * - the automatic choice on the workers (poolSubmit: one job per candidate on a pool of two
+ *   threads, then the choice) against the same choice in this process, on the smoothers bench's
+ *   two shapes at 156 to 10,000 points: the pool's first run (threads loaded, code not yet
+ *   compiled) and the median of the runs after it, as a pane's long-lived workers see them;
+ *   the answers must agree (chosen candidate, every score).
+ * KNOTWISE_BENCH_RUNTIME=auto runs only that part.
  * Timings are medians of repeats; this machine is shared and has few cores, so
  * single runs are noisy.
  */
@@ -18,8 +24,10 @@ import * as os from 'os';
 import * as path from 'path';
 import { spawnSync } from 'child_process';
 import { threadPool } from '../../src/runtime/node/threadPool';
-import type { AnalysisRequest } from '../../src/runtime/engineEntry';
-import { fitCells } from '../../src/engine';
+import type { AnalysisRequest, AnalysisResult, EngineJob, EngineJobResult } from '../../src/runtime/engineEntry';
+import { poolSubmit } from '../../src/runtime/poolSubmit';
+import { fitCells, runAnalysis } from '../../src/engine';
+import { kinksAndWave, shiftsAndWave, SHAPE_NOISE } from '../helpers/autoBenchShapes';
 import { parseCsv, parseNumericCsv } from '../../src/cli/csv';
 import { normalStream } from '../helpers/random';
 
@@ -139,9 +147,52 @@ function cliWholeProcess(emit: Emit, quick: boolean): void {
   }
 }
 
+/** The automatic choice through poolSubmit on two worker threads, beside the same choice on this thread. */
+async function autoOnWorkers(emit: Emit, quick: boolean): Promise<void> {
+  const pool = threadPool<EngineJob, EngineJobResult>(path.join(__dirname, '../../src/runtime/node/threadWorker.js'), 2);
+  const submit = poolSubmit(pool);
+  try {
+    pool.warm();
+    await pool.whenIdle();
+    for (const n of quick ? [730] : [156, 730, 5000, 10000]) {
+      for (const shape of ['kinks-and-wave', 'shifts-and-wave'] as const) {
+        const z = normalStream(n + (shape === 'kinks-and-wave' ? 5 : 6));
+        const x = Array.from({ length: n }, (_, i) => i + 1);
+        const y = x.map((t) => (shape === 'kinks-and-wave' ? kinksAndWave(t / n) : shiftsAndWave(t / n)) + SHAPE_NOISE[shape] * z());
+        const load0 = os.loadavg()[0];
+        const repeats = quick ? 2 : 4;
+        const onWorkers: number[] = [], here: number[] = [];
+        let a: AnalysisResult | undefined, b: AnalysisResult | undefined;
+        for (let r = 0; r < repeats; r++) {
+          const t0 = now();
+          a = await submit({ analysis: 'auto', y, x }, () => undefined).promise;
+          onWorkers.push(now() - t0);
+          const t1 = now();
+          b = runAnalysis({ analysis: 'auto', y, x });
+          here.push(now() - t1);
+        }
+        const rows = (r: AnalysisResult) => r.comparison!.rows.map((q) => [q.label, q.cv, q.df]);
+        const same = a!.comparison!.chosen === b!.comparison!.chosen && JSON.stringify(rows(a!)) === JSON.stringify(rows(b!));
+        const later = onWorkers.slice(1), laterHere = here.slice(1);
+        emit({
+          bench: 'runtime', measure: 'auto-on-workers', threads: 2, shape, n, repeats,
+          firstMs: round(onWorkers[0]), medianMs: round(median(later)), inThisThreadMedianMs: round(median(laterHere)),
+          ratio: Number((median(later) / median(laterHere)).toFixed(3)), sameAnswer: same,
+          chosen: b!.comparison!.rows[b!.comparison!.chosen].label, loadAverageBefore: load0, loadAverageAfter: os.loadavg()[0],
+        });
+      }
+    }
+  } finally {
+    pool.close();
+  }
+}
+
 export async function run(emit: Emit, quick: boolean): Promise<void> {
+  const only = process.env.KNOTWISE_BENCH_RUNTIME;
+  if (only === 'auto') { await autoOnWorkers(emit, quick); return; }
   await firstProgress(emit, quick);
   await cancelToIdle(emit, quick, 0);
   await cancelToIdle(emit, quick, 1);
   cliWholeProcess(emit, quick);
+  await autoOnWorkers(emit, quick);
 }
