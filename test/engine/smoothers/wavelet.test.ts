@@ -5,7 +5,7 @@
  * SURE threshold against a brute-force minimum, and refusals.
  */
 import { periodicDwt, periodicIdwt } from '../../../src/engine/smoothers/wavelet/periodicDwt';
-import { waveletShrink } from '../../../src/engine/smoothers/wavelet/waveletShrink';
+import { waveletShrink, waveletShrinkAt } from '../../../src/engine/smoothers/wavelet/waveletShrink';
 import { sureThreshold } from '../../../src/engine/smoothers/wavelet/sureThreshold';
 import { WAVELET_FILTERS, WAVELET_FILTER_NAMES } from '../../../src/engine/smoothers/wavelet/waveletFilters';
 import { loadFixture, maxAbsDiff } from '../../helpers/fixtures';
@@ -147,5 +147,33 @@ describe('sureThreshold', () => {
     const x = new Float64Array(256).fill(0.1);
     x[3] = 9;
     expect(sureThreshold(x)).toEqual({ threshold: Math.sqrt(2 * Math.log(256)), universal: true });
+  });
+});
+
+describe('waveletShrinkAt', () => {
+  // A seeded noisy ramp with a jump (invented), 300 points: not a power of two.
+  const z = normalStream(41);
+  const y = Array.from({ length: 300 }, (_, i) => 0.01 * i + (i > 170 ? 2 : 0) + 0.3 * z());
+
+  test('each threshold of a grid gives exactly what waveletShrink gives at that fixed threshold (one transform for the grid)', () => {
+    const grid = [0, 0.05, 0.3, 1.1, 5];
+    for (const opts of [{}, { shifts: 4 }, { shrink: 'hard' as const, boundary: 'periodic' as const, filter: 'db4' as const }]) {
+      const many = waveletShrinkAt(y, opts, grid);
+      expect(many).toHaveLength(grid.length);
+      grid.forEach((t, q) => {
+        const one = waveletShrink(y, { ...opts, fixedThreshold: t });
+        expect(Array.from(many[q].fitted)).toEqual(Array.from(one.fitted));
+        expect(many[q].kept).toBe(one.kept);
+        expect(many[q].thresholds).toEqual(one.thresholds);
+        expect(many[q].sigma).toBe(one.sigma);
+      });
+      // the fits differ along the grid: the largest threshold keeps fewest details
+      expect(many[grid.length - 1].kept).toBeLessThan(many[0].kept);
+    }
+  });
+
+  test('a threshold that is not a finite number from 0 is refused with its position', () => {
+    expect(() => waveletShrinkAt(y, {}, [0.1, -1])).toThrow('every threshold must be a finite number from 0; got -1 at position 2.');
+    expect(() => waveletShrinkAt(y, {}, [NaN])).toThrow(/got NaN at position 1/);
   });
 });

@@ -26,7 +26,7 @@ import { crossValidate, type FoldPredictor } from '../../select/crossValidate';
 import { foldPlan} from '../../select/noiseDependence';
 import type { Series } from '../../series';
 import type { Criterion, CriterionPoint, NoiseAssumption } from '../../types';
-import { waveletShrink, type WaveletShrinkOptions, type WaveletShrinkResult } from './waveletShrink';
+import { waveletShrink, waveletShrinkAt, type WaveletShrinkOptions, type WaveletShrinkResult } from './waveletShrink';
 
 /** Result of {@link waveletCrossValidate}. */
 export interface WaveletChoice {
@@ -67,7 +67,7 @@ export function waveletCrossValidate(series: Series, shape: WaveletShrinkOptions
   const low = Math.min(top / 100, probe.sigma > 0 ? 0.05 * probe.sigma : top / 100);
   const grid = Float64Array.from({ length: G }, (_, j) => Math.exp(Math.log(low) + (j * (Math.log(top) - Math.log(low))) / (G - 1)));
   const cv = crossValidate(y, series.w, folds, grid, waveletFoldPredictor(y, base), context, 'cross-validation of wavelet thresholds', foldPlan(y, folds, noise));
-  const fits = Array.from(grid, (t) => waveletShrink(y, { ...base, fixedThreshold: t }));
+  const fits = waveletShrinkAt(y, base, grid);
   const curve: CriterionPoint[] = Array.from(grid, (t, j) => ({ penalty: t, score: cv.score[j], se: cv.se[j], df: waveletDf(fits[j], n) }));
   const best = choosePenalty(curve, pick);
   const minimum = choosePenalty(curve, 'minimum');
@@ -88,10 +88,8 @@ export function waveletFoldPredictor(y: Float64Array, shape: WaveletShrinkOption
   const filled = new Float64Array(y.length);
   return (train, held, pens) => {
     fillFromTraining(y, train, filled);
-    return Array.from(pens, (t) => {
-      const f = waveletShrink(filled, { ...shape, fixedThreshold: t }).fitted;
-      return Float64Array.from(held, (i) => f[i]);
-    });
+    // one forward transform for every threshold of the grid
+    return waveletShrinkAt(filled, shape, pens).map((r) => Float64Array.from(held, (i) => r.fitted[i]));
   };
 }
 
