@@ -8,6 +8,9 @@ import { Matrix, solve } from 'ml-matrix';
 import { loessFit } from '../../../src/engine/smoothers/loess/loessFit';
 import { loessSelectSpan } from '../../../src/engine/smoothers/loess/loessSelectSpan';
 import { loessPredict } from '../../../src/engine/smoothers/loess/loessPredict';
+import { LOESS_SEARCH_POINTS } from '../../../src/engine/smoothers/loess/loessAnalysis';
+import { runAnalysis, runCandidates } from '../../../src/engine';
+import { autoCandidates, AUTO_COARSE_FROM, AUTO_SEARCH_POINTS } from '../../../src/engine/smoothers/auto';
 import { loadFixture, maxAbsDiff, range } from '../../helpers/fixtures';
 import { mulberry32, normalStream } from '../../helpers/random';
 
@@ -168,5 +171,43 @@ describe('loessSelectSpan', () => {
       expect(again.df).toBeGreaterThan(4);
       expect(again.df).toBeLessThan(30);
     }
+  });
+});
+
+describe('searchPoints: how many spans are tried when the span is chosen', () => {
+  // A seeded wave with noise (invented), 400 points.
+  const z = normalStream(77);
+  const y = Array.from({ length: 400 }, (_, i) => Math.sin(i / 30) + 0.3 * z());
+
+  test('cross-validation tries exactly that many spans, log-spaced from the default grid\'s smallest up to 1', () => {
+    const full = runAnalysis({ analysis: 'loess', y, options: { rule: 'cv' } }).criterion!.curve!;
+    const some = runAnalysis({ analysis: 'loess', y, options: { rule: 'cv', searchPoints: 12 } }).criterion!.curve!;
+    expect(full).toHaveLength(LOESS_SEARCH_POINTS);
+    expect(some).toHaveLength(12);
+    expect(some[0].penalty).toBeCloseTo(full[0].penalty, 14);
+    expect(some[11].penalty).toBeCloseTo(1, 14);
+    const ratios = some.slice(1).map((p, i) => p.penalty / some[i].penalty);
+    for (const r of ratios) expect(r).toBeCloseTo(ratios[0], 10);
+  });
+
+  test('AICc tries at most that many (spans with the same number of neighbours are one fit)', () => {
+    const c = runAnalysis({ analysis: 'loess', y, options: { searchPoints: 8 } }).criterion!;
+    expect(c.name).toBe('aicc');
+    expect(c.curve!.length).toBeGreaterThan(4);
+    expect(c.curve!.length).toBeLessThanOrEqual(8);
+    expect(c.curve![c.curve!.length - 1].penalty).toBeCloseTo(1, 14);
+  });
+
+  test('the automatic choice tries 15 spans from 2,000 points, as its other candidates search 15 penalties', () => {
+    const long = Array.from({ length: AUTO_COARSE_FROM }, (_, i) => Math.sin(i / 90) + 0.3 * z());
+    const index = autoCandidates().findIndex((c) => c.def.name === 'loess');
+    const [o] = runCandidates({ y: long }, [index]);
+    expect(o.row.skipped).toBeUndefined();
+    expect(o.core!.criterion!.curve).toHaveLength(AUTO_SEARCH_POINTS);
+    expect(LOESS_SEARCH_POINTS).toBeGreaterThan(AUTO_SEARCH_POINTS);
+  });
+
+  test('a count outside 5 to 400 is refused with the value', () => {
+    expect(() => runAnalysis({ analysis: 'loess', y, options: { searchPoints: 3 } })).toThrow('search-points (loess) must be a whole number from 5 to 400; got 3.');
   });
 });

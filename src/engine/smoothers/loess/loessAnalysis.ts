@@ -27,6 +27,8 @@ export interface LoessSettings {
   span?: number;
   rule?: 'aicc' | 'gcv' | 'cv' | 'cv-simpler';
   folds?: number;
+  /** Spans tried when the span is chosen (log-spaced up to 1; default {@link LOESS_SEARCH_POINTS}). */
+  searchPoints?: number;
   /** What cross-validation assumes of the noise (default 'correlated'). */
   noise?: NoiseAssumption;
   robustness?: number;
@@ -60,7 +62,7 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
     const k = Math.max(2, Math.min(s.folds ?? 10, n - 2));
     // the grid of loessSelectSpan, kept to spans the training folds can use
     const lo = Math.min(1, Math.max((2 * s.degree + 4) / (n - Math.ceil(n / k)), 1e-3));
-    const spans = Float64Array.from({ length: 30 }, (_, i) => Math.exp(Math.log(lo) + (i * (0 - Math.log(lo))) / 29));
+    const spans = Float64Array.from(spanGrid(lo, s.searchPoints ?? LOESS_SEARCH_POINTS));
     const predict = (train: Int32Array, held: Int32Array, pens: Float64Array): Float64Array[] => {
       const tx = Float64Array.from(train, (i) => series.x[i]), ty = Float64Array.from(train, (i) => series.y[i]), tw = Float64Array.from(train, (i) => series.w[i]);
       const hx = Float64Array.from(held, (i) => series.x[i]);
@@ -87,7 +89,7 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
     if (atEdge) warnings.push(warning('penalty-at-edge', `The cross-validation choice is at an end of the spans tried (${showNumber(span)}): a span outside ${showNumber(spans[0])} to 1 might predict better, or the data show no local structure.`));
   } else {
     context.step(0.1, `trying spans (${s.rule === 'gcv' ? 'GCV' : 'AICc'})`);
-    const sel = loessSelectSpan(series.x, series.y, series.w, { ...common, criterion: s.rule === 'gcv' ? 'gcv' : 'aicc' });
+    const sel = loessSelectSpan(series.x, series.y, series.w, { ...common, criterion: s.rule === 'gcv' ? 'gcv' : 'aicc', ...(s.searchPoints !== undefined ? { spans: spanGrid(Math.min(1, Math.max((2 * s.degree + 4) / n, 1e-3)), s.searchPoints) } : {}) });
     span = sel.span; fit = sel.fit;
     criterion = { name: sel.criterion, value: sel.criterion === 'aicc' ? fit.aicc : fit.gcv, curve: sel.table.map((r) => ({ penalty: r.span, score: r.score, df: r.df })), atEdge: sel.atEdge };
     if (sel.atEdge) {
@@ -109,6 +111,14 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
   };
 }
 
+/** Spans tried by default when the span is chosen (AICc, GCV or cross-validation). */
+export const LOESS_SEARCH_POINTS = 30;
+
+/** `count` spans log-spaced from `lo` to 1, the grid of {@link loessSelectSpan}. Unchecked. */
+function spanGrid(lo: number, count: number): number[] {
+  return Array.from({ length: count }, (_, i) => Math.exp(Math.log(lo) + (i * (0 - Math.log(lo))) / (count - 1)));
+}
+
 /** The declared analysis 'loess'. */
 export const loessAnalysis: AnalysisDefinition = {
   name: 'loess',
@@ -124,6 +134,7 @@ export const loessAnalysis: AnalysisDefinition = {
       help: 'how to choose the span when none is given: aicc (default), gcv, cv or cv-simpler',
     },
     { name: 'folds', kind: 'integer', min: 2, max: 50, onlyWith: { option: 'rule', values: ['cv', 'cv-simpler'] }, help: 'number of cross-validation folds (default 10, fewer on short series)' },
+    { name: 'searchPoints', kind: 'integer', min: 5, max: 400, default: LOESS_SEARCH_POINTS, help: `number of spans tried when the span is chosen, log-spaced up to 1 (default ${LOESS_SEARCH_POINTS})` },
     noiseOption('rule', ['cv', 'cv-simpler']),
     { name: 'robustness', kind: 'integer', min: 0, max: 20, default: 0, implied: 3, help: 'passes that down-weight outliers (bisquare weights; 3 as in LOWESS); 0 for none (default)' },
     { name: 'interpolateWithin', kind: 'number', min: 0, help: 'x distance within which fitted values are interpolated between exact local fits (default: none up to 1000 points, else min(0.01, span / 20) of the x range)' },
@@ -140,6 +151,7 @@ export const loessAnalysis: AnalysisDefinition = {
       span: o.span as number | undefined,
       rule: o.rule as LoessSettings['rule'],
       folds: o.folds as number | undefined,
+      searchPoints: o.searchPoints as number | undefined,
       noise: o.noise as NoiseAssumption | undefined,
       robustness: o.robustness as number | undefined,
       interpolateWithin: o.interpolateWithin as number | undefined,
