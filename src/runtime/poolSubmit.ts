@@ -34,7 +34,7 @@ function splitChoice(pool: WorkerPool<EngineJob, EngineJobResult>, request: Anal
   const report = (): void => {
     let sum = 0;
     for (let j = 0; j < fractions.length; j++) sum += fractions[j];
-    onProgress({ fraction: (CANDIDATES_SHARE * sum) / parts.length, stage: `comparing methods (${finished} of ${parts.length} done)` });
+    onProgress({ fraction: (CANDIDATES_SHARE * sum) / parts.length, stage: `${finished} of ${parts.length} methods compared` });
   };
   const jobs = parts.map((i, j) => pool.run({ candidatesOf: request, indices: [i] }, (p) => { fractions[j] = p.fraction; report(); }));
   const stopAll = (): void => {
