@@ -238,9 +238,15 @@ export function candidateOutcome(series: Series, options: ResolvedOptions, conte
   return { index, row, core };
 }
 
-/** Whether an outcome computed elsewhere is the candidate at `index` of this build's list (same method and label). Unchecked. */
+/**
+ * Whether an outcome computed elsewhere can stand for the candidate at `index` of this build's list:
+ * the same method and label, a row with a score (or why it was skipped) and, unless skipped, a fit.
+ * Anything else is computed again here. Unchecked.
+ */
 function outcomeFits(o: CandidateOutcome | undefined, index: number, c: { def: AnalysisDefinition; v: AutoVariant }): o is CandidateOutcome {
-  return !!o && o.index === index && !!o.row && o.row.method === c.def.name && o.row.label === c.v.label;
+  if (!o || typeof o !== 'object' || o.index !== index || !o.row || o.row.method !== c.def.name || o.row.label !== c.v.label) return false;
+  if (typeof o.row.skipped === 'string') return o.core === null;
+  return typeof o.row.cv === 'number' && typeof o.row.df === 'number' && !!o.core && typeof o.core === 'object' && !!o.core.smooth;
 }
 
 /**
