@@ -337,7 +337,9 @@ async function boot(inExcel: boolean): Promise<void> {
     fillNoise();
   };
   const progress = new ProgressBox($('status'));
-  pageRuntime().pool?.warm(1); // load one analysis worker now, so the first fit does not wait for it
+  // load every analysis worker now: the default method (the automatic choice) runs its candidates on all of
+  // them at once, so the first fit waits for none of them to load
+  pageRuntime().pool?.warm();
   $('run').onclick = async () => {
     const run = progress.start();
     let block: CellBlock | null = null;
