@@ -120,11 +120,12 @@ function prepare(request: AnalysisRequest, control: RunControl): { def: Analysis
  * ```
  */
 export function runCandidates(request: AnalysisRequest, indices: readonly number[], control: RunControl = {}): CandidateOutcome[] {
-  const { def, options, series, context } = prepare(request, control);
-  if (def.name !== DEFAULT_SMOOTHER) throw new KnotwiseError('bad-option', `candidates are computed for the automatic choice only; this request runs "${def.name}".`);
+  // the positions first: they cost nothing to check, the intake below reads every cell
   const list = autoCandidates();
   if (!Array.isArray(indices)) throw new KnotwiseError('bad-option', `indices must be a list of candidate positions; got ${describeValue(indices)}.`);
   for (const i of indices) if (!(Number.isInteger(i) && i >= 0 && i < list.length)) throw new KnotwiseError('bad-option', `candidate ${describeValue(i)} does not exist: positions run from 0 to ${list.length - 1}.`);
+  const { def, options, series, context } = prepare(request, control);
+  if (def.name !== DEFAULT_SMOOTHER) throw new KnotwiseError('bad-option', `candidates are computed for the automatic choice only; this request runs "${def.name}".`);
   if (noComparisonReason(series.n, options.folds as number)) return [];
   return indices.map((i, j) => context.part(j / indices.length, (j + 1) / indices.length, () => candidateOutcome(series, options, context, i, list)));
 }

@@ -8,7 +8,7 @@ import { Matrix, solve } from 'ml-matrix';
 import { loessFit } from '../../../src/engine/smoothers/loess/loessFit';
 import { loessSelectSpan } from '../../../src/engine/smoothers/loess/loessSelectSpan';
 import { loessPredict } from '../../../src/engine/smoothers/loess/loessPredict';
-import { LOESS_SEARCH_POINTS } from '../../../src/engine/smoothers/loess/loessAnalysis';
+import { LOESS_SEARCH_POINTS } from '../../../src/engine/smoothers/loess/loessSelectSpan';
 import { runAnalysis, runCandidates } from '../../../src/engine';
 import { autoCandidates, AUTO_COARSE_FROM, AUTO_SEARCH_POINTS } from '../../../src/engine/smoothers/auto';
 import { loadFixture, maxAbsDiff, range } from '../../helpers/fixtures';

@@ -13,7 +13,7 @@ import type { ResolvedOptions } from '../../analysis/optionDeclaration';
 import { QUIET, RunContext } from '../../analysis/runContext';
 import { boundaryWarning, fitWarnings } from '../../diagnostics/commonWarnings';
 import { loessFit, type LoessFit } from './loessFit';
-import { loessSelectSpan } from './loessSelectSpan';
+import { LOESS_SEARCH_POINTS, loessSelectSpan, spanGrid } from './loessSelectSpan';
 import { loessPredict } from './loessPredict';
 import { crossValidate } from '../../select/crossValidate';
 import { foldPlan } from '../../select/noiseDependence';
@@ -89,7 +89,7 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
     if (atEdge) warnings.push(warning('penalty-at-edge', `The cross-validation choice is at an end of the spans tried (${showNumber(span)}): a span outside ${showNumber(spans[0])} to 1 might predict better, or the data show no local structure.`));
   } else {
     context.step(0.1, `trying spans (${s.rule === 'gcv' ? 'GCV' : 'AICc'})`);
-    const sel = loessSelectSpan(series.x, series.y, series.w, { ...common, criterion: s.rule === 'gcv' ? 'gcv' : 'aicc', ...(s.searchPoints !== undefined ? { spans: spanGrid(Math.min(1, Math.max((2 * s.degree + 4) / n, 1e-3)), s.searchPoints) } : {}) });
+    const sel = loessSelectSpan(series.x, series.y, series.w, { ...common, criterion: s.rule === 'gcv' ? 'gcv' : 'aicc', count: s.searchPoints });
     span = sel.span; fit = sel.fit;
     criterion = { name: sel.criterion, value: sel.criterion === 'aicc' ? fit.aicc : fit.gcv, curve: sel.table.map((r) => ({ penalty: r.span, score: r.score, df: r.df })), atEdge: sel.atEdge };
     if (sel.atEdge) {
@@ -109,14 +109,6 @@ export function fitLoess(series: Series, s: LoessSettings, context: RunContext =
     knots: [], leverage: fit.leverage, warnings, solver: fit.status,
     model: { x: series.x, y: series.y, w: series.w, rw: fit.robustnessWeights, span, degree: s.degree },
   };
-}
-
-/** Spans tried by default when the span is chosen (AICc, GCV or cross-validation). */
-export const LOESS_SEARCH_POINTS = 30;
-
-/** `count` spans log-spaced from `lo` to 1, the grid of {@link loessSelectSpan}. Unchecked. */
-function spanGrid(lo: number, count: number): number[] {
-  return Array.from({ length: count }, (_, i) => Math.exp(Math.log(lo) + (i * (0 - Math.log(lo))) / (count - 1)));
 }
 
 /** The declared analysis 'loess'. */

@@ -1,6 +1,14 @@
 import { KnotwiseError, showNumber } from '../../errors';
 import { loessInput, loessOptions, loessRun, type LoessFit } from './loessFit';
 
+/** Spans tried by default when the span is chosen (AICc, GCV or cross-validation). */
+export const LOESS_SEARCH_POINTS = 30;
+
+/** `count` spans log-spaced from `lo` to 1: the grid every span search uses. Unchecked. */
+export function spanGrid(lo: number, count: number): number[] {
+  return Array.from({ length: count }, (_, i) => Math.exp(Math.log(lo) + (i * (0 - Math.log(lo))) / (count - 1)));
+}
+
 /** One row of the span search. */
 export interface SpanScore { span: number; neighbours: number; df: number; score: number }
 
@@ -37,7 +45,7 @@ export interface SpanSelection {
  * ```
  */
 export function loessSelectSpan(x: ArrayLike<number>, y: ArrayLike<number>, w: ArrayLike<number> | null | undefined,
-  options: { degree?: 0 | 1 | 2; robustnessIterations?: number; delta?: number; criterion?: 'aicc' | 'gcv'; spans?: number[] } = {}): SpanSelection {
+  options: { degree?: 0 | 1 | 2; robustnessIterations?: number; delta?: number; criterion?: 'aicc' | 'gcv'; spans?: number[]; count?: number } = {}): SpanSelection {
   const inp = loessInput(x, y, w);
   const n = inp.n;
   const criterion = options.criterion ?? 'aicc';
@@ -45,8 +53,7 @@ export function loessSelectSpan(x: ArrayLike<number>, y: ArrayLike<number>, w: A
   const degree = options.degree ?? 1;
   let spans = options.spans;
   if (spans === undefined) {
-    const lo = Math.min(1, Math.max((2 * degree + 4) / n, 1e-3));
-    spans = Array.from({ length: 30 }, (_, i) => Math.exp(Math.log(lo) + (i * (0 - Math.log(lo))) / 29));
+    spans = spanGrid(Math.min(1, Math.max((2 * degree + 4) / n, 1e-3)), options.count ?? LOESS_SEARCH_POINTS);
   } else if (!Array.isArray(spans) || spans.length === 0) {
     throw new KnotwiseError('bad-option', 'spans must be a non-empty list of numbers in (0, 1].');
   }
