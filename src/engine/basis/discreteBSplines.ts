@@ -116,7 +116,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const values = spare ? spare.spareValues! : new Float64Array(n * wd);
   const penalty = new Float64Array(p * (k + 2));
   const nu = (k + 1) * (k + 1); // unknowns: k + 1 local coefficients for each of the k + 1 pieces
-  const M = new Float64Array((nu - 1) * nu);
+  const M = new Float64Array((nu - 1) * nu), Mb = new Float64Array((nu - 1) * nu);
   const coef = new Float64Array(nu);
   const perm = new Int32Array(nu), z = new Float64Array(nu); // work space of nullVector
   const cen = new Float64Array(k + 1), half = new Float64Array(k + 1);
@@ -190,7 +190,9 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
         row++;
       }
     }
-    if (!nullVector(M, nu - 1, nu, coef, perm, z)) return null;
+    // the band's own elimination first; complete pivoting (on the untouched conditions) when a pivot is too small there
+    Mb.set(M);
+    if (!bandedNullVector(Mb, nu - 1, nu, k, coef, z) && !nullVector(M, nu - 1, nu, coef, perm, z)) return null;
     allCoef.set(coef, e * nu);
     // values on the support
     // piece by piece (piece l holds the points rho_l < i <= rho_{l+1}), Horner's rule written out
@@ -248,6 +250,46 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
 /** An empty {@link BasisCache}. */
 export function basisCache(): BasisCache {
   return { x: null, k: -1, ext: new Int32Array(0), coef: new Float64Array(0) };
+}
+
+/**
+ * The null vector of a window's conditions (rows x cols, row-major, rank cols - 1, the layout built
+ * by {@link discreteBSplines}) by Gaussian elimination inside their band, with row pivoting and the
+ * last column free. The k conditions at knot l involve only pieces l - 1 and l, so column c (piece
+ * q = floor(c / (k + 1))) is non-zero only in the rows of knots up to q + 1, and eliminating it
+ * touches only those rows and the columns of pieces up to q + 1: about a quarter of the work of
+ * complete pivoting over the whole matrix. The last column is the leading coefficient of the last
+ * piece, which is never zero for a basis function of smallest support (else it would vanish on that
+ * piece and have k + 1 knots). False when a pivot is below 1e-13 of the largest or the result is not
+ * finite: {@link nullVector} then decides with complete pivoting. `z` (length cols) is work space.
+ * Unchecked.
+ */
+function bandedNullVector(M: Float64Array, rows: number, cols: number, k: number, out: Float64Array, z: Float64Array): boolean {
+  const wd = k + 1;
+  let top = 0;
+  for (let c = 0; c < rows; c++) {
+    const q = (c / wd) | 0;
+    const rEnd = Math.min(rows, (q + 2) * k), cEnd = Math.min(cols, (q + 2) * wd);
+    let pr = c, best = 0;
+    for (let r = c; r < rEnd; r++) { const a = M[r * cols + c], v = a < 0 ? -a : a; if (v > best) { best = v; pr = r; } }
+    if (best > top) top = best;
+    if (!(best > 1e-13 * top)) return false;
+    if (pr !== c) for (let j = c; j < cEnd; j++) { const t = M[c * cols + j]; M[c * cols + j] = M[pr * cols + j]; M[pr * cols + j] = t; }
+    const piv = M[c * cols + c];
+    for (let r = c + 1; r < rEnd; r++) {
+      const f = M[r * cols + c] / piv;
+      if (f === 0) continue;
+      for (let j = c; j < cEnd; j++) M[r * cols + j] -= f * M[c * cols + j];
+    }
+  }
+  z[rows] = 1;
+  for (let c = rows - 1; c >= 0; c--) {
+    let s = -M[c * cols + rows];
+    for (let j = c + 1; j < rows; j++) s -= M[c * cols + j] * z[j];
+    z[c] = s / M[c * cols + c];
+  }
+  for (let j = 0; j < cols; j++) { if (!Number.isFinite(z[j])) return false; out[j] = z[j]; }
+  return true;
 }
 
 /**
