@@ -18,6 +18,7 @@ export class RunContext {
   /**
    * True while the automatic choice compares candidates: methods then leave out diagnostics that
    * only the returned fit needs (the knot bends, {@link knotBends}); the winner's are added after.
+   * Trend filtering then also scores only part of its penalty grid (`fillNearBest` of {@link trendPath}).
    */
   comparing = false;
 

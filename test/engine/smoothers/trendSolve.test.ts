@@ -320,3 +320,47 @@ describe('trendPath, fold fits at the looser gap of CV_TOLERANCE', () => {
   }, 120000);
 });
 
+
+describe('trendPath, filling the grid near the best score (fillNearBest)', () => {
+  test.each([1, 2, 3])('order %i: every other grid penalty, then the skipped ones beside the lowest score; the same lowest score and df as the whole grid, the shared scores within 0.05 of their standard error', (k) => {
+    // an invented 2,000-point series: the automatic choice's kinks-and-wave shape with noise sd 0.3; one minimum
+    const rn = seededNormal(160 + k);
+    const n = 2000;
+    const x = Array.from({ length: n }, (_, i) => i + 1);
+    const y = x.map((t) => kinksAndWave(t / n) + 0.3 * rn());
+    const series = seriesFromArrays(x, y);
+    const settings = { order: k, gridSize: 15, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 };
+    const whole = trendPath(series, settings);
+    const filled = trendPath(series, { ...settings, fillNearBest: true });
+    const argmin = (p: typeof whole) => p.points.reduce((b, q, j) => (q.cv < p.points[b].cv ? j : b), 0);
+    // the solved penalties: the whole grid's even positions (from the largest; both ends), plus at most two
+    const index = filled.points.map((p) => whole.points.findIndex((q) => Math.abs(q.penalty / p.penalty - 1) < 1e-12));
+    expect(index.every((i) => i >= 0)).toBe(true);
+    const fromLargest = index.map((i) => whole.points.length - 1 - i);
+    const evens = fromLargest.filter((j) => j % 2 === 0);
+    expect(evens.length).toBe(8);
+    expect(fromLargest.length - evens.length).toBeGreaterThanOrEqual(1);
+    expect(fromLargest.length - evens.length).toBeLessThanOrEqual(2);
+    // the skipped ones solved are the neighbours of the lowest score among the even ones
+    const bestEven = evens.reduce((b, j) => (filled.points[fromLargest.indexOf(j)].cv < filled.points[fromLargest.indexOf(b)].cv ? j : b), evens[0]);
+    for (const j of fromLargest.filter((v) => v % 2 === 1)) expect(Math.abs(j - bestEven)).toBe(1);
+    expect(filled.scaledGrid.length).toBe(filled.points.length);
+    expect(filled.points[argmin(filled)].df).toBe(whole.points[argmin(whole)].df);
+    expect(filled.points[argmin(filled)].penalty).toBeCloseTo(whole.points[argmin(whole)].penalty, 9);
+    filled.points.forEach((p, q) => {
+      const w = whole.points[index[q]];
+      expect(p.df).toBe(w.df); // exact full-data fits either way
+      expect(Math.abs(p.cv - w.cv)).toBeLessThanOrEqual(0.05 * w.cvSe);
+    });
+  }, 120000);
+
+  test('without cross-validation the setting changes nothing: the whole grid is solved', () => {
+    const rn = seededNormal(170);
+    const x = Array.from({ length: 200 }, (_, i) => i + 1);
+    const y = x.map((t) => Math.sin(t / 20) + 0.2 * rn());
+    const settings = { order: 2, gridSize: 12, folds: 0, relaxed: 0, tolerance: 1e-8, maxIterations: 200 };
+    const p = trendPath(seriesFromArrays(x, y), { ...settings, fillNearBest: true });
+    expect(p.points.length).toBe(12);
+    expect(p.points.map((q) => q.df)).toEqual(trendPath(seriesFromArrays(x, y), settings).points.map((q) => q.df));
+  });
+});
