@@ -25,9 +25,11 @@
  * (D b)_j = 0 off the knots means), with Q_{-1} = Q_{k+1} = 0. Each Q_l is written in
  * its own coordinate t = (x - centre) / half-width over the points it covers; the
  * (k + 1)^2 coefficients are the null vector of these k (k + 2) conditions (Gaussian
- * elimination with complete pivoting). Local coordinates keep this accurate however
+ * elimination inside their band with row pivoting, or with complete pivoting over the whole
+ * system when a pivot is small there). Local coordinates keep this accurate however
  * unequal the pieces are; summing truncated powers instead cancels badly when knots
- * cluster beside long stretches. Each B_e is scaled to max |B_e| = 1 on the data, and
+ * cluster beside long stretches. Each B_e is scaled to max |B_e| = 1 on the data (positive
+ * there: the null vector's sign is arbitrary), and
  * (D B_e) at its knots is k! times the jump of the leading coefficient.
  *
  * At most k + 1 basis functions are non-zero at a point and they are consecutive, so
@@ -197,7 +199,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     // values on the support
     // piece by piece (piece l holds the points rho_l < i <= rho_{l+1}), Horner's rule written out
     // for k = 3 and 2: on long series most of a build's time is spent here
-    let vmax = 0;
+    let vmax = 0, vtop = 0;
     for (let l = 0; l <= k; l++) {
       const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
       const c = cen[l], hl = half[l], o = l * (k + 1);
@@ -207,7 +209,8 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
           const t = (x[i] - c) / hl;
           const v = ((c3 * t + c2) * t + c1) * t + c0;
           values[i * 4 + e - first[i]] = v;
-          vmax = Math.max(vmax, Math.abs(v));
+          const av = v < 0 ? -v : v;
+          if (!(av <= vmax)) { vmax = av; vtop = v; }
         }
       } else if (k === 2) {
         const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2];
@@ -215,7 +218,8 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
           const t = (x[i] - c) / hl;
           const v = (c2 * t + c1) * t + c0;
           values[i * 3 + e - first[i]] = v;
-          vmax = Math.max(vmax, Math.abs(v));
+          const av = v < 0 ? -v : v;
+          if (!(av <= vmax)) { vmax = av; vtop = v; }
         }
       } else {
         for (let i = a; i <= z1; i++) {
@@ -223,11 +227,14 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
           let v = 0;
           for (let q = k; q >= 0; q--) v = v * t + coef[o + q];
           values[i * wd + e - first[i]] = v;
-          vmax = Math.max(vmax, Math.abs(v));
+          const av = v < 0 ? -v : v;
+          if (!(av <= vmax)) { vmax = av; vtop = v; }
         }
       }
     }
     if (!(vmax > 0) || !Number.isFinite(vmax)) return null;
+    // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary)
+    vmax = vtop;
     for (let i = i0; i <= i1; i++) values[i * wd + e - first[i]] /= vmax;
     // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
     for (let q = 0; q <= k + 1; q++) {

@@ -24,20 +24,23 @@ export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number
   // one buffer, updated in place level by level: entry i of a level depends on entries 0..i of
   // the level before, read before they are overwritten
   const v = work && work.length >= n ? work : new Float64Array(n);
-  for (let i = 0; i < n; i++) v[i] = g[i];
   let gmax = 0;
-  for (let i = 0; i < n; i++) gmax = Math.max(gmax, Math.abs(v[i]));
+  for (let i = 0; i < n; i++) { const gi = g[i]; v[i] = gi; gmax = Math.max(gmax, gi < 0 ? -gi : gi); }
   let worst = 0;
   let len = n;
   for (let s = 1; s <= q; s++) {
     // invert D1^T: (D1^T z)_0 = -z_0, (D1^T z)_i = z_{i-1} - z_i, (D1^T z)_{len-1} = z_{len-2}
     // compensated running sum (A. Neumaier, ZAMM 54 (1974)): a plain one loses about
     // n eps of the partial sums' size at each level, which on long series of order 3
-    // is more than the distance of u to the bound that the refinement must resolve
+    // is more than the distance of u to the bound that the refinement must resolve.
+    // From the second level on, each entry is first divided by S_{s-1} (times (x_{i+s-1} - x_i) / (s - 1)),
+    // as it is read: the same products as a pass of its own, one pass fewer
     let acc = 0, comp = 0;
     let zmax = 0;
+    const sp = s - 1;
+    if (sp > 0) v[len - 1] *= (x[len - 1 + sp] - x[len - 1]) / sp;
     for (let i = 0; i < len - 1; i++) {
-      const vi = v[i];
+      const vi = sp > 0 ? (v[i] *= (x[i + sp] - x[i]) / sp) : v[i];
       const t = acc - vi;
       // |.| written out (the same values as Math.abs, NaN included), the loop's cost where global lookups are slow
       comp += (acc < 0 ? -acc : acc) >= (vi < 0 ? -vi : vi) ? (acc - t) - vi : (-vi - t) + acc;
@@ -49,10 +52,6 @@ export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number
     const miss = Math.abs(v[len - 2] - v[len - 1]);
     worst = Math.max(worst, miss / Math.max(gmax, zmax, 1e-300));
     len--;
-    if (s < q) {
-      // divide by S_s: entries s / (x_{i+s} - x_i)
-      for (let i = 0; i < len; i++) v[i] *= (x[i + s] - x[i]) / s;
-    }
   }
   if (out && out.length === n - q) {
     out.set(v.subarray(0, n - q));
