@@ -18,9 +18,15 @@ export class RunContext {
   /**
    * True while the automatic choice compares candidates: methods then leave out diagnostics that
    * only the returned fit needs (the knot bends, {@link knotBends}); the winner's are added after.
-   * Trend filtering then also scores only part of its penalty grid (`fillNearBest` of {@link trendPath}).
    */
   comparing = false;
+
+  /**
+   * True while the automatic choice compares candidates on a long series (from AUTO_COARSE_FROM points):
+   * cross-validated trend filtering then solves every other penalty of its grid and the skipped ones
+   * beside the lowest score (`fillNearBest` of trendPath), not the whole grid.
+   */
+  fillNearBest = false;
 
   /**
    * Candidates of the automatic choice already computed elsewhere (on other workers: {@link autoSplit}),

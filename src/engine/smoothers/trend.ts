@@ -238,9 +238,9 @@ export function fitTrend(series: Series, options: FitOptions = {}, context: RunC
       warnings.push(warning('note', `${n} points are too few for ${s.folds}-fold cross-validation at order ${k}; the penalty was chosen by SURE instead.`));
       rule = 'sure';
     }
-    // as a candidate of the automatic choice (which reports only the chosen penalty), every other grid
-    // penalty and then the skipped ones beside the lowest score (fillNearBest of trendPath)
-    const fillNearBest = context.comparing && rule === 'cv' && !s.oneSE;
+    // as a candidate of the automatic choice on a long series (which reports only the chosen penalty),
+    // every other grid penalty and then the skipped ones beside the lowest score (fillNearBest of trendPath)
+    const fillNearBest = context.fillNearBest && rule === 'cv' && !s.oneSE;
     const path = trendPath(series, { order: k, gridSize: s.gridSize, folds: rule === 'cv' ? s.folds : 0, relaxed: s.relaxed, tolerance: s.tolerance, maxIterations: s.maxIterations, noise: s.noise, context, fillNearBest });
     const pts = path.points;
     const curve = curveOf(path, rule);

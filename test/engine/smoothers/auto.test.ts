@@ -102,6 +102,14 @@ describe('auto', () => {
       const r2 = runAnalysis({ analysis: 'auto', y: short.y, x: short.x });
       defs.forEach((d, i) => spies[i].mock.calls.forEach((call) => expect(call[1].searchPoints).toBe(gridOf(d.name))));
       expect(r2.warnings.some((w) => w.message.includes('searched at most'))).toBe(false);
+      // and trend filtering solves its whole grid there (no filling near the best score on short series)
+      let shortTrendRuns = 0;
+      defs.forEach((d, i) => spies[i].mock.results.forEach((res) => {
+        if (d.name !== 'trend' || res.type !== 'return') return;
+        shortTrendRuns++;
+        expect((res.value as { criterion: { curve: unknown[] } }).criterion.curve.length).toBe(gridOf('trend'));
+      }));
+      expect(shortTrendRuns).toBe(4);
     } finally {
       for (const sp of spies) sp.mockRestore();
     }
