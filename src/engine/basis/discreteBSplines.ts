@@ -202,11 +202,11 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     let vmax = 0, vtop = 0;
     for (let l = 0; l <= k; l++) {
       const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
-      const c = cen[l], hl = half[l], o = l * (k + 1);
+      const c = cen[l], ihl = 1 / half[l], o = l * (k + 1);
       if (k === 3) {
         const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2], c3 = coef[o + 3];
         for (let i = a; i <= z1; i++) {
-          const t = (x[i] - c) / hl;
+          const t = (x[i] - c) * ihl;
           const v = ((c3 * t + c2) * t + c1) * t + c0;
           values[i * 4 + e - first[i]] = v;
           const av = v < 0 ? -v : v;
@@ -215,7 +215,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       } else if (k === 2) {
         const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2];
         for (let i = a; i <= z1; i++) {
-          const t = (x[i] - c) / hl;
+          const t = (x[i] - c) * ihl;
           const v = (c2 * t + c1) * t + c0;
           values[i * 3 + e - first[i]] = v;
           const av = v < 0 ? -v : v;
@@ -223,7 +223,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
         }
       } else {
         for (let i = a; i <= z1; i++) {
-          const t = (x[i] - c) / hl;
+          const t = (x[i] - c) * ihl;
           let v = 0;
           for (let q = k; q >= 0; q--) v = v * t + coef[o + q];
           values[i * wd + e - first[i]] = v;
@@ -235,7 +235,8 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     if (!(vmax > 0) || !Number.isFinite(vmax)) return null;
     // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary)
     vmax = vtop;
-    for (let i = i0; i <= i1; i++) values[i * wd + e - first[i]] /= vmax;
+    const iv = 1 / vmax;
+    for (let i = i0; i <= i1; i++) values[i * wd + e - first[i]] *= iv;
     // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
     for (let q = 0; q <= k + 1; q++) {
       const r = E[e + q];
