@@ -156,14 +156,22 @@ def shrink():
     s = np.median(np.abs(c[-1])) / 0.6745
     t = s * np.sqrt(2 * np.log(n))
     return pywt.waverec([c[0]] + [pywt.threshold(d, t, 'soft') for d in c[1:]], 'sym8', mode='periodization')
-print(tmed(shrink, ${repeats}))
+# the same shrinkage with PyWavelets' half-sample symmetric extension (its default mode), the boundary rule of our 'reflect'
+def shrink_symmetric():
+    c = pywt.wavedec(y, 'sym8', mode='symmetric', level=J)
+    s = np.median(np.abs(c[-1])) / 0.6745
+    t = s * np.sqrt(2 * np.log(n))
+    return pywt.waverec([c[0]] + [pywt.threshold(d, t, 'soft') for d in c[1:]], 'sym8', mode='symmetric')
+print(tmed(shrink, ${repeats}), tmed(shrink_symmetric, ${repeats}))
 `);
         if (out !== null) {
-          const [med, mn] = out.split(/\s+/).map(Number);
+          const [med, mn, , smed, smn] = out.split(/\s+/).map(Number);
           Object.assign(rec, {
             pywavelets_ms: Number(med.toFixed(2)), pywavelets_min_ms: Number(mn.toFixed(2)),
             ratio_periodic_to_pywavelets: Number((per.ms / med).toFixed(2)), ratio_reflect_to_pywavelets: Number((refl.ms / med).toFixed(2)),
             ratio_of_minima_periodic: Number((per.minMs / mn).toFixed(2)),
+            pywavelets_symmetric_ms: Number(smed.toFixed(2)), pywavelets_symmetric_min_ms: Number(smn.toFixed(2)),
+            ratio_reflect_to_pywavelets_symmetric: Number((refl.ms / smed).toFixed(2)), ratio_of_minima_reflect_symmetric: Number((refl.minMs / smn).toFixed(2)),
           });
         }
       } else rec.pywavelets_ms = 'pywt not installed';
