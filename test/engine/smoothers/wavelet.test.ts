@@ -59,6 +59,22 @@ describe('orthogonality', () => {
   });
 });
 
+describe('periodicIdwt of the leading values only', () => {
+  test.each(WAVELET_FILTER_NAMES.map((f) => [f]))('%s: the first keep values are bit for bit those of the whole inverse, for keep from 1 to N', (name) => {
+    // the inverse sums each kept value over the same coefficients in the same order, so equality is exact
+    const h = WAVELET_FILTERS[name];
+    const z = normalStream(31);
+    for (const [N, levels] of [[64, 3], [512, 6], [96, 5]] as const) {
+      const c = Float64Array.from({ length: N }, () => z());
+      const whole = periodicIdwt(c, h, levels);
+      for (const keep of [1, 2, 7, N / 4, N / 2 + 3, N - 5, N]) {
+        const part = periodicIdwt(c, h, levels, keep);
+        expect(Array.from(part.subarray(0, keep))).toEqual(Array.from(whole.subarray(0, keep)));
+      }
+    }
+  });
+});
+
 describe('waveletShrink', () => {
   function noisy(n: number, seed: number) {
     const z = normalStream(seed);

@@ -54,7 +54,7 @@ export function levelwiseHardShrink(y: Float64Array, filter: WaveletFilterName, 
     const t = sigma * spread;
     for (let i = lo; i < hi; i++) if (!(Math.abs(c[i]) > t)) c[i] = 0;
   }
-  return periodicIdwt(c, h, levels).slice(0, n);
+  return periodicIdwt(c, h, levels, n).slice(0, n);
 }
 
 /** The mean of the fits of y started at rows 0 .. starts - 1, each row over the fits that cover it. Unchecked. */

@@ -41,8 +41,13 @@ function analysisStep(x: Float64Array, N: number, h: readonly number[], a: Float
   }
 }
 
-/** One synthesis step: out[0..N) from a and d (the transpose of analysisStep). Unchecked. */
-function synthesisStep(a: Float64Array, ao: number, d: Float64Array, dO: number, N: number, h: readonly number[], out: Float64Array): void {
+/**
+ * One synthesis step: out[0..N) from a and d (the transpose of analysisStep), summed over the
+ * coefficients k < first and k >= last only (all of them by default), in increasing k: an output
+ * all of whose coefficients are in those ranges gets the same sum, in the same order, as from all
+ * of them. Unchecked.
+ */
+function synthesisStep(a: Float64Array, ao: number, d: Float64Array, dO: number, N: number, h: readonly number[], out: Float64Array, first = N >> 1, last = N >> 1): void {
   const L = h.length;
   const half = N >> 1;
   const off = 1 - (L >> 1);
@@ -50,6 +55,7 @@ function synthesisStep(a: Float64Array, ao: number, d: Float64Array, dO: number,
   for (let q = 0; q < L; q++) g[q] = (q % 2 === 0 ? 1 : -1) * h[L - 1 - q];
   out.fill(0, 0, N);
   for (let k = 0; k < half; k++) {
+    if (k === first && last > first) k = last;
     const b = 2 * k + off;
     const ak = a[ao + k], dk = d[dO + k];
     if (b >= 0 && b + L <= N) {
@@ -97,24 +103,46 @@ export function periodicDwt(x: Float64Array, h: readonly number[], levels: numbe
 /**
  * Inverse of {@link periodicDwt}.
  *
+ * With `keep` < N only the first `keep` values are computed (the others are left unspecified): the
+ * reflected boundary transforms the series with its mirror image appended and keeps the first
+ * half. Output i of a level depends on the coefficients k with 2k + 1 - L/2 in (i - L, i], modulo
+ * the level's length, so the values 0 .. p - 1 of a level, and its last r values, need only the
+ * first ceil(p / 2) + L / 2 and the last ceil(r / 2) + L / 2 values of the coarser level (the wrap
+ * of the periodic boundary reaches from each end to the other); level by level from the finest the
+ * needed ranges stay about half, and each level sums only over them, in the same order as over
+ * all coefficients, so the values kept are bit for bit those of the whole inverse.
+ *
  * @param c - coefficients [a_J | d_J | ... | d_1], length N divisible by 2^levels
  * @param h - scaling filter
  * @param levels - J
- * @returns the signal
+ * @param keep - how many leading values are wanted (default N)
+ * @returns the signal (its first `keep` values)
  * @example
  * ```ts
  * periodicIdwt(periodicDwt(x, h, 3), h, 3); // x, to rounding
  * ```
  * Unchecked.
  */
-export function periodicIdwt(c: Float64Array, h: readonly number[], levels: number): Float64Array {
+export function periodicIdwt(c: Float64Array, h: readonly number[], levels: number, keep = c.length): Float64Array {
   const N = c.length;
+  const L = h.length;
+  // needed values per level, finest (t = 0, length N) to coarsest: the first P[t] and the last R[t]
+  const P = new Int32Array(levels + 1), R = new Int32Array(levels + 1);
+  P[0] = Math.min(N, Math.max(0, keep));
+  for (let t = 0, n = N; t < levels; t++, n >>= 1) {
+    const half = n >> 1;
+    P[t + 1] = Math.min(half, ((P[t] + 1) >> 1) + (L >> 1));
+    R[t + 1] = Math.min(half, ((R[t] + 1) >> 1) + (L >> 1));
+  }
   let len = N >> levels;
   const a = new Float64Array(N);
   a.set(c.subarray(0, len), 0);
   const out = new Float64Array(N);
   for (let j = 0; j < levels; j++) {
-    synthesisStep(a, 0, c, len, 2 * len, h, out);
+    // coefficients of this step: the needed values of the coarser level (t = levels - j)
+    const t = levels - j;
+    const first = P[t], last = Math.max(first, len - R[t]);
+    synthesisStep(a, 0, c, len, 2 * len, h, out, first, last);
     len *= 2;
     a.set(out.subarray(0, len), 0);
   }

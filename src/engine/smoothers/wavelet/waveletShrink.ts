@@ -207,7 +207,8 @@ function shrinkAt(p: PreparedShrink, fixed: number[] | null): WaveletShrinkResul
           if (s === 0 && c[i] !== 0) kept[q]++;
         }
       }
-      const r = periodicIdwt(c, h, levels);
+      // only the values read below: the first n + s (the reflected boundary's transform is twice as long)
+      const r = periodicIdwt(c, h, levels, Math.min(M, n + s));
       const out = outs[q];
       for (let i = 0; i < n; i++) out[i] += r[(i + s) % M];
     }
