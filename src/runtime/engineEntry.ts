@@ -57,12 +57,15 @@ export const WARM_UP_POINTS = 200;
  * points 2.9 to 3.1 s, 1.8 to 2.0 s after it. The compilation is paid either way, but while the worker
  * waits for work (the pane loads its workers when it opens) instead of while the analyst waits for a
  * fit. Any error is swallowed: a warm-up never stops a worker from serving.
+ *
+ * @returns true when the choice ran to its end, false when it failed (the worker serves all the same)
  */
-export function warmUp(): void {
+export function warmUp(): boolean {
   try {
-    runAnalysis(warmUpRequest());
+    return runAnalysis(warmUpRequest()).comparison !== undefined;
   } catch {
     // a warm-up that fails changes nothing: the worker serves as it would have
+    return false;
   }
 }
 

@@ -14,11 +14,11 @@ describe('warmUp', () => {
     expect((a.y as number[]).every(Number.isFinite)).toBe(true);
   });
 
-  test('its automatic choice compares every candidate (so every kernel runs), and warmUp returns without throwing', () => {
+  test('its automatic choice compares every candidate (so every kernel runs), and warmUp runs it to its end', () => {
     const r = runAnalysis(warmUpRequest());
     const c = r.comparison!;
     expect(c.rows.length).toBeGreaterThanOrEqual(9);
     expect(c.rows.filter((row) => row.skipped)).toEqual([]);
-    expect(() => warmUp()).not.toThrow();
+    expect(warmUp()).toBe(true);
   }, 60000);
 });

@@ -199,6 +199,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     // values on the support
     // piece by piece (piece l holds the points rho_l < i <= rho_{l+1}), Horner's rule written out
     // for k = 3 and 2: on long series most of a build's time is spent here
+    // largest |B_e| and the value where it is reached (its sign)
     let vmax = 0, vtop = 0;
     for (let l = 0; l <= k; l++) {
       const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
@@ -234,8 +235,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     }
     if (!(vmax > 0) || !Number.isFinite(vmax)) return null;
     // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary)
-    vmax = vtop;
-    const iv = 1 / vmax;
+    const scale = vtop, iv = 1 / scale;
     for (let i = i0; i <= i1; i++) values[i * wd + e - first[i]] *= iv;
     // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
     for (let q = 0; q <= k + 1; q++) {
@@ -243,7 +243,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       if (!(r >= 0 && r < m)) continue;
       const after = q <= k ? coef[q * (k + 1) + k] / Math.pow(half[q], k) : 0;
       const before = q >= 1 ? coef[(q - 1) * (k + 1) + k] / Math.pow(half[q - 1], k) : 0;
-      penalty[e * (k + 2) + q] = (fact * (after - before)) / vmax;
+      penalty[e * (k + 2) + q] = (fact * (after - before)) / scale;
     }
   }
   if (cache) {
@@ -290,14 +290,7 @@ function bandedNullVector(M: Float64Array, rows: number, cols: number, k: number
       for (let j = c; j < cEnd; j++) M[r * cols + j] -= f * M[c * cols + j];
     }
   }
-  z[rows] = 1;
-  for (let c = rows - 1; c >= 0; c--) {
-    let s = -M[c * cols + rows];
-    for (let j = c + 1; j < rows; j++) s -= M[c * cols + j] * z[j];
-    z[c] = s / M[c * cols + c];
-  }
-  for (let j = 0; j < cols; j++) { if (!Number.isFinite(z[j])) return false; out[j] = z[j]; }
-  return true;
+  return withLastFree(M, rows, cols, z, out);
 }
 
 /**
@@ -324,12 +317,21 @@ function nullVector(M: Float64Array, rows: number, cols: number, out: Float64Arr
     }
   }
   // columns 0..rows-1 (permuted) are pivots; the last one is free
+  return withLastFree(M, rows, cols, z, out, perm);
+}
+
+/**
+ * The null vector of an eliminated system (upper triangular in its first `rows` columns) with its
+ * last column set to 1, by back substitution into z, written to out (entry j at perm[j] when the
+ * columns were permuted). False when it is not finite. Unchecked.
+ */
+function withLastFree(M: Float64Array, rows: number, cols: number, z: Float64Array, out: Float64Array, perm?: Int32Array): boolean {
   z[rows] = 1;
   for (let c = rows - 1; c >= 0; c--) {
     let s = -M[c * cols + rows];
     for (let j = c + 1; j < rows; j++) s -= M[c * cols + j] * z[j];
     z[c] = s / M[c * cols + c];
   }
-  for (let j = 0; j < cols; j++) { out[perm[j]] = z[j]; if (!Number.isFinite(z[j])) return false; }
+  for (let j = 0; j < cols; j++) { if (!Number.isFinite(z[j])) return false; out[perm ? perm[j] : j] = z[j]; }
   return true;
 }

@@ -178,9 +178,9 @@ export function noComparisonReason(n: number, folds: number): string | undefined
  * penalty of their grid and the skipped ones beside the lowest score (`fillNearBest` of trendPath):
  * the same lowest grid score wherever the curve has one minimum (on 36 seeded cross-validations at
  * 2,000 and 5,000 points, two shapes, three seeds, orders 1 to 3: in every one), in 7 to 20% less time
- * for orders 2 and 3 at 5,000 points. Not on shorter series: there a cross-validation curve can dip at a penalty between two
- * others (the demo's 156 weeks, order 3: its lowest score, at a skipped penalty, was missed, and the
- * choice moved from order 3 to the spline).
+ * for orders 2 and 3 at 5,000 points. Not on shorter series: there a cross-validation curve can dip
+ * at a penalty between two others (the demo's 156 weeks, order 3: its lowest score, at a skipped
+ * penalty, was missed, and the choice moved from order 3 to the spline).
  */
 export const AUTO_SEARCH_POINTS = 15;
 

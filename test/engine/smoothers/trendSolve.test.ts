@@ -290,6 +290,20 @@ describe('trendPath, fold fits switching to the interior point', () => {
   });
 });
 
+/** An invented 2,000-point series: the automatic choice's kinks-and-wave shape with noise sd 0.3. */
+function kinksSeries(seed: number) {
+  const rn = seededNormal(seed);
+  const n = 2000;
+  const x = Array.from({ length: n }, (_, i) => i + 1);
+  return seriesFromArrays(x, x.map((t) => kinksAndWave(t / n) + 0.3 * rn()));
+}
+
+/** 5-fold cross-validation over 15 penalties, as the automatic choice runs it from 2,000 points. */
+const cvSettings = (k: number) => ({ order: k, gridSize: 15, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 });
+
+/** Position of the lowest cross-validation score of a path. */
+const argmin = (p: ReturnType<typeof trendPath>) => p.points.reduce((b, q, j) => (q.cv < p.points[b].cv ? j : b), 0);
+
 describe('trendPath, fold fits at the looser gap of CV_TOLERANCE', () => {
   // What the choice depends on is the minimum and the scores near it (the one-standard-error rule): a score within 5
   // standard errors of the minimum may move by at most 0.05 of its standard error (measured: at most 0.044 on the
@@ -297,17 +311,11 @@ describe('trendPath, fold fits at the looser gap of CV_TOLERANCE', () => {
   // come near being chosen (measured: up to 0.24 of a standard error, at the polynomial end of the path, about 48
   // standard errors above the minimum)
   test.each([1, 2, 3])('order %i: scores near the minimum within 0.05 of their standard error of the scores with fold fits at 1e-5, the others within a tenth of their distance from it, and the minimum at the same df', (k) => {
-    // an invented 2,000-point series: the automatic choice's kinks-and-wave shape with noise sd 0.3
-    const rn = seededNormal(150 + k);
-    const n = 2000;
-    const x = Array.from({ length: n }, (_, i) => i + 1);
-    const y = x.map((t) => kinksAndWave(t / n) + 0.3 * rn());
-    const series = seriesFromArrays(x, y);
-    const settings = { order: k, gridSize: 15, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 };
+    const series = kinksSeries(150 + k);
+    const settings = cvSettings(k);
     expect(CV_TOLERANCE).toBe(1e-3);
     const loose = trendPath(series, settings);
     const tight = trendPath(series, { ...settings, foldTolerance: 1e-5 });
-    const argmin = (p: typeof loose) => p.points.reduce((b, q, j) => (q.cv < p.points[b].cv ? j : b), 0);
     const best = tight.points[argmin(tight)];
     for (let j = 0; j < tight.points.length; j++) {
       const t = tight.points[j];
@@ -320,19 +328,13 @@ describe('trendPath, fold fits at the looser gap of CV_TOLERANCE', () => {
   }, 120000);
 });
 
-
 describe('trendPath, filling the grid near the best score (fillNearBest)', () => {
   test.each([1, 2, 3])('order %i: every other grid penalty, then the skipped ones beside the lowest score; the same lowest score and df as the whole grid, the shared scores within 0.05 of their standard error', (k) => {
-    // an invented 2,000-point series: the automatic choice's kinks-and-wave shape with noise sd 0.3; one minimum
-    const rn = seededNormal(160 + k);
-    const n = 2000;
-    const x = Array.from({ length: n }, (_, i) => i + 1);
-    const y = x.map((t) => kinksAndWave(t / n) + 0.3 * rn());
-    const series = seriesFromArrays(x, y);
-    const settings = { order: k, gridSize: 15, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 };
+    // its curve has one minimum
+    const series = kinksSeries(160 + k);
+    const settings = cvSettings(k);
     const whole = trendPath(series, settings);
     const filled = trendPath(series, { ...settings, fillNearBest: true });
-    const argmin = (p: typeof whole) => p.points.reduce((b, q, j) => (q.cv < p.points[b].cv ? j : b), 0);
     // the solved penalties: the whole grid's even positions (from the largest; both ends), plus at most two
     const index = filled.points.map((p) => whole.points.findIndex((q) => Math.abs(q.penalty / p.penalty - 1) < 1e-12));
     expect(index.every((i) => i >= 0)).toBe(true);
