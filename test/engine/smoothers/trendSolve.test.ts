@@ -4,7 +4,7 @@
  * interior point. Optimality is checked by the dense KKT checker of trendKkt.ts.
  */
 import * as solveTrendModule from '../../../src/engine/smoothers/trend/solveTrend';
-import { solveTrend, seedOf, TrendProblem, WARM_RULE } from '../../../src/engine/smoothers/trend/solveTrend';
+import { solveTrend, seedOf, TrendProblem, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep } from '../../../src/engine/smoothers/trend/solveTrend';
 import { trendPath, CV_TOLERANCE } from '../../../src/engine/smoothers/trend/trendPath';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
@@ -178,6 +178,39 @@ describe('solveTrend, orders 2 and 3 warm-started', () => {
       warm = r;
     }
     expect(warmStarted).toBeGreaterThan(3);
+  });
+
+  test.each([2, 3])('order %i over a halved step: from the fit at a penalty 16 times larger the halved warm start ends at the optimum, its gap certified', (k) => {
+    const p = problem(300, k, 131 + k);
+    const lmax = trendLambdaMax(p.x, p.y, p.w, k);
+    const warm = solveTrend(p, 4e-3 * lmax, { tolerance: 1e-8, maxIterations: 200 });
+    const lam = 2.5e-4 * lmax;
+    const r = solveTrendOverHalvedStep(p, lam, { tolerance: 1e-8, maxIterations: 200, warm });
+    expect(r).toBeDefined();
+    expect(r!.status.stoppingRule).toBe(HALVED_RULE);
+    expect(r!.status.converged).toBe(true);
+    expect(r!.status.achieved).toBeLessThanOrEqual(1e-8);
+    const kkt = checkTrendKkt(p.x, p.y, p.w, r!.b, k, lam);
+    expect(kkt.boxExcess).toBeLessThan(1e-6);
+    expect(kkt.signError).toBeLessThan(1e-6);
+    expect(kkt.stationarity).toBeLessThan(1e-8);
+    // the same fit as a cold solve: the objective is strictly convex in b
+    const cold = solveTrend(p, lam, { tolerance: 1e-8, maxIterations: 200 });
+    let diff = 0, scale = 0;
+    for (let i = 0; i < cold.b.length; i++) { diff = Math.max(diff, Math.abs(r!.b[i] - cold.b[i])); scale = Math.max(scale, Math.abs(cold.b[i])); }
+    expect(diff).toBeLessThan(1e-6 * scale);
+    // the work of both halves is counted
+    expect(r!.status.iterations).toBeGreaterThanOrEqual(2);
+  });
+
+  test('the halved step needs a converged fit at a larger penalty', () => {
+    const p = problem(200, 3, 141);
+    const lmax = trendLambdaMax(p.x, p.y, p.w, 3);
+    const smaller = solveTrend(p, 1e-4 * lmax, { tolerance: 1e-8, maxIterations: 200 });
+    expect(solveTrendOverHalvedStep(p, 1e-3 * lmax, { tolerance: 1e-8, maxIterations: 200, warm: smaller })).toBeUndefined();
+    expect(solveTrendOverHalvedStep(p, 1e-3 * lmax, { tolerance: 1e-8, maxIterations: 200 })).toBeUndefined();
+    const stalled = { ...smaller, lambda: 1e-2 * lmax, status: { ...smaller.status, converged: false } };
+    expect(solveTrendOverHalvedStep(p, 1e-3 * lmax, { tolerance: 1e-8, maxIterations: 200, warm: stalled })).toBeUndefined();
   });
 
   test.each([2, 3])('order %i with a guess of the knots (a fold): the gap accepted at the fold tolerance bounds the distance to the optimum', (k) => {
