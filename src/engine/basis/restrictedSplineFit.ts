@@ -1,6 +1,7 @@
 import { bandedCholesky, bandedCholeskySolve } from '../linalg/bandedCholesky';
 import { discreteBSplines, BasisCache } from './discreteBSplines';
 import { restrictedLinearFit } from './restrictedLinearFit';
+import type { RestrictedSystem } from './restrictedSystem';
 
 /** Steps of iterative refinement in {@link restrictedSplineFit} (each one pass over the points). */
 export const REFINEMENT_STEPS = 2;
@@ -23,17 +24,19 @@ export const REFINEMENT_STEPS = 2;
  * @param sA - their signs
  * @param cache - optional basis cache shared by solves on the same x and k ({@link BasisCache})
  * @param out - optional array of length n that receives the fitted values (then returned as `b`)
+ * @param keep - optional: for k = 2 and 3, receives the normal equations as a {@link RestrictedSystem}
+ *   (copies), from which the same problem with knots removed is solved without the data
  * @returns fitted values and (D b) on the rows of A, or null when the system is singular
  * Unchecked.
  */
-export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, out?: Float64Array): { b: Float64Array; dA: Float64Array } | null {
+export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, out?: Float64Array, keep?: { system?: RestrictedSystem }): { b: Float64Array; dA: Float64Array } | null {
   // order 1: hat functions on the kinks, written out ({@link restrictedLinearFit})
   if (k === 1) return restrictedLinearFit(x, y, w, lambda, rowsA, sA, out);
-  return restrictedSplineFitGeneral(x, y, w, k, lambda, rowsA, sA, cache, out);
+  return restrictedSplineFitGeneral(x, y, w, k, lambda, rowsA, sA, cache, out, keep);
 }
 
 /** {@link restrictedSplineFit} through the discrete B-spline basis, for any order 1..3 (the reference for the order-1 kernel). Unchecked. */
-export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, out?: Float64Array): { b: Float64Array; dA: Float64Array } | null {
+export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, out?: Float64Array, keep?: { system?: RestrictedSystem }): { b: Float64Array; dA: Float64Array } | null {
   const n = x.length;
   const B = discreteBSplines(x, k, rowsA, cache);
   if (!B) return null;
@@ -78,8 +81,9 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
       }
     }
   }
-  // penalty term: lambda sum_{r in A} s_r (D B_e)_r; knot j of A is knot l of the windows e = j + k + 1 - l
   const K = rowsA.length;
+  if (keep) keep.system = { k, K, p, gram: Float64Array.from(band), rhs: Float64Array.from(rhs), penalty: Float64Array.from(penalty) };
+  // penalty term: lambda sum_{r in A} s_r (D B_e)_r; knot j of A is knot l of the windows e = j + k + 1 - l
   for (let j = 0; j < K; j++) {
     const ls = lambda * sA[j];
     for (let l = 0; l <= k + 1; l++) {

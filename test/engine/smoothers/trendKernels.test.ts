@@ -6,6 +6,10 @@ import { dualFromResidual } from '../../../src/engine/linalg/dualFromResidual';
 import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/engine/smoothers/trend/regressionSplineRefit';
 import { differenceTranspose } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
+import * as restrictedSplineFitModule from '../../../src/engine/basis/restrictedSplineFit';
+import { polishTrend } from '../../../src/engine/smoothers/trend/polishTrend';
+import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
+import { checkTrendKkt } from './trendKkt';
 
 describe('restrictedSplineFit (order 1)', () => {
   test('matches the dense solve in the hinge basis 1, x, (x - knot)_+', () => {
@@ -87,5 +91,38 @@ describe('regressionSplineRefit', () => {
     const r = regressionSplineRefit(x, y, new Float64Array(50).fill(1), 3, [3, 5]);
     for (let i = 0; i < 50; i++) expect(r.fitted[i]).toBeCloseTo(y[i], 8);
     expect(evaluateRegressionSpline(r.spline, Float64Array.of(4.05))[0]).toBeCloseTo(f(4.05), 8);
+  });
+});
+
+describe('polishTrend', () => {
+  test.each([2, 3])('order %i: rounds that only drop knots are solved from the kept normal equations (fewer solves from the data than rounds) and the answer meets the KKT conditions', (k) => {
+    // x in [0, 1] as the refinement works; a start with far too many knots of alternating signs, so
+    // that most rounds drop a knot
+    const n = 150;
+    const rn = seededNormal(90 + k);
+    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      x[i] = (i + 0.4 * Math.sin(i)) / (n - 1 + 0.4 * Math.sin(n - 1));
+      y[i] = Math.sin(6 * x[i]) + (x[i] > 0.5 ? 1.5 * (x[i] - 0.5) : 0) + 0.1 * rn();
+      w[i] = 1 + (i % 2);
+    }
+    const lambda = 1e-3 * trendLambdaMax(x, y, w, k);
+    const m = n - k - 1;
+    const u0 = new Float64Array(m);
+    const initial: number[] = [];
+    for (let r = 3, s = 1; r < m - 3; r += 7, s = -s) { initial.push(r); u0[r] = s * lambda; }
+    const spy = jest.spyOn(restrictedSplineFitModule, 'restrictedSplineFit');
+    try {
+      const pol = polishTrend(x, y, w, k, lambda, u0, 400, undefined, initial);
+      expect(pol.ok).toBe(true);
+      expect(pol.achieved).toBeLessThanOrEqual(1e-10);
+      expect(spy.mock.calls.length).toBeGreaterThan(0);
+      expect(spy.mock.calls.length).toBeLessThan(pol.rounds);
+      const kkt = checkTrendKkt(x, y, w, pol.b, k, lambda);
+      expect(kkt.boxExcess).toBeLessThan(1e-6);
+      expect(kkt.signError).toBeLessThan(1e-6);
+    } finally {
+      spy.mockRestore();
+    }
   });
 });
