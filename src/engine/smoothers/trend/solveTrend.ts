@@ -182,12 +182,15 @@ const WARM_NEWTON_ROUNDS = 30;
  * Orders 2 and 3: those rounds stop once the fewest rows changed in a round has not improved for
  * this many rounds. Measured on a 5 x 30 cross-validation at n = 1e4 before knots slid: 8 rounds
  * gave 18% fewer restricted solves for order 2 and 1% fewer for order 3 than no limit (4 or 12 did
- * worse). With sliding knots, order 3 does better with more patience: on two seeded series, 24 rounds
- * took 18% and 16% fewer restricted solves than 8 (11% less time in them on both), no limit 22% and
- * 20% fewer but no less time (larger active sets); order 2 stays at 8 (24 saved 5 to 9% of the
- * solves but not their time).
+ * worse). With sliding knots, order 3 did better with more patience (24 rounds: 16 to 18% fewer
+ * restricted solves than 8 on two seeded series). Since the monotone refinement that takes over
+ * solves its rounds that only drop knots without a pass over the data ({@link polishTrend}), handing
+ * over sooner pays again: on the `trend-cv` series and two more seeds at 1e4 (5 x 30, two runs each),
+ * order 3's cross-validation took 9.4 to 9.8 s in all with 8 against 11.4 to 11.7 s with 24 (4: 9.5
+ * to 9.8 s; 2 moved one series' minimum by a df), and order 2's 6.6 s with 4 against 6.9 to 7.0 s
+ * with 8 (2: 6.3 to 6.6 s); every minimum stayed at the same df.
  */
-const WARM_NEWTON_PATIENCE = [Infinity, Infinity, 8, 24];
+const WARM_NEWTON_PATIENCE = [Infinity, Infinity, 4, 8];
 
 /** Round limit of that refinement for order 1. */
 const WARM_POLISH_ROUNDS = 60;
