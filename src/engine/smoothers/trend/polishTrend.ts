@@ -106,33 +106,36 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     kept = sol && keep.system ? { rows: rowsA, system: keep.system } : undefined;
     return sol;
   };
-  // D b_new on the rows (exact zeros elsewhere), and how far the step from b_cur towards it may go
-  // before the first active row changes sign (tau), with that row (drop; -1 for a full step)
+  // how far the step from b_cur towards the round's solution (D b on the rows: dA) may go before the
+  // first active row changes sign (tau), with that row (drop; -1 for a full step)
   const signStep = (rowsA: number[], sA: number[], dA: Float64Array) => {
-    const dnew = new Float64Array(m);
-    for (let j = 0; j < rowsA.length; j++) dnew[rowsA[j]] = dA[j];
     let dmax = 0;
-    for (const r of rowsA) dmax = Math.max(dmax, Math.abs(dnew[r]), Math.abs(dcur[r]));
+    for (let j = 0; j < rowsA.length; j++) dmax = Math.max(dmax, Math.abs(dA[j]), Math.abs(dcur[rowsA[j]]));
     let tau = 1, drop = -1;
     for (let j = 0; j < rowsA.length; j++) {
-      const r = rowsA[j], sg = sA[j];
-      const a0 = sg * dcur[r], a1 = sg * dnew[r];
+      const sg = sA[j];
+      const a0 = sg * dcur[rowsA[j]], a1 = sg * dA[j];
       if (a1 < -1e-12 * dmax) {
         const t = a0 > 0 ? a0 / (a0 - a1) : 0;
-        if (t < tau) { tau = t; drop = r; }
+        if (t < tau) { tau = t; drop = rowsA[j]; }
       }
     }
-    return { dnew, dmax, tau, drop };
+    return { dmax, tau, drop };
   };
+  // after a round that only dropped knots, the next active set is the last one without them (no scan of the rows)
+  let shrunk: { rows: number[]; signs: number[] } | undefined;
   let rounds = 0;
   for (; rounds < maxRounds; rounds++) {
     const rowsA: number[] = [], sA: number[] = [];
+    if (shrunk) {
+      for (let j = 0; j < shrunk.rows.length; j++) if (sgn[shrunk.rows[j]] !== 0) { rowsA.push(shrunk.rows[j]); sA.push(shrunk.signs[j]); }
+    } else {
+      for (let r = 0; r < m; r++) if (sgn[r] !== 0) { rowsA.push(r); sA.push(sgn[r]); }
+    }
+    shrunk = undefined;
     let h1 = 0x811c9dc5 | 0, h2 = 17;
-    for (let r = 0; r < m; r++) {
-      if (sgn[r] === 0) continue;
-      rowsA.push(r);
-      sA.push(sgn[r]);
-      const v = 2 * r + (sgn[r] > 0 ? 1 : 0);
+    for (let j = 0; j < rowsA.length; j++) {
+      const v = 2 * rowsA[j] + (sA[j] > 0 ? 1 : 0);
       h1 = Math.imul(h1 ^ v, 0x01000193);
       h2 = (Math.imul(h2, 31) + v) | 0;
     }
@@ -158,29 +161,32 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       // no sign broke: the round's fit from the data (its b and its refined (D b)_A), checked again
       sol = fromData(rowsA, sA);
       if (!sol) break;
-      step = signStep(rowsA, sA, sol.dA);
+      dA = sol.dA;
+      step = signStep(rowsA, sA, dA);
     }
-    const { dnew, dmax, tau, drop } = step;
+    const { dmax, tau, drop } = step;
     if (drop >= 0) {
-      // a new array: the last certified state may still refer to the old one. Only D b is carried
-      // along the steps: b itself is needed only at a full step, where it is the round's fit
-      const nd = new Float64Array(m);
-      for (let r = 0; r < m; r++) nd[r] = dcur[r] + tau * (dnew[r] - dcur[r]);
-      dcur = nd;
+      // only D b on the active rows is carried along the steps (in place: the rows off this set are
+      // read again only after the next full step, which replaces dcur); b itself is needed only at a
+      // full step, where it is the round's fit
+      for (let j = 0; j < rowsA.length; j++) { const r = rowsA[j]; dcur[r] += tau * (dA[j] - dcur[r]); }
       sgn[drop] = 0;
       if (tau <= 1e-12) {
         // a zero step: every row that is at zero now and would change sign leaves together
-        for (const r of rowsA) {
-          const sg = sgn[r];
+        for (let j = 0; j < rowsA.length; j++) {
+          const r = rowsA[j], sg = sgn[r];
           if (sg === 0) continue;
-          if (sg * dnew[r] < -1e-12 * dmax && Math.abs(dcur[r]) <= 1e-12 * dmax) sgn[r] = 0;
+          if (sg * dA[j] < -1e-12 * dmax && Math.abs(dcur[r]) <= 1e-12 * dmax) sgn[r] = 0;
         }
       }
+      shrunk = { rows: rowsA, signs: sA };
       continue;
     }
-    const bnew = sol!.b;
-    bcur = bnew;
-    dcur = dnew;
+    // a full step: D b is (D b)_A on A and exactly zero elsewhere (the certified state keeps its own copy)
+    const dnew = new Float64Array(m);
+    for (let j = 0; j < rowsA.length; j++) dnew[rowsA[j]] = dA[j];
+    bcur = sol!.b;
+    dcur = Float64Array.from(dnew);
     const sums = residualSums(y, w, bcur, g);
     u = dualFromResidual(x, k + 1, g, work).u;
     last = { b: bcur, u, ...sums, db: dnew, rows: rowsA, dmax };
