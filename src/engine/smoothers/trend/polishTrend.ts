@@ -85,9 +85,10 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     sgn[best] = u0[best] > 0 ? 1 : -1;
     r = e;
   }
-  // a feasible start in the span of any active set: the weighted polynomial fit (D b = 0)
+  // a feasible start in the span of any active set: the weighted polynomial fit (D b = 0). The
+  // iterate's fitted values are held only at full steps (the partial steps carry D b alone)
   let bcur: Float64Array = poly ? Float64Array.from(poly) : weightedPolynomialFit(x, y, w, k);
-  // D bcur, kept up to date along the steps (zero for the polynomial start)
+  // D of the iterate on the active rows, kept up to date along the steps (zero for the polynomial start)
   let dcur: Float64Array = new Float64Array(m);
   let u: Float64Array = new Float64Array(m);
   // active sets met so far, by two 32-bit hashes of the signed rows and their count (a repeat

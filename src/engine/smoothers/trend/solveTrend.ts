@@ -245,7 +245,7 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
  * point, the refinements after it and the previous knots failed too, and the continuation from
  * lambda_max took 2,215 restricted solves there. One halving certified it instead, in 1,184 rounds
  * all told for that point (the three paths: 8,447 restricted solves instead of 9,778, 12% less
- * time). The other two points were certified before this fallback and did not change.
+ * time, measured before the refinement's drop rounds became cheap). The other two points were certified before this fallback and did not change.
  */
 const HALVINGS = 2;
 
