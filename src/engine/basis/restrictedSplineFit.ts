@@ -1,7 +1,7 @@
 import { bandedCholesky, bandedCholeskySolve } from '../linalg/bandedCholesky';
 import { discreteBSplines, BasisCache } from './discreteBSplines';
 import { restrictedLinearFit } from './restrictedLinearFit';
-import type { RestrictedSystem } from './restrictedSystem';
+import { RestrictedSystem, subtractPenalty, knotDifferences } from './restrictedSystem';
 
 /** Steps of iterative refinement in {@link restrictedSplineFit} (each one pass over the points). */
 export const REFINEMENT_STEPS = 2;
@@ -83,14 +83,8 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
   }
   const K = rowsA.length;
   if (keep) keep.system = { k, K, p, gram: Float64Array.from(band), rhs: Float64Array.from(rhs), penalty: Float64Array.from(penalty) };
-  // penalty term: lambda sum_{r in A} s_r (D B_e)_r; knot j of A is knot l of the windows e = j + k + 1 - l
-  for (let j = 0; j < K; j++) {
-    const ls = lambda * sA[j];
-    for (let l = 0; l <= k + 1; l++) {
-      const e = j + k + 1 - l;
-      if (e >= 0 && e < p) rhs[e] -= ls * penalty[e * (k + 2) + l];
-    }
-  }
+  // penalty term: lambda sum_{r in A} s_r (D B_e)_r
+  subtractPenalty(rhs, penalty, k, p, lambda, sA);
   if (bandedCholesky(band, p, k) >= 0) return null;
   const c = Float64Array.from(rhs);
   for (let e = p; e < p + k; e++) c[e] = 0;
@@ -126,13 +120,7 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
         for (let a = 0; a <= k; a++) res[e0 + a] += values[o + a] * gi;
       }
     }
-    for (let j = 0; j < K; j++) {
-      const ls = lambda * sA[j];
-      for (let l = 0; l <= k + 1; l++) {
-        const e = j + k + 1 - l;
-        if (e >= 0 && e < p) res[e] -= ls * penalty[e * (k + 2) + l];
-      }
-    }
+    subtractPenalty(res, penalty, k, p, lambda, sA);
     bandedCholeskySolve(band, p, k, res);
     for (let e = 0; e < p; e++) c[e] += res[e];
   }
@@ -151,14 +139,6 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
       b[i] = s;
     }
   }
-  const dA = new Float64Array(K);
-  for (let j = 0; j < K; j++) {
-    let s = 0;
-    for (let l = 0; l <= k + 1; l++) {
-      const e = j + k + 1 - l;
-      if (e >= 0 && e < p) s += penalty[e * (k + 2) + l] * c[e];
-    }
-    dA[j] = s;
-  }
+  const dA = knotDifferences(penalty, c, k, p, K);
   return { b, dA };
 }

@@ -103,19 +103,34 @@ export function withoutKnot(s: RestrictedSystem, j: number): RestrictedSystem | 
  */
 export function solveRestrictedSystem(s: RestrictedSystem, lambda: number, signs: ArrayLike<number>): Float64Array | null {
   const { k, K, p, penalty } = s;
-  const q = k + 2;
   const band = Float64Array.from(s.gram);
   const c = Float64Array.from(s.rhs);
-  for (let j = 0; j < K; j++) {
-    const ls = lambda * signs[j];
-    for (let l = 0; l < q; l++) {
-      const e = j + k + 1 - l;
-      if (e >= 0 && e < p) c[e] -= ls * penalty[e * q + l];
-    }
-  }
+  subtractPenalty(c, penalty, k, p, lambda, signs);
   if (bandedCholesky(band, p, k) >= 0) return null;
   for (let e = p; e < c.length; e++) c[e] = 0;
   bandedCholeskySolve(band, p, k, c);
+  return knotDifferences(penalty, c, k, p, K);
+}
+
+/**
+ * v -= lambda (D_A B)^T s: the penalty's side of the restricted normal equations, in place. Knot j
+ * of A is knot l of the windows e = j + k + 1 - l (e in 0..p-1), whose (D B_e) there is
+ * penalty[e (k + 2) + l]. Unchecked.
+ */
+export function subtractPenalty(v: Float64Array, penalty: Float64Array, k: number, p: number, lambda: number, signs: ArrayLike<number>): void {
+  const q = k + 2;
+  for (let j = 0; j < signs.length; j++) {
+    const ls = lambda * signs[j];
+    for (let l = 0; l < q; l++) {
+      const e = j + k + 1 - l;
+      if (e >= 0 && e < p) v[e] -= ls * penalty[e * q + l];
+    }
+  }
+}
+
+/** (D b)_A = (D_A B) c on the K knots, from the coefficients c (see {@link subtractPenalty}). Unchecked. */
+export function knotDifferences(penalty: Float64Array, c: Float64Array, k: number, p: number, K: number): Float64Array {
+  const q = k + 2;
   const dA = new Float64Array(K);
   for (let j = 0; j < K; j++) {
     let v = 0;

@@ -18,6 +18,11 @@ function data(n: number, seed: number) {
 
 const maxAbs = (v: ArrayLike<number>) => Array.from(v).reduce((m, t) => Math.max(m, Math.abs(t)), 0);
 
+// Tolerances: the kept system is solved without the refinement from the data, so it agrees with a
+// solve from the data to the rounding of the assembled Gram matrix times its condition. Measured on
+// these designs: at most 3e-14 (order 2) and 2.5e-12 (order 3) of the largest |D b| after a removal,
+// 1e-14 with none. The bounds below leave a factor of about 40 to 100.
+
 describe('withoutKnot and solveRestrictedSystem', () => {
   test.each([2, 3])('order %i: removing any one knot from the kept system gives the (D b) on the knots of a solve from the data without it', (k) => {
     const { x, y, w } = data(400, 11 + k);
@@ -34,7 +39,7 @@ describe('withoutKnot and solveRestrictedSystem', () => {
       const reduced = withoutKnot(sys, j)!;
       const dA = solveRestrictedSystem(reduced, lambda, s2)!;
       const scale = maxAbs(direct.dA);
-      for (let i = 0; i < r2.length; i++) expect(Math.abs(dA[i] - direct.dA[i])).toBeLessThan(1e-8 * scale);
+      for (let i = 0; i < r2.length; i++) expect(Math.abs(dA[i] - direct.dA[i])).toBeLessThan(1e-10 * scale);
     }
   });
 
@@ -50,7 +55,7 @@ describe('withoutKnot and solveRestrictedSystem', () => {
     const dA = solveRestrictedSystem(twice, lambda, s2)!;
     const direct = restrictedSplineFit(x, y, w, k, lambda, r2, s2)!;
     const scale = maxAbs(direct.dA);
-    for (let i = 0; i < r2.length; i++) expect(Math.abs(dA[i] - direct.dA[i])).toBeLessThan(1e-8 * scale);
+    for (let i = 0; i < r2.length; i++) expect(Math.abs(dA[i] - direct.dA[i])).toBeLessThan(1e-10 * scale);
   });
 
   test('the kept system solved as it is gives the solve\'s own (D b) on the knots', () => {
@@ -60,6 +65,6 @@ describe('withoutKnot and solveRestrictedSystem', () => {
     const sol = restrictedSplineFit(x, y, w, 3, 2e-7, rows, signs, undefined, undefined, keep)!;
     const dA = solveRestrictedSystem(keep.system!, 2e-7, signs)!;
     const scale = maxAbs(sol.dA);
-    for (let i = 0; i < rows.length; i++) expect(Math.abs(dA[i] - sol.dA[i])).toBeLessThan(1e-9 * scale);
+    for (let i = 0; i < rows.length; i++) expect(Math.abs(dA[i] - sol.dA[i])).toBeLessThan(1e-12 * scale);
   });
 });

@@ -113,7 +113,7 @@ describe('polishTrend', () => {
     for (let r = 3, s = 1; r < m - 3; r += 7, s = -s) { initial.push(r); u0[r] = s * lambda; }
     const spy = jest.spyOn(restrictedSplineFitModule, 'restrictedSplineFit');
     try {
-      const pol = polishTrend(x, y, w, k, lambda, u0, 400, undefined, initial);
+      const pol = polishTrend(x, y, w, k, lambda, u0, 400, initial);
       expect(pol.ok).toBe(true);
       expect(pol.achieved).toBeLessThanOrEqual(1e-10);
       expect(spy.mock.calls.length).toBeGreaterThan(0);

@@ -1,5 +1,4 @@
 import { dualFromResidual } from '../../linalg/dualFromResidual';
-import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
 import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
 import { RestrictedSystem, withoutKnot, solveRestrictedSystem } from '../../basis/restrictedSystem';
 import type { BasisCache } from '../../basis/discreteBSplines';
@@ -68,7 +67,7 @@ export function boxRelative(n: number, k: number): number {
  *
  * Works on x scaled to [0, 1]. `cache` ({@link BasisCache}) keeps the basis between rounds and calls on the same x. Unchecked.
  */
-export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, poly?: Float64Array, initial?: ArrayLike<number>, cache?: BasisCache, stopGap = 0): PolishResult {
+export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, u0: Float64Array, maxRounds = 200, initial?: ArrayLike<number>, cache?: BasisCache, stopGap = 0): PolishResult {
   const n = x.length;
   const m = n - k - 1;
   // the active set: sgn[r] = sign of u on knot row r, 0 off the knots
@@ -85,10 +84,9 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     sgn[best] = u0[best] > 0 ? 1 : -1;
     r = e;
   }
-  // a feasible start in the span of any active set: the weighted polynomial fit (D b = 0). The
-  // iterate's fitted values are held only at full steps (the partial steps carry D b alone)
-  let bcur: Float64Array = poly ? Float64Array.from(poly) : weightedPolynomialFit(x, y, w, k);
-  // D of the iterate on the active rows, kept up to date along the steps (zero for the polynomial start)
+  // the iterate starts at the weighted polynomial fit (D b = 0), feasible in the span of any active
+  // set; only D of the iterate on the active rows is carried along the steps (zero at that start):
+  // its fitted values are needed only at a full step, where they are the round's fit
   let dcur: Float64Array = new Float64Array(m);
   let u: Float64Array = new Float64Array(m);
   // active sets met so far, by two 32-bit hashes of the signed rows and their count (a repeat
@@ -167,9 +165,8 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     }
     const { dmax, tau, drop } = step;
     if (drop >= 0) {
-      // only D b on the active rows is carried along the steps (in place: the rows off this set are
-      // read again only after the next full step, which replaces dcur); b itself is needed only at a
-      // full step, where it is the round's fit
+      // D b on the active rows moves with the step, in place: the rows off this set are read again
+      // only after the next full step, which replaces dcur
       for (let j = 0; j < rowsA.length; j++) { const r = rowsA[j]; dcur[r] += tau * (dA[j] - dcur[r]); }
       sgn[drop] = 0;
       if (tau <= 1e-12) {
@@ -186,11 +183,11 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     // a full step: D b is (D b)_A on A and exactly zero elsewhere (the certified state keeps its own copy)
     const dnew = new Float64Array(m);
     for (let j = 0; j < rowsA.length; j++) dnew[rowsA[j]] = dA[j];
-    bcur = sol!.b;
+    const bnew = sol!.b;
     dcur = Float64Array.from(dnew);
-    const sums = residualSums(y, w, bcur, g);
+    const sums = residualSums(y, w, bnew, g);
     u = dualFromResidual(x, k + 1, g, work).u;
-    last = { b: bcur, u, ...sums, db: dnew, rows: rowsA, dmax };
+    last = { b: bnew, u, ...sums, db: dnew, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
     let added = false;
     for (let r = 0; r < m; ) {
@@ -215,7 +212,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     const c = certify(y, w, lambda, last, false, rounds);
     if (c.ok) return c;
   }
-  return { ok: false, b: bcur, u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
+  return { ok: false, b: new Float64Array(n), u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
 }
 
 /**

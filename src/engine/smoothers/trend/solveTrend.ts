@@ -163,7 +163,7 @@ interface SolveContext {
 export function solveTrend(prob: TrendProblem, lambda: number, opt: SolveTrendOptions): TrendFit {
   const exact = exactFit(prob, lambda, opt.tolerance);
   if (exact) return exact;
-  const ctx: SolveContext = { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 };
+  const ctx = contextOf(prob, lambda, opt);
   if (!opt.interiorFirst || opt.refine !== false) return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
   // strategy 1b (folds only): the interior point from a cold start. Converged, strategy 3 returns it as
   // it is; stalled, the active-set method runs, and strategy 3 after it starts from this solve
@@ -275,7 +275,12 @@ function fromHalvedStep(ctx: SolveContext, depth: number): TrendFit | undefined 
 
 /** {@link fromHalvedStep} on its own, from `opt.warm` (exported for its tests). Unchecked. */
 export function solveTrendOverHalvedStep(prob: TrendProblem, lambda: number, opt: SolveTrendOptions, depth = HALVINGS): TrendFit | undefined {
-  return fromHalvedStep({ prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 }, depth);
+  return fromHalvedStep(contextOf(prob, lambda, opt), depth);
+}
+
+/** A fresh {@link SolveContext} of one solve. Unchecked. */
+function contextOf(prob: TrendProblem, lambda: number, opt: SolveTrendOptions): SolveContext {
+  return { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 };
 }
 
 /** Exact answers without iterations: k = 0 (dynamic programming) and lambda >= lambda_max (the polynomial). Unchecked. */
@@ -326,7 +331,7 @@ function refineFromKnots(ctx: SolveContext, rows: ArrayLike<number>, signs: Arra
   const n = prob.x.length;
   const start = new Float64Array(n - prob.k - 1);
   for (let j = 0; j < rows.length; j++) start[rows[j]] = (signs[j] >= 0 ? 1 : -1) * (lambda / f);
-  const pol = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, maxRounds, ctx.poly.b, rows, cacheOf(prob), stopGap);
+  const pol = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, maxRounds, rows, cacheOf(prob), stopGap);
   ctx.iterations += pol.rounds;
   return pol;
 }
@@ -346,7 +351,7 @@ function fromSeed(ctx: SolveContext): TrendFit | undefined {
  * returned. Unchecked.
  */
 function interiorPointThenRefine(ctx: SolveContext): TrendFit {
-  const { prob, lambda, f, poly } = ctx;
+  const { prob, lambda, f } = ctx;
   const { tolerance, maxIterations, warm, refine = true } = ctx.opt;
   const { x, y, w, k } = prob;
   const n = x.length;
@@ -397,10 +402,10 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     admmIterations = admm.status.iterations;
     const ua = new Float64Array(admm.u.length);
     for (let r = 0; r < ua.length; r++) ua[r] = admm.u[r] / f;
-    pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, ua, undefined, poly.b, admm.knots, cache));
+    pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, ua, undefined, admm.knots, cache));
     if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations + admmIterations, admm.state);
   }
-  if (!pol.ok && !sol.status.converged) pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, poly.b, undefined, cache));
+  if (!pol.ok && !sol.status.converged) pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, undefined, cache));
   if (!pol.ok && !sol.status.converged && warm && !ctx.cold) {
     // a warm start can stall where a cold one does not
     const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
@@ -409,7 +414,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     sol = { ...sol, status: { ...sol.status, iterations: iters } };
     if (!sol.status.converged) {
       for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-      pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, poly.b, undefined, cache));
+      pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, undefined, cache));
     }
   }
   if (!pol.ok && !sol.status.converged) {
@@ -464,7 +469,7 @@ function continuationFromPolynomial(ctx: SolveContext): PolishResult | undefined
   for (let j = 1; j <= steps; j++) {
     const lj = lmax * Math.pow(target / lmax, j / steps);
     const st = Float64Array.from(cur, (v) => (v * lj) / curLam);
-    last = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lj, st, undefined, poly.b, undefined, cacheOf(prob));
+    last = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lj, st, undefined, undefined, cacheOf(prob));
     rounds += last.rounds;
     if (!last.ok) return undefined;
     cur = last.u;
