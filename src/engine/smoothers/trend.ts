@@ -34,8 +34,8 @@
  * without knots (its Newton matrix has condition number of order L^(2k+2)), so
  * it mainly proposes knots; the refinement's restricted solves run in a banded
  * discrete B-spline basis (trend/restrictedSplineFit.ts), well conditioned at any n,
- * and make the answer exact, or the continuation from lambda_max does when the
- * interior point's knots are too far off. A fit still short of the tolerance
+ * and make the answer exact, or the active-set method started from the
+ * polynomial fit (no knots) does when the interior point's knots are too far off. A fit still short of the tolerance
  * reports the gap reached and carries a 'not-converged' warning; one far from it
  * (gap above 1e-3) is refused with an error.
  * A trend describes the past; its end values are revised as data arrive and

@@ -8,6 +8,7 @@
 import { fitTrend, trendPenaltyMax } from '../../../src/engine/smoothers/trend';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { seededNormal } from './trendTestFunctions';
+import { FROM_POLYNOMIAL_RULE } from '../../../src/engine/smoothers/trend/solveTrend';
 
 function longSeries(n: number, seed: number) {
   const rn = seededNormal(seed);
@@ -151,6 +152,28 @@ describe('fitTrend of orders 2 and 3 on long series', () => {
     expect(c.worstChange).toBeLessThan(1e-5);
     // the running-sum dual is within rounding of the box; the gap is below the tolerance and
     // no larger than the one the fit reports (up to rounding)
+    expect(c.boxScale - 1).toBeLessThan(1e-6);
+    expect(c.relativeGap).toBeLessThan(1e-8);
+    expect(c.relativeGap).toBeLessThan(r.solver.achieved * 1.01 + 1e-10);
+  });
+});
+
+describe('fitTrend of order 3 at small penalties on a long series', () => {
+  // where the interior point stalls at once on 10,000 points: these fits used to end uncertified
+  // (1e-5 of the largest penalty) or be refused (1e-6, 1e-7); the active-set method started from
+  // the polynomial fit now reaches them
+  test.each([1e-5, 1e-6, 1e-7])('at %p of the largest penalty the fit is certified by a gap built from the fit alone', (fraction) => {
+    const k = 3;
+    const { x, y, w } = longSeries(10000, 2031);
+    const s = seriesFromArrays(x, y, w);
+    const lam = fraction * trendPenaltyMax(s, { order: k });
+    const r = fitTrend(s, { order: k, penalty: lam });
+    expect(r.solver.converged).toBe(true);
+    expect(r.solver.stoppingRule).toBe(FROM_POLYNOMIAL_RULE);
+    expect(r.knots.length).toBeGreaterThan(20);
+    const c = orderKCertificate(x, y, w, r.fitted, k, lam, r.knots);
+    expect(c.worstOffPiece).toBeLessThan(1e-9);
+    expect(c.worstChange).toBeLessThan(1e-5);
     expect(c.boxScale - 1).toBeLessThan(1e-6);
     expect(c.relativeGap).toBeLessThan(1e-8);
     expect(c.relativeGap).toBeLessThan(r.solver.achieved * 1.01 + 1e-10);
