@@ -65,8 +65,8 @@ const FROM_POLYNOMIAL_ROUNDS = 3000;
 /**
  * A stalled interior point whose relative gap is still at or above this made no progress: its
  * dual says nothing about the knots, and the refinement is not started from it. Measured on the
- * 32 single fits of {@link fromPolynomial}: 11,792 iterations in all with this rule against 14,274
- * without it (one step per two decades then; every fit certified either way).
+ * single fits of {@link fromPolynomial}: 8,910 iterations in all with this rule against 11,883
+ * without it on the 32, and 8,621 against 9,421 on the 16 more (every fit certified either way).
  */
 const INTERIOR_USEFUL_GAP = 0.5;
 
@@ -473,11 +473,12 @@ function counted(ctx: SolveContext, pol: PolishResult): PolishResult {
  * It replaces a continuation from lambda_max in 4 steps per decade, each step refined from the
  * step before's knots, whose refinements ran out of rounds (knots have to travel far on long
  * series). Measured on 32 single fits (orders 2 and 3; 3e4 and 1e5 points; the bench's two series;
- * penalties 1e-2 to 1e-5 of lambda_max): that chain certified 17 and threw on 5; the same
- * continuation warm-started step by step as along a path certified all 32, with 15,016 iterations
- * in all at one step per decade, 11,792 at one per two decades and 8,910 in one step from the
- * polynomial fit (14.7 s). On 16 more (1e4 and 1e5 points, 1e-6 and 1e-7 of lambda_max), where the
- * earlier chain failed 12 times (10 throws), the one step certified all 16. Unchecked.
+ * penalties 1e-2 to 1e-5 of lambda_max): that chain certified 17, left 10 above the tolerance and
+ * refused 5; the same continuation warm-started step by step as along a path certified all 32,
+ * with 15,016 iterations in all (interior-point iterations and restricted solves) at one step per
+ * decade, 11,792 at one per two decades, 9,630 at one per four and 8,910 in one step from the
+ * polynomial fit. On 16 more (1e4 and 1e5 points, 1e-6 and 1e-7 of lambda_max), where the earlier
+ * chain certified 4 and refused 9, the one step certified all 16. Unchecked.
  */
 function fromPolynomial(ctx: SolveContext): TrendFit | undefined {
   const { lambda, poly } = ctx;
