@@ -111,10 +111,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const spare = cache && cache.spareValues && cache.spareValues.length === n * wd && cache.spareFirst && cache.spareFirst.length === n ? cache : undefined;
   // the first basis function covering each point: lo and hi both increase with e
   const first = spare ? spare.spareFirst! : new Int32Array(n);
-  for (let i = 0, e = 0; i < n; i++) {
-    while (hi[e] < i) e++;
-    first[i] = e;
-  }
+  firstCovering(hi, n, first);
   const values = spare ? spare.spareValues! : new Float64Array(n * wd);
   const penalty = new Float64Array(p * (k + 2));
   const nu = (k + 1) * (k + 1); // unknowns: k + 1 local coefficients for each of the k + 1 pieces
@@ -124,6 +121,8 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const cen = new Float64Array(k + 1), half = new Float64Array(k + 1);
   const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
   const allCoef = new Float64Array(p * nu);
+  // largest |B_e| of the window being evaluated and the value where it is reached (its sign)
+  const top = new Float64Array(2);
   // pass 1: the window of the last build each window repeats (a window's function depends on its
   // k + 2 knots alone), or -1
   const from = new Int32Array(p).fill(-1);
@@ -170,7 +169,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     if (fe >= 0 && canCopy) {
       // the same window on the same x: its values and (D B_e) are those of the last build
       allCoef.set(old!.coef.subarray(fe * nu, (fe + 1) * nu), e * nu);
-      for (let i = i0; i <= i1; i++) if (!kept[i]) values[i * wd + (e - first[i])] = ov![i * wd + (fe - of![i])];
+      copyWindow(values, first, ov!, of!, kept, wd, e, fe, i0, i1);
       for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = op![fe * (k + 2) + q];
       continue;
     }
@@ -196,47 +195,17 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     Mb.set(M);
     if (!bandedNullVector(Mb, nu - 1, nu, k, coef, z) && !nullVector(M, nu - 1, nu, coef, perm, z)) return null;
     allCoef.set(coef, e * nu);
-    // values on the support
-    // piece by piece (piece l holds the points rho_l < i <= rho_{l+1}), Horner's rule written out
-    // for k = 3 and 2: on long series most of a build's time is spent here
-    // largest |B_e| and the value where it is reached (its sign)
-    let vmax = 0, vtop = 0;
+    // values on the support, piece by piece (piece l holds the points rho_l < i <= rho_{l+1})
+    top[0] = 0; top[1] = 0;
     for (let l = 0; l <= k; l++) {
       const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
-      const c = cen[l], ihl = 1 / half[l], o = l * (k + 1);
-      if (k === 3) {
-        const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2], c3 = coef[o + 3];
-        for (let i = a; i <= z1; i++) {
-          const t = (x[i] - c) * ihl;
-          const v = ((c3 * t + c2) * t + c1) * t + c0;
-          values[i * 4 + e - first[i]] = v;
-          const av = v < 0 ? -v : v;
-          if (!(av <= vmax)) { vmax = av; vtop = v; }
-        }
-      } else if (k === 2) {
-        const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2];
-        for (let i = a; i <= z1; i++) {
-          const t = (x[i] - c) * ihl;
-          const v = (c2 * t + c1) * t + c0;
-          values[i * 3 + e - first[i]] = v;
-          const av = v < 0 ? -v : v;
-          if (!(av <= vmax)) { vmax = av; vtop = v; }
-        }
-      } else {
-        for (let i = a; i <= z1; i++) {
-          const t = (x[i] - c) * ihl;
-          let v = 0;
-          for (let q = k; q >= 0; q--) v = v * t + coef[o + q];
-          values[i * wd + e - first[i]] = v;
-          const av = v < 0 ? -v : v;
-          if (!(av <= vmax)) { vmax = av; vtop = v; }
-        }
-      }
+      pieceValues(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, e, first, values, top);
     }
+    const vmax = top[0];
     if (!(vmax > 0) || !Number.isFinite(vmax)) return null;
     // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary)
-    const scale = vtop, iv = 1 / scale;
-    for (let i = i0; i <= i1; i++) values[i * wd + e - first[i]] *= iv;
+    const scale = top[1], iv = 1 / scale;
+    scaleWindow(values, first, wd, e, i0, i1, iv);
     // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
     for (let q = 0; q <= k + 1; q++) {
       const r = E[e + q];
@@ -253,6 +222,67 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; cache.values = values; cache.first = first; cache.penalty = penalty;
   }
   return { k, p, first, values, penalty };
+}
+
+// The passes over the points of one build, each its own function: the first call's compiler then
+// works on small bodies instead of compiling the whole build once per loop while it runs. Unchecked.
+
+/** first[i] = the first basis function covering point i (hi, the last point of each, increases). Unchecked. */
+function firstCovering(hi: Int32Array, n: number, first: Int32Array): void {
+  for (let i = 0, e = 0; i < n; i++) {
+    while (hi[e] < i) e++;
+    first[i] = e;
+  }
+}
+
+/**
+ * Values of window e on piece l's points a..z1 (its coefficients at coef[o..o+k] in the piece's
+ * coordinate t = (x - c) * ihl), by Horner's rule written out for k = 3 and 2 (on long series most
+ * of a build's time is spent here); top = [largest |B_e| so far, the value where it is reached],
+ * updated. Unchecked.
+ */
+function pieceValues(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, a: number, z1: number, e: number, first: Int32Array, values: Float64Array, top: Float64Array): void {
+  let vmax = top[0], vtop = top[1];
+  if (k === 3) {
+    const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2], c3 = coef[o + 3];
+    for (let i = a; i <= z1; i++) {
+      const t = (x[i] - c) * ihl;
+      const v = ((c3 * t + c2) * t + c1) * t + c0;
+      values[i * 4 + e - first[i]] = v;
+      const av = v < 0 ? -v : v;
+      if (!(av <= vmax)) { vmax = av; vtop = v; }
+    }
+  } else if (k === 2) {
+    const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2];
+    for (let i = a; i <= z1; i++) {
+      const t = (x[i] - c) * ihl;
+      const v = (c2 * t + c1) * t + c0;
+      values[i * 3 + e - first[i]] = v;
+      const av = v < 0 ? -v : v;
+      if (!(av <= vmax)) { vmax = av; vtop = v; }
+    }
+  } else {
+    const wd = k + 1;
+    for (let i = a; i <= z1; i++) {
+      const t = (x[i] - c) * ihl;
+      let v = 0;
+      for (let q = k; q >= 0; q--) v = v * t + coef[o + q];
+      values[i * wd + e - first[i]] = v;
+      const av = v < 0 ? -v : v;
+      if (!(av <= vmax)) { vmax = av; vtop = v; }
+    }
+  }
+  top[0] = vmax; top[1] = vtop;
+}
+
+/** Window e's values on points i0..i1 times iv. Unchecked. */
+function scaleWindow(values: Float64Array, first: Int32Array, wd: number, e: number, i0: number, i1: number, iv: number): void {
+  for (let i = i0; i <= i1; i++) values[i * wd + e - first[i]] *= iv;
+}
+
+/** Window e's values on points i0..i1 not kept whole, copied from window fe of the last build (ov, of). Unchecked. */
+function copyWindow(values: Float64Array, first: Int32Array, ov: Float64Array, of: Int32Array, kept: Uint8Array, wd: number, e: number, fe: number, i0: number, i1: number): void {
+  for (let i = i0; i <= i1; i++) if (!kept[i]) values[i * wd + (e - first[i])] = ov[i * wd + (fe - of[i])];
 }
 
 /** An empty {@link BasisCache}. */

@@ -46,6 +46,41 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
   // loops below need no bound test (they add zeros there)
   const band = new Float64Array((p + k) * wd);
   const rhs = new Float64Array(p + k);
+  normalEquations(first, values, w, y, k, n, band, rhs);
+  const K = rowsA.length;
+  if (keep) keep.system = { k, K, p, gram: Float64Array.from(band), rhs: Float64Array.from(rhs), penalty: Float64Array.from(penalty) };
+  // penalty term: lambda sum_{r in A} s_r (D B_e)_r
+  subtractPenalty(rhs, penalty, k, p, lambda, sA);
+  if (bandedCholesky(band, p, k) >= 0) return null;
+  const c = Float64Array.from(rhs);
+  for (let e = p; e < p + k; e++) c[e] = 0;
+  bandedCholeskySolve(band, p, k, c);
+  // iterative refinement with the residual of the normal equations formed from the data,
+  // B^T W (y - B c) - lambda (D_A B)^T s, not from the assembled Gram matrix: the rounding of the
+  // assembled sums limits a refinement on the Gram matrix, and through the dual recovered from
+  // W (y - b) it limited the certified gap of order 3 at small penalties (measured at n = 1e4:
+  // u on the knots off lambda by up to 1e-5 relative after a Gram-based step, 1e-7 after two of these)
+  const res = new Float64Array(p + k);
+  for (let step = 0; step < REFINEMENT_STEPS; step++) {
+    res.fill(0);
+    residualNormalEquations(first, values, w, y, c, k, n, res);
+    subtractPenalty(res, penalty, k, p, lambda, sA);
+    bandedCholeskySolve(band, p, k, res);
+    for (let e = 0; e < p; e++) c[e] += res[e];
+  }
+  for (let e = p; e < p + k; e++) c[e] = 0;
+  const b = out && out.length === n ? out : new Float64Array(n);
+  basisCombination(first, values, c, k, n, b);
+  const dA = knotDifferences(penalty, c, k, p, K);
+  return { b, dA };
+}
+
+// The passes over the points, each its own function: the first call's compiler then works on small
+// bodies instead of compiling the whole solve once per loop while it runs. Unchecked.
+
+/** Adds B^T W B (lower band, width k + 1 per row) to `band` and B^T W y to `rhs`. Unchecked. */
+function normalEquations(first: Int32Array, values: Float64Array, w: Float64Array, y: Float64Array, k: number, n: number, band: Float64Array, rhs: Float64Array): void {
+  const wd = k + 1;
   if (k === 3) {
     // the loop below written out for k = 3 (most of the work of an active-set round)
     for (let i = 0; i < n; i++) {
@@ -81,51 +116,39 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
       }
     }
   }
-  const K = rowsA.length;
-  if (keep) keep.system = { k, K, p, gram: Float64Array.from(band), rhs: Float64Array.from(rhs), penalty: Float64Array.from(penalty) };
-  // penalty term: lambda sum_{r in A} s_r (D B_e)_r
-  subtractPenalty(rhs, penalty, k, p, lambda, sA);
-  if (bandedCholesky(band, p, k) >= 0) return null;
-  const c = Float64Array.from(rhs);
-  for (let e = p; e < p + k; e++) c[e] = 0;
-  bandedCholeskySolve(band, p, k, c);
-  // iterative refinement with the residual of the normal equations formed from the data,
-  // B^T W (y - B c) - lambda (D_A B)^T s, not from the assembled Gram matrix: the rounding of the
-  // assembled sums limits a refinement on the Gram matrix, and through the dual recovered from
-  // W (y - b) it limited the certified gap of order 3 at small penalties (measured at n = 1e4:
-  // u on the knots off lambda by up to 1e-5 relative after a Gram-based step, 1e-7 after two of these)
-  const res = new Float64Array(p + k);
-  for (let step = 0; step < REFINEMENT_STEPS; step++) {
-    res.fill(0);
-    if (k === 3) {
-      for (let i = 0; i < n; i++) {
-        const e0 = first[i], o = 4 * i;
-        const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2], v3 = values[o + 3];
-        const gi = w[i] * (y[i] - (v0 * c[e0] + v1 * c[e0 + 1] + v2 * c[e0 + 2] + v3 * c[e0 + 3]));
-        res[e0] += v0 * gi; res[e0 + 1] += v1 * gi; res[e0 + 2] += v2 * gi; res[e0 + 3] += v3 * gi;
-      }
-    } else if (k === 2) {
-      for (let i = 0; i < n; i++) {
-        const e0 = first[i], o = 3 * i;
-        const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2];
-        const gi = w[i] * (y[i] - (v0 * c[e0] + v1 * c[e0 + 1] + v2 * c[e0 + 2]));
-        res[e0] += v0 * gi; res[e0 + 1] += v1 * gi; res[e0 + 2] += v2 * gi;
-      }
-    } else {
-      for (let i = 0; i < n; i++) {
-        const e0 = first[i], o = i * wd;
-        let s = 0;
-        for (let a = 0; a <= k; a++) s += values[o + a] * c[e0 + a];
-        const gi = w[i] * (y[i] - s);
-        for (let a = 0; a <= k; a++) res[e0 + a] += values[o + a] * gi;
-      }
+}
+
+/** res += B^T W (y - B c) (res zeroed by the caller). Unchecked. */
+function residualNormalEquations(first: Int32Array, values: Float64Array, w: Float64Array, y: Float64Array, c: Float64Array, k: number, n: number, res: Float64Array): void {
+  const wd = k + 1;
+  if (k === 3) {
+    for (let i = 0; i < n; i++) {
+      const e0 = first[i], o = 4 * i;
+      const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2], v3 = values[o + 3];
+      const gi = w[i] * (y[i] - (v0 * c[e0] + v1 * c[e0 + 1] + v2 * c[e0 + 2] + v3 * c[e0 + 3]));
+      res[e0] += v0 * gi; res[e0 + 1] += v1 * gi; res[e0 + 2] += v2 * gi; res[e0 + 3] += v3 * gi;
     }
-    subtractPenalty(res, penalty, k, p, lambda, sA);
-    bandedCholeskySolve(band, p, k, res);
-    for (let e = 0; e < p; e++) c[e] += res[e];
+  } else if (k === 2) {
+    for (let i = 0; i < n; i++) {
+      const e0 = first[i], o = 3 * i;
+      const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2];
+      const gi = w[i] * (y[i] - (v0 * c[e0] + v1 * c[e0 + 1] + v2 * c[e0 + 2]));
+      res[e0] += v0 * gi; res[e0 + 1] += v1 * gi; res[e0 + 2] += v2 * gi;
+    }
+  } else {
+    for (let i = 0; i < n; i++) {
+      const e0 = first[i], o = i * wd;
+      let s = 0;
+      for (let a = 0; a <= k; a++) s += values[o + a] * c[e0 + a];
+      const gi = w[i] * (y[i] - s);
+      for (let a = 0; a <= k; a++) res[e0 + a] += values[o + a] * gi;
+    }
   }
-  for (let e = p; e < p + k; e++) c[e] = 0;
-  const b = out && out.length === n ? out : new Float64Array(n);
+}
+
+/** b = B c. Unchecked. */
+function basisCombination(first: Int32Array, values: Float64Array, c: Float64Array, k: number, n: number, b: Float64Array): void {
+  const wd = k + 1;
   if (k === 3) {
     for (let i = 0; i < n; i++) {
       const e0 = first[i], o = 4 * i;
@@ -139,6 +162,4 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
       b[i] = s;
     }
   }
-  const dA = knotDifferences(penalty, c, k, p, K);
-  return { b, dA };
 }

@@ -170,13 +170,14 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   const rhs = new Float64Array(m);
   const du2 = new Float64Array(m);
   const fraction = 0.99;
+  const sums = new Float64Array(3);
   let lastGain = 0;
   applyDifferenceGram(rows, winv, q, u, qu, tmp);
   for (;;) {
     // with b = y - W^{-1} D^T u: 1/2 sum w (y - b)^2 = 1/2 u.Q u and D b = p - Q u, so the
     // objective and the gap need no b (formed once, for the best iterate, at the end)
-    let l1 = 0, ud = 0, uqu = 0;
-    for (let i = 0; i < m; i++) { const v = p[i] - qu[i]; l1 += Math.abs(v); ud += u[i] * v; uqu += u[i] * qu[i]; }
+    gapSums(p, qu, u, m, sums);
+    const l1 = sums[0], ud = sums[1], uqu = sums[2];
     const obj = 0.5 * uqu + lambda * l1;
     gapAbs = Math.max(lambda * l1 - ud, 0);
     achieved = gapAbs / Math.max(obj, floor);
@@ -191,59 +192,28 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     iter++;
     // slacks s1 = lambda - u = -f1, s2 = lambda + u = -f2; complementarity mu . s
     // (the reciprocal slacks are formed once: the loops below multiply)
-    let comp = 0;
     mat.set(gram);
-    for (let i = 0; i < m; i++) {
-      const s1 = -f1[i], s2 = -f2[i];
-      const i1 = 1 / s1, i2 = 1 / s2;
-      inv1[i] = i1; inv2[i] = i2;
-      comp += mu1[i] * s1 + mu2[i] * s2;
-      rd[i] = qu[i] - p[i] + mu1[i] - mu2[i];
-      mat[i * wd] += mu1[i] * i1 + mu2[i] * i2;
-    }
+    const comp = newtonSystem(f1, f2, mu1, mu2, qu, p, inv1, inv2, rd, mat, wd, m);
     const muAvg = comp / (2 * m);
     if (bandedCholesky(mat, m, q, PIVOT_FLOOR) >= 0) break;
     // predictor (affine scaling): sigma = 0
-    for (let i = 0; i < m; i++) du[i] = -rd[i] + mu1[i] - mu2[i];
+    predictorRightSide(rd, mu1, mu2, du, m);
     bandedCholeskySolve(mat, m, q, du);
-    for (let i = 0; i < m; i++) {
-      dmu1[i] = -mu1[i] + mu1[i] * du[i] * inv1[i]; // dmu1 = (-mu1 s1 + mu1 du) / s1
-      dmu2[i] = -mu2[i] - mu2[i] * du[i] * inv2[i];
-    }
+    affineMultiplierStep(du, mu1, mu2, inv1, inv2, dmu1, dmu2, m);
     const aff = longestStep(du, dmu1, dmu2, mu1, mu2, f1, f2, m);
-    let compAff = 0;
-    for (let i = 0; i < m; i++) {
-      compAff += (mu1[i] + aff * dmu1[i]) * (-f1[i] - aff * du[i]) + (mu2[i] + aff * dmu2[i]) * (-f2[i] + aff * du[i]);
-    }
+    const compAff = complementarityAfter(aff, du, dmu1, dmu2, mu1, mu2, f1, f2, m);
     const sigma = Math.pow(Math.max(compAff, 0) / Math.max(comp, 1e-300), 3);
     const target = sigma * muAvg;
     // corrector: mu1 s1 = target - ds1_aff dmu1_aff, with ds1 = -du, ds2 = du
-    for (let i = 0; i < m; i++) {
-      const s1 = -f1[i], s2 = -f2[i];
-      const c1 = -du[i] * dmu1[i], c2 = du[i] * dmu2[i];
-      // Q du + dmu1 - dmu2 = -rd ; dmu1 = (-mu1 s1 + target - c1 + mu1 du) / s1 ; dmu2 = (-mu2 s2 + target - c2 - mu2 du) / s2
-      rhs[i] = -rd[i] - (-mu1[i] * s1 + target - c1) * inv1[i] + (-mu2[i] * s2 + target - c2) * inv2[i];
-      du2[i] = c1; // keep c1 for the multiplier step
-      tmp[i] = c2;
-    }
+    // (du2 and tmp keep c1 and c2 for the multiplier step)
+    correctorRightSide(target, du, dmu1, dmu2, mu1, mu2, f1, f2, rd, inv1, inv2, rhs, du2, tmp, m);
     du.set(rhs);
     bandedCholeskySolve(mat, m, q, du);
-    for (let i = 0; i < m; i++) {
-      dmu1[i] = (mu1[i] * f1[i] + target - du2[i] + mu1[i] * du[i]) * inv1[i];
-      dmu2[i] = (mu2[i] * f2[i] + target - tmp[i] - mu2[i] * du[i]) * inv2[i];
-    }
+    correctorMultiplierStep(target, du, mu1, mu2, f1, f2, inv1, inv2, du2, tmp, dmu1, dmu2, m);
     const smax = longestStep(du, dmu1, dmu2, mu1, mu2, f1, f2, m);
-    let finite = Number.isFinite(smax);
-    for (let i = 0; i < m && finite; i++) if (!Number.isFinite(du[i])) finite = false;
-    if (!finite) break;
+    if (!(Number.isFinite(smax) && allFinite(du, m))) break;
     const step = Math.min(1, fraction * smax);
-    for (let i = 0; i < m; i++) {
-      u[i] += step * du[i];
-      mu1[i] += step * dmu1[i];
-      mu2[i] += step * dmu2[i];
-      f1[i] = u[i] - lambda;
-      f2[i] = -u[i] - lambda;
-    }
+    takeStep(step, lambda, du, dmu1, dmu2, u, mu1, mu2, f1, f2, m);
     applyDifferenceGram(rows, winv, q, u, qu, tmp);
   }
   // the best iterate seen (the last one unless the iteration broke down); b = y - W^{-1} D^T u
@@ -253,4 +223,94 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     b, u: best.u, gap: best.gap, objective: best.objective,
     status: { converged, iterations: iter, tolerance, achieved: best.achieved, stoppingRule: INTERIOR_POINT_RULE },
   };
+}
+
+// The kernels of one interior-point iteration, each a loop over the m dual rows. They are separate
+// functions so that the first call's compiler works on small bodies: a loop inside the long solver
+// made Node compile the whole solver on the spot once per loop. Unchecked.
+
+/** sums = [||p - Q u||_1, u.(p - Q u), u.Q u]: the objective and gap without b. Unchecked. */
+function gapSums(p: Float64Array, qu: Float64Array, u: Float64Array, m: number, sums: Float64Array): void {
+  let l1 = 0, ud = 0, uqu = 0;
+  for (let i = 0; i < m; i++) { const v = p[i] - qu[i]; l1 += Math.abs(v); ud += u[i] * v; uqu += u[i] * qu[i]; }
+  sums[0] = l1; sums[1] = ud; sums[2] = uqu;
+}
+
+/**
+ * The Newton system's diagonal (mat holds the Gram band: adds mu1 / s1 + mu2 / s2), the reciprocal
+ * slacks, the dual residual rd = Q u - p + mu1 - mu2, and the complementarity mu . s returned. Unchecked.
+ */
+function newtonSystem(f1: Float64Array, f2: Float64Array, mu1: Float64Array, mu2: Float64Array, qu: Float64Array, p: Float64Array, inv1: Float64Array, inv2: Float64Array, rd: Float64Array, mat: Float64Array, wd: number, m: number): number {
+  let comp = 0;
+  for (let i = 0; i < m; i++) {
+    const s1 = -f1[i], s2 = -f2[i];
+    const i1 = 1 / s1, i2 = 1 / s2;
+    inv1[i] = i1; inv2[i] = i2;
+    comp += mu1[i] * s1 + mu2[i] * s2;
+    rd[i] = qu[i] - p[i] + mu1[i] - mu2[i];
+    mat[i * wd] += mu1[i] * i1 + mu2[i] * i2;
+  }
+  return comp;
+}
+
+/** The predictor's right side: du = -rd + mu1 - mu2 (sigma = 0). Unchecked. */
+function predictorRightSide(rd: Float64Array, mu1: Float64Array, mu2: Float64Array, du: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) du[i] = -rd[i] + mu1[i] - mu2[i];
+}
+
+/** Whether v[0..m) are all finite. Unchecked. */
+function allFinite(v: Float64Array, m: number): boolean {
+  for (let i = 0; i < m; i++) if (!Number.isFinite(v[i])) return false;
+  return true;
+}
+
+/** The predictor's multiplier steps: dmu1 = (-mu1 s1 + mu1 du) / s1, dmu2 = (-mu2 s2 - mu2 du) / s2. Unchecked. */
+function affineMultiplierStep(du: Float64Array, mu1: Float64Array, mu2: Float64Array, inv1: Float64Array, inv2: Float64Array, dmu1: Float64Array, dmu2: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) {
+    dmu1[i] = -mu1[i] + mu1[i] * du[i] * inv1[i];
+    dmu2[i] = -mu2[i] - mu2[i] * du[i] * inv2[i];
+  }
+}
+
+/** The complementarity after a step of length a along the predictor. Unchecked. */
+function complementarityAfter(a: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): number {
+  let c = 0;
+  for (let i = 0; i < m; i++) {
+    c += (mu1[i] + a * dmu1[i]) * (-f1[i] - a * du[i]) + (mu2[i] + a * dmu2[i]) * (-f2[i] + a * du[i]);
+  }
+  return c;
+}
+
+/**
+ * The corrector's right side: with ds1 = -du, ds2 = du of the predictor, c1 = -du dmu1, c2 = du dmu2,
+ * Q du + dmu1 - dmu2 = -rd, dmu1 = (-mu1 s1 + target - c1 + mu1 du) / s1, dmu2 = (-mu2 s2 + target - c2 - mu2 du) / s2;
+ * c1 and c2 are kept for the multiplier step. Unchecked.
+ */
+function correctorRightSide(target: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, rd: Float64Array, inv1: Float64Array, inv2: Float64Array, rhs: Float64Array, c1s: Float64Array, c2s: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) {
+    const s1 = -f1[i], s2 = -f2[i];
+    const c1 = -du[i] * dmu1[i], c2 = du[i] * dmu2[i];
+    rhs[i] = -rd[i] - (-mu1[i] * s1 + target - c1) * inv1[i] + (-mu2[i] * s2 + target - c2) * inv2[i];
+    c1s[i] = c1;
+    c2s[i] = c2;
+  }
+}
+
+/** The corrector's multiplier steps from its du and the kept c1, c2. Unchecked. */
+function correctorMultiplierStep(target: number, du: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, inv1: Float64Array, inv2: Float64Array, c1s: Float64Array, c2s: Float64Array, dmu1: Float64Array, dmu2: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) {
+    dmu1[i] = (mu1[i] * f1[i] + target - c1s[i] + mu1[i] * du[i]) * inv1[i];
+    dmu2[i] = (mu2[i] * f2[i] + target - c2s[i] - mu2[i] * du[i]) * inv2[i];
+  }
+}
+
+/** The step: u, mu1, mu2 move by `step` along their directions; f1 = u - lambda, f2 = -u - lambda. Unchecked. */
+function takeStep(step: number, lambda: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, u: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) {
+    u[i] += step * du[i];
+    mu1[i] += step * dmu1[i];
+    mu2[i] += step * dmu2[i];
+    f1[i] = u[i] - lambda;
+    f2[i] = -u[i] - lambda;
+  }
 }
