@@ -53,6 +53,36 @@ export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64
   // tridiagonal Gram in lower-band layout: band[2e] = G(e, e), band[2e + 1] = G(e, e - 1)
   const band = new Float64Array(2 * p);
   const rhs = new Float64Array(p);
+  hatNormalEquations(x, y, w, node, ih, p, band, rhs);
+  band[2 * (p - 1)] += w[n - 1];
+  rhs[p - 1] += w[n - 1] * y[n - 1];
+  // the penalty's side: - lambda (D_A H)^T s, knot j (node j + 1) touching c_j, c_{j+1}, c_{j+2}
+  subtractHatPenalty(rhs, ih, lambda, sA, K);
+  if (bandedCholesky(band, p, 1) >= 0) return null;
+  const c = Float64Array.from(rhs);
+  bandedCholeskySolve(band, p, 1, c);
+  const res = new Float64Array(p);
+  for (let step = 0; step < LINEAR_REFINEMENT_STEPS; step++) {
+    res.fill(0);
+    hatResidualEquations(x, y, w, node, ih, c, p, res);
+    res[p - 1] += w[n - 1] * (y[n - 1] - c[p - 1]);
+    subtractHatPenalty(res, ih, lambda, sA, K);
+    bandedCholeskySolve(band, p, 1, res);
+    for (let e = 0; e < p; e++) c[e] += res[e];
+  }
+  const b = out && out.length === n ? out : new Float64Array(n);
+  hatCombination(x, node, ih, c, p, b);
+  b[n - 1] = c[p - 1];
+  const dA = new Float64Array(K);
+  for (let j = 0; j < K; j++) dA[j] = (c[j + 2] - c[j + 1]) * ih[j + 1] - (c[j + 1] - c[j]) * ih[j];
+  return { b, dA };
+}
+
+// The passes over the points, each its own function: the first call's compiler then works on small
+// bodies instead of compiling the whole solve once per loop while it runs. Unchecked.
+
+/** Adds the hat functions' tridiagonal Gram (lower-band layout) to `band` and H^T W y to `rhs`, piece by piece (the last point is the caller's). Unchecked. */
+function hatNormalEquations(x: Float64Array, y: Float64Array, w: Float64Array, node: Int32Array, ih: Float64Array, p: number, band: Float64Array, rhs: Float64Array): void {
   for (let e = 0; e < p - 1; e++) {
     const i0 = node[e], i1 = node[e + 1], xl = x[i0], xr = x[i1], q = ih[e];
     let dl = 0, dr = 0, off = 0, rl = 0, rr = 0;
@@ -68,48 +98,38 @@ export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64
     rhs[e] += rl;
     rhs[e + 1] += rr;
   }
-  band[2 * (p - 1)] += w[n - 1];
-  rhs[p - 1] += w[n - 1] * y[n - 1];
-  // the penalty's side: - lambda (D_A H)^T s, knot j (node j + 1) touching c_j, c_{j+1}, c_{j+2}
-  const subtractPenalty = (v: Float64Array): void => {
-    for (let j = 0; j < K; j++) {
-      const ls = lambda * sA[j], a = ih[j], b = ih[j + 1];
-      v[j] -= ls * a;
-      v[j + 1] += ls * (a + b);
-      v[j + 2] -= ls * b;
-    }
-  };
-  subtractPenalty(rhs);
-  if (bandedCholesky(band, p, 1) >= 0) return null;
-  const c = Float64Array.from(rhs);
-  bandedCholeskySolve(band, p, 1, c);
-  const res = new Float64Array(p);
-  for (let step = 0; step < LINEAR_REFINEMENT_STEPS; step++) {
-    res.fill(0);
-    for (let e = 0; e < p - 1; e++) {
-      const i0 = node[e], i1 = node[e + 1], xl = x[i0], xr = x[i1], q = ih[e], cl = c[e], cr = c[e + 1];
-      let sl = 0, sr = 0;
-      for (let i = i0; i < i1; i++) {
-        const xi = x[i];
-        const a = (xr - xi) * q, t = (xi - xl) * q;
-        const gi = w[i] * (y[i] - (a * cl + t * cr));
-        sl += a * gi; sr += t * gi;
-      }
-      res[e] += sl;
-      res[e + 1] += sr;
-    }
-    res[p - 1] += w[n - 1] * (y[n - 1] - c[p - 1]);
-    subtractPenalty(res);
-    bandedCholeskySolve(band, p, 1, res);
-    for (let e = 0; e < p; e++) c[e] += res[e];
+}
+
+/** The penalty's side: v -= lambda (D_A H)^T s, knot j (node j + 1) touching c_j, c_{j+1}, c_{j+2}. Unchecked. */
+function subtractHatPenalty(v: Float64Array, ih: Float64Array, lambda: number, sA: ArrayLike<number>, K: number): void {
+  for (let j = 0; j < K; j++) {
+    const ls = lambda * sA[j], a = ih[j], b = ih[j + 1];
+    v[j] -= ls * a;
+    v[j + 1] += ls * (a + b);
+    v[j + 2] -= ls * b;
   }
-  const b = out && out.length === n ? out : new Float64Array(n);
+}
+
+/** res += H^T W (y - H c), piece by piece (the last point is the caller's). Unchecked. */
+function hatResidualEquations(x: Float64Array, y: Float64Array, w: Float64Array, node: Int32Array, ih: Float64Array, c: Float64Array, p: number, res: Float64Array): void {
+  for (let e = 0; e < p - 1; e++) {
+    const i0 = node[e], i1 = node[e + 1], xl = x[i0], xr = x[i1], q = ih[e], cl = c[e], cr = c[e + 1];
+    let sl = 0, sr = 0;
+    for (let i = i0; i < i1; i++) {
+      const xi = x[i];
+      const a = (xr - xi) * q, t = (xi - xl) * q;
+      const gi = w[i] * (y[i] - (a * cl + t * cr));
+      sl += a * gi; sr += t * gi;
+    }
+    res[e] += sl;
+    res[e + 1] += sr;
+  }
+}
+
+/** b = H c on every point but the last. Unchecked. */
+function hatCombination(x: Float64Array, node: Int32Array, ih: Float64Array, c: Float64Array, p: number, b: Float64Array): void {
   for (let e = 0; e < p - 1; e++) {
     const i0 = node[e], i1 = node[e + 1], xl = x[i0], xr = x[i1], q = ih[e], cl = c[e], cr = c[e + 1];
     for (let i = i0; i < i1; i++) b[i] = (xr - x[i]) * q * cl + (x[i] - xl) * q * cr;
   }
-  b[n - 1] = c[p - 1];
-  const dA = new Float64Array(K);
-  for (let j = 0; j < K; j++) dA[j] = (c[j + 2] - c[j + 1]) * ih[j + 1] - (c[j + 1] - c[j]) * ih[j];
-  return { b, dA };
 }

@@ -71,6 +71,8 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   let fewest = Infinity, since = 0;
   // active sets met so far (by two 32-bit hashes of the signed rows and their count)
   const seen = new Set<string>();
+  // [rows changed, max |u|] of a round's scan
+  const scan = new Float64Array(2);
   while (rounds < maxRounds) {
     // b lives in bbuf for the round only (a certified result gets a copy)
     const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache, bbuf);
@@ -80,28 +82,8 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     // u lives in ubuf for the round only (a certified result copies it)
     const u = dualFromResidual(x, k + 1, g, work, ubuf).u;
     const nA: number[] = [], nS: number[] = [];
-    let changed = 0, um = 0;
-    let j = 0;
-    for (let r = 0; r < m; ) {
-      const ur = Math.abs(u[r]);
-      if (ur > um) um = ur;
-      if (j < A.length && A[j] === r) {
-        if (S[j] * sol.dA[j] > 0) { nA.push(r); nS.push(S[j]); } else changed++;
-        j++;
-        r++;
-        continue;
-      }
-      if (!(ur > lim)) { r++; continue; }
-      let best = r, e = r;
-      while (e < m && !(j < A.length && A[j] === e) && Math.abs(u[e]) > lim) { const ue = Math.abs(u[e]); if (ue > um) um = ue; if (ue > Math.abs(u[best])) best = e; e++; }
-      const sg = u[best] > 0 ? 1 : -1;
-      // with `slide`, a knot right before the run with the same sign moves to the run's worst row
-      if (slide && nA.length && nA[nA.length - 1] === r - 1 && nS[nS.length - 1] === sg) { nA.pop(); nS.pop(); changed++; }
-      nA.push(best);
-      nS.push(sg);
-      changed++;
-      r = e;
-    }
+    nextActiveSet(u, m, A, S, sol.dA, lim, slide, nA, nS, scan);
+    const changed = scan[0], um = scan[1];
     changes.push(changed);
     let worth = changed === 0;
     if (!worth && stopGap > 0) {
@@ -140,4 +122,36 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     }
   }
   return { settled: false, rows: A, signs: S, rounds, changes };
+}
+
+/**
+ * One round's scan of the rows (its own function, so that the first call's compiler works on a small
+ * body): the next active set (nA, nS) keeps the rows of A where (D b)_r has the sign s_r and adds, of
+ * each run of consecutive rows off A with |u_r| > lim, the most violating one with the sign of u
+ * (with `slide`, a knot right before the run with the same sign moves to it); out = [rows changed,
+ * max |u|]. Unchecked.
+ */
+function nextActiveSet(u: Float64Array, m: number, A: number[], S: number[], dA: Float64Array, lim: number, slide: boolean, nA: number[], nS: number[], out: Float64Array): void {
+  let changed = 0, um = 0;
+  let j = 0;
+  for (let r = 0; r < m; ) {
+    const ur = Math.abs(u[r]);
+    if (ur > um) um = ur;
+    if (j < A.length && A[j] === r) {
+      if (S[j] * dA[j] > 0) { nA.push(r); nS.push(S[j]); } else changed++;
+      j++;
+      r++;
+      continue;
+    }
+    if (!(ur > lim)) { r++; continue; }
+    let best = r, e = r;
+    while (e < m && !(j < A.length && A[j] === e) && Math.abs(u[e]) > lim) { const ue = Math.abs(u[e]); if (ue > um) um = ue; if (ue > Math.abs(u[best])) best = e; e++; }
+    const sg = u[best] > 0 ? 1 : -1;
+    if (slide && nA.length && nA[nA.length - 1] === r - 1 && nS[nS.length - 1] === sg) { nA.pop(); nS.pop(); changed++; }
+    nA.push(best);
+    nS.push(sg);
+    changed++;
+    r = e;
+  }
+  out[0] = changed; out[1] = um;
 }
