@@ -35,20 +35,9 @@ export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number
     // is more than the distance of u to the bound that the refinement must resolve.
     // From the second level on, each entry is first divided by S_{s-1} (times (x_{i+s-1} - x_i) / (s - 1)),
     // as it is read: the same products as a pass of its own, one pass fewer
-    let acc = 0, comp = 0;
-    let zmax = 0;
     const sp = s - 1;
     if (sp > 0) v[len - 1] *= (x[len - 1 + sp] - x[len - 1]) / sp;
-    for (let i = 0; i < len - 1; i++) {
-      const vi = sp > 0 ? (v[i] *= (x[i + sp] - x[i]) / sp) : v[i];
-      const t = acc - vi;
-      // |.| written out (the same values as Math.abs, NaN included), the loop's cost where global lookups are slow
-      comp += (acc < 0 ? -acc : acc) >= (vi < 0 ? -vi : vi) ? (acc - t) - vi : (-vi - t) + acc;
-      acc = t;
-      const zi = acc + comp;
-      v[i] = zi;
-      zmax = Math.max(zmax, zi < 0 ? -zi : zi);
-    }
+    const zmax = compensatedLevel(x, v, len, sp);
     const miss = Math.abs(v[len - 2] - v[len - 1]);
     worst = Math.max(worst, miss / Math.max(gmax, zmax, 1e-300));
     len--;
@@ -58,6 +47,28 @@ export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number
     return { u: out, inconsistency: worst };
   }
   return { u: v.slice(0, n - q), inconsistency: worst };
+}
+
+/**
+ * One level of {@link dualFromResidual} in place (its own function, so that the first call's
+ * compiler works on a small body): entries 0 .. len - 2 of v become the compensated running sums of
+ * -v (A. Neumaier, ZAMM 54 (1974)), each entry first multiplied by (x_{i+sp} - x_i) / sp when sp > 0;
+ * returns the largest |sum|. Unchecked.
+ */
+function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: number): number {
+  let acc = 0, comp = 0;
+  let zmax = 0;
+  for (let i = 0; i < len - 1; i++) {
+    const vi = sp > 0 ? (v[i] *= (x[i + sp] - x[i]) / sp) : v[i];
+    const t = acc - vi;
+    // |.| written out (the same values as Math.abs, NaN included), the loop's cost where global lookups are slow
+    comp += (acc < 0 ? -acc : acc) >= (vi < 0 ? -vi : vi) ? (acc - t) - vi : (-vi - t) + acc;
+    acc = t;
+    const zi = acc + comp;
+    v[i] = zi;
+    zmax = Math.max(zmax, zi < 0 ? -zi : zi);
+  }
+  return zmax;
 }
 
 /**

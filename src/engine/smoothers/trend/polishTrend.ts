@@ -128,9 +128,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     const rowsA: number[] = [], sA: number[] = [];
     if (shrunk) {
       for (let j = 0; j < shrunk.rows.length; j++) if (sgn[shrunk.rows[j]] !== 0) { rowsA.push(shrunk.rows[j]); sA.push(shrunk.signs[j]); }
-    } else {
-      for (let r = 0; r < m; r++) if (sgn[r] !== 0) { rowsA.push(r); sA.push(sgn[r]); }
-    }
+    } else activeRows(sgn, m, rowsA, sA);
     shrunk = undefined;
     let h1 = 0x811c9dc5 | 0, h2 = 17;
     for (let j = 0; j < rowsA.length; j++) {
@@ -189,16 +187,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     u = dualFromResidual(x, k + 1, g, work).u;
     last = { b: bnew, u, ...sums, db: dnew, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
-    let added = false;
-    for (let r = 0; r < m; ) {
-      if (sgn[r] !== 0 || !(Math.abs(u[r]) > lim)) { r++; continue; }
-      let best = r;
-      let e = r;
-      while (e < m && sgn[e] === 0 && Math.abs(u[e]) > lim) { if (Math.abs(u[e]) > Math.abs(u[best])) best = e; e++; }
-      sgn[best] = u[best] > 0 ? 1 : -1;
-      added = true;
-      r = e;
-    }
+    const added = addViolations(u, sgn, m, lim);
     if (!added) return certify(y, w, lambda, last, true, rounds + 1);
     if (stopGap > 0) {
       // a looser target (cross-validation folds): the first sign-consistent round certified at it is enough
@@ -213,6 +202,30 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     if (c.ok) return c;
   }
   return { ok: false, b: new Float64Array(n), u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
+}
+
+/** The active set's rows (increasing) and signs from sgn (its own function, as a pass over the rows). Unchecked. */
+function activeRows(sgn: Int8Array, m: number, rowsA: number[], sA: number[]): void {
+  for (let r = 0; r < m; r++) if (sgn[r] !== 0) { rowsA.push(r); sA.push(sgn[r]); }
+}
+
+/**
+ * Adds to the active set (sgn) the most violating row of each run of consecutive rows off it with
+ * |u_r| > lim, with the sign of u (its own function, as a pass over the rows); whether any was added.
+ * Unchecked.
+ */
+function addViolations(u: Float64Array, sgn: Int8Array, m: number, lim: number): boolean {
+  let added = false;
+  for (let r = 0; r < m; ) {
+    if (sgn[r] !== 0 || !(Math.abs(u[r]) > lim)) { r++; continue; }
+    let best = r;
+    let e = r;
+    while (e < m && sgn[e] === 0 && Math.abs(u[e]) > lim) { if (Math.abs(u[e]) > Math.abs(u[best])) best = e; e++; }
+    sgn[best] = u[best] > 0 ? 1 : -1;
+    added = true;
+    r = e;
+  }
+  return added;
 }
 
 /**
