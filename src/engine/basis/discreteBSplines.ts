@@ -97,7 +97,6 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const K = rowsA.length;
   const p = K + k + 1;
   const h = (x[n - 1] - x[0]) / (n - 1);
-  const X = (i: number): number => (i < 0 ? x[0] + i * h : i >= n ? x[n - 1] + (i - n + 1) * h : x[i]);
   // extended knot rows: k + 1 phantoms on the left, A, k + 1 phantoms on the right
   const E = new Int32Array(K + 2 * k + 2);
   for (let j = 0; j <= k; j++) { E[j] = j - (k + 1); E[k + 1 + K + j] = m + j; }
@@ -143,23 +142,8 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   // pass 2: a point whose k + 1 windows all repeat, in the same order, keeps its values: runs of
   // such points are copied whole; the slots of the other points are cleared
   const kept = new Uint8Array(n);
-  if (canCopy) {
-    let run = -1;
-    for (let i = 0; i <= n; i++) {
-      let keep = false;
-      if (i < n) {
-        keep = true;
-        const f0 = first[i], g0 = of![i];
-        for (let j = 0; j <= k; j++) {
-          const e = f0 + j;
-          if (e < p ? from[e] !== g0 + j : g0 + j < oldP) { keep = false; break; }
-        }
-      }
-      if (keep) { kept[i] = 1; if (run < 0) run = i; continue; }
-      if (run >= 0) { values.set(ov!.subarray(run * wd, i * wd), run * wd); run = -1; }
-      if (i < n) for (let j = i * wd; j < (i + 1) * wd; j++) values[j] = 0;
-    }
-  } else if (spare) values.fill(0);
+  if (canCopy) keptPoints(first, of!, from, ov!, k, n, p, oldP, values, kept);
+  else if (spare) values.fill(0);
   // pass 3: each window's coefficients, values at the points not kept, and (D B_e) at its knots
   for (let e = 0; e < p; e++) {
     // piece l (l = 0..k) holds the points rho_l < i <= rho_{l+1}; it is one polynomial Q_l on
@@ -173,24 +157,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = op![fe * (k + 2) + q];
       continue;
     }
-    for (let l = 0; l <= k; l++) {
-      const a = X(E[e + l] + 1), b = X(E[e + l + 1] + k);
-      cen[l] = 0.5 * (a + b); half[l] = 0.5 * (b - a);
-    }
-    // conditions: Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1, with Q_{-1} = Q_{k+1} = 0
-    M.fill(0);
-    let row = 0;
-    for (let l = 0; l <= k + 1; l++) {
-      for (let d = 1; d <= k; d++) {
-        const xv = X(E[e + l] + d);
-        const o = row * nu;
-        let big = 0;
-        if (l <= k) { const t = (xv - cen[l]) / half[l]; let v = 1; for (let q = 0; q <= k; q++) { M[o + l * (k + 1) + q] = v; big = Math.max(big, Math.abs(v)); v *= t; } }
-        if (l >= 1) { const t = (xv - cen[l - 1]) / half[l - 1]; let v = 1; for (let q = 0; q <= k; q++) { M[o + (l - 1) * (k + 1) + q] -= v; big = Math.max(big, Math.abs(v)); v *= t; } }
-        for (let j = 0; j < nu; j++) M[o + j] /= big;
-        row++;
-      }
-    }
+    windowConditions(x, n, h, E, e, k, nu, cen, half, M);
     // the band's own elimination first; complete pivoting (on the untouched conditions) when a pivot is too small there
     Mb.set(M);
     if (!bandedNullVector(Mb, nu - 1, nu, k, coef, z) && !nullVector(M, nu - 1, nu, coef, perm, z)) return null;
@@ -273,6 +240,60 @@ function pieceValues(x: Float64Array, k: number, coef: Float64Array, o: number, 
     }
   }
   top[0] = vmax; top[1] = vtop;
+}
+
+/** x_i, extended past both ends at the mean spacing h (phantom knots). Unchecked. */
+function extendedX(x: Float64Array, n: number, h: number, i: number): number {
+  return i < 0 ? x[0] + i * h : i >= n ? x[n - 1] + (i - n + 1) * h : x[i];
+}
+
+/**
+ * Window e's local conditions (its own function: a new window's setup is a fifth of a build's time):
+ * each piece's centre and half-width (cen, half), then in M ((nu - 1) x nu, row-major) the rows
+ * Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1 (Q_{-1} = Q_{k+1} = 0), each
+ * divided by its largest entry. Unchecked.
+ */
+function windowConditions(x: Float64Array, n: number, h: number, E: Int32Array, e: number, k: number, nu: number, cen: Float64Array, half: Float64Array, M: Float64Array): void {
+  for (let l = 0; l <= k; l++) {
+    const a = extendedX(x, n, h, E[e + l] + 1), b = extendedX(x, n, h, E[e + l + 1] + k);
+    cen[l] = 0.5 * (a + b); half[l] = 0.5 * (b - a);
+  }
+  M.fill(0);
+  let row = 0;
+  for (let l = 0; l <= k + 1; l++) {
+    for (let d = 1; d <= k; d++) {
+      const xv = extendedX(x, n, h, E[e + l] + d);
+      const o = row * nu;
+      let big = 0;
+      if (l <= k) { const t = (xv - cen[l]) / half[l]; let v = 1; for (let q = 0; q <= k; q++) { M[o + l * (k + 1) + q] = v; big = Math.max(big, Math.abs(v)); v *= t; } }
+      if (l >= 1) { const t = (xv - cen[l - 1]) / half[l - 1]; let v = 1; for (let q = 0; q <= k; q++) { M[o + (l - 1) * (k + 1) + q] -= v; big = Math.max(big, Math.abs(v)); v *= t; } }
+      for (let j = 0; j < nu; j++) M[o + j] /= big;
+      row++;
+    }
+  }
+}
+
+/**
+ * Pass 2 of a build with the last build's arrays (ov, of): a point whose k + 1 windows all repeat
+ * (`from`), in the same order, keeps its values (kept[i] = 1, copied); the slots of the other points
+ * are cleared. Unchecked.
+ */
+function keptPoints(first: Int32Array, of: Int32Array, from: Int32Array, ov: Float64Array, k: number, n: number, p: number, oldP: number, values: Float64Array, kept: Uint8Array): void {
+  const wd = k + 1;
+  // points whose first windows, new and old, are both the same share the answer: decided once per stretch
+  for (let i = 0; i < n; ) {
+    const f0 = first[i], g0 = of[i];
+    let end = i + 1;
+    while (end < n && first[end] === f0 && of[end] === g0) end++;
+    let keep = true;
+    for (let j = 0; j <= k; j++) {
+      const e = f0 + j;
+      if (e < p ? from[e] !== g0 + j : g0 + j < oldP) { keep = false; break; }
+    }
+    if (keep) { kept.fill(1, i, end); values.set(ov.subarray(i * wd, end * wd), i * wd); }
+    else values.fill(0, i * wd, end * wd);
+    i = end;
+  }
 }
 
 /** Window e's values on points i0..i1 times iv. Unchecked. */
