@@ -139,8 +139,8 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   // every build with a cache stores its values, first and penalty: a last build on the same x has them
   const ov = old?.values, of = old?.first, op = old?.penalty, oldP = old ? old.ext.length - k - 1 : 0;
   const canCopy = !!(ov && of && op);
-  // pass 2: a point whose k + 1 windows all repeat, in the same order, keeps its values: runs of
-  // such points are copied whole; the slots of the other points are cleared
+  // pass 2: a point whose k + 1 windows all repeat, in the same order, keeps its values (copied by
+  // stretches of points that share their first windows); the slots of the other points are cleared
   const kept = new Uint8Array(n);
   if (canCopy) keptPoints(first, of!, from, ov!, k, n, p, oldP, values, kept);
   else if (spare) values.fill(0);
@@ -248,7 +248,7 @@ function extendedX(x: Float64Array, n: number, h: number, i: number): number {
 }
 
 /**
- * Window e's local conditions (its own function: a new window's setup is a fifth of a build's time):
+ * Window e's local conditions (its own function, so that the first call's compiler works on a small body):
  * each piece's centre and half-width (cen, half), then in M ((nu - 1) x nu, row-major) the rows
  * Q_{l-1} = Q_l at x_{rho_l + 1} .. x_{rho_l + k} for l = 0..k+1 (Q_{-1} = Q_{k+1} = 0), each
  * divided by its largest entry. Unchecked.

@@ -18,10 +18,10 @@
  */
 import type { Series } from '../series';
 import type { CriterionPoint, NoiseAssumption } from '../types';
-import { trendScaling, toDataPenalty, TrendScaling } from '../smoothers/trend/trendScaling';
+import { trendScaling, toDataPenalty, toDataValues, TrendScaling } from '../smoothers/trend/trendScaling';
 import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } from '../smoothers/trend/solveTrend';
 import { interpolateTrend } from '../smoothers/trend/interpolateTrend';
-import { CV_TOLERANCE, foldGuess } from '../smoothers/trend/trendPath';
+import { CV_TOLERANCE, foldGuess, trainingPositions } from '../smoothers/trend/trendPath';
 import { crossValidate } from '../select/crossValidate';
 import { foldPlan } from '../select/noiseDependence';
 import { choosePenalty } from '../select/choosePenalty';
@@ -105,8 +105,7 @@ export function trendPenaltySearch(series: Series, s: TrendPenaltySearchSettings
   const foldOf = (tr: Int32Array, te: Int32Array): FoldState => {
     let f = folds.get(te[0]);
     if (f) return f;
-    const below = new Int32Array(n);
-    for (let i = 0, t = -1, a = 0; i < n; i++) { if (a < tr.length && tr[a] === i) { t++; a++; } below[i] = t; }
+    const below = trainingPositions(tr, n);
     let swt = 0;
     for (const i of tr) swt += sc.ws[i];
     f = {
@@ -131,7 +130,7 @@ export function trendPenaltySearch(series: Series, s: TrendPenaltySearchSettings
       const ff = solveTrend(f.prob, grid[j] * f.share, { tolerance: Math.max(s.tolerance, CV_TOLERANCE), maxIterations: s.maxIterations, warm: f.last, refine: false, guess: foldGuess(seed, f.below, k, f.prob.x.length) });
       f.last = ff;
       const pred = interpolateTrend(f.prob.x, ff.b, k, f.xh).value;
-      for (let i = 0; i < pred.length; i++) pred[i] = sc.y0 + sc.c * pred[i];
+      toDataValues(pred, sc);
       return [pred];
     }, undefined, undefined, plan);
     score.push(cv.score[0]);

@@ -230,21 +230,20 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
   const { warm, guess, refine = true, tolerance } = ctx.opt;
   const { prob, lambda, f } = ctx;
   if (prob.k < 1) return undefined;
-  let rows: ArrayLike<number>, signs: ArrayLike<number>;
-  if (guess) { rows = guess.rows; signs = guess.signs; }
-  else if (warm && warm.status.converged) { rows = warm.knotRows; signs = warm.knotRows.map((r) => (warm.u[r] >= 0 ? 1 : -1)); }
-  else return undefined;
+  const start = guess ?? (warm && warm.status.converged ? seedOf(warm) : undefined);
+  if (!start) return undefined;
+  const { rows, signs } = start;
   const asn = activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, WARM_NEWTON_PATIENCE[prob.k], true);
   ctx.iterations += asn.rounds;
   let pol = asn.fit;
   // cycling among a few rows: the monotone refinement finishes from the last active set
-  if (!(pol && pol.ok && pol.achieved <= tolerance)) {
+  if (!(pol && certifiedAt(pol, tolerance))) {
     // orders 2 and 3: knots move further between penalties and between the full data and a fold
     // (measured: 60 to 200 rounds from the previous knots at n = 1e4, about 3 per knot)
     const maxRounds = prob.k === 1 ? WARM_POLISH_ROUNDS : WARM_POLISH_ROUNDS_HIGHER + 3 * rows.length;
     pol = refineFromKnots(ctx, asn.rows, asn.signs, maxRounds, refine ? 0 : tolerance);
   }
-  return pol && pol.ok && pol.achieved <= tolerance ? refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds, undefined, WARM_RULE) : undefined;
+  return pol && certifiedAt(pol, tolerance) ? refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds, undefined, WARM_RULE) : undefined;
 }
 
 /**
@@ -314,9 +313,7 @@ function exactFit(prob: TrendProblem, lambda: number, tolerance: number): TrendF
   }
   // at or above lambda_max the weighted polynomial fit is the exact solution
   const poly = polynomialOf(prob);
-  if (lambda >= poly.lambdaMax) {
-    return { b: Float64Array.from(poly.b), u: Float64Array.from(poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
-  }
+  if (lambda >= poly.lambdaMax) return polynomialFit(poly, lambda, tolerance);
   return undefined;
 }
 
@@ -349,10 +346,14 @@ function refineFromKnots(ctx: SolveContext, rows: ArrayLike<number>, signs: Arra
 
 /** Strategy 2: an exact fit known by its knots (a path point), rebuilt in a round or two. Unchecked. */
 function fromSeed(ctx: SolveContext): TrendFit | undefined {
-  const { seed, refine = true, tolerance } = ctx.opt;
-  if (!seed || !refine) return undefined;
-  const pol = refineFromKnots(ctx, seed.rows, seed.signs);
-  return pol.ok && pol.achieved <= tolerance ? refinedFit(pol, ctx.f, ctx.lambda, tolerance, ctx.iterations - pol.rounds, undefined, ACTIVE_SET_RULE) : undefined;
+  const { seed, refine = true } = ctx.opt;
+  return seed && refine ? fromKnots(ctx, seed) : undefined;
+}
+
+/** The refinement of {@link polishTrend} from knots and signs (at most `maxRounds` rounds), kept when certified at the tolerance. Unchecked. */
+function fromKnots(ctx: SolveContext, seed: KnotSeed, maxRounds?: number): TrendFit | undefined {
+  const pol = refineFromKnots(ctx, seed.rows, seed.signs, maxRounds);
+  return certifiedAt(pol, ctx.opt.tolerance) ? refinedFit(pol, ctx.f, ctx.lambda, ctx.opt.tolerance, ctx.iterations - pol.rounds, undefined, ACTIVE_SET_RULE) : undefined;
 }
 
 /**
@@ -390,7 +391,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     if (asn.settled) {
       // the settled round comes certified; a refinement round only when its certificate failed
       pol = asn.fit ?? refineFromKnots(ctx, asn.rows, asn.signs);
-      if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations);
+      if (certifiedAt(pol, tolerance)) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations);
     }
     return { b: sol.b, u: sol.u, lambda, knotRows: rows, status: { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE } };
   }
@@ -414,12 +415,14 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     const ua = new Float64Array(admm.u.length);
     for (let r = 0; r < ua.length; r++) ua[r] = admm.u[r] / f;
     pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, ua, undefined, admm.knots, cache));
-    if (pol.ok && pol.achieved <= tolerance) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations + admmIterations, admm.state);
+    if (certifiedAt(pol, tolerance)) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations + admmIterations, admm.state);
   }
   // each fallback below runs only while no answer is certified at the tolerance (a refinement that
   // stopped early may still be ok with a larger gap: the best such answer is kept for the end)
-  const certified = (p: PolishResult) => p.ok && p.achieved <= tolerance;
-  if (!certified(pol) && sol.status.achieved < INTERIOR_USEFUL_GAP) pol = better(pol, counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, undefined, cache)));
+  const certified = (p: PolishResult) => certifiedAt(p, tolerance);
+  // the refinement from a stalled interior point's dual, unless it made no progress
+  const fromInterior = (): PolishResult => (sol.status.achieved < INTERIOR_USEFUL_GAP ? counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, undefined, cache)) : pol);
+  if (!certified(pol)) pol = better(pol, fromInterior());
   if (!certified(pol) && warm && !ctx.cold) {
     // a warm start can stall where a cold one does not
     const cold = trendDualInteriorPoint(prob.op, y, lambda, tolerance, maxIterations);
@@ -428,14 +431,14 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     sol = { ...sol, status: { ...sol.status, iterations: iters } };
     if (!sol.status.converged) {
       for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
-      pol = better(pol, counted(ctx, polishTrend(x01, y, w, k, lambda / f, u01, undefined, undefined, cache)));
+      pol = better(pol, fromInterior());
     }
   }
   if (!certified(pol) && !sol.status.converged) {
     // the interior-point dual is unreliable here (see its limitation note): restart the
     // active-set refinement from the previous penalty's knots, then warm starts over a halved
     // step, then the active-set method from the polynomial fit
-    if (warm && warm.knotRows.length) pol = better(pol, refineFromKnots(ctx, warm.knotRows, warm.knotRows.map((r) => (warm.u[r] >= 0 ? 1 : -1))));
+    if (warm && warm.knotRows.length) { const seed = seedOf(warm); pol = better(pol, refineFromKnots(ctx, seed.rows, seed.signs)); }
     const restart = certified(pol) ? undefined : fromHalvedStep(ctx, HALVINGS) ?? fromPolynomial(ctx);
     if (restart) return { ...restart, status: { ...restart.status, iterations: restart.status.iterations + sol.status.iterations } };
   }
@@ -451,6 +454,11 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
   }
   const knotRows = knotRowsOf(prob, sol.b, sol.u, lambda);
   return { b: sol.b, u: sol.u, lambda, knotRows, status: { ...sol.status, iterations: spent, stoppingRule: TREND_RULE } };
+}
+
+/** Whether a refinement is certified at the tolerance. Unchecked. */
+function certifiedAt(pol: PolishResult, tolerance: number): boolean {
+  return pol.ok && pol.achieved <= tolerance;
 }
 
 /** Of two refinements, the one with an answer and the smaller certified gap (`a` on a tie). Unchecked. */
@@ -483,17 +491,15 @@ function counted(ctx: SolveContext, pol: PolishResult): PolishResult {
 function fromPolynomial(ctx: SolveContext): TrendFit | undefined {
   const { lambda, poly } = ctx;
   if (!(poly.lambdaMax > lambda)) return undefined;
-  const start: TrendFit = { b: poly.b, u: poly.u, lambda: poly.lambdaMax, knotRows: [], status: { converged: true, iterations: 0, tolerance: ctx.opt.tolerance, achieved: 0, stoppingRule: POLY_RULE } };
-  const c: SolveContext = { ...ctx, opt: { ...ctx.opt, warm: start, guess: undefined, seed: undefined }, iterations: 0 };
-  const fit = fromWarmActiveSet(c) ?? fromKnotsOf(c, start, FROM_POLYNOMIAL_ROUNDS);
+  const c: SolveContext = { ...ctx, opt: { ...ctx.opt, warm: polynomialFit(poly, poly.lambdaMax, ctx.opt.tolerance), guess: undefined, seed: undefined }, iterations: 0 };
+  const fit = fromWarmActiveSet(c) ?? fromKnots(c, { rows: [], signs: [] }, FROM_POLYNOMIAL_ROUNDS);
   ctx.iterations += c.iterations;
   return fit && { ...fit, status: { ...fit.status, iterations: ctx.iterations, stoppingRule: FROM_POLYNOMIAL_RULE } };
 }
 
-/** The refinement of {@link polishTrend} from a fit's knots (at most `maxRounds` rounds), kept when certified at the tolerance. Unchecked. */
-function fromKnotsOf(ctx: SolveContext, from: TrendFit, maxRounds?: number): TrendFit | undefined {
-  const pol = refineFromKnots(ctx, from.knotRows, from.knotRows.map((r) => (from.u[r] >= 0 ? 1 : -1)), maxRounds);
-  return pol.ok && pol.achieved <= ctx.opt.tolerance ? refinedFit(pol, ctx.f, ctx.lambda, ctx.opt.tolerance, ctx.iterations - pol.rounds, undefined, ACTIVE_SET_RULE) : undefined;
+/** The weighted polynomial fit as the exact {@link TrendFit} at a penalty at or above lambda_max (copies of b and u). Unchecked. */
+function polynomialFit(poly: PolynomialDual, lambda: number, tolerance: number): TrendFit {
+  return { b: Float64Array.from(poly.b), u: Float64Array.from(poly.u), lambda, knotRows: [], status: { converged: true, iterations: 0, tolerance, achieved: 0, stoppingRule: POLY_RULE } };
 }
 
 /** The weighted polynomial fit of degree k, its dual and lambda_max for `prob`, computed once. Unchecked. */

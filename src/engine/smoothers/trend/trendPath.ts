@@ -5,7 +5,7 @@
  */
 import type { Series } from '../../series';
 import type { SolverStatus, NoiseAssumption } from '../../types';
-import { trendScaling, toDataPenalty, TrendScaling } from './trendScaling';
+import { trendScaling, toDataPenalty, toDataValues, TrendScaling } from './trendScaling';
 import { solveTrend, polynomialOf, seedOf, KnotSeed, TrendFit, TrendProblem } from './solveTrend';
 import { interpolateTrend } from './interpolateTrend';
 import { regressionSplineRefit, evaluateRegressionSpline } from './regressionSplineRefit';
@@ -155,6 +155,17 @@ export function relaxFit(x: Float64Array, y: Float64Array, w: Float64Array, k: n
 }
 
 /**
+ * The training position of each point of a fold: below[i] = the number of training points (sorted
+ * rows `tr`) with index <= i, minus 1 ({@link foldGuess}'s input). One pass over the n points, in a
+ * function of its own so that the first call's compiler works on a small body. Unchecked.
+ */
+export function trainingPositions(tr: Int32Array, n: number): Int32Array {
+  const below = new Int32Array(n);
+  for (let i = 0, t = -1, a = 0; i < n; i++) { if (a < tr.length && tr[a] === i) { t++; a++; } below[i] = t; }
+  return below;
+}
+
+/**
  * The full-data fit's knots mapped to a fold's training points (knot row r sits at point r + k;
  * its training row is the last training point at or before it, minus k), duplicates dropped:
  * the start of the fold's active-set method at the same penalty. Unchecked.
@@ -263,7 +274,6 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
       let kept = foldFits.get(te[0]);
       if (!kept) foldFits.set(te[0], kept = new Array(G));
       const out: Float64Array[] = [];
-      // training position of each point: below[i] = training points with index <= i, minus 1
       const below = trainingPositions(tr, n);
       for (let q = 0; q < pens.length; q++) {
         const j = scoring[q];
@@ -288,7 +298,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
           for (let i = 0; i < pred.length; i++) pred[i] = s.relaxed * pr[i] + (1 - s.relaxed) * pred[i];
         }
         // back to the units of y, as every method's cross-validation reports
-        toDataUnits(pred, sc.y0, sc.c);
+        toDataValues(pred, sc);
         out.push(pred);
       }
       return out;
@@ -316,19 +326,4 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   pts.reverse();
   const from = solved.indexOf(foldFrom);
   return { points: pts, lambdaMax: toDataPenalty(lmax, sc), sigmaNoise, scaledGrid: Float64Array.from(solved, (j) => grid[j]), scaling: sc, problem: prob, ...(from >= 0 ? { foldInteriorFrom: from } : {}) };
-}
-
-// Passes over the points of a fold, each its own function (the first call's compiler then works on
-// small bodies, not on the whole fold's closure once per loop). Unchecked.
-
-/** below[i] = the number of training points (sorted rows `tr`) with index <= i, minus 1. Unchecked. */
-function trainingPositions(tr: Int32Array, n: number): Int32Array {
-  const below = new Int32Array(n);
-  for (let i = 0, t = -1, a = 0; i < n; i++) { if (a < tr.length && tr[a] === i) { t++; a++; } below[i] = t; }
-  return below;
-}
-
-/** v = y0 + c v in place (scaled values back to the units of y). Unchecked. */
-function toDataUnits(v: Float64Array, y0: number, c: number): void {
-  for (let i = 0; i < v.length; i++) v[i] = y0 + c * v[i];
 }

@@ -40,6 +40,11 @@ export function toScaledPenalty(lambda: number, s: TrendScaling): number {
   return lambda / (s.m * s.c * Math.pow(s.h, s.k));
 }
 
+/** Scaled values -> the data's units, in place (v = y0 + c v). Unchecked. */
+export function toDataValues(v: Float64Array, s: TrendScaling): void {
+  for (let i = 0; i < v.length; i++) v[i] = s.y0 + s.c * v[i];
+}
+
 /** lambda in scaled units -> the data's units. */
 export function toDataPenalty(lambdaScaled: number, s: TrendScaling): number {
   return lambdaScaled * s.m * s.c * Math.pow(s.h, s.k);
