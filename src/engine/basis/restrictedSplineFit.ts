@@ -78,32 +78,51 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
 // The passes over the points, each its own function: the first call's compiler then works on small
 // bodies instead of compiling the whole solve once per loop while it runs. Unchecked.
 
-/** Adds B^T W B (lower band, width k + 1 per row) to `band` and B^T W y to `rhs`. Unchecked. */
+/**
+ * Adds B^T W B (lower band, width k + 1 per row) to `band` and B^T W y to `rhs`. For k = 3 and 2 the
+ * points are taken by stretches with the same first basis function (between knots, most of them):
+ * the stretch's band and right-hand entries are carried in locals, read before the stretch and written
+ * after it, so each entry receives the same additions in the same order as point by point (identical
+ * sums) without a load and store per point. Unchecked.
+ */
 function normalEquations(first: Int32Array, values: Float64Array, w: Float64Array, y: Float64Array, k: number, n: number, band: Float64Array, rhs: Float64Array): void {
   const wd = k + 1;
   if (k === 3) {
-    // the loop below written out for k = 3 (most of the work of an active-set round)
-    for (let i = 0; i < n; i++) {
-      const e0 = first[i], o = 4 * i, wi = w[i], wyi = wi * y[i];
-      const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2], v3 = values[o + 3];
-      const w0 = wi * v0, w1 = wi * v1, w2 = wi * v2, w3 = wi * v3;
-      rhs[e0] += wyi * v0; rhs[e0 + 1] += wyi * v1; rhs[e0 + 2] += wyi * v2; rhs[e0 + 3] += wyi * v3;
-      const b0 = 4 * e0;
-      band[b0] += w0 * v0;
-      band[b0 + 4] += w1 * v1; band[b0 + 5] += w1 * v0;
-      band[b0 + 8] += w2 * v2; band[b0 + 9] += w2 * v1; band[b0 + 10] += w2 * v0;
-      band[b0 + 12] += w3 * v3; band[b0 + 13] += w3 * v2; band[b0 + 14] += w3 * v1; band[b0 + 15] += w3 * v0;
+    for (let i = 0; i < n; ) {
+      const e0 = first[i], b0 = 4 * e0;
+      let r0 = rhs[e0], r1 = rhs[e0 + 1], r2 = rhs[e0 + 2], r3 = rhs[e0 + 3];
+      let a0 = band[b0], a4 = band[b0 + 4], a5 = band[b0 + 5], a8 = band[b0 + 8], a9 = band[b0 + 9], a10 = band[b0 + 10];
+      let a12 = band[b0 + 12], a13 = band[b0 + 13], a14 = band[b0 + 14], a15 = band[b0 + 15];
+      for (; i < n && first[i] === e0; i++) {
+        const o = 4 * i, wi = w[i], wyi = wi * y[i];
+        const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2], v3 = values[o + 3];
+        const w0 = wi * v0, w1 = wi * v1, w2 = wi * v2, w3 = wi * v3;
+        r0 += wyi * v0; r1 += wyi * v1; r2 += wyi * v2; r3 += wyi * v3;
+        a0 += w0 * v0;
+        a4 += w1 * v1; a5 += w1 * v0;
+        a8 += w2 * v2; a9 += w2 * v1; a10 += w2 * v0;
+        a12 += w3 * v3; a13 += w3 * v2; a14 += w3 * v1; a15 += w3 * v0;
+      }
+      rhs[e0] = r0; rhs[e0 + 1] = r1; rhs[e0 + 2] = r2; rhs[e0 + 3] = r3;
+      band[b0] = a0; band[b0 + 4] = a4; band[b0 + 5] = a5; band[b0 + 8] = a8; band[b0 + 9] = a9; band[b0 + 10] = a10;
+      band[b0 + 12] = a12; band[b0 + 13] = a13; band[b0 + 14] = a14; band[b0 + 15] = a15;
     }
   } else if (k === 2) {
-    for (let i = 0; i < n; i++) {
-      const e0 = first[i], o = 3 * i, wi = w[i], wyi = wi * y[i];
-      const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2];
-      const w0 = wi * v0, w1 = wi * v1, w2 = wi * v2;
-      rhs[e0] += wyi * v0; rhs[e0 + 1] += wyi * v1; rhs[e0 + 2] += wyi * v2;
-      const b0 = 3 * e0;
-      band[b0] += w0 * v0;
-      band[b0 + 3] += w1 * v1; band[b0 + 4] += w1 * v0;
-      band[b0 + 6] += w2 * v2; band[b0 + 7] += w2 * v1; band[b0 + 8] += w2 * v0;
+    for (let i = 0; i < n; ) {
+      const e0 = first[i], b0 = 3 * e0;
+      let r0 = rhs[e0], r1 = rhs[e0 + 1], r2 = rhs[e0 + 2];
+      let a0 = band[b0], a3 = band[b0 + 3], a4 = band[b0 + 4], a6 = band[b0 + 6], a7 = band[b0 + 7], a8 = band[b0 + 8];
+      for (; i < n && first[i] === e0; i++) {
+        const o = 3 * i, wi = w[i], wyi = wi * y[i];
+        const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2];
+        const w0 = wi * v0, w1 = wi * v1, w2 = wi * v2;
+        r0 += wyi * v0; r1 += wyi * v1; r2 += wyi * v2;
+        a0 += w0 * v0;
+        a3 += w1 * v1; a4 += w1 * v0;
+        a6 += w2 * v2; a7 += w2 * v1; a8 += w2 * v0;
+      }
+      rhs[e0] = r0; rhs[e0 + 1] = r1; rhs[e0 + 2] = r2;
+      band[b0] = a0; band[b0 + 3] = a3; band[b0 + 4] = a4; band[b0 + 6] = a6; band[b0 + 7] = a7; band[b0 + 8] = a8;
     }
   } else {
     for (let i = 0; i < n; i++) {
@@ -118,22 +137,34 @@ function normalEquations(first: Int32Array, values: Float64Array, w: Float64Arra
   }
 }
 
-/** res += B^T W (y - B c) (res zeroed by the caller). Unchecked. */
+/** res += B^T W (y - B c) (res zeroed by the caller); by stretches of points with the same first basis function for k = 3 and 2, as in {@link normalEquations} (identical sums). Unchecked. */
 function residualNormalEquations(first: Int32Array, values: Float64Array, w: Float64Array, y: Float64Array, c: Float64Array, k: number, n: number, res: Float64Array): void {
   const wd = k + 1;
   if (k === 3) {
-    for (let i = 0; i < n; i++) {
-      const e0 = first[i], o = 4 * i;
-      const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2], v3 = values[o + 3];
-      const gi = w[i] * (y[i] - (v0 * c[e0] + v1 * c[e0 + 1] + v2 * c[e0 + 2] + v3 * c[e0 + 3]));
-      res[e0] += v0 * gi; res[e0 + 1] += v1 * gi; res[e0 + 2] += v2 * gi; res[e0 + 3] += v3 * gi;
+    for (let i = 0; i < n; ) {
+      const e0 = first[i];
+      const c0 = c[e0], c1 = c[e0 + 1], c2 = c[e0 + 2], c3 = c[e0 + 3];
+      let r0 = res[e0], r1 = res[e0 + 1], r2 = res[e0 + 2], r3 = res[e0 + 3];
+      for (; i < n && first[i] === e0; i++) {
+        const o = 4 * i;
+        const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2], v3 = values[o + 3];
+        const gi = w[i] * (y[i] - (v0 * c0 + v1 * c1 + v2 * c2 + v3 * c3));
+        r0 += v0 * gi; r1 += v1 * gi; r2 += v2 * gi; r3 += v3 * gi;
+      }
+      res[e0] = r0; res[e0 + 1] = r1; res[e0 + 2] = r2; res[e0 + 3] = r3;
     }
   } else if (k === 2) {
-    for (let i = 0; i < n; i++) {
-      const e0 = first[i], o = 3 * i;
-      const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2];
-      const gi = w[i] * (y[i] - (v0 * c[e0] + v1 * c[e0 + 1] + v2 * c[e0 + 2]));
-      res[e0] += v0 * gi; res[e0 + 1] += v1 * gi; res[e0 + 2] += v2 * gi;
+    for (let i = 0; i < n; ) {
+      const e0 = first[i];
+      const c0 = c[e0], c1 = c[e0 + 1], c2 = c[e0 + 2];
+      let r0 = res[e0], r1 = res[e0 + 1], r2 = res[e0 + 2];
+      for (; i < n && first[i] === e0; i++) {
+        const o = 3 * i;
+        const v0 = values[o], v1 = values[o + 1], v2 = values[o + 2];
+        const gi = w[i] * (y[i] - (v0 * c0 + v1 * c1 + v2 * c2));
+        r0 += v0 * gi; r1 += v1 * gi; r2 += v2 * gi;
+      }
+      res[e0] = r0; res[e0 + 1] = r1; res[e0 + 2] = r2;
     }
   } else {
     for (let i = 0; i < n; i++) {
@@ -146,13 +177,17 @@ function residualNormalEquations(first: Int32Array, values: Float64Array, w: Flo
   }
 }
 
-/** b = B c. Unchecked. */
+/** b = B c (by stretches of points with the same first basis function for k = 3: its coefficients read once). Unchecked. */
 function basisCombination(first: Int32Array, values: Float64Array, c: Float64Array, k: number, n: number, b: Float64Array): void {
   const wd = k + 1;
   if (k === 3) {
-    for (let i = 0; i < n; i++) {
-      const e0 = first[i], o = 4 * i;
-      b[i] = values[o] * c[e0] + values[o + 1] * c[e0 + 1] + values[o + 2] * c[e0 + 2] + values[o + 3] * c[e0 + 3];
+    for (let i = 0; i < n; ) {
+      const e0 = first[i];
+      const c0 = c[e0], c1 = c[e0 + 1], c2 = c[e0 + 2], c3 = c[e0 + 3];
+      for (; i < n && first[i] === e0; i++) {
+        const o = 4 * i;
+        b[i] = values[o] * c0 + values[o + 1] * c1 + values[o + 2] * c2 + values[o + 3] * c3;
+      }
     }
   } else {
     for (let i = 0; i < n; i++) {

@@ -11,16 +11,30 @@
  * @returns u and `inconsistency`: the largest unmatched equation of each
  *   level relative to the largest |g| (0 for g exactly in the range).
  * `work` (length >= n, optional) is used as work space instead of a new array; `out` (length
- * n - q, optional) receives u instead of a new array. For q = 2 (order 1, the most frequent call
- * of the active-set methods) both levels run in one pass with the same operations in the same
- * order (identical results, half the time). Carrying every level through one pass for any q was
- * measured too (identical results), and was 1.6 to 2 times slower than these loops: its running
- * sums live in small arrays indexed by level instead of in registers.
+ * n - q, optional) receives u instead of a new array. For q = 2, 3 and 4 (orders 1 to 3, every
+ * round of the active-set methods) all levels run in one pass with the same operations in the same
+ * order (identical results): each level's running sum is a pair of locals, and the levels' chains
+ * of additions overlap (there |.| is Math.abs and a level's largest |sum| is kept by a comparison:
+ * the same values; NaN reaches the result through the last sum either way). Measured at n = 1e4,
+ * q = 4: 0.13 to 0.19 ms a call level by level against 0.095 ms in one pass. Carrying every level through one pass for any q with the running sums in small
+ * arrays indexed by level was measured too (identical results), and was 1.6 to 2 times slower
+ * than the level-by-level loops. The level-by-level loops stay for other q and very short x.
  * Unchecked.
  */
 export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number>, work?: Float64Array, out?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
   if (q === 2 && n >= 3) return dualFromResidual2(x, g, out);
+  if (q === 3 && n >= 5) return dualFromResidual3(x, g, out);
+  if (q === 4 && n >= 6) return dualFromResidual4(x, g, out);
+  return dualFromResidualByLevel(x, q, g, work, out);
+}
+
+/**
+ * {@link dualFromResidual} level by level, for any q: the reference of the one-pass kernels (the
+ * same operations in the same order; its tests compare them bit for bit). Unchecked.
+ */
+export function dualFromResidualByLevel(x: Float64Array, q: number, g: ArrayLike<number>, work?: Float64Array, out?: Float64Array): { u: Float64Array; inconsistency: number } {
+  const n = x.length;
   // one buffer, updated in place level by level: entry i of a level depends on entries 0..i of
   // the level before, read before they are overwritten
   const v = work && work.length >= n ? work : new Float64Array(n);
@@ -104,4 +118,94 @@ function dualFromResidual2(x: Float64Array, g: ArrayLike<number>, out?: Float64A
   const miss1 = Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300);
   const miss2 = Math.abs(z2 - s1) / Math.max(gmax, zmax2, 1e-300);
   return { u, inconsistency: Math.max(miss1, miss2) };
+}
+
+/**
+ * {@link dualFromResidual} for q = 3 in one pass (n >= 5): at point i, level 1's entry (the
+ * compensated running sum of -g) times x_{i+1} - x_i feeds level 2's running sum, whose entry times
+ * (x_{i+2} - x_i) / 2 feeds level 3's; level s has entries 0 .. n - s - 1, and its unmatched
+ * equation compares its last sum with its next input (at i = n - s). The same operations in the same
+ * order as the level-by-level loops. Unchecked.
+ */
+function dualFromResidual3(x: Float64Array, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
+  const n = x.length;
+  const u = out && out.length === n - 3 ? out : new Float64Array(n - 3);
+  let gmax = 0;
+  for (let i = 0; i < n; i++) { const gi = g[i]; gmax = Math.max(gmax, gi < 0 ? -gi : gi); }
+  let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, acc3 = 0, comp3 = 0;
+  let zmax1 = 0, zmax2 = 0, zmax3 = 0, z1 = 0, z2 = 0, z3 = 0, last2 = 0, last3 = 0;
+  for (let i = 0; i < n - 1; i++) {
+    const a1 = g[i];
+    const t1 = acc1 - a1;
+    comp1 += Math.abs(acc1) >= Math.abs(a1) ? (acc1 - t1) - a1 : (-a1 - t1) + acc1;
+    acc1 = t1;
+    z1 = acc1 + comp1;
+    { const az = Math.abs(z1); if (az > zmax1) zmax1 = az; }
+    const a2 = z1 * ((x[i + 1] - x[i]) / 1);
+    if (i === n - 2) { last2 = a2; break; }
+    const t2 = acc2 - a2;
+    comp2 += Math.abs(acc2) >= Math.abs(a2) ? (acc2 - t2) - a2 : (-a2 - t2) + acc2;
+    acc2 = t2;
+    z2 = acc2 + comp2;
+    { const az = Math.abs(z2); if (az > zmax2) zmax2 = az; }
+    const a3 = z2 * ((x[i + 2] - x[i]) / 2);
+    if (i === n - 3) { last3 = a3; continue; }
+    const t3 = acc3 - a3;
+    comp3 += Math.abs(acc3) >= Math.abs(a3) ? (acc3 - t3) - a3 : (-a3 - t3) + acc3;
+    acc3 = t3;
+    z3 = acc3 + comp3;
+    { const az = Math.abs(z3); if (az > zmax3) zmax3 = az; }
+    u[i] = z3;
+  }
+  let worst = 0;
+  worst = Math.max(worst, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
+  worst = Math.max(worst, Math.abs(z2 - last2) / Math.max(gmax, zmax2, 1e-300));
+  worst = Math.max(worst, Math.abs(z3 - last3) / Math.max(gmax, zmax3, 1e-300));
+  return { u, inconsistency: worst };
+}
+
+/** {@link dualFromResidual} for q = 4 in one pass (n >= 6), as {@link dualFromResidual3} with a fourth level (times (x_{i+3} - x_i) / 3). Unchecked. */
+function dualFromResidual4(x: Float64Array, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
+  const n = x.length;
+  const u = out && out.length === n - 4 ? out : new Float64Array(n - 4);
+  let gmax = 0;
+  for (let i = 0; i < n; i++) { const gi = g[i]; gmax = Math.max(gmax, gi < 0 ? -gi : gi); }
+  let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, acc3 = 0, comp3 = 0, acc4 = 0, comp4 = 0;
+  let zmax1 = 0, zmax2 = 0, zmax3 = 0, zmax4 = 0, z1 = 0, z2 = 0, z3 = 0, z4 = 0, last2 = 0, last3 = 0, last4 = 0;
+  for (let i = 0; i < n - 1; i++) {
+    const a1 = g[i];
+    const t1 = acc1 - a1;
+    comp1 += Math.abs(acc1) >= Math.abs(a1) ? (acc1 - t1) - a1 : (-a1 - t1) + acc1;
+    acc1 = t1;
+    z1 = acc1 + comp1;
+    { const az = Math.abs(z1); if (az > zmax1) zmax1 = az; }
+    const a2 = z1 * ((x[i + 1] - x[i]) / 1);
+    if (i === n - 2) { last2 = a2; break; }
+    const t2 = acc2 - a2;
+    comp2 += Math.abs(acc2) >= Math.abs(a2) ? (acc2 - t2) - a2 : (-a2 - t2) + acc2;
+    acc2 = t2;
+    z2 = acc2 + comp2;
+    { const az = Math.abs(z2); if (az > zmax2) zmax2 = az; }
+    const a3 = z2 * ((x[i + 2] - x[i]) / 2);
+    if (i === n - 3) { last3 = a3; continue; }
+    const t3 = acc3 - a3;
+    comp3 += Math.abs(acc3) >= Math.abs(a3) ? (acc3 - t3) - a3 : (-a3 - t3) + acc3;
+    acc3 = t3;
+    z3 = acc3 + comp3;
+    { const az = Math.abs(z3); if (az > zmax3) zmax3 = az; }
+    const a4 = z3 * ((x[i + 3] - x[i]) / 3);
+    if (i === n - 4) { last4 = a4; continue; }
+    const t4 = acc4 - a4;
+    comp4 += Math.abs(acc4) >= Math.abs(a4) ? (acc4 - t4) - a4 : (-a4 - t4) + acc4;
+    acc4 = t4;
+    z4 = acc4 + comp4;
+    { const az = Math.abs(z4); if (az > zmax4) zmax4 = az; }
+    u[i] = z4;
+  }
+  let worst = 0;
+  worst = Math.max(worst, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
+  worst = Math.max(worst, Math.abs(z2 - last2) / Math.max(gmax, zmax2, 1e-300));
+  worst = Math.max(worst, Math.abs(z3 - last3) / Math.max(gmax, zmax3, 1e-300));
+  worst = Math.max(worst, Math.abs(z4 - last4) / Math.max(gmax, zmax4, 1e-300));
+  return { u, inconsistency: worst };
 }
