@@ -27,6 +27,7 @@ export const LINEAR_REFINEMENT_STEPS = 1;
  * @param rowsA - knot rows, strictly increasing, in 0 .. n - 3
  * @param sA - their signs
  * @param out - optional array of length n that receives the fitted values (then returned as `b`)
+ * @param steps - steps of iterative refinement (default {@link LINEAR_REFINEMENT_STEPS})
  * @returns fitted values and (D b) on the rows of A, or null when the system is singular
  * @example
  * ```ts
@@ -35,7 +36,7 @@ export const LINEAR_REFINEMENT_STEPS = 1;
  * ```
  * Unchecked.
  */
-export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64Array, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, out?: Float64Array): { b: Float64Array; dA: Float64Array } | null {
+export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64Array, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, out?: Float64Array, steps = LINEAR_REFINEMENT_STEPS): { b: Float64Array; dA: Float64Array } | null {
   const n = x.length;
   const K = rowsA.length;
   const p = K + 2;
@@ -62,7 +63,7 @@ export function restrictedLinearFit(x: Float64Array, y: Float64Array, w: Float64
   const c = Float64Array.from(rhs);
   bandedCholeskySolve(band, p, 1, c);
   const res = new Float64Array(p);
-  for (let step = 0; step < LINEAR_REFINEMENT_STEPS; step++) {
+  for (let step = 0; step < steps; step++) {
     res.fill(0);
     hatResidualEquations(x, y, w, node, ih, c, p, res);
     res[p - 1] += w[n - 1] * (y[n - 1] - c[p - 1]);

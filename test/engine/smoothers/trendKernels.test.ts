@@ -9,7 +9,7 @@ import { seededNormal } from './trendTestFunctions';
 import * as restrictedSplineFitModule from '../../../src/engine/basis/restrictedSplineFit';
 import { polishTrend } from '../../../src/engine/smoothers/trend/polishTrend';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
-import { checkTrendKkt } from './trendKkt';
+import { checkTrendKkt, denseDifference } from './trendKkt';
 
 describe('restrictedSplineFit (order 1)', () => {
   test('matches the dense solve in the hinge basis 1, x, (x - knot)_+', () => {
@@ -138,6 +138,45 @@ describe('polishTrend', () => {
       const kkt = checkTrendKkt(x, y, w, pol.b, k, lambda);
       expect(kkt.boxExcess).toBeLessThan(1e-6);
       expect(kkt.signError).toBeLessThan(1e-6);
+    } finally {
+      spy.mockRestore();
+    }
+  });
+
+  test.each([1, 2, 3])('order %i: with a loose target (1e-3, as cross-validation folds) the solves skip the refinement steps, and the gap recomputed densely from the fit is within the target', (k) => {
+    const n = 150;
+    const rn = seededNormal(190 + k);
+    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      x[i] = (i + 0.4 * Math.sin(i)) / (n - 1 + 0.4 * Math.sin(n - 1));
+      y[i] = Math.sin(6 * x[i]) + (x[i] > 0.5 ? 1.5 * (x[i] - 0.5) : 0) + 0.1 * rn();
+      w[i] = 1 + (i % 2);
+    }
+    const lambda = 1e-3 * trendLambdaMax(x, y, w, k);
+    const m = n - k - 1;
+    const u0 = new Float64Array(m);
+    const initial: number[] = [];
+    for (let r = 3, s = 1; r < m - 3; r += 7, s = -s) { initial.push(r); u0[r] = s * lambda; }
+    const spy = jest.spyOn(restrictedSplineFitModule, 'restrictedSplineFit');
+    try {
+      const pol = polishTrend(x, y, w, k, lambda, u0, 400, initial, undefined, 1e-3);
+      expect(pol.ok).toBe(true);
+      expect(pol.achieved).toBeLessThanOrEqual(1e-3);
+      expect(spy.mock.calls.length).toBeGreaterThan(0);
+      for (const call of spy.mock.calls) expect(call[call.length - 1]).toBe(0);
+      // the duality gap from the fit alone, with dense algebra (ml-matrix): g = W (y - b); u the least-squares
+      // solution of D^T u = g, scaled into the box |u| <= lambda; P(b) - G(u), relative to P(b)
+      const D = new Matrix(denseDifference(x, k + 1));
+      const g = Float64Array.from(y, (v, i) => w[i] * (v - pol.b[i]));
+      const u = solve(D.mmul(D.transpose()), D.mmul(Matrix.columnVector(Array.from(g)))).to1DArray();
+      const f = Math.max(1, ...u.map((v) => Math.abs(v) / lambda));
+      const db = D.mmul(Matrix.columnVector(Array.from(pol.b))).to1DArray();
+      let rss = 0, yg = 0, gg = 0, l1 = 0;
+      for (let i = 0; i < n; i++) { rss += 0.5 * w[i] * (y[i] - pol.b[i]) ** 2; yg += y[i] * g[i]; gg += (g[i] * g[i]) / w[i]; }
+      for (const v of db) l1 += Math.abs(v);
+      const P = rss + lambda * l1;
+      const G = yg / f - (0.5 * gg) / (f * f);
+      expect((P - G) / P).toBeLessThanOrEqual(1e-3);
     } finally {
       spy.mockRestore();
     }

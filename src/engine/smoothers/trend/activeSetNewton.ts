@@ -1,4 +1,4 @@
-import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
+import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import type { BasisCache } from '../../basis/discreteBSplines';
 import { dualFromResidual } from '../../linalg/dualFromResidual';
 import { boxRelative, certify, residualSums, restrictedGap, PolishResult } from './polishTrend';
@@ -67,6 +67,8 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   let S: number[] = Array.from(signs);
   const g = new Float64Array(n), work = new Float64Array(n), ubuf = new Float64Array(m), bbuf = new Float64Array(n);
   let rounds = 0;
+  // a looser target needs no refinement steps in the solves ({@link refinementStepsFor})
+  const steps = refinementStepsFor(stopGap, k);
   const changes: number[] = [];
   let fewest = Infinity, since = 0;
   // active sets met so far (by two 32-bit hashes of the signed rows and their count)
@@ -75,7 +77,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const scan = new Float64Array(2);
   while (rounds < maxRounds) {
     // b lives in bbuf for the round only (a certified result gets a copy)
-    const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache, bbuf);
+    const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache, bbuf, undefined, steps);
     rounds++;
     if (!sol) break;
     const { rss, yg } = residualSums(y, w, sol.b, g);

@@ -1,5 +1,5 @@
 import { dualFromResidual } from '../../linalg/dualFromResidual';
-import { restrictedSplineFit } from '../../basis/restrictedSplineFit';
+import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import { RestrictedSystem, withoutKnot, solveRestrictedSystem } from '../../basis/restrictedSystem';
 import type { BasisCache } from '../../basis/discreteBSplines';
 
@@ -99,9 +99,11 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   // the normal equations of the last solve from the data (orders 2 and 3) and the active set they belong to
   let kept: { rows: number[]; system: RestrictedSystem } | undefined;
   const keep: { system?: RestrictedSystem } = {};
+  // a looser target needs no refinement steps in the solves ({@link refinementStepsFor})
+  const steps = refinementStepsFor(stopGap, k);
   const fromData = (rowsA: number[], sA: number[]) => {
     keep.system = undefined;
-    const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA, cache, undefined, k >= 2 ? keep : undefined);
+    const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA, cache, undefined, k >= 2 ? keep : undefined, steps);
     kept = sol && keep.system ? { rows: rowsA, system: keep.system } : undefined;
     return sol;
   };
