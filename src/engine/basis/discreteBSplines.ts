@@ -140,10 +140,11 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const ov = old?.values, of = old?.first, op = old?.penalty, oldP = old ? old.ext.length - k - 1 : 0;
   const canCopy = !!(ov && of && op);
   // pass 2: a point whose k + 1 windows all repeat, in the same order, keeps its values (copied by
-  // stretches of points that share their first windows); the slots of the other points are cleared
-  const kept = new Uint8Array(n);
-  if (canCopy) keptPoints(first, of!, from, ov!, k, n, p, oldP, values, kept);
-  else if (spare) values.fill(0);
+  // stretches of points that share their first windows); the slots of the other points are cleared,
+  // and those points are listed by stretches ([start, end) pairs in `fresh`, `nFresh` of them)
+  const fresh = canCopy ? new Int32Array(2 * (p + oldP + 1)) : new Int32Array(0);
+  const nFresh = canCopy ? keptPoints(first, of!, from, ov!, k, n, p, oldP, values, fresh) : 0;
+  if (!canCopy && spare) values.fill(0);
   // pass 3: each window's coefficients, values at the points not kept, and (D B_e) at its knots
   for (let e = 0; e < p; e++) {
     // piece l (l = 0..k) holds the points rho_l < i <= rho_{l+1}; it is one polynomial Q_l on
@@ -153,7 +154,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     if (fe >= 0 && canCopy) {
       // the same window on the same x: its values and (D B_e) are those of the last build
       allCoef.set(old!.coef.subarray(fe * nu, (fe + 1) * nu), e * nu);
-      copyWindow(values, first, ov!, of!, kept, wd, e, fe, i0, i1);
+      copyWindow(values, first, ov!, of!, fresh, nFresh, wd, e, fe, i0, i1);
       for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = op![fe * (k + 2) + q];
       continue;
     }
@@ -162,17 +163,23 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     Mb.set(M);
     if (!bandedNullVector(Mb, nu - 1, nu, k, coef, z) && !nullVector(M, nu - 1, nu, coef, perm, z)) return null;
     allCoef.set(coef, e * nu);
-    // values on the support, piece by piece (piece l holds the points rho_l < i <= rho_{l+1})
+    // the largest |B_e| on the data and the value where it is first reached (its sign), piece by piece
+    // (piece l holds the points rho_l < i <= rho_{l+1}) from the points where it can be: a piece's
+    // ends and the points beside its polynomial's turning points ({@link pieceTop})
     top[0] = 0; top[1] = 0;
     for (let l = 0; l <= k; l++) {
       const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
-      pieceValues(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, e, first, values, top);
+      pieceTop(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, top);
     }
     const vmax = top[0];
     if (!(vmax > 0) || !Number.isFinite(vmax)) return null;
-    // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary)
+    // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary): each
+    // value is the polynomial's value times 1 / scale, as evaluated in one pass
     const scale = top[1], iv = 1 / scale;
-    scaleWindow(values, first, wd, e, i0, i1, iv);
+    for (let l = 0; l <= k; l++) {
+      const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
+      pieceValues(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, e, first, values, iv);
+    }
     // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
     for (let q = 0; q <= k + 1; q++) {
       const r = E[e + q];
@@ -194,50 +201,109 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
 // The passes over the points of one build, each its own function: the first call's compiler then
 // works on small bodies instead of compiling the whole build once per loop while it runs. Unchecked.
 
-/** first[i] = the first basis function covering point i (hi, the last point of each, increases). Unchecked. */
+/**
+ * first[i] = the first basis function covering point i (hi, the last point of each, increases; points
+ * past the last one get p), written by stretches. Unchecked.
+ */
 function firstCovering(hi: Int32Array, n: number, first: Int32Array): void {
-  for (let i = 0, e = 0; i < n; i++) {
-    while (hi[e] < i) e++;
-    first[i] = e;
+  const p = hi.length;
+  let start = 0;
+  for (let e = 0; e < p && start < n; e++) {
+    if (hi[e] < start) continue;
+    const end = Math.min(n, hi[e] + 1);
+    first.fill(e, start, end);
+    start = end;
   }
+  if (start < n) first.fill(p, start, n);
 }
 
 /**
  * Values of window e on piece l's points a..z1 (its coefficients at coef[o..o+k] in the piece's
- * coordinate t = (x - c) * ihl), by Horner's rule written out for k = 3 and 2 (on long series most
- * of a build's time is spent here); top = [largest |B_e| so far, the value where it is reached],
- * updated. Unchecked.
+ * coordinate t = (x - c) * ihl), each times iv, by Horner's rule written out for k = 3 and 2 (on long
+ * series most of a build's time is spent here). Unchecked.
  */
-function pieceValues(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, a: number, z1: number, e: number, first: Int32Array, values: Float64Array, top: Float64Array): void {
-  let vmax = top[0], vtop = top[1];
+function pieceValues(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, a: number, z1: number, e: number, first: Int32Array, values: Float64Array, iv: number): void {
   if (k === 3) {
     const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2], c3 = coef[o + 3];
     for (let i = a; i <= z1; i++) {
       const t = (x[i] - c) * ihl;
       const v = ((c3 * t + c2) * t + c1) * t + c0;
-      values[i * 4 + e - first[i]] = v;
-      const av = v < 0 ? -v : v;
-      if (!(av <= vmax)) { vmax = av; vtop = v; }
+      values[i * 4 + e - first[i]] = v * iv;
     }
   } else if (k === 2) {
     const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2];
     for (let i = a; i <= z1; i++) {
       const t = (x[i] - c) * ihl;
       const v = (c2 * t + c1) * t + c0;
-      values[i * 3 + e - first[i]] = v;
-      const av = v < 0 ? -v : v;
-      if (!(av <= vmax)) { vmax = av; vtop = v; }
+      values[i * 3 + e - first[i]] = v * iv;
     }
   } else {
     const wd = k + 1;
-    for (let i = a; i <= z1; i++) {
-      const t = (x[i] - c) * ihl;
-      let v = 0;
-      for (let q = k; q >= 0; q--) v = v * t + coef[o + q];
-      values[i * wd + e - first[i]] = v;
-      const av = v < 0 ? -v : v;
-      if (!(av <= vmax)) { vmax = av; vtop = v; }
-    }
+    for (let i = a; i <= z1; i++) values[i * wd + e - first[i]] = pieceValue(x, k, coef, o, c, ihl, i) * iv;
+  }
+}
+
+/** The piece's polynomial at point i, as {@link pieceValues} evaluates it (the same operations). Unchecked. */
+function pieceValue(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, i: number): number {
+  const t = (x[i] - c) * ihl;
+  if (k === 3) return ((coef[o + 3] * t + coef[o + 2]) * t + coef[o + 1]) * t + coef[o];
+  if (k === 2) return (coef[o + 2] * t + coef[o + 1]) * t + coef[o];
+  let v = 0;
+  for (let q = k; q >= 0; q--) v = v * t + coef[o + q];
+  return v;
+}
+
+/** Points of a piece either side of a turning point checked by {@link pieceTop}. */
+const TURNING_REACH = 3;
+
+/**
+ * The largest |value| of a piece's polynomial on its points a..z1 and the value where it is first
+ * reached, folded into top = [largest so far, its value] in the order of the points (the first
+ * point wins a tie), as a scan of every point would give. A polynomial of degree k <= 3 is monotone
+ * between its turning points (roots of its derivative), so the largest |value| is at the piece's
+ * ends or beside a turning point: those points are checked, {@link TURNING_REACH} on each side of
+ * each turning point (its place among the points by bisection), in increasing order. Near a flat
+ * top the computed values of neighbouring points differ by about (spacing / piece)^2 relative, far
+ * above rounding unless a piece holds millions of points; if rounding ever picked another point the
+ * scale of the basis function would change by a rounding error, never its span. O(k log n). Unchecked.
+ */
+function pieceTop(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, a: number, z1: number, top: Float64Array): void {
+  if (z1 < a) return;
+  // turning points in t: roots of the derivative (k = 3: 3 c3 t^2 + 2 c2 t + c1; k = 2: 2 c2 t + c1)
+  const roots: number[] = [];
+  if (k === 3) {
+    const qa = 3 * coef[o + 3], qb = 2 * coef[o + 2], qc = coef[o + 1];
+    if (qa !== 0) {
+      const disc = qb * qb - 4 * qa * qc;
+      if (disc >= 0) {
+        const sq = Math.sqrt(disc);
+        // the root of larger size first, the other from the product of the roots (no cancellation)
+        const r1 = (-qb - (qb >= 0 ? sq : -sq)) / (2 * qa);
+        roots.push(r1);
+        if (r1 !== 0) roots.push(qc / (qa * r1));
+        else roots.push(-qb / qa);
+      }
+    } else if (qb !== 0) roots.push(-qc / qb);
+  } else if (k === 2) {
+    if (coef[o + 2] !== 0) roots.push(-coef[o + 1] / (2 * coef[o + 2]));
+  }
+  // the points to check, increasing and without repeats
+  const pts: number[] = [a, z1];
+  for (const r of roots) {
+    const xr = c + r / ihl;
+    if (!(xr >= x[a] && xr <= x[z1])) continue;
+    // the last point at or before xr
+    let lo = a, hi = z1;
+    while (lo < hi) { const mid = (lo + hi + 1) >> 1; if (x[mid] <= xr) lo = mid; else hi = mid - 1; }
+    for (let i = Math.max(a, lo - TURNING_REACH + 1); i <= Math.min(z1, lo + TURNING_REACH); i++) pts.push(i);
+  }
+  pts.sort((u, v) => u - v);
+  let vmax = top[0], vtop = top[1];
+  for (let j = 0; j < pts.length; j++) {
+    if (j > 0 && pts[j] === pts[j - 1]) continue;
+    const v = pieceValue(x, k, coef, o, c, ihl, pts[j]);
+    const av = v < 0 ? -v : v;
+    if (!(av <= vmax)) { vmax = av; vtop = v; }
   }
   top[0] = vmax; top[1] = vtop;
 }
@@ -275,11 +341,13 @@ function windowConditions(x: Float64Array, n: number, h: number, E: Int32Array, 
 
 /**
  * Pass 2 of a build with the last build's arrays (ov, of): a point whose k + 1 windows all repeat
- * (`from`), in the same order, keeps its values (kept[i] = 1, copied); the slots of the other points
- * are cleared. Unchecked.
+ * (`from`), in the same order, keeps its values (copied); the slots of the other points are cleared,
+ * and their stretches are written to `fresh` as [start, end) pairs (adjacent ones merged). Returns
+ * the number of pairs. Unchecked.
  */
-function keptPoints(first: Int32Array, of: Int32Array, from: Int32Array, ov: Float64Array, k: number, n: number, p: number, oldP: number, values: Float64Array, kept: Uint8Array): void {
+function keptPoints(first: Int32Array, of: Int32Array, from: Int32Array, ov: Float64Array, k: number, n: number, p: number, oldP: number, values: Float64Array, fresh: Int32Array): number {
   const wd = k + 1;
+  let count = 0;
   // points whose first windows, new and old, are both the same share the answer: decided once per stretch
   for (let i = 0; i < n; ) {
     const f0 = first[i], g0 = of[i];
@@ -290,20 +358,29 @@ function keptPoints(first: Int32Array, of: Int32Array, from: Int32Array, ov: Flo
       const e = f0 + j;
       if (e < p ? from[e] !== g0 + j : g0 + j < oldP) { keep = false; break; }
     }
-    if (keep) { kept.fill(1, i, end); values.set(ov.subarray(i * wd, end * wd), i * wd); }
-    else values.fill(0, i * wd, end * wd);
+    if (keep) values.set(ov.subarray(i * wd, end * wd), i * wd);
+    else {
+      values.fill(0, i * wd, end * wd);
+      if (count > 0 && fresh[2 * count - 1] === i) fresh[2 * count - 1] = end;
+      else { fresh[2 * count] = i; fresh[2 * count + 1] = end; count++; }
+    }
     i = end;
   }
+  return count;
 }
 
-/** Window e's values on points i0..i1 times iv. Unchecked. */
-function scaleWindow(values: Float64Array, first: Int32Array, wd: number, e: number, i0: number, i1: number, iv: number): void {
-  for (let i = i0; i <= i1; i++) values[i * wd + e - first[i]] *= iv;
-}
-
-/** Window e's values on points i0..i1 not kept whole, copied from window fe of the last build (ov, of). Unchecked. */
-function copyWindow(values: Float64Array, first: Int32Array, ov: Float64Array, of: Int32Array, kept: Uint8Array, wd: number, e: number, fe: number, i0: number, i1: number): void {
-  for (let i = i0; i <= i1; i++) if (!kept[i]) values[i * wd + (e - first[i])] = ov[i * wd + (fe - of[i])];
+/**
+ * Window e's values on points i0..i1 not kept whole (the stretches listed in `fresh`, {@link keptPoints}),
+ * copied from window fe of the last build (ov, of). Unchecked.
+ */
+function copyWindow(values: Float64Array, first: Int32Array, ov: Float64Array, of: Int32Array, fresh: Int32Array, nFresh: number, wd: number, e: number, fe: number, i0: number, i1: number): void {
+  // the first stretch ending after i0 (binary search on the ends)
+  let lo = 0, hi = nFresh;
+  while (lo < hi) { const mid = (lo + hi) >> 1; if (fresh[2 * mid + 1] <= i0) lo = mid + 1; else hi = mid; }
+  for (let s = lo; s < nFresh && fresh[2 * s] <= i1; s++) {
+    const a = Math.max(i0, fresh[2 * s]), z = Math.min(i1 + 1, fresh[2 * s + 1]);
+    for (let i = a; i < z; i++) values[i * wd + (e - first[i])] = ov[i * wd + (fe - of[i])];
+  }
 }
 
 /** An empty {@link BasisCache}. */

@@ -103,6 +103,27 @@ describe('discreteBSplines', () => {
     expectInSpace(x, k, rows, B, 1e-8);
   });
 
+  test.each([2, 3])('order %i: on long pieces (20,000 uneven points, 4 knots) the scale found from the pieces\' ends and turning points is the largest |B_e| over every point, reached at +1', (k) => {
+    // every basis function's maximum lies inside a piece of thousands of points, at a turning point of its polynomial
+    const n = 20000;
+    const rn = seededNormal(300 + k);
+    const x = new Float64Array(n);
+    for (let i = 1; i < n; i++) x[i] = x[i - 1] + 0.5 + Math.abs(rn());
+    const rows = [2500, 7000, 7001, 15000];
+    const B = discreteBSplines(x, k, rows)!;
+    for (let e = 0; e < B.p; e++) {
+      let top = 0, big = 0;
+      for (let i = 0; i < n; i++) {
+        const j = e - B.first[i];
+        if (j < 0 || j > k) continue;
+        const v = B.values[i * (k + 1) + j];
+        if (Math.abs(v) > big) { big = Math.abs(v); top = v; }
+      }
+      // 1 / scale times the scale: within two units in the last place of 1
+      expect(Math.abs(top - 1)).toBeLessThanOrEqual(4.5e-16);
+    }
+  });
+
   test('order 1 gives the hat functions on the kinks', () => {
     const x = Float64Array.of(0, 1, 2, 3, 4);
     const B = discreteBSplines(x, 1, [1])!;
