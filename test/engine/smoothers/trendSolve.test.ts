@@ -5,7 +5,7 @@
  */
 import * as solveTrendModule from '../../../src/engine/smoothers/trend/solveTrend';
 import { solveTrend, seedOf, TrendProblem, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep } from '../../../src/engine/smoothers/trend/solveTrend';
-import { trendPath, CV_TOLERANCE } from '../../../src/engine/smoothers/trend/trendPath';
+import { trendPath, CV_TOLERANCE, ORDER2_SWITCH_BELOW } from '../../../src/engine/smoothers/trend/trendPath';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
@@ -321,6 +321,18 @@ describe('trendPath, fold fits switching to the interior point', () => {
       expect(a.df).toBe(b.df);
       expect(Math.abs(a.cv - b.cv)).toBeLessThanOrEqual(0.05 * b.cvSe);
     }
+  });
+});
+
+describe('trendPath, fold switch by order and length', () => {
+  test('order 2 from ORDER2_SWITCH_BELOW points: the fold fits never switch to the interior point', () => {
+    const rn = seededNormal(150);
+    const n = ORDER2_SWITCH_BELOW;
+    const x = Array.from({ length: n }, (_, i) => i + 1);
+    const y = x.map((t) => doppler(t / n) + 0.1 * rn());
+    const path = trendPath(seriesFromArrays(x, y), { order: 2, gridSize: 8, folds: 5, relaxed: 0, tolerance: 1e-8, maxIterations: 200 });
+    expect(path.foldInteriorFrom).toBeUndefined();
+    expect(path.points.every((p) => Number.isFinite(p.cv))).toBe(true);
   });
 });
 

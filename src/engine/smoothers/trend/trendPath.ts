@@ -112,7 +112,14 @@ export function defaultGridRatio(k: number): number {
  * above the minimum, on the two 5,000-point shapes of the automatic choice's bench (orders 2 and
  * 3, 15 penalties) and the trend-cv bench series at 1e4 points (orders 1 to 3, 30 penalties); the
  * cross-validation took 0.65 to 0.87 of the time (warm runs in one process). 1e-5 was used until
- * this release; the full-data path is still solved to the method's tolerance (1e-8).
+ * this release; the full-data path is still solved to the method's tolerance (1e-8). Measured again
+ * against 1e-5 on 24 curves (orders 1 to 3; the bench series at 2,000 and 1e4 points, two seeds each,
+ * and the two 5,000-point shapes with white and AR(1) noise; 5 x 30): every score within 5 standard
+ * errors of its minimum moved by at most 0.029 of its standard error; two order-2 minima moved to
+ * the next grid penalty, whose score under 1e-5 was within 0.01 of a standard error of the minimum
+ * (a tie). Looser targets were measured on the same curves and not taken: 3e-3 moved scores near the
+ * minimum by up to 0.081 standard errors and 6 minima, 1e-2 by up to 0.22 and 10 minima (the folds
+ * then took 0.8 and 0.65 of the time at 1e4, order 3).
  */
 export const CV_TOLERANCE = 1e-3;
 
@@ -137,6 +144,16 @@ export const CV_TOLERANCE = 1e-3;
  * cheap, and with the switch its cross-validation took 3.8 times as long.
  */
 export const PROBE_WORK = 10;
+
+/**
+ * Order 2's fold fits switch to the interior point ({@link PROBE_WORK}) only on series shorter than
+ * this. Once the restricted solves of the active-set method got cheaper (one pass for the dual, the
+ * normal equations by stretches, no refinement steps in fold fits), measured in one process, warm,
+ * medians of 3 to 5, switch against no switch: 0.55 and 0.78 of the time at 2,000 points (the
+ * bench's AR(1) series and the `trend-cv` series), 1.05 at 3,000, 1.02 and 1.17 at 5,000, 1.17 and
+ * 1.23 at 1e4. Order 3 gains from the switch at every length measured (0.39 to 0.81).
+ */
+export const ORDER2_SWITCH_BELOW = 3000;
 
 /** Penalties between two probes of the interior point in the first fold (see {@link PROBE_WORK}). */
 export const PROBE_SPACING = 3;
@@ -267,7 +284,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
     const foldFits = new Map<number, (TrendFit | undefined)[]>();
     // one fold: the warm-started path on its training points, predicted at the held-out x
     const predict = (tr: Int32Array, te: Int32Array, pens: Float64Array): Float64Array[] => {
-      const probing = foldCalls++ === 0 && k >= 2 && !(s.relaxed > 0) && s.foldInteriorPoint !== false;
+      const probing = foldCalls++ === 0 && (k === 3 || (k === 2 && n < ORDER2_SWITCH_BELOW)) && !(s.relaxed > 0) && s.foldInteriorPoint !== false;
       let lastFail = -Infinity, failGap = Infinity;
       const { xt, yt, wt, xh, swt } = foldData(sc.xs, sc.ys, sc.ws, tr, te);
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
