@@ -25,8 +25,18 @@
 export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor = 0): number {
   if (p === 2) return bandedCholesky2(a, n, pivotFloor);
   if (p === 1) return bandedCholesky1(a, n, pivotFloor);
+  if (p === 3 && n > 3) { const r = bandedCholeskyRows(a, 3, 3, pivotFloor); return r >= 0 ? r : bandedCholesky3(a, n, pivotFloor); }
+  if (p === 4 && n > 4) { const r = bandedCholeskyRows(a, 4, 4, pivotFloor); return r >= 0 ? r : bandedCholesky4(a, n, pivotFloor); }
+  return bandedCholeskyRows(a, n, p, pivotFloor);
+}
+
+/**
+ * {@link bandedCholesky}'s general loop over rows 0 .. rows - 1: the factor for any half-bandwidth,
+ * the first rows of the unrolled versions, and their reference in tests (bit for bit). Unchecked.
+ */
+export function bandedCholeskyRows(a: Float64Array, rows: number, p: number, pivotFloor: number): number {
   const w = p + 1;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < rows; i++) {
     const j0 = i - p > 0 ? i - p : 0;
     for (let j = j0; j <= i; j++) {
       const aij = a[i * w + (i - j)];
@@ -41,6 +51,57 @@ export function bandedCholesky(a: Float64Array, n: number, p: number, pivotFloor
         a[i * w + (i - j)] = s * a[j * w];
       }
     }
+  }
+  return -1;
+}
+
+/**
+ * {@link bandedCholesky} unrolled for half-bandwidth 3 (order 2's interior point, order 3's restricted
+ * solves), rows 3 .. n - 1 after the general loop's first three: the last rows' entries of L are carried
+ * in locals. The same operations in the same order as the general loop (identical factors). Unchecked.
+ */
+function bandedCholesky3(a: Float64Array, n: number, pivotFloor: number): number {
+  // r1..r3: 1 / L(i-1, i-1) .. 1 / L(i-3, i-3); b11 = L(i-1, i-2), b12 = L(i-1, i-3); b21 = L(i-2, i-3)
+  let r1 = a[8], r2 = a[4], r3 = a[0];
+  let b11 = a[9], b12 = a[10], b21 = a[5];
+  for (let i = 3; i < n; i++) {
+    const o = 4 * i;
+    const l3 = a[o + 3] * r3;
+    const l2 = (a[o + 2] - l3 * b21) * r2;
+    const l1 = ((a[o + 1] - l3 * b12) - l2 * b11) * r1;
+    a[o + 3] = l3; a[o + 2] = l2; a[o + 1] = l1;
+    const aii = a[o];
+    let s = aii - l3 * l3 - l2 * l2 - l1 * l1;
+    if (pivotFloor > 0 && !(s >= pivotFloor * aii)) s = pivotFloor * aii;
+    if (!(s > 0)) return i;
+    const r = 1 / Math.sqrt(s);
+    a[o] = r;
+    r3 = r2; r2 = r1; r1 = r;
+    b21 = b11; b11 = l1; b12 = l2;
+  }
+  return -1;
+}
+
+/** {@link bandedCholesky} unrolled for half-bandwidth 4 (order 3's interior point), as {@link bandedCholesky3}. Unchecked. */
+function bandedCholesky4(a: Float64Array, n: number, pivotFloor: number): number {
+  // r1..r4: 1 / L(i-1, i-1) .. 1 / L(i-4, i-4); bjd = L(i-j, i-j-d)
+  let r1 = a[15], r2 = a[10], r3 = a[5], r4 = a[0];
+  let b11 = a[16], b12 = a[17], b13 = a[18], b21 = a[11], b22 = a[12], b31 = a[6];
+  for (let i = 4; i < n; i++) {
+    const o = 5 * i;
+    const l4 = a[o + 4] * r4;
+    const l3 = (a[o + 3] - l4 * b31) * r3;
+    const l2 = ((a[o + 2] - l4 * b22) - l3 * b21) * r2;
+    const l1 = (((a[o + 1] - l4 * b13) - l3 * b12) - l2 * b11) * r1;
+    a[o + 4] = l4; a[o + 3] = l3; a[o + 2] = l2; a[o + 1] = l1;
+    const aii = a[o];
+    let s = aii - l4 * l4 - l3 * l3 - l2 * l2 - l1 * l1;
+    if (pivotFloor > 0 && !(s >= pivotFloor * aii)) s = pivotFloor * aii;
+    if (!(s > 0)) return i;
+    const r = 1 / Math.sqrt(s);
+    a[o] = r;
+    r4 = r3; r3 = r2; r2 = r1; r1 = r;
+    b31 = b21; b21 = b11; b22 = b12; b11 = l1; b12 = l2; b13 = l3;
   }
   return -1;
 }
@@ -125,6 +186,13 @@ export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Fl
     }
     return b;
   }
+  if (p === 3 && n > 6) return bandedCholeskySolve3(l, n, b);
+  if (p === 4 && n > 8) return bandedCholeskySolve4(l, n, b);
+  return bandedCholeskySolveRows(l, n, p, b);
+}
+
+/** {@link bandedCholeskySolve}'s general loops, for any half-bandwidth (the reference of the unrolled ones in tests). Unchecked. */
+export function bandedCholeskySolveRows(l: Float64Array, n: number, p: number, b: Float64Array): Float64Array {
   const w = p + 1;
   for (let i = 0; i < n; i++) {
     let s = b[i];
@@ -137,6 +205,68 @@ export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Fl
     const j1 = i + p < n - 1 ? i + p : n - 1;
     for (let j = i + 1; j <= j1; j++) s -= l[j * w + (j - i)] * b[j];
     b[i] = s * l[i * w];
+  }
+  return b;
+}
+
+/**
+ * {@link bandedCholeskySolve} unrolled for half-bandwidth 3: the general loop's first and last rows,
+ * the others with the last three values in locals; the same operations in the same order (identical
+ * results). Unchecked.
+ */
+function bandedCholeskySolve3(l: Float64Array, n: number, b: Float64Array): Float64Array {
+  // forward: z_i = (b_i - L(i, i-3) z_{i-3} - L(i, i-2) z_{i-2} - L(i, i-1) z_{i-1}) / L(i, i)
+  for (let i = 0; i < 3; i++) {
+    let s = b[i];
+    for (let j = 0; j < i; j++) s -= l[i * 4 + (i - j)] * b[j];
+    b[i] = s * l[i * 4];
+  }
+  let z3 = b[0], z2 = b[1], z1 = b[2];
+  for (let i = 3; i < n; i++) {
+    const o = 4 * i;
+    const z = (((b[i] - l[o + 3] * z3) - l[o + 2] * z2) - l[o + 1] * z1) * l[o];
+    b[i] = z;
+    z3 = z2; z2 = z1; z1 = z;
+  }
+  // backward: x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2} - L(i+3, i) x_{i+3}) / L(i, i)
+  for (let i = n - 1; i >= n - 3; i--) {
+    let s = b[i];
+    for (let j = i + 1; j <= n - 1; j++) s -= l[j * 4 + (j - i)] * b[j];
+    b[i] = s * l[i * 4];
+  }
+  let x1 = b[n - 3], x2 = b[n - 2], x3 = b[n - 1];
+  for (let i = n - 4; i >= 0; i--) {
+    const x = (((b[i] - l[4 * (i + 1) + 1] * x1) - l[4 * (i + 2) + 2] * x2) - l[4 * (i + 3) + 3] * x3) * l[4 * i];
+    b[i] = x;
+    x3 = x2; x2 = x1; x1 = x;
+  }
+  return b;
+}
+
+/** {@link bandedCholeskySolve} unrolled for half-bandwidth 4, as {@link bandedCholeskySolve3}. Unchecked. */
+function bandedCholeskySolve4(l: Float64Array, n: number, b: Float64Array): Float64Array {
+  for (let i = 0; i < 4; i++) {
+    let s = b[i];
+    for (let j = 0; j < i; j++) s -= l[i * 5 + (i - j)] * b[j];
+    b[i] = s * l[i * 5];
+  }
+  let z4 = b[0], z3 = b[1], z2 = b[2], z1 = b[3];
+  for (let i = 4; i < n; i++) {
+    const o = 5 * i;
+    const z = ((((b[i] - l[o + 4] * z4) - l[o + 3] * z3) - l[o + 2] * z2) - l[o + 1] * z1) * l[o];
+    b[i] = z;
+    z4 = z3; z3 = z2; z2 = z1; z1 = z;
+  }
+  for (let i = n - 1; i >= n - 4; i--) {
+    let s = b[i];
+    for (let j = i + 1; j <= n - 1; j++) s -= l[j * 5 + (j - i)] * b[j];
+    b[i] = s * l[i * 5];
+  }
+  let x1 = b[n - 4], x2 = b[n - 3], x3 = b[n - 2], x4 = b[n - 1];
+  for (let i = n - 5; i >= 0; i--) {
+    const x = ((((b[i] - l[5 * (i + 1) + 1] * x1) - l[5 * (i + 2) + 2] * x2) - l[5 * (i + 3) + 3] * x3) - l[5 * (i + 4) + 4] * x4) * l[5 * i];
+    b[i] = x;
+    x4 = x3; x3 = x2; x2 = x1; x1 = x;
   }
   return b;
 }
