@@ -269,8 +269,10 @@ const TURNING_REACH = 3;
  */
 function pieceTop(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, a: number, z1: number, top: Float64Array): void {
   if (z1 < a) return;
+  // a short piece: every point (as cheap as finding the turning points)
+  if (z1 - a < SCAN_ALL_BELOW) { topOfPoints(x, k, coef, o, c, ihl, a, z1, top); return; }
   // turning points in t: roots of the derivative (k = 3: 3 c3 t^2 + 2 c2 t + c1; k = 2: 2 c2 t + c1)
-  const roots: number[] = [];
+  let t1 = NaN, t2 = NaN;
   if (k === 3) {
     const qa = 3 * coef[o + 3], qb = 2 * coef[o + 2], qc = coef[o + 1];
     if (qa !== 0) {
@@ -278,34 +280,51 @@ function pieceTop(x: Float64Array, k: number, coef: Float64Array, o: number, c: 
       if (disc >= 0) {
         const sq = Math.sqrt(disc);
         // the root of larger size first, the other from the product of the roots (no cancellation)
-        const r1 = (-qb - (qb >= 0 ? sq : -sq)) / (2 * qa);
-        roots.push(r1);
-        if (r1 !== 0) roots.push(qc / (qa * r1));
-        else roots.push(-qb / qa);
+        t1 = (-qb - (qb >= 0 ? sq : -sq)) / (2 * qa);
+        t2 = t1 !== 0 ? qc / (qa * t1) : -qb / qa;
       }
-    } else if (qb !== 0) roots.push(-qc / qb);
+    } else if (qb !== 0) t1 = -qc / qb;
   } else if (k === 2) {
-    if (coef[o + 2] !== 0) roots.push(-coef[o + 1] / (2 * coef[o + 2]));
+    if (coef[o + 2] !== 0) t1 = -coef[o + 1] / (2 * coef[o + 2]);
   }
-  // the points to check, increasing and without repeats
-  const pts: number[] = [a, z1];
-  for (const r of roots) {
-    const xr = c + r / ihl;
-    if (!(xr >= x[a] && xr <= x[z1])) continue;
-    // the last point at or before xr
-    let lo = a, hi = z1;
-    while (lo < hi) { const mid = (lo + hi + 1) >> 1; if (x[mid] <= xr) lo = mid; else hi = mid - 1; }
-    for (let i = Math.max(a, lo - TURNING_REACH + 1); i <= Math.min(z1, lo + TURNING_REACH); i++) pts.push(i);
-  }
-  pts.sort((u, v) => u - v);
+  // each turning point's place among the points (the last point at or before it), in increasing order
+  let p1 = turningPlace(x, c, ihl, t1, a, z1), p2 = turningPlace(x, c, ihl, t2, a, z1);
+  if (p2 >= 0 && (p1 < 0 || p2 < p1)) { const t = p1; p1 = p2; p2 = t; }
+  // the points to check, increasing, each once: the first point, TURNING_REACH either side of each
+  // turning point, the last point
+  let next = topOfPoints(x, k, coef, o, c, ihl, a, a, top);
+  if (p1 >= 0) next = topOfPoints(x, k, coef, o, c, ihl, Math.max(next, p1 - TURNING_REACH + 1), Math.min(z1, p1 + TURNING_REACH), top, next);
+  if (p2 >= 0) next = topOfPoints(x, k, coef, o, c, ihl, Math.max(next, p2 - TURNING_REACH + 1), Math.min(z1, p2 + TURNING_REACH), top, next);
+  topOfPoints(x, k, coef, o, c, ihl, Math.max(next, z1), z1, top, next);
+}
+
+/** Pieces shorter than this many points are scanned whole by {@link pieceTop}. */
+const SCAN_ALL_BELOW = 16;
+
+/** The last point of a..z1 at or before the turning point t (in the piece's coordinate), or -1 when t is outside the piece or not a number. Unchecked. */
+function turningPlace(x: Float64Array, c: number, ihl: number, t: number, a: number, z1: number): number {
+  const xr = c + t / ihl;
+  if (!(xr >= x[a] && xr <= x[z1])) return -1;
+  let lo = a, hi = z1;
+  while (lo < hi) { const mid = (lo + hi + 1) >> 1; if (x[mid] <= xr) lo = mid; else hi = mid - 1; }
+  return lo;
+}
+
+/**
+ * Folds the piece's values at points from..to (increasing; none before `after`) into top = [largest
+ * |value| so far, its value], a point replacing the top only when strictly larger; returns the next
+ * point not yet checked. Unchecked.
+ */
+function topOfPoints(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, from: number, to: number, top: Float64Array, after = from): number {
   let vmax = top[0], vtop = top[1];
-  for (let j = 0; j < pts.length; j++) {
-    if (j > 0 && pts[j] === pts[j - 1]) continue;
-    const v = pieceValue(x, k, coef, o, c, ihl, pts[j]);
+  const start = Math.max(from, after);
+  for (let i = start; i <= to; i++) {
+    const v = pieceValue(x, k, coef, o, c, ihl, i);
     const av = v < 0 ? -v : v;
     if (!(av <= vmax)) { vmax = av; vtop = v; }
   }
   top[0] = vmax; top[1] = vtop;
+  return Math.max(start, to + 1);
 }
 
 /** x_i, extended past both ends at the mean spacing h (phantom knots). Unchecked. */
