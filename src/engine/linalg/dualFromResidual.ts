@@ -92,18 +92,22 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
 function dualFromResidual2(x: Float64Array, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
   const u = out && out.length === n - 2 ? out : new Float64Array(n - 2);
+  // largest |g| and each level's largest |sum| are kept by comparisons (the same values as Math.max
+  // of |.|, which the compiler turns into a slower sequence; NaN reaches the result through the sums)
   let gmax = 0;
-  for (let i = 0; i < n; i++) gmax = Math.max(gmax, Math.abs(g[i]));
   let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, zmax1 = 0, zmax2 = 0;
   let z1 = 0, s1 = 0, z2 = 0;
   for (let i = 0; i < n - 1; i++) {
     // level 1: z1_i = -(g_0 + .. + g_i), compensated, then times x_{i+1} - x_i (divided by S_1)
     const v = g[i];
+    const av = Math.abs(v);
+    if (av > gmax) gmax = av;
     const t = acc1 - v;
-    comp1 += Math.abs(acc1) >= Math.abs(v) ? (acc1 - t) - v : (-v - t) + acc1;
+    comp1 += Math.abs(acc1) >= av ? (acc1 - t) - v : (-v - t) + acc1;
     acc1 = t;
     z1 = acc1 + comp1;
-    zmax1 = Math.max(zmax1, Math.abs(z1));
+    const a1 = Math.abs(z1);
+    if (a1 > zmax1) zmax1 = a1;
     s1 = z1 * (x[i + 1] - x[i]);
     // level 2 has one entry fewer: u_i = -(s1_0 + .. + s1_i), compensated, for i < n - 2
     if (i === n - 2) break;
@@ -112,8 +116,10 @@ function dualFromResidual2(x: Float64Array, g: ArrayLike<number>, out?: Float64A
     acc2 = t2;
     z2 = acc2 + comp2;
     u[i] = z2;
-    zmax2 = Math.max(zmax2, Math.abs(z2));
+    const a2 = Math.abs(z2);
+    if (a2 > zmax2) zmax2 = a2;
   }
+  { const av = Math.abs(g[n - 1]); if (av > gmax) gmax = av; }
   // the unmatched equation of each level: its last running sum against the next input
   const miss1 = Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300);
   const miss2 = Math.abs(z2 - s1) / Math.max(gmax, zmax2, 1e-300);
@@ -131,11 +137,11 @@ function dualFromResidual3(x: Float64Array, g: ArrayLike<number>, out?: Float64A
   const n = x.length;
   const u = out && out.length === n - 3 ? out : new Float64Array(n - 3);
   let gmax = 0;
-  for (let i = 0; i < n; i++) { const gi = g[i]; gmax = Math.max(gmax, gi < 0 ? -gi : gi); }
   let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, acc3 = 0, comp3 = 0;
   let zmax1 = 0, zmax2 = 0, zmax3 = 0, z1 = 0, z2 = 0, z3 = 0, last2 = 0, last3 = 0;
   for (let i = 0; i < n - 1; i++) {
     const a1 = g[i];
+    { const ag = Math.abs(a1); if (ag > gmax) gmax = ag; }
     const t1 = acc1 - a1;
     comp1 += Math.abs(acc1) >= Math.abs(a1) ? (acc1 - t1) - a1 : (-a1 - t1) + acc1;
     acc1 = t1;
@@ -157,6 +163,7 @@ function dualFromResidual3(x: Float64Array, g: ArrayLike<number>, out?: Float64A
     { const az = Math.abs(z3); if (az > zmax3) zmax3 = az; }
     u[i] = z3;
   }
+  { const ag = Math.abs(g[n - 1]); if (ag > gmax) gmax = ag; }
   let worst = 0;
   worst = Math.max(worst, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
   worst = Math.max(worst, Math.abs(z2 - last2) / Math.max(gmax, zmax2, 1e-300));
@@ -169,11 +176,11 @@ function dualFromResidual4(x: Float64Array, g: ArrayLike<number>, out?: Float64A
   const n = x.length;
   const u = out && out.length === n - 4 ? out : new Float64Array(n - 4);
   let gmax = 0;
-  for (let i = 0; i < n; i++) { const gi = g[i]; gmax = Math.max(gmax, gi < 0 ? -gi : gi); }
   let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, acc3 = 0, comp3 = 0, acc4 = 0, comp4 = 0;
   let zmax1 = 0, zmax2 = 0, zmax3 = 0, zmax4 = 0, z1 = 0, z2 = 0, z3 = 0, z4 = 0, last2 = 0, last3 = 0, last4 = 0;
   for (let i = 0; i < n - 1; i++) {
     const a1 = g[i];
+    { const ag = Math.abs(a1); if (ag > gmax) gmax = ag; }
     const t1 = acc1 - a1;
     comp1 += Math.abs(acc1) >= Math.abs(a1) ? (acc1 - t1) - a1 : (-a1 - t1) + acc1;
     acc1 = t1;
@@ -202,6 +209,7 @@ function dualFromResidual4(x: Float64Array, g: ArrayLike<number>, out?: Float64A
     { const az = Math.abs(z4); if (az > zmax4) zmax4 = az; }
     u[i] = z4;
   }
+  { const ag = Math.abs(g[n - 1]); if (ag > gmax) gmax = ag; }
   let worst = 0;
   worst = Math.max(worst, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
   worst = Math.max(worst, Math.abs(z2 - last2) / Math.max(gmax, zmax2, 1e-300));
