@@ -65,7 +65,8 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const lim = lambda * (1 + boxRelative(n, k));
   let A: number[] = Array.from(rows);
   let S: number[] = Array.from(signs);
-  const g = new Float64Array(n), work = new Float64Array(n), ubuf = new Float64Array(m), bbuf = new Float64Array(n);
+  // (the dual's one-pass kernels of orders 1 to 3 need no work space)
+  const g = new Float64Array(n), ubuf = new Float64Array(m), bbuf = new Float64Array(n);
   let rounds = 0;
   // a looser target needs no refinement steps in the solves ({@link refinementStepsFor})
   const steps = refinementStepsFor(stopGap, k);
@@ -82,7 +83,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     if (!sol) break;
     const { rss, yg } = residualSums(y, w, sol.b, g);
     // u lives in ubuf for the round only (a certified result copies it)
-    const u = dualFromResidual(x, k + 1, g, work, ubuf).u;
+    const u = dualFromResidual(x, k + 1, g, undefined, ubuf).u;
     const nA: number[] = [], nS: number[] = [];
     nextActiveSet(u, m, A, S, sol.dA, lim, slide, nA, nS, scan);
     const changed = scan[0], um = scan[1];

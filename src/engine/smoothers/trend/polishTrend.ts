@@ -94,8 +94,8 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   const seen = new Set<string>();
   let last: Certifiable | undefined;
   const lim = lambda * (1 + boxRelative(n, k));
-  // g = W (y - b) of the round, and work space of the dual's recovery
-  const g = new Float64Array(n), work = new Float64Array(n);
+  // g = W (y - b) of the round (the dual's one-pass kernels of orders 1 to 3 need no work space)
+  const g = new Float64Array(n);
   // the normal equations of the last solve from the data (orders 2 and 3) and the active set they belong to
   let kept: { rows: number[]; system: RestrictedSystem } | undefined;
   const keep: { system?: RestrictedSystem } = {};
@@ -186,7 +186,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     const bnew = sol!.b;
     dcur = Float64Array.from(dnew);
     const sums = residualSums(y, w, bnew, g);
-    u = dualFromResidual(x, k + 1, g, work).u;
+    u = dualFromResidual(x, k + 1, g).u;
     last = { b: bnew, u, ...sums, db: dnew, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
     const added = addViolations(u, sgn, m, lim);
