@@ -10,6 +10,7 @@ import * as restrictedSplineFitModule from '../../../src/engine/basis/restricted
 import { polishTrend } from '../../../src/engine/smoothers/trend/polishTrend';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
 import { checkTrendKkt, denseDifference } from './trendKkt';
+import { trendDualInteriorPoint, trendOperator } from '../../../src/engine/smoothers/trend/trendDualInteriorPoint';
 
 describe('restrictedSplineFit (order 1)', () => {
   test('matches the dense solve in the hinge basis 1, x, (x - knot)_+', () => {
@@ -180,5 +181,27 @@ describe('polishTrend', () => {
     } finally {
       spy.mockRestore();
     }
+  });
+});
+
+describe('trendDualInteriorPoint', () => {
+  test.each([1, 2, 3])('order %i: a solve on an operator whose work space an earlier solve used gives bit for bit the answer of a fresh operator', (k) => {
+    const n = 400;
+    const rn = seededNormal(500 + k);
+    const x = Float64Array.from({ length: n }, (_, i) => i + 1 + 0.3 * Math.sin(i));
+    const y = Float64Array.from(x, (t) => Math.sin(t / 40) + (t > 200 ? 0.01 * (t - 200) : 0) + 0.2 * rn());
+    const w = Float64Array.from({ length: n }, (_, i) => 1 + (i % 2));
+    const used = trendOperator(x, w, k);
+    // an earlier solve at another penalty, with a warm start, leaves its iterates in the work space
+    const first = trendDualInteriorPoint(used, y, 50, 1e-6, 100, Float64Array.from({ length: n - k - 1 }, (_, i) => Math.cos(i)));
+    const again = trendDualInteriorPoint(used, y, 5, 1e-6, 100);
+    const fresh = trendDualInteriorPoint(trendOperator(x, w, k), y, 5, 1e-6, 100);
+    expect(Array.from(again.b)).toEqual(Array.from(fresh.b));
+    expect(Array.from(again.u)).toEqual(Array.from(fresh.u));
+    expect(again.status).toEqual(fresh.status);
+    // the earlier answer is not overwritten by the later solve
+    expect(first.u).not.toBe(again.u);
+    expect(first.b).not.toBe(again.b);
+    expect(Array.from(first.u).some((v, i) => v !== again.u[i])).toBe(true);
   });
 });

@@ -58,6 +58,31 @@ export interface TrendOperator {
   rows: Float64Array;
   /** Band of D W^{-1} D^T. */
   gram: Float64Array;
+  /** Work space of {@link trendDualInteriorPoint} on this operator, built on its first solve. */
+  work?: InteriorWork;
+}
+
+/**
+ * Arrays of one interior-point solve that do not outlive it, kept on the operator so that the solves
+ * along a path or a fold's penalties (on the same x and w) reuse them instead of allocating about
+ * fifteen arrays of n each time. Solves are synchronous, so two never share them at once. Unchecked.
+ */
+export interface InteriorWork {
+  p: Float64Array; dy: Float64Array; u: Float64Array; mu1: Float64Array; mu2: Float64Array; f1: Float64Array; f2: Float64Array;
+  qu: Float64Array; rd: Float64Array; du: Float64Array; dmu1: Float64Array; dmu2: Float64Array; mat: Float64Array;
+  inv1: Float64Array; inv2: Float64Array; du2: Float64Array; tmp: Float64Array;
+}
+
+/** The operator's {@link InteriorWork}, built on first use (m dual rows, n points, band width wd). Unchecked. */
+function interiorWork(op: TrendOperator, n: number, m: number, wd: number): InteriorWork {
+  if (!op.work || op.work.u.length !== m || op.work.tmp.length !== n) {
+    const a = () => new Float64Array(m);
+    op.work = {
+      p: a(), dy: new Float64Array(n), u: a(), mu1: a(), mu2: a(), f1: a(), f2: a(), qu: a(), rd: a(), du: a(), dmu1: a(), dmu2: a(),
+      mat: new Float64Array(m * wd), inv1: a(), inv2: a(), du2: a(), tmp: new Float64Array(n),
+    };
+  }
+  return op.work;
 }
 
 /** Builds the {@link TrendOperator} for x, w and order k. O(n k^2). Unchecked. */
@@ -85,23 +110,6 @@ const STALL_ITERATIONS = 8;
 export const INTERIOR_POINT_RULE = 'relative duality gap (lambda*||Db||_1 - u.Db) / max(primal objective, 1e-12 * null deviance) at most the tolerance (stopping early after 8 iterations without halving it)';
 
 /**
- * The longest step t <= 1 along (du, dmu1, dmu2) that keeps the slacks s1 = -f1,
- * s2 = -f2 (s1 - t du, s2 + t du) and the multipliers mu1, mu2 non-negative. Limits are
- * compared before dividing (t b > a for b > 0 rather than t > a / b). Unchecked.
- */
-function longestStep(du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): number {
-  let t = 1;
-  for (let i = 0; i < m; i++) {
-    const d1 = dmu1[i], d2 = dmu2[i], d = du[i];
-    if (d1 < 0 && t * -d1 > mu1[i]) t = mu1[i] / -d1;
-    if (d2 < 0 && t * -d2 > mu2[i]) t = mu2[i] / -d2;
-    if (d > 0) { if (t * d > -f1[i]) t = -f1[i] / d; }
-    else if (d < 0) { if (t * -d > -f2[i]) t = -f2[i] / -d; }
-  }
-  return t;
-}
-
-/**
  * Solves one trend-filtering problem by the dual interior-point method.
  *
  * @param op - operator for x, w, k
@@ -125,21 +133,11 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   const e0 = constantFitObjective(y, w);
   const floor = 1e-12 * e0 + 1e-300;
 
-  const p = Float64Array.from(differenceOperator(x, q, y, new Float64Array(n)));
-  const u = new Float64Array(m);
-  const mu1 = new Float64Array(m);
-  const mu2 = new Float64Array(m);
-  const f1 = new Float64Array(m);
-  const f2 = new Float64Array(m);
-  const qu = new Float64Array(m);
-  const rd = new Float64Array(m);
-  const du = new Float64Array(m);
-  const dmu1 = new Float64Array(m);
-  const dmu2 = new Float64Array(m);
-  const mat = new Float64Array(m * wd);
-  const inv1 = new Float64Array(m);
-  const inv2 = new Float64Array(m);
-  const tmp = new Float64Array(n);
+  // the operator's work space (every array written before it is read, u zeroed below); b and the
+  // best dual are returned, so they are new
+  const { p, dy, u, mu1, mu2, f1, f2, qu, rd, du, dmu1, dmu2, mat, inv1, inv2, du2, tmp } = interiorWork(op, n, m, wd);
+  p.set(differenceOperator(x, q, y, dy).subarray(0, m));
+  u.fill(0);
   const b = new Float64Array(n);
 
   if (u0 && u0.length === m) {
@@ -167,16 +165,14 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   let gapAbs = Infinity;
   let converged = false;
   const best = { achieved: Infinity, gap: Infinity, objective: NaN, u: new Float64Array(m) };
-  const rhs = new Float64Array(m);
-  const du2 = new Float64Array(m);
   const fraction = 0.99;
   const sums = new Float64Array(3);
   let lastGain = 0;
-  applyDifferenceGram(rows, winv, q, u, qu, tmp);
+  // Q u and, in the same pass, the sums of the objective and the gap
+  gramAndGapSums(rows, winv, q, u, qu, tmp, p, sums);
   for (;;) {
     // with b = y - W^{-1} D^T u: 1/2 sum w (y - b)^2 = 1/2 u.Q u and D b = p - Q u, so the
     // objective and the gap need no b (formed once, for the best iterate, at the end)
-    gapSums(p, qu, u, m, sums);
     const l1 = sums[0], ud = sums[1], uqu = sums[2];
     const obj = 0.5 * uqu + lambda * l1;
     gapAbs = Math.max(lambda * l1 - ud, 0);
@@ -193,28 +189,24 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     // slacks s1 = lambda - u = -f1, s2 = lambda + u = -f2; complementarity mu . s
     // (the reciprocal slacks are formed once: the loops below multiply)
     mat.set(gram);
-    const comp = newtonSystem(f1, f2, mu1, mu2, qu, p, inv1, inv2, rd, mat, wd, m);
+    // the Newton system and, in the same pass, the predictor's right side (affine scaling: sigma = 0)
+    const comp = newtonSystem(f1, f2, mu1, mu2, qu, p, inv1, inv2, rd, mat, wd, m, du);
     const muAvg = comp / (2 * m);
     if (bandedCholesky(mat, m, q, PIVOT_FLOOR) >= 0) break;
-    // predictor (affine scaling): sigma = 0
-    predictorRightSide(rd, mu1, mu2, du, m);
     bandedCholeskySolve(mat, m, q, du);
-    affineMultiplierStep(du, mu1, mu2, inv1, inv2, dmu1, dmu2, m);
-    const aff = longestStep(du, dmu1, dmu2, mu1, mu2, f1, f2, m);
+    const aff = affineMultiplierStep(du, mu1, mu2, inv1, inv2, dmu1, dmu2, f1, f2, m);
     const compAff = complementarityAfter(aff, du, dmu1, dmu2, mu1, mu2, f1, f2, m);
     const sigma = Math.pow(Math.max(compAff, 0) / Math.max(comp, 1e-300), 3);
     const target = sigma * muAvg;
-    // corrector: mu1 s1 = target - ds1_aff dmu1_aff, with ds1 = -du, ds2 = du
-    // (du2 and tmp keep c1 and c2 for the multiplier step)
-    correctorRightSide(target, du, dmu1, dmu2, mu1, mu2, f1, f2, rd, inv1, inv2, rhs, du2, tmp, m);
-    du.set(rhs);
+    // corrector: mu1 s1 = target - ds1_aff dmu1_aff, with ds1 = -du, ds2 = du; its right side
+    // replaces du in place (du2 and tmp keep c1 and c2 for the multiplier step)
+    correctorRightSide(target, du, dmu1, dmu2, mu1, mu2, f1, f2, rd, inv1, inv2, du, du2, tmp, m);
     bandedCholeskySolve(mat, m, q, du);
-    correctorMultiplierStep(target, du, mu1, mu2, f1, f2, inv1, inv2, du2, tmp, dmu1, dmu2, m);
-    const smax = longestStep(du, dmu1, dmu2, mu1, mu2, f1, f2, m);
-    if (!(Number.isFinite(smax) && allFinite(du, m))) break;
+    const smax = correctorMultiplierStep(target, du, mu1, mu2, f1, f2, inv1, inv2, du2, tmp, dmu1, dmu2, m);
+    if (!Number.isFinite(smax)) break;
     const step = Math.min(1, fraction * smax);
     takeStep(step, lambda, du, dmu1, dmu2, u, mu1, mu2, f1, f2, m);
-    applyDifferenceGram(rows, winv, q, u, qu, tmp);
+    gramAndGapSums(rows, winv, q, u, qu, tmp, p, sums);
   }
   // the best iterate seen (the last one unless the iteration broke down); b = y - W^{-1} D^T u
   differenceTranspose(x, q, best.u, tmp);
@@ -229,47 +221,74 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
 // functions so that the first call's compiler works on small bodies: a loop inside the long solver
 // made Node compile the whole solver on the spot once per loop. Unchecked.
 
-/** sums = [||p - Q u||_1, u.(p - Q u), u.Q u]: the objective and gap without b. Unchecked. */
-function gapSums(p: Float64Array, qu: Float64Array, u: Float64Array, m: number, sums: Float64Array): void {
+/**
+ * qu = Q u = D (W^{-1} (D^T u)) (as {@link applyDifferenceGram}: the same operations) and, in its
+ * last pass, sums = [||p - Q u||_1, u.(p - Q u), u.Q u]: the objective and gap without b. Each entry
+ * of W^{-1} D^T u is scaled just before its first use. `tmp` has length n. Unchecked.
+ */
+function gramAndGapSums(rows: Float64Array, winv: Float64Array, q: number, u: Float64Array, qu: Float64Array, tmp: Float64Array, p: Float64Array, sums: Float64Array): void {
+  const n = winv.length;
+  const m = n - q;
+  const wd = q + 1;
+  tmp.fill(0);
+  for (let r = 0; r < m; r++) {
+    const zr = u[r];
+    const o = r * wd;
+    for (let c = 0; c <= q; c++) tmp[r + c] += rows[o + c] * zr;
+  }
+  for (let i = 0; i < q && i < n; i++) tmp[i] *= winv[i];
   let l1 = 0, ud = 0, uqu = 0;
-  for (let i = 0; i < m; i++) { const v = p[i] - qu[i]; l1 += Math.abs(v); ud += u[i] * v; uqu += u[i] * qu[i]; }
+  for (let r = 0; r < m; r++) {
+    tmp[r + q] *= winv[r + q];
+    let s = 0;
+    const o = r * wd;
+    for (let c = 0; c <= q; c++) s += rows[o + c] * tmp[r + c];
+    qu[r] = s;
+    const v = p[r] - s;
+    l1 += Math.abs(v); ud += u[r] * v; uqu += u[r] * s;
+  }
   sums[0] = l1; sums[1] = ud; sums[2] = uqu;
 }
 
 /**
  * The Newton system's diagonal (mat holds the Gram band: adds mu1 / s1 + mu2 / s2), the reciprocal
- * slacks, the dual residual rd = Q u - p + mu1 - mu2, and the complementarity mu . s returned. Unchecked.
+ * slacks, the dual residual rd = Q u - p + mu1 - mu2, the predictor's right side du = -rd + mu1 - mu2
+ * (sigma = 0), and the complementarity mu . s returned. Unchecked.
  */
-function newtonSystem(f1: Float64Array, f2: Float64Array, mu1: Float64Array, mu2: Float64Array, qu: Float64Array, p: Float64Array, inv1: Float64Array, inv2: Float64Array, rd: Float64Array, mat: Float64Array, wd: number, m: number): number {
+function newtonSystem(f1: Float64Array, f2: Float64Array, mu1: Float64Array, mu2: Float64Array, qu: Float64Array, p: Float64Array, inv1: Float64Array, inv2: Float64Array, rd: Float64Array, mat: Float64Array, wd: number, m: number, du: Float64Array): number {
   let comp = 0;
   for (let i = 0; i < m; i++) {
     const s1 = -f1[i], s2 = -f2[i];
     const i1 = 1 / s1, i2 = 1 / s2;
     inv1[i] = i1; inv2[i] = i2;
     comp += mu1[i] * s1 + mu2[i] * s2;
-    rd[i] = qu[i] - p[i] + mu1[i] - mu2[i];
+    const r = qu[i] - p[i] + mu1[i] - mu2[i];
+    rd[i] = r;
     mat[i * wd] += mu1[i] * i1 + mu2[i] * i2;
+    du[i] = -r + mu1[i] - mu2[i];
   }
   return comp;
 }
 
-/** The predictor's right side: du = -rd + mu1 - mu2 (sigma = 0). Unchecked. */
-function predictorRightSide(rd: Float64Array, mu1: Float64Array, mu2: Float64Array, du: Float64Array, m: number): void {
-  for (let i = 0; i < m; i++) du[i] = -rd[i] + mu1[i] - mu2[i];
-}
-
-/** Whether v[0..m) are all finite. Unchecked. */
-function allFinite(v: Float64Array, m: number): boolean {
-  for (let i = 0; i < m; i++) if (!Number.isFinite(v[i])) return false;
-  return true;
-}
-
-/** The predictor's multiplier steps: dmu1 = (-mu1 s1 + mu1 du) / s1, dmu2 = (-mu2 s2 - mu2 du) / s2. Unchecked. */
-function affineMultiplierStep(du: Float64Array, mu1: Float64Array, mu2: Float64Array, inv1: Float64Array, inv2: Float64Array, dmu1: Float64Array, dmu2: Float64Array, m: number): void {
+/**
+ * The predictor's multiplier steps, dmu1 = (-mu1 s1 + mu1 du) / s1 and dmu2 = (-mu2 s2 - mu2 du) / s2,
+ * and, in the same pass, the longest step t <= 1 along (du, dmu1, dmu2) that keeps the slacks s1 = -f1,
+ * s2 = -f2 (s1 - t du, s2 + t du) and the multipliers mu1, mu2 non-negative. Limits are compared
+ * before dividing (t b > a for b > 0 rather than t > a / b). Unchecked.
+ */
+function affineMultiplierStep(du: Float64Array, mu1: Float64Array, mu2: Float64Array, inv1: Float64Array, inv2: Float64Array, dmu1: Float64Array, dmu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): number {
+  let t = 1;
   for (let i = 0; i < m; i++) {
-    dmu1[i] = -mu1[i] + mu1[i] * du[i] * inv1[i];
-    dmu2[i] = -mu2[i] - mu2[i] * du[i] * inv2[i];
+    const d = du[i];
+    const d1 = -mu1[i] + mu1[i] * d * inv1[i];
+    const d2 = -mu2[i] - mu2[i] * d * inv2[i];
+    dmu1[i] = d1; dmu2[i] = d2;
+    if (d1 < 0 && t * -d1 > mu1[i]) t = mu1[i] / -d1;
+    if (d2 < 0 && t * -d2 > mu2[i]) t = mu2[i] / -d2;
+    if (d > 0) { if (t * d > -f1[i]) t = -f1[i] / d; }
+    else if (d < 0) { if (t * -d > -f2[i]) t = -f2[i] / -d; }
   }
+  return t;
 }
 
 /** The complementarity after a step of length a along the predictor. Unchecked. */
@@ -284,24 +303,38 @@ function complementarityAfter(a: number, du: Float64Array, dmu1: Float64Array, d
 /**
  * The corrector's right side: with ds1 = -du, ds2 = du of the predictor, c1 = -du dmu1, c2 = du dmu2,
  * Q du + dmu1 - dmu2 = -rd, dmu1 = (-mu1 s1 + target - c1 + mu1 du) / s1, dmu2 = (-mu2 s2 + target - c2 - mu2 du) / s2;
- * c1 and c2 are kept for the multiplier step. Unchecked.
+ * c1 and c2 are kept for the multiplier step. `rhs` may be `du` itself (entry i is read before it is
+ * written). Unchecked.
  */
 function correctorRightSide(target: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, rd: Float64Array, inv1: Float64Array, inv2: Float64Array, rhs: Float64Array, c1s: Float64Array, c2s: Float64Array, m: number): void {
   for (let i = 0; i < m; i++) {
     const s1 = -f1[i], s2 = -f2[i];
-    const c1 = -du[i] * dmu1[i], c2 = du[i] * dmu2[i];
+    const d = du[i];
+    const c1 = -d * dmu1[i], c2 = d * dmu2[i];
     rhs[i] = -rd[i] - (-mu1[i] * s1 + target - c1) * inv1[i] + (-mu2[i] * s2 + target - c2) * inv2[i];
     c1s[i] = c1;
     c2s[i] = c2;
   }
 }
 
-/** The corrector's multiplier steps from its du and the kept c1, c2. Unchecked. */
-function correctorMultiplierStep(target: number, du: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, inv1: Float64Array, inv2: Float64Array, c1s: Float64Array, c2s: Float64Array, dmu1: Float64Array, dmu2: Float64Array, m: number): void {
+/**
+ * The corrector's multiplier steps from its du and the kept c1, c2 and, in the same pass, the longest
+ * step along them (the rule of {@link affineMultiplierStep}); NaN when an entry of du is not finite. Unchecked.
+ */
+function correctorMultiplierStep(target: number, du: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, inv1: Float64Array, inv2: Float64Array, c1s: Float64Array, c2s: Float64Array, dmu1: Float64Array, dmu2: Float64Array, m: number): number {
+  let t = 1, finite = true;
   for (let i = 0; i < m; i++) {
-    dmu1[i] = (mu1[i] * f1[i] + target - c1s[i] + mu1[i] * du[i]) * inv1[i];
-    dmu2[i] = (mu2[i] * f2[i] + target - c2s[i] - mu2[i] * du[i]) * inv2[i];
+    const d = du[i];
+    const d1 = (mu1[i] * f1[i] + target - c1s[i] + mu1[i] * d) * inv1[i];
+    const d2 = (mu2[i] * f2[i] + target - c2s[i] - mu2[i] * d) * inv2[i];
+    dmu1[i] = d1; dmu2[i] = d2;
+    if (!Number.isFinite(d)) finite = false;
+    if (d1 < 0 && t * -d1 > mu1[i]) t = mu1[i] / -d1;
+    if (d2 < 0 && t * -d2 > mu2[i]) t = mu2[i] / -d2;
+    if (d > 0) { if (t * d > -f1[i]) t = -f1[i] / d; }
+    else if (d < 0) { if (t * -d > -f2[i]) t = -f2[i] / -d; }
   }
+  return finite ? t : NaN;
 }
 
 /** The step: u, mu1, mu2 move by `step` along their directions; f1 = u - lambda, f2 = -u - lambda. Unchecked. */
