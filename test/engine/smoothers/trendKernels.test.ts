@@ -8,6 +8,8 @@ import { differenceTranspose } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
 import * as restrictedSplineFitModule from '../../../src/engine/basis/restrictedSplineFit';
 import { polishTrend } from '../../../src/engine/smoothers/trend/polishTrend';
+import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
+import { basisCache } from '../../../src/engine/basis/discreteBSplines';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
 import { checkTrendKkt, denseDifference } from './trendKkt';
 import { trendDualInteriorPoint, trendOperator } from '../../../src/engine/smoothers/trend/trendDualInteriorPoint';
@@ -203,5 +205,36 @@ describe('trendDualInteriorPoint', () => {
     expect(first.u).not.toBe(again.u);
     expect(first.b).not.toBe(again.b);
     expect(Array.from(first.u).some((v, i) => v !== again.u[i])).toBe(true);
+  });
+});
+
+describe('activeSetNewton', () => {
+  test.each([1, 3])('order %i: calls sharing a basis cache (and its round work space) give bit for bit the answers of fresh caches, and a later call leaves an earlier answer alone', (k) => {
+    const n = 300;
+    const rn = seededNormal(600 + k);
+    const x = Float64Array.from({ length: n }, (_, i) => (i + 0.3 * Math.sin(i)) / (n - 1 + 0.3 * Math.sin(n - 1)));
+    const y = Float64Array.from(x, (t) => Math.sin(7 * t) + (t > 0.5 ? 2 * (t - 0.5) : 0) + 0.1 * rn());
+    const w = new Float64Array(n).fill(1);
+    const lmax = trendLambdaMax(x, y, w, k);
+    const run = (lambda: number, cache: ReturnType<typeof basisCache>) => {
+      // from the exact fit's knots (the refinement from no knots) the rounds settle with a certified fit
+      const pol = polishTrend(x, y, w, k, lambda, new Float64Array(n - k - 1), 400, []);
+      const rows = pol.knots;
+      const signs = pol.knots.map((r) => (pol.u[r] >= 0 ? 1 : -1));
+      return activeSetNewton(x, y, w, k, lambda, rows, signs, 60, cache, 0, true, Infinity, true);
+    };
+    const shared = basisCache();
+    const a = run(1e-2 * lmax, shared);
+    const aCopy = a.fit ? { b: Array.from(a.fit.b), u: Array.from(a.fit.u) } : undefined;
+    const b = run(1e-3 * lmax, shared);
+    const bFresh = run(1e-3 * lmax, basisCache());
+    expect(a.fit && b.fit && bFresh.fit).toBeTruthy();
+    expect(Array.from(b.fit!.b)).toEqual(Array.from(bFresh.fit!.b));
+    expect(Array.from(b.fit!.u)).toEqual(Array.from(bFresh.fit!.u));
+    expect(b.rows).toEqual(bFresh.rows);
+    expect(Array.from(a.fit!.b)).toEqual(aCopy!.b);
+    expect(Array.from(a.fit!.u)).toEqual(aCopy!.u);
+    expect(a.fit!.b).not.toBe(shared.rounds!.b);
+    expect(a.fit!.u).not.toBe(shared.rounds!.u);
   });
 });

@@ -1,5 +1,5 @@
 import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
-import type { BasisCache } from '../../basis/discreteBSplines';
+import { roundWork, BasisCache } from '../../basis/discreteBSplines';
 import { dualFromResidual } from '../../linalg/dualFromResidual';
 import { boxRelative, certify, residualSums, restrictedGap, PolishResult } from './polishTrend';
 
@@ -65,8 +65,9 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const lim = lambda * (1 + boxRelative(n, k));
   let A: number[] = Array.from(rows);
   let S: number[] = Array.from(signs);
-  // (the dual's one-pass kernels of orders 1 to 3 need no work space)
-  const g = new Float64Array(n), ubuf = new Float64Array(m), bbuf = new Float64Array(n);
+  // the residual, b and u of a round, kept on the cache between calls (the dual's one-pass kernels
+  // of orders 1 to 3 need no other work space)
+  const { g, u: ubuf, b: bbuf } = roundWork(cache, n, m);
   let rounds = 0;
   // a looser target needs no refinement steps in the solves ({@link refinementStepsFor})
   const steps = refinementStepsFor(stopGap, k);

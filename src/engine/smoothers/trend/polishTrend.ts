@@ -1,7 +1,7 @@
 import { dualFromResidual } from '../../linalg/dualFromResidual';
 import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import { RestrictedSystem, withoutKnot, solveRestrictedSystem } from '../../basis/restrictedSystem';
-import type { BasisCache } from '../../basis/discreteBSplines';
+import { roundWork, BasisCache } from '../../basis/discreteBSplines';
 
 /** Result of {@link polishTrend}. */
 export interface PolishResult {
@@ -94,8 +94,9 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   const seen = new Set<string>();
   let last: Certifiable | undefined;
   const lim = lambda * (1 + boxRelative(n, k));
-  // g = W (y - b) of the round (the dual's one-pass kernels of orders 1 to 3 need no work space)
-  const g = new Float64Array(n);
+  // g = W (y - b) of the round, kept on the cache between calls (the dual's one-pass kernels of
+  // orders 1 to 3 need no work space)
+  const g = roundWork(cache, n, m).g;
   // the normal equations of the last solve from the data (orders 2 and 3) and the active set they belong to
   let kept: { rows: number[]; system: RestrictedSystem } | undefined;
   const keep: { system?: RestrictedSystem } = {};
