@@ -98,11 +98,12 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       worth = restrictedGap(lambda, Math.max(0, um / lambda - 1), rss, yg, l1, ud) <= stopGap;
     }
     if (worth) {
-      // the round's solution: D b is (D b)_A on A and exactly zero elsewhere
-      const db = new Float64Array(m);
+      // the round's solution: D b is (D b)_A on A and exactly zero elsewhere; a certified one gets a
+      // copy of b (the round's b lives in the work space)
       let dmax = 0;
-      for (let i = 0; i < A.length; i++) { db[A[i]] = sol.dA[i]; dmax = Math.max(dmax, Math.abs(sol.dA[i])); }
-      const fit = certify(y, w, lambda, { b: Float64Array.from(sol.b), u, rss, yg, db, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
+      for (let i = 0; i < A.length; i++) dmax = Math.max(dmax, Math.abs(sol.dA[i]));
+      const fit = certify(y, w, lambda, { b: sol.b, u, rss, yg, dA: sol.dA, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
+      if (fit.ok) fit.b = Float64Array.from(fit.b);
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
       if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };
     }

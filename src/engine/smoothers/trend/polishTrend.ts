@@ -87,7 +87,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   // the iterate starts at the weighted polynomial fit (D b = 0), feasible in the span of any active
   // set; only D of the iterate on the active rows is carried along the steps (zero at that start):
   // its fitted values are needed only at a full step, where they are the round's fit
-  let dcur: Float64Array = new Float64Array(m);
+  const dcur = new Float64Array(m);
   let u: Float64Array = new Float64Array(m);
   // active sets met so far, by two 32-bit hashes of the signed rows and their count (a repeat
   // means the method cycles)
@@ -182,13 +182,12 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       continue;
     }
     // a full step: D b is (D b)_A on A and exactly zero elsewhere (the certified state keeps its own copy)
-    const dnew = new Float64Array(m);
-    for (let j = 0; j < rowsA.length; j++) dnew[rowsA[j]] = dA[j];
+    dcur.fill(0);
+    for (let j = 0; j < rowsA.length; j++) dcur[rowsA[j]] = dA[j];
     const bnew = sol!.b;
-    dcur = Float64Array.from(dnew);
     const sums = residualSums(y, w, bnew, g);
     u = dualFromResidual(x, k + 1, g).u;
-    last = { b: bnew, u, ...sums, db: dnew, rows: rowsA, dmax };
+    last = { b: bnew, u, ...sums, dA, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
     const added = addViolations(u, sgn, m, lim);
     if (!added) return certify(y, w, lambda, last, true, rounds + 1);
@@ -247,22 +246,22 @@ function addViolations(u: Float64Array, sgn: Int8Array, m: number, lim: number):
 export function certify(y: Float64Array, w: Float64Array, lambda: number, last: Certifiable | undefined, optimal: boolean, rounds: number, anyScale = false, within = Infinity): PolishResult {
   const fail = (achieved = Infinity): PolishResult => ({ ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved, rounds });
   if (!last) return fail();
-  const { b, u, rss, yg, db, rows, dmax } = last;
+  const { b, u, rss, yg, dA, rows, dmax } = last;
   let um = 0;
   for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
   const delta = Math.max(0, um / lambda - 1);
   if (!optimal && !anyScale && delta > 1e-4) return fail();
   let l1 = 0, ud = 0;
-  for (const r of rows) { l1 += Math.abs(db[r]); ud += u[r] * db[r]; }
+  for (let j = 0; j < rows.length; j++) { l1 += Math.abs(dA[j]); ud += u[rows[j]] * dA[j]; }
   const achieved = restrictedGap(lambda, delta, rss, yg, l1, ud);
   // a round checked against a target it misses: no result arrays needed
   if (!(achieved <= within)) return { ok: false, b, u, knots: [], dKnots: new Float64Array(0), achieved, rounds };
   const scale = 1 / (1 + delta);
-  const knots = rows.filter((r) => Math.abs(db[r]) > 1e-10 * dmax);
+  const knots: number[] = [], kept: number[] = [];
+  for (let j = 0; j < rows.length; j++) if (Math.abs(dA[j]) > 1e-10 * dmax) { knots.push(rows[j]); kept.push(dA[j]); }
   const us = new Float64Array(u.length);
   for (let r = 0; r < u.length; r++) us[r] = u[r] * scale;
-  const dKnots = new Float64Array(knots.length);
-  for (let j = 0; j < knots.length; j++) dKnots[j] = db[knots[j]];
+  const dKnots = Float64Array.from(kept);
   return { ok: true, b, u: us, knots, dKnots, achieved, rounds };
 }
 
@@ -290,7 +289,7 @@ export function restrictedGap(lambda: number, delta: number, rss: number, yg: nu
 }
 
 /** A restricted solution with its recovered dual and its {@link residualSums}, as {@link certify} takes it. Unchecked. */
-export interface Certifiable { b: Float64Array; u: Float64Array; rss: number; yg: number; db: Float64Array; rows: number[]; dmax: number }
+export interface Certifiable { b: Float64Array; u: Float64Array; rss: number; yg: number; dA: Float64Array; rows: number[]; dmax: number }
 
 /**
  * Fills g = W (y - b), the right-hand side from which the dual is recovered, and returns the sums
