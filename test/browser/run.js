@@ -343,28 +343,46 @@ const poolStats = (page) => page.evaluate(() => { const rt = globalThis[Symbol.f
 test('Cancel stops a fit running in the worker: the status says so, the worker is replaced, and the next fit works', async (page) => {
   await page.selectOption('#method', 'breaks-slope');
   await page.selectOption('#rule', 'auto');
-  const before = await poolStats(page);
-  assert(before, 'the pane has no worker pool');
-  const t0 = Date.now();
-  await page.click('#run');
-  await page.waitForSelector('#progress:not([hidden])');
-  const tShown = Date.now();
-  // Cancel once a worker has the job: a job still queued (its worker starting) is dropped from the queue without
-  // stopping any worker, which is right but not what this test checks
-  await page.waitForFunction(() => globalThis[Symbol.for('knotwise.pageRuntime')].pool.running > 0, null, { timeout: 30000 });
-  const atCancel = await page.evaluate(() => { const p = globalThis[Symbol.for('knotwise.pageRuntime')].pool; return { running: p.running, queued: p.queued, workers: p.workers, ...p.stats }; });
-  await page.click('#cancel');
-  await page.waitForFunction(() => /cancelled/i.test(document.querySelector('#status')?.textContent || ''));
-  const tCancelled = Date.now();
-  assert(await page.isHidden('#progress'), 'the progress bar is still shown after Cancel');
-  const after = await poolStats(page);
-  assert(after.workersTerminated === before.workersTerminated + 1, `workers terminated ${before.workersTerminated} -> ${after.workersTerminated} (pool before ${JSON.stringify(before)}, at Cancel ${JSON.stringify(atCancel)}, after ${JSON.stringify(after)}; status "${await page.textContent('#status')}")`);
-  assert(after.workersStarted === before.workersStarted + 1, `workers started ${before.workersStarted} -> ${after.workersStarted}: no replacement`);
-  assert(after.jobsCancelled === before.jobsCancelled + 1 && after.running === 0, `after cancel: ${JSON.stringify(after)}`);
-  const idle = await page.evaluate(async () => { const t = performance.now(); await globalThis[Symbol.for('knotwise.pageRuntime')].pool.whenIdle(); return performance.now() - t; });
-  console.log(`      (click to progress shown ${tShown - t0} ms; Cancel to status ${tCancelled - tShown} ms; replacement worker ready ${idle.toFixed(0)} ms later)`);
+  const original = await page.inputValue('#pick-y');
+  const columns = (await page.$$eval('#pick-y option', (os) => os.map((o) => o.value))).filter((v) => v !== original);
+  for (let attempt = 0; ; attempt++) {
+    const before = await poolStats(page);
+    assert(before, 'the pane has no worker pool');
+    const t0 = Date.now();
+    await page.click('#run');
+    await page.waitForSelector('#progress:not([hidden])');
+    const tShown = Date.now();
+    // Cancel once a worker has the job: a job still queued (its worker starting) is dropped from the queue without
+    // stopping any worker, which is right but not what this test checks
+    await page.waitForFunction(() => globalThis[Symbol.for('knotwise.pageRuntime')].pool.running > 0, null, { timeout: 30000 });
+    const atCancel = await page.evaluate(() => { const p = globalThis[Symbol.for('knotwise.pageRuntime')].pool; return { running: p.running, queued: p.queued, workers: p.workers, ...p.stats }; });
+    await page.click('#cancel');
+    await page.waitForFunction(() => /cancelled/i.test(document.querySelector('#status')?.textContent || ''));
+    const tCancelled = Date.now();
+    assert(await page.isHidden('#progress'), 'the progress bar is still shown after Cancel');
+    const after = await poolStats(page);
+    // The job's answer arrived as Cancel was pressed: the pool had nothing left to stop, and the pane dropped the
+    // answer and said so (right, but not what this test checks). Again on another column, whose fit is not cached.
+    const finishedFirst = after.jobsCancelled === before.jobsCancelled && after.workersTerminated === before.workersTerminated && after.running === 0;
+    if (finishedFirst && attempt < columns.length && attempt < 2) {
+      console.log(`      (the fit finished as Cancel was pressed, ${tCancelled - t0} ms after Fit; again on column ${columns[attempt]})`);
+      await page.selectOption('#pick-y', columns[attempt]);
+      continue;
+    }
+    assert(after.workersTerminated === before.workersTerminated + 1, `workers terminated ${before.workersTerminated} -> ${after.workersTerminated} (pool before ${JSON.stringify(before)}, at Cancel ${JSON.stringify(atCancel)}, after ${JSON.stringify(after)}; status "${await page.textContent('#status')}")`);
+    assert(after.workersStarted === before.workersStarted + 1, `workers started ${before.workersStarted} -> ${after.workersStarted}: no replacement`);
+    assert(after.jobsCancelled === before.jobsCancelled + 1 && after.running === 0, `after cancel: ${JSON.stringify(after)}`);
+    const idle = await page.evaluate(async () => { const t = performance.now(); await globalThis[Symbol.for('knotwise.pageRuntime')].pool.whenIdle(); return performance.now() - t; });
+    console.log(`      (click to progress shown ${tShown - t0} ms; Cancel to status ${tCancelled - tShown} ms; replacement worker ready ${idle.toFixed(0)} ms later)`);
+    break;
+  }
   await page.click('#run');
   await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints: slope') && /^Fitted/.test(document.querySelector('#status')?.textContent || ''));
+  if ((await page.inputValue('#pick-y')) !== original) {
+    await page.selectOption('#pick-y', original);
+    await page.click('#run');
+    await page.waitForFunction(() => document.querySelector('#result-title')?.textContent?.startsWith('Changepoints: slope') && /^Fitted/.test(document.querySelector('#status')?.textContent || ''));
+  }
 });
 
 test('while a long fit runs the page has no long task over 100 ms (PerformanceObserver "longtask")', async (page) => {
