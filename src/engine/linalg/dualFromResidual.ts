@@ -13,19 +13,17 @@
  * `work` (length >= n, optional) is used as work space instead of a new array; `out` (length
  * n - q, optional) receives u instead of a new array. For q = 2, 3 and 4 (orders 1 to 3, every
  * round of the active-set methods) all levels run in one pass with the same operations in the same
- * order (identical results): each level's running sum is a pair of locals, and the levels' chains
- * of additions overlap (there |.| is Math.abs and a level's largest |sum| is kept by a comparison:
- * the same values; NaN reaches the result through the last sum either way). Measured at n = 1e4,
- * q = 4: 0.13 to 0.19 ms a call level by level against 0.095 ms in one pass. Carrying every level through one pass for any q with the running sums in small
- * arrays indexed by level was measured too (identical results), and was 1.6 to 2 times slower
- * than the level-by-level loops. The level-by-level loops stay for other q and very short x.
+ * order (identical results; {@link dualFromResidualOnePass}): each level's running sum is a pair of
+ * locals, and the levels' chains of additions overlap. Measured at n = 1e4, q = 4: 0.13 to 0.19 ms a
+ * call level by level against about 0.1 ms in one pass. Carrying every level through one pass for
+ * any q with the running sums in small arrays indexed by level was measured too (identical
+ * results), and was 1.6 to 2 times slower than the level-by-level loops, which stay for other q and
+ * very short x.
  * Unchecked.
  */
 export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number>, work?: Float64Array, out?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
-  if (q === 2 && n >= 3) return dualFromResidual2(x, g, out);
-  if (q === 3 && n >= 5) return dualFromResidual3(x, g, out);
-  if (q === 4 && n >= 6) return dualFromResidual4(x, g, out);
+  if (q >= 2 && q <= 4 && n >= q + 2) return dualFromResidualOnePass(x, q, g, out);
   return dualFromResidualByLevel(x, q, g, work, out);
 }
 
@@ -86,95 +84,18 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
 }
 
 /**
- * {@link dualFromResidual} for q = 2 in one pass: level 1's entry i (the compensated running sum
- * of -g, times x_{i+1} - x_i) feeds level 2's running sum at once. Unchecked.
+ * {@link dualFromResidual} for q = 2, 3 and 4 in one pass (n >= q + 2). At point i, level 1's entry
+ * (the compensated running sum of -g) times (x_{i+1} - x_i) / 1 feeds level 2's running sum, whose
+ * entry times (x_{i+2} - x_i) / 2 feeds level 3's, and so on up to level q, whose entries are u. Level
+ * s has entries 0 .. n - s - 1, and its unmatched equation compares its last sum with its next input
+ * (at i = n - s). Each level is written out with its sums in locals, the same operations in the same
+ * order as the level-by-level loops; q only decides where the chain stops. Unchecked.
  */
-function dualFromResidual2(x: Float64Array, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
+function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
-  const u = out && out.length === n - 2 ? out : new Float64Array(n - 2);
-  // largest |g| and each level's largest |sum| are kept by comparisons (the same values as Math.max
-  // of |.|, which the compiler turns into a slower sequence; NaN reaches the result through the sums)
-  let gmax = 0;
-  let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, zmax1 = 0, zmax2 = 0;
-  let z1 = 0, s1 = 0, z2 = 0;
-  for (let i = 0; i < n - 1; i++) {
-    // level 1: z1_i = -(g_0 + .. + g_i), compensated, then times x_{i+1} - x_i (divided by S_1)
-    const v = g[i];
-    const av = Math.abs(v);
-    if (av > gmax) gmax = av;
-    const t = acc1 - v;
-    comp1 += Math.abs(acc1) >= av ? (acc1 - t) - v : (-v - t) + acc1;
-    acc1 = t;
-    z1 = acc1 + comp1;
-    const a1 = Math.abs(z1);
-    if (a1 > zmax1) zmax1 = a1;
-    s1 = z1 * (x[i + 1] - x[i]);
-    // level 2 has one entry fewer: u_i = -(s1_0 + .. + s1_i), compensated, for i < n - 2
-    if (i === n - 2) break;
-    const t2 = acc2 - s1;
-    comp2 += Math.abs(acc2) >= Math.abs(s1) ? (acc2 - t2) - s1 : (-s1 - t2) + acc2;
-    acc2 = t2;
-    z2 = acc2 + comp2;
-    u[i] = z2;
-    const a2 = Math.abs(z2);
-    if (a2 > zmax2) zmax2 = a2;
-  }
-  { const av = Math.abs(g[n - 1]); if (av > gmax) gmax = av; }
-  // the unmatched equation of each level: its last running sum against the next input
-  const miss1 = Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300);
-  const miss2 = Math.abs(z2 - s1) / Math.max(gmax, zmax2, 1e-300);
-  return { u, inconsistency: Math.max(miss1, miss2) };
-}
-
-/**
- * {@link dualFromResidual} for q = 3 in one pass (n >= 5): at point i, level 1's entry (the
- * compensated running sum of -g) times x_{i+1} - x_i feeds level 2's running sum, whose entry times
- * (x_{i+2} - x_i) / 2 feeds level 3's; level s has entries 0 .. n - s - 1, and its unmatched
- * equation compares its last sum with its next input (at i = n - s). The same operations in the same
- * order as the level-by-level loops. Unchecked.
- */
-function dualFromResidual3(x: Float64Array, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
-  const n = x.length;
-  const u = out && out.length === n - 3 ? out : new Float64Array(n - 3);
-  let gmax = 0;
-  let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, acc3 = 0, comp3 = 0;
-  let zmax1 = 0, zmax2 = 0, zmax3 = 0, z1 = 0, z2 = 0, z3 = 0, last2 = 0, last3 = 0;
-  for (let i = 0; i < n - 1; i++) {
-    const a1 = g[i];
-    { const ag = Math.abs(a1); if (ag > gmax) gmax = ag; }
-    const t1 = acc1 - a1;
-    comp1 += Math.abs(acc1) >= Math.abs(a1) ? (acc1 - t1) - a1 : (-a1 - t1) + acc1;
-    acc1 = t1;
-    z1 = acc1 + comp1;
-    { const az = Math.abs(z1); if (az > zmax1) zmax1 = az; }
-    const a2 = z1 * ((x[i + 1] - x[i]) / 1);
-    if (i === n - 2) { last2 = a2; break; }
-    const t2 = acc2 - a2;
-    comp2 += Math.abs(acc2) >= Math.abs(a2) ? (acc2 - t2) - a2 : (-a2 - t2) + acc2;
-    acc2 = t2;
-    z2 = acc2 + comp2;
-    { const az = Math.abs(z2); if (az > zmax2) zmax2 = az; }
-    const a3 = z2 * ((x[i + 2] - x[i]) / 2);
-    if (i === n - 3) { last3 = a3; continue; }
-    const t3 = acc3 - a3;
-    comp3 += Math.abs(acc3) >= Math.abs(a3) ? (acc3 - t3) - a3 : (-a3 - t3) + acc3;
-    acc3 = t3;
-    z3 = acc3 + comp3;
-    { const az = Math.abs(z3); if (az > zmax3) zmax3 = az; }
-    u[i] = z3;
-  }
-  { const ag = Math.abs(g[n - 1]); if (ag > gmax) gmax = ag; }
-  let worst = 0;
-  worst = Math.max(worst, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
-  worst = Math.max(worst, Math.abs(z2 - last2) / Math.max(gmax, zmax2, 1e-300));
-  worst = Math.max(worst, Math.abs(z3 - last3) / Math.max(gmax, zmax3, 1e-300));
-  return { u, inconsistency: worst };
-}
-
-/** {@link dualFromResidual} for q = 4 in one pass (n >= 6), as {@link dualFromResidual3} with a fourth level (times (x_{i+3} - x_i) / 3). Unchecked. */
-function dualFromResidual4(x: Float64Array, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
-  const n = x.length;
-  const u = out && out.length === n - 4 ? out : new Float64Array(n - 4);
+  const u = out && out.length === n - q ? out : new Float64Array(n - q);
+  // the largest |g| and each level's largest |sum| are kept by comparisons (the same values as
+  // Math.max of |.|, which compiles to a slower sequence; NaN reaches the result through the sums)
   let gmax = 0;
   let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, acc3 = 0, comp3 = 0, acc4 = 0, comp4 = 0;
   let zmax1 = 0, zmax2 = 0, zmax3 = 0, zmax4 = 0, z1 = 0, z2 = 0, z3 = 0, z4 = 0, last2 = 0, last3 = 0, last4 = 0;
@@ -193,6 +114,7 @@ function dualFromResidual4(x: Float64Array, g: ArrayLike<number>, out?: Float64A
     acc2 = t2;
     z2 = acc2 + comp2;
     { const az = Math.abs(z2); if (az > zmax2) zmax2 = az; }
+    if (q === 2) { u[i] = z2; continue; }
     const a3 = z2 * ((x[i + 2] - x[i]) / 2);
     if (i === n - 3) { last3 = a3; continue; }
     const t3 = acc3 - a3;
@@ -200,6 +122,7 @@ function dualFromResidual4(x: Float64Array, g: ArrayLike<number>, out?: Float64A
     acc3 = t3;
     z3 = acc3 + comp3;
     { const az = Math.abs(z3); if (az > zmax3) zmax3 = az; }
+    if (q === 3) { u[i] = z3; continue; }
     const a4 = z3 * ((x[i + 3] - x[i]) / 3);
     if (i === n - 4) { last4 = a4; continue; }
     const t4 = acc4 - a4;
@@ -210,10 +133,9 @@ function dualFromResidual4(x: Float64Array, g: ArrayLike<number>, out?: Float64A
     u[i] = z4;
   }
   { const ag = Math.abs(g[n - 1]); if (ag > gmax) gmax = ag; }
-  let worst = 0;
-  worst = Math.max(worst, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
+  let worst = Math.max(0, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
   worst = Math.max(worst, Math.abs(z2 - last2) / Math.max(gmax, zmax2, 1e-300));
-  worst = Math.max(worst, Math.abs(z3 - last3) / Math.max(gmax, zmax3, 1e-300));
-  worst = Math.max(worst, Math.abs(z4 - last4) / Math.max(gmax, zmax4, 1e-300));
+  if (q >= 3) worst = Math.max(worst, Math.abs(z3 - last3) / Math.max(gmax, zmax3, 1e-300));
+  if (q >= 4) worst = Math.max(worst, Math.abs(z4 - last4) / Math.max(gmax, zmax4, 1e-300));
   return { u, inconsistency: worst };
 }
