@@ -193,34 +193,41 @@ export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Fl
 
 /** {@link bandedCholeskySolve}'s general loops, for any half-bandwidth (the reference of the unrolled ones in tests). Unchecked. */
 export function bandedCholeskySolveRows(l: Float64Array, n: number, p: number, b: Float64Array): Float64Array {
+  forwardRows(l, n, p, b, 0, n);
+  backwardRows(l, n, p, b, n - 1, 0);
+  return b;
+}
+
+/** The forward substitution L z = b of {@link bandedCholeskySolve} on rows from .. to - 1, in place. Unchecked. */
+function forwardRows(l: Float64Array, n: number, p: number, b: Float64Array, from: number, to: number): void {
   const w = p + 1;
-  for (let i = 0; i < n; i++) {
+  for (let i = from; i < to; i++) {
     let s = b[i];
     const j0 = i - p > 0 ? i - p : 0;
     for (let j = j0; j < i; j++) s -= l[i * w + (i - j)] * b[j];
     b[i] = s * l[i * w];
   }
-  for (let i = n - 1; i >= 0; i--) {
+}
+
+/** The back substitution L^T x = z of {@link bandedCholeskySolve} on rows from down to `to`, in place (rows above `from` solved). Unchecked. */
+function backwardRows(l: Float64Array, n: number, p: number, b: Float64Array, from: number, to: number): void {
+  const w = p + 1;
+  for (let i = from; i >= to; i--) {
     let s = b[i];
     const j1 = i + p < n - 1 ? i + p : n - 1;
     for (let j = i + 1; j <= j1; j++) s -= l[j * w + (j - i)] * b[j];
     b[i] = s * l[i * w];
   }
-  return b;
 }
 
 /**
- * {@link bandedCholeskySolve} unrolled for half-bandwidth 3: the general loop's first and last rows,
+ * {@link bandedCholeskySolve} unrolled for half-bandwidth 3: the general loops' first and last rows,
  * the others with the last three values in locals; the same operations in the same order (identical
  * results). Unchecked.
  */
 function bandedCholeskySolve3(l: Float64Array, n: number, b: Float64Array): Float64Array {
   // forward: z_i = (b_i - L(i, i-3) z_{i-3} - L(i, i-2) z_{i-2} - L(i, i-1) z_{i-1}) / L(i, i)
-  for (let i = 0; i < 3; i++) {
-    let s = b[i];
-    for (let j = 0; j < i; j++) s -= l[i * 4 + (i - j)] * b[j];
-    b[i] = s * l[i * 4];
-  }
+  forwardRows(l, n, 3, b, 0, 3);
   let z3 = b[0], z2 = b[1], z1 = b[2];
   for (let i = 3; i < n; i++) {
     const o = 4 * i;
@@ -229,11 +236,7 @@ function bandedCholeskySolve3(l: Float64Array, n: number, b: Float64Array): Floa
     z3 = z2; z2 = z1; z1 = z;
   }
   // backward: x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2} - L(i+3, i) x_{i+3}) / L(i, i)
-  for (let i = n - 1; i >= n - 3; i--) {
-    let s = b[i];
-    for (let j = i + 1; j <= n - 1; j++) s -= l[j * 4 + (j - i)] * b[j];
-    b[i] = s * l[i * 4];
-  }
+  backwardRows(l, n, 3, b, n - 1, n - 3);
   let x1 = b[n - 3], x2 = b[n - 2], x3 = b[n - 1];
   for (let i = n - 4; i >= 0; i--) {
     const x = (((b[i] - l[4 * (i + 1) + 1] * x1) - l[4 * (i + 2) + 2] * x2) - l[4 * (i + 3) + 3] * x3) * l[4 * i];
@@ -245,11 +248,7 @@ function bandedCholeskySolve3(l: Float64Array, n: number, b: Float64Array): Floa
 
 /** {@link bandedCholeskySolve} unrolled for half-bandwidth 4, as {@link bandedCholeskySolve3}. Unchecked. */
 function bandedCholeskySolve4(l: Float64Array, n: number, b: Float64Array): Float64Array {
-  for (let i = 0; i < 4; i++) {
-    let s = b[i];
-    for (let j = 0; j < i; j++) s -= l[i * 5 + (i - j)] * b[j];
-    b[i] = s * l[i * 5];
-  }
+  forwardRows(l, n, 4, b, 0, 4);
   let z4 = b[0], z3 = b[1], z2 = b[2], z1 = b[3];
   for (let i = 4; i < n; i++) {
     const o = 5 * i;
@@ -257,11 +256,7 @@ function bandedCholeskySolve4(l: Float64Array, n: number, b: Float64Array): Floa
     b[i] = z;
     z4 = z3; z3 = z2; z2 = z1; z1 = z;
   }
-  for (let i = n - 1; i >= n - 4; i--) {
-    let s = b[i];
-    for (let j = i + 1; j <= n - 1; j++) s -= l[j * 5 + (j - i)] * b[j];
-    b[i] = s * l[i * 5];
-  }
+  backwardRows(l, n, 4, b, n - 1, n - 4);
   let x1 = b[n - 4], x2 = b[n - 3], x3 = b[n - 2], x4 = b[n - 1];
   for (let i = n - 5; i >= 0; i--) {
     const x = ((((b[i] - l[5 * (i + 1) + 1] * x1) - l[5 * (i + 2) + 2] * x2) - l[5 * (i + 3) + 3] * x3) - l[5 * (i + 4) + 4] * x4) * l[5 * i];
