@@ -70,7 +70,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   const { g, u: ubuf, b: bbuf } = roundWork(cache, n, m);
   let rounds = 0;
   // a looser target needs no refinement steps in the solves ({@link refinementStepsFor})
-  const steps = refinementStepsFor(stopGap, k);
+  const steps = refinementStepsFor(stopGap);
   const changes: number[] = [];
   let fewest = Infinity, since = 0;
   // active sets met so far (by two 32-bit hashes of the signed rows and their count)

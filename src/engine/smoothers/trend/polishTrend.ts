@@ -101,7 +101,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   let kept: { rows: number[]; system: RestrictedSystem } | undefined;
   const keep: { system?: RestrictedSystem } = {};
   // a looser target needs no refinement steps in the solves ({@link refinementStepsFor})
-  const steps = refinementStepsFor(stopGap, k);
+  const steps = refinementStepsFor(stopGap);
   const fromData = (rowsA: number[], sA: number[]) => {
     keep.system = undefined;
     const sol = restrictedSplineFit(x, y, w, k, lambda, rowsA, sA, cache, undefined, k >= 2 ? keep : undefined, steps);
