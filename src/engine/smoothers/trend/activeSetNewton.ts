@@ -1,7 +1,7 @@
 import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import { roundWork, BasisCache } from '../../basis/discreteBSplines';
 import { dualFromResidual } from '../../linalg/dualFromResidual';
-import { boxRelative, certify, residualSums, restrictedGap, PolishResult } from './polishTrend';
+import { boxRelative, certify, residualSums, PolishResult } from './polishTrend';
 
 /** Result of {@link activeSetNewton}. */
 export interface ActiveSetNewtonResult {
@@ -89,20 +89,13 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     nextActiveSet(u, m, A, S, sol.dA, lim, slide, nA, nS, scan);
     const changed = scan[0], um = scan[1];
     changes.push(changed);
-    let worth = changed === 0;
-    if (!worth && stopGap > 0) {
-      // the certificate's gap (as certify forms it): build the certified result only for a round
-      // that meets the target
-      let l1 = 0, ud = 0;
-      for (let i = 0; i < A.length; i++) { l1 += Math.abs(sol.dA[i]); ud += u[A[i]] * sol.dA[i]; }
-      worth = restrictedGap(lambda, Math.max(0, um / lambda - 1), rss, yg, l1, ud) <= stopGap;
-    }
-    if (worth) {
-      // the round's solution: D b is (D b)_A on A and exactly zero elsewhere; a certified one gets a
-      // copy of b (the round's b lives in the work space)
+    if (changed === 0 || stopGap > 0) {
+      // the round's solution: D b is (D b)_A on A and exactly zero elsewhere; its certificate (against
+      // the target, unless the round settled) builds result arrays only for a round that meets it,
+      // and a certified one gets a copy of b (the round's b lives in the work space)
       let dmax = 0;
       for (let i = 0; i < A.length; i++) dmax = Math.max(dmax, Math.abs(sol.dA[i]));
-      const fit = certify(y, w, lambda, { b: sol.b, u, rss, yg, dA: sol.dA, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
+      const fit = certify(y, w, lambda, { b: sol.b, u, umax: um, rss, yg, dA: sol.dA, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
       if (fit.ok) fit.b = Float64Array.from(fit.b);
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
       if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };

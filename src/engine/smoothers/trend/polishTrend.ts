@@ -247,8 +247,8 @@ export function certify(y: Float64Array, w: Float64Array, lambda: number, last: 
   const fail = (achieved = Infinity): PolishResult => ({ ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved, rounds });
   if (!last) return fail();
   const { b, u, rss, yg, dA, rows, dmax } = last;
-  let um = 0;
-  for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
+  let um = last.umax ?? 0;
+  if (last.umax === undefined) for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
   const delta = Math.max(0, um / lambda - 1);
   if (!optimal && !anyScale && delta > 1e-4) return fail();
   let l1 = 0, ud = 0;
@@ -289,7 +289,14 @@ export function restrictedGap(lambda: number, delta: number, rss: number, yg: nu
 }
 
 /** A restricted solution with its recovered dual and its {@link residualSums}, as {@link certify} takes it. Unchecked. */
-export interface Certifiable { b: Float64Array; u: Float64Array; rss: number; yg: number; dA: Float64Array; rows: number[]; dmax: number }
+export interface Certifiable {
+  b: Float64Array; u: Float64Array;
+  /** max |u| when the caller has it already (the active-set rounds' scan); else certify forms it. */
+  umax?: number;
+  rss: number; yg: number;
+  /** (D b) on the knot rows `rows`, in their order (D b is zero elsewhere). */
+  dA: Float64Array; rows: number[]; dmax: number;
+}
 
 /**
  * Fills g = W (y - b), the right-hand side from which the dual is recovered, and returns the sums
