@@ -114,23 +114,31 @@ describe('regressionSplineRefit', () => {
   });
 });
 
+/**
+ * An invented refinement problem: 150 uneven points on [0, 1] (as the refinement works), a wave and a
+ * kink with noise, alternating weights, lambda 1e-3 of lambda_max, and a start with far too many knots
+ * of alternating signs (every seventh row), so that most rounds drop a knot.
+ */
+function refinementProblem(k: number, seed: number) {
+  const n = 150;
+  const rn = seededNormal(seed);
+  const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    x[i] = (i + 0.4 * Math.sin(i)) / (n - 1 + 0.4 * Math.sin(n - 1));
+    y[i] = Math.sin(6 * x[i]) + (x[i] > 0.5 ? 1.5 * (x[i] - 0.5) : 0) + 0.1 * rn();
+    w[i] = 1 + (i % 2);
+  }
+  const lambda = 1e-3 * trendLambdaMax(x, y, w, k);
+  const m = n - k - 1;
+  const u0 = new Float64Array(m);
+  const initial: number[] = [];
+  for (let r = 3, s = 1; r < m - 3; r += 7, s = -s) { initial.push(r); u0[r] = s * lambda; }
+  return { n, x, y, w, lambda, u0, initial };
+}
+
 describe('polishTrend', () => {
   test.each([2, 3])('order %i: rounds that only drop knots are solved from the kept normal equations (fewer solves from the data than rounds) and the answer meets the KKT conditions', (k) => {
-    // x in [0, 1] as the refinement works; a start with far too many knots of alternating signs, so
-    // that most rounds drop a knot
-    const n = 150;
-    const rn = seededNormal(90 + k);
-    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      x[i] = (i + 0.4 * Math.sin(i)) / (n - 1 + 0.4 * Math.sin(n - 1));
-      y[i] = Math.sin(6 * x[i]) + (x[i] > 0.5 ? 1.5 * (x[i] - 0.5) : 0) + 0.1 * rn();
-      w[i] = 1 + (i % 2);
-    }
-    const lambda = 1e-3 * trendLambdaMax(x, y, w, k);
-    const m = n - k - 1;
-    const u0 = new Float64Array(m);
-    const initial: number[] = [];
-    for (let r = 3, s = 1; r < m - 3; r += 7, s = -s) { initial.push(r); u0[r] = s * lambda; }
+    const { x, y, w, lambda, u0, initial } = refinementProblem(k, 90 + k);
     const spy = jest.spyOn(restrictedSplineFitModule, 'restrictedSplineFit');
     try {
       const pol = polishTrend(x, y, w, k, lambda, u0, 400, initial);
@@ -147,19 +155,7 @@ describe('polishTrend', () => {
   });
 
   test.each([1, 2, 3])('order %i: with a loose target (1e-3, as cross-validation folds) the solves skip the refinement steps, and the gap recomputed densely from the fit is within the target', (k) => {
-    const n = 150;
-    const rn = seededNormal(190 + k);
-    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      x[i] = (i + 0.4 * Math.sin(i)) / (n - 1 + 0.4 * Math.sin(n - 1));
-      y[i] = Math.sin(6 * x[i]) + (x[i] > 0.5 ? 1.5 * (x[i] - 0.5) : 0) + 0.1 * rn();
-      w[i] = 1 + (i % 2);
-    }
-    const lambda = 1e-3 * trendLambdaMax(x, y, w, k);
-    const m = n - k - 1;
-    const u0 = new Float64Array(m);
-    const initial: number[] = [];
-    for (let r = 3, s = 1; r < m - 3; r += 7, s = -s) { initial.push(r); u0[r] = s * lambda; }
+    const { n, x, y, w, lambda, u0, initial } = refinementProblem(k, 190 + k);
     const spy = jest.spyOn(restrictedSplineFitModule, 'restrictedSplineFit');
     try {
       const pol = polishTrend(x, y, w, k, lambda, u0, 400, initial, undefined, 1e-3);
