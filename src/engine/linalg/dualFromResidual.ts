@@ -23,7 +23,7 @@
  */
 export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number>, work?: Float64Array, out?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
-  if (q >= 2 && q <= 4 && n >= q + 2) return dualFromResidualOnePass(x, q, g, out);
+  if (q >= 2 && q <= 4 && n >= q + 2) return dualFromResidualOnePass(x, q, g, out && out.length === n - q ? out : new Float64Array(n - q));
   return dualFromResidualByLevel(x, q, g, work, out);
 }
 
@@ -91,9 +91,8 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
  * (at i = n - s). Each level is written out with its sums in locals, the same operations in the same
  * order as the level-by-level loops; q only decides where the chain stops. Unchecked.
  */
-function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number>, out?: Float64Array): { u: Float64Array; inconsistency: number } {
+function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number>, u: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
-  const u = out && out.length === n - q ? out : new Float64Array(n - q);
   // the largest |g| and each level's largest |sum| are kept by comparisons (the same values as
   // Math.max of |.|, which compiles to a slower sequence; NaN reaches the result through the sums)
   let gmax = 0;
