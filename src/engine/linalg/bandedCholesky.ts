@@ -153,42 +153,57 @@ function bandedCholesky2(a: Float64Array, n: number, pivotFloor: number): number
 
 /**
  * Solves L L^T x = b with the factor from {@link bandedCholesky}, in place on b, O(n p).
+ *
+ * Each substitution is a function of its own that ends with its loop: in a fresh process a long
+ * loop's first compiled code is made while the loop runs, before the code after it has ever run,
+ * and Node's engine went on entering that code and throwing it away at the second loop on later
+ * calls (up to 711 times in one cross-validation of order 3 at 1e4).
  * Unchecked.
  */
 export function bandedCholeskySolve(l: Float64Array, n: number, p: number, b: Float64Array): Float64Array {
   if (n === 0) return b;
-  if (p === 1) {
-    let prev = b[0] * l[0];
-    b[0] = prev;
-    for (let i = 1; i < n; i++) { prev = (b[i] - l[2 * i + 1] * prev) * l[2 * i]; b[i] = prev; }
-    let next = b[n - 1] * l[2 * (n - 1)];
-    b[n - 1] = next;
-    for (let i = n - 2; i >= 0; i--) { next = (b[i] - l[2 * (i + 1) + 1] * next) * l[2 * i]; b[i] = next; }
-    return b;
-  }
-  if (p === 2) {
-    // forward: z_i = (b_i - L(i, i-1) z_{i-1} - L(i, i-2) z_{i-2}) / L(i, i)
-    let z1 = 0, z2 = 0;
-    for (let i = 0; i < n; i++) {
-      const o = 3 * i;
-      const z = (b[i] - l[o + 1] * z1 - l[o + 2] * z2) * l[o];
-      b[i] = z;
-      z2 = z1; z1 = z;
-    }
-    // backward: x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2}) / L(i, i)
-    let x1 = 0, x2 = 0;
-    for (let i = n - 1; i >= 0; i--) {
-      const c1 = i + 1 < n ? l[3 * (i + 1) + 1] : 0; // L(i+1, i)
-      const c2 = i + 2 < n ? l[3 * (i + 2) + 2] : 0; // L(i+2, i)
-      const x = (b[i] - c1 * x1 - c2 * x2) * l[3 * i];
-      b[i] = x;
-      x2 = x1; x1 = x;
-    }
-    return b;
-  }
-  if (p === 3 && n > 6) return bandedCholeskySolve3(l, n, b);
-  if (p === 4 && n > 8) return bandedCholeskySolve4(l, n, b);
+  if (p === 1) { forward1(l, n, b); backward1(l, n, b); return b; }
+  if (p === 2) { forward2(l, n, b); backward2(l, n, b); return b; }
+  if (p === 3 && n > 6) { forwardRows(l, n, 3, b, 0, 3); forward3(l, n, b); backwardRows(l, n, 3, b, n - 1, n - 3); backward3(l, n, b); return b; }
+  if (p === 4 && n > 8) { forwardRows(l, n, 4, b, 0, 4); forward4(l, n, b); backwardRows(l, n, 4, b, n - 1, n - 4); backward4(l, n, b); return b; }
   return bandedCholeskySolveRows(l, n, p, b);
+}
+
+/** Forward substitution for half-bandwidth 1: z_i = (b_i - L(i, i-1) z_{i-1}) / L(i, i). Unchecked. */
+function forward1(l: Float64Array, n: number, b: Float64Array): void {
+  let prev = b[0] * l[0];
+  b[0] = prev;
+  for (let i = 1; i < n; i++) { prev = (b[i] - l[2 * i + 1] * prev) * l[2 * i]; b[i] = prev; }
+}
+
+/** Back substitution for half-bandwidth 1: x_i = (z_i - L(i+1, i) x_{i+1}) / L(i, i). Unchecked. */
+function backward1(l: Float64Array, n: number, b: Float64Array): void {
+  let next = b[n - 1] * l[2 * (n - 1)];
+  b[n - 1] = next;
+  for (let i = n - 2; i >= 0; i--) { next = (b[i] - l[2 * (i + 1) + 1] * next) * l[2 * i]; b[i] = next; }
+}
+
+/** Forward substitution for half-bandwidth 2: z_i = (b_i - L(i, i-1) z_{i-1} - L(i, i-2) z_{i-2}) / L(i, i). Unchecked. */
+function forward2(l: Float64Array, n: number, b: Float64Array): void {
+  let z1 = 0, z2 = 0;
+  for (let i = 0; i < n; i++) {
+    const o = 3 * i;
+    const z = (b[i] - l[o + 1] * z1 - l[o + 2] * z2) * l[o];
+    b[i] = z;
+    z2 = z1; z1 = z;
+  }
+}
+
+/** Back substitution for half-bandwidth 2: x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2}) / L(i, i). Unchecked. */
+function backward2(l: Float64Array, n: number, b: Float64Array): void {
+  let x1 = 0, x2 = 0;
+  for (let i = n - 1; i >= 0; i--) {
+    const c1 = i + 1 < n ? l[3 * (i + 1) + 1] : 0; // L(i+1, i)
+    const c2 = i + 2 < n ? l[3 * (i + 2) + 2] : 0; // L(i+2, i)
+    const x = (b[i] - c1 * x1 - c2 * x2) * l[3 * i];
+    b[i] = x;
+    x2 = x1; x1 = x;
+  }
 }
 
 /** {@link bandedCholeskySolve}'s general loops, for any half-bandwidth (the reference of the unrolled ones in tests). Unchecked. */
@@ -221,13 +236,12 @@ function backwardRows(l: Float64Array, n: number, p: number, b: Float64Array, fr
 }
 
 /**
- * {@link bandedCholeskySolve} unrolled for half-bandwidth 3: the general loops' first and last rows,
- * the others with the last three values in locals; the same operations in the same order (identical
- * results). Unchecked.
+ * {@link bandedCholeskySolve} unrolled for half-bandwidth 3, rows 3 .. n - 1 of the forward
+ * substitution (the general loops solve the first rows), the last three values in locals; the same
+ * operations in the same order as the general loops (identical results).
+ * z_i = (b_i - L(i, i-3) z_{i-3} - L(i, i-2) z_{i-2} - L(i, i-1) z_{i-1}) / L(i, i). Unchecked.
  */
-function bandedCholeskySolve3(l: Float64Array, n: number, b: Float64Array): Float64Array {
-  // forward: z_i = (b_i - L(i, i-3) z_{i-3} - L(i, i-2) z_{i-2} - L(i, i-1) z_{i-1}) / L(i, i)
-  forwardRows(l, n, 3, b, 0, 3);
+function forward3(l: Float64Array, n: number, b: Float64Array): void {
   let z3 = b[0], z2 = b[1], z1 = b[2];
   for (let i = 3; i < n; i++) {
     const o = 4 * i;
@@ -235,20 +249,23 @@ function bandedCholeskySolve3(l: Float64Array, n: number, b: Float64Array): Floa
     b[i] = z;
     z3 = z2; z2 = z1; z1 = z;
   }
-  // backward: x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2} - L(i+3, i) x_{i+3}) / L(i, i)
-  backwardRows(l, n, 3, b, n - 1, n - 3);
+}
+
+/**
+ * The back substitution of {@link forward3}, rows n - 4 down to 0 (the general loops solve the last rows).
+ * x_i = (z_i - L(i+1, i) x_{i+1} - L(i+2, i) x_{i+2} - L(i+3, i) x_{i+3}) / L(i, i). Unchecked.
+ */
+function backward3(l: Float64Array, n: number, b: Float64Array): void {
   let x1 = b[n - 3], x2 = b[n - 2], x3 = b[n - 1];
   for (let i = n - 4; i >= 0; i--) {
     const x = (((b[i] - l[4 * (i + 1) + 1] * x1) - l[4 * (i + 2) + 2] * x2) - l[4 * (i + 3) + 3] * x3) * l[4 * i];
     b[i] = x;
     x3 = x2; x2 = x1; x1 = x;
   }
-  return b;
 }
 
-/** {@link bandedCholeskySolve} unrolled for half-bandwidth 4, as {@link bandedCholeskySolve3}. Unchecked. */
-function bandedCholeskySolve4(l: Float64Array, n: number, b: Float64Array): Float64Array {
-  forwardRows(l, n, 4, b, 0, 4);
+/** {@link forward3} for half-bandwidth 4 (rows 4 .. n - 1). Unchecked. */
+function forward4(l: Float64Array, n: number, b: Float64Array): void {
   let z4 = b[0], z3 = b[1], z2 = b[2], z1 = b[3];
   for (let i = 4; i < n; i++) {
     const o = 5 * i;
@@ -256,12 +273,14 @@ function bandedCholeskySolve4(l: Float64Array, n: number, b: Float64Array): Floa
     b[i] = z;
     z4 = z3; z3 = z2; z2 = z1; z1 = z;
   }
-  backwardRows(l, n, 4, b, n - 1, n - 4);
+}
+
+/** {@link backward3} for half-bandwidth 4 (rows n - 5 down to 0). Unchecked. */
+function backward4(l: Float64Array, n: number, b: Float64Array): void {
   let x1 = b[n - 4], x2 = b[n - 3], x3 = b[n - 2], x4 = b[n - 1];
   for (let i = n - 5; i >= 0; i--) {
     const x = ((((b[i] - l[5 * (i + 1) + 1] * x1) - l[5 * (i + 2) + 2] * x2) - l[5 * (i + 3) + 3] * x3) - l[5 * (i + 4) + 4] * x4) * l[5 * i];
     b[i] = x;
     x4 = x3; x3 = x2; x2 = x1; x1 = x;
   }
-  return b;
 }

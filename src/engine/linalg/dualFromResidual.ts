@@ -89,16 +89,51 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
  * entry times (x_{i+2} - x_i) / 2 feeds level 3's, and so on up to level q, whose entries are u. Level
  * s has entries 0 .. n - s - 1, and its unmatched equation compares its last sum with its next input
  * (at i = n - s). Each level is written out with its sums in locals, the same operations in the same
- * order as the level-by-level loops; q only decides where the chain stops. Unchecked.
+ * order as the level-by-level loops; q only decides where the chain stops.
+ *
+ * The pass runs in two calls of {@link onePassRows}, the first over a few points: in a fresh process
+ * a long loop's first compiled code is made while the loop runs, and code that had not yet run (here
+ * the saving of the sums after the loop) then has no type information; Node's engine kept entering
+ * that code and throwing it away on later calls (1,770 times in one cross-validation of order 1 at
+ * 1e4). After a short first call every statement has run before the loop is long. Unchecked.
  */
 function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number>, u: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
+  const st = new Float64Array(ONE_PASS_STATE);
+  const head = Math.min(n - 1, ONE_PASS_HEAD);
+  onePassRows(x, q, g, u, 0, head, st);
+  onePassRows(x, q, g, u, head, n - 1, st);
+  let gmax = st[0];
+  { const ag = Math.abs(g[n - 1]); if (ag > gmax) gmax = ag; }
+  let worst = Math.max(0, Math.abs(st[13] - g[n - 1]) / Math.max(gmax, st[9], 1e-300));
+  worst = Math.max(worst, Math.abs(st[14] - st[17]) / Math.max(gmax, st[10], 1e-300));
+  if (q >= 3) worst = Math.max(worst, Math.abs(st[15] - st[18]) / Math.max(gmax, st[11], 1e-300));
+  if (q >= 4) worst = Math.max(worst, Math.abs(st[16] - st[19]) / Math.max(gmax, st[12], 1e-300));
+  return { u, inconsistency: worst };
+}
+
+/** Points in the first call of {@link onePassRows}. */
+const ONE_PASS_HEAD = 64;
+
+/**
+ * Entries of the state of {@link onePassRows}: gmax; acc1, comp1 .. acc4, comp4; zmax1 .. zmax4;
+ * z1 .. z4; last2 .. last4.
+ */
+const ONE_PASS_STATE = 20;
+
+/**
+ * Points from .. to - 1 of {@link dualFromResidualOnePass}, its running sums read from `st` before
+ * the loop and written back after it. Unchecked.
+ */
+function onePassRows(x: Float64Array, q: number, g: ArrayLike<number>, u: Float64Array, from: number, to: number, st: Float64Array): void {
+  const n = x.length;
   // the largest |g| and each level's largest |sum| are kept by comparisons (the same values as
   // Math.max of |.|, which compiles to a slower sequence; NaN reaches the result through the sums)
-  let gmax = 0;
-  let acc1 = 0, comp1 = 0, acc2 = 0, comp2 = 0, acc3 = 0, comp3 = 0, acc4 = 0, comp4 = 0;
-  let zmax1 = 0, zmax2 = 0, zmax3 = 0, zmax4 = 0, z1 = 0, z2 = 0, z3 = 0, z4 = 0, last2 = 0, last3 = 0, last4 = 0;
-  for (let i = 0; i < n - 1; i++) {
+  let gmax = st[0];
+  let acc1 = st[1], comp1 = st[2], acc2 = st[3], comp2 = st[4], acc3 = st[5], comp3 = st[6], acc4 = st[7], comp4 = st[8];
+  let zmax1 = st[9], zmax2 = st[10], zmax3 = st[11], zmax4 = st[12], z1 = st[13], z2 = st[14], z3 = st[15], z4 = st[16];
+  let last2 = st[17], last3 = st[18], last4 = st[19];
+  for (let i = from; i < to; i++) {
     const a1 = g[i];
     { const ag = Math.abs(a1); if (ag > gmax) gmax = ag; }
     const t1 = acc1 - a1;
@@ -131,10 +166,8 @@ function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number
     { const az = Math.abs(z4); if (az > zmax4) zmax4 = az; }
     u[i] = z4;
   }
-  { const ag = Math.abs(g[n - 1]); if (ag > gmax) gmax = ag; }
-  let worst = Math.max(0, Math.abs(z1 - g[n - 1]) / Math.max(gmax, zmax1, 1e-300));
-  worst = Math.max(worst, Math.abs(z2 - last2) / Math.max(gmax, zmax2, 1e-300));
-  if (q >= 3) worst = Math.max(worst, Math.abs(z3 - last3) / Math.max(gmax, zmax3, 1e-300));
-  if (q >= 4) worst = Math.max(worst, Math.abs(z4 - last4) / Math.max(gmax, zmax4, 1e-300));
-  return { u, inconsistency: worst };
+  st[0] = gmax;
+  st[1] = acc1; st[2] = comp1; st[3] = acc2; st[4] = comp2; st[5] = acc3; st[6] = comp3; st[7] = acc4; st[8] = comp4;
+  st[9] = zmax1; st[10] = zmax2; st[11] = zmax3; st[12] = zmax4; st[13] = z1; st[14] = z2; st[15] = z3; st[16] = z4;
+  st[17] = last2; st[18] = last3; st[19] = last4;
 }

@@ -55,7 +55,7 @@ import { choosePenalty, edgeWarning } from '../select/choosePenalty';
 import { knotBends } from '../diagnostics/knotBends';
 import { differenceOperator } from '../linalg/difference';
 import { trendScaling, toScaledPenalty, toDataPenalty, TrendScaling } from './trend/trendScaling';
-import { solveTrend, TrendFit, TrendProblem } from './trend/solveTrend';
+import { solveTrend, trendFit, TrendFit, TrendProblem } from './trend/solveTrend';
 import { trendPath, TrendPath, relaxFit, knotPositions } from './trend/trendPath';
 import { interpolateTrend } from './trend/interpolateTrend';
 import { evaluateRegressionSpline, RegressionSpline } from './trend/regressionSplineRefit';
@@ -266,10 +266,7 @@ function interpolatingFit(prob: TrendProblem): TrendFit {
   for (let r = 0; r < db.length; r++) mx = Math.max(mx, Math.abs(db[r]));
   const knotRows: number[] = [];
   for (let r = 0; r < db.length; r++) if (Math.abs(db[r]) > 1e-12 * mx) knotRows.push(r);
-  return {
-    b: Float64Array.from(y), u: new Float64Array(n - k - 1), lambda: 0, knotRows,
-    status: { converged: true, iterations: 0, tolerance: 0, achieved: 0, stoppingRule: 'penalty 0: the fit interpolates the data' },
-  };
+  return trendFit(Float64Array.from(y), new Float64Array(n - k - 1), 0, knotRows, { converged: true, iterations: 0, tolerance: 0, achieved: 0, stoppingRule: 'penalty 0: the fit interpolates the data' });
 }
 
 function curveOf(path: TrendPath, rule: string): CriterionPoint[] {

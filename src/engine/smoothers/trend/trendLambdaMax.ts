@@ -21,14 +21,24 @@ export interface PolynomialDual {
  * Unchecked: n >= k + 2.
  */
 export function polynomialDual(x: Float64Array, y: Float64Array, w: Float64Array, k: number): PolynomialDual {
-  const n = x.length;
   const b = weightedPolynomialFit(x, y, w, k);
-  const g = new Float64Array(n);
-  for (let i = 0; i < n; i++) g[i] = w[i] * (y[i] - b[i]);
-  const { u } = dualFromResidual(x, k + 1, g);
+  // each loop in a function of its own (DEVELOPERS.md, "Long loops and the first call")
+  const u = dualFromResidual(x, k + 1, weightedResidual(y, w, b)).u;
+  return { b, u, lambdaMax: maxAbs(u) };
+}
+
+/** g = W (y - b). Unchecked. */
+function weightedResidual(y: Float64Array, w: Float64Array, b: Float64Array): Float64Array {
+  const g = new Float64Array(y.length);
+  for (let i = 0; i < y.length; i++) g[i] = w[i] * (y[i] - b[i]);
+  return g;
+}
+
+/** max |u_i| (0 for no entries). Unchecked. */
+function maxAbs(u: Float64Array): number {
   let mx = 0;
   for (let i = 0; i < u.length; i++) mx = Math.max(mx, Math.abs(u[i]));
-  return { b, u, lambdaMax: mx };
+  return mx;
 }
 
 /**

@@ -258,8 +258,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
     if (!twoStage) fits.fill(undefined);
     fits[j] = fit;
     const { b } = relaxFit(sc.xs, sc.ys, sc.ws, k, fit, s.relaxed);
-    let rss = 0;
-    for (let i = 0; i < n; i++) rss += series.w[i] * (sc.c * (sc.ys[i] - b[i])) ** 2;
+    const rss = scaledRss(series.w, sc.c, sc.ys, b, n);
     const df = fit.knotRows.length + k + 1;
     byIndex[j] = {
       penalty: toDataPenalty(grid[j], sc), df, knots: fit.knotRows.length, rss, cv: NaN, cvSe: NaN,
@@ -343,4 +342,15 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
   pts.reverse();
   const from = solved.indexOf(foldFrom);
   return { points: pts, lambdaMax: toDataPenalty(lmax, sc), sigmaNoise, scaledGrid: Float64Array.from(solved, (j) => grid[j]), scaling: sc, problem: prob, ...(from >= 0 ? { foldInteriorFrom: from } : {}) };
+}
+
+/**
+ * sum w_i (c (ys_i - b_i))^2 over the first n points: the residual sum of squares on the data's scale
+ * (ys and b on the solver's scale, 1 / c of the data's). A function of its own so that the path's
+ * loop over its points has no long loop in it (DEVELOPERS.md, "Long loops and the first call"). Unchecked.
+ */
+function scaledRss(w: Float64Array, c: number, ys: Float64Array, b: Float64Array, n: number): number {
+  let rss = 0;
+  for (let i = 0; i < n; i++) rss += w[i] * (c * (ys[i] - b[i])) ** 2;
+  return rss;
 }
