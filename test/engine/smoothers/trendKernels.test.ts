@@ -101,6 +101,21 @@ describe('dualFromResidual', () => {
     expect(one.inconsistency).toBe(ref.inconsistency);
     expect(one.inconsistency).toBeGreaterThan(0);
   });
+
+  test.each([2, 3, 4])('q = %i: the one pass split after its first 64 points gives bit for bit the level-by-level result on lengths around that split (6 to 70 points) and with an output array passed in', (q) => {
+    const rn = seededNormal(70 + q);
+    for (const n of [q + 2, q + 3, 40, 63, 64, 65, 66, 67, 68, 70]) {
+      const x = new Float64Array(n);
+      for (let i = 1; i < n; i++) x[i] = x[i - 1] + 0.5 + Math.abs(rn());
+      const g = Float64Array.from({ length: n }, () => rn());
+      const out = new Float64Array(n - q).fill(NaN);
+      const one = dualFromResidual(x, q, g, undefined, out);
+      const ref = dualFromResidualByLevel(x, q, g);
+      expect(one.u).toBe(out);
+      expect(Array.from(one.u)).toEqual(Array.from(ref.u));
+      expect(one.inconsistency).toBe(ref.inconsistency);
+    }
+  });
 });
 
 describe('regressionSplineRefit', () => {

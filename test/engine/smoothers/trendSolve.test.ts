@@ -158,6 +158,32 @@ describe('solveTrend', () => {
   });
 });
 
+describe('solveTrend, one shape for every fit', () => {
+  test('fits made by every strategy (dynamic programming, the polynomial, the interior point, a seed, a warm start, a fold solve, a halved step) list the same fields in the same order, and so do their statuses', () => {
+    // code that reads fits after a long loop is compiled for the shapes it has met (DEVELOPERS.md,
+    // "Long loops and the first call"); a fit spread from another or missing an optional field had a shape of its own
+    const p = problem(200, 2, 61);
+    const lmax = trendLambdaMax(p.x, p.y, p.w, 2);
+    const opt = { tolerance: 1e-10, maxIterations: 200 };
+    const cold = solveTrend(p, 1e-2 * lmax, opt);
+    const fits = [
+      solveTrend({ ...problem(200, 0, 62) }, 0.5, opt),
+      solveTrend(p, 2 * lmax, opt),
+      cold,
+      solveTrend({ x: p.x, y: p.y, w: p.w, k: 2 }, 1e-2 * lmax, { ...opt, seed: seedOf(cold) }),
+      solveTrend(p, 0.7e-2 * lmax, { ...opt, warm: cold }),
+      solveTrend(p, 0.7e-2 * lmax, { ...opt, refine: false, interiorFirst: true }),
+      solveTrendOverHalvedStep(p, 0.5e-2 * lmax, { ...opt, warm: cold })!,
+    ];
+    const rules = new Set(fits.map((f) => f.status.stoppingRule));
+    expect(rules.size).toBeGreaterThanOrEqual(5);
+    for (const f of fits) {
+      expect(Object.keys(f)).toEqual(Object.keys(fits[0]));
+      expect(Object.keys(f.status)).toEqual(Object.keys(fits[0].status));
+    }
+  });
+});
+
 describe('solveTrend, orders 2 and 3 warm-started', () => {
   test.each([2, 3])('order %i along a path: the active set from the previous penalty\'s knots meets the KKT conditions at each penalty, with its gap certified', (k) => {
     const p = problem(300, k, 101 + k);
