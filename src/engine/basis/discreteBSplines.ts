@@ -127,14 +127,8 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
   const values = spare ? spare.spareValues! : new Float64Array(n * wd);
   const penalty = new Float64Array(p * (k + 2));
   const nu = (k + 1) * (k + 1); // unknowns: k + 1 local coefficients for each of the k + 1 pieces
-  const M = new Float64Array((nu - 1) * nu), Mb = new Float64Array((nu - 1) * nu);
-  const coef = new Float64Array(nu);
-  const perm = new Int32Array(nu), z = new Float64Array(nu); // work space of nullVector
-  const cen = new Float64Array(k + 1), half = new Float64Array(k + 1);
-  const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
+  const work = windowWork(k);
   const allCoef = new Float64Array(p * nu);
-  // largest |B_e| of the window being evaluated and the value where it is reached (its sign)
-  const top = new Float64Array(2);
   // pass 1: the window of the last build each window repeats (a window's function depends on its
   // k + 2 knots alone), or -1
   const from = new Int32Array(p).fill(-1);
@@ -171,36 +165,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = op![fe * (k + 2) + q];
       continue;
     }
-    windowConditions(x, n, h, E, e, k, nu, cen, half, M);
-    // the band's own elimination first; complete pivoting (on the untouched conditions) when a pivot is too small there
-    Mb.set(M);
-    if (!bandedNullVector(Mb, nu - 1, nu, k, coef, z) && !nullVector(M, nu - 1, nu, coef, perm, z)) return null;
-    allCoef.set(coef, e * nu);
-    // the largest |B_e| on the data and the value where it is first reached (its sign), piece by piece
-    // (piece l holds the points rho_l < i <= rho_{l+1}) from the points where it can be: a piece's
-    // ends and the points beside its polynomial's turning points ({@link pieceTop})
-    top[0] = 0; top[1] = 0;
-    for (let l = 0; l <= k; l++) {
-      const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
-      pieceTop(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, top);
-    }
-    const vmax = top[0];
-    if (!(vmax > 0) || !Number.isFinite(vmax)) return null;
-    // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary): each
-    // value is the polynomial's value times 1 / scale, as evaluated in one pass
-    const scale = top[1], iv = 1 / scale;
-    for (let l = 0; l <= k; l++) {
-      const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
-      pieceValues(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, e, first, values, iv);
-    }
-    // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
-    for (let q = 0; q <= k + 1; q++) {
-      const r = E[e + q];
-      if (!(r >= 0 && r < m)) continue;
-      const after = q <= k ? coef[q * (k + 1) + k] / Math.pow(half[q], k) : 0;
-      const before = q >= 1 ? coef[(q - 1) * (k + 1) + k] / Math.pow(half[q - 1], k) : 0;
-      penalty[e * (k + 2) + q] = (fact * (after - before)) / scale;
-    }
+    if (!freshWindow(x, n, h, E, e, k, i0, i1, first, values, penalty, allCoef, work)) return null;
   }
   if (cache) {
     // this build's arrays become the last build's; the last build's (same x, so same n) the spare ones
@@ -209,6 +174,72 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
     cache.x = x; cache.k = k; cache.ext = E; cache.coef = allCoef; cache.values = values; cache.first = first; cache.penalty = penalty;
   }
   return { k, p, first, values, penalty };
+}
+
+/** Work space of {@link freshWindow}, allocated once per build. Unchecked. */
+interface WindowWork {
+  /** The window's k (k + 2) conditions on its (k + 1)^2 coefficients, and a copy for the band's elimination. */
+  M: Float64Array; Mb: Float64Array;
+  /** The null vector (the window's local coefficients), and nullVector's permutation and work space. */
+  coef: Float64Array; perm: Int32Array; z: Float64Array;
+  /** Each piece's centre and half-width. */
+  cen: Float64Array; half: Float64Array;
+  /** Largest |B_e| of the window being evaluated and the value where it is reached (its sign). */
+  top: Float64Array;
+}
+
+/** A {@link WindowWork} for degree k. Unchecked. */
+function windowWork(k: number): WindowWork {
+  const nu = (k + 1) * (k + 1);
+  return {
+    M: new Float64Array((nu - 1) * nu), Mb: new Float64Array((nu - 1) * nu), coef: new Float64Array(nu), perm: new Int32Array(nu),
+    z: new Float64Array(nu), cen: new Float64Array(k + 1), half: new Float64Array(k + 1), top: new Float64Array(2),
+  };
+}
+
+/**
+ * Window e of a build, not seen in the last one: its local coefficients (into allCoef), its values at
+ * its points i0..i1 and (D B_e) at its knots. False when its local system is singular (numerically
+ * coincident knots). A function of its own so that the build's loop over windows is short (DEVELOPERS.md,
+ * "Long loops and the first call": the first build of a long series runs thousands of windows before
+ * its loop is compiled). Unchecked.
+ */
+function freshWindow(x: Float64Array, n: number, h: number, E: Int32Array, e: number, k: number, i0: number, i1: number, first: Int32Array, values: Float64Array, penalty: Float64Array, allCoef: Float64Array, work: WindowWork): boolean {
+  const { M, Mb, coef, perm, z, cen, half, top } = work;
+  const nu = (k + 1) * (k + 1);
+  const m = n - k - 1;
+  windowConditions(x, n, h, E, e, k, nu, cen, half, M);
+  // the band's own elimination first; complete pivoting (on the untouched conditions) when a pivot is too small there
+  Mb.set(M);
+  if (!bandedNullVector(Mb, nu - 1, nu, k, coef, z) && !nullVector(M, nu - 1, nu, coef, perm, z)) return false;
+  allCoef.set(coef, e * nu);
+  // the largest |B_e| on the data and the value where it is first reached (its sign), piece by piece
+  // (piece l holds the points rho_l < i <= rho_{l+1}) from the points where it can be: a piece's
+  // ends and the points beside its polynomial's turning points ({@link pieceTop})
+  top[0] = 0; top[1] = 0;
+  for (let l = 0; l <= k; l++) {
+    const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
+    pieceTop(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, top);
+  }
+  const vmax = top[0];
+  if (!(vmax > 0) || !Number.isFinite(vmax)) return false;
+  // scaled to max |B_e| = 1, and positive where largest (a null vector's sign is arbitrary): each
+  // value is the polynomial's value times 1 / scale, as evaluated in one pass
+  const scale = top[1], iv = 1 / scale;
+  for (let l = 0; l <= k; l++) {
+    const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
+    pieceValues(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, e, first, values, iv);
+  }
+  // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
+  const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
+  for (let q = 0; q <= k + 1; q++) {
+    const r = E[e + q];
+    if (!(r >= 0 && r < m)) continue;
+    const after = q <= k ? coef[q * (k + 1) + k] / Math.pow(half[q], k) : 0;
+    const before = q >= 1 ? coef[(q - 1) * (k + 1) + k] / Math.pow(half[q - 1], k) : 0;
+    penalty[e * (k + 2) + q] = (fact * (after - before)) / scale;
+  }
+  return true;
 }
 
 // The passes over the points of one build, each its own function: the first call's compiler then

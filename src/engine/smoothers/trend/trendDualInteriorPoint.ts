@@ -87,11 +87,16 @@ function interiorWork(op: TrendOperator, n: number, m: number, wd: number): Inte
 
 /** Builds the {@link TrendOperator} for x, w and order k. O(n k^2). Unchecked. */
 export function trendOperator(x: Float64Array, w: Float64Array, k: number): TrendOperator {
-  const n = x.length;
-  const winv = new Float64Array(n);
-  for (let i = 0; i < n; i++) winv[i] = 1 / w[i];
+  const winv = reciprocals(w);
   const rows = differenceRows(x, k + 1);
   return { x, w, winv, k, rows, gram: differenceGram(rows, winv, k + 1) };
+}
+
+/** 1 / w_i (a loop of its own: DEVELOPERS.md, "Long loops and the first call"). Unchecked. */
+function reciprocals(w: Float64Array): Float64Array {
+  const winv = new Float64Array(w.length);
+  for (let i = 0; i < w.length; i++) winv[i] = 1 / w[i];
+  return winv;
 }
 
 /**
@@ -141,27 +146,21 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   u.fill(0);
   const b = new Float64Array(n);
 
-  if (u0 && u0.length === m) {
-    // scale the warm start into the new box, keeping its shape: max |u| -> 0.95 lambda
-    let um = 0;
-    for (let i = 0; i < m; i++) um = Math.max(um, Math.abs(u0[i]));
-    const sc = um > 0.95 * lambda ? (0.95 * lambda) / um : 1;
-    for (let i = 0; i < m; i++) u[i] = sc * u0[i];
-  }
-  for (let i = 0; i < m; i++) { f1[i] = u[i] - lambda; f2[i] = -u[i] - lambda; }
+  // the solver's own loops are kernels of their own (DEVELOPERS.md, "Long loops and the first call")
+  if (u0 && u0.length === m) warmStartDual(u0, lambda, u, m);
+  startSlacks(u, lambda, f1, f2, m);
   // Q u of the start and, in the same pass, the sums of its objective and gap (the loop's first)
   const sums = new Float64Array(3);
   applyDifferenceGram(rows, winv, q, u, qu, tmp, p, sums);
   let t: number;
   if (u0) {
-    let g = 0;
-    for (let i = 0; i < m; i++) { const dbi = p[i] - qu[i]; g += lambda * Math.abs(dbi) - u[i] * dbi; }
+    const g = startGap(p, qu, u, lambda, m);
     // start no closer to the end of the central path than a surrogate gap of 1e-6 of the null deviance
     t = Math.min(Math.max(1 / lambda, (2 * m) / Math.max(g, 1e-300)), (2 * m) / (1e-6 * e0 + 1e-300));
   } else {
     t = 1 / lambda;
   }
-  for (let i = 0; i < m; i++) { mu1[i] = 1 / (t * -f1[i]); mu2[i] = 1 / (t * -f2[i]); }
+  startMultipliers(t, f1, f2, mu1, mu2, m);
 
   let iter = 0;
   let achieved = Infinity;
@@ -211,11 +210,45 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   }
   // the best iterate seen (the last one unless the iteration broke down); b = y - W^{-1} D^T u
   differenceTranspose(x, q, best.u, tmp);
-  for (let i = 0; i < n; i++) b[i] = y[i] - winv[i] * tmp[i];
+  primalFromDual(y, winv, tmp, b);
   return {
     b, u: best.u, gap: best.gap, objective: best.objective,
     status: { converged, iterations: iter, tolerance, achieved: best.achieved, stoppingRule: INTERIOR_POINT_RULE },
   };
+}
+
+/** The warm start scaled into the new box, keeping its shape: max |u| -> 0.95 lambda (u = u0 when inside). Unchecked. */
+function warmStartDual(u0: Float64Array, lambda: number, u: Float64Array, m: number): void {
+  let um = 0;
+  for (let i = 0; i < m; i++) um = Math.max(um, Math.abs(u0[i]));
+  scaledInto(um > 0.95 * lambda ? (0.95 * lambda) / um : 1, u0, u, m);
+}
+
+/** u = sc u0 on the first m entries. Unchecked. */
+function scaledInto(sc: number, u0: Float64Array, u: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) u[i] = sc * u0[i];
+}
+
+/** The box constraints' values f1 = u - lambda, f2 = -u - lambda (both negative inside the box). Unchecked. */
+function startSlacks(u: Float64Array, lambda: number, f1: Float64Array, f2: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) { f1[i] = u[i] - lambda; f2[i] = -u[i] - lambda; }
+}
+
+/** The duality gap of a warm start: sum lambda |D b| - u.D b, with D b = p - Q u. Unchecked. */
+function startGap(p: Float64Array, qu: Float64Array, u: Float64Array, lambda: number, m: number): number {
+  let g = 0;
+  for (let i = 0; i < m; i++) { const dbi = p[i] - qu[i]; g += lambda * Math.abs(dbi) - u[i] * dbi; }
+  return g;
+}
+
+/** The multipliers on the central path at t: mu = 1 / (t s). Unchecked. */
+function startMultipliers(t: number, f1: Float64Array, f2: Float64Array, mu1: Float64Array, mu2: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) { mu1[i] = 1 / (t * -f1[i]); mu2[i] = 1 / (t * -f2[i]); }
+}
+
+/** b = y - W^{-1} D^T u, with D^T u given in dtu. Unchecked. */
+function primalFromDual(y: Float64Array, winv: Float64Array, dtu: Float64Array, b: Float64Array): void {
+  for (let i = 0; i < y.length; i++) b[i] = y[i] - winv[i] * dtu[i];
 }
 
 // The kernels of one interior-point iteration, each a loop over the m dual rows. They are separate
