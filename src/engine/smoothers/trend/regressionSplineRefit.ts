@@ -59,11 +59,30 @@ export function regressionSplineRefit(x: Float64Array, y: Float64Array, w: Float
   const wd = k + 1;
   const band = new Float64Array(p * wd);
   const rhs = new Float64Array(p);
-  const N = new Float64Array(k + 1);
-  const left = new Float64Array(k + 1), right = new Float64Array(k + 1);
   const mus = new Int32Array(n);
   const basis = new Float64Array(n * (k + 1));
-  for (let i = 0; i < n; i++) {
+  // each pass over the points is a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
+  splineNormalEquations(x, y, w, t, k, p, band, rhs, mus, basis);
+  // a tiny ridge keeps the system defined when a basis function has (almost) no data under it
+  let tr = 0;
+  for (let j = 0; j < p; j++) tr += band[j * wd];
+  for (let j = 0; j < p; j++) band[j * wd] += 1e-12 * (tr / p);
+  if (bandedCholesky(band, p, k, 1e-15) >= 0) throw new KnotwiseError('numerical', `the relaxed refit's system is not positive definite (order ${k}, ${p} basis functions); use a smaller relaxed value or fewer knots.`);
+  coef.set(rhs);
+  bandedCholeskySolve(band, p, k, coef);
+  splineFitted(basis, mus, coef, k, fitted);
+  return { spline: { k, t, coef }, fitted };
+}
+
+/**
+ * The band and right side of the weighted normal equations of the B-splines on knot vector t, with
+ * each point's interval (mus) and its k + 1 basis values (basis) kept for {@link splineFitted}. Unchecked.
+ */
+function splineNormalEquations(x: Float64Array, y: Float64Array, w: Float64Array, t: Float64Array, k: number, p: number, band: Float64Array, rhs: Float64Array, mus: Int32Array, basis: Float64Array): void {
+  const wd = k + 1;
+  const N = new Float64Array(k + 1);
+  const left = new Float64Array(k + 1), right = new Float64Array(k + 1);
+  for (let i = 0; i < x.length; i++) {
     const mu = intervalOf(t, k, p, x[i]);
     mus[i] = mu;
     bsplineBasis(t, k, mu, x[i], N, left, right);
@@ -75,19 +94,15 @@ export function regressionSplineRefit(x: Float64Array, y: Float64Array, w: Float
       for (let c = 0; c <= a; c++) band[ia * wd + (a - c)] += wi * N[a] * N[c];
     }
   }
-  // a tiny ridge keeps the system defined when a basis function has (almost) no data under it
-  let tr = 0;
-  for (let j = 0; j < p; j++) tr += band[j * wd];
-  for (let j = 0; j < p; j++) band[j * wd] += 1e-12 * (tr / p);
-  if (bandedCholesky(band, p, k, 1e-15) >= 0) throw new KnotwiseError('numerical', `the relaxed refit's system is not positive definite (order ${k}, ${p} basis functions); use a smaller relaxed value or fewer knots.`);
-  coef.set(rhs);
-  bandedCholeskySolve(band, p, k, coef);
-  for (let i = 0; i < n; i++) {
+}
+
+/** fitted_i = sum_a basis values times coef over point i's k + 1 B-splines. Unchecked. */
+function splineFitted(basis: Float64Array, mus: Int32Array, coef: Float64Array, k: number, fitted: Float64Array): void {
+  for (let i = 0; i < fitted.length; i++) {
     let s = 0;
     for (let a = 0; a <= k; a++) s += basis[i * (k + 1) + a] * coef[mus[i] - k + a];
     fitted[i] = s;
   }
-  return { spline: { k, t, coef }, fitted };
 }
 
 /** Evaluates a {@link RegressionSpline} at the points `at` (any order). Unchecked. */
