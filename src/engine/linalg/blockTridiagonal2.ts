@@ -34,6 +34,13 @@ export function blockLDL2(b: Float64Array, c: Float64Array, work?: BlockLDL2): B
   const m = b.length / 4;
   const dinv = work ? work.dinv : new Float64Array(4 * m);
   const l = work ? work.l : new Float64Array(4 * m);
+  // the loop is a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
+  factorBlocks(b, c, m, dinv, l);
+  return { m, dinv, l };
+}
+
+/** The loop of {@link blockLDL2}: D_k^{-1} into dinv and L_k into l. Unchecked. */
+function factorBlocks(b: Float64Array, c: Float64Array, m: number, dinv: Float64Array, l: Float64Array): void {
   let p0 = 0, p1 = 0, p3 = 0; // previous D^{-1} (symmetric: p1 = p2)
   for (let k = 0; k < m; k++) {
     const o = 4 * k;
@@ -56,32 +63,46 @@ export function blockLDL2(b: Float64Array, c: Float64Array, work?: BlockLDL2): B
     p0 = d3 / det; p1 = -d1 / det; p3 = d0 / det;
     dinv[o] = p0; dinv[o + 1] = p1; dinv[o + 2] = p1; dinv[o + 3] = p3;
   }
-  return { m, dinv, l };
 }
 
 /** Solves the system for a right-hand side of length 2m (pairs per block). Unchecked. */
 export function blockSolve2(f: BlockLDL2, rhs: Float64Array, out: Float64Array = new Float64Array(rhs.length)): Float64Array {
   const { m, dinv, l } = f;
   out.set(rhs);
+  // each sweep is a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
+  blockForward(l, m, out);
+  blockDiagonal(dinv, m, out);
+  blockBackward(l, m, out);
+  return out;
+}
+
+/** Forward sweep of {@link blockSolve2}: x_k -= L_k x_{k-1}. Unchecked. */
+function blockForward(l: Float64Array, m: number, out: Float64Array): void {
   for (let k = 1; k < m; k++) {
     const o = 4 * k, j = 2 * k;
     out[j] -= l[o] * out[j - 2] + l[o + 1] * out[j - 1];
     out[j + 1] -= l[o + 2] * out[j - 2] + l[o + 3] * out[j - 1];
   }
+}
+
+/** Diagonal sweep of {@link blockSolve2}: x_k = D_k^{-1} x_k. Unchecked. */
+function blockDiagonal(dinv: Float64Array, m: number, out: Float64Array): void {
   for (let k = 0; k < m; k++) {
     const o = 4 * k, j = 2 * k;
     const a = out[j], b = out[j + 1];
     out[j] = dinv[o] * a + dinv[o + 1] * b;
     out[j + 1] = dinv[o + 2] * a + dinv[o + 3] * b;
   }
+}
+
+/** Backward sweep of {@link blockSolve2}: x_k -= L_{k+1}' x_{k+1}. Unchecked. */
+function blockBackward(l: Float64Array, m: number, out: Float64Array): void {
   for (let k = m - 2; k >= 0; k--) {
     const o = 4 * (k + 1), j = 2 * k;
-    // x_k -= L_{k+1}' x_{k+1}
     const a = out[j + 2], b = out[j + 3];
     out[j] -= l[o] * a + l[o + 2] * b;
     out[j + 1] -= l[o + 1] * a + l[o + 3] * b;
   }
-  return out;
 }
 
 /** Diagonal blocks of the inverse, flat 2 x 2 per block. Unchecked. */

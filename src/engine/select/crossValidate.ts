@@ -56,31 +56,18 @@ export function crossValidate(y: ArrayLike<number>, w: ArrayLike<number>, folds:
   const fold = blockFolds(n, K, plan);
   const err = new Float64Array(K * G);
   const keep = new Uint8Array(n);
+  // the passes over the points are kernels of their own (DEVELOPERS.md, "Long loops and the first call")
   for (let f = 0; f < K; f++) {
     context?.step(f / K, `${stage}, fold ${f + 1} of ${K}`);
     // training: every point outside the fold and more than `buffer` points away from its held-out points
-    keep.fill(1);
-    let nh = 0;
-    for (let i = 0; i < n; i++) {
-      if (fold[i] !== f) continue;
-      nh++;
-      for (let j = Math.max(0, i - plan.buffer); j <= Math.min(n - 1, i + plan.buffer); j++) keep[j] = 0;
-    }
+    const nh = markBuffers(fold, f, plan.buffer, keep);
     if (nh === 0) continue;
-    let nt = 0;
-    for (let i = 0; i < n; i++) nt += keep[i];
     const held = new Int32Array(nh);
-    const train = new Int32Array(nt);
-    for (let i = 0, a = 0, b = 0; i < n; i++) { if (fold[i] === f) held[a++] = i; else if (keep[i]) train[b++] = i; }
-    let sw = 0;
-    for (let t = 0; t < nh; t++) sw += w[held[t]];
+    const train = new Int32Array(countKept(keep));
+    splitFold(fold, f, keep, held, train);
+    const sw = heldWeight(w, held);
     const preds = predict(train, held, penalties);
-    for (let j = 0; j < G; j++) {
-      const p = preds[j];
-      let e = 0;
-      for (let t = 0; t < nh; t++) { const r = y[held[t]] - p[t]; e += w[held[t]] * r * r; }
-      err[f * G + j] = e / sw;
-    }
+    for (let j = 0; j < G; j++) err[f * G + j] = heldSquaredError(y, w, held, preds[j]) / sw;
   }
   const score = new Float64Array(G), se = new Float64Array(G);
   for (let j = 0; j < G; j++) {
@@ -93,4 +80,43 @@ export function crossValidate(y: ArrayLike<number>, w: ArrayLike<number>, folds:
     se[j] = Math.sqrt(v / (K - 1) / K);
   }
   return { score, se, foldErrors: err, folds: K, plan };
+}
+
+/** Clears keep (all 1 first) on fold f's points and `buffer` points either side; returns the fold's size. Unchecked. */
+function markBuffers(fold: Int32Array, f: number, buffer: number, keep: Uint8Array): number {
+  const n = keep.length;
+  keep.fill(1);
+  let nh = 0;
+  for (let i = 0; i < n; i++) {
+    if (fold[i] !== f) continue;
+    nh++;
+    for (let j = Math.max(0, i - buffer); j <= Math.min(n - 1, i + buffer); j++) keep[j] = 0;
+  }
+  return nh;
+}
+
+/** Number of points kept. Unchecked. */
+function countKept(keep: Uint8Array): number {
+  let nt = 0;
+  for (let i = 0; i < keep.length; i++) nt += keep[i];
+  return nt;
+}
+
+/** Fold f's points into held and the kept points of other folds into train, in order. Unchecked. */
+function splitFold(fold: Int32Array, f: number, keep: Uint8Array, held: Int32Array, train: Int32Array): void {
+  for (let i = 0, a = 0, b = 0; i < keep.length; i++) { if (fold[i] === f) held[a++] = i; else if (keep[i]) train[b++] = i; }
+}
+
+/** sum of w over the held-out points. Unchecked. */
+function heldWeight(w: ArrayLike<number>, held: Int32Array): number {
+  let sw = 0;
+  for (let t = 0; t < held.length; t++) sw += w[held[t]];
+  return sw;
+}
+
+/** sum w (y - p)^2 over the held-out points (p in their order). Unchecked. */
+function heldSquaredError(y: ArrayLike<number>, w: ArrayLike<number>, held: Int32Array, p: ArrayLike<number>): number {
+  let e = 0;
+  for (let t = 0; t < held.length; t++) { const r = y[held[t]] - p[t]; e += w[held[t]] * r * r; }
+  return e;
 }

@@ -202,7 +202,8 @@ export function loessRun(inp: LoessData, span: number, degree: 0 | 1 | 2, iterat
       if (last >= n - 1) break;
       i = Math.max(last + 1, k - 1);
     }
-    for (let j = 0; j < n; j++) res[j] = y[j] - fitted[j];
+    // the passes over the points below are kernels of their own (DEVELOPERS.md, "Long loops and the first call")
+    differenceInto(y, fitted, res);
     if (iter === iterations) break;
     // bisquare robustness weights from 6 * median |r|
     const a = Float64Array.from(res, Math.abs);
@@ -213,16 +214,9 @@ export function loessRun(inp: LoessData, span: number, degree: 0 | 1 | 2, iterat
     const med = n % 2 ? a[(n - 1) >> 1] : 0.5 * (a[n / 2 - 1] + a[n / 2]);
     const cmad = 6 * med;
     if (cmad < 1e-7 * meanAbs) break;
-    const c9 = 0.999 * cmad, c1 = 0.001 * cmad;
-    for (let j = 0; j < n; j++) {
-      const r = Math.abs(res[j]);
-      if (r <= c1) rw[j] = 1;
-      else if (r <= c9) { const t = r / cmad; rw[j] = (1 - t * t) * (1 - t * t); }
-      else rw[j] = 0;
-    }
+    bisquareWeights(res, cmad, rw);
   }
-  let rss = 0, df = 0;
-  for (let j = 0; j < n; j++) { rss += w[j] * res[j] * res[j]; df += leverage[j]; }
+  const rss = weightedSquares(w, res), df = sumOf(leverage);
   const gcv = (n * rss) / ((n - df) * (n - df));
   const aicc = n - df - 2 > 0 ? Math.log(rss / n) + 1 + (2 * (df + 1)) / (n - df - 2) : Infinity;
   return {
@@ -232,4 +226,34 @@ export function loessRun(inp: LoessData, span: number, degree: 0 | 1 | 2, iterat
       stoppingRule: iterations > 0 ? `${iterations} robustness reweightings asked, ${done} done (stops early when 6 median |r| < 1e-7 mean |r|)` : 'direct: one weighted least-squares fit per anchor point',
     },
   };
+}
+
+/** out = a - b. Unchecked. */
+function differenceInto(a: Float64Array, b: Float64Array, out: Float64Array): void {
+  for (let j = 0; j < out.length; j++) out[j] = a[j] - b[j];
+}
+
+/** Bisquare robustness weights from the residuals and c = 6 median |r|: 1 up to 0.001 c, (1 - (r / c)^2)^2 up to 0.999 c, 0 beyond. Unchecked. */
+function bisquareWeights(res: Float64Array, cmad: number, rw: Float64Array): void {
+  const c9 = 0.999 * cmad, c1 = 0.001 * cmad;
+  for (let j = 0; j < res.length; j++) {
+    const r = Math.abs(res[j]);
+    if (r <= c1) rw[j] = 1;
+    else if (r <= c9) { const t = r / cmad; rw[j] = (1 - t * t) * (1 - t * t); }
+    else rw[j] = 0;
+  }
+}
+
+/** sum w r^2. Unchecked. */
+function weightedSquares(w: ArrayLike<number>, r: Float64Array): number {
+  let s = 0;
+  for (let j = 0; j < r.length; j++) s += w[j] * r[j] * r[j];
+  return s;
+}
+
+/** sum of the entries. Unchecked. */
+function sumOf(v: Float64Array): number {
+  let s = 0;
+  for (let j = 0; j < v.length; j++) s += v[j];
+  return s;
 }

@@ -142,13 +142,27 @@ export function reinschScore(sys: ReinschSystem, lambda: number): { rss: number;
   if (lambda === 0) return { rss: 0, df: n };
   const { f, sol } = factorAndSolve(sys, lambda);
   const s = blockInverseDiagonal2(f, sys.work.s);
-  let rss = 0, df = 0;
-  for (let i = 0; i < n; i++) {
+  // over the first few points, then the rest, with the sums carried in st: every statement has run
+  // before the loop is long (DEVELOPERS.md, "Long loops and the first call")
+  const st = new Float64Array(2);
+  const head = Math.min(n, FIRST_POINTS);
+  scoreRows(y, w, sol, s, 0, head, st);
+  scoreRows(y, w, sol, s, head, n, st);
+  return { rss: st[0], df: st[1] };
+}
+
+/** Points in the first call of a kernel that carries its sums in a state array ({@link scoreRows}). */
+const FIRST_POINTS = 64;
+
+/** Adds points from .. to - 1 to st = [rss, df]: w (y - g)^2 and w times the leverage. Unchecked. */
+function scoreRows(y: Float64Array, w: Float64Array, sol: Float64Array, s: Float64Array, from: number, to: number, st: Float64Array): void {
+  let rss = st[0], df = st[1];
+  for (let i = from; i < to; i++) {
     const r = y[i] - sol[2 * i];
     rss += w[i] * r * r;
     df += w[i] * s[4 * i];
   }
-  return { rss, df };
+  st[0] = rss; st[1] = df;
 }
 
 function interpolate(sys: ReinschSystem, leverage: boolean): ReinschSolution {
