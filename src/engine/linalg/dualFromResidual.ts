@@ -94,7 +94,7 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
  * The pass runs in two calls of {@link onePassRows}, the first over a few points: in a fresh process
  * a long loop's first compiled code is made while the loop runs, and code that had not yet run (here
  * the saving of the sums after the loop) then has no type information; Node's engine kept entering
- * that code and throwing it away on later calls (1,770 times in one cross-validation of order 1 at
+ * that code and throwing it away on later calls (up to 1,290 times in one cross-validation of order 1 at
  * 1e4). After a short first call every statement has run before the loop is long. Unchecked.
  */
 function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number>, u: Float64Array): { u: Float64Array; inconsistency: number } {
