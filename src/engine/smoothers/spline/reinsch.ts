@@ -84,6 +84,18 @@ export function reinschSolve(sys: ReinschSystem, lambda: number, leverage: boole
   const { f, sol } = factorAndSolve(sys, lambda);
   const g = new Float64Array(n);
   const gamma = new Float64Array(n);
+  // each pass a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
+  const rss = splitSolution(sol, y, w, il, g, gamma);
+  if (!leverage) return { g, gamma, df: NaN, rss };
+  const s = blockInverseDiagonal2(f, sys.work.s);
+  const lev = new Float64Array(n);
+  const df = leveragesInto(w, s, lev);
+  return { g, gamma, leverage: lev, df, rss };
+}
+
+/** g and gamma (second derivatives, times 1 / lambda) from the interleaved solution; returns sum w (y - g)^2. Unchecked. */
+function splitSolution(sol: Float64Array, y: Float64Array, w: Float64Array, il: number, g: Float64Array, gamma: Float64Array): number {
+  const n = g.length;
   let rss = 0;
   for (let i = 0; i < n; i++) {
     g[i] = sol[2 * i];
@@ -91,16 +103,18 @@ export function reinschSolve(sys: ReinschSystem, lambda: number, leverage: boole
     const r = y[i] - g[i];
     rss += w[i] * r * r;
   }
-  if (!leverage) return { g, gamma, df: NaN, rss };
-  const s = blockInverseDiagonal2(f, sys.work.s);
-  const lev = new Float64Array(n);
+  return rss;
+}
+
+/** lev_i = w_i (A^{-1})_ii from the inverse's diagonal blocks; returns their sum (in row order). Unchecked. */
+function leveragesInto(w: Float64Array, s: Float64Array, lev: Float64Array): number {
   let df = 0;
-  for (let i = 0; i < n; i++) {
+  for (let i = 0; i < lev.length; i++) {
     const hii = w[i] * s[4 * i];
     lev[i] = hii;
     df += hii;
   }
-  return { g, gamma, leverage: lev, df, rss };
+  return df;
 }
 
 /** Fills the blocks for one lambda, factorises and solves, in the system's workspace. Unchecked. */
@@ -112,13 +126,26 @@ function factorAndSolve(sys: ReinschSystem, lambda: number): { f: BlockLDL2; sol
   b[0] = w[0]; b[3] = -1;
   const e = 4 * (n - 1);
   b[e] = w[n - 1]; b[e + 3] = -1;
+  // each pass a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
+  diagonalBlocks(h, w, il, n, b);
+  subdiagonalBlocks(h, il, n, c);
+  const f = blockLDL2(b, c, sys.work.f);
+  const sol = blockSolve2(f, sys.rhs, sys.work.sol);
+  return { f, sol };
+}
+
+/** The interior diagonal blocks B_k = [w_k, q; q, -(h_{k-1} + h_k) / 3 / lambda], q = -1/h_{k-1} - 1/h_k, k = 1..n-2. Unchecked. */
+function diagonalBlocks(h: Float64Array, w: Float64Array, il: number, n: number, b: Float64Array): void {
   for (let k = 1; k <= n - 2; k++) {
     const o = 4 * k;
     const q = -1 / h[k - 1] - 1 / h[k];
     b[o] = w[k]; b[o + 1] = q; b[o + 2] = q; b[o + 3] = -((h[k - 1] + h[k]) / 3) * il;
   }
+}
+
+/** The sub-diagonal blocks C_k (rows (g_k, s_k), columns (g_{k-1}, s_{k-1})), k = 1..n-1. Unchecked. */
+function subdiagonalBlocks(h: Float64Array, il: number, n: number, c: Float64Array): void {
   for (let k = 1; k <= n - 1; k++) {
-    // C_k: rows (g_k, s_k), columns (g_{k-1}, s_{k-1})
     const o = 4 * k;
     const q = 1 / h[k - 1];
     const sPrev = k - 1 >= 1; // s_{k-1} is a real unknown
@@ -128,9 +155,6 @@ function factorAndSolve(sys: ReinschSystem, lambda: number): { f: BlockLDL2; sol
     c[o + 2] = sHere ? q : 0; // s_k - g_{k-1}
     c[o + 3] = sPrev && sHere ? -(h[k - 1] / 6) * il : 0; // s_k - s_{k-1}
   }
-  const f = blockLDL2(b, c, sys.work.f);
-  const sol = blockSolve2(f, sys.rhs, sys.work.sol);
-  return { f, sol };
 }
 
 /**

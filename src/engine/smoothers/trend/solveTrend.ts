@@ -317,15 +317,9 @@ function exactFit(prob: TrendProblem, lambda: number, tolerance: number): TrendF
   if (k === 0) {
     const b = totalVariationDenoise(y, w, lambda);
     const u = new Float64Array(n - 1);
-    let acc = 0;
-    let bmax = 0;
-    for (let i = 0; i < n; i++) bmax = Math.max(bmax, Math.abs(b[i]));
     const knotRows: number[] = [];
-    for (let i = 0; i < n - 1; i++) {
-      acc -= w[i] * (y[i] - b[i]);
-      u[i] = acc;
-      if (Math.abs(b[i + 1] - b[i]) > 1e-13 * bmax) knotRows.push(i);
-    }
+    // each pass a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
+    levelDualAndJumps(y, w, b, u, 1e-13 * maxAbsOf(b), knotRows);
     return trendFit(b, u, lambda, knotRows, { converged: true, iterations: 1, tolerance: 0, achieved: 0, stoppingRule: DP_RULE });
   }
   // at or above lambda_max the weighted polynomial fit is the exact solution
@@ -568,4 +562,24 @@ function rowProducts(rows: Float64Array, wd: number, b: Float64Array, db: Float6
 /** Appends to `out` the rows r with |u_r| >= ubound and |db_r| > dbound. Unchecked. */
 function boundKnotRows(u: Float64Array, db: Float64Array, ubound: number, dbound: number, out: number[]): void {
   for (let r = 0; r < db.length; r++) if (Math.abs(u[r]) >= ubound && Math.abs(db[r]) > dbound) out.push(r);
+}
+
+/** max |v_i| (0 for no entries). Unchecked. */
+function maxAbsOf(v: Float64Array): number {
+  let mx = 0;
+  for (let i = 0; i < v.length; i++) mx = Math.max(mx, Math.abs(v[i]));
+  return mx;
+}
+
+/**
+ * Order 0: the dual u_i = -sum_{j <= i} w_j (y_j - b_j) (D^T u = W (y - b) for first differences), and
+ * the rows i where b jumps by more than `jump` appended to knotRows. Unchecked.
+ */
+function levelDualAndJumps(y: Float64Array, w: Float64Array, b: Float64Array, u: Float64Array, jump: number, knotRows: number[]): void {
+  let acc = 0;
+  for (let i = 0; i < u.length; i++) {
+    acc -= w[i] * (y[i] - b[i]);
+    u[i] = acc;
+    if (Math.abs(b[i + 1] - b[i]) > jump) knotRows.push(i);
+  }
 }

@@ -38,9 +38,31 @@ export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>
   }
   const ws = work && work.lo.length >= n ? work : totalVariationWorkspace(n);
   const { pos, da, dc, lo, hi } = ws;
-  let head = n + 1; // first knot
-  let tail = n + 1; // one past the last knot
-  for (let i = 0; i < n - 1; i++) {
+  // the forward pass over a few points first, then the rest, with the first and one-past-last knot
+  // carried in st: every statement has run before the loop is long (DEVELOPERS.md, "Long loops and
+  // the first call"); the last point and the backward pass are kernels of their own
+  const st = new Float64Array(2);
+  st[0] = n + 1; // first knot
+  st[1] = n + 1; // one past the last knot
+  const first = Math.min(n - 1, FIRST_POINTS);
+  forwardMessages(y, w, lambda, pos, da, dc, lo, hi, 0, first, st);
+  forwardMessages(y, w, lambda, pos, da, dc, lo, hi, first, n - 1, st);
+  b[n - 1] = lastPoint(w[n - 1], y[n - 1], lambda, pos, da, dc, st[0], st[1]);
+  backwardClip(b, lo, hi, n);
+  return b;
+}
+
+/** Points in the first call of {@link forwardMessages}. */
+const FIRST_POINTS = 64;
+
+/**
+ * Points from .. to - 1 of the forward pass: each point's message is clipped at -lambda and lambda,
+ * giving its interval [lo_i, hi_i] and two new breakpoints of the derivative (knots head .. tail - 1,
+ * st = [head, tail]). Unchecked.
+ */
+function forwardMessages(y: ArrayLike<number>, w: ArrayLike<number>, lambda: number, pos: Float64Array, da: Float64Array, dc: Float64Array, lo: Float64Array, hi: Float64Array, from: number, to: number, st: Float64Array): void {
+  let head = st[0], tail = st[1];
+  for (let i = from; i < to; i++) {
     const wi = w[i];
     const ci = -wi * y[i];
     // left segment: derivative (a b + c) with the clipped message at -lambda (none at i = 0)
@@ -75,10 +97,13 @@ export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>
     lo[i] = xlo;
     hi[i] = xhi;
   }
-  // last point: minimise F_n, derivative w (b - y) + G'(b), G' from -lambda to lambda
-  const wl = w[n - 1];
+  st[0] = head; st[1] = tail;
+}
+
+/** The last point: the minimiser of F_n, where w (b - y) + G'(b) = 0, G' from -lambda to lambda over knots head .. tail - 1. Unchecked. */
+function lastPoint(wl: number, yl: number, lambda: number, pos: Float64Array, da: Float64Array, dc: Float64Array, head: number, tail: number): number {
   let a = wl;
-  let c = -wl * y[n - 1] - lambda;
+  let c = -wl * yl - lambda;
   while (head < tail) {
     const p = pos[head];
     if (a * p + c > 0) break;
@@ -86,12 +111,15 @@ export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>
     c += dc[head];
     head++;
   }
-  b[n - 1] = -c / a;
+  return -c / a;
+}
+
+/** The backward pass: b_i = b_{i+1} clipped to [lo_i, hi_i]. Unchecked. */
+function backwardClip(b: Float64Array, lo: Float64Array, hi: Float64Array, n: number): void {
   for (let i = n - 2; i >= 0; i--) {
     const v = b[i + 1];
     b[i] = v < lo[i] ? lo[i] : v > hi[i] ? hi[i] : v;
   }
-  return b;
 }
 
 /** Work arrays of {@link totalVariationDenoise}. */
