@@ -87,8 +87,8 @@ describe('pentadiagonalSolve (order 2 in fused passes)', () => {
     expect(reused.residual).toBeNaN();
   });
 
-  test('the backward error computed during the backward pass equals the separate pass exactly, down to 3 points', () => {
-    for (const n of [3, 4, 5, 6, 50]) {
+  test('the backward error computed during the backward pass equals the separate pass exactly, down to 3 points and around the pass\'s split after its last 64 rows', () => {
+    for (const n of [3, 4, 5, 6, 50, 64, 65, 66, 67, 130]) {
       for (const even of [true, false]) {
         const { x: ux, y, w } = unevenSeries(n, 20 + n);
         const x = even ? Float64Array.from(ux, (_, i) => i + 1) : ux;

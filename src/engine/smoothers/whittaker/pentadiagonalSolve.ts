@@ -71,6 +71,53 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
   const m = n - 2; // rows of D
   const l = work ? work.l : new Float64Array(3 * n); // [1 / L(i, i), L(i, i-1), L(i, i-2)] per row i
   const z = work ? work.z : new Float64Array(n);
+  // the two passes are kernels of their own, the backward one first over a few points with its
+  // running values carried in st (DEVELOPERS.md, "Long loops and the first call")
+  const failedRow = factorForward(sp, w, y, lam, n, l, z);
+  if (failedRow >= 0) return { fitted: z, residual: Infinity, failedRow };
+  const lev = withLeverage ? (work ? work.lev : new Float64Array(n)) : null;
+  const st = new Float64Array(BACKWARD_STATE);
+  const last = Math.max(-1, n - 1 - FIRST_POINTS);
+  backwardPass(sp, w, y, lam, n, l, z, lev, withResidual, n - 1, last, st);
+  backwardPass(sp, w, y, lam, n, l, z, lev, withResidual, last, -1, st);
+  const x1 = st[0], x2 = st[1];
+  let worst = st[5];
+  const dzP = st[6], adzP = st[7], dzPP = st[8], adzPP = st[9], c0P = st[10], c1P = st[11], c0PP = st[12];
+  if (withResidual) {
+    // the first two columns (rows 0 and 1 of D are now P and PP); x1 = z_0, x2 = z_1
+    if (n > 1) {
+      let r1 = w[1] * (y[1] - x2);
+      let m1 = Math.abs(w[1] * y[1]) + Math.abs(w[1] * x2);
+      if (0 < m) { r1 -= c1P * dzP; m1 += Math.abs(c1P) * adzP; }
+      if (1 < m) { r1 -= c0PP * dzPP; m1 += Math.abs(c0PP) * adzPP; }
+      if (m1 > 0) { const e = Math.abs(r1) / m1; if (e > worst) worst = e; }
+    }
+    let r0 = w[0] * (y[0] - x1);
+    let m0 = Math.abs(w[0] * y[0]) + Math.abs(w[0] * x1);
+    if (0 < m) { r0 -= c0P * dzP; m0 += Math.abs(c0P) * adzP; }
+    if (m0 > 0) { const e = Math.abs(r0) / m0; if (e > worst) worst = e; }
+  }
+  const out: PentadiagonalSolution = { fitted: z, residual: withResidual ? worst : NaN, failedRow: -1 };
+  if (lev) { out.leverage = lev; out.df = sumInOrder(lev); } // summed in row order, as before
+  return out;
+}
+
+/** Points in the first call of {@link backwardPass}. */
+const FIRST_POINTS = 64;
+
+/**
+ * Entries of the state of {@link backwardPass}: x1, x2 (z at i+1, i+2); s11, s12, s22 (S(i+1, i+1),
+ * S(i+1, i+2), S(i+2, i+2)); the worst backward error so far; dzP, adzP, dzPP, adzPP (lam (D z) and
+ * lam |D||z| of rows i+1 and i+2); c0P, c1P (c0 and c1 of row i+1), c0PP (c0 of row i+2).
+ */
+const BACKWARD_STATE = 13;
+
+/**
+ * Step 1 of {@link pentadiagonalSolve}: rows of A formed, factorised and the forward substitution
+ * L u = W y advanced, row by row; returns the row where a pivot was not positive, or -1. Unchecked.
+ */
+function factorForward(sp: Float64Array | null, w: Float64Array, y: Float64Array, lam: number, n: number, l: Float64Array, z: Float64Array): number {
+  const m = n - 2;
   // rolling row coefficients of D: rows i-2 (a*), i-1 (b*)
   let a0 = 0, a1 = 0, a2 = 0, b0 = 0, b1 = 0, b2 = 0;
   let r1 = 0, r2 = 0, c1 = 0; // 1 / L(i-1, i-1), 1 / L(i-2, i-2), L(i-1, i-2)
@@ -91,7 +138,7 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
     if (i >= 2) l2 = ai2 * r2;
     if (i >= 1) l1 = (ai1 - l2 * c1) * r1;
     const s = aii - l1 * l1 - l2 * l2;
-    if (!(s > 0)) return { fitted: z, residual: Infinity, failedRow: i };
+    if (!(s > 0)) return i;
     const r = 1 / Math.sqrt(s);
     const o = 3 * i;
     l[o] = r; l[o + 1] = l1; l[o + 2] = l2;
@@ -101,15 +148,22 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
     r2 = r1; r1 = r; c1 = l1;
     a0 = b0; a1 = b1; a2 = b2; b0 = d0; b1 = d1; b2 = d2;
   }
-  // backward substitution, with the diagonal of the inverse and the backward error in the same pass
-  const lev = withLeverage ? (work ? work.lev : new Float64Array(n)) : null;
-  let x1 = 0, x2 = 0; // z at i+1, i+2
-  let s11 = 0, s12 = 0, s22 = 0; // S(i+1, i+1), S(i+1, i+2), S(i+2, i+2)
-  let df = 0;
+  return -1;
+}
+
+/**
+ * Steps 2 and 3 of {@link pentadiagonalSolve} for rows from down to to + 1: the backward substitution,
+ * with the diagonal of the inverse (into lev, when given) and the backward error in the same pass, its
+ * running values read from and written back to st ({@link BACKWARD_STATE}). Unchecked.
+ */
+function backwardPass(sp: Float64Array | null, w: Float64Array, y: Float64Array, lam: number, n: number, l: Float64Array, z: Float64Array, lev: Float64Array | null, withResidual: boolean, from: number, to: number, st: Float64Array): void {
+  const m = n - 2;
+  let x1 = st[0], x2 = st[1]; // z at i+1, i+2
+  let s11 = st[2], s12 = st[3], s22 = st[4]; // S(i+1, i+1), S(i+1, i+2), S(i+2, i+2)
   // backward error, as in backwardError2: residual j = i + 2 is complete once z_i is known;
   // lam (D z) and lam |D||z| of rows i+1 (P) and i+2 (PP), c0 and c1 of row i+1, c0 of row i+2
-  let worst = 0, dzP = 0, adzP = 0, dzPP = 0, adzPP = 0, c0P = 0, c1P = 0, c0PP = 0;
-  for (let i = n - 1; i >= 0; i--) {
+  let worst = st[5], dzP = st[6], adzP = st[7], dzPP = st[8], adzPP = st[9], c0P = st[10], c1P = st[11], c0PP = st[12];
+  for (let i = from; i > to; i--) {
     const r = l[3 * i];
     const a = i + 1 < n ? l[3 * (i + 1) + 1] : 0; // L(i+1, i)
     const b = i + 2 < n ? l[3 * (i + 2) + 2] : 0; // L(i+2, i)
@@ -144,24 +198,15 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
       s22 = s11; s12 = e1; s11 = e0;
     }
   }
-  if (withResidual) {
-    // the first two columns (rows 0 and 1 of D are now P and PP); x1 = z_0, x2 = z_1
-    if (n > 1) {
-      let r1 = w[1] * (y[1] - x2);
-      let m1 = Math.abs(w[1] * y[1]) + Math.abs(w[1] * x2);
-      if (0 < m) { r1 -= c1P * dzP; m1 += Math.abs(c1P) * adzP; }
-      if (1 < m) { r1 -= c0PP * dzPP; m1 += Math.abs(c0PP) * adzPP; }
-      if (m1 > 0) { const e = Math.abs(r1) / m1; if (e > worst) worst = e; }
-    }
-    let r0 = w[0] * (y[0] - x1);
-    let m0 = Math.abs(w[0] * y[0]) + Math.abs(w[0] * x1);
-    if (0 < m) { r0 -= c0P * dzP; m0 += Math.abs(c0P) * adzP; }
-    if (m0 > 0) { const e = Math.abs(r0) / m0; if (e > worst) worst = e; }
-  }
-  if (lev) for (let i = 0; i < n; i++) df += lev[i]; // summed in row order, as before
-  const out: PentadiagonalSolution = { fitted: z, residual: withResidual ? worst : NaN, failedRow: -1 };
-  if (lev) { out.leverage = lev; out.df = df; }
-  return out;
+  st[0] = x1; st[1] = x2; st[2] = s11; st[3] = s12; st[4] = s22;
+  st[5] = worst; st[6] = dzP; st[7] = adzP; st[8] = dzPP; st[9] = adzPP; st[10] = c0P; st[11] = c1P; st[12] = c0PP;
+}
+
+/** The sum of the entries, in index order. Unchecked. */
+function sumInOrder(v: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < v.length; i++) s += v[i];
+  return s;
 }
 
 /** Componentwise backward error for order 2 in one pass (see pentadiagonalSolve). Unchecked. */
