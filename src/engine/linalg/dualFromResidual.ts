@@ -1,3 +1,5 @@
+import { FIRST_CALL_POINTS } from './firstCallPoints';
+
 /**
  * Solves D(x, q)^T u = g for u (length n - q) by forward recursion, for g in
  * the range of D^T (that is, g orthogonal to the polynomials of degree < q).
@@ -100,7 +102,7 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
 function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number>, u: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
   const st = new Float64Array(ONE_PASS_STATE);
-  const head = Math.min(n - 1, ONE_PASS_HEAD);
+  const head = Math.min(n - 1, FIRST_CALL_POINTS);
   onePassRows(x, q, g, u, 0, head, st);
   onePassRows(x, q, g, u, head, n - 1, st);
   let gmax = st[0];
@@ -111,9 +113,6 @@ function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number
   if (q >= 4) worst = Math.max(worst, Math.abs(st[16] - st[19]) / Math.max(gmax, st[12], 1e-300));
   return { u, inconsistency: worst };
 }
-
-/** Points in the first call of {@link onePassRows}. */
-const ONE_PASS_HEAD = 64;
 
 /**
  * Entries of the state of {@link onePassRows}: gmax; acc1, comp1 .. acc4, comp4; zmax1 .. zmax4;

@@ -12,7 +12,8 @@ export function weightedPolynomialFit(x: Float64Array, y: ArrayLike<number>, w: 
   const cols: Float64Array[] = [];
   for (let d = 0; d <= k; d++) {
     const c = powerColumn(x, mid, half, d);
-    for (const q of cols) subtractMultiple(c, weightedDot(w, q, c), q);
+    // c - s q is c + (-s) q exactly (negation is exact)
+    for (const q of cols) addMultiple(c, -weightedDot(w, q, c), q);
     const nrm = Math.sqrt(weightedDot(w, c, c));
     if (nrm > 0) divideBy(c, nrm);
     cols.push(c);
@@ -34,11 +35,6 @@ function weightedDot(w: ArrayLike<number>, a: Float64Array, b: ArrayLike<number>
   let dot = 0;
   for (let i = 0; i < a.length; i++) dot += w[i] * a[i] * b[i];
   return dot;
-}
-
-/** c -= s q. Unchecked. */
-function subtractMultiple(c: Float64Array, s: number, q: Float64Array): void {
-  for (let i = 0; i < c.length; i++) c[i] -= s * q[i];
 }
 
 /** c += s q. Unchecked. */

@@ -60,6 +60,7 @@ import { trendPath, TrendPath, relaxFit, knotPositions } from './trend/trendPath
 import { interpolateTrend } from './trend/interpolateTrend';
 import { evaluateRegressionSpline, RegressionSpline } from './trend/regressionSplineRefit';
 import { trendLambdaMax } from './trend/trendLambdaMax';
+import { maxAbs } from '../linalg/maxAbs';
 
 /** State kept for evaluation at new x (the data's units). */
 export interface TrendModel {
@@ -262,8 +263,7 @@ function interpolatingFit(prob: TrendProblem): TrendFit {
   const { x, y, k } = prob;
   const n = x.length;
   const db = differenceOperator(x, k + 1, y);
-  let mx = 0;
-  for (let r = 0; r < db.length; r++) mx = Math.max(mx, Math.abs(db[r]));
+  const mx = maxAbs(db);
   const knotRows: number[] = [];
   for (let r = 0; r < db.length; r++) if (Math.abs(db[r]) > 1e-12 * mx) knotRows.push(r);
   return trendFit(Float64Array.from(y), new Float64Array(n - k - 1), 0, knotRows, { converged: true, iterations: 0, tolerance: 0, achieved: 0, stoppingRule: 'penalty 0: the fit interpolates the data' });

@@ -2,6 +2,7 @@ import { KnotwiseError, showNumber } from '../../errors';
 import type { SolverStatus } from '../../types';
 import { localPolynomial, localWeight, type LocalFit } from './localPolynomial';
 import { toFloat64 } from '../whittaker/whittakerInput';
+import { sum } from '../../linalg/sum';
 
 /** Options of {@link loessFit}. */
 export interface LoessOptions {
@@ -216,7 +217,7 @@ export function loessRun(inp: LoessData, span: number, degree: 0 | 1 | 2, iterat
     if (cmad < 1e-7 * meanAbs) break;
     bisquareWeights(res, cmad, rw);
   }
-  const rss = weightedSquares(w, res), df = sumOf(leverage);
+  const rss = weightedSquares(w, res), df = sum(leverage);
   const gcv = (n * rss) / ((n - df) * (n - df));
   const aicc = n - df - 2 > 0 ? Math.log(rss / n) + 1 + (2 * (df + 1)) / (n - df - 2) : Infinity;
   return {
@@ -248,12 +249,5 @@ function bisquareWeights(res: Float64Array, cmad: number, rw: Float64Array): voi
 function weightedSquares(w: ArrayLike<number>, r: Float64Array): number {
   let s = 0;
   for (let j = 0; j < r.length; j++) s += w[j] * r[j] * r[j];
-  return s;
-}
-
-/** sum of the entries. Unchecked. */
-function sumOf(v: Float64Array): number {
-  let s = 0;
-  for (let j = 0; j < v.length; j++) s += v[j];
   return s;
 }

@@ -28,6 +28,7 @@
  * Everything here is unchecked: x strictly increasing, w > 0, n >= 3, lambda >= 0.
  */
 import { BlockLDL2, blockInverseDiagonal2, blockLDL2, blockSolve2 } from '../../linalg/blockTridiagonal2';
+import { FIRST_CALL_POINTS } from '../../linalg/firstCallPoints';
 
 /** Precomputed pieces that do not depend on lambda. */
 export interface ReinschSystem {
@@ -169,14 +170,11 @@ export function reinschScore(sys: ReinschSystem, lambda: number): { rss: number;
   // over the first few points, then the rest, with the sums carried in st: every statement has run
   // before the loop is long (DEVELOPERS.md, "Long loops and the first call")
   const st = new Float64Array(2);
-  const head = Math.min(n, FIRST_POINTS);
+  const head = Math.min(n, FIRST_CALL_POINTS);
   scoreRows(y, w, sol, s, 0, head, st);
   scoreRows(y, w, sol, s, head, n, st);
   return { rss: st[0], df: st[1] };
 }
-
-/** Points in the first call of a kernel that carries its sums in a state array ({@link scoreRows}). */
-const FIRST_POINTS = 64;
 
 /** Adds points from .. to - 1 to st = [rss, df]: w (y - g)^2 and w times the leverage. Unchecked. */
 function scoreRows(y: Float64Array, w: Float64Array, sol: Float64Array, s: Float64Array, from: number, to: number, st: Float64Array): void {

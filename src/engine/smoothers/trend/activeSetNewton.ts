@@ -2,6 +2,7 @@ import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedS
 import { roundWork, BasisCache } from '../../basis/discreteBSplines';
 import { dualFromResidual } from '../../linalg/dualFromResidual';
 import { boxRelative, certify, residualSums, PolishResult } from './polishTrend';
+import { maxAbs } from '../../linalg/maxAbs';
 
 /** Result of {@link activeSetNewton}. */
 export interface ActiveSetNewtonResult {
@@ -93,8 +94,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       // the round's solution: D b is (D b)_A on A and exactly zero elsewhere; its certificate (against
       // the target, unless the round settled) builds result arrays only for a round that meets it,
       // and a certified one gets a copy of b (the round's b lives in the work space)
-      let dmax = 0;
-      for (let i = 0; i < A.length; i++) dmax = Math.max(dmax, Math.abs(sol.dA[i]));
+      const dmax = maxAbs(sol.dA);
       const fit = certify(y, w, lambda, { b: sol.b, u, umax: um, rss, yg, dA: sol.dA, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
       if (fit.ok) fit.b = Float64Array.from(fit.b);
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };

@@ -2,6 +2,8 @@ import { dualFromResidual } from '../../linalg/dualFromResidual';
 import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import { RestrictedSystem, withoutKnot, solveRestrictedSystem } from '../../basis/restrictedSystem';
 import { roundWork, BasisCache } from '../../basis/discreteBSplines';
+import { FIRST_CALL_POINTS } from '../../linalg/firstCallPoints';
+import { maxAbs } from '../../linalg/maxAbs';
 
 /** Result of {@link polishTrend}. */
 export interface PolishResult {
@@ -247,8 +249,7 @@ export function certify(y: Float64Array, w: Float64Array, lambda: number, last: 
   const fail = (achieved = Infinity): PolishResult => ({ ok: false, b: new Float64Array(y.length), u: new Float64Array(0), knots: [], dKnots: new Float64Array(0), achieved, rounds });
   if (!last) return fail();
   const { b, u, rss, yg, dA, rows, dmax } = last;
-  let um = last.umax ?? 0;
-  if (last.umax === undefined) for (let r = 0; r < u.length; r++) um = Math.max(um, Math.abs(u[r]));
+  const um = last.umax ?? maxAbs(u);
   const delta = Math.max(0, um / lambda - 1);
   if (!optimal && !anyScale && delta > 1e-4) return fail();
   let l1 = 0, ud = 0;
@@ -307,14 +308,11 @@ export function residualSums(y: Float64Array, w: Float64Array, b: Float64Array, 
   // over the first few points, then the rest, with the sums carried in st: every statement has run
   // before the loop is long (DEVELOPERS.md, "Long loops and the first call")
   const st = new Float64Array(2);
-  const head = Math.min(y.length, FIRST_POINTS);
+  const head = Math.min(y.length, FIRST_CALL_POINTS);
   residualRows(y, w, b, g, 0, head, st);
   residualRows(y, w, b, g, head, y.length, st);
   return { rss: st[0], yg: st[1] };
 }
-
-/** Points in the first call of {@link residualRows}. */
-const FIRST_POINTS = 64;
 
 /** Points from .. to - 1 of {@link residualSums}, adding to st = [rss, yg]. Unchecked. */
 function residualRows(y: Float64Array, w: Float64Array, b: Float64Array, g: Float64Array, from: number, to: number, st: Float64Array): void {

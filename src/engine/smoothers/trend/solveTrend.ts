@@ -6,6 +6,7 @@ import { polynomialDual, PolynomialDual } from './trendLambdaMax';
 import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } from './trendAdmm';
 import { basisCache, BasisCache } from '../../basis/discreteBSplines';
 import { activeSetNewton } from './activeSetNewton';
+import { maxAbs } from '../../linalg/maxAbs';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -319,7 +320,7 @@ function exactFit(prob: TrendProblem, lambda: number, tolerance: number): TrendF
     const u = new Float64Array(n - 1);
     const knotRows: number[] = [];
     // each pass a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
-    levelDualAndJumps(y, w, b, u, 1e-13 * maxAbsOf(b), knotRows);
+    levelDualAndJumps(y, w, b, u, 1e-13 * maxAbs(b), knotRows);
     return trendFit(b, u, lambda, knotRows, { converged: true, iterations: 1, tolerance: 0, achieved: 0, stoppingRule: DP_RULE });
   }
   // at or above lambda_max the weighted polynomial fit is the exact solution
@@ -562,13 +563,6 @@ function rowProducts(rows: Float64Array, wd: number, b: Float64Array, db: Float6
 /** Appends to `out` the rows r with |u_r| >= ubound and |db_r| > dbound. Unchecked. */
 function boundKnotRows(u: Float64Array, db: Float64Array, ubound: number, dbound: number, out: number[]): void {
   for (let r = 0; r < db.length; r++) if (Math.abs(u[r]) >= ubound && Math.abs(db[r]) > dbound) out.push(r);
-}
-
-/** max |v_i| (0 for no entries). Unchecked. */
-function maxAbsOf(v: Float64Array): number {
-  let mx = 0;
-  for (let i = 0; i < v.length; i++) mx = Math.max(mx, Math.abs(v[i]));
-  return mx;
 }
 
 /**

@@ -1,3 +1,5 @@
+import { FIRST_CALL_POINTS } from '../../linalg/firstCallPoints';
+
 /**
  * Weighted total-variation denoising (the 1-D fused lasso, trend filtering of
  * order 0), solved exactly in O(n) amortised time by the dynamic programming
@@ -44,16 +46,13 @@ export function totalVariationDenoise(y: ArrayLike<number>, w: ArrayLike<number>
   const st = new Float64Array(2);
   st[0] = n + 1; // first knot
   st[1] = n + 1; // one past the last knot
-  const first = Math.min(n - 1, FIRST_POINTS);
+  const first = Math.min(n - 1, FIRST_CALL_POINTS);
   forwardMessages(y, w, lambda, pos, da, dc, lo, hi, 0, first, st);
   forwardMessages(y, w, lambda, pos, da, dc, lo, hi, first, n - 1, st);
   b[n - 1] = lastPoint(w[n - 1], y[n - 1], lambda, pos, da, dc, st[0], st[1]);
   backwardClip(b, lo, hi, n);
   return b;
 }
-
-/** Points in the first call of {@link forwardMessages}. */
-const FIRST_POINTS = 64;
 
 /**
  * Points from .. to - 1 of the forward pass: each point's message is clipped at -lambda and lambda,

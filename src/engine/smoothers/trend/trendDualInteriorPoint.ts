@@ -33,6 +33,7 @@ import { differenceOperator, differenceTranspose } from '../../linalg/difference
 import type { SolverStatus } from '../../types';
 import { differenceGram, applyDifferenceGram } from '../../linalg/differenceGram';
 import { constantFitObjective } from './constantFitObjective';
+import { maxAbs } from '../../linalg/maxAbs';
 
 /** Result of a trend-filtering solve on the (scaled) problem. */
 export interface TrendSolution {
@@ -219,8 +220,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
 
 /** The warm start scaled into the new box, keeping its shape: max |u| -> 0.95 lambda (u = u0 when inside). Unchecked. */
 function warmStartDual(u0: Float64Array, lambda: number, u: Float64Array, m: number): void {
-  let um = 0;
-  for (let i = 0; i < m; i++) um = Math.max(um, Math.abs(u0[i]));
+  const um = maxAbs(u0);
   scaledInto(um > 0.95 * lambda ? (0.95 * lambda) / um : 1, u0, u, m);
 }
 

@@ -1,5 +1,6 @@
 import { dualFromResidual } from '../../linalg/dualFromResidual';
 import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
+import { maxAbs } from '../../linalg/maxAbs';
 
 /** The weighted least-squares polynomial of degree k, its dual and lambda_max ({@link polynomialDual}). */
 export interface PolynomialDual {
@@ -32,13 +33,6 @@ function weightedResidual(y: Float64Array, w: Float64Array, b: Float64Array): Fl
   const g = new Float64Array(y.length);
   for (let i = 0; i < y.length; i++) g[i] = w[i] * (y[i] - b[i]);
   return g;
-}
-
-/** max |u_i| (0 for no entries). Unchecked. */
-function maxAbs(u: Float64Array): number {
-  let mx = 0;
-  for (let i = 0; i < u.length; i++) mx = Math.max(mx, Math.abs(u[i]));
-  return mx;
 }
 
 /**

@@ -4,6 +4,8 @@
  * inside the loops. Unchecked.
  */
 import type { WhittakerInput } from './whittakerInput';
+import { FIRST_CALL_POINTS } from '../../linalg/firstCallPoints';
+import { sum } from '../../linalg/sum';
 
 /** Arrays a caller may pass to {@link pentadiagonalSolve} to be reused across solves of one length n. */
 export interface PentadiagonalWork {
@@ -77,7 +79,7 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
   if (failedRow >= 0) return { fitted: z, residual: Infinity, failedRow };
   const lev = withLeverage ? (work ? work.lev : new Float64Array(n)) : null;
   const st = new Float64Array(BACKWARD_STATE);
-  const last = Math.max(-1, n - 1 - FIRST_POINTS);
+  const last = Math.max(-1, n - 1 - FIRST_CALL_POINTS);
   backwardPass(sp, w, y, lam, n, l, z, lev, withResidual, n - 1, last, st);
   backwardPass(sp, w, y, lam, n, l, z, lev, withResidual, last, -1, st);
   const x1 = st[0], x2 = st[1];
@@ -98,12 +100,9 @@ export function pentadiagonalSolve(inp: WhittakerInput, lam: number, withLeverag
     if (m0 > 0) { const e = Math.abs(r0) / m0; if (e > worst) worst = e; }
   }
   const out: PentadiagonalSolution = { fitted: z, residual: withResidual ? worst : NaN, failedRow: -1 };
-  if (lev) { out.leverage = lev; out.df = sumInOrder(lev); } // summed in row order, as before
+  if (lev) { out.leverage = lev; out.df = sum(lev); } // summed in row order, as before
   return out;
 }
-
-/** Points in the first call of {@link backwardPass}. */
-const FIRST_POINTS = 64;
 
 /**
  * Entries of the state of {@link backwardPass}: x1, x2 (z at i+1, i+2); s11, s12, s22 (S(i+1, i+1),
@@ -200,13 +199,6 @@ function backwardPass(sp: Float64Array | null, w: Float64Array, y: Float64Array,
   }
   st[0] = x1; st[1] = x2; st[2] = s11; st[3] = s12; st[4] = s22;
   st[5] = worst; st[6] = dzP; st[7] = adzP; st[8] = dzPP; st[9] = adzPP; st[10] = c0P; st[11] = c1P; st[12] = c0PP;
-}
-
-/** The sum of the entries, in index order. Unchecked. */
-function sumInOrder(v: Float64Array): number {
-  let s = 0;
-  for (let i = 0; i < v.length; i++) s += v[i];
-  return s;
 }
 
 /** Componentwise backward error for order 2 in one pass (see pentadiagonalSolve). Unchecked. */

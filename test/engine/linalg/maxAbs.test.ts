@@ -1,0 +1,21 @@
+import { maxAbs } from '../../../src/engine/linalg/maxAbs';
+import { sum } from '../../../src/engine/linalg/sum';
+
+describe('maxAbs', () => {
+  test('maxAbs returns the largest magnitude, 0 for no entries, and NaN when an entry is NaN', () => {
+    expect(maxAbs(Float64Array.of(1, -3, 2))).toBe(3);
+    expect(maxAbs(Float64Array.of(-0.5))).toBe(0.5);
+    expect(maxAbs(new Float64Array(0))).toBe(0);
+    expect(maxAbs(Float64Array.of(1, NaN, 2))).toBeNaN();
+  });
+});
+
+describe('sum', () => {
+  test('sum adds in index order (the rounding of that order, not of a sorted or pairwise sum)', () => {
+    // 1 + 1e-16 + 1e-16 in order rounds back to 1 each time; the small terms first would give 1 + 2.2e-16
+    expect(sum(Float64Array.of(1, 1e-16, 1e-16))).toBe(1);
+    expect(sum(Float64Array.of(1e-16, 1e-16, 1))).toBe(1e-16 + 1e-16 + 1);
+    expect(sum(Float64Array.of(1e-16, 1e-16, 1))).not.toBe(1);
+    expect(sum(new Float64Array(0))).toBe(0);
+  });
+});
