@@ -165,7 +165,7 @@ export function discreteBSplines(x: Float64Array, k: number, rowsA: ArrayLike<nu
       for (let q = 0; q <= k + 1; q++) penalty[e * (k + 2) + q] = op![fe * (k + 2) + q];
       continue;
     }
-    if (!freshWindow(x, n, h, E, e, k, i0, i1, first, values, penalty, allCoef, work)) return null;
+    if (!freshWindow(x, n, h, E, e, k, i0, i1, values, penalty, allCoef, work)) return null;
   }
   if (cache) {
     // this build's arrays become the last build's; the last build's (same x, so same n) the spare ones
@@ -204,7 +204,7 @@ function windowWork(k: number): WindowWork {
  * "Long loops and the first call": the first build of a long series runs thousands of windows before
  * its loop is compiled). Unchecked.
  */
-function freshWindow(x: Float64Array, n: number, h: number, E: Int32Array, e: number, k: number, i0: number, i1: number, first: Int32Array, values: Float64Array, penalty: Float64Array, allCoef: Float64Array, work: WindowWork): boolean {
+function freshWindow(x: Float64Array, n: number, h: number, E: Int32Array, e: number, k: number, i0: number, i1: number, values: Float64Array, penalty: Float64Array, allCoef: Float64Array, work: WindowWork): boolean {
   const { M, Mb, coef, perm, z, cen, half, top } = work;
   const nu = (k + 1) * (k + 1);
   const m = n - k - 1;
@@ -228,7 +228,7 @@ function freshWindow(x: Float64Array, n: number, h: number, E: Int32Array, e: nu
   const scale = top[1], iv = 1 / scale;
   for (let l = 0; l <= k; l++) {
     const a = Math.max(i0, E[e + l] + 1), z1 = Math.min(i1, E[e + l + 1]);
-    pieceValues(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, e, first, values, iv);
+    pieceValues(x, k, coef, l * (k + 1), cen[l], 1 / half[l], a, z1, k - l, values, iv);
   }
   // (D B_e) at knot rho_l = k! (jump of the leading coefficient in x units)
   const fact = k === 3 ? 6 : k === 2 ? 2 : 1;
@@ -265,26 +265,29 @@ function firstCovering(hi: Int32Array, n: number, first: Int32Array): void {
  * Values of window e on piece l's points a..z1 (its coefficients at coef[o..o+k] in the piece's
  * coordinate t = (x - c) * ihl), each times iv, by Horner's rule written out for k = 3 and 2 (on long
  * series most of a build's time is spent here; the loop through {@link pieceValue}, the same
- * operations, made a build 20% slower). Unchecked.
+ * operations, made a build 20% slower). Each value goes to slot `slot` = k - l of its point: the
+ * points of piece l lie between the window's knots rho_l and rho_{l+1}, where the first basis
+ * function covering a point is e + l - k (the windows whose last knot is at or after the point), so
+ * e - first[i] is k - l on the whole piece, with no read of `first` per point. Unchecked.
  */
-function pieceValues(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, a: number, z1: number, e: number, first: Int32Array, values: Float64Array, iv: number): void {
+function pieceValues(x: Float64Array, k: number, coef: Float64Array, o: number, c: number, ihl: number, a: number, z1: number, slot: number, values: Float64Array, iv: number): void {
   if (k === 3) {
     const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2], c3 = coef[o + 3];
     for (let i = a; i <= z1; i++) {
       const t = (x[i] - c) * ihl;
       const v = ((c3 * t + c2) * t + c1) * t + c0;
-      values[i * 4 + e - first[i]] = v * iv;
+      values[i * 4 + slot] = v * iv;
     }
   } else if (k === 2) {
     const c0 = coef[o], c1 = coef[o + 1], c2 = coef[o + 2];
     for (let i = a; i <= z1; i++) {
       const t = (x[i] - c) * ihl;
       const v = (c2 * t + c1) * t + c0;
-      values[i * 3 + e - first[i]] = v * iv;
+      values[i * 3 + slot] = v * iv;
     }
   } else {
     const wd = k + 1;
-    for (let i = a; i <= z1; i++) values[i * wd + e - first[i]] = pieceValue(x, k, coef, o, c, ihl, i) * iv;
+    for (let i = a; i <= z1; i++) values[i * wd + slot] = pieceValue(x, k, coef, o, c, ihl, i) * iv;
   }
 }
 
