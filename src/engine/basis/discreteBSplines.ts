@@ -76,16 +76,16 @@ export interface BasisCache {
   spareValues?: Float64Array;
   spareFirst?: Int32Array;
   /**
-   * Work space of the active-set rounds that use this cache (on the same x): the residual W (y - b)
-   * (n), a round's fitted values (n) and its dual (n - k - 1), each valid only within a round.
+   * Work space of the active-set rounds that use this cache (on the same x): a round's fitted values
+   * (n) and its dual (n - k - 1), each valid only within a round.
    */
-  rounds?: { g: Float64Array; b: Float64Array; u: Float64Array };
+  rounds?: { b: Float64Array; u: Float64Array };
 }
 
 /** The cache's {@link BasisCache.rounds} work space for n points and m dual rows (new arrays without a cache). Unchecked. */
-export function roundWork(cache: BasisCache | undefined, n: number, m: number): { g: Float64Array; b: Float64Array; u: Float64Array } {
-  if (cache && cache.rounds && cache.rounds.g.length === n && cache.rounds.u.length === m) return cache.rounds;
-  const work = { g: new Float64Array(n), b: new Float64Array(n), u: new Float64Array(m) };
+export function roundWork(cache: BasisCache | undefined, n: number, m: number): { b: Float64Array; u: Float64Array } {
+  if (cache && cache.rounds && cache.rounds.b.length === n && cache.rounds.u.length === m) return cache.rounds;
+  const work = { b: new Float64Array(n), u: new Float64Array(m) };
   if (cache) cache.rounds = work;
   return work;
 }

@@ -15,7 +15,7 @@ import { FIRST_CALL_POINTS } from './firstCallPoints';
  * `work` (length >= n, optional) is used as work space instead of a new array; `out` (length
  * n - q, optional) receives u instead of a new array. For q = 2, 3 and 4 (orders 1 to 3, every
  * round of the active-set methods) all levels run in one pass with the same operations in the same
- * order (identical results; {@link dualFromResidualOnePass}): each level's running sum is a pair of
+ * order (identical results; {@link residualDualOnePass}): each level's running sum is a pair of
  * locals, and the levels' chains of additions overlap. Measured at n = 1e4, q = 4: 0.13 to 0.19 ms a
  * call level by level against about 0.1 ms in one pass. Carrying every level through one pass for
  * any q with the running sums in small arrays indexed by level was measured too (identical
@@ -25,8 +25,53 @@ import { FIRST_CALL_POINTS } from './firstCallPoints';
  */
 export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number>, work?: Float64Array, out?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
-  if (q >= 2 && q <= 4 && n >= q + 2) return dualFromResidualOnePass(x, q, g, out && out.length === n - q ? out : new Float64Array(n - q));
+  if (q >= 2 && q <= 4 && n >= q + 2) {
+    // g as the residual of y = g, w = 1, b = 0: 1 * (g - 0) is g exactly (the kernel's sums of squares are not used)
+    const ones = new Float64Array(n).fill(1);
+    return residualDualOnePass(x, q, Float64Array.from(g), ones, new Float64Array(n), out && out.length === n - q ? out : new Float64Array(n - q));
+  }
   return dualFromResidualByLevel(x, q, g, work, out);
+}
+
+/** Result of {@link residualDual}. */
+export interface ResidualDual {
+  /** u with D(x, q)^T u = W (y - b), length n - q. */
+  u: Float64Array;
+  /** As in {@link dualFromResidual}. */
+  inconsistency: number;
+  /** 1/2 sum w (y - b)^2. */
+  rss: number;
+  /** y . W (y - b). */
+  yg: number;
+}
+
+/**
+ * The dual of a fit b from its residual, u with D(x, q)^T u = W (y - b) ({@link dualFromResidual}),
+ * together with the sums an active-set round's certificate needs, rss = 1/2 sum w (y - b)^2 and
+ * yg = y . W (y - b), in one pass over the points for q = 2 to 4 (orders 1 to 3): each point's
+ * residual is formed where the running sums read it, instead of a pass that writes W (y - b) and a
+ * second that reads it. The same operations in the same order as those two passes (identical u and
+ * sums). `out` (length n - q, optional) receives u.
+ *
+ * @example
+ * ```ts
+ * const { u, rss } = residualDual(x, 2, y, w, fitted); // order 1: D(x, 2)^T u = W (y - fitted)
+ * ```
+ * Unchecked.
+ */
+export function residualDual(x: Float64Array, q: number, y: Float64Array, w: Float64Array, b: Float64Array, out?: Float64Array): ResidualDual {
+  const n = x.length;
+  const u = out && out.length === n - q ? out : new Float64Array(n - q);
+  if (q >= 2 && q <= 4 && n >= q + 2) return residualDualOnePass(x, q, y, w, b, u);
+  const g = new Float64Array(n);
+  let rss = 0, yg = 0;
+  for (let i = 0; i < n; i++) {
+    const ri = y[i] - b[i], gi = w[i] * ri;
+    g[i] = gi;
+    rss += 0.5 * w[i] * ri * ri; yg += y[i] * gi;
+  }
+  const d = dualFromResidualByLevel(x, q, g, undefined, u);
+  return { u: d.u, inconsistency: d.inconsistency, rss, yg };
 }
 
 /**
@@ -86,12 +131,13 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
 }
 
 /**
- * {@link dualFromResidual} for q = 2, 3 and 4 in one pass (n >= q + 2). At point i, level 1's entry
- * (the compensated running sum of -g) times (x_{i+1} - x_i) / 1 feeds level 2's running sum, whose
- * entry times (x_{i+2} - x_i) / 2 feeds level 3's, and so on up to level q, whose entries are u. Level
- * s has entries 0 .. n - s - 1, and its unmatched equation compares its last sum with its next input
- * (at i = n - s). Each level is written out with its sums in locals, the same operations in the same
- * order as the level-by-level loops; q only decides where the chain stops.
+ * {@link residualDual} for q = 2, 3 and 4 in one pass (n >= q + 2). At point i, level 1's entry
+ * (the compensated running sum of -g, g_i = w_i (y_i - b_i) formed as it is read) times
+ * (x_{i+1} - x_i) / 1 feeds level 2's running sum, whose entry times (x_{i+2} - x_i) / 2 feeds level
+ * 3's, and so on up to level q, whose entries are u. Level s has entries 0 .. n - s - 1, and its
+ * unmatched equation compares its last sum with its next input (at i = n - s). Each level is written
+ * out with its sums in locals, the same operations in the same order as the level-by-level loops; q
+ * only decides where the chain stops.
  *
  * The pass runs in two calls of {@link onePassRows}, the first over a few points: in a fresh process
  * a long loop's first compiled code is made while the loop runs, and code that had not yet run (here
@@ -99,41 +145,45 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
  * that code and throwing it away on later calls (up to 1,290 times in one cross-validation of order 1 at
  * 1e4). After a short first call every statement has run before the loop is long. Unchecked.
  */
-function dualFromResidualOnePass(x: Float64Array, q: number, g: ArrayLike<number>, u: Float64Array): { u: Float64Array; inconsistency: number } {
+function residualDualOnePass(x: Float64Array, q: number, y: Float64Array, w: Float64Array, b: Float64Array, u: Float64Array): ResidualDual {
   const n = x.length;
   const st = new Float64Array(ONE_PASS_STATE);
   const head = Math.min(n - 1, FIRST_CALL_POINTS);
-  onePassRows(x, q, g, u, 0, head, st);
-  onePassRows(x, q, g, u, head, n - 1, st);
+  onePassRows(x, q, y, w, b, u, 0, head, st);
+  onePassRows(x, q, y, w, b, u, head, n - 1, st);
+  // the last point's residual (its sums; level 1's unmatched equation reads it)
+  const rl = y[n - 1] - b[n - 1], gl = w[n - 1] * rl;
+  const rss = st[20] + 0.5 * w[n - 1] * rl * rl, yg = st[21] + y[n - 1] * gl;
   let gmax = st[0];
-  { const ag = Math.abs(g[n - 1]); if (ag > gmax) gmax = ag; }
-  let worst = Math.max(0, Math.abs(st[13] - g[n - 1]) / Math.max(gmax, st[9], 1e-300));
+  { const ag = Math.abs(gl); if (ag > gmax) gmax = ag; }
+  let worst = Math.max(0, Math.abs(st[13] - gl) / Math.max(gmax, st[9], 1e-300));
   worst = Math.max(worst, Math.abs(st[14] - st[17]) / Math.max(gmax, st[10], 1e-300));
   if (q >= 3) worst = Math.max(worst, Math.abs(st[15] - st[18]) / Math.max(gmax, st[11], 1e-300));
   if (q >= 4) worst = Math.max(worst, Math.abs(st[16] - st[19]) / Math.max(gmax, st[12], 1e-300));
-  return { u, inconsistency: worst };
+  return { u, inconsistency: worst, rss, yg };
 }
 
 /**
  * Entries of the state of {@link onePassRows}: gmax; acc1, comp1 .. acc4, comp4; zmax1 .. zmax4;
- * z1 .. z4; last2 .. last4.
+ * z1 .. z4; last2 .. last4; rss, yg.
  */
-const ONE_PASS_STATE = 20;
+const ONE_PASS_STATE = 22;
 
 /**
- * Points from .. to - 1 of {@link dualFromResidualOnePass}, its running sums read from `st` before
+ * Points from .. to - 1 of {@link residualDualOnePass}, its running sums read from `st` before
  * the loop and written back after it. Unchecked.
  */
-function onePassRows(x: Float64Array, q: number, g: ArrayLike<number>, u: Float64Array, from: number, to: number, st: Float64Array): void {
+function onePassRows(x: Float64Array, q: number, y: Float64Array, w: Float64Array, b: Float64Array, u: Float64Array, from: number, to: number, st: Float64Array): void {
   const n = x.length;
   // the largest |g| and each level's largest |sum| are kept by comparisons (the same values as
   // Math.max of |.|, which compiles to a slower sequence; NaN reaches the result through the sums)
   let gmax = st[0];
   let acc1 = st[1], comp1 = st[2], acc2 = st[3], comp2 = st[4], acc3 = st[5], comp3 = st[6], acc4 = st[7], comp4 = st[8];
   let zmax1 = st[9], zmax2 = st[10], zmax3 = st[11], zmax4 = st[12], z1 = st[13], z2 = st[14], z3 = st[15], z4 = st[16];
-  let last2 = st[17], last3 = st[18], last4 = st[19];
+  let last2 = st[17], last3 = st[18], last4 = st[19], rss = st[20], yg = st[21];
   for (let i = from; i < to; i++) {
-    const a1 = g[i];
+    const ri = y[i] - b[i], wi = w[i], a1 = wi * ri;
+    rss += 0.5 * wi * ri * ri; yg += y[i] * a1;
     { const ag = Math.abs(a1); if (ag > gmax) gmax = ag; }
     const t1 = acc1 - a1;
     comp1 += Math.abs(acc1) >= Math.abs(a1) ? (acc1 - t1) - a1 : (-a1 - t1) + acc1;
@@ -168,5 +218,5 @@ function onePassRows(x: Float64Array, q: number, g: ArrayLike<number>, u: Float6
   st[0] = gmax;
   st[1] = acc1; st[2] = comp1; st[3] = acc2; st[4] = comp2; st[5] = acc3; st[6] = comp3; st[7] = acc4; st[8] = comp4;
   st[9] = zmax1; st[10] = zmax2; st[11] = zmax3; st[12] = zmax4; st[13] = z1; st[14] = z2; st[15] = z3; st[16] = z4;
-  st[17] = last2; st[18] = last3; st[19] = last4;
+  st[17] = last2; st[18] = last3; st[19] = last4; st[20] = rss; st[21] = yg;
 }

@@ -2,7 +2,7 @@
 import { Matrix, solve } from 'ml-matrix';
 import { restrictedSplineFit } from '../../../src/engine/basis/restrictedSplineFit';
 import { interpolateTrend } from '../../../src/engine/smoothers/trend/interpolateTrend';
-import { dualFromResidual, dualFromResidualByLevel } from '../../../src/engine/linalg/dualFromResidual';
+import { dualFromResidual, dualFromResidualByLevel, residualDual } from '../../../src/engine/linalg/dualFromResidual';
 import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/engine/smoothers/trend/regressionSplineRefit';
 import { differenceTranspose } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
@@ -114,6 +114,30 @@ describe('dualFromResidual', () => {
       expect(one.u).toBe(out);
       expect(Array.from(one.u)).toEqual(Array.from(ref.u));
       expect(one.inconsistency).toBe(ref.inconsistency);
+    }
+  });
+});
+
+describe('residualDual', () => {
+  test.each([1, 2, 3, 4])('q = %i: gives bit for bit the dual of W (y - b) formed first and its sums 1/2 sum w (y - b)^2 and y.W (y - b) added in point order, on lengths around the first call\'s split (6 to 70 points) and 2,000 uneven points', (q) => {
+    const rn = seededNormal(90 + q);
+    for (const n of [q + 1, q + 2, q + 3, 40, 63, 64, 65, 66, 70, 2000]) {
+      const x = new Float64Array(n);
+      for (let i = 1; i < n; i++) x[i] = x[i - 1] + 0.5 + Math.abs(rn());
+      const y = Float64Array.from({ length: n }, () => rn());
+      const b = Float64Array.from({ length: n }, () => 0.5 * rn());
+      const w = Float64Array.from({ length: n }, () => 0.5 + Math.abs(rn()));
+      const g = new Float64Array(n);
+      let rss = 0, yg = 0;
+      for (let i = 0; i < n; i++) { const ri = y[i] - b[i]; g[i] = w[i] * ri; rss += 0.5 * w[i] * ri * ri; yg += y[i] * g[i]; }
+      const ref = dualFromResidualByLevel(x, q, g);
+      const out = new Float64Array(n - q).fill(NaN);
+      const got = residualDual(x, q, y, w, b, out);
+      expect(got.u).toBe(out);
+      expect(Array.from(got.u)).toEqual(Array.from(ref.u));
+      expect(got.inconsistency).toBe(ref.inconsistency);
+      expect(got.rss).toBe(rss);
+      expect(got.yg).toBe(yg);
     }
   });
 });

@@ -1,7 +1,7 @@
 import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import { roundWork, BasisCache } from '../../basis/discreteBSplines';
-import { dualFromResidual } from '../../linalg/dualFromResidual';
-import { boxRelative, certify, residualSums, PolishResult } from './polishTrend';
+import { residualDual } from '../../linalg/dualFromResidual';
+import { boxRelative, certify, PolishResult } from './polishTrend';
 import { maxAbs } from '../../linalg/maxAbs';
 
 /** Result of {@link activeSetNewton}. */
@@ -68,7 +68,7 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
   let S: number[] = Array.from(signs);
   // the residual, b and u of a round, kept on the cache between calls (the dual's one-pass kernels
   // of orders 1 to 3 need no other work space)
-  const { g, u: ubuf, b: bbuf } = roundWork(cache, n, m);
+  const { u: ubuf, b: bbuf } = roundWork(cache, n, m);
   let rounds = 0;
   // a looser target needs no refinement steps in the solves ({@link refinementStepsFor})
   const steps = refinementStepsFor(stopGap);
@@ -83,9 +83,8 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
     const sol = restrictedSplineFit(x, y, w, k, lambda, A, S, cache, bbuf, undefined, steps);
     rounds++;
     if (!sol) break;
-    const { rss, yg } = residualSums(y, w, sol.b, g);
-    // u lives in ubuf for the round only (a certified result copies it)
-    const u = dualFromResidual(x, k + 1, g, undefined, ubuf).u;
+    // u lives in ubuf for the round only (a certified result copies it); the residual's sums come in the same pass
+    const { u, rss, yg } = residualDual(x, k + 1, y, w, sol.b, ubuf);
     const nA: number[] = [], nS: number[] = [];
     nextActiveSet(u, m, A, S, sol.dA, lim, slide, nA, nS, scan);
     const changed = scan[0], um = scan[1];

@@ -1,8 +1,7 @@
-import { dualFromResidual } from '../../linalg/dualFromResidual';
+import { residualDual } from '../../linalg/dualFromResidual';
 import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import { RestrictedSystem, withoutKnot, solveRestrictedSystem } from '../../basis/restrictedSystem';
-import { roundWork, BasisCache } from '../../basis/discreteBSplines';
-import { FIRST_CALL_POINTS } from '../../linalg/firstCallPoints';
+import type { BasisCache } from '../../basis/discreteBSplines';
 import { maxAbs } from '../../linalg/maxAbs';
 
 /** Result of {@link polishTrend}. */
@@ -96,9 +95,6 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   const seen = new Set<string>();
   let last: Certifiable | undefined;
   const lim = lambda * (1 + boxRelative(n, k));
-  // g = W (y - b) of the round, kept on the cache between calls (the dual's one-pass kernels of
-  // orders 1 to 3 need no work space)
-  const g = roundWork(cache, n, m).g;
   // the normal equations of the last solve from the data (orders 2 and 3) and the active set they belong to
   let kept: { rows: number[]; system: RestrictedSystem } | undefined;
   const keep: { system?: RestrictedSystem } = {};
@@ -187,9 +183,9 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     dcur.fill(0);
     for (let j = 0; j < rowsA.length; j++) dcur[rowsA[j]] = dA[j];
     const bnew = sol!.b;
-    const sums = residualSums(y, w, bnew, g);
-    u = dualFromResidual(x, k + 1, g).u;
-    last = { b: bnew, u, ...sums, dA, rows: rowsA, dmax };
+    const rd = residualDual(x, k + 1, y, w, bnew);
+    u = rd.u;
+    last = { b: bnew, u, rss: rd.rss, yg: rd.yg, dA, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda
     const added = addViolations(u, sgn, m, lim);
     if (!added) return certify(y, w, lambda, last, true, rounds + 1);
@@ -289,7 +285,7 @@ export function restrictedGap(lambda: number, delta: number, rss: number, yg: nu
   return obj > 0 ? gap / obj : 0;
 }
 
-/** A restricted solution with its recovered dual and its {@link residualSums}, as {@link certify} takes it. Unchecked. */
+/** A restricted solution with its recovered dual and the sums of its residual ({@link residualDual}), as {@link certify} takes it. Unchecked. */
 export interface Certifiable {
   b: Float64Array; u: Float64Array;
   /** max |u| when the caller has it already (the active-set rounds' scan); else certify forms it. */
@@ -297,32 +293,6 @@ export interface Certifiable {
   rss: number; yg: number;
   /** (D b) on the knot rows `rows`, in their order (D b is zero elsewhere). */
   dA: Float64Array; rows: number[]; dmax: number;
-}
-
-/**
- * Fills g = W (y - b), the right-hand side from which the dual is recovered, and returns the sums
- * the certificate needs: rss = 1/2 sum w (y - b)^2 and yg = y.g. One pass, shared by the active-set
- * methods. Unchecked.
- */
-export function residualSums(y: Float64Array, w: Float64Array, b: Float64Array, g: Float64Array): { rss: number; yg: number } {
-  // over the first few points, then the rest, with the sums carried in st: every statement has run
-  // before the loop is long (DEVELOPERS.md, "Long loops and the first call")
-  const st = new Float64Array(2);
-  const head = Math.min(y.length, FIRST_CALL_POINTS);
-  residualRows(y, w, b, g, 0, head, st);
-  residualRows(y, w, b, g, head, y.length, st);
-  return { rss: st[0], yg: st[1] };
-}
-
-/** Points from .. to - 1 of {@link residualSums}, adding to st = [rss, yg]. Unchecked. */
-function residualRows(y: Float64Array, w: Float64Array, b: Float64Array, g: Float64Array, from: number, to: number, st: Float64Array): void {
-  let rss = st[0], yg = st[1];
-  for (let i = from; i < to; i++) {
-    const ri = y[i] - b[i], gi = w[i] * ri;
-    g[i] = gi;
-    rss += 0.5 * w[i] * ri * ri; yg += y[i] * gi;
-  }
-  st[0] = rss; st[1] = yg;
 }
 
 /**

@@ -1,4 +1,4 @@
-import { dualFromResidual } from '../../linalg/dualFromResidual';
+import { residualDual } from '../../linalg/dualFromResidual';
 import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
 import { maxAbs } from '../../linalg/maxAbs';
 
@@ -23,16 +23,8 @@ export interface PolynomialDual {
  */
 export function polynomialDual(x: Float64Array, y: Float64Array, w: Float64Array, k: number): PolynomialDual {
   const b = weightedPolynomialFit(x, y, w, k);
-  // each loop in a function of its own (DEVELOPERS.md, "Long loops and the first call")
-  const u = dualFromResidual(x, k + 1, weightedResidual(y, w, b)).u;
+  const u = residualDual(x, k + 1, y, w, b).u;
   return { b, u, lambdaMax: maxAbs(u) };
-}
-
-/** g = W (y - b). Unchecked. */
-function weightedResidual(y: Float64Array, w: Float64Array, b: Float64Array): Float64Array {
-  const g = new Float64Array(y.length);
-  for (let i = 0; i < y.length; i++) g[i] = w[i] * (y[i] - b[i]);
-  return g;
 }
 
 /**
