@@ -4,7 +4,7 @@
  * interior point. Optimality is checked by the dense KKT checker of trendKkt.ts.
  */
 import * as solveTrendModule from '../../../src/engine/smoothers/trend/solveTrend';
-import { solveTrend, seedOf, TrendProblem, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep } from '../../../src/engine/smoothers/trend/solveTrend';
+import { solveTrend, seedOf, TrendProblem, KnotSeed, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep } from '../../../src/engine/smoothers/trend/solveTrend';
 import { trendPath, CV_TOLERANCE, ORDER2_SWITCH_BELOW } from '../../../src/engine/smoothers/trend/trendPath';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
@@ -240,7 +240,7 @@ describe('solveTrend, orders 2 and 3 warm-started', () => {
     expect(solveTrendOverHalvedStep(p, 1e-3 * lmax, { tolerance: 1e-8, maxIterations: 200, warm: stalled })).toBeUndefined();
   });
 
-  test.each([2, 3])('order %i with a guess of the knots (a fold): the gap accepted at the fold tolerance bounds the distance to the optimum', (k) => {
+  test.each([2, 3])('order %i with a guess of the knots (a fold), with and without the primal-dual rounds before the refinement: the gap accepted at the fold tolerance bounds the distance to the optimum', (k) => {
     const p = problem(250, k, 111 + k);
     const lam = 1e-3 * trendLambdaMax(p.x, p.y, p.w, k);
     const exact = solveTrend(p, lam, { tolerance: 1e-12, maxIterations: 200 });
@@ -248,8 +248,10 @@ describe('solveTrend, orders 2 and 3 warm-started', () => {
     // a guess with every knot moved by three rows, and an empty one
     const moved = { rows: near.rows.map((r) => Math.min(r + 3, p.x.length - k - 2)).filter((r, j, a) => j === 0 || r > a[j - 1]), signs: near.signs.slice() };
     moved.signs.length = moved.rows.length;
-    for (const guess of [moved, { rows: [], signs: [] }]) {
-      const r = solveTrend(p, lam, { tolerance: 1e-5, maxIterations: 200, refine: false, guess });
+    const empty: KnotSeed = { rows: [], signs: [] };
+    const cases: [KnotSeed, boolean][] = [[moved, false], [empty, false], [moved, true], [empty, true]];
+    for (const [guess, refineGuessDirectly] of cases) {
+      const r = solveTrend(p, lam, { tolerance: 1e-5, maxIterations: 200, refine: false, guess, refineGuessDirectly });
       expect(r.status.converged).toBe(true);
       expect(r.status.achieved).toBeLessThanOrEqual(1e-5);
       // weak duality: ||b - b*||_W^2 <= 2 (P(b) - P(b*)) <= 2 gap, gap = achieved P(b)

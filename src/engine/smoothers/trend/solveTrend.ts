@@ -134,6 +134,12 @@ export interface SolveTrendOptions {
    * fit for a cross-validation fold): the active-set method starts from it instead of `warm`'s knots.
    */
   guess?: KnotSeed;
+  /**
+   * With `guess` and `refine` false: the monotone refinement starts from the guess, without the
+   * primal-dual active-set rounds (order 3's fold fits while the interior point takes the penalties
+   * with many knots: {@link FOLD_GUESS_REFINED_DIRECTLY} in trendPath). Default false.
+   */
+  refineGuessDirectly?: boolean;
 }
 
 /** What the strategies of {@link solveTrend} share for one solve. Unchecked. */
@@ -219,18 +225,6 @@ const WARM_NEWTON_ROUNDS = 30;
  */
 const WARM_NEWTON_PATIENCE = [Infinity, Infinity, 4, 8];
 
-/**
- * Orders whose fold fits (no refinement wanted, a `guess` from the full-data fit) skip those rounds
- * and start the monotone refinement from the guess. Order 3's rounds from a fold's guess rarely
- * settle: the primal-dual update moves every knot whose sign broke to the peak of a broad violation
- * of the dual, so the knots wander by hundreds of rows and the refinement then starts from a worse
- * set than the guess. Measured on the `trend-cv` series (5 x 30; warm, medians of 3 in one process,
- * two alternating runs): the fold fits took 0.63 to 0.64 s instead of 0.79 to 0.81 s at 1e4 and 0.29
- * to 0.33 s instead of 0.39 to 0.44 s at 5,000. Orders 1 and 2 keep them: without, their fold fits
- * took 1.5 to 1.7 times as long (their rounds settle from the guess).
- */
-const FOLD_SKIPS_NEWTON = [false, false, false, true];
-
 /** Round limit of that refinement for order 1. */
 const WARM_POLISH_ROUNDS = 60;
 
@@ -263,7 +257,7 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
   const start = guess ?? (warm && warm.status.converged ? seedOf(warm) : undefined);
   if (!start) return undefined;
   const { rows, signs } = start;
-  const skip = !refine && guess !== undefined && FOLD_SKIPS_NEWTON[prob.k];
+  const skip = !refine && guess !== undefined && ctx.opt.refineGuessDirectly === true;
   const asn = skip ? undefined : activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, WARM_NEWTON_PATIENCE[prob.k], true);
   if (asn) ctx.iterations += asn.rounds;
   let pol = asn?.fit;

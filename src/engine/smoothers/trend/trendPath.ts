@@ -155,6 +155,24 @@ export const PROBE_WORK = 10;
  */
 export const ORDER2_SWITCH_BELOW = 3000;
 
+/**
+ * Orders whose fold fits start the monotone refinement of {@link solveTrend} straight from the
+ * full-data guess (`refineGuessDirectly`), without the primal-dual active-set rounds, when the fold
+ * fits switch to the interior point at the penalties with many knots ({@link PROBE_WORK}). Order 3's
+ * rounds from a fold's guess at the penalties with few knots rarely settle: the primal-dual update
+ * moves every knot whose sign broke to the peak of a broad violation of the dual, so the knots wander
+ * by hundreds of rows and the refinement then starts from a worse set than the guess. Measured on
+ * the `trend-cv` series (5 x 30; warm, medians of 3 in one process, alternating runs): the fold fits
+ * took 0.62 to 0.67 s instead of 0.79 to 0.94 s at 1e4 and 0.35 to 0.36 s instead of 0.40 to 0.42 s
+ * at 5,000, with the same minima (six seeded curves at 2,000 to 1e4 points: scores within 5 standard
+ * errors of their minimum moved by at most 0.046 of their standard error). Without the switch
+ * (relaxed fits, or `foldInteriorPoint` false) the rounds stay: with the penalties with many knots
+ * left to the active-set methods, starting from the guess took 1.3 to 1.5 times as long (order 3,
+ * relaxed 0.5, 2,000 and 5,000 points). Orders 1 and 2 keep the rounds: without them their fold fits
+ * took 1.5 to 1.7 times as long at 1e4 (their rounds settle from the guess).
+ */
+export const FOLD_GUESS_REFINED_DIRECTLY = [false, false, false, true];
+
 /** Penalties between two probes of the interior point in the first fold (see {@link PROBE_WORK}). */
 export const PROBE_SPACING = 3;
 
@@ -278,12 +296,15 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
     let swAll = 0;
     for (let i = 0; i < n; i++) swAll += sc.ws[i];
     let foldCalls = 0;
+    // whether the fold fits may switch to the interior point ({@link PROBE_WORK})
+    const switchable = (k === 3 || (k === 2 && n < ORDER2_SWITCH_BELOW)) && !(s.relaxed > 0) && s.foldInteriorPoint !== false;
+    const refineGuessDirectly = switchable && FOLD_GUESS_REFINED_DIRECTLY[k];
     // grid indices of the penalties being scored, and each fold's fits by grid index (keyed by its first held-out point)
     let scoring: number[] = first;
     const foldFits = new Map<number, (TrendFit | undefined)[]>();
     // one fold: the warm-started path on its training points, predicted at the held-out x
     const predict = (tr: Int32Array, te: Int32Array, pens: Float64Array): Float64Array[] => {
-      const probing = foldCalls++ === 0 && (k === 3 || (k === 2 && n < ORDER2_SWITCH_BELOW)) && !(s.relaxed > 0) && s.foldInteriorPoint !== false;
+      const probing = foldCalls++ === 0 && switchable;
       let lastFail = -Infinity, failGap = Infinity;
       const { xt, yt, wt, xh, swt } = foldData(sc.xs, sc.ys, sc.ws, tr, te);
       const sub: TrendProblem = { x: xt, y: yt, w: wt, k };
@@ -300,7 +321,7 @@ export function trendPath(series: Series, s: TrendPathSettings): TrendPath {
         const guess = foldGuess(byIndex[j]!.seed, below, k, tr.length);
         const tol = Math.max(s.tolerance, s.foldTolerance ?? CV_TOLERANCE);
         const interiorFirst = j >= foldFrom || (probing && work >= PROBE_WORK && (j - lastFail >= PROBE_SPACING || failGap <= PROBE_NEAR * tol));
-        const fit = solveTrend(sub, pens[q] * (swt / swAll), { tolerance: tol, maxIterations: s.maxIterations, warm: wf, refine: false, guess, interiorFirst });
+        const fit = solveTrend(sub, pens[q] * (swt / swAll), { tolerance: tol, maxIterations: s.maxIterations, warm: wf, refine: false, guess, interiorFirst, refineGuessDirectly });
         if (fit.interior) {
           if (fit.interior.converged) { if (probing) foldFrom = Math.min(foldFrom, j); }
           else { lastFail = j; failGap = fit.interior.achieved; }
