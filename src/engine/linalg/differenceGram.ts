@@ -1,3 +1,5 @@
+import { applyRowsTransposed } from './applyRowsTransposed';
+
 /**
  * The band of Q = D W^{-1} D^T for D = D(x, q) given row by row
  * (see {@link differenceRows}): Q is (n - q) x (n - q) with half-bandwidth q,
@@ -28,32 +30,20 @@ export function differenceGram(rows: Float64Array, winv: Float64Array, q: number
 
 /**
  * out = Q z = D (W^{-1} (D^T z)) with the rows of D, O(n q); each entry of W^{-1} D^T z is scaled
- * just before its first use. With `p` and `sums`, the same pass also forms, for v = p - Q z,
+ * just before its first use. With `p` and `sums`, a pass after it forms, for v = p - Q z,
  * sums = [||v||_1, z.v, z.Q z] (the trend interior point's objective and duality gap need no more).
  *
- * The two passes are functions of their own, each ending with its loop, and the pass with the sums is
- * not the pass without them: in a fresh process a long loop's first compiled code is made while the
- * loop runs, before any code after it has run, and Node's engine kept entering that code and throwing
- * it away on later calls (up to 1,188 times in one cross-validation of order 3 at 1e4).
+ * Each pass is a function of its own ending with its loop: in a fresh process a long loop's first
+ * compiled code is made while the loop runs, before any code after it has run, and Node's engine kept
+ * entering that code and throwing it away on later calls (up to 1,188 times in one cross-validation of
+ * order 3 at 1e4, when the sums were formed after the gather's loop).
  * Unchecked; `tmp` has length n.
  */
 export function applyDifferenceGram(rows: Float64Array, winv: Float64Array, q: number, z: Float64Array, out: Float64Array, tmp: Float64Array, p?: Float64Array, sums?: Float64Array): Float64Array {
-  differenceTransposeScatter(rows, q, z, tmp);
-  if (p !== undefined && sums !== undefined) differenceGatherSums(rows, winv, q, z, tmp, out, p, sums);
-  else differenceGather(rows, winv, q, tmp, out);
+  applyRowsTransposed(rows, q + 1, z, tmp.length - q, tmp);
+  differenceGather(rows, winv, q, tmp, out);
+  if (p !== undefined && sums !== undefined) gapSums(p, z, out, winv.length - q, sums);
   return out;
-}
-
-/** tmp = D^T z from the rows of D (tmp has length n). Unchecked. */
-function differenceTransposeScatter(rows: Float64Array, q: number, z: Float64Array, tmp: Float64Array): void {
-  const m = tmp.length - q;
-  const wd = q + 1;
-  tmp.fill(0);
-  for (let r = 0; r < m; r++) {
-    const zr = z[r];
-    const o = r * wd;
-    for (let c = 0; c <= q; c++) tmp[r + c] += rows[o + c] * zr;
-  }
 }
 
 /** out = D (W^{-1} tmp), scaling tmp by W^{-1} in place just before each entry's first use. Unchecked. */
@@ -72,23 +62,13 @@ function differenceGather(rows: Float64Array, winv: Float64Array, q: number, tmp
 }
 
 /**
- * {@link differenceGather} that also forms sums = [||v||_1, z.v, z.Q z] for v = p - out. The sums are
- * kept in `sums` as the loop runs (the same additions in the same order as in locals), so that nothing
- * follows the loop. Unchecked.
+ * sums = [||v||_1, z.v, z.Qz] over the first m rows for v = p - Qz, Qz given in qz: added in row
+ * order, kept in `sums` as the loop runs so that nothing follows it. Unchecked.
  */
-function differenceGatherSums(rows: Float64Array, winv: Float64Array, q: number, z: Float64Array, tmp: Float64Array, out: Float64Array, p: Float64Array, sums: Float64Array): void {
-  const n = winv.length;
-  const m = n - q;
-  const wd = q + 1;
-  for (let i = 0; i < q && i < n; i++) tmp[i] *= winv[i];
+function gapSums(p: Float64Array, z: Float64Array, qz: Float64Array, m: number, sums: Float64Array): void {
   sums[0] = 0; sums[1] = 0; sums[2] = 0;
   for (let r = 0; r < m; r++) {
-    tmp[r + q] *= winv[r + q];
-    let s = 0;
-    const o = r * wd;
-    for (let c = 0; c <= q; c++) s += rows[o + c] * tmp[r + c];
-    out[r] = s;
-    const v = p[r] - s;
+    const s = qz[r], v = p[r] - s;
     sums[0] += Math.abs(v); sums[1] += z[r] * v; sums[2] += z[r] * s;
   }
 }

@@ -23,12 +23,11 @@ import { FIRST_CALL_POINTS } from './firstCallPoints';
  * very short x.
  * Unchecked.
  */
-export function dualFromResidual(x: Float64Array, q: number, g: ArrayLike<number>, work?: Float64Array, out?: Float64Array): { u: Float64Array; inconsistency: number } {
+export function dualFromResidual(x: Float64Array, q: number, g: Float64Array, work?: Float64Array, out?: Float64Array): { u: Float64Array; inconsistency: number } {
   const n = x.length;
   if (q >= 2 && q <= 4 && n >= q + 2) {
     // g as the residual of y = g, w = 1, b = 0: 1 * (g - 0) is g exactly (the kernel's sums of squares are not used)
-    const ones = new Float64Array(n).fill(1);
-    return residualDualOnePass(x, q, Float64Array.from(g), ones, new Float64Array(n), out && out.length === n - q ? out : new Float64Array(n - q));
+    return residualDualOnePass(x, q, g, new Float64Array(n).fill(1), new Float64Array(n), out && out.length === n - q ? out : new Float64Array(n - q));
   }
   return dualFromResidualByLevel(x, q, g, work, out);
 }

@@ -23,6 +23,8 @@ import { KnotwiseError, showNumber } from '../../errors';
 import { differenceRows } from '../../linalg/differenceRows';
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
 import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
+import { applyRows } from '../../linalg/applyRows';
+import { applyRowsTransposed } from '../../linalg/applyRowsTransposed';
 
 /** Iterates carried from one penalty to the next (warm start). */
 export interface MixedAdmmState {
@@ -60,17 +62,6 @@ export function mixedOperators(x: Float64Array, w: Float64Array): MixedOperators
 export const MIXED_ADMM_RULE = 'ADMM (scaled multipliers, proximal term on the bends, residual balancing of both step sizes): stops when the primal and dual residuals of both blocks are within sqrt(size) eps + eps times their scale (Boyd et al. 2011, section 3.3.1)';
 
 const P = 8;
-
-function applyD(rows: Float64Array, q: number, v: Float64Array, out: Float64Array): void {
-  const m = out.length, wd = q + 1;
-  for (let r = 0; r < m; r++) { let s = 0; for (let c = 0; c < wd; c++) s += rows[r * wd + c] * v[r + c]; out[r] = s; }
-}
-
-function applyDt(rows: Float64Array, q: number, u: Float64Array, out: Float64Array): void {
-  out.fill(0);
-  const wd = q + 1;
-  for (let r = 0; r < u.length; r++) { const ur = u[r]; if (ur === 0) continue; for (let c = 0; c < wd; c++) out[r + c] += rows[r * wd + c] * ur; }
-}
 
 /** The banded factor of [[W + rho1 D2'D2, W], [W, (1 + delta) W + rho3 D4'D4]] with a and c interleaved. */
 function factor(ops: MixedOperators, rho1: number, rho3: number, delta: number): Float64Array | null {
@@ -118,15 +109,15 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
   for (it = 1; it <= maxIterations; it++) {
     for (let r = 0; r < m2; r++) t2[r] = z1[r] - u1[r];
     for (let r = 0; r < m4; r++) t4[r] = z3[r] - u3[r];
-    applyDt(r2, 2, t2, v2);
-    applyDt(r4, 4, t4, v4);
+    applyRowsTransposed(r2, 3, t2, t2.length, v2);
+    applyRowsTransposed(r4, 5, t4, t4.length, v4);
     for (let i = 0; i < n; i++) { rhs[2 * i] = w[i] * y[i] + rho1 * v2[i]; rhs[2 * i + 1] = w[i] * y[i] + rho3 * v4[i] + delta * w[i] * c[i]; }
     bandedCholeskySolve(L, 2 * n, P, rhs);
     let cChange = 0;
     for (let i = 0; i < n; i++) { a[i] = rhs[2 * i]; cNew[i] = rhs[2 * i + 1]; cChange += w[i] * (cNew[i] - c[i]) ** 2; }
     c.set(cNew);
-    applyD(r2, 2, a, d2);
-    applyD(r4, 4, c, d4);
+    applyRows(r2, 3, a, d2);
+    applyRows(r4, 5, c, d4);
     z1o.set(z1); z3o.set(z3);
     const k1 = lambda1 / rho1, k3 = lambda3 / rho3;
     let pr1 = 0, pr3 = 0, nd1 = 0, nd3 = 0, nz1 = 0, nz3 = 0;
@@ -147,11 +138,11 @@ export function mixedAdmm(ops: MixedOperators, y: Float64Array, lambda1: number,
     // dual residuals rho D^T (z - z_old), and the scale rho D^T u
     for (let r = 0; r < m2; r++) t2[r] = z1[r] - z1o[r];
     for (let r = 0; r < m4; r++) t4[r] = z3[r] - z3o[r];
-    applyDt(r2, 2, t2, v2); applyDt(r4, 4, t4, v4);
+    applyRowsTransposed(r2, 3, t2, t2.length, v2); applyRowsTransposed(r4, 5, t4, t4.length, v4);
     let s1 = 0, s3 = 0;
     for (let i = 0; i < n; i++) { s1 += (rho1 * v2[i]) ** 2; s3 += (rho3 * v4[i]) ** 2; }
     s3 += delta * delta * cChange;
-    applyDt(r2, 2, u1, v2); applyDt(r4, 4, u3, v4);
+    applyRowsTransposed(r2, 3, u1, u1.length, v2); applyRowsTransposed(r4, 5, u3, u3.length, v4);
     let su1 = 0, su3 = 0;
     for (let i = 0; i < n; i++) { su1 += (rho1 * v2[i]) ** 2; su3 += (rho3 * v4[i]) ** 2; }
     const e1p = Math.sqrt(m2) * tolerance + tolerance * Math.sqrt(Math.max(nd1, nz1));

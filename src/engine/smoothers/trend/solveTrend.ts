@@ -7,6 +7,7 @@ import { trendAdmm, scaledDifferenceRows, AdmmState, AdmmResult, ADMM_RULE } fro
 import { basisCache, BasisCache } from '../../basis/discreteBSplines';
 import { activeSetNewton } from './activeSetNewton';
 import { maxAbs } from '../../linalg/maxAbs';
+import { applyRows } from '../../linalg/applyRows';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -256,17 +257,17 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
   if (prob.k < 1) return undefined;
   const start = guess ?? (warm && warm.status.converged ? seedOf(warm) : undefined);
   if (!start) return undefined;
-  const { rows, signs } = start;
   const skip = !refine && guess !== undefined && ctx.opt.refineGuessDirectly === true;
-  const asn = skip ? undefined : activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, rows, signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, WARM_NEWTON_PATIENCE[prob.k], true);
+  const asn = skip ? undefined : activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start.rows, start.signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, WARM_NEWTON_PATIENCE[prob.k], true);
   if (asn) ctx.iterations += asn.rounds;
   let pol = asn?.fit;
   // cycling among a few rows: the monotone refinement finishes from the last active set
   if (!(pol && certifiedAt(pol, tolerance))) {
     // orders 2 and 3: knots move further between penalties and between the full data and a fold
     // (measured: 60 to 200 rounds from the previous knots at n = 1e4, about 3 per knot)
-    const maxRounds = prob.k === 1 ? WARM_POLISH_ROUNDS : WARM_POLISH_ROUNDS_HIGHER + 3 * rows.length;
-    pol = refineFromKnots(ctx, asn ? asn.rows : rows, asn ? asn.signs : signs, maxRounds, refine ? 0 : tolerance);
+    const maxRounds = prob.k === 1 ? WARM_POLISH_ROUNDS : WARM_POLISH_ROUNDS_HIGHER + 3 * start.rows.length;
+    const from = asn ?? start;
+    pol = refineFromKnots(ctx, from.rows, from.signs, maxRounds, refine ? 0 : tolerance);
   }
   return pol && certifiedAt(pol, tolerance) ? refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds, undefined, WARM_RULE) : undefined;
 }
@@ -548,23 +549,10 @@ function scaledCopy(v: Float64Array, c: number): Float64Array {
 function knotRowsOf(prob: TrendProblem, b: Float64Array, u: Float64Array, lambda: number): number[] {
   const k = prob.k;
   const m = prob.x.length - k - 1;
-  const db = new Float64Array(m);
-  const dmax = rowProducts(prob.op!.rows, k + 2, b, db);
+  const db = applyRows(prob.op!.rows, k + 2, b, new Float64Array(m));
   const out: number[] = [];
-  boundKnotRows(u, db, lambda * (1 - DUAL_BOUND_RELATIVE), KNOT_RELATIVE * dmax, out);
+  boundKnotRows(u, db, lambda * (1 - DUAL_BOUND_RELATIVE), KNOT_RELATIVE * maxAbs(db), out);
   return out;
-}
-
-/** db = D b from D's rows (width wd); returns max |db|. Unchecked. */
-function rowProducts(rows: Float64Array, wd: number, b: Float64Array, db: Float64Array): number {
-  let dmax = 0;
-  for (let r = 0; r < db.length; r++) {
-    let s = 0;
-    for (let c = 0; c < wd; c++) s += rows[r * wd + c] * b[r + c];
-    db[r] = s;
-    dmax = Math.max(dmax, Math.abs(s));
-  }
-  return dmax;
 }
 
 /** Appends to `out` the rows r with |u_r| >= ubound and |db_r| > dbound. Unchecked. */

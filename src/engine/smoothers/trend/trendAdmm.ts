@@ -34,6 +34,8 @@
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
 import { differenceRows } from '../../linalg/differenceRows';
 import { differenceOperator } from '../../linalg/difference';
+import { applyRows } from '../../linalg/applyRows';
+import { applyRowsTransposed } from '../../linalg/applyRowsTransposed';
 import type { SolverStatus } from '../../types';
 import { totalVariationDenoise, totalVariationWorkspace } from './totalVariationDenoise';
 import { constantFitObjective } from './constantFitObjective';
@@ -122,7 +124,7 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
     const f = warm.rho / rho;
     for (let r = 0; r < mt; r++) s[r] = warm.s[r] * f;
   } else {
-    applyRows(T, k, y, alpha);
+    applyRows(T, wd, y, alpha);
   }
   const ones = new Float64Array(mt).fill(1);
   const tvWork = totalVariationWorkspace(mt);
@@ -162,11 +164,11 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
     } else {
       // b step
       for (let r = 0; r < mt; r++) z[r] = rho * (alpha[r] - s[r]);
-      transposeRows(T, k, z, b);
+      applyRowsTransposed(T, wd, z, mt, b);
       for (let i = 0; i < n; i++) b[i] += wy[i];
       bandedCholeskySolve(band, n, k, b);
       // alpha step input
-      applyRows(T, k, b, z);
+      applyRows(T, wd, b, z);
       for (let r = 0; r < mt; r++) z[r] += s[r];
     }
     // alpha step
@@ -209,7 +211,7 @@ function certificate(x: Float64Array, y: Float64Array, w: Float64Array, k: numbe
   d1[0] = -v[0];
   for (let r = 1; r < m; r++) d1[r] = v[r - 1] - v[r];
   d1[m] = v[m - 1];
-  transposeRows(T, k, d1, g);
+  applyRowsTransposed(T, k + 1, d1, n - k, g);
   let yg = 0, gg = 0, rss = 0;
   for (let i = 0; i < n; i++) { yg += y[i] * g[i]; gg += (g[i] * g[i]) / w[i]; rss += 0.5 * w[i] * (y[i] - b[i]) ** 2; }
   const db = differenceOperator(x, k + 1, b, work);
@@ -219,30 +221,6 @@ function certificate(x: Float64Array, y: Float64Array, w: Float64Array, k: numbe
   const dual = yg / f - (0.5 * gg) / (f * f);
   if (f > 1) for (let r = 0; r < m; r++) v[r] /= f;
   return Math.max(obj - dual, 0) / Math.max(obj, floor);
-}
-
-/** out = T b (length n - k). Unchecked. */
-function applyRows(T: Float64Array, k: number, b: ArrayLike<number>, out: Float64Array): void {
-  const wd = k + 1;
-  const mt = out.length;
-  for (let r = 0; r < mt; r++) {
-    let acc = 0;
-    const o = r * wd;
-    for (let c = 0; c < wd; c++) acc += T[o + c] * b[r + c];
-    out[r] = acc;
-  }
-}
-
-/** out = T^T z (length n). Unchecked. */
-function transposeRows(T: Float64Array, k: number, z: ArrayLike<number>, out: Float64Array): void {
-  const wd = k + 1;
-  const mt = z.length < T.length / wd ? z.length : T.length / wd;
-  out.fill(0);
-  for (let r = 0; r < mt; r++) {
-    const zr = z[r];
-    const o = r * wd;
-    for (let c = 0; c < wd; c++) out[r + c] += T[o + c] * zr;
-  }
 }
 
 /** Relative size of a jump of alpha counted as a knot (the fused-lasso step gives exact ties elsewhere). */
