@@ -356,7 +356,16 @@ test('Cancel stops a fit running in the worker: the status says so, the worker i
     // stopping any worker, which is right but not what this test checks
     await page.waitForFunction(() => globalThis[Symbol.for('knotwise.pageRuntime')].pool.running > 0, null, { timeout: 30000 });
     const atCancel = await page.evaluate(() => { const p = globalThis[Symbol.for('knotwise.pageRuntime')].pool; return { running: p.running, queued: p.queued, workers: p.workers, ...p.stats }; });
-    await page.click('#cancel');
+    // The job can finish between that check and the click, and then Cancel is hidden before it can be
+    // pressed: the fit was too quick to cancel (not what this test checks). Again on another column.
+    const pressed = await page.click('#cancel', { timeout: 5000 }).then(() => true, () => false);
+    if (!pressed && attempt < columns.length && attempt < 2) {
+      await page.waitForFunction(() => /^Fitted/.test(document.querySelector('#status')?.textContent || ''));
+      console.log(`      (the fit finished before Cancel could be pressed, ${Date.now() - t0} ms after Fit; again on column ${columns[attempt]})`);
+      await page.selectOption('#pick-y', columns[attempt]);
+      continue;
+    }
+    assert(pressed, 'every fit tried finished before Cancel could be pressed');
     await page.waitForFunction(() => /cancelled/i.test(document.querySelector('#status')?.textContent || ''));
     const tCancelled = Date.now();
     assert(await page.isHidden('#progress'), 'the progress bar is still shown after Cancel');
