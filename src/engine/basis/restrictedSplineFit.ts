@@ -57,6 +57,44 @@ export function restrictedSplineFit(x: Float64Array, y: Float64Array, w: Float64
 
 /** {@link restrictedSplineFit} through the discrete B-spline basis, for any order 1..3 (the reference for the order-1 kernel). Unchecked. */
 export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, out?: Float64Array, keep?: { system?: RestrictedSystem }, steps = REFINEMENT_STEPS): { b: Float64Array; dA: Float64Array } | null {
+  const start = restrictedSplineStartGeneral(x, y, w, k, lambda, rowsA, sA, cache, keep, steps);
+  return start ? start.finish(out) : null;
+}
+
+/**
+ * A restricted solve ({@link restrictedSplineFit}) factored and solved once, before its steps of
+ * iterative refinement and its fitted values ({@link restrictedSplineStart}).
+ */
+export interface RestrictedSplineStart {
+  /**
+   * (D b)_A from the coefficients of the first solve of the normal equations, before refinement: their
+   * signs decide a round of {@link polishTrend} that will drop a knot, which needs nothing else.
+   */
+  dA: Float64Array;
+  /**
+   * The refinement steps from the data, then the fitted values and the refined (D b)_A: the result of
+   * {@link restrictedSplineFit}, bit for bit. Valid only before the next build on the same basis cache,
+   * and only once.
+   */
+  finish(out?: Float64Array): { b: Float64Array; dA: Float64Array };
+}
+
+/**
+ * The first part of {@link restrictedSplineFit} (the basis, one pass for the normal equations, their
+ * banded Cholesky factor and one solve), with the rest left to `finish`. A round of the refinement
+ * whose step stops at a sign change uses only (D b)_A: for k = 2 and 3 it then costs one pass over the
+ * points instead of the four of a finished solve (two refinement steps and the fitted values). For
+ * k = 1 the solve is written out ({@link restrictedLinearFit}) and done at once. Arguments as for
+ * {@link restrictedSplineFit}; null when the system is singular. Unchecked.
+ */
+export function restrictedSplineStart(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, keep?: { system?: RestrictedSystem }, steps?: number): RestrictedSplineStart | null {
+  if (k !== 1) return restrictedSplineStartGeneral(x, y, w, k, lambda, rowsA, sA, cache, keep, steps);
+  const sol = restrictedLinearFit(x, y, w, lambda, rowsA, sA, undefined, steps);
+  return sol ? { dA: sol.dA, finish: () => sol } : null;
+}
+
+/** {@link restrictedSplineStart} through the discrete B-spline basis, for any order 1..3. Unchecked. */
+function restrictedSplineStartGeneral(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rowsA: ArrayLike<number>, sA: ArrayLike<number>, cache?: BasisCache, keep?: { system?: RestrictedSystem }, steps = REFINEMENT_STEPS): RestrictedSplineStart | null {
   const n = x.length;
   const B = discreteBSplines(x, k, rowsA, cache);
   if (!B) return null;
@@ -75,24 +113,26 @@ export function restrictedSplineFitGeneral(x: Float64Array, y: Float64Array, w: 
   const c = Float64Array.from(rhs);
   for (let e = p; e < p + k; e++) c[e] = 0;
   bandedCholeskySolve(band, p, k, c);
-  // iterative refinement with the residual of the normal equations formed from the data,
-  // B^T W (y - B c) - lambda (D_A B)^T s, not from the assembled Gram matrix: the rounding of the
-  // assembled sums limits a refinement on the Gram matrix, and through the dual recovered from
-  // W (y - b) it limited the certified gap of order 3 at small penalties (measured at n = 1e4:
-  // u on the knots off lambda by up to 1e-5 relative after a Gram-based step, 1e-7 after two of these)
-  const res = new Float64Array(p + k);
-  for (let step = 0; step < steps; step++) {
-    res.fill(0);
-    residualNormalEquations(first, values, w, y, c, k, n, res);
-    subtractPenalty(res, penalty, k, p, lambda, sA);
-    bandedCholeskySolve(band, p, k, res);
-    for (let e = 0; e < p; e++) c[e] += res[e];
-  }
-  for (let e = p; e < p + k; e++) c[e] = 0;
-  const b = out && out.length === n ? out : new Float64Array(n);
-  basisCombination(first, values, c, k, n, b);
-  const dA = knotDifferences(penalty, c, k, p, K);
-  return { b, dA };
+  const finish = (out?: Float64Array): { b: Float64Array; dA: Float64Array } => {
+    // iterative refinement with the residual of the normal equations formed from the data,
+    // B^T W (y - B c) - lambda (D_A B)^T s, not from the assembled Gram matrix: the rounding of the
+    // assembled sums limits a refinement on the Gram matrix, and through the dual recovered from
+    // W (y - b) it limited the certified gap of order 3 at small penalties (measured at n = 1e4:
+    // u on the knots off lambda by up to 1e-5 relative after a Gram-based step, 1e-7 after two of these)
+    const res = new Float64Array(p + k);
+    for (let step = 0; step < steps; step++) {
+      res.fill(0);
+      residualNormalEquations(first, values, w, y, c, k, n, res);
+      subtractPenalty(res, penalty, k, p, lambda, sA);
+      bandedCholeskySolve(band, p, k, res);
+      for (let e = 0; e < p; e++) c[e] += res[e];
+    }
+    for (let e = p; e < p + k; e++) c[e] = 0;
+    const b = out && out.length === n ? out : new Float64Array(n);
+    basisCombination(first, values, c, k, n, b);
+    return { b, dA: knotDifferences(penalty, c, k, p, K) };
+  };
+  return { dA: knotDifferences(penalty, c, k, p, K), finish };
 }
 
 // The passes over the points, each its own function: the first call's compiler then works on small
