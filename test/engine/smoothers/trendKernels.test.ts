@@ -7,7 +7,7 @@ import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/en
 import { differenceTranspose } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
 import * as restrictedSplineFitModule from '../../../src/engine/basis/restrictedSplineFit';
-import { polishTrend } from '../../../src/engine/smoothers/trend/polishTrend';
+import { polishTrend, joiningAtMost, JOINING_AT_LEAST } from '../../../src/engine/smoothers/trend/polishTrend';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { basisCache } from '../../../src/engine/basis/discreteBSplines';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
@@ -228,6 +228,37 @@ describe('polishTrend', () => {
     } finally {
       eager.mockRestore();
     }
+  });
+
+  test('order 3: at most max(4, a quarter of the knots) violations join in one round, the largest, and the answer meets the KKT conditions; order 2 lets every run\'s worst row join', () => {
+    const joined = (k: number, seed: number) => {
+      const { x, y, w } = refinementProblem(k, seed);
+      // a small penalty and a start far from the optimum (no knots): many violations at once
+      const lambda = 1e-5 * trendLambdaMax(x, y, w, k);
+      const sets: number[][] = [];
+      const real = restrictedSplineFitModule.restrictedSplineStart;
+      const spy = jest.spyOn(restrictedSplineFitModule, 'restrictedSplineStart').mockImplementation((...a) => { sets.push(Array.from(a[5])); return real(...a); });
+      let pol: ReturnType<typeof polishTrend>;
+      try {
+        pol = polishTrend(x, y, w, k, lambda, new Float64Array(x.length - k - 1), 400, []);
+      } finally {
+        spy.mockRestore();
+      }
+      // rows joining between consecutive solves from the data, against the limit for the set before
+      const joins = sets.slice(1).map((now, i) => ({ count: now.filter((r) => !sets[i].includes(r)).length, limit: joiningAtMost(k, sets[i].length) }));
+      return { pol, joins, x, y, w, lambda };
+    };
+    const three = joined(3, 391);
+    expect(three.pol.ok).toBe(true);
+    for (const j of three.joins) expect(j.count).toBeLessThanOrEqual(j.limit);
+    // the limit binds in some round (more violations than it lets in)
+    expect(three.joins.some((j) => j.count === j.limit)).toBe(true);
+    const kkt = checkTrendKkt(three.x, three.y, three.w, three.pol.b, 3, three.lambda);
+    expect(kkt.boxExcess).toBeLessThan(1e-6);
+    expect(kkt.signError).toBeLessThan(1e-6);
+    // order 2: no limit, and more than 4 rows join in some round
+    expect(joiningAtMost(2, 100)).toBe(Infinity);
+    expect(Math.max(...joined(2, 392).joins.map((j) => j.count))).toBeGreaterThan(JOINING_AT_LEAST);
   });
 
   test.each([1, 2, 3])('order %i: with a loose target (1e-3, as cross-validation folds) the solves skip the refinement steps, and the gap recomputed densely from the fit is within the target', (k) => {
