@@ -4,7 +4,8 @@
  * interior point. Optimality is checked by the dense KKT checker of trendKkt.ts.
  */
 import * as solveTrendModule from '../../../src/engine/smoothers/trend/solveTrend';
-import { solveTrend, seedOf, TrendProblem, KnotSeed, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep } from '../../../src/engine/smoothers/trend/solveTrend';
+import { solveTrend, seedOf, TrendProblem, KnotSeed, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep, WARM_REFINED_DIRECTLY } from '../../../src/engine/smoothers/trend/solveTrend';
+import * as activeSetNewtonModule from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { trendPath, CV_TOLERANCE, ORDER2_SWITCH_BELOW } from '../../../src/engine/smoothers/trend/trendPath';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
@@ -228,6 +229,34 @@ describe('solveTrend, orders 2 and 3 warm-started', () => {
     expect(diff).toBeLessThan(1e-12 * scale);
     // the work of both halves is counted
     expect(r!.status.iterations).toBeGreaterThanOrEqual(2);
+  });
+
+  test.each([2, 3])('order %i: a fit warm-started from the previous penalty\'s fit is certified, the same optimum as a cold fit; order 3 goes straight to the refinement (no primal-dual rounds), order 2 runs them', (k) => {
+    const p = problem(300, k, 151 + k);
+    const lmax = trendLambdaMax(p.x, p.y, p.w, k);
+    const prev = solveTrend(p, 2e-3 * lmax, { tolerance: 1e-10, maxIterations: 200 });
+    expect(prev.status.converged).toBe(true);
+    const spy = jest.spyOn(activeSetNewtonModule, 'activeSetNewton');
+    let r: ReturnType<typeof solveTrend>;
+    try {
+      r = solveTrend(p, 1e-3 * lmax, { tolerance: 1e-10, maxIterations: 200, warm: prev });
+      expect(spy.mock.calls.length).toBe(WARM_REFINED_DIRECTLY[k] ? 0 : 1);
+    } finally {
+      spy.mockRestore();
+    }
+    expect(WARM_REFINED_DIRECTLY[3]).toBe(true);
+    expect(WARM_REFINED_DIRECTLY[2]).toBe(false);
+    expect(r.status.converged).toBe(true);
+    expect(r.status.stoppingRule).toBe(WARM_RULE);
+    const cold = solveTrend(p, 1e-3 * lmax, { tolerance: 1e-10, maxIterations: 200 });
+    expect(r.knotRows).toEqual(cold.knotRows);
+    // both exact restricted solves on the same knots, refined from the data: they agree to rounding
+    let diff = 0, scale = 0;
+    for (let i = 0; i < cold.b.length; i++) { diff = Math.max(diff, Math.abs(r.b[i] - cold.b[i])); scale = Math.max(scale, Math.abs(cold.b[i])); }
+    expect(diff).toBeLessThan(1e-10 * scale);
+    const kkt = checkTrendKkt(p.x, p.y, p.w, r.b, k, 1e-3 * lmax);
+    expect(kkt.boxExcess).toBeLessThan(1e-6);
+    expect(kkt.signError).toBeLessThan(1e-6);
   });
 
   test('the halved step needs a converged fit at a larger penalty', () => {

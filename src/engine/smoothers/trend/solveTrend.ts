@@ -226,6 +226,25 @@ const WARM_NEWTON_ROUNDS = 30;
  */
 const WARM_NEWTON_PATIENCE = [Infinity, Infinity, 4, 8];
 
+/**
+ * Orders whose fits warm-started from the previous penalty's fit (a full-data path, and the halves of
+ * {@link fromHalvedStep}) start the monotone refinement of {@link polishTrend} from its knots, without
+ * the primal-dual active-set rounds. Since order 3's refinement lets only the largest few violations
+ * join per round (JOINING_AT_LEAST in polishTrend.ts) it moves the previous knots to the new optimum in fewer
+ * solves than the rounds and the refinement after them (on order 3's path the rounds settled at 2 of 30
+ * penalties at 1e4, and their last set was often further from the optimum than their start, with pairs
+ * of adjacent knots split by hundreds of rows). Measured on order 3's path of 30 penalties over four
+ * bench series (`benchSeries`): 2,111 solves from the data instead of 2,899 at 1e3 points, 2,842
+ * instead of 3,798 at 3,000, 3,826 instead of 4,588 at 1e4 and 4,621 instead of 5,514 at 3e4, with every
+ * penalty certified by the same route; the path took 0.44 to 0.46 s instead of 0.48 to 0.52 s at 1e4
+ * and 1.04 to 1.15 s instead of 1.27 to 1.36 s at 3e4 (warm, least of 3, alternating runs). Before that
+ * limit, the refinement alone from the previous knots took more rounds than with the active-set rounds
+ * first (4,864 to 5,921 against 2,882 on the `trend-cv` series), and two penalties failed. Order 2 made
+ * fewer solves this way too (2,402 instead of 3,182 at 1e4) but took no less time (0.24 to 0.31 s both),
+ * and keeps the rounds.
+ */
+export const WARM_REFINED_DIRECTLY = [false, false, false, true];
+
 /** Round limit of that refinement for order 1. */
 const WARM_POLISH_ROUNDS = 60;
 
@@ -257,7 +276,8 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
   if (prob.k < 1) return undefined;
   const start = guess ?? (warm && warm.status.converged ? seedOf(warm) : undefined);
   if (!start) return undefined;
-  const skip = !refine && guess !== undefined && ctx.opt.refineGuessDirectly === true;
+  // the monotone refinement straight from the start: a fold's guess when asked, a path's previous knots by order
+  const skip = guess !== undefined ? !refine && ctx.opt.refineGuessDirectly === true : refine && WARM_REFINED_DIRECTLY[prob.k];
   const asn = skip ? undefined : activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start.rows, start.signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, WARM_NEWTON_PATIENCE[prob.k], true);
   if (asn) ctx.iterations += asn.rounds;
   let pol = asn?.fit;
