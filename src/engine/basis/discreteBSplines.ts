@@ -80,6 +80,21 @@ export interface BasisCache {
    * (n) and its dual (n - k - 1), each valid only within a round.
    */
   rounds?: { b: Float64Array; u: Float64Array };
+  /**
+   * Work space of the monotone refinement on this x (polishTrend): two fitted-value arrays (n) and two
+   * duals (n - k - 1), used in turn by its full steps (the last full step's pair is kept for its
+   * certificate while the next one is solved), each valid only within one refinement.
+   */
+  refinement?: { b: [Float64Array, Float64Array]; u: [Float64Array, Float64Array] };
+}
+
+/** The cache's {@link BasisCache.refinement} work space for n points and m dual rows (new arrays without a cache). Unchecked. */
+export function refinementWork(cache: BasisCache | undefined, n: number, m: number): { b: [Float64Array, Float64Array]; u: [Float64Array, Float64Array] } {
+  const r = cache?.refinement;
+  if (r && r.b[0].length === n && r.u[0].length === m) return r;
+  const work = { b: [new Float64Array(n), new Float64Array(n)] as [Float64Array, Float64Array], u: [new Float64Array(m), new Float64Array(m)] as [Float64Array, Float64Array] };
+  if (cache) cache.refinement = work;
+  return work;
 }
 
 /** The cache's {@link BasisCache.rounds} work space for n points and m dual rows (new arrays without a cache). Unchecked. */

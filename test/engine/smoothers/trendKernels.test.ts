@@ -261,6 +261,26 @@ describe('polishTrend', () => {
     expect(Math.max(...joined(2, 392).joins.map((j) => j.count))).toBeGreaterThan(JOINING_AT_LEAST);
   });
 
+  test.each([1, 3])('order %i: refinements sharing a basis cache (and its two pairs of work arrays) give bit for bit the answers of fresh caches, and a later one leaves an earlier answer alone', (k) => {
+    const { n, x, y, w, u0, initial } = refinementProblem(k, 490 + k);
+    const lmax = trendLambdaMax(x, y, w, k);
+    const shared = basisCache();
+    const a = polishTrend(x, y, w, k, 1e-2 * lmax, u0, 400, initial, shared);
+    const aCopy = { b: Array.from(a.b), u: Array.from(a.u) };
+    const b = polishTrend(x, y, w, k, 1e-3 * lmax, u0, 400, initial, shared);
+    const bFresh = polishTrend(x, y, w, k, 1e-3 * lmax, u0, 400, initial, basisCache());
+    expect(a.ok && b.ok && bFresh.ok).toBe(true);
+    expect(shared.refinement).toBeDefined();
+    expect(Array.from(b.b)).toEqual(Array.from(bFresh.b));
+    expect(Array.from(b.u)).toEqual(Array.from(bFresh.u));
+    expect(b.knots).toEqual(bFresh.knots);
+    expect(b.rounds).toBe(bFresh.rounds);
+    expect(Array.from(a.b)).toEqual(aCopy.b);
+    expect(Array.from(a.u)).toEqual(aCopy.u);
+    for (const v of [...shared.refinement!.b, ...shared.refinement!.u]) { expect(a.b).not.toBe(v); expect(a.u).not.toBe(v); expect(b.b).not.toBe(v); }
+    expect(a.b.length).toBe(n);
+  });
+
   test.each([1, 2, 3])('order %i: with a loose target (1e-3, as cross-validation folds) the solves skip the refinement steps, and the gap recomputed densely from the fit is within the target', (k) => {
     const { n, x, y, w, lambda, u0, initial } = refinementProblem(k, 190 + k);
     const spy = jest.spyOn(restrictedSplineFitModule, 'restrictedSplineStart');

@@ -1,7 +1,7 @@
 import { residualDual } from '../../linalg/dualFromResidual';
 import { restrictedSplineStart, refinementStepsFor, RestrictedSplineStart } from '../../basis/restrictedSplineFit';
 import { RestrictedSystem, withoutKnot, solveRestrictedSystem } from '../../basis/restrictedSystem';
-import type { BasisCache } from '../../basis/discreteBSplines';
+import { refinementWork, BasisCache } from '../../basis/discreteBSplines';
 import { maxAbs } from '../../linalg/maxAbs';
 
 /** Result of {@link polishTrend}. */
@@ -98,6 +98,10 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
   // its fitted values are needed only at a full step, where they are the round's fit
   const dcur = new Float64Array(m);
   let u: Float64Array = new Float64Array(m);
+  // the full steps' fitted values and duals, in two pairs of arrays used in turn (the last full step's
+  // pair stays with its certificate while the next one is solved); a result returned gets copies
+  const work = refinementWork(cache, n, m);
+  let side = 0;
   // active sets met so far, by two 32-bit hashes of the signed rows and their count (a repeat
   // means the method cycles)
   const seen = new Set<string>();
@@ -170,7 +174,7 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       // no sign broke: the round's fit from the data (its b and its refined (D b)_A), checked again
       if (!started) started = fromData(rowsA, sA);
       if (!started) break;
-      sol = started.finish();
+      sol = started.finish(work.b[side]);
       dA = sol.dA;
       step = signStep(rowsA, sA, dA);
     }
@@ -196,25 +200,33 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     dcur.fill(0);
     for (let j = 0; j < rowsA.length; j++) dcur[rowsA[j]] = dA[j];
     const bnew = sol.b;
-    const rd = residualDual(x, k + 1, y, w, bnew);
+    const rd = residualDual(x, k + 1, y, w, bnew, work.u[side]);
+    side = 1 - side;
     u = rd.u;
     last = { b: bnew, u, rss: rd.rss, yg: rd.yg, dA, rows: rowsA, dmax };
     // add the most violating row of each run of consecutive violations |u_r| > lambda (order 3: the largest few of them)
     const added = addViolations(u, sgn, m, lim, joiningAtMost(k, rowsA.length));
-    if (!added) return certify(y, w, lambda, last, true, rounds + 1);
+    if (!added) return owned(certify(y, w, lambda, last, true, rounds + 1), work);
     if (stopGap > 0) {
       // a looser target (cross-validation folds): the first sign-consistent round certified at it is enough
       const c = certify(y, w, lambda, last, false, rounds + 1, true, stopGap);
-      if (c.ok) return c;
+      if (c.ok) return owned(c, work);
     }
   }
   // stopped early (cycle, budget): the last sign-consistent solution still comes with an
   // honest gap when its dual is close to feasible
   if (last) {
     const c = certify(y, w, lambda, last, false, rounds);
-    if (c.ok) return c;
+    if (c.ok) return owned(c, work);
   }
-  return { ok: false, b: new Float64Array(n), u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
+  return { ok: false, b: new Float64Array(n), u: Float64Array.from(u), knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
+}
+
+/** The result with its own copies of any array that lives in the refinement's work space (a later refinement on the same cache writes there). Unchecked. */
+function owned(r: PolishResult, work: { b: Float64Array[]; u: Float64Array[] }): PolishResult {
+  if (r.b === work.b[0] || r.b === work.b[1]) r.b = Float64Array.from(r.b);
+  if (r.u === work.u[0] || r.u === work.u[1]) r.u = Float64Array.from(r.u);
+  return r;
 }
 
 /** The active set's rows (increasing) and signs from sgn (its own function, as a pass over the rows). Unchecked. */
