@@ -249,8 +249,8 @@ function activeRows(sgn: Int8Array, m: number, rowsA: number[], sA: number[]): v
  * 4: 4,883), its 5 x 30 cross-validation 8,307 instead of 9,625, and the cross-validation took 1.01
  * to 1.10 s instead of 1.17 to 1.40 s on the `trend-cv` series and 1.04 to 1.12 s instead of 1.42
  * to 1.51 s on another seed (warm, least of 3, three alternating runs). Full-data fits are the same
- * certified optima (the 9-series dump: the same fits bit for bit, single fits of order 3 in 36 to 191
- * rounds where they took 37 to 425). Fold fits stop at a looser gap, so their scores move a little: on
+ * certified optima (the 9-series dump: the same fits bit for bit; its nine single fits of order 3 took
+ * 15 to 191 rounds where they took 15 to 425, one of them more: 62 against 57). Fold fits stop at a looser gap, so their scores move a little: on
  * eight seeded curves of 2,000 to 1e4 points, by at most 0.038 of their standard error within 5 standard
  * errors of the minimum (0.055 elsewhere); on two of them the minimum moved by one or two grid points,
  * between scores less than 0.03 standard errors apart. Orders 1 and 2 keep every violation (order 2
