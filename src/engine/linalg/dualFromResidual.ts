@@ -62,7 +62,10 @@ export interface ResidualDual {
 export function residualDual(x: Float64Array, q: number, y: Float64Array, w: Float64Array, b: Float64Array, out?: Float64Array): ResidualDual {
   const n = x.length;
   const u = out && out.length === n - q ? out : new Float64Array(n - q);
-  if (q >= 2 && q <= 4 && n >= q + 2) { const one = residualDualOnePass(x, q, y, w, b, u, false); return { u, rss: one.rss, yg: one.yg }; }
+  if (q >= 2 && q <= 4 && n >= q + 2) {
+    const { rss, yg } = residualDualOnePass(x, q, y, w, b, u, false);
+    return { u, rss, yg };
+  }
   const g = new Float64Array(n);
   let rss = 0, yg = 0;
   for (let i = 0; i < n; i++) {
@@ -144,8 +147,8 @@ function compensatedLevel(x: Float64Array, v: Float64Array, len: number, sp: num
  * the saving of the sums after the loop) then has no type information; Node's engine kept entering
  * that code and throwing it away on later calls (up to 1,290 times in one cross-validation of order 1 at
  * 1e4). After a short first call every statement has run before the loop is long. With `measure`
- * false the largest |g| and the levels' largest |sums| are not kept, and the inconsistency returned
- * means nothing ({@link residualDual} drops it). Unchecked.
+ * false the largest |g| and the levels' largest |sums| are not kept and the inconsistency is NaN
+ * ({@link residualDual} drops it). Unchecked.
  */
 function residualDualOnePass(x: Float64Array, q: number, y: Float64Array, w: Float64Array, b: Float64Array, u: Float64Array, measure: boolean): ResidualDual & { inconsistency: number } {
   const n = x.length;
@@ -156,6 +159,7 @@ function residualDualOnePass(x: Float64Array, q: number, y: Float64Array, w: Flo
   // the last point's residual (its sums; level 1's unmatched equation reads it)
   const rl = y[n - 1] - b[n - 1], gl = w[n - 1] * rl;
   const rss = st[20] + 0.5 * w[n - 1] * rl * rl, yg = st[21] + y[n - 1] * gl;
+  if (!measure) return { u, inconsistency: NaN, rss, yg };
   let gmax = st[0];
   { const ag = Math.abs(gl); if (ag > gmax) gmax = ag; }
   let worst = Math.max(0, Math.abs(st[13] - gl) / Math.max(gmax, st[9], 1e-300));

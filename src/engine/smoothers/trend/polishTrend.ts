@@ -195,11 +195,11 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
       shrunk = { rows: rowsA, signs: sA };
       continue;
     }
-    if (!sol) break;
-    // a full step: D b is (D b)_A on A and exactly zero elsewhere (the certified state keeps its own copy)
+    // a full step (no sign broke, so the round was finished above): D b is (D b)_A on A and exactly
+    // zero elsewhere (the certified state keeps its own copy)
     dcur.fill(0);
     for (let j = 0; j < rowsA.length; j++) dcur[rowsA[j]] = dA[j];
-    const bnew = sol.b;
+    const bnew = sol!.b;
     const rd = residualDual(x, k + 1, y, w, bnew, work.u[side]);
     side = 1 - side;
     u = rd.u;

@@ -442,14 +442,9 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     if (!prob.admmRows) prob.admmRows = scaledDifferenceRows(x, k);
     // warm start from the interior point's iterate: alpha = T b, rho s = D1^T u (rho = lambda)
     const mt = n - k;
-    const alpha = new Float64Array(mt), sc = new Float64Array(mt);
-    const T = prob.admmRows;
-    for (let r = 0; r < mt; r++) {
-      let a = 0;
-      for (let c = 0; c <= k; c++) a += T[r * (k + 1) + c] * sol.b[r + c];
-      alpha[r] = a;
-      sc[r] = ((r < mt - 1 ? -sol.u[r] : 0) + (r > 0 ? sol.u[r - 1] : 0)) / lambda;
-    }
+    const alpha = applyRows(prob.admmRows, k + 1, sol.b, new Float64Array(mt));
+    const sc = new Float64Array(mt);
+    for (let r = 0; r < mt; r++) sc[r] = ((r < mt - 1 ? -sol.u[r] : 0) + (r > 0 ? sol.u[r - 1] : 0)) / lambda;
     admm = trendAdmm(x, y, w, k, lambda, tolerance, ADMM_SEED_ITERATIONS, { alpha, s: sc, rho: lambda }, prob.admmRows, ADMM_STABLE_ITERATIONS);
     admmIterations = admm.status.iterations;
     const ua = new Float64Array(admm.u.length);
