@@ -101,28 +101,24 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
   const wd = k + 1;
   const T = rows ?? scaledDifferenceRows(x, k);
   const rho = lambda;
+  // the solver's loops are kernels of their own (DEVELOPERS.md, "Long loops and the first call"):
+  // with them written here, a fresh process's ADMM at 1e5 points was thrown back to the interpreter
+  // a dozen times per call, and even a second call took about 17 ms per iteration
   // band of W + rho T^T T (n x n, half-bandwidth k)
   const band = new Float64Array(n * wd);
-  for (let i = 0; i < n; i++) band[i * wd] = w[i];
-  for (let r = 0; r < mt; r++) {
-    const o = r * wd;
-    for (let a = 0; a < wd; a++) {
-      const ta = rho * T[o + a];
-      for (let c = 0; c <= a; c++) band[(r + a) * wd + (a - c)] += ta * T[o + c];
-    }
-  }
+  diagonalFromWeights(w, band, wd);
+  addScaledGram(T, rho, mt, wd, band);
   if (bandedCholesky(band, n, k) >= 0) throw new KnotwiseError('numerical', `the trend ADMM system is not positive definite (order ${k}, ${n} points); the x values may be too close together for their scale.`);
   const e0 = constantFitObjective(y, w);
   const floor = 1e-12 * e0 + 1e-300;
   const wy = new Float64Array(n);
-  for (let i = 0; i < n; i++) wy[i] = w[i] * y[i];
+  weightedValues(w, y, wy);
 
   const alpha = new Float64Array(mt);
   const s = new Float64Array(mt);
   if (warm && warm.alpha.length === mt) {
     alpha.set(warm.alpha);
-    const f = warm.rho / rho;
-    for (let r = 0; r < mt; r++) s[r] = warm.s[r] * f;
+    scaledInto(warm.rho / rho, warm.s, s, mt);
   } else {
     applyRows(T, wd, y, alpha);
   }
@@ -142,44 +138,28 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
   while (iter < maxIterations) {
     iter++;
     if (k === 1) {
-      // the b step as one forward and one backward sweep; the factor's diagonal holds the
-      // reciprocal pivots (see bandedCholesky)
-      // b step: right-hand side W y + T^T (rho (alpha - s)), forward sweep, backward sweep fused with z = T b + s
-      let zp = 0, prev = 0;
-      for (let i = 0; i < n; i++) {
-        const zi = i < mt ? rho * (alpha[i] - s[i]) : 0;
-        const rhs = (i > 0 ? T[2 * (i - 1) + 1] * zp : 0) + (i < mt ? T[2 * i] * zi : 0) + wy[i];
-        prev = (i > 0 ? rhs - band[2 * i + 1] * prev : rhs) * band[2 * i];
-        b[i] = prev;
-        zp = zi;
-      }
-      let next = b[n - 1] * band[2 * (n - 1)];
-      b[n - 1] = next;
-      for (let i = n - 2; i >= 0; i--) {
-        const bi = (b[i] - band[2 * (i + 1) + 1] * next) * band[2 * i];
-        b[i] = bi;
-        z[i] = T[2 * i] * bi + T[2 * i + 1] * next + s[i];
-        next = bi;
-      }
+      // b step: right-hand side W y + T^T (rho (alpha - s)), one forward and one backward sweep,
+      // the backward one fused with z = T b + s
+      forwardSweepFirstOrder(alpha, s, rho, T, band, wy, b, n, mt);
+      backwardSweepFirstOrder(T, band, s, b, z, n);
     } else {
       // b step
-      for (let r = 0; r < mt; r++) z[r] = rho * (alpha[r] - s[r]);
+      scaledDifference(alpha, s, rho, z, mt);
       applyRowsTransposed(T, wd, z, mt, b);
-      for (let i = 0; i < n; i++) b[i] += wy[i];
+      addInto(b, wy, n);
       bandedCholeskySolve(band, n, k, b);
       // alpha step input
       applyRows(T, wd, b, z);
-      for (let r = 0; r < mt; r++) z[r] += s[r];
+      addInto(z, s, mt);
     }
     // alpha step
     totalVariationDenoise(z, ones, pen, alpha, tvWork);
     // s step, and the fused-lasso dual v = -cumsum(rho s) (mean of s removed: sum s = 0 in exact arithmetic)
-    let sm = 0;
-    for (let r = 0; r < mt; r++) { s[r] = z[r] - alpha[r]; sm += s[r]; }
-    sm /= mt;
-    for (let r = 0; r < mt; r++) s[r] -= sm;
+    const sm = differenceAndSum(z, alpha, s, mt) / mt;
+    subtractConstant(s, sm, mt);
     if (stableStop > 0) {
-      const [cnt, sum] = jumpSignature(alpha);
+      const th = JUMP_RELATIVE * largestAbs(alpha);
+      const cnt = jumpCount(alpha, th), sum = jumpRowSum(alpha, th);
       stable = cnt === lastCount && sum === lastSum ? stable + 1 : 0;
       lastCount = cnt; lastSum = sum;
       // the certificate every 10 iterations while seeding, and when the knots have settled
@@ -191,9 +171,87 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
     if (stableStop > 0 && stable >= stableStop) break;
   }
   return {
-    b: best.b, u: best.u, achieved: best.achieved, knots: jumpRows(alpha), state: { alpha: Float64Array.from(alpha), s: Float64Array.from(s), rho },
+    b: best.b, u: best.u, achieved: best.achieved, knots: jumpRows(alpha, JUMP_RELATIVE * largestAbs(alpha)), state: { alpha: alpha.slice(), s: s.slice(), rho },
     status: { converged, iterations: iter, tolerance, achieved: best.achieved, stoppingRule: ADMM_RULE },
   };
+}
+
+// The kernels of the ADMM, each one long loop with nothing after it but the return of a local
+// (DEVELOPERS.md, "Long loops and the first call"). Unchecked.
+
+/** The band's diagonal set to the weights (the band's other entries are zero). Unchecked. */
+function diagonalFromWeights(w: Float64Array, band: Float64Array, wd: number): void {
+  for (let i = 0; i < w.length; i++) band[i * wd] = w[i];
+}
+
+/** Adds rho T^T T to the lower band (half-bandwidth wd - 1), row by row of T. Unchecked. */
+function addScaledGram(T: Float64Array, rho: number, mt: number, wd: number, band: Float64Array): void {
+  for (let r = 0; r < mt; r++) {
+    const o = r * wd;
+    for (let a = 0; a < wd; a++) {
+      const ta = rho * T[o + a];
+      for (let c = 0; c <= a; c++) band[(r + a) * wd + (a - c)] += ta * T[o + c];
+    }
+  }
+}
+
+/** wy = W y. Unchecked. */
+function weightedValues(w: Float64Array, y: Float64Array, wy: Float64Array): void {
+  for (let i = 0; i < w.length; i++) wy[i] = w[i] * y[i];
+}
+
+/** s = f s0 on the first m entries (a warm start's scaled dual moved to the new rho). Unchecked. */
+function scaledInto(f: number, s0: Float64Array, s: Float64Array, m: number): void {
+  for (let r = 0; r < m; r++) s[r] = s0[r] * f;
+}
+
+/**
+ * Order 1's b step, forward: the right-hand side W y + T^T (rho (alpha - s)) formed on the fly and
+ * solved with the factor's lower band (its diagonal holds the reciprocal pivots, see bandedCholesky). Unchecked.
+ */
+function forwardSweepFirstOrder(alpha: Float64Array, s: Float64Array, rho: number, T: Float64Array, band: Float64Array, wy: Float64Array, b: Float64Array, n: number, mt: number): void {
+  let zp = 0, prev = 0;
+  for (let i = 0; i < n; i++) {
+    const zi = i < mt ? rho * (alpha[i] - s[i]) : 0;
+    const rhs = (i > 0 ? T[2 * (i - 1) + 1] * zp : 0) + (i < mt ? T[2 * i] * zi : 0) + wy[i];
+    prev = (i > 0 ? rhs - band[2 * i + 1] * prev : rhs) * band[2 * i];
+    b[i] = prev;
+    zp = zi;
+  }
+}
+
+/** Order 1's b step, backward, fused with the alpha step's input z = T b + s. Unchecked. */
+function backwardSweepFirstOrder(T: Float64Array, band: Float64Array, s: Float64Array, b: Float64Array, z: Float64Array, n: number): void {
+  let next = b[n - 1] * band[2 * (n - 1)];
+  b[n - 1] = next;
+  for (let i = n - 2; i >= 0; i--) {
+    const bi = (b[i] - band[2 * (i + 1) + 1] * next) * band[2 * i];
+    b[i] = bi;
+    z[i] = T[2 * i] * bi + T[2 * i + 1] * next + s[i];
+    next = bi;
+  }
+}
+
+/** z = rho (alpha - s). Unchecked. */
+function scaledDifference(alpha: Float64Array, s: Float64Array, rho: number, z: Float64Array, m: number): void {
+  for (let r = 0; r < m; r++) z[r] = rho * (alpha[r] - s[r]);
+}
+
+/** a += b on the first m entries. Unchecked. */
+function addInto(a: Float64Array, b: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) a[i] += b[i];
+}
+
+/** s = z - alpha, returning the sum of s (added in index order). Unchecked. */
+function differenceAndSum(z: Float64Array, alpha: Float64Array, s: Float64Array, m: number): number {
+  let sm = 0;
+  for (let r = 0; r < m; r++) { s[r] = z[r] - alpha[r]; sm += s[r]; }
+  return sm;
+}
+
+/** s -= c on the first m entries. Unchecked. */
+function subtractConstant(s: Float64Array, c: number, m: number): void {
+  for (let r = 0; r < m; r++) s[r] -= c;
 }
 
 /**
@@ -203,44 +261,93 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
 function certificate(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, b: Float64Array, s: Float64Array, rho: number, T: Float64Array, v: Float64Array, g: Float64Array, work: Float64Array, floor: number): number {
   const n = x.length;
   const m = n - k - 1;
-  let acc = 0, vm = 0;
-  for (let r = 0; r < m; r++) { acc -= rho * s[r]; v[r] = acc; const a = Math.abs(acc); if (a > vm) vm = a; }
+  const vm = runningDual(s, rho, v, m);
   const f = vm > lambda ? vm / lambda : 1;
   // g = D^T v = T^T (D1^T v); D1^T v = rho s up to the rounding of the running sum
   const d1 = work;
-  d1[0] = -v[0];
-  for (let r = 1; r < m; r++) d1[r] = v[r - 1] - v[r];
-  d1[m] = v[m - 1];
+  firstDifferenceTransposed(v, d1, m);
   applyRowsTransposed(T, k + 1, d1, n - k, g);
-  let yg = 0, gg = 0, rss = 0;
-  for (let i = 0; i < n; i++) { yg += y[i] * g[i]; gg += (g[i] * g[i]) / w[i]; rss += 0.5 * w[i] * (y[i] - b[i]) ** 2; }
+  const yg = dot(y, g, n), gg = weightedSquares(g, w, n), rss = halfWeightedResiduals(y, b, w, n);
   const db = differenceOperator(x, k + 1, b, work);
-  let l1 = 0;
-  for (let r = 0; r < m; r++) l1 += Math.abs(db[r]);
-  const obj = rss + lambda * l1;
+  const obj = rss + lambda * absoluteSum(db, m);
   const dual = yg / f - (0.5 * gg) / (f * f);
-  if (f > 1) for (let r = 0; r < m; r++) v[r] /= f;
+  if (f > 1) divideInPlace(v, f, m);
   return Math.max(obj - dual, 0) / Math.max(obj, floor);
+}
+
+/** v = -cumsum(rho s) over the first m entries, returning the largest |v|. Unchecked. */
+function runningDual(s: Float64Array, rho: number, v: Float64Array, m: number): number {
+  let acc = 0, vm = 0;
+  for (let r = 0; r < m; r++) { acc -= rho * s[r]; v[r] = acc; const a = Math.abs(acc); if (a > vm) vm = a; }
+  return vm;
+}
+
+/** d = D1^T v for the first-difference operator D1 with m rows (d has m + 1 entries). Unchecked. */
+function firstDifferenceTransposed(v: Float64Array, d: Float64Array, m: number): void {
+  d[0] = -v[0];
+  d[m] = v[m - 1];
+  for (let r = 1; r < m; r++) d[r] = v[r - 1] - v[r];
+}
+
+/** sum y g over the first n entries, in index order. Unchecked. */
+function dot(y: Float64Array, g: Float64Array, n: number): number {
+  let t = 0;
+  for (let i = 0; i < n; i++) t += y[i] * g[i];
+  return t;
+}
+
+/** sum g^2 / w, in index order. Unchecked. */
+function weightedSquares(g: Float64Array, w: Float64Array, n: number): number {
+  let t = 0;
+  for (let i = 0; i < n; i++) t += (g[i] * g[i]) / w[i];
+  return t;
+}
+
+/** 1/2 sum w (y - b)^2, in index order. Unchecked. */
+function halfWeightedResiduals(y: Float64Array, b: Float64Array, w: Float64Array, n: number): number {
+  let t = 0;
+  for (let i = 0; i < n; i++) t += 0.5 * w[i] * (y[i] - b[i]) ** 2;
+  return t;
+}
+
+/** sum |d| over the first m entries, in index order. Unchecked. */
+function absoluteSum(d: Float64Array, m: number): number {
+  let t = 0;
+  for (let r = 0; r < m; r++) t += Math.abs(d[r]);
+  return t;
+}
+
+/** v /= f on the first m entries. Unchecked. */
+function divideInPlace(v: Float64Array, f: number, m: number): void {
+  for (let r = 0; r < m; r++) v[r] /= f;
 }
 
 /** Relative size of a jump of alpha counted as a knot (the fused-lasso step gives exact ties elsewhere). */
 const JUMP_RELATIVE = 1e-12;
 
-/** Number of jumps of alpha and the sum of their rows. Unchecked. */
-function jumpSignature(alpha: Float64Array): [number, number] {
+/** The largest |alpha_r| (NaN entries skipped). Unchecked. */
+function largestAbs(alpha: Float64Array): number {
   let amax = 0;
   for (let r = 0; r < alpha.length; r++) { const a = Math.abs(alpha[r]); if (a > amax) amax = a; }
-  const th = JUMP_RELATIVE * amax;
-  let cnt = 0, sum = 0;
-  for (let r = 0; r + 1 < alpha.length; r++) if (Math.abs(alpha[r + 1] - alpha[r]) > th) { cnt++; sum += r; }
-  return [cnt, sum];
+  return amax;
 }
 
-/** Rows where alpha jumps. Unchecked. */
-function jumpRows(alpha: Float64Array): number[] {
-  let amax = 0;
-  for (let r = 0; r < alpha.length; r++) { const a = Math.abs(alpha[r]); if (a > amax) amax = a; }
-  const th = JUMP_RELATIVE * amax;
+/** Number of jumps of alpha larger than th. Unchecked. */
+function jumpCount(alpha: Float64Array, th: number): number {
+  let cnt = 0;
+  for (let r = 0; r + 1 < alpha.length; r++) if (Math.abs(alpha[r + 1] - alpha[r]) > th) cnt++;
+  return cnt;
+}
+
+/** Sum of the rows where alpha jumps by more than th. Unchecked. */
+function jumpRowSum(alpha: Float64Array, th: number): number {
+  let sum = 0;
+  for (let r = 0; r + 1 < alpha.length; r++) if (Math.abs(alpha[r + 1] - alpha[r]) > th) sum += r;
+  return sum;
+}
+
+/** Rows where alpha jumps by more than th. Unchecked. */
+function jumpRows(alpha: Float64Array, th: number): number[] {
   const out: number[] = [];
   for (let r = 0; r + 1 < alpha.length; r++) if (Math.abs(alpha[r + 1] - alpha[r]) > th) out.push(r);
   return out;
