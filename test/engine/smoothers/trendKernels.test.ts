@@ -12,7 +12,9 @@ import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNe
 import { basisCache } from '../../../src/engine/basis/discreteBSplines';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
 import { checkTrendKkt, denseDifference } from './trendKkt';
-import { trendDualInteriorPoint, trendOperator } from '../../../src/engine/smoothers/trend/trendDualInteriorPoint';
+import { trendDualInteriorPoint, trendOperator, stepAndGram, gramTail } from '../../../src/engine/smoothers/trend/trendDualInteriorPoint';
+import { applyDifferenceGram } from '../../../src/engine/linalg/differenceGram';
+import { differenceRows } from '../../../src/engine/linalg/differenceRows';
 
 describe('restrictedSplineFit (order 1)', () => {
   test('matches the dense solve in the hinge basis 1, x, (x - knot)_+', () => {
@@ -328,6 +330,35 @@ describe('trendDualInteriorPoint', () => {
     expect(first.u).not.toBe(again.u);
     expect(first.b).not.toBe(again.b);
     expect(Array.from(first.u).some((v, i) => v !== again.u[i])).toBe(true);
+  });
+
+  test.each([1, 2, 3, 4])('q = %i: the step fused with Q u = D W^-1 D^T u gives bit for bit the step followed by applyDifferenceGram (Q u and its three sums), split after the first 64 rows as the solver calls it, on 1 to 70 rows and 2,000 uneven points', (q) => {
+    for (const m of [1, 2, q, q + 1, 6, 63, 64, 65, 70, 2000]) {
+      const n = m + q;
+      const rn = seededNormal(900 + 10 * q + m);
+      const x = Float64Array.from({ length: n }, (_, i) => i + 0.45 * Math.sin(3 * i));
+      const rows = differenceRows(x, q);
+      const winv = Float64Array.from({ length: n }, () => 0.5 + Math.abs(rn()));
+      const vec = () => Float64Array.from({ length: m }, () => rn());
+      const u = vec(), mu1 = vec(), mu2 = vec(), du = vec(), dmu1 = vec(), dmu2 = vec(), p = vec();
+      const step = 0.37;
+      // the reference: the step, then the Gram product with its sums
+      const u2 = Float64Array.from(u, (v, i) => v + step * du[i]);
+      const want = new Float64Array(m), wantSums = new Float64Array(3);
+      applyDifferenceGram(rows, winv, q, u2, want, new Float64Array(n), p, wantSums);
+      // the fused kernel, called as the solver calls it
+      const uf = u.slice(), m1 = mu1.slice(), m2 = mu2.slice();
+      const tmp = new Float64Array(n), qu = new Float64Array(m), sums = new Float64Array(3);
+      const head = Math.min(m, 64);
+      stepAndGram(step, du, dmu1, dmu2, uf, m1, m2, rows, winv, q, tmp, qu, p, sums, 0, head);
+      stepAndGram(step, du, dmu1, dmu2, uf, m1, m2, rows, winv, q, tmp, qu, p, sums, head, m);
+      gramTail(rows, winv, q, tmp, qu, p, uf, sums, m);
+      expect(Array.from(uf)).toEqual(Array.from(u2));
+      expect(Array.from(m1)).toEqual(Array.from(mu1, (v, i) => v + step * dmu1[i]));
+      expect(Array.from(m2)).toEqual(Array.from(mu2, (v, i) => v + step * dmu2[i]));
+      expect(Array.from(qu)).toEqual(Array.from(want));
+      expect(Array.from(sums)).toEqual(Array.from(wantSums));
+    }
   });
 });
 

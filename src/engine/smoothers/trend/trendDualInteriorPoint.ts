@@ -34,6 +34,7 @@ import type { SolverStatus } from '../../types';
 import { differenceGram, applyDifferenceGram } from '../../linalg/differenceGram';
 import { constantFitObjective } from './constantFitObjective';
 import { maxAbs } from '../../linalg/maxAbs';
+import { FIRST_CALL_POINTS } from '../../linalg/firstCallPoints';
 
 /** Result of a trend-filtering solve on the (scaled) problem. */
 export interface TrendSolution {
@@ -69,7 +70,7 @@ export interface TrendOperator {
  * fifteen arrays of n each time. Solves are synchronous, so two never share them at once. Unchecked.
  */
 export interface InteriorWork {
-  dy: Float64Array; u: Float64Array; mu1: Float64Array; mu2: Float64Array; f1: Float64Array; f2: Float64Array;
+  dy: Float64Array; u: Float64Array; mu1: Float64Array; mu2: Float64Array;
   qu: Float64Array; rd: Float64Array; du: Float64Array; dmu1: Float64Array; dmu2: Float64Array; mat: Float64Array;
   inv1: Float64Array; inv2: Float64Array; du2: Float64Array; tmp: Float64Array;
 }
@@ -79,7 +80,7 @@ function interiorWork(op: TrendOperator, n: number, m: number, wd: number): Inte
   if (!op.work || op.work.u.length !== m || op.work.tmp.length !== n) {
     const a = () => new Float64Array(m);
     op.work = {
-      dy: new Float64Array(n), u: a(), mu1: a(), mu2: a(), f1: a(), f2: a(), qu: a(), rd: a(), du: a(), dmu1: a(), dmu2: a(),
+      dy: new Float64Array(n), u: a(), mu1: a(), mu2: a(), qu: a(), rd: a(), du: a(), dmu1: a(), dmu2: a(),
       mat: new Float64Array(m * wd), inv1: a(), inv2: a(), du2: a(), tmp: new Float64Array(n),
     };
   }
@@ -141,7 +142,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
 
   // the operator's work space (every array written before it is read, u zeroed below); b and the
   // best dual are returned, so they are new
-  const { dy, u, mu1, mu2, f1, f2, qu, rd, du, dmu1, dmu2, mat, inv1, inv2, du2, tmp } = interiorWork(op, n, m, wd);
+  const { dy, u, mu1, mu2, qu, rd, du, dmu1, dmu2, mat, inv1, inv2, du2, tmp } = interiorWork(op, n, m, wd);
   // p = D y, written in dy (a view of its first m entries)
   const p = differenceOperator(x, q, y, dy);
   u.fill(0);
@@ -149,7 +150,6 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
 
   // the solver's own loops are kernels of their own (DEVELOPERS.md, "Long loops and the first call")
   if (u0 && u0.length === m) warmStartDual(u0, lambda, u, m);
-  startSlacks(u, lambda, f1, f2, m);
   // Q u of the start and, in the same pass, the sums of its objective and gap (the loop's first)
   const sums = new Float64Array(3);
   applyDifferenceGram(rows, winv, q, u, qu, tmp, p, sums);
@@ -161,7 +161,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   } else {
     t = 1 / lambda;
   }
-  startMultipliers(t, f1, f2, mu1, mu2, m);
+  startMultipliers(t, lambda, u, mu1, mu2, m);
 
   let iter = 0;
   let achieved = Infinity;
@@ -186,28 +186,34 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     if (iter >= maxIterations) break;
     if (iter - lastGain >= STALL_ITERATIONS) break; // stalled: the best gap has not halved for a while
     iter++;
-    // slacks s1 = lambda - u = -f1, s2 = lambda + u = -f2; complementarity mu . s
-    // (the reciprocal slacks are formed once: the loops below multiply)
-    mat.set(gram);
-    // the Newton system and, in the same pass, the predictor's right side (affine scaling: sigma = 0)
-    const comp = newtonSystem(f1, f2, mu1, mu2, qu, p, inv1, inv2, rd, mat, wd, m, du);
+    // the box constraints' values f1 = u - lambda, f2 = -u - lambda (slacks s1 = -f1, s2 = -f2) are
+    // formed from u where they are used (the same numbers as stored arrays, with less memory traffic);
+    // complementarity mu . s (the reciprocal slacks are formed once: the loops below multiply)
+    // the Newton system (the Gram band copied, its diagonal raised) and, in the same pass, the
+    // predictor's right side (affine scaling: sigma = 0)
+    const comp = newtonSystem(lambda, u, mu1, mu2, qu, p, inv1, inv2, rd, gram, mat, wd, m, du);
     const muAvg = comp / (2 * m);
     if (bandedCholesky(mat, m, q, PIVOT_FLOOR) >= 0) break;
     bandedCholeskySolve(mat, m, q, du);
-    const aff = affineMultiplierStep(du, mu1, mu2, inv1, inv2, dmu1, dmu2, f1, f2, m);
-    const compAff = complementarityAfter(aff, du, dmu1, dmu2, mu1, mu2, f1, f2, m);
+    const aff = affineMultiplierStep(du, mu1, mu2, inv1, inv2, dmu1, dmu2, lambda, u, m);
+    const compAff = complementarityAfter(aff, du, dmu1, dmu2, mu1, mu2, lambda, u, m);
     const sigma = Math.pow(Math.max(compAff, 0) / Math.max(comp, 1e-300), 3);
     const target = sigma * muAvg;
     // corrector: mu1 s1 = target - ds1_aff dmu1_aff, with ds1 = -du, ds2 = du; its right side
     // replaces du in place (du2 and tmp keep c1 and c2 for the multiplier step)
-    correctorRightSide(target, du, dmu1, dmu2, mu1, mu2, f1, f2, rd, inv1, inv2, du, du2, tmp, m);
+    correctorRightSide(target, du, dmu1, dmu2, mu1, mu2, lambda, u, rd, inv1, inv2, du, du2, tmp, m);
     bandedCholeskySolve(mat, m, q, du);
-    const smax = correctorMultiplierStep(target, du, mu1, mu2, f1, f2, inv1, inv2, du2, tmp, dmu1, dmu2, m);
+    const smax = correctorMultiplierStep(target, du, mu1, mu2, lambda, u, inv1, inv2, du2, tmp, dmu1, dmu2, m);
     if (!Number.isFinite(smax)) break;
     const step = Math.min(1, fraction * smax);
-    takeStep(step, lambda, du, dmu1, dmu2, u, mu1, mu2, f1, f2, m);
-    // Q u and, in the same pass, the sums of the objective and the gap
-    applyDifferenceGram(rows, winv, q, u, qu, tmp, p, sums);
+    // the step and, in the same pass, Q u and the sums of the objective and the gap (first over a
+    // few rows, then the rest: DEVELOPERS.md, "Long loops and the first call")
+    tmp.fill(0);
+    sums[0] = 0; sums[1] = 0; sums[2] = 0;
+    const head = Math.min(m, FIRST_CALL_POINTS);
+    stepAndGram(step, du, dmu1, dmu2, u, mu1, mu2, rows, winv, q, tmp, qu, p, sums, 0, head);
+    stepAndGram(step, du, dmu1, dmu2, u, mu1, mu2, rows, winv, q, tmp, qu, p, sums, head, m);
+    gramTail(rows, winv, q, tmp, qu, p, u, sums, m);
   }
   // the best iterate seen (the last one unless the iteration broke down); b = y - W^{-1} D^T u
   differenceTranspose(x, q, best.u, tmp);
@@ -229,10 +235,6 @@ function scaledInto(sc: number, u0: Float64Array, u: Float64Array, m: number): v
   for (let i = 0; i < m; i++) u[i] = sc * u0[i];
 }
 
-/** The box constraints' values f1 = u - lambda, f2 = -u - lambda (both negative inside the box). Unchecked. */
-function startSlacks(u: Float64Array, lambda: number, f1: Float64Array, f2: Float64Array, m: number): void {
-  for (let i = 0; i < m; i++) { f1[i] = u[i] - lambda; f2[i] = -u[i] - lambda; }
-}
 
 /** The duality gap of a warm start: sum lambda |D b| - u.D b, with D b = p - Q u. Unchecked. */
 function startGap(p: Float64Array, qu: Float64Array, u: Float64Array, lambda: number, m: number): number {
@@ -242,8 +244,8 @@ function startGap(p: Float64Array, qu: Float64Array, u: Float64Array, lambda: nu
 }
 
 /** The multipliers on the central path at t: mu = 1 / (t s). Unchecked. */
-function startMultipliers(t: number, f1: Float64Array, f2: Float64Array, mu1: Float64Array, mu2: Float64Array, m: number): void {
-  for (let i = 0; i < m; i++) { mu1[i] = 1 / (t * -f1[i]); mu2[i] = 1 / (t * -f2[i]); }
+function startMultipliers(t: number, lambda: number, u: Float64Array, mu1: Float64Array, mu2: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) { const f1 = u[i] - lambda, f2 = -u[i] - lambda; mu1[i] = 1 / (t * -f1); mu2[i] = 1 / (t * -f2); }
 }
 
 /** b = y - W^{-1} D^T u, with D^T u given in dtu. Unchecked. */
@@ -256,20 +258,23 @@ function primalFromDual(y: Float64Array, winv: Float64Array, dtu: Float64Array, 
 // made Node compile the whole solver on the spot once per loop. Unchecked.
 
 /**
- * The Newton system's diagonal (mat holds the Gram band: adds mu1 / s1 + mu2 / s2), the reciprocal
- * slacks, the dual residual rd = Q u - p + mu1 - mu2, the predictor's right side du = -rd + mu1 - mu2
- * (sigma = 0), and the complementarity mu . s returned. Unchecked.
+ * The Newton system: mat = the Gram band with mu1 / s1 + mu2 / s2 added to its diagonal; the
+ * reciprocal slacks, the dual residual rd = Q u - p + mu1 - mu2, the predictor's right side
+ * du = -rd + mu1 - mu2 (sigma = 0), and the complementarity mu . s returned. Slacks s1 = -f1, s2 = -f2
+ * with f1 = u - lambda, f2 = -u - lambda. Unchecked.
  */
-function newtonSystem(f1: Float64Array, f2: Float64Array, mu1: Float64Array, mu2: Float64Array, qu: Float64Array, p: Float64Array, inv1: Float64Array, inv2: Float64Array, rd: Float64Array, mat: Float64Array, wd: number, m: number, du: Float64Array): number {
+function newtonSystem(lambda: number, u: Float64Array, mu1: Float64Array, mu2: Float64Array, qu: Float64Array, p: Float64Array, inv1: Float64Array, inv2: Float64Array, rd: Float64Array, gram: Float64Array, mat: Float64Array, wd: number, m: number, du: Float64Array): number {
   let comp = 0;
   for (let i = 0; i < m; i++) {
-    const s1 = -f1[i], s2 = -f2[i];
+    const s1 = -(u[i] - lambda), s2 = -(-u[i] - lambda);
     const i1 = 1 / s1, i2 = 1 / s2;
     inv1[i] = i1; inv2[i] = i2;
     comp += mu1[i] * s1 + mu2[i] * s2;
     const r = qu[i] - p[i] + mu1[i] - mu2[i];
     rd[i] = r;
-    mat[i * wd] += mu1[i] * i1 + mu2[i] * i2;
+    const o = i * wd;
+    mat[o] = gram[o] + (mu1[i] * i1 + mu2[i] * i2);
+    for (let d = 1; d < wd; d++) mat[o + d] = gram[o + d];
     du[i] = -r + mu1[i] - mu2[i];
   }
   return comp;
@@ -283,26 +288,28 @@ function newtonSystem(f1: Float64Array, f2: Float64Array, mu1: Float64Array, mu2
  * {@link correctorMultiplierStep}: as a function of one row it was measured to make an iteration
  * at 8,000 points 10 to 30% slower. Unchecked.
  */
-function affineMultiplierStep(du: Float64Array, mu1: Float64Array, mu2: Float64Array, inv1: Float64Array, inv2: Float64Array, dmu1: Float64Array, dmu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): number {
+function affineMultiplierStep(du: Float64Array, mu1: Float64Array, mu2: Float64Array, inv1: Float64Array, inv2: Float64Array, dmu1: Float64Array, dmu2: Float64Array, lambda: number, u: Float64Array, m: number): number {
   let t = 1;
   for (let i = 0; i < m; i++) {
     const d = du[i];
+    const f1 = u[i] - lambda, f2 = -u[i] - lambda;
     const d1 = -mu1[i] + mu1[i] * d * inv1[i];
     const d2 = -mu2[i] - mu2[i] * d * inv2[i];
     dmu1[i] = d1; dmu2[i] = d2;
     if (d1 < 0 && t * -d1 > mu1[i]) t = mu1[i] / -d1;
     if (d2 < 0 && t * -d2 > mu2[i]) t = mu2[i] / -d2;
-    if (d > 0) { if (t * d > -f1[i]) t = -f1[i] / d; }
-    else if (d < 0) { if (t * -d > -f2[i]) t = -f2[i] / -d; }
+    if (d > 0) { if (t * d > -f1) t = -f1 / d; }
+    else if (d < 0) { if (t * -d > -f2) t = -f2 / -d; }
   }
   return t;
 }
 
 /** The complementarity after a step of length a along the predictor. Unchecked. */
-function complementarityAfter(a: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): number {
+function complementarityAfter(a: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, lambda: number, u: Float64Array, m: number): number {
   let c = 0;
   for (let i = 0; i < m; i++) {
-    c += (mu1[i] + a * dmu1[i]) * (-f1[i] - a * du[i]) + (mu2[i] + a * dmu2[i]) * (-f2[i] + a * du[i]);
+    const f1 = u[i] - lambda, f2 = -u[i] - lambda;
+    c += (mu1[i] + a * dmu1[i]) * (-f1 - a * du[i]) + (mu2[i] + a * dmu2[i]) * (-f2 + a * du[i]);
   }
   return c;
 }
@@ -313,9 +320,9 @@ function complementarityAfter(a: number, du: Float64Array, dmu1: Float64Array, d
  * c1 and c2 are kept for the multiplier step. `rhs` may be `du` itself (entry i is read before it is
  * written). Unchecked.
  */
-function correctorRightSide(target: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, rd: Float64Array, inv1: Float64Array, inv2: Float64Array, rhs: Float64Array, c1s: Float64Array, c2s: Float64Array, m: number): void {
+function correctorRightSide(target: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, mu1: Float64Array, mu2: Float64Array, lambda: number, u: Float64Array, rd: Float64Array, inv1: Float64Array, inv2: Float64Array, rhs: Float64Array, c1s: Float64Array, c2s: Float64Array, m: number): void {
   for (let i = 0; i < m; i++) {
-    const s1 = -f1[i], s2 = -f2[i];
+    const s1 = -(u[i] - lambda), s2 = -(-u[i] - lambda);
     const d = du[i];
     const c1 = -d * dmu1[i], c2 = d * dmu2[i];
     rhs[i] = -rd[i] - (-mu1[i] * s1 + target - c1) * inv1[i] + (-mu2[i] * s2 + target - c2) * inv2[i];
@@ -328,29 +335,67 @@ function correctorRightSide(target: number, du: Float64Array, dmu1: Float64Array
  * The corrector's multiplier steps from its du and the kept c1, c2 and, in the same pass, the longest
  * step along them (the rule of {@link affineMultiplierStep}, written out); NaN when an entry of du is not finite. Unchecked.
  */
-function correctorMultiplierStep(target: number, du: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, inv1: Float64Array, inv2: Float64Array, c1s: Float64Array, c2s: Float64Array, dmu1: Float64Array, dmu2: Float64Array, m: number): number {
+function correctorMultiplierStep(target: number, du: Float64Array, mu1: Float64Array, mu2: Float64Array, lambda: number, u: Float64Array, inv1: Float64Array, inv2: Float64Array, c1s: Float64Array, c2s: Float64Array, dmu1: Float64Array, dmu2: Float64Array, m: number): number {
   let t = 1, finite = true;
   for (let i = 0; i < m; i++) {
     const d = du[i];
-    const d1 = (mu1[i] * f1[i] + target - c1s[i] + mu1[i] * d) * inv1[i];
-    const d2 = (mu2[i] * f2[i] + target - c2s[i] - mu2[i] * d) * inv2[i];
+    const f1 = u[i] - lambda, f2 = -u[i] - lambda;
+    const d1 = (mu1[i] * f1 + target - c1s[i] + mu1[i] * d) * inv1[i];
+    const d2 = (mu2[i] * f2 + target - c2s[i] - mu2[i] * d) * inv2[i];
     dmu1[i] = d1; dmu2[i] = d2;
     if (!Number.isFinite(d)) finite = false;
     if (d1 < 0 && t * -d1 > mu1[i]) t = mu1[i] / -d1;
     if (d2 < 0 && t * -d2 > mu2[i]) t = mu2[i] / -d2;
-    if (d > 0) { if (t * d > -f1[i]) t = -f1[i] / d; }
-    else if (d < 0) { if (t * -d > -f2[i]) t = -f2[i] / -d; }
+    if (d > 0) { if (t * d > -f1) t = -f1 / d; }
+    else if (d < 0) { if (t * -d > -f2) t = -f2 / -d; }
   }
   return finite ? t : NaN;
 }
 
-/** The step: u, mu1, mu2 move by `step` along their directions; f1 = u - lambda, f2 = -u - lambda. Unchecked. */
-function takeStep(step: number, lambda: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, u: Float64Array, mu1: Float64Array, mu2: Float64Array, f1: Float64Array, f2: Float64Array, m: number): void {
-  for (let i = 0; i < m; i++) {
-    u[i] += step * du[i];
-    mu1[i] += step * dmu1[i];
-    mu2[i] += step * dmu2[i];
-    f1[i] = u[i] - lambda;
-    f2[i] = -u[i] - lambda;
+/**
+ * Rows from .. to - 1 of the step and, in the same pass, of Q u = D W^{-1} D^T u for the new u
+ * ({@link applyDifferenceGram}'s arithmetic in its order): u, mu1 and mu2 move by `step` along their
+ * directions; row r of D^T u is scattered into tmp (zeroed by the caller), after which tmp_r is
+ * complete and is scaled by 1 / w_r, and row r - q of D gathers (Q u)_{r-q} from tmp_{r-q} .. tmp_r,
+ * with the sums [||p - Q u||_1, u.(p - Q u), u.Q u] carried in `sums` (read before the loop, written
+ * after it). {@link gramTail} completes the last q entries of tmp and rows m - q .. m - 1. Unchecked.
+ */
+export function stepAndGram(step: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, u: Float64Array, mu1: Float64Array, mu2: Float64Array, rows: Float64Array, winv: Float64Array, q: number, tmp: Float64Array, qu: Float64Array, p: Float64Array, sums: Float64Array, from: number, to: number): void {
+  const wd = q + 1;
+  let l1 = sums[0], ud = sums[1], uqu = sums[2];
+  for (let r = from; r < to; r++) {
+    u[r] += step * du[r];
+    mu1[r] += step * dmu1[r];
+    mu2[r] += step * dmu2[r];
+    const ur = u[r];
+    const o = r * wd;
+    for (let c = 0; c < wd; c++) tmp[r + c] += rows[o + c] * ur;
+    tmp[r] *= winv[r];
+    const g = r - q;
+    if (g >= 0) {
+      const og = g * wd;
+      let sg = 0;
+      for (let c = 0; c <= q; c++) sg += rows[og + c] * tmp[g + c];
+      qu[g] = sg;
+      const v = p[g] - sg;
+      l1 += Math.abs(v); ud += u[g] * v; uqu += u[g] * sg;
+    }
   }
+  sums[0] = l1; sums[1] = ud; sums[2] = uqu;
+}
+
+/** The end of {@link stepAndGram}: tmp_m .. tmp_{n-1} scaled, rows max(0, m - q) .. m - 1 of Q u and their sums. Unchecked. */
+export function gramTail(rows: Float64Array, winv: Float64Array, q: number, tmp: Float64Array, qu: Float64Array, p: Float64Array, u: Float64Array, sums: Float64Array, m: number): void {
+  const wd = q + 1;
+  for (let j = m; j < m + q; j++) tmp[j] *= winv[j];
+  let l1 = sums[0], ud = sums[1], uqu = sums[2];
+  for (let g = Math.max(0, m - q); g < m; g++) {
+    const og = g * wd;
+    let sg = 0;
+    for (let c = 0; c <= q; c++) sg += rows[og + c] * tmp[g + c];
+    qu[g] = sg;
+    const v = p[g] - sg;
+    l1 += Math.abs(v); ud += u[g] * v; uqu += u[g] * sg;
+  }
+  sums[0] = l1; sums[1] = ud; sums[2] = uqu;
 }
