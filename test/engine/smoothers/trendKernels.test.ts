@@ -332,6 +332,28 @@ describe('trendDualInteriorPoint', () => {
     expect(Array.from(first.u).some((v, i) => v !== again.u[i])).toBe(true);
   });
 
+  test('order 1 near lambda_max on 10,000 points, where the gap stalls after its 17th iteration and then rises: the solve stops 3 iterations after its best gap (not at a breakdown 2 iterations later, nor after 8 without halving) and returns the best iterate', () => {
+    const n = 10000;
+    const rn = seededNormal(11);
+    const x = Float64Array.from({ length: n }, (_, i) => i + 1);
+    const y = Float64Array.from(x, (t) => Math.sin(t / (n / 20)) + (t > n / 2 ? (3 * (t - n / 2)) / n : 0) + 0.2 * rn());
+    const op = trendOperator(x, new Float64Array(n).fill(1), 1);
+    const lambda = 1e4;
+    const full = trendDualInteriorPoint(op, y, lambda, 1e-8, 100);
+    expect(full.status.converged).toBe(false);
+    const stop = full.status.iterations;
+    // the best gap after j iterations (the solve capped at j), j = 0 .. stop
+    const best = Array.from({ length: stop + 1 }, (_, j) => trendDualInteriorPoint(op, y, lambda, 1e-8, j).status.achieved);
+    let lastHalving = 0;
+    for (let j = 1; j <= stop; j++) if (best[j] < 0.5 * best[j - 1]) lastHalving = j;
+    // without the rule the same solve ran 22 iterations (to a breakdown of the step)
+    expect(stop - lastHalving).toBe(3);
+    // the last three iterations brought no better iterate, and the best one is returned
+    expect(best[stop - 3]).toBe(best[stop]);
+    expect(full.status.achieved).toBe(best[stop]);
+    expect(full.status.achieved).toBeLessThan(1e-6);
+  });
+
   test.each([1, 2, 3, 4])('q = %i: the step fused with Q u = D W^-1 D^T u gives bit for bit the step followed by applyDifferenceGram (Q u and its three sums), split after the first 64 rows as the solver calls it, on 1 to 70 rows and 2,000 uneven points', (q) => {
     for (const m of [1, 2, q, q + 1, 6, 63, 64, 65, 70, 2000]) {
       const n = m + q;

@@ -24,8 +24,13 @@
  * without knots, so at penalties near lambda_max on long series (few knots)
  * the Newton steps lose accuracy and the gap may stall above the tolerance;
  * the status then says not converged and reports the gap reached. The best
- * iterate seen is returned; a breakdown (non-finite step) or 8 iterations
- * without halving the best gap end the iterations.
+ * iterate seen is returned; a breakdown (non-finite step), 8 iterations
+ * without halving the best gap, or 3 iterations in a row whose gap rose end the iterations
+ * (on order 1 at 1e5 points, lambda 10,000 of the bench series the gap reaches 3.3e-7 at the
+ * 21st iteration and then rises: the 8-iteration rule alone ran 27 iterations, this one 24; on
+ * nine seeded series (orders 1 to 3, 500 to 10,000 points, single fits and cross-validation) the
+ * fitted values and cross-validation curves were the same bit for bit, with up to 5 fewer
+ * iterations per fit).
  */
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
 import { differenceRows } from '../../linalg/differenceRows';
@@ -110,11 +115,14 @@ function reciprocals(w: Float64Array): Float64Array {
  */
 const PIVOT_FLOOR = 1e-14;
 
+/** Iterations in a row whose gap rose, after which the method is considered stalled (the Newton steps have lost their accuracy). */
+const STALL_RISES = 3;
+
 /** Iterations without halving the best gap after which the method is considered stalled. */
 const STALL_ITERATIONS = 8;
 
 /** The stopping rule of {@link trendDualInteriorPoint}, as reported in SolverStatus. */
-export const INTERIOR_POINT_RULE = 'relative duality gap (lambda*||Db||_1 - u.Db) / max(primal objective, 1e-12 * null deviance) at most the tolerance (stopping early after 8 iterations without halving it)';
+export const INTERIOR_POINT_RULE = 'relative duality gap (lambda*||Db||_1 - u.Db) / max(primal objective, 1e-12 * null deviance) at most the tolerance (stopping early after 8 iterations without halving it, or 3 in a row in which it rose)';
 
 /**
  * Solves one trend-filtering problem by the dual interior-point method.
@@ -170,6 +178,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
   const best = { achieved: Infinity, gap: Infinity, objective: NaN, u: new Float64Array(m) };
   const fraction = 0.99;
   let lastGain = 0;
+  let rises = 0, previous = Infinity;
   for (;;) {
     // with b = y - W^{-1} D^T u: 1/2 sum w (y - b)^2 = 1/2 u.Q u and D b = p - Q u, so the
     // objective and the gap need no b (formed once, for the best iterate, at the end)
@@ -178,6 +187,8 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     gapAbs = Math.max(lambda * l1 - ud, 0);
     achieved = gapAbs / Math.max(obj, floor);
     if (!Number.isFinite(achieved)) break;
+    rises = achieved > previous ? rises + 1 : 0;
+    previous = achieved;
     if (achieved < best.achieved) {
       if (achieved < 0.5 * best.achieved) lastGain = iter;
       best.achieved = achieved; best.gap = gapAbs; best.objective = obj; best.u.set(u);
@@ -185,6 +196,7 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     if (achieved <= tolerance) { converged = true; break; }
     if (iter >= maxIterations) break;
     if (iter - lastGain >= STALL_ITERATIONS) break; // stalled: the best gap has not halved for a while
+    if (rises >= STALL_RISES) break; // stalled: the gap rose in each of the last iterations
     iter++;
     // the box constraints' values f1 = u - lambda, f2 = -u - lambda (slacks s1 = -f1, s2 = -f2) are
     // formed from u where they are used (the same numbers as stored arrays, with less memory traffic);
