@@ -88,6 +88,7 @@ export function scaledDifferenceRows(x: Float64Array, k: number): Float64Array {
  * @param maxIterations - iteration limit
  * @param warm - state of a nearby penalty
  * @param rows - optional precomputed {@link scaledDifferenceRows}
+ * @param stableStop - when positive, stop once the knots (the jumps of alpha) have stayed the same for this many iterations in a row (the certificate is then computed at that iteration), for a seed of the refinement
  * @example
  * ```ts
  * const r = trendAdmm(x, y, w, 3, 1e4, 1e-8, 5000);
