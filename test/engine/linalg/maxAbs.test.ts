@@ -1,5 +1,6 @@
 import { maxAbs } from '../../../src/engine/linalg/maxAbs';
 import { sum } from '../../../src/engine/linalg/sum';
+import { scaledInto } from '../../../src/engine/linalg/scaledInto';
 
 describe('maxAbs', () => {
   test('maxAbs returns the largest magnitude, 0 for no entries, and NaN when an entry is NaN', () => {
@@ -17,5 +18,17 @@ describe('sum', () => {
     expect(sum(Float64Array.of(1e-16, 1e-16, 1))).toBe(1e-16 + 1e-16 + 1);
     expect(sum(Float64Array.of(1e-16, 1e-16, 1))).not.toBe(1);
     expect(sum(new Float64Array(0))).toBe(0);
+  });
+});
+
+describe('scaledInto', () => {
+  test('scaledInto writes sc times the first m entries and leaves the rest of the target alone', () => {
+    const to = Float64Array.of(9, 9, 9);
+    scaledInto(-2, Float64Array.of(1.5, -3, 4), to, 2);
+    expect(Array.from(to)).toEqual([-3, 6, 9]);
+    // in place
+    const v = Float64Array.of(1, 2);
+    scaledInto(0.5, v, v, 2);
+    expect(Array.from(v)).toEqual([0.5, 1]);
   });
 });

@@ -40,6 +40,8 @@ import type { SolverStatus } from '../../types';
 import { totalVariationDenoise, totalVariationWorkspace } from './totalVariationDenoise';
 import { constantFitObjective } from './constantFitObjective';
 import { KnotwiseError } from '../../errors';
+import { maxAbs } from '../../linalg/maxAbs';
+import { scaledInto } from '../../linalg/scaledInto';
 
 /** The stopping rule of {@link trendAdmm}, as reported in SolverStatus. */
 export const ADMM_RULE = 'ADMM (Ramdas and Tibshirani 2016) until the relative duality gap of the iterate against the fused-lasso dual scaled into the box, (P(b) - G(v)) / max(P(b), 1e-12 * null deviance), is at most the tolerance';
@@ -159,7 +161,7 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
     const sm = differenceAndSum(z, alpha, s, mt) / mt;
     subtractConstant(s, sm, mt);
     if (stableStop > 0) {
-      const th = JUMP_RELATIVE * largestAbs(alpha);
+      const th = JUMP_RELATIVE * maxAbs(alpha);
       const cnt = jumpCount(alpha, th), sum = jumpRowSum(alpha, th);
       stable = cnt === lastCount && sum === lastSum ? stable + 1 : 0;
       lastCount = cnt; lastSum = sum;
@@ -172,7 +174,7 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
     if (stableStop > 0 && stable >= stableStop) break;
   }
   return {
-    b: best.b, u: best.u, achieved: best.achieved, knots: jumpRows(alpha, JUMP_RELATIVE * largestAbs(alpha)), state: { alpha: alpha.slice(), s: s.slice(), rho },
+    b: best.b, u: best.u, achieved: best.achieved, knots: jumpRows(alpha, JUMP_RELATIVE * maxAbs(alpha)), state: { alpha: alpha.slice(), s: s.slice(), rho },
     status: { converged, iterations: iter, tolerance, achieved: best.achieved, stoppingRule: ADMM_RULE },
   };
 }
@@ -199,11 +201,6 @@ function addScaledGram(T: Float64Array, rho: number, mt: number, wd: number, ban
 /** wy = W y. Unchecked. */
 function weightedValues(w: Float64Array, y: Float64Array, wy: Float64Array): void {
   for (let i = 0; i < w.length; i++) wy[i] = w[i] * y[i];
-}
-
-/** s = f s0 on the first m entries (a warm start's scaled dual moved to the new rho). Unchecked. */
-function scaledInto(f: number, s0: Float64Array, s: Float64Array, m: number): void {
-  for (let r = 0; r < m; r++) s[r] = s0[r] * f;
 }
 
 /**
@@ -325,13 +322,6 @@ function divideInPlace(v: Float64Array, f: number, m: number): void {
 
 /** Relative size of a jump of alpha counted as a knot (the fused-lasso step gives exact ties elsewhere). */
 const JUMP_RELATIVE = 1e-12;
-
-/** The largest |alpha_r| (NaN entries skipped). Unchecked. */
-function largestAbs(alpha: Float64Array): number {
-  let amax = 0;
-  for (let r = 0; r < alpha.length; r++) { const a = Math.abs(alpha[r]); if (a > amax) amax = a; }
-  return amax;
-}
 
 /** Number of jumps of alpha larger than th. Unchecked. */
 function jumpCount(alpha: Float64Array, th: number): number {

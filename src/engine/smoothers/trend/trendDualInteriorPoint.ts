@@ -39,6 +39,7 @@ import type { SolverStatus } from '../../types';
 import { differenceGram, applyDifferenceGram } from '../../linalg/differenceGram';
 import { constantFitObjective } from './constantFitObjective';
 import { maxAbs } from '../../linalg/maxAbs';
+import { scaledInto } from '../../linalg/scaledInto';
 import { FIRST_CALL_POINTS } from '../../linalg/firstCallPoints';
 
 /** Result of a trend-filtering solve on the (scaled) problem. */
@@ -72,7 +73,7 @@ export interface TrendOperator {
 /**
  * Arrays of one interior-point solve that do not outlive it, kept on the operator so that the solves
  * along a path or a fold's penalties (on the same x and w) reuse them instead of allocating about
- * fifteen arrays of n each time. Solves are synchronous, so two never share them at once. Unchecked.
+ * a dozen arrays of n each time. Solves are synchronous, so two never share them at once. Unchecked.
  */
 export interface InteriorWork {
   dy: Float64Array; u: Float64Array; mu1: Float64Array; mu2: Float64Array;
@@ -198,11 +199,11 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     if (iter - lastGain >= STALL_ITERATIONS) break; // stalled: the best gap has not halved for a while
     if (rises >= STALL_RISES) break; // stalled: the gap rose in each of the last iterations
     iter++;
-    // the box constraints' values f1 = u - lambda, f2 = -u - lambda (slacks s1 = -f1, s2 = -f2) are
-    // formed from u where they are used (the same numbers as stored arrays, with less memory traffic);
-    // complementarity mu . s (the reciprocal slacks are formed once: the loops below multiply)
-    // the Newton system (the Gram band copied, its diagonal raised) and, in the same pass, the
-    // predictor's right side (affine scaling: sigma = 0)
+    // the Newton system (the Gram band copied, its diagonal raised by mu1 / s1 + mu2 / s2) and, in the
+    // same pass, the complementarity mu . s and the predictor's right side (affine scaling: sigma = 0).
+    // The box constraints' values f1 = u - lambda, f2 = -u - lambda (slacks s1 = -f1, s2 = -f2) are
+    // formed from u in each kernel that uses them (the numbers two stored arrays held, with less
+    // memory traffic); the reciprocal slacks once, here (the loops below multiply)
     const comp = newtonSystem(lambda, u, mu1, mu2, qu, p, inv1, inv2, rd, gram, mat, wd, m, du);
     const muAvg = comp / (2 * m);
     if (bandedCholesky(mat, m, q, PIVOT_FLOOR) >= 0) break;
@@ -242,10 +243,6 @@ function warmStartDual(u0: Float64Array, lambda: number, u: Float64Array, m: num
   scaledInto(um > 0.95 * lambda ? (0.95 * lambda) / um : 1, u0, u, m);
 }
 
-/** u = sc u0 on the first m entries. Unchecked. */
-function scaledInto(sc: number, u0: Float64Array, u: Float64Array, m: number): void {
-  for (let i = 0; i < m; i++) u[i] = sc * u0[i];
-}
 
 
 /** The duality gap of a warm start: sum lambda |D b| - u.D b, with D b = p - Q u. Unchecked. */
