@@ -33,17 +33,30 @@
 export function differenceOperator(x: Float64Array, q: number, b: ArrayLike<number>, out?: Float64Array): Float64Array {
   const n = x.length;
   const v = out && out.length >= n ? out : new Float64Array(n);
-  for (let i = 0; i < n; i++) v[i] = b[i];
+  // each pass is a kernel of its own (DEVELOPERS.md, "Long loops and the first call")
+  copyInto(b, v, n);
   let len = n;
   for (let s = 1; s <= q; s++) {
-    if (s >= 2) {
-      const j = s - 1;
-      for (let i = 0; i < len; i++) v[i] *= j / (x[i + j] - x[i]);
-    }
-    for (let i = 0; i < len - 1; i++) v[i] = v[i + 1] - v[i];
+    if (s >= 2) scaleByDividedSpacing(x, s - 1, v, len);
+    firstDifferenceInPlace(v, len);
     len--;
   }
   return v.subarray(0, n - q);
+}
+
+/** v_i = b_i for i < n. Unchecked. */
+function copyInto(b: ArrayLike<number>, v: Float64Array, n: number): void {
+  for (let i = 0; i < n; i++) v[i] = b[i];
+}
+
+/** v_i *= j / (x_{i+j} - x_i) for i < len: one step of the divided-difference recursion. Unchecked. */
+function scaleByDividedSpacing(x: Float64Array, j: number, v: Float64Array, len: number): void {
+  for (let i = 0; i < len; i++) v[i] *= j / (x[i + j] - x[i]);
+}
+
+/** v_i = v_{i+1} - v_i for i < len - 1, in place from the bottom. Unchecked. */
+function firstDifferenceInPlace(v: Float64Array, len: number): void {
+  for (let i = 0; i < len - 1; i++) v[i] = v[i + 1] - v[i];
 }
 
 /**
@@ -63,17 +76,20 @@ export function differenceTranspose(x: Float64Array, q: number, u: ArrayLike<num
   const n = x.length;
   const v = out && out.length >= n ? out : new Float64Array(n);
   let len = n - q;
-  for (let i = 0; i < len; i++) v[i] = u[i];
+  copyInto(u, v, len);
   for (let s = q; s >= 1; s--) {
-    // first-difference transpose: length len -> len + 1, in place from the top
+    // first-difference transpose: length len -> len + 1, in place from the top (v_0 is read by the
+    // kernel before it is negated here)
     v[len] = v[len - 1];
-    for (let i = len - 1; i >= 1; i--) v[i] = v[i - 1] - v[i];
+    transposedDifferenceInPlace(v, len);
     v[0] = -v[0];
     len++;
-    if (s >= 2) {
-      const j = s - 1;
-      for (let i = 0; i < len; i++) v[i] *= j / (x[i + j] - x[i]);
-    }
+    if (s >= 2) scaleByDividedSpacing(x, s - 1, v, len);
   }
   return v.subarray(0, n);
+}
+
+/** v_i = v_{i-1} - v_i for i = len - 1 down to 1 (the interior rows of D_1^T). Unchecked. */
+function transposedDifferenceInPlace(v: Float64Array, len: number): void {
+  for (let i = len - 1; i >= 1; i--) v[i] = v[i - 1] - v[i];
 }
