@@ -369,7 +369,7 @@ function x01Of(prob: TrendProblem): Float64Array {
   if (!prob.x01) {
     const x = prob.x, n = x.length, N = x[n - 1] - x[0];
     prob.x01 = new Float64Array(n);
-    for (let i = 0; i < n; i++) prob.x01[i] = (x[i] - x[0]) / N;
+    toUnitInterval(x, N, prob.x01);
   }
   return prob.x01;
 }
@@ -422,7 +422,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
   // stalled is not, and goes on to the refinement like any other
   if (!refine && sol.status.converged) return trendFit(sol.b, sol.u, lambda, knotRowsOf(prob, sol.b, sol.u, lambda), { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE });
   const u01 = new Float64Array(sol.u.length);
-  for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
+  dividedInto(sol.u, f, u01);
   let pol: PolishResult = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
@@ -451,11 +451,11 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     const mt = n - k;
     const alpha = applyRows(prob.admmRows, k + 1, sol.b, new Float64Array(mt));
     const sc = new Float64Array(mt);
-    for (let r = 0; r < mt; r++) sc[r] = ((r < mt - 1 ? -sol.u[r] : 0) + (r > 0 ? sol.u[r - 1] : 0)) / lambda;
+    admmScaledDual(sol.u, lambda, mt, sc);
     admm = trendAdmm(x, y, w, k, lambda, tolerance, ADMM_SEED_ITERATIONS, { alpha, s: sc, rho: lambda }, prob.admmRows, ADMM_STABLE_ITERATIONS);
     admmIterations = admm.status.iterations;
     const ua = new Float64Array(admm.u.length);
-    for (let r = 0; r < ua.length; r++) ua[r] = admm.u[r] / f;
+    dividedInto(admm.u, f, ua);
     pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, ua, undefined, admm.knots, cache));
     if (certifiedAt(pol, tolerance)) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations + admmIterations, admm.state);
   }
@@ -472,7 +472,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     if (cold.status.achieved < sol.status.achieved) sol = cold;
     sol = { ...sol, status: { ...sol.status, iterations: iters } };
     if (!sol.status.converged) {
-      for (let r = 0; r < u01.length; r++) u01[r] = sol.u[r] / f;
+      dividedInto(sol.u, f, u01);
       pol = better(pol, fromInterior());
     }
   }
@@ -555,6 +555,24 @@ export function polynomialOf(prob: TrendProblem): PolynomialDual {
 function refinedFit(pol: PolishResult, f: number, lambda: number, tolerance: number, before: number, admm?: AdmmState, rule = TREND_RULE): TrendFit {
   const status = { converged: pol.achieved <= tolerance, iterations: before + pol.rounds, tolerance, achieved: pol.achieved, stoppingRule: rule };
   return trendFit(pol.b, scaledCopy(pol.u, f), lambda, pol.knots, status, scaledCopy(pol.dKnots, 1 / f), admm);
+}
+
+// Loops over the points or rows of the solver's own, each a kernel of its own (DEVELOPERS.md, "Long
+// loops and the first call": inside the long solver they made Node throw its compiled code away). Unchecked.
+
+/** out_i = (x_i - x_0) / N: x mapped to [0, 1] for N = x_{n-1} - x_0. Unchecked. */
+function toUnitInterval(x: Float64Array, N: number, out: Float64Array): void {
+  for (let i = 0; i < x.length; i++) out[i] = (x[i] - x[0]) / N;
+}
+
+/** out_r = v_r / c over out's length. Unchecked. */
+function dividedInto(v: Float64Array, c: number, out: Float64Array): void {
+  for (let r = 0; r < out.length; r++) out[r] = v[r] / c;
+}
+
+/** The ADMM's scaled dual from the interior point's u: rho s = D1^T u with rho = lambda, over mt rows. Unchecked. */
+function admmScaledDual(u: Float64Array, lambda: number, mt: number, sc: Float64Array): void {
+  for (let r = 0; r < mt; r++) sc[r] = ((r < mt - 1 ? -u[r] : 0) + (r > 0 ? u[r - 1] : 0)) / lambda;
 }
 
 /** A copy of v times c (a plain loop: a typed array's `from` with a mapping function is several times slower). Unchecked. */
