@@ -243,8 +243,6 @@ function warmStartDual(u0: Float64Array, lambda: number, u: Float64Array, m: num
   scaledInto(um > 0.95 * lambda ? (0.95 * lambda) / um : 1, u0, u, m);
 }
 
-
-
 /** The duality gap of a warm start: sum lambda |D b| - u.D b, with D b = p - Q u. Unchecked. */
 function startGap(p: Float64Array, qu: Float64Array, u: Float64Array, lambda: number, m: number): number {
   let g = 0;
