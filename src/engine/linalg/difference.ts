@@ -93,3 +93,20 @@ export function differenceTranspose(x: Float64Array, q: number, u: ArrayLike<num
 function transposedDifferenceInPlace(v: Float64Array, len: number): void {
   for (let i = len - 1; i >= 1; i--) v[i] = v[i - 1] - v[i];
 }
+
+/**
+ * d = D1^T v for the plain first-difference operator D1 (rows (-1, 1), no spacing) with m rows:
+ * d_0 = -v_0, d_r = v_{r-1} - v_r, d_m = v_{m-1} (d has m + 1 entries; the dual of a fused lasso and
+ * the ADMM's scaled dual in trend filtering).
+ *
+ * @example
+ * ```ts
+ * firstDifferenceTranspose(Float64Array.of(1, 1), new Float64Array(3), 2); // [-1, 0, 1]
+ * ```
+ * Unchecked: m >= 1, d not v.
+ */
+export function firstDifferenceTranspose(v: Float64Array, d: Float64Array, m: number): void {
+  d[0] = -v[0];
+  d[m] = v[m - 1];
+  for (let r = 1; r < m; r++) d[r] = v[r - 1] - v[r];
+}

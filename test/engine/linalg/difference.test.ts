@@ -1,4 +1,4 @@
-import { differenceOperator, differenceTranspose } from '../../../src/engine/linalg/difference';
+import { differenceOperator, differenceTranspose, firstDifferenceTranspose } from '../../../src/engine/linalg/difference';
 import { differenceRows } from '../../../src/engine/linalg/differenceRows';
 import { denseDifference } from '../smoothers/trendKkt';
 
@@ -58,6 +58,18 @@ describe('differenceRows', () => {
       const rows = differenceRows(x, q);
       const D = denseDifference(x, q);
       for (let r = 0; r < D.length; r++) for (let c = 0; c <= q; c++) expect(rows[r * (q + 1) + c]).toBeCloseTo(D[r][r + c], 10);
+    }
+  });
+});
+
+describe('firstDifferenceTranspose', () => {
+  test('firstDifferenceTranspose gives bit for bit differenceTranspose of order 1 (plain differences, whatever the spacing) on 1 to 40 rows', () => {
+    for (let m = 1; m <= 40; m++) {
+      const v = Float64Array.from({ length: m }, (_, i) => Math.sin(3.7 * i + 1) * (i + 0.5));
+      const x = Float64Array.from({ length: m + 1 }, (_, i) => i * i + 0.3 * i);
+      const d = new Float64Array(m + 1);
+      firstDifferenceTranspose(v, d, m);
+      expect(Array.from(d)).toEqual(Array.from(differenceTranspose(x, 1, v)));
     }
   });
 });

@@ -12,7 +12,7 @@ import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNe
 import { basisCache } from '../../../src/engine/basis/discreteBSplines';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
 import { checkTrendKkt, denseDifference } from './trendKkt';
-import { trendDualInteriorPoint, trendOperator, stepAndGram, gramTail } from '../../../src/engine/smoothers/trend/trendDualInteriorPoint';
+import { trendDualInteriorPoint, trendOperator, stepAndGram } from '../../../src/engine/smoothers/trend/trendDualInteriorPoint';
 import { applyDifferenceGram } from '../../../src/engine/linalg/differenceGram';
 import { differenceRows } from '../../../src/engine/linalg/differenceRows';
 
@@ -354,7 +354,7 @@ describe('trendDualInteriorPoint', () => {
     expect(full.status.achieved).toBeLessThan(1e-6);
   });
 
-  test.each([1, 2, 3, 4])('q = %i: the step fused with Q u = D W^-1 D^T u gives bit for bit the step followed by applyDifferenceGram (Q u and its three sums), split after the first 64 rows as the solver calls it, on 1 to 70 rows and 2,000 uneven points', (q) => {
+  test.each([1, 2, 3, 4])('q = %i: the step fused with Q u = D W^-1 D^T u gives bit for bit the step followed by applyDifferenceGram (Q u and its three sums), split after the first 64 rows and finished over the last q entries as the solver calls it, on 1 to 70 rows and 2,000 uneven points', (q) => {
     for (const m of [1, 2, q, q + 1, 6, 63, 64, 65, 70, 2000]) {
       const n = m + q;
       const rn = seededNormal(900 + 10 * q + m);
@@ -372,9 +372,9 @@ describe('trendDualInteriorPoint', () => {
       const uf = u.slice(), m1 = mu1.slice(), m2 = mu2.slice();
       const tmp = new Float64Array(n), qu = new Float64Array(m), sums = new Float64Array(3);
       const head = Math.min(m, 64);
-      stepAndGram(step, du, dmu1, dmu2, uf, m1, m2, rows, winv, q, tmp, qu, p, sums, 0, head);
-      stepAndGram(step, du, dmu1, dmu2, uf, m1, m2, rows, winv, q, tmp, qu, p, sums, head, m);
-      gramTail(rows, winv, q, tmp, qu, p, uf, sums, m);
+      stepAndGram(step, du, dmu1, dmu2, uf, m1, m2, rows, winv, q, tmp, qu, p, sums, 0, head, m);
+      stepAndGram(step, du, dmu1, dmu2, uf, m1, m2, rows, winv, q, tmp, qu, p, sums, head, m, m);
+      stepAndGram(step, du, dmu1, dmu2, uf, m1, m2, rows, winv, q, tmp, qu, p, sums, m, m + q, m);
       expect(Array.from(uf)).toEqual(Array.from(u2));
       expect(Array.from(m1)).toEqual(Array.from(mu1, (v, i) => v + step * dmu1[i]));
       expect(Array.from(m2)).toEqual(Array.from(mu2, (v, i) => v + step * dmu2[i]));

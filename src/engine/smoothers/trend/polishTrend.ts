@@ -219,13 +219,13 @@ export function polishTrend(x: Float64Array, y: Float64Array, w: Float64Array, k
     const c = certify(y, w, lambda, last, false, rounds);
     if (c.ok) return owned(c, work);
   }
-  return { ok: false, b: new Float64Array(n), u: Float64Array.from(u), knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
+  return { ok: false, b: new Float64Array(n), u: u.slice(), knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds };
 }
 
 /** The result with its own copies of any array that lives in the refinement's work space (a later refinement on the same cache writes there). Unchecked. */
 function owned(r: PolishResult, work: { b: Float64Array[]; u: Float64Array[] }): PolishResult {
-  if (r.b === work.b[0] || r.b === work.b[1]) r.b = Float64Array.from(r.b);
-  if (r.u === work.u[0] || r.u === work.u[1]) r.u = Float64Array.from(r.u);
+  if (r.b === work.b[0] || r.b === work.b[1]) r.b = r.b.slice();
+  if (r.u === work.u[0] || r.u === work.u[1]) r.u = r.u.slice();
   return r;
 }
 

@@ -8,6 +8,7 @@ import { basisCache, BasisCache } from '../../basis/discreteBSplines';
 import { activeSetNewton } from './activeSetNewton';
 import { maxAbs } from '../../linalg/maxAbs';
 import { applyRows } from '../../linalg/applyRows';
+import { firstDifferenceTranspose } from '../../linalg/difference';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -451,7 +452,8 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     const mt = n - k;
     const alpha = applyRows(prob.admmRows, k + 1, sol.b, new Float64Array(mt));
     const sc = new Float64Array(mt);
-    admmScaledDual(sol.u, lambda, mt, sc);
+    firstDifferenceTranspose(sol.u, sc, mt - 1);
+    dividedInto(sc, lambda, sc);
     admm = trendAdmm(x, y, w, k, lambda, tolerance, ADMM_SEED_ITERATIONS, { alpha, s: sc, rho: lambda }, prob.admmRows, ADMM_STABLE_ITERATIONS);
     admmIterations = admm.status.iterations;
     const ua = new Float64Array(admm.u.length);
@@ -568,11 +570,6 @@ function toUnitInterval(x: Float64Array, N: number, out: Float64Array): void {
 /** out_r = v_r / c over out's length. Unchecked. */
 function dividedInto(v: Float64Array, c: number, out: Float64Array): void {
   for (let r = 0; r < out.length; r++) out[r] = v[r] / c;
-}
-
-/** The ADMM's scaled dual from the interior point's u: rho s = D1^T u with rho = lambda, over mt rows. Unchecked. */
-function admmScaledDual(u: Float64Array, lambda: number, mt: number, sc: Float64Array): void {
-  for (let r = 0; r < mt; r++) sc[r] = ((r < mt - 1 ? -u[r] : 0) + (r > 0 ? u[r - 1] : 0)) / lambda;
 }
 
 /** A copy of v times c (a plain loop: a typed array's `from` with a mapping function is several times slower). Unchecked. */

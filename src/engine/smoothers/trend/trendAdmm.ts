@@ -33,7 +33,7 @@
  */
 import { bandedCholesky, bandedCholeskySolve } from '../../linalg/bandedCholesky';
 import { differenceRows } from '../../linalg/differenceRows';
-import { differenceOperator } from '../../linalg/difference';
+import { differenceOperator, firstDifferenceTranspose } from '../../linalg/difference';
 import { applyRows } from '../../linalg/applyRows';
 import { applyRowsTransposed } from '../../linalg/applyRowsTransposed';
 import type { SolverStatus } from '../../types';
@@ -128,7 +128,7 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
   const ones = new Float64Array(mt).fill(1);
   const tvWork = totalVariationWorkspace(mt);
   // seeding: the jumps of alpha (the knots) and how long they have stayed the same
-  let lastCount = -1, lastSum = -1, stable = 0;
+  let lastKnots: number[] = [], stable = 0;
   const b = new Float64Array(n);
   const z = new Float64Array(mt);
   const g = new Float64Array(n);
@@ -161,10 +161,9 @@ export function trendAdmm(x: Float64Array, y: Float64Array, w: Float64Array, k: 
     const sm = differenceAndSum(z, alpha, s, mt) / mt;
     subtractConstant(s, sm, mt);
     if (stableStop > 0) {
-      const th = JUMP_RELATIVE * maxAbs(alpha);
-      const cnt = jumpCount(alpha, th), sum = jumpRowSum(alpha, th);
-      stable = cnt === lastCount && sum === lastSum ? stable + 1 : 0;
-      lastCount = cnt; lastSum = sum;
+      const knots = jumpRows(alpha, JUMP_RELATIVE * maxAbs(alpha));
+      stable = iter > 1 && sameRows(knots, lastKnots) ? stable + 1 : 0;
+      lastKnots = knots;
       // the certificate every 10 iterations while seeding, and when the knots have settled
       if (stable < stableStop && iter % 10 !== 0 && iter < maxIterations) continue;
     }
@@ -263,7 +262,7 @@ function certificate(x: Float64Array, y: Float64Array, w: Float64Array, k: numbe
   const f = vm > lambda ? vm / lambda : 1;
   // g = D^T v = T^T (D1^T v); D1^T v = rho s up to the rounding of the running sum
   const d1 = work;
-  firstDifferenceTransposed(v, d1, m);
+  firstDifferenceTranspose(v, d1, m);
   applyRowsTransposed(T, k + 1, d1, n - k, g);
   const yg = dot(y, g, n), gg = weightedSquares(g, w, n), rss = halfWeightedResiduals(y, b, w, n);
   const db = differenceOperator(x, k + 1, b, work);
@@ -278,13 +277,6 @@ function runningDual(s: Float64Array, rho: number, v: Float64Array, m: number): 
   let acc = 0, vm = 0;
   for (let r = 0; r < m; r++) { acc -= rho * s[r]; v[r] = acc; const a = Math.abs(acc); if (a > vm) vm = a; }
   return vm;
-}
-
-/** d = D1^T v for the first-difference operator D1 with m rows (d has m + 1 entries). Unchecked. */
-function firstDifferenceTransposed(v: Float64Array, d: Float64Array, m: number): void {
-  d[0] = -v[0];
-  d[m] = v[m - 1];
-  for (let r = 1; r < m; r++) d[r] = v[r - 1] - v[r];
 }
 
 /** sum y g over the first n entries, in index order. Unchecked. */
@@ -323,23 +315,16 @@ function divideInPlace(v: Float64Array, f: number, m: number): void {
 /** Relative size of a jump of alpha counted as a knot (the fused-lasso step gives exact ties elsewhere). */
 const JUMP_RELATIVE = 1e-12;
 
-/** Number of jumps of alpha larger than th. Unchecked. */
-function jumpCount(alpha: Float64Array, th: number): number {
-  let cnt = 0;
-  for (let r = 0; r + 1 < alpha.length; r++) if (Math.abs(alpha[r + 1] - alpha[r]) > th) cnt++;
-  return cnt;
-}
-
-/** Sum of the rows where alpha jumps by more than th. Unchecked. */
-function jumpRowSum(alpha: Float64Array, th: number): number {
-  let sum = 0;
-  for (let r = 0; r + 1 < alpha.length; r++) if (Math.abs(alpha[r + 1] - alpha[r]) > th) sum += r;
-  return sum;
-}
-
 /** Rows where alpha jumps by more than th. Unchecked. */
 function jumpRows(alpha: Float64Array, th: number): number[] {
   const out: number[] = [];
   for (let r = 0; r + 1 < alpha.length; r++) if (Math.abs(alpha[r + 1] - alpha[r]) > th) out.push(r);
   return out;
+}
+
+/** Whether two lists of rows are the same. Unchecked. */
+function sameRows(a: number[], b: number[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let j = 0; j < a.length; j++) if (a[j] !== b[j]) return false;
+  return true;
 }

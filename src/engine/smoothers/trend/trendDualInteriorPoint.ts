@@ -224,9 +224,9 @@ export function trendDualInteriorPoint(op: TrendOperator, y: Float64Array, lambd
     tmp.fill(0);
     sums[0] = 0; sums[1] = 0; sums[2] = 0;
     const head = Math.min(m, FIRST_CALL_POINTS);
-    stepAndGram(step, du, dmu1, dmu2, u, mu1, mu2, rows, winv, q, tmp, qu, p, sums, 0, head);
-    stepAndGram(step, du, dmu1, dmu2, u, mu1, mu2, rows, winv, q, tmp, qu, p, sums, head, m);
-    gramTail(rows, winv, q, tmp, qu, p, u, sums, m);
+    stepAndGram(step, du, dmu1, dmu2, u, mu1, mu2, rows, winv, q, tmp, qu, p, sums, 0, head, m);
+    stepAndGram(step, du, dmu1, dmu2, u, mu1, mu2, rows, winv, q, tmp, qu, p, sums, head, m, m);
+    stepAndGram(step, du, dmu1, dmu2, u, mu1, mu2, rows, winv, q, tmp, qu, p, sums, m, m + q, m);
   }
   // the best iterate seen (the last one unless the iteration broke down); b = y - W^{-1} D^T u
   differenceTranspose(x, q, best.u, tmp);
@@ -378,18 +378,21 @@ function correctorMultiplierStep(target: number, du: Float64Array, mu1: Float64A
  * directions; row r of D^T u is scattered into tmp (zeroed by the caller), after which tmp_r is
  * complete and is scaled by 1 / w_r, and row r - q of D gathers (Q u)_{r-q} from tmp_{r-q} .. tmp_r,
  * with the sums [||p - Q u||_1, u.(p - Q u), u.Q u] carried in `sums` (read before the loop, written
- * after it). {@link gramTail} completes the last q entries of tmp and rows m - q .. m - 1. Unchecked.
+ * after it). Rows r >= m (r < m + q, called last) only complete tmp_r and gather row r - q: the
+ * caller's last call, over m .. m + q - 1, finishes the last q entries of tmp and rows m - q .. m - 1. Unchecked.
  */
-export function stepAndGram(step: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, u: Float64Array, mu1: Float64Array, mu2: Float64Array, rows: Float64Array, winv: Float64Array, q: number, tmp: Float64Array, qu: Float64Array, p: Float64Array, sums: Float64Array, from: number, to: number): void {
+export function stepAndGram(step: number, du: Float64Array, dmu1: Float64Array, dmu2: Float64Array, u: Float64Array, mu1: Float64Array, mu2: Float64Array, rows: Float64Array, winv: Float64Array, q: number, tmp: Float64Array, qu: Float64Array, p: Float64Array, sums: Float64Array, from: number, to: number, m: number): void {
   const wd = q + 1;
   let l1 = sums[0], ud = sums[1], uqu = sums[2];
   for (let r = from; r < to; r++) {
-    u[r] += step * du[r];
-    mu1[r] += step * dmu1[r];
-    mu2[r] += step * dmu2[r];
-    const ur = u[r];
-    const o = r * wd;
-    for (let c = 0; c < wd; c++) tmp[r + c] += rows[o + c] * ur;
+    if (r < m) {
+      u[r] += step * du[r];
+      mu1[r] += step * dmu1[r];
+      mu2[r] += step * dmu2[r];
+      const ur = u[r];
+      const o = r * wd;
+      for (let c = 0; c < wd; c++) tmp[r + c] += rows[o + c] * ur;
+    }
     tmp[r] *= winv[r];
     const g = r - q;
     if (g >= 0) {
@@ -404,18 +407,3 @@ export function stepAndGram(step: number, du: Float64Array, dmu1: Float64Array, 
   sums[0] = l1; sums[1] = ud; sums[2] = uqu;
 }
 
-/** The end of {@link stepAndGram}: tmp_m .. tmp_{n-1} scaled, rows max(0, m - q) .. m - 1 of Q u and their sums. Unchecked. */
-export function gramTail(rows: Float64Array, winv: Float64Array, q: number, tmp: Float64Array, qu: Float64Array, p: Float64Array, u: Float64Array, sums: Float64Array, m: number): void {
-  const wd = q + 1;
-  for (let j = m; j < m + q; j++) tmp[j] *= winv[j];
-  let l1 = sums[0], ud = sums[1], uqu = sums[2];
-  for (let g = Math.max(0, m - q); g < m; g++) {
-    const og = g * wd;
-    let sg = 0;
-    for (let c = 0; c <= q; c++) sg += rows[og + c] * tmp[g + c];
-    qu[g] = sg;
-    const v = p[g] - sg;
-    l1 += Math.abs(v); ud += u[g] * v; uqu += u[g] * sg;
-  }
-  sums[0] = l1; sums[1] = ud; sums[2] = uqu;
-}
