@@ -157,6 +157,61 @@ describe('solveTrend', () => {
       expect(Math.sqrt(d2)).toBeLessThanOrEqual(Math.sqrt(2 * r.status.achieved * P) * 1.01 + 1e-9);
     }
   });
+
+  test('from a converged interior point, the Newton rounds stop at the first repeated active set (a cycle never settles) and the interior point\'s certified answer stands', () => {
+    // a chirp plus a kinked ramp with noise (seeded), order 3 with dense knots: the method cycles from here
+    const n = 5000, k = 3, lam = 0.01;
+    const rn = seededNormal(1);
+    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n).fill(1);
+    for (let i = 0; i < n; i++) { const t = i / (n - 1); x[i] = i; y[i] = Math.sin(2 * Math.PI * 3 * t * t * t) + (t > 0.6 ? 2 * (t - 0.6) : 0) + 0.2 * rn(); }
+    const spy = jest.spyOn(activeSetNewtonModule, 'activeSetNewton');
+    let fit: ReturnType<typeof solveTrend>;
+    let call: Parameters<typeof activeSetNewton>, result: ReturnType<typeof activeSetNewton>;
+    try {
+      fit = solveTrend({ x, y, w, k }, lam, { tolerance: 1e-8, maxIterations: 200 });
+      const j = spy.mock.calls.findIndex((c) => c[7] === 8);
+      expect(j).toBeGreaterThanOrEqual(0);
+      call = spy.mock.calls[j];
+      result = spy.mock.results[j].value as ReturnType<typeof activeSetNewton>;
+    } finally {
+      spy.mockRestore();
+    }
+    expect(result.settled).toBe(false);
+    expect(result.rounds).toBeLessThan(8);
+    // the same start without the rule, for 60 rounds: it does not settle either, so nothing was lost
+    const long = activeSetNewton(call[0], call[1], call[2], call[3], call[4], call[5], call[6], 60);
+    expect(long.settled).toBe(false);
+    expect(long.changes.slice(0, result.rounds)).toEqual(result.changes);
+    expect(fit.status.converged).toBe(true);
+    expect(fit.status.achieved).toBeLessThanOrEqual(1e-8);
+  });
+
+  test('order 2: a Newton start whose fewest changed rows stalls for several rounds before it settles is still followed to the exact fit', () => {
+    // why the rounds from a converged interior point stop on a repeated active set only, not on a lack of progress
+    const p = problem(2000, 2, 1);
+    const lam = 1e-6 * trendLambdaMax(p.x, p.y, p.w, 2);
+    const spy = jest.spyOn(activeSetNewtonModule, 'activeSetNewton');
+    let result: ReturnType<typeof activeSetNewton> | undefined;
+    let fit: ReturnType<typeof solveTrend>;
+    try {
+      fit = solveTrend(p, lam, { tolerance: 1e-8, maxIterations: 200 });
+      const j = spy.mock.calls.findIndex((c) => c[7] === 8);
+      result = j >= 0 ? (spy.mock.results[j].value as ReturnType<typeof activeSetNewton>) : undefined;
+    } finally {
+      spy.mockRestore();
+    }
+    expect(result).toBeDefined();
+    expect(result!.settled).toBe(true);
+    // the longest stretch of rounds without a new fewest count before it settled
+    let fewest = Infinity, since = 0, longest = 0;
+    for (const c of result!.changes) { if (c < fewest) { fewest = c; since = 0; } else longest = Math.max(longest, ++since); }
+    expect(longest).toBeGreaterThanOrEqual(3);
+    expect(fit.status.converged).toBe(true);
+    expect(fit.knotRows).toEqual(result!.rows);
+    const kkt = checkTrendKkt(p.x, p.y, p.w, fit.b, 2, lam);
+    expect(kkt.boxExcess).toBeLessThan(1e-6);
+    expect(kkt.signError).toBeLessThan(1e-6);
+  });
 });
 
 describe('solveTrend, one shape for every fit', () => {

@@ -101,15 +101,14 @@ const INTERIOR_USEFUL_GAP = 0.5;
 const NEWTON_ROUNDS = 8;
 
 /**
- * Those rounds also stop unsettled when an active set repeats (the method is deterministic, so it
- * cycles and would never settle: exact) or when the fewest rows changed in a round has not
- * improved for this many rounds. Measured on 275 such starts (single fits of four series per size
- * at n = 1e3, 3e3, 1e4 and 3e4, orders 1 to 3, six penalties each; every run followed for up to 60
- * rounds): the 235 that settle within 8 rounds never went more than 2 rounds without a new fewest
- * count, and the 40 that do not settle took 208 rounds with both rules instead of 309 (242 with the
- * repeat rule alone). Unsettled, the interior point's own certified answer stands, as before.
+ * Those rounds also stop, unsettled, once an active set repeats: the method is deterministic, so it
+ * cycles and would never settle (nothing a full run would settle is lost). On 275 such starts
+ * (single fits of four series per size at n = 1e3, 3e3, 1e4 and 3e4, orders 1 to 3, six penalties
+ * each) the 40 that do not settle within 8 rounds took 242 rounds instead of 309. A rule on progress
+ * (stop once the fewest rows changed in a round has not fallen for 3 rounds) would have cut that to
+ * 208 with none of those 235 settled fits lost, but an order-2 fit elsewhere (2,000 points) changes
+ * 5, 7, 9, 7, 11, 6, 4 and 0 rows and settles in the eighth round: not used.
  */
-const NEWTON_PATIENCE = 3;
 
 export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weighted polynomial fit of degree k is the solution (max |u| <= lambda)';
 
@@ -119,7 +118,7 @@ export const ACTIVE_SET_RULE = 'exact active-set refinement from a known knot se
 
 export const WARM_RULE = 'primal-dual active-set rounds (Hintermueller, Ito & Kunisch 2002) from the previous penalty\'s knots, kept only with a duality-gap certificate at most the tolerance: u from D^T u = W (y - b) scaled into the box |u| <= lambda, gap = lambda ||D b||_1 - u.D b plus the cost of the scaling';
 
-export const TREND_RULE = `${INTERIOR_POINT_RULE}; from its knots, at most ${NEWTON_ROUNDS} rounds of an active-set Newton method (fewer once an active set repeats or the fewest rows changed in a round has not fallen for ${NEWTON_PATIENCE} rounds), whose settled knots are kept only with a duality-gap certificate (else the interior point's answer stands); where the interior point stalls, for order 1 ${ADMM_RULE}, stopping early once ${ADMM_STABLE_ITERATIONS + 1} successive iterations have had the same knots, then an exact active-set refinement kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
+export const TREND_RULE = `${INTERIOR_POINT_RULE}; from its knots, at most ${NEWTON_ROUNDS} rounds of an active-set Newton method (fewer once an active set repeats), whose settled knots are kept only with a duality-gap certificate (else the interior point's answer stands); where the interior point stalls, for order 1 ${ADMM_RULE}, stopping early once ${ADMM_STABLE_ITERATIONS + 1} successive iterations have had the same knots, then an exact active-set refinement kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
 /** Relative size below which an entry of D b counts as zero for k >= 1 without refinement: the interior-point error in D b off the knots is of order gap / (m * distance of u to the bound), far below this. */
 export const KNOT_RELATIVE = 1e-8;
@@ -194,7 +193,7 @@ interface SolveContext {
  * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}).
  *    With `refine` false (cross-validation folds) a converged one is returned as it is. Else,
  *    when it converges, the active-set Newton method ({@link activeSetNewton}, at most
- *    {@link NEWTON_ROUNDS} rounds, fewer when it cycles: {@link NEWTON_PATIENCE}) starts from its knots and a settled knot set is certified by
+ *    {@link NEWTON_ROUNDS} rounds, fewer once an active set repeats) starts from its knots and a settled knot set is certified by
  *    one refinement round; otherwise the interior point's own certified answer is returned
  *    (dense knots of order 3, where the refinement's certificate is limited by the precision
  *    of the recovered dual and further rounds were measured to be wasted). When it stalls: for
@@ -445,7 +444,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     // refinement's certificate is also limited by the precision of the recovered dual), the
     // interior point's own certified answer stands: no further refinement rounds
     const rows = knotRowsOf(prob, sol.b, sol.u, lambda);
-    const asn = activeSetNewton(x01, y, w, k, lambda / f, rows, rows.map((r) => (sol.u[r] >= 0 ? 1 : -1)), NEWTON_ROUNDS, cache, 0, true, NEWTON_PATIENCE);
+    const asn = activeSetNewton(x01, y, w, k, lambda / f, rows, rows.map((r) => (sol.u[r] >= 0 ? 1 : -1)), NEWTON_ROUNDS, cache, 0, true);
     ctx.iterations += asn.rounds;
     if (asn.settled) {
       // the settled round comes certified; a refinement round only when its certificate failed
