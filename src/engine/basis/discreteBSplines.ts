@@ -389,9 +389,16 @@ function topOfPoints(x: Float64Array, k: number, coef: Float64Array, o: number, 
   return Math.max(from, to + 1);
 }
 
-/** x_i, extended past both ends at the mean spacing h (phantom knots). Unchecked. */
+/**
+ * x_i, extended past both ends at the mean spacing h (phantom knots): the nearest data point plus
+ * (i - that point) h, which is x_i itself inside the data. Every i runs the same operations, so the
+ * right end's phantoms, met last in a build, do not meet code compiled without their type
+ * information (DEVELOPERS.md, "Long loops and the first call"). Unchecked.
+ */
 function extendedX(x: Float64Array, n: number, h: number, i: number): number {
-  return i < 0 ? x[0] + i * h : i >= n ? x[n - 1] + (i - n + 1) * h : x[i];
+  const last = n - 1;
+  const j = i < 0 ? 0 : i > last ? last : i;
+  return x[j] + (i - j) * h;
 }
 
 /**

@@ -8,7 +8,7 @@
 import { fitTrend, trendPenaltyMax } from '../../../src/engine/smoothers/trend';
 import { seriesFromArrays } from '../../../src/engine/series';
 import { seededNormal } from './trendTestFunctions';
-import { FROM_POLYNOMIAL_RULE, TREND_RULE } from '../../../src/engine/smoothers/trend/solveTrend';
+import { FROM_POLYNOMIAL_RULE, COARSE_RULE, COARSE_FROM, COARSE_SMALLEST } from '../../../src/engine/smoothers/trend/solveTrend';
 
 function longSeries(n: number, seed: number) {
   const rn = seededNormal(seed);
@@ -160,16 +160,16 @@ describe('fitTrend of orders 2 and 3 on long series', () => {
 
 describe('fitTrend of order 3 at small penalties on a long series', () => {
   // where the interior point stalls at once on 10,000 points: these fits used to end uncertified
-  // (1e-5 of the largest penalty) or be refused (1e-6, 1e-7); the active-set method started from
-  // the polynomial fit now reaches them. At 1e-6 the refinement from the stalled interior point's dual,
-  // tried first, now certifies the fit itself (since order 3's refinement lets only the largest few
-  // violations join per round: polishTrend's JOINING_AT_LEAST), in 189 rounds instead of 650
-  test.each([[1e-5, FROM_POLYNOMIAL_RULE], [1e-6, TREND_RULE], [1e-7, FROM_POLYNOMIAL_RULE]])('at %p of the largest penalty the fit is certified by a gap built from the fit alone', (fraction, rule) => {
+  // (1e-5 of the largest penalty) or be refused (1e-6, 1e-7). They now start from the knots of the
+  // fit to every 10th point (fromCoarseGuess). With the interior point held to 3 iterations (the
+  // coarse fit then stops short as well) the chain behind it still certifies them: the active-set
+  // method started from the polynomial fit
+  test.each([[1e-5, 200, COARSE_RULE], [1e-6, 200, COARSE_RULE], [1e-7, 200, COARSE_RULE], [1e-5, 3, FROM_POLYNOMIAL_RULE], [1e-6, 3, FROM_POLYNOMIAL_RULE], [1e-7, 3, FROM_POLYNOMIAL_RULE]])('at %p of the largest penalty (interior point limited to %i iterations) the fit is certified by a gap built from the fit alone', (fraction, maxIterations, rule) => {
     const k = 3;
     const { x, y, w } = longSeries(10000, 2031);
     const s = seriesFromArrays(x, y, w);
     const lam = fraction * trendPenaltyMax(s, { order: k });
-    const r = fitTrend(s, { order: k, penalty: lam });
+    const r = fitTrend(s, { order: k, penalty: lam, maxIterations });
     expect(r.solver.converged).toBe(true);
     expect(r.solver.stoppingRule).toBe(rule);
     expect(r.knots.length).toBeGreaterThan(20);
@@ -179,5 +179,45 @@ describe('fitTrend of order 3 at small penalties on a long series', () => {
     expect(c.boxScale - 1).toBeLessThan(1e-6);
     expect(c.relativeGap).toBeLessThan(1e-8);
     expect(c.relativeGap).toBeLessThan(r.solver.achieved * 1.01 + 1e-10);
+  });
+});
+
+describe('fitTrend from the knots of a fit to every 10th point (fromCoarseGuess)', () => {
+  test.each([[1, 1e-3], [2, 1e-3], [3, 1e-4]])('order %i on 5,000 points at %p of the largest penalty starts there and is certified by a gap built from the fit alone', (k, fraction) => {
+    const n = 5000;
+    const { x, y, w } = longSeries(n, 2040 + k);
+    const s = seriesFromArrays(x, y, w);
+    const lam = fraction * trendPenaltyMax(s, { order: k });
+    const r = fitTrend(s, { order: k, penalty: lam });
+    expect(r.solver.converged).toBe(true);
+    expect(r.solver.stoppingRule).toBe(COARSE_RULE);
+    expect(r.knots.length).toBeGreaterThan(3);
+    if (k === 1) {
+      const c = order1Gap(x, y, w, r.fitted, lam);
+      expect(c.boxScale - 1).toBeLessThan(1e-6);
+      expect(c.relativeGap).toBeLessThan(1e-8);
+    } else {
+      const c = orderKCertificate(x, y, w, r.fitted, k, lam, r.knots);
+      expect(c.worstOffPiece).toBeLessThan(1e-9);
+      expect(c.worstChange).toBeLessThan(1e-5);
+      expect(c.boxScale - 1).toBeLessThan(1e-6);
+      expect(c.relativeGap).toBeLessThan(1e-8);
+    }
+  });
+
+  test('not tried on fewer than COARSE_FROM points, nor below COARSE_SMALLEST of the largest penalty', () => {
+    const short = longSeries(COARSE_FROM - 1, 2044);
+    const s1 = seriesFromArrays(short.x, short.y, short.w);
+    const r1 = fitTrend(s1, { order: 1, penalty: 1e-3 * trendPenaltyMax(s1, { order: 1 }) });
+    expect(r1.solver.converged).toBe(true);
+    expect(r1.solver.stoppingRule).not.toBe(COARSE_RULE);
+    const long = longSeries(5000, 2045);
+    const s2 = seriesFromArrays(long.x, long.y, long.w);
+    const r2 = fitTrend(s2, { order: 3, penalty: 0.5 * COARSE_SMALLEST * trendPenaltyMax(s2, { order: 3 }) });
+    expect(r2.solver.converged).toBe(true);
+    expect(r2.solver.stoppingRule).not.toBe(COARSE_RULE);
+    // the same series at a larger penalty does start there
+    const r3 = fitTrend(s2, { order: 3, penalty: 1e-4 * trendPenaltyMax(s2, { order: 3 }) });
+    expect(r3.solver.stoppingRule).toBe(COARSE_RULE);
   });
 });

@@ -190,6 +190,9 @@ interface SolveContext {
  *    fit) or a converged `warm` fit, the primal-dual active-set method (Hintermueller, Ito &
  *    Kunisch 2002) from those knots, finished if it cycles by the monotone refinement, each
  *    result kept only with its duality-gap certificate.
+ * 2c. {@link fromCoarseGuess} (orders 1 to 3, a single fit from nothing on at least
+ *    {@link COARSE_FROM} points): the same problem on every {@link COARSE_STEP}th point by the
+ *    interior point, and strategy 2b from its knots.
  * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}).
  *    With `refine` false (cross-validation folds) a converged one is returned as it is. Else,
  *    when it converges, the active-set Newton method ({@link activeSetNewton}, at most
@@ -204,8 +207,8 @@ interface SolveContext {
  *    {@link fromPolynomial}), each only while no answer is certified at the tolerance.
  *
  * Every refinement on x mapped to [0, 1] shares one discrete B-spline basis cache on the
- * problem ({@link BasisCache}). `status.iterations` counts interior-point iterations, ADMM
- * iterations and restricted solves together.
+ * problem ({@link BasisCache}). `status.iterations` counts interior-point iterations (the coarse
+ * series' included), ADMM iterations and restricted solves together.
  *
  * Knot rows: k = 0, the rows where b jumps (exact); k >= 1 after a successful refinement, the
  * rows where D b is non-zero (exact zeros elsewhere); otherwise rows with
@@ -216,7 +219,7 @@ export function solveTrend(prob: TrendProblem, lambda: number, opt: SolveTrendOp
   const exact = exactFit(prob, lambda, opt.tolerance);
   if (exact) return exact;
   const ctx = contextOf(prob, lambda, opt);
-  if (!opt.interiorFirst || opt.refine !== false) return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? interiorPointThenRefine(ctx);
+  if (!opt.interiorFirst || opt.refine !== false) return fromSeed(ctx) ?? fromWarmActiveSet(ctx) ?? fromCoarseGuess(ctx) ?? interiorPointThenRefine(ctx);
   // strategy 1b (folds only): the interior point from a cold start. Converged, strategy 3 returns it as
   // it is; stalled, the active-set method runs, and strategy 3 after it starts from this solve
   if (!prob.op) prob.op = trendOperator(prob.x, prob.w, prob.k);
@@ -288,7 +291,7 @@ const WARM_POLISH_ROUNDS_HIGHER = 200;
  * smallest penalties of order 3, where the interior point stalls, it is what converges. A fold fit
  * (no refinement wanted) stops at the first round certified at the tolerance. Unchecked.
  */
-function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
+function fromWarmActiveSet(ctx: SolveContext, rule = WARM_RULE, polishRounds?: number): TrendFit | undefined {
   const { warm, guess, refine = true, tolerance } = ctx.opt;
   const { prob, lambda, f } = ctx;
   if (prob.k < 1) return undefined;
@@ -303,11 +306,110 @@ function fromWarmActiveSet(ctx: SolveContext): TrendFit | undefined {
   if (!(pol && certifiedAt(pol, tolerance))) {
     // orders 2 and 3: knots move further between penalties and between the full data and a fold
     // (measured: 60 to 200 rounds from the previous knots at n = 1e4, about 3 per knot)
-    const maxRounds = prob.k === 1 ? WARM_POLISH_ROUNDS : WARM_POLISH_ROUNDS_HIGHER + 3 * start.rows.length;
+    const maxRounds = polishRounds ?? (prob.k === 1 ? WARM_POLISH_ROUNDS : WARM_POLISH_ROUNDS_HIGHER + 3 * start.rows.length);
     const from = asn ?? start;
     pol = refineFromKnots(ctx, from.rows, from.signs, maxRounds, refine ? 0 : tolerance);
   }
-  return pol && certifiedAt(pol, tolerance) ? refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds, undefined, WARM_RULE) : undefined;
+  return pol && certifiedAt(pol, tolerance) ? refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds, undefined, rule) : undefined;
+}
+
+/** Every this many points make the coarse series of {@link fromCoarseGuess}. */
+export const COARSE_STEP = 10;
+
+/** {@link fromCoarseGuess} runs from this many points (its coarse series then has 100). */
+export const COARSE_FROM = 1000;
+
+/**
+ * {@link fromCoarseGuess} gives up when the coarse fit has knots at more than this share of its
+ * rows: knots that dense (order 3 at small penalties) are not where the full series has them, and
+ * the active-set method and refinement from them took far longer than the interior point.
+ */
+export const COARSE_DENSEST = 0.25;
+
+/**
+ * Below this share of lambda_max {@link fromCoarseGuess} is not tried: its coarse fit would be too
+ * dense. Measured on four series of 30,000 points (noise, a random walk, the bench's two series),
+ * the coarse fit had knots on 74% to 100% of its rows at 1e-12 lambda_max for order 3 and on all of
+ * them for order 2 (at 1e-10: 21% to 89% and 93% to 100%).
+ */
+export const COARSE_SMALLEST = 1e-11;
+
+/**
+ * The coarse interior point's knots are used when its relative gap is at most this, converged or
+ * not: order 1 at large penalties stalls short of the tolerance on the coarse series as on the
+ * full one (a gap of 1.5e-6 on a random walk of 3,000 points at a tenth of lambda_max), and its
+ * knots are still a start a few rows off.
+ */
+export const COARSE_USEFUL_GAP = 1e-4;
+
+/**
+ * Round limit of the refinement after the active-set rounds from the coarse knots, orders 2 and 3
+ * (order 1 keeps {@link WARM_POLISH_ROUNDS}): the previous penalty's limit, 200 plus 3 per starting
+ * knot, but at most this, so that a start that does not suit costs a bounded number of solves. The
+ * starts that succeeded on 120 fits of orders 2 and 3 (six series of 3,000 and 30,000 points, five
+ * penalties each) took at most about 240 solves all told; with a limit of 60 rounds for every
+ * order, those that succeeded fell from 48 to 28 of the 60 order-2 fits and from 32 to 22 of order 3's.
+ */
+export const COARSE_POLISH_ROUNDS = 400;
+
+/**
+ * The coarse penalty per order, times lambda / 10 / c^k: order 1 takes a larger one. With the same
+ * factor (1) for every order, the coarse fit of order 1 on long noisy series had about twice the
+ * knots of the full fit (1,753 against 798 on 1e6 points of the bench's series at lambda 1,000),
+ * and the rounds from them failed there (the interior point then took over after 1.4 s); with
+ * sqrt(10) they succeed (1.9 to 2.6 s for the fit instead of 3.8 to 4.7 s), and over 60 fits of
+ * order 1 on six series (3,000 and 30,000 points, five penalties each) the total time was about the
+ * same as with 1 or 10. Order 2 did best with 1 (1,126 ms against 1,262 and 1,413 ms over its 60
+ * fits), order 3 about the same with any.
+ */
+export const COARSE_PENALTY_FACTOR = [1, Math.sqrt(10), 1, 1];
+
+export const COARSE_RULE = `${WARM_RULE}; started from the knots of the same problem on every ${COARSE_STEP}th point, solved by the interior point`;
+
+/**
+ * Strategy 2c: a single fit with nothing to start from (no previous penalty, no seed or guess)
+ * on at least {@link COARSE_FROM} points solves the same problem on every {@link COARSE_STEP}th
+ * point first (the dual interior point, {@link trendDualInteriorPoint}), and starts the active-set method and
+ * refinement of {@link fromWarmActiveSet} on the full series from that fit's knots, each moved
+ * to the full series' row of the same point. The coarse problem keeps x in the same units and
+ * the same penalty per unit of data: half the weighted squares of every 10th point are a tenth
+ * of the full sum, so its penalty is lambda / 10, then scaled with x to unit mean spacing (D b
+ * gains a factor c^k when x is divided by c). A multigrid-style warm start: the coarse knots
+ * are an active set displaced by a few rows, what the sliding rounds of {@link activeSetNewton}
+ * are for. Kept only with its duality-gap certificate, like every strategy; undefined (the
+ * interior point takes over) when the coarse fit's gap is above {@link COARSE_USEFUL_GAP}, it has knots on more than
+ * {@link COARSE_DENSEST} of its rows, or the rounds and refinement from them fail.
+ * Unchecked.
+ */
+function fromCoarseGuess(ctx: SolveContext): TrendFit | undefined {
+  const { prob, lambda, opt } = ctx;
+  const { x, y, w, k } = prob;
+  const n = x.length;
+  if (k < 1 || n < COARSE_FROM || opt.warm || opt.guess || opt.seed || opt.refine === false || lambda < COARSE_SMALLEST * ctx.poly.lambdaMax) return undefined;
+  const nc = Math.floor((n - 1) / COARSE_STEP) + 1;
+  const xc = new Float64Array(nc), yc = new Float64Array(nc), wc = new Float64Array(nc);
+  everyNthPoint(x, y, w, COARSE_STEP, xc, yc, wc);
+  // x to unit mean spacing, and lambda / COARSE_STEP (the data term's share) times c^k for x / c
+  const c = (xc[nc - 1] - xc[0]) / (nc - 1);
+  dividedInto(xc, c, xc);
+  const lc = (COARSE_PENALTY_FACTOR[k] * lambda) / COARSE_STEP / Math.pow(c, k);
+  const cp: TrendProblem = { x: xc, y: yc, w: wc, k };
+  cp.op = trendOperator(xc, wc, k);
+  const coarse = trendDualInteriorPoint(cp.op, yc, lc, opt.tolerance, opt.maxIterations);
+  ctx.iterations += coarse.status.iterations;
+  if (!(coarse.status.achieved <= COARSE_USEFUL_GAP)) return undefined;
+  const knots = knotRowsOf(cp, coarse.b, coarse.u, lc);
+  if (knots.length > COARSE_DENSEST * (nc - k - 1)) return undefined;
+  // coarse row r is the knot at coarse point r + k, full point COARSE_STEP (r + k), full row that minus k
+  const rows: number[] = [], signs: number[] = [];
+  for (const r of knots) {
+    const row = COARSE_STEP * (r + k) - k;
+    if (row < n - k - 1 && (rows.length === 0 || rows[rows.length - 1] < row)) { rows.push(row); signs.push(coarse.u[r] < 0 ? -1 : 1); }
+  }
+  const sub: SolveContext = { ...ctx, opt: { ...opt, guess: { rows, signs } } };
+  const fit = fromWarmActiveSet(sub, COARSE_RULE, k === 1 ? WARM_POLISH_ROUNDS : Math.min(WARM_POLISH_ROUNDS_HIGHER + 3 * rows.length, COARSE_POLISH_ROUNDS));
+  ctx.iterations = sub.iterations;
+  return fit;
 }
 
 /**
@@ -571,6 +673,11 @@ function refinedFit(pol: PolishResult, f: number, lambda: number, tolerance: num
 
 // Loops over the points or rows of the solver's own, each a kernel of its own (DEVELOPERS.md, "Long
 // loops and the first call": inside the long solver they made Node throw its compiled code away). Unchecked.
+
+/** Every step-th point of (x, y, w), from the first, into (xc, yc, wc). Unchecked. */
+function everyNthPoint(x: Float64Array, y: Float64Array, w: Float64Array, step: number, xc: Float64Array, yc: Float64Array, wc: Float64Array): void {
+  for (let i = 0, j = 0; i < xc.length; i++, j += step) { xc[i] = x[j]; yc[i] = y[j]; wc[i] = w[j]; }
+}
 
 /** out_i = (x_i - x_0) / N: x mapped to [0, 1] for N = x_{n-1} - x_0. Unchecked. */
 function toUnitInterval(x: Float64Array, N: number, out: Float64Array): void {
