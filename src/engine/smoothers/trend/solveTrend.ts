@@ -173,6 +173,13 @@ interface SolveContext {
   iterations: number;
   /** With `interiorFirst`: the cold interior-point solve already made, which strategy 3 then starts from. */
   cold?: TrendSolution;
+  /**
+   * The refinement with the smallest gap at this penalty so far, certified or not, shared by the
+   * contexts the strategies copy from this one (a refinement at another penalty, such as the middle
+   * of a halved step, is not recorded): when no strategy certifies a fit, strategy 3 returns it if
+   * it beats the interior point's own answer.
+   */
+  nearest: { lambda: number; pol?: PolishResult };
 }
 
 /**
@@ -456,7 +463,7 @@ export function solveTrendOverHalvedStep(prob: TrendProblem, lambda: number, opt
 
 /** A fresh {@link SolveContext} of one solve. Unchecked. */
 function contextOf(prob: TrendProblem, lambda: number, opt: SolveTrendOptions): SolveContext {
-  return { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0 };
+  return { prob, lambda, opt, poly: polynomialOf(prob), f: Math.pow(prob.x[prob.x.length - 1] - prob.x[0], prob.k), iterations: 0, nearest: { lambda } };
 }
 
 /** Exact answers without iterations: k = 0 (dynamic programming) and lambda >= lambda_max (the polynomial). Unchecked. */
@@ -501,6 +508,7 @@ function refineFromKnots(ctx: SolveContext, rows: ArrayLike<number>, signs: Arra
   for (let j = 0; j < rows.length; j++) start[rows[j]] = (signs[j] >= 0 ? 1 : -1) * (lambda / f);
   const pol = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, maxRounds, rows, cacheOf(prob), stopGap);
   ctx.iterations += pol.rounds;
+  if (ctx.nearest.lambda === lambda) ctx.nearest.pol = ctx.nearest.pol ? better(ctx.nearest.pol, pol) : pol;
   return pol;
 }
 
@@ -598,6 +606,8 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     const restart = certified(pol) ? undefined : fromHalvedStep(ctx, HALVINGS) ?? fromPolynomial(ctx);
     if (restart) return withStatus(restart, { ...restart.status, iterations: restart.status.iterations + sol.status.iterations });
   }
+  // a refinement of an earlier strategy or restart that came close without a certificate
+  if (ctx.nearest.pol) pol = better(pol, ctx.nearest.pol);
   const spent = ctx.iterations + sol.status.iterations + admmIterations;
   if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved) && !(admm && admm.achieved < pol.achieved)) {
     return refinedFit(pol, f, lambda, tolerance, spent - pol.rounds, admm?.state);
