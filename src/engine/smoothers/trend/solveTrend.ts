@@ -329,7 +329,10 @@ export const COARSE_FROM = 1000;
 /**
  * {@link fromCoarseGuess} gives up when the coarse fit has knots at more than this share of its
  * rows: knots that dense (order 3 at small penalties) are not where the full series has them, and
- * the active-set method and refinement from them took far longer than the interior point.
+ * without a limit the active-set method and refinement from them took far longer than the interior
+ * point (order 3 at 1e5 points, coarse knots on 99%, 96% and 71% of the rows: 68.7 s, 13.7 s and
+ * 2.2 s against 0.28 to 0.31 s). Half instead of a quarter was within 2% on 342 fits of orders 1
+ * to 3 (nine series, 1,200 to 50,000 points): the more cautious limit is kept.
  */
 export const COARSE_DENSEST = 0.25;
 
@@ -384,7 +387,7 @@ export const COARSE_PENALTY_FACTOR = [1, Math.sqrt(10), 1, 1];
  */
 export const COARSE_REFINED_DIRECTLY = [false, false, false, true];
 
-export const COARSE_RULE = `${WARM_RULE}; started from the knots of the same problem on every ${COARSE_STEP}th point, solved by the interior point`;
+export const COARSE_RULE = `primal-dual active-set rounds (Hintermueller, Ito & Kunisch 2002; for order 3 the exact active-set refinement alone) started from the knots of the same problem on every ${COARSE_STEP}th point (solved there by the dual interior point), kept only with a duality-gap certificate at most the tolerance: u from D^T u = W (y - b) scaled into the box |u| <= lambda, gap = lambda ||D b||_1 - u.D b plus the cost of the scaling`;
 
 /**
  * Strategy 2c: a single fit with nothing to start from (no previous penalty, no seed or guess)
