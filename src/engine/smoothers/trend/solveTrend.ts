@@ -97,18 +97,17 @@ const FROM_POLYNOMIAL_ROUNDS = 3000;
  */
 const INTERIOR_USEFUL_GAP = 0.5;
 
-/** Rounds of the active-set Newton method started from a converged interior point's knots. */
-const NEWTON_ROUNDS = 8;
-
 /**
- * Those rounds also stop, unsettled, once an active set repeats: the method is deterministic, so it
- * cycles and would never settle (nothing a full run would settle is lost). On 275 such starts
- * (single fits of four series per size at n = 1e3, 3e3, 1e4 and 3e4, orders 1 to 3, six penalties
- * each) the 40 that do not settle within 8 rounds took 242 rounds instead of 309. A rule on progress
- * (stop once the fewest rows changed in a round has not fallen for 3 rounds) would have cut that to
- * 208 with none of those 235 settled fits lost, but an order-2 fit elsewhere (2,000 points) changes
- * 5, 7, 9, 7, 11, 6, 4 and 0 rows and settles in the eighth round: not used.
+ * Rounds of the active-set Newton method started from a converged interior point's knots. They
+ * also stop, unsettled, once an active set repeats: the method is deterministic, so it cycles and
+ * would never settle (nothing a full run would settle is lost). On 275 such starts (single fits of
+ * four series per size at n = 1e3, 3e3, 1e4 and 3e4, orders 1 to 3, six penalties each) the 40
+ * that do not settle within 8 rounds took 242 rounds instead of 309. A rule on progress (stop once
+ * the fewest rows changed in a round has not fallen for 3 rounds) would have cut that to 208 with
+ * none of those 235 settled fits lost, but an order-2 fit elsewhere (2,000 points) changes 5, 7,
+ * 9, 7, 11, 6, 4 and 0 rows and settles in the eighth round: not used.
  */
+const NEWTON_ROUNDS = 8;
 
 export const POLY_RULE = 'exact: lambda at or above lambda_max, where the weighted polynomial fit of degree k is the solution (max |u| <= lambda)';
 
@@ -203,8 +202,8 @@ interface SolveContext {
  * 3. {@link interiorPointThenRefine}: the dual interior point ({@link trendDualInteriorPoint}).
  *    With `refine` false (cross-validation folds) a converged one is returned as it is. Else,
  *    when it converges, the active-set Newton method ({@link activeSetNewton}, at most
- *    {@link NEWTON_ROUNDS} rounds, fewer once an active set repeats) starts from its knots and a settled knot set is certified by
- *    one refinement round; otherwise the interior point's own certified answer is returned
+ *    {@link NEWTON_ROUNDS} rounds, fewer once an active set repeats) starts from its knots and a
+ *    settled knot set is certified by one refinement round; otherwise the interior point's own certified answer is returned
  *    (dense knots of order 3, where the refinement's certificate is limited by the precision
  *    of the recovered dual and further rounds were measured to be wasted). When it stalls: for
  *    k = 1 the ADMM of {@link trendAdmm} proposes the knots; then the refinement of
@@ -380,10 +379,9 @@ export const COARSE_PENALTY_FACTOR = [1, Math.sqrt(10), 1, 1];
  * Measured on order 3's fits over nine series (1,200 to 50,000 points, five or six penalties each,
  * warm): 2,054 ms and 2,970 ms on two sets against 2,161 and 3,061 ms for the interior point's
  * route in the same runs, where the rounds first had given 2,207 ms against 2,278 and 3,333 ms
- * against 3,123 (on one series with gaps in x the rounds
- * from 48 coarse knots to an optimum with 146 moved away, 80 to 195 rows per round, and the
- * refinement after them did not finish). Order 2 did worse this way (2,354 ms against 2,090 on
- * the second set), so it keeps the rounds.
+ * against 3,123 (on one series with gaps in x the rounds from 48 coarse knots to an optimum with
+ * 146 moved away, 80 to 195 rows per round, and the refinement after them did not finish). Order 2
+ * did worse this way (2,354 ms against 2,090 on the second set), so it keeps the rounds.
  */
 export const COARSE_REFINED_DIRECTLY = [false, false, false, true];
 
@@ -392,16 +390,18 @@ export const COARSE_RULE = `primal-dual active-set rounds (Hintermueller, Ito & 
 /**
  * Strategy 2c: a single fit with nothing to start from (no previous penalty, no seed or guess)
  * on at least {@link COARSE_FROM} points solves the same problem on every {@link COARSE_STEP}th
- * point first (the dual interior point, {@link trendDualInteriorPoint}), and starts the active-set method and
- * refinement of {@link fromWarmActiveSet} on the full series from that fit's knots, each moved
+ * point first (the dual interior point, {@link trendDualInteriorPoint}), and starts the
+ * active-set method and refinement of {@link fromWarmActiveSet} on the full series from that
+ * fit's knots, each moved
  * to the full series' row of the same point. The coarse problem keeps x in the same units and
  * the same penalty per unit of data: half the weighted squares of every 10th point are a tenth
  * of the full sum, so its penalty is lambda / 10, then scaled with x to unit mean spacing (D b
  * gains a factor c^k when x is divided by c). A multigrid-style warm start: the coarse knots
  * are an active set displaced by a few rows, what the sliding rounds of {@link activeSetNewton}
  * are for. Kept only with its duality-gap certificate, like every strategy; undefined (the
- * interior point takes over) when the coarse fit's gap is above {@link COARSE_USEFUL_GAP}, it has knots on more than
- * {@link COARSE_DENSEST} of its rows, or the rounds and refinement from them fail.
+ * interior point takes over) when the coarse fit's gap is above {@link COARSE_USEFUL_GAP}, it
+ * has knots on more than {@link COARSE_DENSEST} of its rows, or the rounds and refinement from
+ * them fail.
  * Unchecked.
  */
 function fromCoarseGuess(ctx: SolveContext): TrendFit | undefined {
