@@ -1,6 +1,7 @@
 import { maxAbs } from '../../../src/engine/linalg/maxAbs';
 import { sum } from '../../../src/engine/linalg/sum';
 import { scaledInto } from '../../../src/engine/linalg/scaledInto';
+import { dividedInto } from '../../../src/engine/linalg/dividedInto';
 
 describe('maxAbs', () => {
   test('maxAbs returns the largest magnitude, 0 for no entries, and NaN when an entry is NaN', () => {
@@ -30,5 +31,18 @@ describe('scaledInto', () => {
     const v = Float64Array.of(1, 2);
     scaledInto(0.5, v, v, 2);
     expect(Array.from(v)).toEqual([0.5, 1]);
+  });
+});
+
+describe('dividedInto', () => {
+  test('dividedInto writes the first m entries divided by c (a division, not a product with 1 / c) and leaves the rest alone', () => {
+    const to = Float64Array.of(9, 9, 9);
+    dividedInto(Float64Array.of(1, -3, 4), 3, to, 2);
+    expect(Array.from(to)).toEqual([1 / 3, -1, 9]);
+    // in place; 0.1 / 7 and 0.1 * (1 / 7) differ in the last bit: the kernel divides
+    const v = Float64Array.of(0.1, 0.7);
+    dividedInto(v, 7, v, 2);
+    expect(Array.from(v)).toEqual([0.1 / 7, 0.7 / 7]);
+    expect(0.1 / 7).not.toBe(0.1 * (1 / 7));
   });
 });

@@ -9,6 +9,8 @@ import { activeSetNewton } from './activeSetNewton';
 import { maxAbs } from '../../linalg/maxAbs';
 import { applyRows } from '../../linalg/applyRows';
 import { firstDifferenceTranspose } from '../../linalg/difference';
+import { dividedInto } from '../../linalg/dividedInto';
+import { scaledInto } from '../../linalg/scaledInto';
 
 /** A scaled trend-filtering problem: x (unit mean spacing), y, w (scaled) and order k. Unchecked. */
 export interface TrendProblem {
@@ -115,7 +117,10 @@ export const DP_RULE = 'exact dynamic programming (Johnson 2013): no iterations 
 
 export const ACTIVE_SET_RULE = 'exact active-set refinement from a known knot set, kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots';
 
-export const WARM_RULE = 'primal-dual active-set rounds (Hintermueller, Ito & Kunisch 2002) from the previous penalty\'s knots, kept only with a duality-gap certificate at most the tolerance: u from D^T u = W (y - b) scaled into the box |u| <= lambda, gap = lambda ||D b||_1 - u.D b plus the cost of the scaling';
+/** How the active-set strategies certify what they return (the end of their rule texts). */
+const GAP_CERTIFIED = 'kept only with a duality-gap certificate at most the tolerance: u from D^T u = W (y - b) scaled into the box |u| <= lambda, gap = lambda ||D b||_1 - u.D b plus the cost of the scaling';
+
+export const WARM_RULE = `primal-dual active-set rounds (Hintermueller, Ito & Kunisch 2002) from the previous penalty's knots, ${GAP_CERTIFIED}`;
 
 export const TREND_RULE = `${INTERIOR_POINT_RULE}; from its knots, at most ${NEWTON_ROUNDS} rounds of an active-set Newton method (fewer once an active set repeats), whose settled knots are kept only with a duality-gap certificate (else the interior point's answer stands); where the interior point stalls, for order 1 ${ADMM_RULE}, stopping early once ${ADMM_STABLE_ITERATIONS + 1} successive iterations have had the same knots, then an exact active-set refinement kept only with a duality-gap certificate: optimal when every |u| <= lambda up to the precision of u and u = lambda * sign(D b) on the knots`;
 
@@ -153,9 +158,10 @@ export interface SolveTrendOptions {
    */
   guess?: KnotSeed;
   /**
-   * With `guess` and `refine` false: the monotone refinement starts from the guess, without the
-   * primal-dual active-set rounds (order 3's fold fits while the interior point takes the penalties
-   * with many knots: {@link FOLD_GUESS_REFINED_DIRECTLY} in trendPath). Default false.
+   * With `guess`: the monotone refinement starts from the guess, without the primal-dual active-set
+   * rounds (order 3's fold fits while the interior point takes the penalties with many knots:
+   * {@link FOLD_GUESS_REFINED_DIRECTLY} in trendPath; order 3's start from the coarse series,
+   * {@link COARSE_REFINED_DIRECTLY}). Default false.
    */
   refineGuessDirectly?: boolean;
 }
@@ -297,14 +303,14 @@ const WARM_POLISH_ROUNDS_HIGHER = 200;
  * smallest penalties of order 3, where the interior point stalls, it is what converges. A fold fit
  * (no refinement wanted) stops at the first round certified at the tolerance. Unchecked.
  */
-function fromWarmActiveSet(ctx: SolveContext, rule = WARM_RULE, polishRounds?: number, direct?: boolean): TrendFit | undefined {
+function fromWarmActiveSet(ctx: SolveContext, rule = WARM_RULE, mostPolishRounds = Infinity): TrendFit | undefined {
   const { warm, guess, refine = true, tolerance } = ctx.opt;
   const { prob, lambda, f } = ctx;
   if (prob.k < 1) return undefined;
   const start = guess ?? (warm && warm.status.converged ? seedOf(warm) : undefined);
   if (!start) return undefined;
   // the monotone refinement straight from the start: a fold's guess when asked, a path's previous knots by order
-  const skip = direct ?? (guess !== undefined ? !refine && ctx.opt.refineGuessDirectly === true : refine && WARM_REFINED_DIRECTLY[prob.k]);
+  const skip = guess !== undefined ? ctx.opt.refineGuessDirectly === true : refine && WARM_REFINED_DIRECTLY[prob.k];
   const asn = skip ? undefined : activeSetNewton(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start.rows, start.signs, WARM_NEWTON_ROUNDS, cacheOf(prob), refine ? 0 : tolerance, true, WARM_NEWTON_PATIENCE[prob.k], true);
   if (asn) ctx.iterations += asn.rounds;
   let pol = asn?.fit;
@@ -312,7 +318,7 @@ function fromWarmActiveSet(ctx: SolveContext, rule = WARM_RULE, polishRounds?: n
   if (!(pol && certifiedAt(pol, tolerance))) {
     // orders 2 and 3: knots move further between penalties and between the full data and a fold
     // (measured: 60 to 200 rounds from the previous knots at n = 1e4, about 3 per knot)
-    const maxRounds = polishRounds ?? (prob.k === 1 ? WARM_POLISH_ROUNDS : WARM_POLISH_ROUNDS_HIGHER + 3 * start.rows.length);
+    const maxRounds = Math.min(mostPolishRounds, prob.k === 1 ? WARM_POLISH_ROUNDS : WARM_POLISH_ROUNDS_HIGHER + 3 * start.rows.length);
     const from = asn ?? start;
     pol = refineFromKnots(ctx, from.rows, from.signs, maxRounds, refine ? 0 : tolerance);
   }
@@ -352,9 +358,9 @@ export const COARSE_SMALLEST = 1e-11;
 export const COARSE_USEFUL_GAP = 1e-4;
 
 /**
- * Round limit of the refinement after the active-set rounds from the coarse knots, orders 2 and 3
- * (order 1 keeps {@link WARM_POLISH_ROUNDS}): the previous penalty's limit, 200 plus 3 per starting
- * knot, but at most this, so that a start that does not suit costs a bounded number of solves. The
+ * Round limit of the refinement after the active-set rounds from the coarse knots: the previous
+ * penalty's limit ({@link WARM_POLISH_ROUNDS} for order 1; 200 plus 3 per starting knot for orders
+ * 2 and 3), but at most this, so that a start that does not suit costs a bounded number of solves. The
  * starts that succeeded on 120 fits of orders 2 and 3 (six series of 3,000 and 30,000 points, five
  * penalties each) took at most about 240 solves all told; with a limit of 60 rounds for every
  * order, those that succeeded fell from 48 to 28 of the 60 order-2 fits and from 32 to 22 of order 3's.
@@ -385,7 +391,7 @@ export const COARSE_PENALTY_FACTOR = [1, Math.sqrt(10), 1, 1];
  */
 export const COARSE_REFINED_DIRECTLY = [false, false, false, true];
 
-export const COARSE_RULE = `primal-dual active-set rounds (Hintermueller, Ito & Kunisch 2002; for order 3 the exact active-set refinement alone) started from the knots of the same problem on every ${COARSE_STEP}th point (solved there by the dual interior point), kept only with a duality-gap certificate at most the tolerance: u from D^T u = W (y - b) scaled into the box |u| <= lambda, gap = lambda ||D b||_1 - u.D b plus the cost of the scaling`;
+export const COARSE_RULE = `primal-dual active-set rounds (Hintermueller, Ito & Kunisch 2002; for order 3 the exact active-set refinement alone) started from the knots of the same problem on every ${COARSE_STEP}th point (solved there by the dual interior point), ${GAP_CERTIFIED}`;
 
 /**
  * Strategy 2c: a single fit with nothing to start from (no previous penalty, no seed or guess)
@@ -414,23 +420,20 @@ function fromCoarseGuess(ctx: SolveContext): TrendFit | undefined {
   everyNthPoint(x, y, w, COARSE_STEP, xc, yc, wc);
   // x to unit mean spacing, and lambda / COARSE_STEP (the data term's share) times c^k for x / c
   const c = (xc[nc - 1] - xc[0]) / (nc - 1);
-  dividedInto(xc, c, xc);
+  dividedInto(xc, c, xc, nc);
   const lc = (COARSE_PENALTY_FACTOR[k] * lambda) / COARSE_STEP / Math.pow(c, k);
-  const cp: TrendProblem = { x: xc, y: yc, w: wc, k };
-  cp.op = trendOperator(xc, wc, k);
-  const coarse = trendDualInteriorPoint(cp.op, yc, lc, opt.tolerance, opt.maxIterations);
+  const cp: TrendProblem = { x: xc, y: yc, w: wc, k, op: trendOperator(xc, wc, k) };
+  const coarse = trendDualInteriorPoint(cp.op!, yc, lc, opt.tolerance, opt.maxIterations);
   ctx.iterations += coarse.status.iterations;
   if (!(coarse.status.achieved <= COARSE_USEFUL_GAP)) return undefined;
   const knots = knotRowsOf(cp, coarse.b, coarse.u, lc);
   if (knots.length > COARSE_DENSEST * (nc - k - 1)) return undefined;
-  // coarse row r is the knot at coarse point r + k, full point COARSE_STEP (r + k), full row that minus k
-  const rows: number[] = [], signs: number[] = [];
-  for (const r of knots) {
-    const row = COARSE_STEP * (r + k) - k;
-    if (row < n - k - 1 && (rows.length === 0 || rows[rows.length - 1] < row)) { rows.push(row); signs.push(coarse.u[r] < 0 ? -1 : 1); }
-  }
-  const sub: SolveContext = { ...ctx, opt: { ...opt, guess: { rows, signs } } };
-  const fit = fromWarmActiveSet(sub, COARSE_RULE, k === 1 ? WARM_POLISH_ROUNDS : Math.min(WARM_POLISH_ROUNDS_HIGHER + 3 * rows.length, COARSE_POLISH_ROUNDS), COARSE_REFINED_DIRECTLY[k]);
+  // coarse row r is the knot at coarse point r + k, full point COARSE_STEP (r + k), full row that
+  // minus k: increasing with r, and at most n - 11 - k since r + k <= nc - 2 and COARSE_STEP (nc - 1) <= n - 1
+  const rows = knots.map((r) => COARSE_STEP * (r + k) - k);
+  const signs = knots.map((r) => (coarse.u[r] < 0 ? -1 : 1));
+  const sub: SolveContext = { ...ctx, opt: { ...opt, guess: { rows, signs }, refineGuessDirectly: COARSE_REFINED_DIRECTLY[k] } };
+  const fit = fromWarmActiveSet(sub, COARSE_RULE, COARSE_POLISH_ROUNDS);
   ctx.iterations = sub.iterations;
   return fit;
 }
@@ -522,10 +525,7 @@ function refineFromKnots(ctx: SolveContext, rows: ArrayLike<number>, signs: Arra
   const n = prob.x.length;
   const start = new Float64Array(n - prob.k - 1);
   for (let j = 0; j < rows.length; j++) start[rows[j]] = (signs[j] >= 0 ? 1 : -1) * (lambda / f);
-  const pol = polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, maxRounds, rows, cacheOf(prob), stopGap);
-  ctx.iterations += pol.rounds;
-  if (ctx.nearest.lambda === lambda) ctx.nearest.pol = ctx.nearest.pol ? better(ctx.nearest.pol, pol) : pol;
-  return pol;
+  return counted(ctx, polishTrend(x01Of(prob), prob.y, prob.w, prob.k, lambda / f, start, maxRounds, rows, cacheOf(prob), stopGap));
 }
 
 /** Strategy 2: an exact fit known by its knots (a path point), rebuilt in a round or two. Unchecked. */
@@ -559,7 +559,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
   // stalled is not, and goes on to the refinement like any other
   if (!refine && sol.status.converged) return trendFit(sol.b, sol.u, lambda, knotRowsOf(prob, sol.b, sol.u, lambda), { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE });
   const u01 = new Float64Array(sol.u.length);
-  dividedInto(sol.u, f, u01);
+  dividedInto(sol.u, f, u01, u01.length);
   let pol: PolishResult = { ok: false, b: sol.b, u: sol.u, knots: [], dKnots: new Float64Array(0), achieved: Infinity, rounds: 0 };
   // a converged interior point knows the knots: start the refinement from them (the rows where
   // D b is non-zero and u is on the bound), not from runs of u near the bound, which merge close knots
@@ -589,11 +589,11 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     const alpha = applyRows(prob.admmRows, k + 1, sol.b, new Float64Array(mt));
     const sc = new Float64Array(mt);
     firstDifferenceTranspose(sol.u, sc, mt - 1);
-    dividedInto(sc, lambda, sc);
+    dividedInto(sc, lambda, sc, mt);
     admm = trendAdmm(x, y, w, k, lambda, tolerance, ADMM_SEED_ITERATIONS, { alpha, s: sc, rho: lambda }, prob.admmRows, ADMM_STABLE_ITERATIONS);
     admmIterations = admm.status.iterations;
     const ua = new Float64Array(admm.u.length);
-    dividedInto(admm.u, f, ua);
+    dividedInto(admm.u, f, ua, ua.length);
     pol = counted(ctx, polishTrend(x01, y, w, k, lambda / f, ua, undefined, admm.knots, cache));
     if (certifiedAt(pol, tolerance)) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations + admmIterations, admm.state);
   }
@@ -610,7 +610,7 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     if (cold.status.achieved < sol.status.achieved) sol = cold;
     sol = { ...sol, status: { ...sol.status, iterations: iters } };
     if (!sol.status.converged) {
-      dividedInto(sol.u, f, u01);
+      dividedInto(sol.u, f, u01, u01.length);
       pol = better(pol, fromInterior());
     }
   }
@@ -622,7 +622,8 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     const restart = certified(pol) ? undefined : fromHalvedStep(ctx, HALVINGS) ?? fromPolynomial(ctx);
     if (restart) return withStatus(restart, { ...restart.status, iterations: restart.status.iterations + sol.status.iterations });
   }
-  // a refinement of an earlier strategy or restart that came close without a certificate
+  // every refinement of this solve, the earlier strategies' and the restarts' included, that came
+  // close without a certificate
   if (ctx.nearest.pol) pol = better(pol, ctx.nearest.pol);
   const spent = ctx.iterations + sol.status.iterations + admmIterations;
   if (pol.ok && (pol.achieved <= tolerance || pol.achieved <= sol.status.achieved) && !(admm && admm.achieved < pol.achieved)) {
@@ -646,9 +647,14 @@ function better(a: PolishResult, b: PolishResult): PolishResult {
   return b.ok && (!a.ok || b.achieved < a.achieved) ? b : a;
 }
 
-/** Adds a refinement's rounds to the work count of the solve. Unchecked. */
+/**
+ * Adds a refinement's rounds to the work count of the solve, and keeps it as the solve's nearest
+ * refinement when it is at the solve's penalty with a smaller gap ({@link SolveContext.nearest}). Unchecked.
+ */
 function counted(ctx: SolveContext, pol: PolishResult): PolishResult {
   ctx.iterations += pol.rounds;
+  const near = ctx.nearest;
+  if (near.lambda === ctx.lambda) near.pol = near.pol ? better(near.pol, pol) : pol;
   return pol;
 }
 
@@ -710,15 +716,10 @@ function toUnitInterval(x: Float64Array, N: number, out: Float64Array): void {
   for (let i = 0; i < x.length; i++) out[i] = (x[i] - x[0]) / N;
 }
 
-/** out_r = v_r / c over out's length. Unchecked. */
-function dividedInto(v: Float64Array, c: number, out: Float64Array): void {
-  for (let r = 0; r < out.length; r++) out[r] = v[r] / c;
-}
-
-/** A copy of v times c (a plain loop: a typed array's `from` with a mapping function is several times slower). Unchecked. */
+/** A copy of v times c ({@link scaledInto}: a typed array's `from` with a mapping function is several times slower). Unchecked. */
 function scaledCopy(v: Float64Array, c: number): Float64Array {
   const out = new Float64Array(v.length);
-  for (let i = 0; i < v.length; i++) out[i] = v[i] * c;
+  scaledInto(c, v, out, v.length);
   return out;
 }
 

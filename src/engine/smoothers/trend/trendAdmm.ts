@@ -42,6 +42,7 @@ import { constantFitObjective } from './constantFitObjective';
 import { KnotwiseError } from '../../errors';
 import { maxAbs } from '../../linalg/maxAbs';
 import { scaledInto } from '../../linalg/scaledInto';
+import { dividedInto } from '../../linalg/dividedInto';
 
 /** The stopping rule of {@link trendAdmm}, as reported in SolverStatus. */
 export const ADMM_RULE = 'ADMM (Ramdas and Tibshirani 2016) until the relative duality gap of the iterate against the fused-lasso dual scaled into the box, (P(b) - G(v)) / max(P(b), 1e-12 * null deviance), is at most the tolerance';
@@ -268,7 +269,7 @@ function certificate(x: Float64Array, y: Float64Array, w: Float64Array, k: numbe
   const db = differenceOperator(x, k + 1, b, work);
   const obj = rss + lambda * absoluteSum(db, m);
   const dual = yg / f - (0.5 * gg) / (f * f);
-  if (f > 1) divideInPlace(v, f, m);
+  if (f > 1) dividedInto(v, f, v, m);
   return Math.max(obj - dual, 0) / Math.max(obj, floor);
 }
 
@@ -305,11 +306,6 @@ function absoluteSum(d: Float64Array, m: number): number {
   let t = 0;
   for (let r = 0; r < m; r++) t += Math.abs(d[r]);
   return t;
-}
-
-/** v /= f on the first m entries. Unchecked. */
-function divideInPlace(v: Float64Array, f: number, m: number): void {
-  for (let r = 0; r < m; r++) v[r] /= f;
 }
 
 /** Relative size of a jump of alpha counted as a knot (the fused-lasso step gives exact ties elsewhere). */
