@@ -2,6 +2,7 @@ import { maxAbs } from '../../../src/engine/linalg/maxAbs';
 import { sum } from '../../../src/engine/linalg/sum';
 import { scaledInto } from '../../../src/engine/linalg/scaledInto';
 import { dividedInto } from '../../../src/engine/linalg/dividedInto';
+import { maxAbsDifference } from '../../../src/engine/linalg/maxAbsDifference';
 
 describe('maxAbs', () => {
   test('maxAbs returns the largest magnitude, 0 for no entries, and NaN when an entry is NaN', () => {
@@ -44,5 +45,15 @@ describe('dividedInto', () => {
     dividedInto(v, 7, v, 2);
     expect(Array.from(v)).toEqual([0.1 / 7, 0.7 / 7]);
     expect(0.1 / 7).not.toBe(0.1 * (1 / 7));
+  });
+});
+
+describe('maxAbsDifference', () => {
+  test('maxAbsDifference returns the largest |a_i - b_i| over the first m entries, 0 for m = 0, and NaN when a difference is NaN', () => {
+    expect(maxAbsDifference(Float64Array.of(1, 5, -2), Float64Array.of(2, 2, 2), 3)).toBe(4);
+    // entries from m on are not read
+    expect(maxAbsDifference(Float64Array.of(1, 5, 100), Float64Array.of(2, 2, 0), 2)).toBe(3);
+    expect(maxAbsDifference(new Float64Array(0), new Float64Array(0), 0)).toBe(0);
+    expect(maxAbsDifference(Float64Array.of(1, NaN), Float64Array.of(1, 0), 2)).toBeNaN();
   });
 });

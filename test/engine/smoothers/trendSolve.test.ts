@@ -4,7 +4,10 @@
  * interior point. Optimality is checked by the dense KKT checker of trendKkt.ts.
  */
 import * as solveTrendModule from '../../../src/engine/smoothers/trend/solveTrend';
-import { solveTrend, seedOf, TrendProblem, KnotSeed, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep, WARM_REFINED_DIRECTLY } from '../../../src/engine/smoothers/trend/solveTrend';
+import { solveTrend, seedOf, TrendProblem, KnotSeed, WARM_RULE, HALVED_RULE, solveTrendOverHalvedStep, WARM_REFINED_DIRECTLY, DUAL_RECOVERY_LIMIT } from '../../../src/engine/smoothers/trend/solveTrend';
+import { trendDualInteriorPoint, trendOperator } from '../../../src/engine/smoothers/trend/trendDualInteriorPoint';
+import { trendScaling } from '../../../src/engine/smoothers/trend/trendScaling';
+import { dualFromResidualByLevel } from '../../../src/engine/linalg/dualFromResidual';
 import * as activeSetNewtonModule from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { trendPath, CV_TOLERANCE, ORDER2_SWITCH_BELOW } from '../../../src/engine/smoothers/trend/trendPath';
 import { seriesFromArrays } from '../../../src/engine/series';
@@ -159,16 +162,22 @@ describe('solveTrend', () => {
   });
 
   test('from a converged interior point, the Newton rounds stop at the first repeated active set (a cycle never settles) and the interior point\'s certified answer stands', () => {
-    // a chirp plus a kinked ramp with noise (seeded), order 3 with dense knots: the method cycles from here
-    const n = 5000, k = 3, lam = 0.01;
-    const rn = seededNormal(1);
-    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n).fill(1);
-    for (let i = 0; i < n; i++) { const t = i / (n - 1); x[i] = i; y[i] = Math.sin(2 * Math.PI * 3 * t * t * t) + (t > 0.6 ? 2 * (t - 0.6) : 0) + 0.2 * rn(); }
+    // seeded: a sine on x with four gaps of 500 spacings, weights 0.2 to 4.2, order 3 at 1e-9 of
+    // lambda_max; the dual recovered from the interior point's own fit is within DUAL_RECOVERY_LIMIT
+    // of lambda here, so the rounds run, and they cycle from this start
+    const n = 1000, k = 3;
+    const rn = seededNormal(n + k + 7);
+    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n);
+    let c = 0;
+    for (let i = 0; i < n; i++) { c += i % Math.floor(n / 4) === 0 && i > 0 ? 500 : 1; x[i] = c; w[i] = 0.2 + (i % 5); }
+    for (let i = 0; i < n; i++) y[i] = Math.sin(x[i] / 300) + 0.3 * rn();
+    const sc = trendScaling(seriesFromArrays(x, y, w), k);
+    const lam = 1e-9 * trendLambdaMax(sc.xs, sc.ys, sc.ws, k);
     const spy = jest.spyOn(activeSetNewtonModule, 'activeSetNewton');
     let fit: ReturnType<typeof solveTrend>;
     let call: Parameters<typeof activeSetNewton>, result: ReturnType<typeof activeSetNewton>;
     try {
-      fit = solveTrend({ x, y, w, k }, lam, { tolerance: 1e-8, maxIterations: 200 });
+      fit = solveTrend({ x: sc.xs, y: sc.ys, w: sc.ws, k }, lam, { tolerance: 1e-8, maxIterations: 200 });
       const j = spy.mock.calls.findIndex((c) => c[7] === 8);
       expect(j).toBeGreaterThanOrEqual(0);
       call = spy.mock.calls[j];
@@ -184,6 +193,44 @@ describe('solveTrend', () => {
     expect(long.changes.slice(0, result.rounds)).toEqual(result.changes);
     expect(fit.status.converged).toBe(true);
     expect(fit.status.achieved).toBeLessThanOrEqual(1e-8);
+  });
+
+  test('from a converged interior point whose own fit gives its dual back only to more than DUAL_RECOVERY_LIMIT of lambda, no Newton round runs and its certified answer comes back (no round could have certified the exact fit there)', () => {
+    // a chirp plus a kinked ramp with noise (seeded), order 3 with dense knots
+    const n = 5000, k = 3, lam = 0.01;
+    const rn = seededNormal(1);
+    const x = new Float64Array(n), y = new Float64Array(n), w = new Float64Array(n).fill(1);
+    for (let i = 0; i < n; i++) { const t = i / (n - 1); x[i] = i; y[i] = Math.sin(2 * Math.PI * 3 * t * t * t) + (t > 0.6 ? 2 * (t - 0.6) : 0) + 0.2 * rn(); }
+    const opt = { tolerance: 1e-8, maxIterations: 200 };
+    // the interior point on its own, as the solve starts it
+    const ip = trendDualInteriorPoint(trendOperator(x, w, k), y, lam, opt.tolerance, opt.maxIterations);
+    expect(ip.status.converged).toBe(true);
+    // the dual recovered from its fit by the level-by-level reference recursion, on x in [0, 1]
+    // (lambda and u scale by f = (x_n - x_1)^k there)
+    const N = x[n - 1] - x[0], f = Math.pow(N, k);
+    const x01 = Float64Array.from(x, (v) => (v - x[0]) / N);
+    const g = Float64Array.from(y, (v, i) => w[i] * (v - ip.b[i]));
+    const rec = dualFromResidualByLevel(x01, k + 1, g).u;
+    let err = 0;
+    for (let r = 0; r < rec.length; r++) err = Math.max(err, Math.abs(rec[r] - ip.u[r] / f));
+    expect(err / (lam / f)).toBeGreaterThan(10 * DUAL_RECOVERY_LIMIT);
+    const spy = jest.spyOn(activeSetNewtonModule, 'activeSetNewton');
+    let fit: ReturnType<typeof solveTrend>;
+    try {
+      fit = solveTrend({ x, y, w, k }, lam, opt);
+      expect(spy.mock.calls.some((c) => c[7] === 8)).toBe(false);
+    } finally {
+      spy.mockRestore();
+    }
+    // the interior point's answer, bit for bit, with its own iterations
+    expect(Array.from(fit.b)).toEqual(Array.from(ip.b));
+    expect(fit.status.iterations).toBe(ip.status.iterations);
+    expect(fit.status.converged).toBe(true);
+    expect(fit.status.achieved).toBe(ip.status.achieved);
+    // the rounds from its knots, run anyway for 60 rounds: no certified fit at the tolerance
+    const signs = fit.knotRows.map((r) => (fit.u[r] >= 0 ? 1 : -1));
+    const long = activeSetNewton(x01, y, w, k, lam / f, fit.knotRows, signs, 60);
+    expect(long.fit !== undefined && long.fit.achieved <= opt.tolerance).toBe(false);
   });
 
   test('order 2: a Newton start whose fewest changed rows stalls for several rounds before it settles is still followed to the exact fit', () => {
