@@ -132,8 +132,9 @@ const NEWTON_ROUNDS = 8;
  * in 90, whose recovered dual was within 9.7e-8 of lambda; 219 starts were above 1e-6, none of them
  * kept, and their rounds took 2.2 s of the 6.2 s of all 375 solves (one process, after the first).
  * Checked on another 371 (n = 2e3, 5e3 and 3e4): 136 kept, within 3.7e-7 (the largest seen), 144
- * above the limit, none kept, 1.9 of 8.7 s. The settled fits' excess was 1e-2 to 1e2 times this
- * measure, hence the margin.
+ * above the limit, none kept, 1.9 of 8.7 s. A settled fit's excess was from a hundredth to a few
+ * thousand times this measure, hence the margin (3e-7 would have lost one kept fit there). The
+ * measure is one pass over the data ({@link residualDual}).
  */
 export const DUAL_RECOVERY_LIMIT = 1e-6;
 
