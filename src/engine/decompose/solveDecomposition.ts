@@ -39,6 +39,7 @@ import { differenceOperator } from '../linalg/difference';
 import { basisCache } from '../basis/discreteBSplines';
 import { activeSetDecomposition } from './polishDecomposition';
 import { smallSpdSolve } from '../linalg/smallSpdSolve';
+import { maxAbsDifference } from '../linalg/maxAbsDifference';
 
 /** Solution of {@link solveDecomposition} in the scaled units it was given. */
 export interface DecompositionFit {
@@ -248,8 +249,7 @@ export function solveDecomposition(x: Float64Array, y: Float64Array, w: Float64A
     // (the point reached by mixing is close to, but not itself, a plain step's output)
     for (let extra = 0; extra < 20; extra++) {
       const g = F(t);
-      let d = 0;
-      for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(g[i] - t[i]));
+      const d = maxAbsDifference(g, t, n);
       change = d;
       t = g;
       cycles++;

@@ -49,6 +49,7 @@ import { weightedPolynomialFit } from '../../linalg/weightedPolynomialFit';
 import { mixedAdmm, mixedOperators, MixedAdmmState, MixedOperators } from './mixedAdmm';
 import { smallSpdSolve } from '../../linalg/smallSpdSolve';
 import { mixedDualInteriorPoint, mixedDualOperator, MixedDualOperator } from './mixedDualInteriorPoint';
+import { maxAbsDifference } from '../../linalg/maxAbsDifference';
 
 /** Solution of {@link solveMixed} in the scaled units it was given. */
 export interface MixedFit {
@@ -238,8 +239,7 @@ export function solveMixed(probs: MixedProblems, y: Float64Array, lambda1: numbe
     // plain steps from the converged point until one moves the kinks by at most the tolerance
     for (let extra = 0; extra < 20; extra++) {
       const g = F(a);
-      let d = 0;
-      for (let i = 0; i < n; i++) d = Math.max(d, Math.abs(g[i] - a[i]));
+      const d = maxAbsDifference(g, a, n);
       change = d;
       a = g;
       cycles++;

@@ -236,9 +236,11 @@ interface SolveContext {
  *    With `refine` false (cross-validation folds) a converged one is returned as it is. Else,
  *    when it converges, the active-set Newton method ({@link activeSetNewton}, at most
  *    {@link NEWTON_ROUNDS} rounds, fewer once an active set repeats) starts from its knots and a
- *    settled knot set is certified by one refinement round; otherwise the interior point's own certified answer is returned
- *    (dense knots of order 3, where the refinement's certificate is limited by the precision
- *    of the recovered dual and further rounds were measured to be wasted). When it stalls: for
+ *    settled knot set is certified by one refinement round; otherwise the interior point's own
+ *    certified answer is returned (dense knots of order 3, where the refinement's certificate is
+ *    limited by the precision of the recovered dual and further rounds were measured to be wasted).
+ *    The rounds are not run at all when the dual recovered from the interior point's own fit is
+ *    more than {@link DUAL_RECOVERY_LIMIT} of lambda from its dual: no round could certify there. When it stalls: for
  *    k = 1 the ADMM of {@link trendAdmm} proposes the knots; then the refinement of
  *    {@link polishTrend} (unless the interior point made no progress) and restarts (cold interior
  *    point, the previous penalty's knots, the warm start over a halved step of
