@@ -13,6 +13,8 @@
  *   measure), and the process's peak resident memory per point. Both objectives 1/2 sum (y - b)^2 + lambda sum |D b| are computed here
  *   from the fitted values by the same code, with their relative excess over the smaller, so
  *   a faster answer short of the optimum cannot pass for a win;
+ * - the first-call floor ({@link firstCallFloor}): a plain interior point for order 1 with no engine
+ *   code, timed like Knotwise's fits at n = 1e4 on the same series and penalties;
  * - single penalty (1e-3 lambda_max, penalty given, uneven x) for k = 1 and 3 at n = 1e3 .. 1e5:
  *   time of the first call and median of 3 repeats (n <= 1e5; 1e6 is in the side-by-side), iterations (interior-point iterations + ADMM iterations + refinement rounds),
  *   relative duality gap reached, knots, heap growth;
@@ -35,6 +37,7 @@ import { fitTrend, trendPenaltyMax } from '../../src/engine/smoothers/trend';
 import { fitSpline } from '../../src/engine/smoothers/spline';
 import { seriesFromArrays, Series } from '../../src/engine/series';
 import { doppler, blocks, seededNormal, noisyTestFunction } from '../engine/smoothers/trendTestFunctions';
+import { minimalTrendInteriorPoint } from './firstCallFloor';
 import { execFileSync, spawnSync } from 'child_process';
 import * as fs from 'fs';
 import * as os from 'os';
@@ -158,9 +161,13 @@ export function trendObjective(x: Float64Array, y: Float64Array, b: ArrayLike<nu
 
 /**
  * One fit in this (fresh) process, written to stdout as JSON: called by {@link knotwiseFresh}
- * through `node -e`, so that the time includes compiling the solver on the first call.
+ * through `node -e`, so that the time includes compiling the solver on the first call. Then, below
+ * 1e6 points, the same fit `again` more times in the same process (compiled code, as in the pane's
+ * warmed workers or a batch after its first column): `compiledSeconds` and `compiledCpuSeconds` are
+ * their medians, and `compiledSame` says whether every repeat's fitted values equal the first fit's
+ * bit for bit (the engine keeps no state between calls, so a repeat does no less work).
  */
-export function childFit(n: number, k: number, lambda: number): void {
+export function childFit(n: number, k: number, lambda: number, again = 0): void {
   const { x, y } = sideBySideSeries(n);
   const s = seriesFromArrays(x, y);
   const c0 = process.cpuUsage();
@@ -168,14 +175,28 @@ export function childFit(n: number, k: number, lambda: number): void {
   const r = fitTrend(s, { order: k, penalty: lambda });
   const seconds = (now() - t0) / 1000;
   const cu = process.cpuUsage(c0);
-  // peak resident memory of the whole process (Node itself is about 40 MB)
-  const out = { seconds, cpuSeconds: (cu.user + cu.system) / 1e6, maxRssBytes: process.resourceUsage().maxRSS * 1024, objective: trendObjective(x, y, r.fitted, k, lambda), achieved: r.solver.achieved, converged: r.solver.converged, iterations: r.solver.iterations, knots: r.knots.length };
+  // peak resident memory of the whole process (Node itself is about 40 MB), before the repeats
+  const out: Record<string, unknown> = { seconds, cpuSeconds: (cu.user + cu.system) / 1e6, maxRssBytes: process.resourceUsage().maxRSS * 1024, objective: trendObjective(x, y, r.fitted, k, lambda), achieved: r.solver.achieved, converged: r.solver.converged, iterations: r.solver.iterations, knots: r.knots.length };
+  if (again > 0) {
+    const wall: number[] = [], cpu: number[] = [];
+    let same = true;
+    for (let a = 0; a < again; a++) {
+      const c1 = process.cpuUsage();
+      const t1 = now();
+      const ra = fitTrend(seriesFromArrays(x, y), { order: k, penalty: lambda });
+      wall.push((now() - t1) / 1000);
+      const ca = process.cpuUsage(c1);
+      cpu.push((ca.user + ca.system) / 1e6);
+      for (let i = 0; i < n && same; i++) if (!Object.is(ra.fitted[i], r.fitted[i])) same = false;
+    }
+    Object.assign(out, { compiledSeconds: median(wall), compiledCpuSeconds: median(cpu), compiledSame: same });
+  }
   process.stdout.write(JSON.stringify(out) + '\n');
 }
 
 /** {@link childFit} in a fresh Node process; null when it fails or passes `timeoutSeconds`. */
-function knotwiseFresh(n: number, k: number, lambda: number, timeoutSeconds: number): { seconds: number; cpuSeconds: number; maxRssBytes: number; objective: number; achieved: number; converged: boolean; iterations: number; knots: number } | null {
-  const code = `require(${JSON.stringify(__filename)}).childFit(${n}, ${k}, ${lambda})`;
+function knotwiseFresh(n: number, k: number, lambda: number, timeoutSeconds: number, again = 0): { seconds: number; cpuSeconds: number; maxRssBytes: number; objective: number; achieved: number; converged: boolean; iterations: number; knots: number; compiledSeconds?: number; compiledCpuSeconds?: number; compiledSame?: boolean } | null {
+  const code = `require(${JSON.stringify(__filename)}).childFit(${n}, ${k}, ${lambda}, ${again})`;
   const r = spawnSync(process.execPath, ['--max-old-space-size=8192', '-e', code], { encoding: 'utf8', timeout: timeoutSeconds * 1000, maxBuffer: 1 << 20 });
   if (r.status !== 0) return null;
   try { return JSON.parse(r.stdout.trim().split('\n').pop()!); } catch { return null; }
@@ -231,6 +252,64 @@ function median(v: number[]): number {
   return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
+/**
+ * {@link minimalTrendInteriorPoint} on the side-by-side series in this (fresh) process, first call
+ * and then `again` more times, written to stdout as JSON: called by {@link firstCallFloor}.
+ */
+export function childFloor(n: number, lambda: number, again: number): void {
+  const { x, y } = sideBySideSeries(n);
+  const c0 = process.cpuUsage();
+  const t0 = now();
+  const r = minimalTrendInteriorPoint(y, lambda, 1e-8, 200);
+  const seconds = (now() - t0) / 1000;
+  const cu = process.cpuUsage(c0);
+  const wall: number[] = [], cpu: number[] = [];
+  for (let a = 0; a < again; a++) {
+    const c1 = process.cpuUsage();
+    const t1 = now();
+    minimalTrendInteriorPoint(y, lambda, 1e-8, 200);
+    wall.push((now() - t1) / 1000);
+    const ca = process.cpuUsage(c1);
+    cpu.push((ca.user + ca.system) / 1e6);
+  }
+  process.stdout.write(JSON.stringify({ seconds, cpuSeconds: (cu.user + cu.system) / 1e6, compiledSeconds: median(wall), compiledCpuSeconds: median(cpu), iterations: r.iterations, gap: r.gap, objective: trendObjective(x, y, r.b, 1, lambda) }) + '\n');
+}
+
+/**
+ * The first-call floor beside the side-by-side rows of order 1 at n = 1e4 (the same series and
+ * penalties): {@link minimalTrendInteriorPoint}, a plain interior point with no engine code, in 5
+ * fresh processes per penalty (medians of its first call and of 5 more calls in each process), with
+ * its relative duality gap and its objective's relative excess over the engine's fit of the same
+ * problem (made in this process, untimed). Skipped when `quick`.
+ */
+export function firstCallFloor(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
+  if (quick) return;
+  const n = 1e4;
+  for (const lambda of [10, 100, 1000]) {
+    const runs: { seconds: number; cpuSeconds: number; compiledSeconds: number; compiledCpuSeconds: number; iterations: number; gap: number; objective: number }[] = [];
+    for (let rep = 0; rep < 5; rep++) {
+      const code = `require(${JSON.stringify(__filename)}).childFloor(${n}, ${lambda}, ${COMPILED_REPEATS})`;
+      const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', timeout: 600_000, maxBuffer: 1 << 20 });
+      if (r.status === 0) { try { runs.push(JSON.parse(r.stdout.trim().split('\n').pop()!)); } catch { /* a broken line counts as a failed run */ } }
+    }
+    const rec: Record<string, unknown> = { bench: 'trend-first-call-floor', order: 1, n, penalty: lambda, repeats: 5, completed: runs.length };
+    if (runs.length) {
+      const { x, y } = sideBySideSeries(n);
+      const ours = trendObjective(x, y, fitTrend(seriesFromArrays(x, y), { order: 1, penalty: lambda }).fitted, 1, lambda);
+      const last = runs[runs.length - 1];
+      Object.assign(rec, { seconds: median(runs.map((v) => v.seconds)), cpuSeconds: median(runs.map((v) => v.cpuSeconds)), compiledSeconds: median(runs.map((v) => v.compiledSeconds)), compiledCpuSeconds: median(runs.map((v) => v.compiledCpuSeconds)), iterations: last.iterations, gap: last.gap, excessOverEngine: (last.objective - ours) / ours });
+    }
+    emit(rec);
+  }
+}
+
+/**
+ * Repeats of each single fit in its fresh process after the first (below 1e6 points), for the
+ * compiled code's time beside the first call's: glmgen's own time is a median of repeats in one R
+ * process, its C code compiled ahead of time.
+ */
+const COMPILED_REPEATS = 5;
+
 /** Knotwise beside glmgen: one record per (order, n, penalty); nothing when glmgen is not installed. `orders` and `only` (sizes) narrow a run by hand. */
 export function sideBySide(emit: (record: Record<string, unknown>) => void, quick: boolean, orders = [1, 3], only?: number[]): void {
   const lib = glmgenLibrary();
@@ -246,13 +325,15 @@ export function sideBySide(emit: (record: Record<string, unknown>) => void, quic
         const g = glmgenFit(lib, y, k, lambda, repeats, 1200);
         const ours: NonNullable<ReturnType<typeof knotwiseFresh>>[] = [];
         for (let r = 0; r < repeats; r++) {
-          const o = knotwiseFresh(n, k, lambda, 1200);
+          const o = knotwiseFresh(n, k, lambda, 1200, n >= 1e6 ? 0 : COMPILED_REPEATS);
           if (o) ours.push(o);
         }
         const rec: Record<string, unknown> = { bench: 'trend-vs-glmgen', order: k, n, penalty: lambda, repeats };
         if (ours.length) {
           const o = ours[ours.length - 1];
           Object.assign(rec, { seconds: median(ours.map((v) => v.seconds)), cpuSeconds: median(ours.map((v) => v.cpuSeconds)), secondsAll: ours.map((v) => v.seconds), maxRssBytesPerPoint: o.maxRssBytes / n, objective: o.objective, achieved: o.achieved, converged: o.converged, iterations: o.iterations, knots: o.knots });
+          const compiled = ours.filter((v) => v.compiledCpuSeconds !== undefined);
+          if (compiled.length) Object.assign(rec, { compiledSeconds: median(compiled.map((v) => v.compiledSeconds!)), compiledCpuSeconds: median(compiled.map((v) => v.compiledCpuSeconds!)), compiledSame: compiled.every((v) => v.compiledSame) });
         } else rec.error = 'Knotwise fit failed or timed out';
         if (g) {
           const gObj = trendObjective(x, y, g.fitted, k, lambda);
@@ -260,6 +341,7 @@ export function sideBySide(emit: (record: Record<string, unknown>) => void, quic
           if (ours.length) {
             const best = Math.min(gObj, rec.objective as number);
             Object.assign(rec, { ratioOursOverGlmgen: (rec.seconds as number) / g.seconds, cpuRatioOursOverGlmgen: (rec.cpuSeconds as number) / g.cpuSeconds, excessOurs: ((rec.objective as number) - best) / best, excessGlmgen: (gObj - best) / best });
+            if (rec.compiledCpuSeconds !== undefined) rec.compiledCpuRatioOursOverGlmgen = (rec.compiledCpuSeconds as number) / g.cpuSeconds;
           }
         } else rec.glmgenError = 'glmgen failed or timed out';
         emit(rec);
@@ -363,6 +445,7 @@ export function cvBench(quick: boolean, sizes = quick ? [1e3] : [1e3, 1e4], orde
 
 export function run(emit: (record: Record<string, unknown>) => void, quick: boolean): void {
   sideBySide(emit, quick);
+  firstCallFloor(emit, quick);
   for (const [n, k] of (quick ? [[100, 1]] : [[100, 1], [200, 1], [150, 2], [400, 2]]) as [number, number][]) {
     const rec = scipyReference(n, k);
     if (rec) emit(rec);
