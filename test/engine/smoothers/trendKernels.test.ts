@@ -7,7 +7,7 @@ import { regressionSplineRefit, evaluateRegressionSpline } from '../../../src/en
 import { differenceTranspose } from '../../../src/engine/linalg/difference';
 import { seededNormal } from './trendTestFunctions';
 import * as restrictedSplineFitModule from '../../../src/engine/basis/restrictedSplineFit';
-import { polishTrend, joiningAtMost, JOINING_AT_LEAST } from '../../../src/engine/smoothers/trend/polishTrend';
+import { polishTrend, joiningAtMost, JOINING_AT_LEAST, gapAgainstDual } from '../../../src/engine/smoothers/trend/polishTrend';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { basisCache } from '../../../src/engine/basis/discreteBSplines';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
@@ -39,6 +39,52 @@ describe('restrictedSplineFit (order 1)', () => {
     rows.forEach((_, j) => rhs.set(2 + j, 0, rhs.get(2 + j, 0) - lam * signs[j]));
     const want = H.mmul(solve(lhs, rhs)).to1DArray();
     for (let i = 0; i < n; i++) expect(b[i]).toBeCloseTo(want[i], 9);
+  });
+});
+
+describe('gapAgainstDual', () => {
+  // P(b) and G(v) formed directly with the dense divided-difference matrix: G(v) is the Lagrangian
+  // 1/2 sum w (y - b)^2 + v.D b at its minimiser b_v = y - W^-1 D^T v (weak duality, common practice)
+  function primalMinusDual(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, b: Float64Array, v: Float64Array): { gap: number; primal: number } {
+    const D = denseDifference(x, k + 1);
+    const n = x.length;
+    const bv = Float64Array.from(y, (yi, i) => yi - D.reduce((s, row, r) => s + row[i] * v[r], 0) / w[i]);
+    let primal = 0, dual = 0;
+    for (let i = 0; i < n; i++) { primal += 0.5 * w[i] * (y[i] - b[i]) ** 2; dual += 0.5 * w[i] * (y[i] - bv[i]) ** 2; }
+    D.forEach((row, r) => {
+      const db = row.reduce((s, c, i) => s + c * b[i], 0), dbv = row.reduce((s, c, i) => s + c * bv[i], 0);
+      primal += lambda * Math.abs(db);
+      dual += v[r] * dbv;
+    });
+    return { gap: primal - dual, primal };
+  }
+
+  test.each([1, 2, 3])('order %i: equals (P(b) - G(v)) / P(b) formed directly, for a restricted fit and any dual point in the box; Infinity for one outside it', (k) => {
+    // seeded uneven x near unit spacing, a kinked signal with noise, weights 0.5 to 2.5, three knots
+    const n = 60;
+    const rn = seededNormal(40 + k);
+    const x = Float64Array.from({ length: n }, (_, i) => i + 0.3 * Math.sin(1.7 * i));
+    const y = Float64Array.from(x, (t) => Math.abs(t - 25) / 5 + Math.sin(t / 4) + 0.3 * rn());
+    const w = Float64Array.from({ length: n }, (_, i) => 0.5 + (i % 3));
+    const lambda = 2;
+    const rows = [12, 30, 44], signs = [1, -1, 1];
+    const sol = restrictedSplineFit(x, y, w, k, lambda, rows, signs)!;
+    let rss = 0;
+    for (let i = 0; i < n; i++) rss += 0.5 * w[i] * (y[i] - sol.b[i]) ** 2;
+    const m = n - k - 1;
+    const v = Float64Array.from({ length: m }, () => lambda * 0.95 * Math.tanh(rn()));
+    const bv = Float64Array.from(y);
+    const dtv = differenceTranspose(x, k + 1, v);
+    for (let i = 0; i < n; i++) bv[i] -= dtv[i] / w[i];
+    const got = gapAgainstDual(lambda, rss, sol.b, w, rows, sol.dA, v, bv);
+    const want = primalMinusDual(x, y, w, k, lambda, sol.b, v);
+    // v is far from the optimum's dual, so the gap is large against P; the direct difference P - G
+    // cancels terms up to about 1e4 times P, so the two agree to about 1e-13 of the gap
+    expect(got).toBeGreaterThan(0);
+    expect(Math.abs(got - want.gap / want.primal)).toBeLessThan(1e-11 * got);
+    const outside = Float64Array.from(v);
+    outside[7] = 1.001 * lambda;
+    expect(gapAgainstDual(lambda, rss, sol.b, w, rows, sol.dA, outside, bv)).toBe(Infinity);
   });
 });
 

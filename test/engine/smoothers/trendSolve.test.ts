@@ -14,7 +14,7 @@ import { seriesFromArrays } from '../../../src/engine/series';
 import { activeSetNewton } from '../../../src/engine/smoothers/trend/activeSetNewton';
 import { trendLambdaMax } from '../../../src/engine/smoothers/trend/trendLambdaMax';
 import { checkTrendKkt, denseDifference } from './trendKkt';
-import { doppler, seededNormal } from './trendTestFunctions';
+import { doppler, blocks, seededNormal } from './trendTestFunctions';
 import { kinksAndWave } from '../../helpers/autoBenchShapes';
 
 const realSolveTrend = solveTrend;
@@ -231,6 +231,62 @@ describe('solveTrend', () => {
     const signs = fit.knotRows.map((r) => (fit.u[r] >= 0 ? 1 : -1));
     const long = activeSetNewton(x01, y, w, k, lam / f, fit.knotRows, signs, 60);
     expect(long.fit !== undefined && long.fit.achieved <= opt.tolerance).toBe(false);
+  });
+
+  test('from a converged interior point, a settled Newton round whose own certificate misses the tolerance is certified by the interior point\'s dual: the exact fit comes back, checked against P - G formed directly', () => {
+    // seeded: Donoho and Johnstone's Blocks on 500 points of [0, 1] with unit noise, order 3 at 1e-8 of
+    // lambda_max (174 knots); the settled round's own dual, recovered from its residual, misses by
+    // more than the tolerance on the knot rows, the interior point's does not
+    const n = 500, k = 3;
+    const rn = seededNormal(n + k + 7);
+    const x = new Float64Array(n), y = new Float64Array(n);
+    for (let i = 0; i < n; i++) { x[i] = i / n; y[i] = (blocks(x[i]) * 7) / 4 + rn(); }
+    const sc = trendScaling(seriesFromArrays(x, y), k);
+    const lam = 1e-8 * trendLambdaMax(sc.xs, sc.ys, sc.ws, k);
+    const opt = { tolerance: 1e-8, maxIterations: 200 };
+    const spy = jest.spyOn(activeSetNewtonModule, 'activeSetNewton');
+    let fit: ReturnType<typeof solveTrend>;
+    let call: Parameters<typeof activeSetNewton>, result: ReturnType<typeof activeSetNewton>;
+    try {
+      fit = solveTrend({ x: sc.xs, y: sc.ys, w: sc.ws, k }, lam, opt);
+      const j = spy.mock.calls.findIndex((c) => c[7] === 8);
+      expect(j).toBeGreaterThanOrEqual(0);
+      call = spy.mock.calls[j];
+      result = spy.mock.results[j].value as ReturnType<typeof activeSetNewton>;
+    } finally {
+      spy.mockRestore();
+    }
+    expect(result.settled).toBe(true);
+    // the same rounds with no outside dual: they settle too, with a certificate above the tolerance
+    const own = activeSetNewton(call[0], call[1], call[2], call[3], call[4], call[5], call[6], 8, undefined, 0, true);
+    expect(own.settled).toBe(true);
+    expect(own.fit!.achieved).toBeGreaterThan(opt.tolerance);
+    // the answer is that settled fit, carrying the interior point's dual
+    const outside = call[13]!;
+    expect(Array.from(result.fit!.u)).toEqual(Array.from(outside.v));
+    expect(Array.from(fit.b)).toEqual(Array.from(own.fit!.b));
+    expect(fit.status.converged).toBe(true);
+    expect(fit.status.achieved).toBeLessThanOrEqual(opt.tolerance);
+    // checked here in the solver's own units (x at unit mean spacing): |u| <= lambda, D b exactly
+    // zero off the knots up to rounding, and the relative gap P(b) - G(u) formed directly from the
+    // dense operator (G(u): the Lagrangian at b_u = y - W^-1 D^T u) within the tolerance
+    const D = denseDifference(sc.xs, k + 1);
+    let umax = 0;
+    for (const v of fit.u) umax = Math.max(umax, Math.abs(v));
+    expect(umax).toBeLessThanOrEqual(lam);
+    const db = D.map((row) => row.reduce((s, c, i) => s + c * fit.b[i], 0));
+    const dmax = Math.max(...db.map(Math.abs));
+    const knots = new Set(fit.knotRows);
+    // off the knots D b is rounding only: about 1e-13 of its largest value here, a hundredth of the bound
+    for (let r = 0; r < db.length; r++) if (!knots.has(r)) expect(Math.abs(db[r])).toBeLessThan(1e-11 * dmax);
+    const bu = Float64Array.from(sc.ys, (yi, i) => yi - D.reduce((s, row, r) => s + row[i] * fit.u[r], 0) / sc.ws[i]);
+    let primal = 0, dual = 0;
+    for (let i = 0; i < n; i++) { primal += 0.5 * sc.ws[i] * (sc.ys[i] - fit.b[i]) ** 2; dual += 0.5 * sc.ws[i] * (sc.ys[i] - bu[i]) ** 2; }
+    D.forEach((row, r) => { primal += lam * Math.abs(db[r]); dual += fit.u[r] * row.reduce((s, c, i) => s + c * bu[i], 0); });
+    expect((primal - dual) / primal).toBeLessThanOrEqual(opt.tolerance);
+    // and it is not the interior point's answer, whose D b has no exact zeros
+    const ip = trendDualInteriorPoint(trendOperator(sc.xs, sc.ws, k), sc.ys, lam, opt.tolerance, opt.maxIterations);
+    expect(Array.from(fit.b)).not.toEqual(Array.from(ip.b));
   });
 
   test('order 2: a Newton start whose fewest changed rows stalls for several rounds before it settles is still followed to the exact fit', () => {

@@ -1,7 +1,7 @@
 import { restrictedSplineFit, refinementStepsFor } from '../../basis/restrictedSplineFit';
 import { roundWork, BasisCache } from '../../basis/discreteBSplines';
 import { residualDual } from '../../linalg/dualFromResidual';
-import { boxRelative, certify, PolishResult } from './polishTrend';
+import { boxRelative, certify, gapAgainstDual, PolishResult } from './polishTrend';
 import { maxAbs } from '../../linalg/maxAbs';
 
 /** Result of {@link activeSetNewton}. */
@@ -58,9 +58,15 @@ export interface ActiveSetNewtonResult {
  * where without it 4 rounds settled; sliding only when the worst row is the one beside the knot
  * split them too).
  *
+ * With `outside` (a dual point v with |v| <= lambda and its fit b_v = y - W^-1 D^T v, such as a
+ * converged interior point's), a settled round whose own certificate misses `outside.within` is
+ * certified against v instead when that gap is smaller ({@link gapAgainstDual}); the result then
+ * carries v as its dual. Its own certificate is limited by the precision of the dual recovered from
+ * the residual (on long series of order 3, or at penalties where knots cover most rows), v's is not.
+ *
  * Works on x scaled to [0, 1]; O(n k^2) per round. Unchecked.
  */
-export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache, stopGap = 0, stopOnRepeat = false, patience = Infinity, slide = false): ActiveSetNewtonResult {
+export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Array, k: number, lambda: number, rows: ArrayLike<number>, signs: ArrayLike<number>, maxRounds: number, cache?: BasisCache, stopGap = 0, stopOnRepeat = false, patience = Infinity, slide = false, outside?: { v: Float64Array; bv: Float64Array; within: number }): ActiveSetNewtonResult {
   const n = x.length;
   const m = n - k - 1;
   const lim = lambda * (1 + boxRelative(n, k));
@@ -96,6 +102,10 @@ export function activeSetNewton(x: Float64Array, y: Float64Array, w: Float64Arra
       const dmax = maxAbs(sol.dA);
       const fit = certify(y, w, lambda, { b: sol.b, u, umax: um, rss, yg, dA: sol.dA, rows: A, dmax }, changed === 0, rounds, stopGap > 0, changed === 0 ? Infinity : stopGap);
       if (fit.ok) fit.b = Float64Array.from(fit.b);
+      if (changed === 0 && fit.ok && outside && !(fit.achieved <= outside.within)) {
+        const g = gapAgainstDual(lambda, rss, fit.b, w, A, sol.dA, outside.v, outside.bv);
+        if (g < fit.achieved) { fit.u = Float64Array.from(outside.v); fit.achieved = g; }
+      }
       if (changed === 0) return { settled: true, rows: A, signs: S, rounds, changes, fit: fit.ok ? fit : undefined };
       if (fit.ok && fit.achieved <= stopGap) return { settled: false, rows: A, signs: S, rounds, changes, fit };
     }

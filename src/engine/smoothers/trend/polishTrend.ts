@@ -355,6 +355,44 @@ export function restrictedGap(lambda: number, delta: number, rss: number, yg: nu
   return obj > 0 ? gap / obj : 0;
 }
 
+/**
+ * The relative duality gap of a restricted solution b against an outside dual point v with
+ * |v| <= lambda, such as a converged interior point's iterate, whose fit b_v = y - W^-1 D^T v is given:
+ *
+ *   P(b) - G(v) = 1/2 ||b - b_v||_W^2 + sum_A (lambda |(D b)_r| - v_r (D b)_r),
+ *
+ * since G(v) is the Lagrangian's minimum over b, reached at b_v, and the Lagrangian is
+ * 1/2 ||.||_W^2-strongly convex (expand 1/2 ||y - b||_W^2 + v.D b about b_v). Both terms are
+ * non-negative for |v| <= lambda and are summed without the cancellation of P against G. D b is
+ * (D b)_A = dA on the rows A and zero elsewhere (the restricted solve's space). It certifies a fit
+ * whose own recovered dual is too imprecise to: on the knot rows that dual should be exactly
+ * +-lambda, and its error there bounds the gap of {@link certify} from below, while the outside v
+ * carries no such error. When b is the exact optimum the gap is at most v's own (P(b) <= P(b_v)).
+ * Relative to P(b) = rss + lambda ||D b||_1; Infinity when |v| exceeds lambda.
+ *
+ * @param rss - 1/2 sum w (y - b)^2
+ * @example
+ * ```ts
+ * gapAgainstDual(lambda, rss, fitted, w, rows, dA, ipFit.u, ipFit.b); // <= the interior point's gap at the optimum
+ * ```
+ * Unchecked.
+ */
+export function gapAgainstDual(lambda: number, rss: number, b: Float64Array, w: Float64Array, rows: ArrayLike<number>, dA: Float64Array, v: Float64Array, bv: Float64Array): number {
+  if (!(maxAbs(v) <= lambda)) return Infinity;
+  let l1 = 0, vd = 0;
+  for (let j = 0; j < rows.length; j++) { l1 += Math.abs(dA[j]); vd += v[rows[j]] * dA[j]; }
+  const gap = 0.5 * weightedSquaredDistance(b, bv, w) + Math.max(lambda * l1 - vd, 0);
+  const obj = rss + lambda * l1;
+  return obj > 0 ? gap / obj : 0;
+}
+
+/** sum w (a - c)^2 over the points. Unchecked. */
+function weightedSquaredDistance(a: Float64Array, c: Float64Array, w: Float64Array): number {
+  let s = 0;
+  for (let i = 0; i < a.length; i++) { const d = a[i] - c[i]; s += w[i] * d * d; }
+  return s;
+}
+
 /** A restricted solution with its recovered dual and the sums of its residual ({@link residualDual}), as {@link certify} takes it. Unchecked. */
 export interface Certifiable {
   b: Float64Array; u: Float64Array;
