@@ -364,10 +364,10 @@ export function restrictedGap(lambda: number, delta: number, rss: number, yg: nu
  * since G(v) is the Lagrangian's minimum over b, reached at b_v, and the Lagrangian is
  * 1/2 ||.||_W^2-strongly convex (expand 1/2 ||y - b||_W^2 + v.D b about b_v). Both terms are
  * non-negative for |v| <= lambda and are summed without the cancellation of P against G. D b is
- * (D b)_A = dA on the rows A and zero elsewhere (the restricted solve's space). It certifies a fit
- * whose own recovered dual is too imprecise to: on the knot rows that dual should be exactly
- * +-lambda, and its error there bounds the gap of {@link certify} from below, while the outside v
- * carries no such error. When b is the exact optimum the gap is at most v's own (P(b) <= P(b_v)).
+ * (D b)_A = dA on the rows A and zero elsewhere (the restricted solve's space). It certifies fits
+ * that their own recovered dual cannot: on the knot rows that dual should be exactly +-lambda, and
+ * its error there bounds the gap of {@link certify} from below, while the outside v carries no such
+ * error. When b is the exact optimum the gap is at most v's own (P(b) <= P(b_v)).
  * Relative to P(b) = rss + lambda ||D b||_1; Infinity when |v| exceeds lambda.
  *
  * @param rss - 1/2 sum w (y - b)^2

@@ -140,9 +140,9 @@ const NEWTON_ROUNDS = 8;
  * limit would end certified after all. Measured on the same seven shapes at n = 1e3, 3e3 and 1e4,
  * orders 1 to 3, 1e-2 to 1e-15 of lambda_max (441 single fits, one process each way): with the limit
  * lifted, 176 of the 189 fits at 1e-10 of lambda_max and below became exact fits instead of 37 (there
- * knots cover nearly every row), none more above 1e-10, and in that run every penalty took longer (order 3 on the
- * bench's side-by-side series at 1e4 and lambda 0.1: 28 to 83 ms warm, its rounds cycling without
- * settling). So the limit stays.
+ * knots cover nearly every row), none more above 1e-10, and in that run every penalty took longer
+ * (order 3 on the bench's side-by-side series at 1e4 and lambda 0.1: 28 to 83 ms warm, its rounds
+ * cycling without settling). So the limit stays.
  */
 export const DUAL_RECOVERY_LIMIT = 1e-6;
 
