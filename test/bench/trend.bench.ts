@@ -170,36 +170,22 @@ export function trendObjective(x: Float64Array, y: Float64Array, b: ArrayLike<nu
 export function childFit(n: number, k: number, lambda: number, again = 0): void {
   const { x, y } = sideBySideSeries(n);
   const s = seriesFromArrays(x, y);
-  const c0 = process.cpuUsage();
-  const t0 = now();
-  const r = fitTrend(s, { order: k, penalty: lambda });
-  const seconds = (now() - t0) / 1000;
-  const cu = process.cpuUsage(c0);
+  const fit = () => fitTrend(s, { order: k, penalty: lambda });
+  const first = timed(fit);
+  const r = first.value;
   // peak resident memory of the whole process (Node itself is about 40 MB), before the repeats
-  const out: Record<string, unknown> = { seconds, cpuSeconds: (cu.user + cu.system) / 1e6, maxRssBytes: process.resourceUsage().maxRSS * 1024, objective: trendObjective(x, y, r.fitted, k, lambda), achieved: r.solver.achieved, converged: r.solver.converged, iterations: r.solver.iterations, knots: r.knots.length };
+  const out: Record<string, unknown> = { seconds: first.seconds, cpuSeconds: first.cpuSeconds, maxRssBytes: process.resourceUsage().maxRSS * 1024, objective: trendObjective(x, y, r.fitted, k, lambda), achieved: r.solver.achieved, converged: r.solver.converged, iterations: r.solver.iterations, knots: r.knots.length };
   if (again > 0) {
-    const wall: number[] = [], cpu: number[] = [];
-    let same = true;
-    for (let a = 0; a < again; a++) {
-      const c1 = process.cpuUsage();
-      const t1 = now();
-      const ra = fitTrend(seriesFromArrays(x, y), { order: k, penalty: lambda });
-      wall.push((now() - t1) / 1000);
-      const ca = process.cpuUsage(c1);
-      cpu.push((ca.user + ca.system) / 1e6);
-      for (let i = 0; i < n && same; i++) if (!Object.is(ra.fitted[i], r.fitted[i])) same = false;
-    }
-    Object.assign(out, { compiledSeconds: median(wall), compiledCpuSeconds: median(cpu), compiledSame: same });
+    const repeats = Array.from({ length: again }, () => timed(fit));
+    const same = repeats.every((a) => a.value.fitted.every((v, i) => Object.is(v, r.fitted[i])));
+    Object.assign(out, { compiledSeconds: median(repeats.map((a) => a.seconds)), compiledCpuSeconds: median(repeats.map((a) => a.cpuSeconds)), compiledSame: same });
   }
   process.stdout.write(JSON.stringify(out) + '\n');
 }
 
 /** {@link childFit} in a fresh Node process; null when it fails or passes `timeoutSeconds`. */
 function knotwiseFresh(n: number, k: number, lambda: number, timeoutSeconds: number, again = 0): { seconds: number; cpuSeconds: number; maxRssBytes: number; objective: number; achieved: number; converged: boolean; iterations: number; knots: number; compiledSeconds?: number; compiledCpuSeconds?: number; compiledSame?: boolean } | null {
-  const code = `require(${JSON.stringify(__filename)}).childFit(${n}, ${k}, ${lambda}, ${again})`;
-  const r = spawnSync(process.execPath, ['--max-old-space-size=8192', '-e', code], { encoding: 'utf8', timeout: timeoutSeconds * 1000, maxBuffer: 1 << 20 });
-  if (r.status !== 0) return null;
-  try { return JSON.parse(r.stdout.trim().split('\n').pop()!); } catch { return null; }
+  return inFreshProcess(`childFit(${n}, ${k}, ${lambda}, ${again})`, timeoutSeconds);
 }
 
 /**
@@ -252,27 +238,39 @@ function median(v: number[]): number {
   return s.length % 2 ? s[h] : 0.5 * (s[h - 1] + s[h]);
 }
 
+/** f() with its wall-clock and CPU seconds in this process (CPU of every thread: Node compiles and collects on others). */
+function timed<T>(f: () => T): { value: T; seconds: number; cpuSeconds: number } {
+  const c0 = process.cpuUsage();
+  const t0 = now();
+  const value = f();
+  const seconds = (now() - t0) / 1000;
+  const cu = process.cpuUsage(c0);
+  return { value, seconds, cpuSeconds: (cu.user + cu.system) / 1e6 };
+}
+
+/**
+ * `call` (an exported function of this file with its arguments, which writes one JSON line) in a
+ * fresh Node process; its last line parsed, or null when the process fails, passes `timeoutSeconds`
+ * or writes no JSON.
+ */
+function inFreshProcess<T>(call: string, timeoutSeconds: number): T | null {
+  const code = `require(${JSON.stringify(__filename)}).${call}`;
+  const r = spawnSync(process.execPath, ['--max-old-space-size=8192', '-e', code], { encoding: 'utf8', timeout: timeoutSeconds * 1000, maxBuffer: 1 << 20 });
+  if (r.status !== 0) return null;
+  try { return JSON.parse(r.stdout.trim().split('\n').pop()!) as T; } catch { return null; }
+}
+
 /**
  * {@link minimalTrendInteriorPoint} on the side-by-side series in this (fresh) process, first call
  * and then `again` more times, written to stdout as JSON: called by {@link firstCallFloor}.
  */
 export function childFloor(n: number, lambda: number, again: number): void {
   const { x, y } = sideBySideSeries(n);
-  const c0 = process.cpuUsage();
-  const t0 = now();
-  const r = minimalTrendInteriorPoint(y, lambda, 1e-8, 200);
-  const seconds = (now() - t0) / 1000;
-  const cu = process.cpuUsage(c0);
-  const wall: number[] = [], cpu: number[] = [];
-  for (let a = 0; a < again; a++) {
-    const c1 = process.cpuUsage();
-    const t1 = now();
-    minimalTrendInteriorPoint(y, lambda, 1e-8, 200);
-    wall.push((now() - t1) / 1000);
-    const ca = process.cpuUsage(c1);
-    cpu.push((ca.user + ca.system) / 1e6);
-  }
-  process.stdout.write(JSON.stringify({ seconds, cpuSeconds: (cu.user + cu.system) / 1e6, compiledSeconds: median(wall), compiledCpuSeconds: median(cpu), iterations: r.iterations, gap: r.gap, objective: trendObjective(x, y, r.b, 1, lambda) }) + '\n');
+  const fit = () => minimalTrendInteriorPoint(y, lambda, 1e-8, 200);
+  const first = timed(fit);
+  const repeats = Array.from({ length: again }, () => timed(fit));
+  const r = first.value;
+  process.stdout.write(JSON.stringify({ seconds: first.seconds, cpuSeconds: first.cpuSeconds, compiledSeconds: median(repeats.map((a) => a.seconds)), compiledCpuSeconds: median(repeats.map((a) => a.cpuSeconds)), iterations: r.iterations, gap: r.gap, objective: trendObjective(x, y, r.b, 1, lambda) }) + '\n');
 }
 
 /**
@@ -286,11 +284,11 @@ export function firstCallFloor(emit: (record: Record<string, unknown>) => void, 
   if (quick) return;
   const n = 1e4;
   for (const lambda of [10, 100, 1000]) {
-    const runs: { seconds: number; cpuSeconds: number; compiledSeconds: number; compiledCpuSeconds: number; iterations: number; gap: number; objective: number }[] = [];
+    type FloorRun = { seconds: number; cpuSeconds: number; compiledSeconds: number; compiledCpuSeconds: number; iterations: number; gap: number; objective: number };
+    const runs: FloorRun[] = [];
     for (let rep = 0; rep < 5; rep++) {
-      const code = `require(${JSON.stringify(__filename)}).childFloor(${n}, ${lambda}, ${COMPILED_REPEATS})`;
-      const r = spawnSync(process.execPath, ['-e', code], { encoding: 'utf8', timeout: 600_000, maxBuffer: 1 << 20 });
-      if (r.status === 0) { try { runs.push(JSON.parse(r.stdout.trim().split('\n').pop()!)); } catch { /* a broken line counts as a failed run */ } }
+      const r = inFreshProcess<FloorRun>(`childFloor(${n}, ${lambda}, ${COMPILED_REPEATS})`, 600);
+      if (r) runs.push(r);
     }
     const rec: Record<string, unknown> = { bench: 'trend-first-call-floor', order: 1, n, penalty: lambda, repeats: 5, completed: runs.length };
     if (runs.length) {
@@ -359,17 +357,12 @@ const CV_OPTIONS = (k: number) => ({ order: k, select: 'cv' as const, folds: 5, 
  */
 export function childCv(n: number, k: number): void {
   const s = benchSeries(n, 77 + n);
-  const c0 = process.cpuUsage();
-  const t0 = now();
-  const r = fitTrend(s, CV_OPTIONS(k));
-  const seconds = (now() - t0) / 1000;
-  const cu = process.cpuUsage(c0);
+  const first = timed(() => fitTrend(s, CV_OPTIONS(k)));
+  const r = first.value;
   const curve = r.criterion.curve!;
   // the same fit again in the same process: compiled code, as in a pane or worksheet session after its first fit
-  const t1 = now();
-  const again = fitTrend(s, CV_OPTIONS(k));
-  const warmSeconds = (now() - t1) / 1000;
-  process.stdout.write(JSON.stringify({ seconds, cpuSeconds: (cu.user + cu.system) / 1e6, warmSeconds, warmSamePenalty: again.penalty === r.penalty, curvePointsConverged: curve.filter((p) => p.converged).length, curvePoints: curve.length, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged }) + '\n');
+  const again = timed(() => fitTrend(s, CV_OPTIONS(k)));
+  process.stdout.write(JSON.stringify({ seconds: first.seconds, cpuSeconds: first.cpuSeconds, warmSeconds: again.seconds, warmSamePenalty: again.value.penalty === r.penalty, curvePointsConverged: curve.filter((p) => p.converged).length, curvePoints: curve.length, chosenPenalty: r.penalty, df: r.df, atEdge: r.criterion.atEdge, converged: r.solver.converged }) + '\n');
 }
 
 /**
@@ -426,11 +419,12 @@ export function cvBench(quick: boolean, sizes = quick ? [1e3] : [1e3, 1e4], orde
   for (const n of sizes) {
     for (const k of orders) {
       const load0 = os.loadavg()[0];
-      const runs: { seconds: number; cpuSeconds: number; warmSeconds: number; warmSamePenalty: boolean; curvePointsConverged: number; curvePoints: number; chosenPenalty: number; df: number; atEdge: boolean; converged: boolean }[] = [];
+      type CvRun = { seconds: number; cpuSeconds: number; warmSeconds: number; warmSamePenalty: boolean; curvePointsConverged: number; curvePoints: number; chosenPenalty: number; df: number; atEdge: boolean; converged: boolean };
+      const runs: CvRun[] = [];
       for (let r = 0; r < repeats; r++) {
-        const code = `require(${JSON.stringify(__filename)}).childCv(${n}, ${k})`;
-        const p = spawnSync(process.execPath, ['--max-old-space-size=8192', '-e', code], { encoding: 'utf8', timeout: 1200 * 1000, maxBuffer: 1 << 20 });
-        if (p.status === 0) { try { runs.push(JSON.parse(p.stdout.trim().split('\n').pop()!)); } catch { /* a failed run is reported by its absence */ } }
+        // a failed run is reported by its absence
+        const p = inFreshProcess<CvRun>(`childCv(${n}, ${k})`, 1200);
+        if (p) runs.push(p);
       }
       const rec: Record<string, unknown> = { bench: 'trend-cv', order: k, n, folds: 5, gridSize: 30, repeats, completed: runs.length, loadAverageBefore: load0, loadAverageAfter: os.loadavg()[0] };
       if (runs.length) {
