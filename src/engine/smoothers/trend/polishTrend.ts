@@ -318,8 +318,7 @@ export function certify(y: Float64Array, w: Float64Array, lambda: number, last: 
   const um = last.umax ?? maxAbs(u);
   const delta = Math.max(0, um / lambda - 1);
   if (!optimal && !anyScale && delta > 1e-4) return fail();
-  let l1 = 0, ud = 0;
-  for (let j = 0; j < rows.length; j++) { l1 += Math.abs(dA[j]); ud += u[rows[j]] * dA[j]; }
+  const { l1, ud } = knotSums(u, rows, dA);
   const achieved = restrictedGap(lambda, delta, rss, yg, l1, ud);
   // a round checked against a target it misses: no result arrays needed
   if (!(achieved <= within)) return { ok: false, b, u, knots: [], dKnots: new Float64Array(0), achieved, rounds };
@@ -379,11 +378,20 @@ export function restrictedGap(lambda: number, delta: number, rss: number, yg: nu
  */
 export function gapAgainstDual(lambda: number, rss: number, b: Float64Array, w: Float64Array, rows: ArrayLike<number>, dA: Float64Array, v: Float64Array, bv: Float64Array): number {
   if (!(maxAbs(v) <= lambda)) return Infinity;
-  let l1 = 0, vd = 0;
-  for (let j = 0; j < rows.length; j++) { l1 += Math.abs(dA[j]); vd += v[rows[j]] * dA[j]; }
-  const gap = 0.5 * weightedSquaredDistance(b, bv, w) + Math.max(lambda * l1 - vd, 0);
+  const { l1, ud } = knotSums(v, rows, dA);
+  const gap = 0.5 * weightedSquaredDistance(b, bv, w) + Math.max(lambda * l1 - ud, 0);
   const obj = rss + lambda * l1;
   return obj > 0 ? gap / obj : 0;
+}
+
+/**
+ * The sums of a certificate's penalty terms over the knot rows, where D b = dA (zero elsewhere):
+ * l1 = ||D b||_1 = sum |dA_j| and ud = u.D b = sum u_{rows_j} dA_j. Unchecked.
+ */
+function knotSums(u: Float64Array, rows: ArrayLike<number>, dA: Float64Array): { l1: number; ud: number } {
+  let l1 = 0, ud = 0;
+  for (let j = 0; j < rows.length; j++) { l1 += Math.abs(dA[j]); ud += u[rows[j]] * dA[j]; }
+  return { l1, ud };
 }
 
 /** sum w (a - c)^2 over the points. Unchecked. */

@@ -613,11 +613,10 @@ function interiorPointThenRefine(ctx: SolveContext): TrendFit {
     if (maxAbsDifference(residualDual(x01, k + 1, y, w, sol.b).u, u01, u01.length) <= DUAL_RECOVERY_LIMIT * (lambda / f)) {
       const asn = activeSetNewton(x01, y, w, k, lambda / f, rows, rows.map((r) => (sol.u[r] >= 0 ? 1 : -1)), NEWTON_ROUNDS, cache, 0, true, Infinity, false, { v: u01, bv: sol.b, within: tolerance });
       ctx.iterations += asn.rounds;
-      if (asn.settled) {
-        // the settled round comes certified; a refinement round only when its certificate failed
-        pol = asn.fit ?? refineFromKnots(ctx, asn.rows, asn.signs);
-        if (certifiedAt(pol, tolerance)) return refinedFit(pol, f, lambda, tolerance, ctx.iterations - pol.rounds + sol.status.iterations);
-      }
+      // a settled round always comes with its certificate (its own, or the interior point's dual's
+      // where that is smaller); kept when it meets the tolerance
+      const settled = asn.settled ? asn.fit : undefined;
+      if (settled && certifiedAt(settled, tolerance)) return refinedFit(settled, f, lambda, tolerance, ctx.iterations - settled.rounds + sol.status.iterations);
     }
     return trendFit(sol.b, sol.u, lambda, rows, { ...sol.status, iterations: ctx.iterations + sol.status.iterations, stoppingRule: TREND_RULE });
   }
